@@ -1,0 +1,93 @@
+// Units are parsed here, once, at the edge of the program; everything past this module is SI
+// (metres, radians).
+
+const LENGTH_UNITS: Record<string, number> = {
+  pm: 1e-12,
+  nm: 1e-9,
+  um: 1e-6,
+  'µm': 1e-6, // U+00B5 MICRO SIGN
+  'μm': 1e-6, // U+03BC GREEK SMALL LETTER MU, which keyboards also produce
+  micron: 1e-6,
+  microns: 1e-6,
+  mm: 1e-3,
+  cm: 1e-2,
+  m: 1,
+};
+
+const ANGLE_UNITS: Record<string, number> = {
+  rad: 1,
+  mrad: 1e-3,
+  urad: 1e-6,
+  'µrad': 1e-6,
+  'μrad': 1e-6,
+  deg: Math.PI / 180,
+  '°': Math.PI / 180,
+  arcmin: Math.PI / 180 / 60,
+  arcsec: Math.PI / 180 / 3600,
+};
+
+const QUANTITY = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([^\s\d.+-][^\s]*)?\s*$/;
+
+export type UnitKind = 'length' | 'angle';
+
+export interface ParsedQuantity {
+  ok: true;
+  value: number;
+}
+export interface QuantityError {
+  ok: false;
+  reason: string;
+}
+
+/** Parses a number (already SI) or a string with a unit into SI. */
+export function parseQuantity(input: unknown, kind: UnitKind): ParsedQuantity | QuantityError {
+  const table = kind === 'length' ? LENGTH_UNITS : ANGLE_UNITS;
+  if (typeof input === 'number') {
+    if (!Number.isFinite(input)) return { ok: false, reason: 'not a finite number' };
+    return { ok: true, value: input };
+  }
+  if (typeof input !== 'string') return { ok: false, reason: `a ${typeof input} is not a ${kind}` };
+  const m = QUANTITY.exec(input);
+  if (!m) return { ok: false, reason: `cannot read '${input}' as a number with a unit` };
+  const num = Number(m[1]);
+  const unit = m[2];
+  if (unit === undefined) {
+    // A bare number in a string is taken as SI, like a bare number.
+    return { ok: true, value: num };
+  }
+  const factor = table[unit] ?? table[unit.toLowerCase()];
+  if (factor === undefined) {
+    const known = Object.keys(table).filter((u) => !u.includes('μ')).join(', ');
+    return { ok: false, reason: `unknown ${kind} unit '${unit}' (known: ${known})` };
+  }
+  return { ok: true, value: num * factor };
+}
+
+/** Formats a length for people: 6.33e-7 -> "633 nm". */
+export function formatLength(metres: number, digits = 4): string {
+  if (!Number.isFinite(metres)) return String(metres);
+  const a = Math.abs(metres);
+  const [unit, f] =
+    a === 0 ? ['m', 1] : a < 1e-6 ? ['nm', 1e-9] : a < 1e-3 ? ['µm', 1e-6] : a < 1 ? ['mm', 1e-3] : ['m', 1];
+  return `${trimNumber(metres / f, digits)} ${unit}`;
+}
+
+/** Formats an angle in degrees with a milliradian value beside it when it is small. */
+export function formatAngle(rad: number): string {
+  const deg = (rad * 180) / Math.PI;
+  if (Math.abs(rad) < 0.1 && rad !== 0) return `${trimNumber(rad * 1e3, 4)} mrad`;
+  return `${trimNumber(deg, 4)}°`;
+}
+
+/** Compact, file-name-safe length token: 6.33e-7 -> "633nm", 0.0125 -> "12.5mm". */
+export function lengthToken(metres: number): string {
+  return formatLength(metres, 6).replace(' ', '').replace('µ', 'u');
+}
+
+export function trimNumber(x: number, digits: number): string {
+  if (x === 0) return '0';
+  const s = Number(x.toPrecision(digits));
+  const abs = Math.abs(s);
+  if (abs >= 1e6 || abs < 1e-4) return s.toExponential(Math.max(0, digits - 1)).replace(/\.?0+e/, 'e');
+  return String(s);
+}

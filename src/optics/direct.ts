@@ -1,0 +1,233 @@
+// Propagators that evaluate the diffraction integral directly onto a chosen output grid:
+// the Fresnel integral (single-transform form, paraxial) and the far-field formula.
+import { dft1, dft2, dft2AtPoints } from './dft.js';
+import { axisAt, createField, isOneD, xAxisOf, yAxisOf, type Axis, type Field } from './field.js';
+import { propagationPhase, rotate } from './phase.js';
+import { cellResponse } from './spectral.js';
+
+function axisValues(a: Axis, scale: number, offset: number): Float64Array {
+  const v = new Float64Array(a.n);
+  for (let j = 0; j < a.n; j++) v[j] = axisAt(a, j) * scale + offset;
+  return v;
+}
+
+/**
+ * Fresnel integral in its single-transform form (Goodman, Introduction to Fourier Optics, eq. 4-17):
+ * U(x,y) = e^{ikz}/(iλz) e^{iπ(x²+y²)/λz} ∬ U₀ e^{iπ(ξ²+η²)/λz} e^{−i2π(xξ+yη)/λz} dξdη,
+ * evaluated at any output axes. For 1-D fields the prefactor is e^{ikz}/√(iλz).
+ * carrier = [α/λ, β/λ]: a tilt that the source does not contain, applied as a frequency shift.
+ */
+export function propagateFresnelDirect(
+  src: Field,
+  z: number,
+  outX: Axis,
+  outY: Axis | null,
+  carrier: [number, number] = [0, 0],
+): Field {
+  const lam = src.wavelength;
+  const oneD = isOneD(src);
+  const chirp = Math.PI / (lam * z);
+  const u = new Float64Array(src.data);
+  for (let r = 0; r < src.ny; r++) {
+    const y = src.y0 + r * src.dy;
+    for (let c = 0; c < src.nx; c++) {
+      const x = src.x0 + c * src.dx;
+      rotate(u, 2 * (r * src.nx + c), chirp * (x * x + y * y));
+    }
+  }
+  const fx = axisValues(outX, 1 / (lam * z), -carrier[0]);
+  const out = createField(outX, oneD ? null : outY, lam);
+  if (oneD) {
+    out.data.set(dft1(u, xAxisOf(src), fx));
+  } else {
+    if (!outY) throw new Error('a 2-D field needs a y output axis');
+    const fy = axisValues(outY, 1 / (lam * z), -carrier[1]);
+    out.data.set(dft2(u, xAxisOf(src), yAxisOf(src)!, fx, fy));
+  }
+  const kz = propagationPhase(z, lam);
+  const amp = oneD ? 1 / Math.sqrt(lam * z) : 1 / (lam * z);
+  const iPhase = oneD ? -Math.PI / 4 : -Math.PI / 2; // 1/√i or 1/i
+  for (let r = 0; r < out.ny; r++) {
+    const y = oneD ? 0 : out.y0 + r * out.dy;
+    for (let c = 0; c < out.nx; c++) {
+      const x = out.x0 + c * out.dx;
+      rotate(out.data, 2 * (r * out.nx + c), kz + iPhase + chirp * (x * x + y * y), amp);
+    }
+  }
+  return out;
+}
+
+export interface FarFieldOptions {
+  /**
+   * Largest phase error (rad) that evaluating the spectrum at x/(λz) instead of x/(λr) may cause
+   * across the aperture; below it the separable fast path is taken. Default 1e-4.
+   */
+  mappingTolerance?: number;
+}
+
+/**
+ * Far-field (Fraunhofer) formula in direction cosines, from the Rayleigh–Sommerfeld integral with
+ * r ≫ aperture (Goodman, Introduction to Fourier Optics, §4.2–4.3 with the obliquity kept):
+ * U(x,y) = (z/r) e^{ikr}/(iλr) · Â(x/(λr) − α/λ, y/(λr) − β/λ),  r = √(x²+y²+z²).
+ * Non-paraxial in the observation angle; it neglects only the aperture's own quadratic phase
+ * (π N_F). For 1-D fields the prefactor is (z/r) e^{ikr}/√(iλr).
+ */
+export function propagateFarField(
+  src: Field,
+  z: number,
+  outX: Axis,
+  outY: Axis | null,
+  carrier: [number, number] = [0, 0],
+  opts: FarFieldOptions = {},
+): Field {
+  const lam = src.wavelength;
+  const oneD = isOneD(src);
+  const out = createField(outX, oneD ? null : outY, lam);
+  if (oneD) {
+    const fx = new Float64Array(outX.n);
+    for (let c = 0; c < outX.n; c++) {
+      const x = axisAt(outX, c);
+      fx[c] = x / (lam * Math.hypot(x, z)) - carrier[0];
+    }
+    out.data.set(dft1(src.data, xAxisOf(src), fx));
+    divideCellResponse(out.data, fx, null, src.dx, 0);
+  } else {
+    if (!outY) throw new Error('a 2-D field needs a y output axis');
+    const tol = opts.mappingTolerance ?? 1e-4;
+    const spectrum = farFieldSpectrum2D(src, z, outX, outY, carrier, tol);
+    out.data.set(spectrum);
+  }
+  applyFarFieldFactor(out, z);
+  return out;
+}
+
+/** Largest |x/(λr) − x/(λz)| over the window, times 2π·(half extent): the fast path's phase error. */
+export function mappingError(halfExtent: [number, number], z: number, outX: Axis, outY: Axis | null, lam: number) {
+  const xs = [axisAt(outX, 0), axisAt(outX, outX.n - 1)];
+  const ys = outY ? [axisAt(outY, 0), axisAt(outY, outY.n - 1)] : [0];
+  let worst = 0;
+  for (const x of xs) {
+    for (const y of ys) {
+      const r = Math.sqrt(x * x + y * y + z * z);
+      const dfx = Math.abs(x) * (1 / z - 1 / r) / lam;
+      const dfy = Math.abs(y) * (1 / z - 1 / r) / lam;
+      worst = Math.max(worst, 2 * Math.PI * (halfExtent[0] * dfx + halfExtent[1] * dfy));
+    }
+  }
+  return worst;
+}
+
+function farFieldSpectrum2D(
+  src: Field,
+  z: number,
+  outX: Axis,
+  outY: Axis,
+  carrier: [number, number],
+  tol: number,
+): Float64Array {
+  const lam = src.wavelength;
+  const xi = xAxisOf(src);
+  const eta = yAxisOf(src)!;
+  const half: [number, number] = [
+    Math.max(Math.abs(xi.start), Math.abs(axisAt(xi, xi.n - 1))),
+    Math.max(Math.abs(eta.start), Math.abs(axisAt(eta, eta.n - 1))),
+  ];
+  if (mappingError(half, z, outX, outY, lam) <= tol) {
+    const fxs = axisValues(outX, 1 / (lam * z), -carrier[0]);
+    const fys = axisValues(outY, 1 / (lam * z), -carrier[1]);
+    const out = dft2(src.data, xi, eta, fxs, fys);
+    const gx = new Float64Array(outX.n);
+    for (let c = 0; c < outX.n; c++) gx[c] = 1 / cellResponse(fxs[c]!, xi.step);
+    for (let r = 0; r < outY.n; r++) {
+      const gy = 1 / cellResponse(fys[r]!, eta.step);
+      for (let c = 0; c < outX.n; c++) {
+        const i = 2 * (r * outX.n + c);
+        out[i] = out[i]! * gx[c]! * gy;
+        out[i + 1] = out[i + 1]! * gx[c]! * gy;
+      }
+    }
+    return out;
+  }
+  const n = outX.n * outY.n;
+  const fx = new Float64Array(n);
+  const fy = new Float64Array(n);
+  for (let r = 0; r < outY.n; r++) {
+    const y = axisAt(outY, r);
+    for (let c = 0; c < outX.n; c++) {
+      const x = axisAt(outX, c);
+      const rr = Math.sqrt(x * x + y * y + z * z);
+      fx[r * outX.n + c] = x / (lam * rr) - carrier[0];
+      fy[r * outX.n + c] = y / (lam * rr) - carrier[1];
+    }
+  }
+  const out = dft2AtPoints(src.data, xi, eta, fx, fy);
+  divideCellResponse(out, fx, fy, xi.step, eta.step);
+  return out;
+}
+
+/**
+ * Area-sampled masks carry the cell response sinc(fΔ) in their spectrum (see spectral.ts);
+ * dividing it out at the evaluated frequencies gives the aperture's own spectrum.
+ */
+function divideCellResponse(spec: Float64Array, fx: Float64Array, fy: Float64Array | null, dx: number, dy: number): void {
+  for (let i = 0; i < fx.length; i++) {
+    const g = 1 / (cellResponse(fx[i]!, dx) * (fy ? cellResponse(fy[i]!, dy) : 1));
+    spec[2 * i] = spec[2 * i]! * g;
+    spec[2 * i + 1] = spec[2 * i + 1]! * g;
+  }
+}
+
+/** Multiplies a computed spectrum by the far-field prefactor (z/r)e^{ikr}/(iλr) (1-D: /√(iλr)). */
+export function applyFarFieldFactor(out: Field, z: number): void {
+  const lam = out.wavelength;
+  const oneD = isOneD(out);
+  const iPhase = oneD ? -Math.PI / 4 : -Math.PI / 2;
+  for (let r = 0; r < out.ny; r++) {
+    const y = oneD ? 0 : out.y0 + r * out.dy;
+    for (let c = 0; c < out.nx; c++) {
+      const x = out.x0 + c * out.dx;
+      const rr = Math.sqrt(x * x + y * y + z * z);
+      const amp = (z / rr) * (oneD ? 1 / Math.sqrt(lam * rr) : 1 / (lam * rr));
+      rotate(out.data, 2 * (r * out.nx + c), propagationPhase(rr, lam) + iPhase, amp);
+    }
+  }
+}
+
+/**
+ * Far field of a separable source U₀(ξ,η) = ux(ξ)·uy(η): Â = Âx·Ây, each 1-D sum evaluated at the
+ * point's own direction cosine, so the exact (non-paraxial) mapping costs only M²(nx+ny).
+ */
+export function propagateFarFieldSeparable(
+  ux: Field,
+  uy: Field,
+  z: number,
+  outX: Axis,
+  outY: Axis,
+  carrier: [number, number] = [0, 0],
+): Field {
+  const lam = ux.wavelength;
+  const out = createField(outX, outY, lam);
+  const n = outX.n;
+  for (let r = 0; r < outY.n; r++) {
+    const y = axisAt(outY, r);
+    const fx = new Float64Array(n);
+    const fy = new Float64Array(n);
+    for (let c = 0; c < n; c++) {
+      const x = axisAt(outX, c);
+      const rr = Math.sqrt(x * x + y * y + z * z);
+      fx[c] = x / (lam * rr) - carrier[0];
+      fy[c] = y / (lam * rr) - carrier[1];
+    }
+    const ax = dft1(ux.data, xAxisOf(ux), fx);
+    const ay = dft1(uy.data, xAxisOf(uy), fy);
+    divideCellResponse(ax, fx, null, ux.dx, 0);
+    divideCellResponse(ay, fy, null, uy.dx, 0);
+    for (let c = 0; c < n; c++) {
+      const i = 2 * (r * n + c);
+      out.data[i] = ax[2 * c]! * ay[2 * c]! - ax[2 * c + 1]! * ay[2 * c + 1]!;
+      out.data[i + 1] = ax[2 * c]! * ay[2 * c + 1]! + ax[2 * c + 1]! * ay[2 * c]!;
+    }
+  }
+  applyFarFieldFactor(out, z);
+  return out;
+}

@@ -1,0 +1,76 @@
+// Complex FFTs on interleaved Float64Arrays, built on fft.js. Plans (twiddle tables) are made once
+// per size and kept, because sweeps transform many fields of the same size.
+import FFT from 'fft.js';
+
+const plans = new Map<number, FFT>();
+const scratch = new Map<number, { a: Float64Array; b: Float64Array }>();
+
+function plan(n: number): FFT {
+  let p = plans.get(n);
+  if (!p) {
+    p = new FFT(n);
+    plans.set(n, p);
+  }
+  return p;
+}
+
+function buffers(n: number) {
+  let s = scratch.get(n);
+  if (!s) {
+    s = { a: new Float64Array(2 * n), b: new Float64Array(2 * n) };
+    scratch.set(n, s);
+  }
+  return s;
+}
+
+export function isPowerOfTwo(n: number): boolean {
+  return Number.isInteger(n) && n >= 2 && (n & (n - 1)) === 0;
+}
+
+export function nextPowerOfTwo(n: number): number {
+  let p = 2;
+  while (p < n) p *= 2;
+  return p;
+}
+
+/**
+ * In-place 2-D FFT of an ny×nx interleaved complex array (ny = 1 gives a 1-D transform).
+ * Forward: X[k] = Σ x[j] e^{-2πi jk/n}; inverse includes the 1/n factor per axis.
+ */
+export function fft2(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
+  if (!isPowerOfTwo(nx) || (ny !== 1 && !isPowerOfTwo(ny))) {
+    throw new Error(`FFT sizes must be powers of two, got ${nx}×${ny}`);
+  }
+  const px = plan(nx);
+  const bx = buffers(nx);
+  for (let r = 0; r < ny; r++) {
+    const row = data.subarray(2 * r * nx, 2 * (r + 1) * nx);
+    if (inverse) px.inverseTransform(bx.b, row);
+    else px.transform(bx.b, row);
+    row.set(bx.b);
+  }
+  if (ny === 1) return;
+  const py = plan(ny);
+  const by = buffers(ny);
+  const col = by.a;
+  for (let c = 0; c < nx; c++) {
+    for (let r = 0; r < ny; r++) {
+      const i = 2 * (r * nx + c);
+      col[2 * r] = data[i]!;
+      col[2 * r + 1] = data[i + 1]!;
+    }
+    if (inverse) py.inverseTransform(by.b, col);
+    else py.transform(by.b, col);
+    const out = by.b;
+    for (let r = 0; r < ny; r++) {
+      const i = 2 * (r * nx + c);
+      data[i] = out[2 * r]!;
+      data[i + 1] = out[2 * r + 1]!;
+    }
+  }
+}
+
+/** Spatial frequency of FFT bin k on an n-point grid of pitch d (bins past n/2 are negative). */
+export function binFrequency(k: number, n: number, d: number): number {
+  return (k < n / 2 ? k : k - n) / (n * d);
+}

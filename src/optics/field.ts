@@ -1,0 +1,100 @@
+// The one complex-field type of the program. Samples are interleaved (re, im) in row-major order,
+// index [row][col] = [y][x]; sample (row, col) sits at (x0 + col·dx, y0 + row·dy). A field with
+// ny = 1 is 1-D: invariant along y (a slit or a grating of infinitely long lines), and dy is 0.
+
+export interface Field {
+  data: Float64Array;
+  nx: number;
+  ny: number;
+  dx: number;
+  dy: number;
+  x0: number;
+  y0: number;
+  wavelength: number;
+}
+
+/** A regular set of sample positions along one axis: x_j = start + j·step, j = 0..n-1. */
+export interface Axis {
+  n: number;
+  start: number;
+  step: number;
+}
+
+export function axisAt(a: Axis, j: number): number {
+  return a.start + j * a.step;
+}
+
+/** n samples at pitch step, placed symmetrically about centre. */
+export function centredAxis(n: number, step: number, centre = 0): Axis {
+  return { n, start: centre - ((n - 1) / 2) * step, step };
+}
+
+/** The sample layout of FFT grids: x = 0 falls on index n/2. */
+export function fftAxis(n: number, step: number): Axis {
+  return { n, start: -Math.floor(n / 2) * step, step };
+}
+
+export function isOneD(f: Field): boolean {
+  return f.ny === 1 && f.dy === 0;
+}
+
+export function createField(xAxis: Axis, yAxis: Axis | null, wavelength: number): Field {
+  const ny = yAxis ? yAxis.n : 1;
+  return {
+    data: new Float64Array(2 * xAxis.n * ny),
+    nx: xAxis.n,
+    ny,
+    dx: xAxis.step,
+    dy: yAxis ? yAxis.step : 0,
+    x0: xAxis.start,
+    y0: yAxis ? yAxis.start : 0,
+    wavelength,
+  };
+}
+
+export function xAxisOf(f: Field): Axis {
+  return { n: f.nx, start: f.x0, step: f.dx };
+}
+
+export function yAxisOf(f: Field): Axis | null {
+  return isOneD(f) ? null : { n: f.ny, start: f.y0, step: f.dy };
+}
+
+/** Area (2-D) or length (1-D) of one sample cell. */
+export function cellMeasure(f: Field): number {
+  return isOneD(f) ? f.dx : f.dx * f.dy;
+}
+
+/** |U|² per sample: intensity relative to the incident irradiance when the input was scaled so. */
+export function intensityOf(f: Field): Float64Array {
+  const n = f.nx * f.ny;
+  const out = new Float64Array(n);
+  const d = f.data;
+  for (let i = 0; i < n; i++) {
+    const re = d[2 * i]!;
+    const im = d[2 * i + 1]!;
+    out[i] = re * re + im * im;
+  }
+  return out;
+}
+
+/** ∫|U|² over the sampled region (power per unit length for 1-D fields). */
+export function powerOf(f: Field): number {
+  const d = f.data;
+  let s = 0;
+  for (let i = 0; i < d.length; i++) s += d[i]! * d[i]!;
+  return s * cellMeasure(f);
+}
+
+/** Multiplies every sample by exp(iφ)·scale. */
+export function scaleField(f: Field, scale: number, phase = 0): void {
+  const c = scale * Math.cos(phase);
+  const s = scale * Math.sin(phase);
+  const d = f.data;
+  for (let i = 0; i < d.length; i += 2) {
+    const re = d[i]!;
+    const im = d[i + 1]!;
+    d[i] = re * c - im * s;
+    d[i + 1] = re * s + im * c;
+  }
+}

@@ -1,0 +1,97 @@
+import type { Aperture, Illumination } from '../optics/aperture.js';
+import type { Axis } from '../optics/field.js';
+import type { MethodRequest } from '../job/schema.js';
+
+export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer';
+export type FresnelForm = 'transfer-function' | 'direct';
+export type Regime = 'near-field' | 'transition' | 'far-field';
+/** one-d: invariant along y; separable: x-problem × y-problem; two-d: a full 2-D grid. */
+export type Layout = 'one-d' | 'separable' | 'two-d';
+
+export interface Warning {
+  code: string;
+  message: string;
+}
+
+/** One computed case: a point of the job's sweep. */
+export interface Case {
+  job: string;
+  index: number;
+  /** Folder name, unique within the job. */
+  id: string;
+  wavelength: number;
+  distance: number;
+  aperture: Aperture;
+  illumination: Illumination;
+  grid?: { size?: number; pitch?: number };
+  window?: [number, number];
+  method: MethodRequest;
+  /** Values of the swept keys for this case, by dotted key path (SI units). */
+  swept: Record<string, number>;
+  output: { npy: 'float64' | 'float32'; logDecades: number };
+}
+
+export interface AxisPlan {
+  /** Pitch of the aperture-plane samples. */
+  inputPitch: number;
+  /** Aperture-plane samples (before padding). */
+  inputSamples: number;
+  /** Samples after zero padding (FFT methods); equals inputSamples for direct methods. */
+  paddedSamples: number;
+  /** Output samples: the observation window. */
+  output: Axis;
+  /** Half extent of the illuminated aperture along this axis. */
+  apertureHalf: number;
+  windowHalf: number;
+  windowCentre: number;
+  /** The pitch the accuracy rules asked for, and which rule set it. */
+  requiredPitch: number;
+  pitchRule: string;
+}
+
+export interface Checks {
+  /** a in N_F = a²/(λz), per axis. */
+  fresnelNumbers: [number, number | null];
+  /** N_F used for the regime (with a Gaussian beam narrower than the aperture, the beam's). */
+  effectiveFresnelNumber: number;
+  /** 2D²/λ with D the largest aperture dimension (common practice far-field distance). */
+  farFieldDistance: number;
+  /** Peak-to-peak quartic phase the paraxial approximation drops over the spot region (rad). */
+  paraxialPhaseError: number;
+  /** Goodman's sufficient condition z³ ≫ (π/4λ)·max ρ⁴ as the ratio (π/4λ)ρ⁴/z³ over the window. */
+  goodmanRatio: number;
+  /** The aperture's quadratic phase π·N_F that the far-field formula neglects (rad). */
+  farFieldPhaseError: number;
+  /** Estimated fraction of power outside the window (before computing). */
+  windowLossEstimate: number;
+  /** Smallest feature over wavelength. */
+  featureOverWavelength: number;
+  /** Samples across the smallest feature. */
+  samplesPerFeature: number;
+  /** Fresnel TF sampling: Δx / (λz/L); ≥ 1 is adequately sampled (Voelz). */
+  transferSampling?: number;
+  /** Band-limit frequency (1/m) of the angular spectrum, per axis. */
+  bandLimit?: [number, number | null];
+}
+
+export interface Plan {
+  case: Case;
+  regime: Regime;
+  method: MethodName;
+  form?: FresnelForm;
+  layout: Layout;
+  /** Opaque apertures: U = U_free − U_open (Babinet). */
+  babinet: boolean;
+  x: AxisPlan;
+  y: AxisPlan | null;
+  checks: Checks;
+  reasons: string[];
+  warnings: Warning[];
+  memoryBytes: number;
+  /** Rough count of floating-point operations, for ordering and progress. */
+  work: number;
+  /** A Gaussian beam's radius at the observation plane (m). */
+  beamRadius?: number;
+  /** Set when the case cannot be computed as planned (it is then reported, not run). */
+  error?: string;
+}

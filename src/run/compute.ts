@@ -1,0 +1,202 @@
+// Carries out a plan: builds the source field, propagates it with the planned method and layout,
+// cuts out the window and measures the numerical diagnostics the validity checks need.
+import { isOneDAperture, separableProfiles } from '../optics/aperture.js';
+import { centredAxis, createField, fftAxis, intensityOf, powerOf, type Axis, type Field } from '../optics/field.js';
+import { propagateFarField, propagateFarFieldSeparable, propagateFresnelDirect } from '../optics/direct.js';
+import { complementInPlace, freeField } from '../optics/free.js';
+import { carrierFrequencies, sourceField1D, sourceField2D } from '../optics/source.js';
+import {
+  compensateCellResponse,
+  padField,
+  propagateAngularSpectrum,
+  propagateFresnelTransfer,
+  type SpectralReport,
+} from '../optics/spectral.js';
+import { propagationPhase, rotate } from '../optics/phase.js';
+import { LIMITS } from '../plan/limits.js';
+import type { AxisPlan, Plan } from '../plan/types.js';
+
+export interface Diagnostics {
+  /** Power through the aperture (W per unit incident irradiance; per metre of slit length in 1-D). */
+  powerIn: number;
+  /** Power of the diffracted (open-part) field inside the window. */
+  powerInWindow: number;
+  bandLimitLoss?: number;
+  evanescentLoss?: number;
+  /** Fraction of the power in the outer frame of the padded FFT grid (wrap-around risk). */
+  edgeEnergy?: number;
+}
+
+export interface ComputedCase {
+  /** |U|² relative to the incident irradiance, row-major [rows][cols]. */
+  intensity: Float64Array;
+  rows: number;
+  cols: number;
+  /** [dx, dy]; dy is null for 1-D results (invariant along y). */
+  pitch: [number, number | null];
+  /** Coordinates of sample [0][0]. */
+  origin: [number, number];
+  /** [col, row] of the optical axis (x = y = 0), fractional in general. */
+  center: [number, number];
+  diagnostics: Diagnostics;
+}
+
+function sourceAxis(a: AxisPlan, fft: boolean): Axis {
+  return fft ? fftAxis(a.inputSamples, a.inputPitch) : centredAxis(a.inputSamples, a.inputPitch);
+}
+
+/** Copies the samples of f that fall on the output axes (which lie on f's lattice). */
+function cropTo(f: Field, outX: Axis, outY: Axis | null): Field {
+  const out = createField(outX, outY, f.wavelength);
+  const c0 = Math.round((outX.start - f.x0) / f.dx);
+  const r0 = outY ? Math.round((outY.start - f.y0) / f.dy) : 0;
+  for (let r = 0; r < out.ny; r++) {
+    const src = 2 * ((r + r0) * f.nx + c0);
+    out.data.set(f.data.subarray(src, src + 2 * out.nx), 2 * r * out.nx);
+  }
+  return out;
+}
+
+function edgeEnergy(f: Field): number {
+  const fx = Math.max(1, Math.floor(f.nx * LIMITS.edgeFrame));
+  const fy = f.ny === 1 ? 0 : Math.max(1, Math.floor(f.ny * LIMITS.edgeFrame));
+  let edge = 0;
+  let total = 0;
+  for (let r = 0; r < f.ny; r++) {
+    const rowEdge = r < fy || r >= f.ny - fy;
+    for (let c = 0; c < f.nx; c++) {
+      const i = 2 * (r * f.nx + c);
+      const p = f.data[i]! * f.data[i]! + f.data[i + 1]! * f.data[i + 1]!;
+      total += p;
+      if (rowEdge || c < fx || c >= f.nx - fx) edge += p;
+    }
+  }
+  return total > 0 ? edge / total : 0;
+}
+
+interface Propagated {
+  field: Field;
+  report?: SpectralReport;
+  edge?: number;
+}
+
+/** Propagates a source with an FFT method on the padded grid and cuts out the window. */
+/** Propagates a source with an FFT method on its padded grid and cuts out the window. */
+function propagateOnGrid(
+  src: Field,
+  plan: Plan,
+  padded: [number, number],
+  outX: Axis,
+  outY: Axis | null,
+  carrier: [number, number],
+): Propagated {
+  const z = plan.case.distance;
+  const grid = padField(src, padded[0], padded[1]);
+  const comp = { carrier };
+  const report =
+    plan.method === 'angular-spectrum' ? propagateAngularSpectrum(grid, z, comp) : propagateFresnelTransfer(grid, z, comp);
+  return { field: cropTo(grid, outX, outY), report, edge: edgeEnergy(grid) };
+}
+
+function propagate1D(src: Field, plan: Plan, axis: AxisPlan, carrier: number): Propagated {
+  const z = plan.case.distance;
+  if (plan.method === 'angular-spectrum' || plan.form === 'transfer-function') {
+    return propagateOnGrid(src, plan, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]);
+  }
+  if (plan.method === 'fresnel') {
+    compensateCellResponse(src);
+    return { field: propagateFresnelDirect(src, z, axis.output, null, [carrier, 0]) };
+  }
+  return { field: propagateFarField(src, z, axis.output, null, [carrier, 0]) };
+}
+
+export function computeCase(plan: Plan): ComputedCase {
+  if (plan.error) throw new Error(plan.error);
+  const c = plan.case;
+  const lam = c.wavelength;
+  const z = c.distance;
+  const ill = c.illumination;
+  const fft = plan.method === 'angular-spectrum' || plan.form === 'transfer-function';
+  const carrier = carrierFrequencies(ill, lam);
+  const outX = plan.x.output;
+  const outY = plan.y ? plan.y.output : null;
+  const opts = { sampleCarrier: fft };
+  let result: Propagated;
+  let powerIn: number;
+
+  if (plan.layout === 'one-d') {
+    if (!isOneDAperture(c.aperture)) throw new Error('one-d layout for a 2-D aperture');
+    const prof = separableProfiles(c.aperture)!.x;
+    const src = sourceField1D(prof, ill, sourceAxis(plan.x, fft), lam, carrier[0], opts);
+    powerIn = src.power;
+    result = propagate1D(src.field, plan, plan.x, carrier[0]);
+  } else if (plan.layout === 'separable') {
+    const prof = separableProfiles(c.aperture)!;
+    const yPlan = plan.y!;
+    const sx = sourceField1D(prof.x, ill, sourceAxis(plan.x, fft), lam, carrier[0], opts);
+    const sy = sourceField1D(prof.y!, ill, sourceAxis(yPlan, fft), lam, carrier[1], opts);
+    powerIn = sx.power * sy.power;
+    if (plan.method === 'fraunhofer') {
+      result = { field: propagateFarFieldSeparable(sx.field, sy.field, z, outX, outY!, carrier) };
+    } else {
+      // Paraxial propagation factorises: U(x,y) = Ux(x)·Uy(y)·e^{−ikz} (each 1-D factor carries e^{ikz}).
+      const px = propagate1D(sx.field, plan, plan.x, carrier[0]);
+      const py = propagate1D(sy.field, plan, yPlan, carrier[1]);
+      const f = createField(outX, outY, lam);
+      const kz = propagationPhase(z, lam);
+      for (let r = 0; r < f.ny; r++) {
+        const ar = py.field.data[2 * r]!;
+        const ai = py.field.data[2 * r + 1]!;
+        for (let col = 0; col < f.nx; col++) {
+          const br = px.field.data[2 * col]!;
+          const bi = px.field.data[2 * col + 1]!;
+          const i = 2 * (r * f.nx + col);
+          f.data[i] = ar * br - ai * bi;
+          f.data[i + 1] = ar * bi + ai * br;
+          rotate(f.data, i, -kz);
+        }
+      }
+      const loss = (a?: number, b?: number) => (a === undefined ? undefined : 1 - (1 - a) * (1 - (b ?? 0)));
+      const merged: SpectralReport | undefined = px.report
+        ? {
+            bandLimitLoss: loss(px.report.bandLimitLoss, py.report?.bandLimitLoss)!,
+            evanescentLoss: loss(px.report.evanescentLoss, py.report?.evanescentLoss)!,
+            bandLimit: [px.report.bandLimit[0], py.report?.bandLimit[0] ?? Infinity],
+          }
+        : undefined;
+      result = {
+        field: f,
+        ...(merged ? { report: merged } : {}),
+        ...(px.edge !== undefined ? { edge: Math.max(px.edge, py.edge ?? 0) } : {}),
+      };
+    }
+  } else {
+    const { field: src, power } = sourceField2D(c.aperture, ill, sourceAxis(plan.x, fft), sourceAxis(plan.y!, fft), lam, opts);
+    powerIn = power;
+    if (fft) result = propagateOnGrid(src, plan, [plan.x.paddedSamples, plan.y!.paddedSamples], outX, outY, carrier);
+    else if (plan.method === 'fresnel') {
+      compensateCellResponse(src);
+      result = { field: propagateFresnelDirect(src, z, outX, outY, carrier) };
+    } else result = { field: propagateFarField(src, z, outX, outY, carrier) };
+  }
+
+  const field = result.field;
+  const powerInWindow = powerOf(field);
+  if (plan.babinet) complementInPlace(field, freeField(ill, z, outX, outY, lam));
+  const intensity = intensityOf(field);
+  const diagnostics: Diagnostics = { powerIn, powerInWindow };
+  if (result.report) {
+    diagnostics.bandLimitLoss = result.report.bandLimitLoss;
+    diagnostics.evanescentLoss = result.report.evanescentLoss;
+  }
+  if (result.edge !== undefined) diagnostics.edgeEnergy = result.edge;
+  return {
+    intensity,
+    rows: field.ny,
+    cols: field.nx,
+    pitch: [field.dx, outY ? field.dy : null],
+    origin: [field.x0, field.y0],
+    center: [-field.x0 / field.dx, outY ? -field.y0 / field.dy : 0],
+    diagnostics,
+  };
+}
