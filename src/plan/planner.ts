@@ -344,12 +344,14 @@ function sample(method: MethodName, g: Geometry, c: Case): Sampling {
   }
   if (method === 'fresnel') {
     const fftPlans = axes.map((i) => fftAxisPlan(g, i, c));
+    const direct = axes.map((i) => directAxisPlan(g, i, c, 'fresnel'));
+    const directCost = costDirect(direct, layout, false);
+    // Voelz's rule: the transfer function is adequately sampled when Δx ≥ λz/L. Where both forms
+    // are valid they give the same answer, and the cheaper one is taken.
     const sampled = fftPlans.every((p) => (p.inputPitch * p.inputPitch * p.paddedSamples) / (g.lam * g.z) >= 1);
-    // Voelz's rule: the transfer function is adequately sampled when Δx ≥ λz/L; otherwise the
-    // single-transform form is the right one (and costs far less in the far field).
-    if (sampled && !c.window) return { form: 'transfer-function', axes: fftPlans, layout, ...costFft(fftPlans, layout) };
-    const plans = axes.map((i) => directAxisPlan(g, i, c, 'fresnel'));
-    return { form: 'direct', axes: plans, layout, ...costDirect(plans, layout, false) };
+    const fftCost = costFft(fftPlans, layout);
+    if (sampled && fftCost.work <= directCost.work) return { form: 'transfer-function', axes: fftPlans, layout, ...fftCost };
+    return { form: 'direct', axes: direct, layout, ...directCost };
   }
   const plans = axes.map((i) => directAxisPlan(g, i, c, 'fraunhofer'));
   return { axes: plans, layout, ...costDirect(plans, layout, true) };

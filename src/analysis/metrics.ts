@@ -1,0 +1,172 @@
+// Numbers read off a computed intensity map: peak, on-axis value, centroid, widths, first minima,
+// power in the window. Positions are in metres in the observation plane, relative to the axis.
+
+export interface IntensityMap {
+  intensity: Float64Array;
+  rows: number;
+  cols: number;
+  pitch: [number, number | null];
+  /** Coordinates (m) of sample [0][0]. */
+  origin: [number, number];
+}
+
+export interface SpotMetrics {
+  peakIntensity: number;
+  peakPosition: [number, number | null];
+  /** Intensity on the optical axis (interpolated), null when the axis is outside the window. */
+  onAxisIntensity: number | null;
+  centroid: [number, number | null];
+  /** Full width at half maximum through the peak, null when the profile does not fall to half. */
+  fwhm: [number | null, number | null];
+  /** Distance from the peak to the first minimum of the profile through it (mean of both sides). */
+  firstMinimum: [number | null, number | null];
+  powerInWindow: number;
+}
+
+function xAt(m: IntensityMap, col: number): number {
+  return m.origin[0] + col * m.pitch[0];
+}
+function yAt(m: IntensityMap, row: number): number {
+  return m.pitch[1] === null ? 0 : m.origin[1] + row * m.pitch[1];
+}
+
+/** Vertex offset of the parabola through three equally spaced samples, in samples (−0.5..0.5). */
+export function parabolicOffset(a: number, b: number, c: number): number {
+  const den = a - 2 * b + c;
+  if (den === 0) return 0;
+  return Math.max(-0.5, Math.min(0.5, (0.5 * (a - c)) / den));
+}
+
+export function profileRow(m: IntensityMap, row: number): Float64Array {
+  return m.intensity.slice(row * m.cols, (row + 1) * m.cols);
+}
+
+export function profileCol(m: IntensityMap, col: number): Float64Array {
+  const out = new Float64Array(m.rows);
+  for (let r = 0; r < m.rows; r++) out[r] = m.intensity[r * m.cols + col]!;
+  return out;
+}
+
+/** Linear interpolation of a profile at a fractional index. */
+function sampleAt(p: Float64Array, t: number): number {
+  const i = Math.floor(t);
+  if (i < 0 || i >= p.length - 1) return i === p.length - 1 && t === i ? p[i]! : NaN;
+  return p[i]! + (t - i) * (p[i + 1]! - p[i]!);
+}
+
+/** Full width at half maximum around index i0 (in samples), by linear interpolation. */
+export function fwhmSamples(p: Float64Array, i0: number): number | null {
+  const half = p[i0]! / 2;
+  if (!(half > 0)) return null;
+  let l = i0;
+  while (l > 0 && p[l]! > half) l--;
+  let r = i0;
+  while (r < p.length - 1 && p[r]! > half) r++;
+  if (p[l]! > half || p[r]! > half) return null;
+  const left = l + (half - p[l]!) / (p[l + 1]! - p[l]!);
+  const right = r - (half - p[r]!) / (p[r - 1]! - p[r]!);
+  return right - left;
+}
+
+/**
+ * Position (fractional index) of a minimum at sample i. A dark zero (intensity below 2 % of the
+ * peak) is where the amplitude changes sign: |A| rises linearly on both sides, so
+ * |x₀ − x_i| = 2h·√I_i/(√I_{i−1} + √I_{i+1}), towards the lower neighbour — exact for a linear
+ * crossing, where a parabola through the intensities would be biased by the lobes' asymmetry.
+ * Shallow minima get the parabola.
+ */
+export function refineMinimum(p: Float64Array, i: number, peak: number): number {
+  const a = p[i - 1]!;
+  const b = p[i]!;
+  const c = p[i + 1]!;
+  if (b < 0.02 * peak) {
+    const sa = Math.sqrt(a);
+    const sc = Math.sqrt(c);
+    if (sa + sc === 0) return i;
+    const d = (2 * Math.sqrt(b)) / (sa + sc);
+    return i + (c < a ? d : -d);
+  }
+  return i + parabolicOffset(a, b, c);
+}
+
+/**
+ * Distance (samples) from i0 to the first local minimum on each side; the mean of both sides, or
+ * the one side found. A minimum must be a real dip (below 1/3 of the peak), not a shoulder.
+ */
+export function firstMinimumSamples(p: Float64Array, i0: number): number | null {
+  const peak = p[i0]!;
+  const side = (dir: 1 | -1): number | null => {
+    for (let i = i0 + dir; i > 0 && i < p.length - 1; i += dir) {
+      if (p[i]! <= p[i - 1]! && p[i]! <= p[i + 1]! && p[i]! < peak / 3) {
+        return Math.abs(refineMinimum(p, i, peak) - i0);
+      }
+    }
+    return null;
+  };
+  const a = side(1);
+  const b = side(-1);
+  if (a !== null && b !== null) return (a + b) / 2;
+  return a ?? b;
+}
+
+export function spotMetrics(m: IntensityMap): SpotMetrics {
+  const { intensity: I, rows, cols } = m;
+  const dx = m.pitch[0];
+  const dy = m.pitch[1];
+  let peak = -Infinity;
+  let pi = 0;
+  let sum = 0;
+  let sx = 0;
+  let sy = 0;
+  for (let r = 0; r < rows; r++) {
+    for (let c = 0; c < cols; c++) {
+      const v = I[r * cols + c]!;
+      if (v > peak) {
+        peak = v;
+        pi = r * cols + c;
+      }
+      sum += v;
+      sx += v * xAt(m, c);
+      sy += v * yAt(m, r);
+    }
+  }
+  const pr = Math.floor(pi / cols);
+  const pc = pi % cols;
+  const rowP = profileRow(m, pr);
+  const colP = dy === null ? null : profileCol(m, pc);
+  const refine = (p: Float64Array, i: number) => (i > 0 && i < p.length - 1 ? parabolicOffset(p[i - 1]!, p[i]!, p[i + 1]!) : 0);
+  const peakX = xAt(m, pc + refine(rowP, pc));
+  const peakY = colP ? yAt(m, pr + refine(colP, pr)) : null;
+
+  // On-axis: bilinear interpolation at x = y = 0.
+  const tc = -m.origin[0] / dx;
+  const tr = dy === null ? 0 : -m.origin[1] / dy;
+  let onAxis: number | null = null;
+  if (tc >= 0 && tc <= cols - 1 && tr >= 0 && tr <= rows - 1) {
+    const r0 = Math.min(Math.floor(tr), Math.max(0, rows - 2));
+    const fr = rows > 1 ? tr - r0 : 0;
+    const a = sampleAt(profileRow(m, r0), tc);
+    const b = rows > 1 ? sampleAt(profileRow(m, r0 + 1), tc) : a;
+    onAxis = a + fr * (b - a);
+  }
+  const cell = dy === null ? dx : dx * dy;
+  const fw = (p: Float64Array | null, i: number, d: number | null) => {
+    if (!p || d === null) return null;
+    const s = fwhmSamples(p, i);
+    return s === null ? null : s * d;
+  };
+  const fm = (p: Float64Array | null, i: number, d: number | null) => {
+    if (!p || d === null) return null;
+    const s = firstMinimumSamples(p, i);
+    return s === null ? null : s * d;
+  };
+  return {
+    peakIntensity: peak,
+    peakPosition: [peakX, peakY],
+    onAxisIntensity: onAxis,
+    centroid: [sum > 0 ? sx / sum : 0, dy === null ? null : sum > 0 ? sy / sum : 0],
+    fwhm: [fw(rowP, pc, dx), fw(colP, pr, dy)],
+    firstMinimum: [fm(rowP, pc, dx), fm(colP, pr, dy)],
+    powerInWindow: sum * cell,
+  };
+}

@@ -1,0 +1,130 @@
+// Expanding a job's sweeps into cases: the cartesian product of every swept key, with distance
+// innermost so that consecutive cases share an aperture and a wavelength.
+import type { Aperture, Illumination } from '../optics/aperture.js';
+import type { Case } from '../plan/types.js';
+import type { JobSpec, SweepValues } from './schema.js';
+import { lengthToken } from './units.js';
+
+export const MAX_CASES = 1_000_000;
+
+export interface SweepAxis {
+  /** Dotted key path in the job file, e.g. "aperture.diameter". */
+  key: string;
+  /** Short token used in case folder names. */
+  token: string;
+  values: number[];
+  spacing: SweepValues['spacing'];
+  unit: 'm' | '1';
+}
+
+const TOKENS: Record<string, string> = {
+  wavelength: 'wl',
+  distance: 'z',
+  'aperture.diameter': 'd',
+  'aperture.width': 'w',
+  'aperture.height': 'h',
+  'aperture.length': 'len',
+  'aperture.outer': 'do',
+  'aperture.inner': 'di',
+  'aperture.count': 'n',
+  'aperture.period': 'p',
+  'illumination.waist': 'waist',
+};
+
+function isSweep(v: unknown): v is SweepValues {
+  return typeof v === 'object' && v !== null && Array.isArray((v as SweepValues).values);
+}
+
+/** All sweepable keys of a job in product order (outermost first), swept or not. */
+export function sweepAxes(job: JobSpec): SweepAxis[] {
+  const axes: SweepAxis[] = [];
+  const add = (key: string, v: SweepValues, unit: 'm' | '1' = 'm') =>
+    axes.push({ key, token: TOKENS[key] ?? key.replace(/\W/g, '-'), values: v.values, spacing: v.spacing, unit });
+  add('wavelength', job.wavelength);
+  for (const [k, v] of Object.entries(job.aperture)) {
+    if (isSweep(v)) add(`aperture.${k}`, v, k === 'count' ? '1' : 'm');
+  }
+  if (job.illumination.kind === 'gaussian') add('illumination.waist', job.illumination.waist);
+  add('distance', job.distance);
+  return axes;
+}
+
+export function caseCount(job: JobSpec): number {
+  return sweepAxes(job).reduce((n, a) => n * a.values.length, 1);
+}
+
+export function expandJob(job: JobSpec): Case[] {
+  const axes = sweepAxes(job);
+  const total = axes.reduce((n, a) => n * a.values.length, 1);
+  if (total > MAX_CASES) {
+    throw new Error(`the sweeps make ${total} cases, more than the ${MAX_CASES} one job may hold; split the job`);
+  }
+  const swept = axes.filter((a) => a.values.length > 1);
+  const width = String(total).length;
+  const cases: Case[] = [];
+  const idx = new Array<number>(axes.length).fill(0);
+  for (let n = 0; n < total; n++) {
+    const value = (key: string) => {
+      const i = axes.findIndex((a) => a.key === key);
+      return axes[i]!.values[idx[i]!]!;
+    };
+    const sweptValues: Record<string, number> = {};
+    const tokens: string[] = [String(n + 1).padStart(width, '0')];
+    for (const a of swept) {
+      const v = value(a.key);
+      sweptValues[a.key] = v;
+      tokens.push(`${a.token}-${a.unit === 'm' ? lengthToken(v) : String(v)}`);
+    }
+    cases.push({
+      job: job.name,
+      index: n,
+      id: tokens.join('_'),
+      wavelength: value('wavelength'),
+      distance: value('distance'),
+      aperture: resolveAperture(job, value),
+      illumination: resolveIllumination(job, value),
+      ...(job.grid ? { grid: job.grid } : {}),
+      ...(job.window ? { window: job.window } : {}),
+      method: job.method,
+      swept: sweptValues,
+      output: job.output,
+    });
+    // Odometer increment, last axis fastest.
+    for (let i = axes.length - 1; i >= 0; i--) {
+      idx[i]!++;
+      if (idx[i]! < axes[i]!.values.length) break;
+      idx[i] = 0;
+    }
+  }
+  return cases;
+}
+
+function resolveAperture(job: JobSpec, value: (key: string) => number): Aperture {
+  const a = job.aperture;
+  const v = (k: string) => value(`aperture.${k}`);
+  switch (a.shape) {
+    case 'circle':
+      return { shape: 'circle', diameter: v('diameter'), opaque: a.opaque };
+    case 'rectangle':
+      return { shape: 'rectangle', width: v('width'), height: v('height'), opaque: a.opaque };
+    case 'slit':
+      return { shape: 'slit', width: v('width'), ...(a.length ? { length: v('length') } : {}), opaque: a.opaque };
+    case 'annulus':
+      return { shape: 'annulus', outer: v('outer'), inner: v('inner'), opaque: a.opaque };
+    case 'slits':
+      return {
+        shape: 'slits',
+        count: v('count'),
+        width: v('width'),
+        period: v('period'),
+        ...(a.length ? { length: v('length') } : {}),
+        opaque: a.opaque,
+      };
+  }
+}
+
+function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {
+  const ill = job.illumination;
+  if (ill.kind === 'plane') return { kind: 'plane', tilt: ill.tilt };
+  return { kind: 'gaussian', waist: value('illumination.waist'), tilt: ill.tilt };
+}

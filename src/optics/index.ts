@@ -1,0 +1,18 @@
+// The pure optics layer: fields, masks, sources and propagators (SI units, no I/O).
+export * from './field.js';
+export * from './aperture.js';
+export { sampleMask2D, sampleProfile } from './mask.js';
+export { sourceField1D, sourceField2D, directionCosines, carrierFrequencies, envelope, type Source } from './source.js';
+export {
+  padField,
+  propagateAngularSpectrum,
+  propagateFresnelTransfer,
+  compensateCellResponse,
+  bandLimitFrequency,
+  cellResponse,
+  type SpectralReport,
+} from './spectral.js';
+export { propagateFresnelDirect, propagateFarField, propagateFarFieldSeparable } from './direct.js';
+export { freeField, complementInPlace } from './free.js';
+export { fft2, nextPowerOfTwo, isPowerOfTwo, binFrequency } from './fft.js';
+export { dft1, dft2, dft2AtPoints } from './dft.js';

@@ -1,0 +1,185 @@
+// Everything written for one case. The case folder is assembled under a temporary name and renamed
+// into place when complete, so a case folder either holds a whole result or does not exist.
+import { mkdir, rename, rm } from 'node:fs/promises';
+import { join } from 'node:path';
+import { randomBytes } from 'node:crypto';
+import { describe } from '../optics/aperture.js';
+import { formatLength } from '../job/units.js';
+import { profileCol, profileRow, type IntensityMap, type SpotMetrics } from '../analysis/metrics.js';
+import type { GratingOrder } from '../analysis/orders.js';
+import type { Plan, Warning } from '../plan/types.js';
+import type { ComputedCase } from '../run/compute.js';
+import { writeFileAtomic, safeJoin } from './atomic.js';
+import { toCsv } from './csv.js';
+import { encodeNpy } from './npy.js';
+import { renderIntensityPng } from './picture.js';
+import { TOOL_NAME, TOOL_VERSION } from '../version.js';
+
+export interface CaseMetrics extends SpotMetrics {
+  /** ∫ irradiance over the open area (null for opaque obstacles). */
+  powerThroughAperture: number | null;
+  /** For opaque obstacles: the incident power they block. */
+  powerBlocked?: number;
+  /** powerInWindow / powerThroughAperture (null for opaque obstacles). */
+  windowFraction: number | null;
+  orders?: GratingOrder[];
+}
+
+export interface CaseRecord {
+  plan: Plan;
+  computed: ComputedCase;
+  metrics: CaseMetrics;
+  warnings: Warning[];
+  seconds: number;
+}
+
+export const CASE_FILES = {
+  intensity: 'intensity.npy',
+  result: 'result.json',
+  picture: 'intensity.png',
+  pictureGray: 'intensity-gray.png',
+  profileX: 'profile-x.csv',
+  profileY: 'profile-y.csv',
+  orders: 'orders.csv',
+} as const;
+
+export function caseTitle(plan: Plan): string {
+  const c = plan.case;
+  return `${describe(c.aperture)} · ${formatLength(c.wavelength, 4)} · z = ${formatLength(c.distance, 4)}`;
+}
+
+export function resultJson(rec: CaseRecord): Record<string, unknown> {
+  const { plan, computed, metrics } = rec;
+  const c = plan.case;
+  return {
+    tool: { name: TOOL_NAME, version: TOOL_VERSION },
+    job: c.job,
+    case: c.id,
+    index: c.index,
+    wavelength: c.wavelength,
+    distance: c.distance,
+    pixelPitch: computed.pitch,
+    center: computed.center,
+    shape: [computed.rows, computed.cols],
+    origin: computed.origin,
+    units: 'SI: lengths in metres, angles in radians, intensity relative to the incident irradiance (1)',
+    fresnelNumber: Math.max(plan.checks.fresnelNumbers[0], plan.checks.fresnelNumbers[1] ?? 0),
+    regime: plan.regime,
+    method: plan.method,
+    ...(plan.form ? { form: plan.form } : {}),
+    layout: plan.layout,
+    babinet: plan.babinet,
+    reasons: plan.reasons,
+    warnings: rec.warnings,
+    metrics,
+    checks: plan.checks,
+    diagnostics: computed.diagnostics,
+    sampling: {
+      x: axisJson(plan.x),
+      y: plan.y ? axisJson(plan.y) : null,
+      memoryEstimateBytes: plan.memoryBytes,
+    },
+    parameters: {
+      aperture: c.aperture,
+      illumination: c.illumination,
+      methodRequested: c.method,
+      window: c.window ?? null,
+      grid: c.grid ?? null,
+      swept: c.swept,
+    },
+    files: Object.fromEntries(
+      Object.entries(CASE_FILES).filter(([k]) => (k === 'profileY' ? computed.pitch[1] !== null : k === 'orders' ? !!metrics.orders : true)),
+    ),
+    seconds: rec.seconds,
+    note: 'Scalar-diffraction model of an idealised part; not a laser-hazard assessment (see the README).',
+  };
+}
+
+function axisJson(a: Plan['x']) {
+  return {
+    inputPitch: a.inputPitch,
+    inputSamples: a.inputSamples,
+    paddedSamples: a.paddedSamples,
+    outputSamples: a.output.n,
+    outputPitch: a.output.step,
+    windowHalfWidth: a.windowHalf,
+    windowCentre: a.windowCentre,
+    pitchRule: a.pitchRule,
+  };
+}
+
+function profileCsv(map: IntensityMap, axis: 'x' | 'y', row: number, col: number): string {
+  if (axis === 'x') {
+    const p = profileRow(map, row);
+    return toCsv(['x_m', 'intensity'], Array.from(p, (v, i) => [map.origin[0] + i * map.pitch[0], v]));
+  }
+  const p = profileCol(map, col);
+  return toCsv(['y_m', 'intensity'], Array.from(p, (v, i) => [map.origin[1] + i * map.pitch[1]!, v]));
+}
+
+/** Writes a case into jobDir/<case id>/, replacing an older result only once the new one is whole. */
+export async function writeCase(jobDir: string, rec: CaseRecord): Promise<string> {
+  const { plan, computed } = rec;
+  const final = await safeJoin(jobDir, plan.case.id);
+  const tmp = await safeJoin(jobDir, `.${plan.case.id}.partial-${randomBytes(4).toString('hex')}`);
+  await mkdir(tmp, { recursive: true });
+  try {
+    const map: IntensityMap = computed;
+    const shape = [computed.rows, computed.cols];
+    await writeFileAtomic(join(tmp, CASE_FILES.intensity), encodeNpy(computed.intensity, shape, plan.case.output.npy));
+    // Profiles through the optical axis when it is in the window, else through the window centre.
+    const row = clampIndex(Math.round(computed.center[1]), computed.rows);
+    const col = clampIndex(Math.round(computed.center[0]), computed.cols);
+    await writeFileAtomic(join(tmp, CASE_FILES.profileX), profileCsv(map, 'x', row, col));
+    if (computed.pitch[1] !== null) await writeFileAtomic(join(tmp, CASE_FILES.profileY), profileCsv(map, 'y', row, col));
+    if (rec.metrics.orders) await writeFileAtomic(join(tmp, CASE_FILES.orders), ordersCsv(rec.metrics.orders));
+    const picture = {
+      intensity: computed.intensity,
+      rows: computed.rows,
+      cols: computed.cols,
+      pitchX: computed.pitch[0],
+      pitchY: computed.pitch[1],
+      logDecades: plan.case.output.logDecades,
+      title: caseTitle(plan),
+    };
+    await writeFileAtomic(join(tmp, CASE_FILES.picture), renderIntensityPng({ ...picture, scale: 'shoal' }));
+    await writeFileAtomic(join(tmp, CASE_FILES.pictureGray), renderIntensityPng({ ...picture, scale: 'gray' }));
+    // result.json last: its presence marks a complete case even before the rename.
+    await writeFileAtomic(join(tmp, CASE_FILES.result), JSON.stringify(resultJson(rec), jsonNumbers, 2) + '\n');
+    await replaceDir(tmp, final);
+  } catch (e) {
+    await rm(tmp, { recursive: true, force: true });
+    throw e;
+  }
+  return final;
+}
+
+function clampIndex(i: number, n: number): number {
+  return Math.min(n - 1, Math.max(0, Number.isFinite(i) ? i : Math.floor(n / 2)));
+}
+
+async function replaceDir(tmp: string, final: string): Promise<void> {
+  try {
+    await rename(tmp, final);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code !== 'ENOTEMPTY' && code !== 'EEXIST') throw e;
+    // An older result is in the way: move it aside first so that one of the two is always whole.
+    const old = `${final}.old-${randomBytes(4).toString('hex')}`;
+    await rename(final, old);
+    await rename(tmp, final);
+    await rm(old, { recursive: true, force: true });
+  }
+}
+
+function ordersCsv(orders: GratingOrder[]): string {
+  return toCsv(
+    ['m', 'propagates', 'angle_rad', 'position_m', 'fraction_of_transmitted', 'fraction_of_incident', 'in_window'],
+    orders.map((o) => [o.m, o.propagates, o.angle, o.position, o.fractionOfTransmitted, o.fractionOfIncident, o.inWindow]),
+  );
+}
+
+/** JSON has no Infinity or NaN: write them as null rather than failing. */
+export function jsonNumbers(_key: string, v: unknown): unknown {
+  return typeof v === 'number' && !Number.isFinite(v) ? null : v;
+}

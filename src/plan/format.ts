@@ -1,0 +1,49 @@
+// The plan in words, for `spotcast plan` and the console.
+import { describe } from '../optics/aperture.js';
+import { formatAngle, formatLength, trimNumber } from '../job/units.js';
+import { bytes, methodWords } from './planner.js';
+import type { Plan } from './types.js';
+
+const len = (x: number) => formatLength(x, 4);
+
+export function illuminationWords(p: Plan): string {
+  const ill = p.case.illumination;
+  const tilt =
+    ill.tilt[0] === 0 && ill.tilt[1] === 0
+      ? 'normal incidence'
+      : `tilted ${formatAngle(ill.tilt[0])} in x, ${formatAngle(ill.tilt[1])} in y`;
+  return ill.kind === 'plane'
+    ? `plane wave, unit irradiance, ${tilt}`
+    : `Gaussian beam, waist radius ${len(ill.waist)} at the aperture, peak irradiance 1, ${tilt}`;
+}
+
+export function formatPlan(p: Plan): string {
+  const c = p.case;
+  const lines: string[] = [];
+  lines.push(`case ${c.id}`);
+  lines.push(`  aperture     ${describe(c.aperture)}${p.babinet ? ' (computed by Babinet: free beam minus the complementary hole)' : ''}`);
+  lines.push(`  light        λ = ${len(c.wavelength)}, ${illuminationWords(p)}`);
+  lines.push(`  distance     ${len(c.distance)}`);
+  lines.push(`  regime       ${p.regime}, N_F = ${trimNumber(p.checks.effectiveFresnelNumber, 4)}`);
+  lines.push(`  method       ${methodWords(p.method, p.form)}, ${p.layout === 'one-d' ? '1-D (invariant along y)' : p.layout === 'separable' ? 'separable (two 1-D problems)' : '2-D grid'}`);
+  for (const [name, a] of p.y ? ([['x', p.x], ['y', p.y]] as const) : ([['x', p.x]] as const)) {
+    lines.push(
+      `  grid ${name}       ${a.inputSamples}${a.paddedSamples !== a.inputSamples ? ` (padded ${a.paddedSamples})` : ''} samples at ${len(a.inputPitch)}; window ${len(2 * a.windowHalf)} as ${a.output.n} samples at ${len(a.output.step)}`,
+    );
+  }
+  lines.push(`  memory       about ${bytes(p.memoryBytes)}`);
+  lines.push('  why');
+  for (const r of p.reasons) lines.push(`    - ${r}`);
+  lines.push('  checks');
+  const k = p.checks;
+  lines.push(`    paraxial phase error over the spot ${trimNumber(k.paraxialPhaseError, 3)} rad; Goodman ratio over the window ${trimNumber(k.goodmanRatio, 3)}`);
+  lines.push(`    far-field neglected phase π·N_F ${trimNumber(k.farFieldPhaseError, 3)} rad; far field from ${len(k.farFieldDistance)}`);
+  lines.push(`    smallest feature ${trimNumber(k.featureOverWavelength, 4)} λ, ${trimNumber(k.samplesPerFeature, 3)} samples across it`);
+  lines.push(`    estimated power outside the window ${trimNumber(100 * k.windowLossEstimate, 2)} %`);
+  if (k.bandLimit) lines.push(`    band limit ${k.bandLimit.filter((b) => b !== null).map((b) => `${trimNumber(b! * 1e-3, 4)} /mm`).join(', ')}`);
+  if (k.transferSampling !== undefined) lines.push(`    transfer-function sampling Δx/(λz/L) = ${trimNumber(k.transferSampling, 3)} (≥ 1 needed)`);
+  if (p.warnings.length === 0 && !p.error) lines.push('  warnings     none before computing');
+  for (const w of p.warnings) lines.push(`  warning      [${w.code}] ${w.message}`);
+  if (p.error) lines.push(`  CANNOT RUN   ${p.error}`);
+  return lines.join('\n');
+}

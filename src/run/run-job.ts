@@ -1,0 +1,109 @@
+// Running a job file: validate, expand, plan, compute and write each case, then the job summary.
+// Cases run one after another here; a failing case is recorded and the others go on.
+import { trimNumber } from '../job/units.js';
+import { JobError, loadJobFile, type LoadedJob } from '../job/load.js';
+import { expandJob, sweepAxes } from '../job/expand.js';
+import { planCase, type PlannerOptions } from '../plan/planner.js';
+import type { Plan } from '../plan/types.js';
+import { writeCase, jsonNumbers, type CaseRecord } from '../output/case-output.js';
+import { safeJoin, writeFileAtomic } from '../output/atomic.js';
+import { summaryCsv, type SummaryRow } from '../output/summary.js';
+import { runPlannedCase } from './run-case.js';
+import { methodWords } from '../plan/planner.js';
+
+export interface RunOptions extends PlannerOptions {
+  outDir: string;
+  /** Receives one line per event; defaults to nothing. */
+  log?: (line: string) => void;
+}
+
+export interface JobOutcome {
+  file: string;
+  job?: string;
+  folder?: string;
+  cases: number;
+  done: number;
+  failed: { case: string; error: string }[];
+  warnings: number;
+  /** Set when the job file itself could not be used. */
+  error?: string;
+}
+
+export async function runJobFile(file: string, opts: RunOptions): Promise<JobOutcome> {
+  let loaded: LoadedJob;
+  try {
+    loaded = await loadJobFile(file);
+  } catch (e) {
+    const msg = e instanceof JobError ? e.message : `${file}: ${(e as Error).message}`;
+    opts.log?.(msg);
+    return { file, cases: 0, done: 0, failed: [], warnings: 0, error: msg };
+  }
+  return runJob(loaded, opts);
+}
+
+export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOutcome> {
+  const log = opts.log ?? (() => {});
+  const { spec, file } = loaded;
+  const outcome: JobOutcome = { file, job: spec.name, cases: 0, done: 0, failed: [], warnings: 0 };
+  let cases;
+  try {
+    cases = expandJob(spec);
+  } catch (e) {
+    outcome.error = `${file}: ${(e as Error).message}`;
+    log(outcome.error);
+    return outcome;
+  }
+  outcome.cases = cases.length;
+  const jobDir = await safeJoin(opts.outDir, spec.name);
+  outcome.folder = jobDir;
+  await writeFileAtomic(`${jobDir}/job.json`, JSON.stringify({ file, job: loaded.given }, null, 2) + '\n');
+  log(`job ${spec.name} (${file}): ${cases.length} case${cases.length === 1 ? '' : 's'} → ${jobDir}`);
+  const axes = sweepAxes(spec).filter((a) => a.values.length > 1);
+  const rows: SummaryRow[] = [];
+  for (const c of cases) {
+    let plan: Plan | undefined;
+    const tag = `[${c.index + 1}/${cases.length}] ${c.id}`;
+    try {
+      plan = planCase(c, opts);
+      if (plan.error) throw new Error(plan.error);
+      const rec: CaseRecord = runPlannedCase(plan);
+      await writeCase(jobDir, rec);
+      outcome.done++;
+      outcome.warnings += rec.warnings.length;
+      rows.push({ plan, record: rec });
+      log(
+        `${tag}  ${plan.regime}, ${methodWords(plan.method, plan.form)}  peak ${trimNumber(rec.metrics.peakIntensity, 4)}  ` +
+          `${trimNumber(rec.seconds, 2)} s${rec.warnings.length ? `  ${rec.warnings.length} warning(s)` : ''}`,
+      );
+      for (const w of rec.warnings) log(`    ! [${w.code}] ${w.message}`);
+    } catch (e) {
+      const error = (e as Error).message;
+      outcome.failed.push({ case: c.id, error });
+      rows.push({ plan, case: c, error });
+      log(`${tag}  FAILED: ${error}`);
+    }
+    // Rewritten after every case, so that an interrupted run still leaves a usable table.
+    await writeFileAtomic(`${jobDir}/summary.csv`, summaryCsv(axes, rows));
+  }
+  await writeFileAtomic(
+    `${jobDir}/summary.json`,
+    JSON.stringify(
+      {
+        job: spec.name,
+        file,
+        cases: outcome.cases,
+        done: outcome.done,
+        failed: outcome.failed,
+        warnings: outcome.warnings,
+        swept: axes.map((a) => ({ key: a.key, values: a.values, spacing: a.spacing })),
+      },
+      jsonNumbers,
+      2,
+    ) + '\n',
+  );
+  log(
+    `job ${spec.name}: ${outcome.done} of ${outcome.cases} done, ${outcome.failed.length} failed, ${outcome.warnings} warning(s); ` +
+      `results in ${jobDir}`,
+  );
+  return outcome;
+}
