@@ -50,7 +50,14 @@ async function runCommand(files: string[], out: string, maxMemoryBytes: number, 
       if (line.includes('FAILED') || /^\S+:\d+:\d+: |^\S+: /.test(line)) console.error(line);
       else if (!quiet) console.log(line);
     };
-    outcomes.push(await runJobFile(file, { outDir: out, maxMemoryBytes, log }));
+    try {
+      outcomes.push(await runJobFile(file, { outDir: out, maxMemoryBytes, log }));
+    } catch (e) {
+      // Whatever stops one job file (a refused output folder, a full disk) must not stop the others.
+      const error = `${file}: ${(e as Error).message}`;
+      console.error(error);
+      outcomes.push({ file, cases: 0, done: 0, failed: [], warnings: 0, error });
+    }
   }
   const bad = outcomes.filter((o) => o.error || o.failed.length > 0);
   const done = outcomes.reduce((s, o) => s + o.done, 0);

@@ -70,7 +70,8 @@ export function parseJobText(text: string, file = '<job>'): LoadedJob {
         const pos = err.linePos?.[0];
         return {
           path: '',
-          message: `syntax error: ${err.message.split('\n')[0]}`,
+          // The parser's first line repeats the position ("... at line 3, column 1:"), given in front.
+          message: `syntax error: ${err.message.split('\n')[0]!.replace(/ at line \d+, column \d+:?\s*$/, '')}`,
           line: pos?.line,
           column: pos?.col,
         };
@@ -112,10 +113,29 @@ function flattenIssues(issues: readonly $ZodIssue[]): $ZodIssue[] {
         out.push(...flattenIssues(best));
         continue;
       }
+      // Nothing went deeper: when the value's type suits exactly one branch (a number where a
+      // number or a list is allowed), that branch's complaint is the one that says what is wrong.
+      const fitting = issue.errors.filter((branch) => !isTypeMiss(branch));
+      if (fitting.length === 1) {
+        out.push(...flattenIssues(fitting[0]!.map((b) => ({ ...b, path: [...issue.path, ...b.path] }) as $ZodIssue)));
+        continue;
+      }
     }
     out.push(issue);
   }
   return out;
+}
+
+const TYPE_NAMES = new Set(['array', 'object', 'tuple', 'number', 'string', 'boolean']);
+
+/** A branch that failed only because the value is of another type than the branch takes. */
+function isTypeMiss(branch: $ZodIssue[]): boolean {
+  return (
+    branch.length === 1 &&
+    branch[0]!.code === 'invalid_type' &&
+    branch[0]!.path.length === 0 &&
+    TYPE_NAMES.has(String(branch[0]!.expected))
+  );
 }
 
 function depth(branch: $ZodIssue[]): number {
@@ -149,7 +169,7 @@ function describeIssue(issue: $ZodIssue, given: unknown, positions?: Positions):
     // A wrong or missing shape/kind: name the choices and the nearest one.
     const choices = issue.discriminator === 'shape' ? SHAPE_NAMES : ILLUMINATION_KINDS;
     const hint = typeof value === 'string' ? closest(value, choices) : undefined;
-    message = `expected one of ${choices.join(', ')}${hint ? ` (did you mean '${hint}'?)` : ''}`;
+    message = `${value === undefined ? 'missing: ' : ''}expected one of ${choices.join(', ')}${hint ? ` (did you mean '${hint}'?)` : ''}`;
   } else if (issue.code === 'invalid_type' && value === undefined) {
     message = `missing: ${message.replace(/^expected /, 'expected ')}`;
   }

@@ -2,7 +2,7 @@
 // numbers in metres and radians. Every sweepable key is parsed into a list of values (a single
 // value becomes a list of one) together with how the list was given.
 import { z } from 'zod';
-import { parseQuantity, type UnitKind } from './units.js';
+import { formatLength, parseQuantity, type UnitKind } from './units.js';
 
 export interface SweepValues {
   values: number[];
@@ -16,10 +16,17 @@ const EXAMPLES: Record<UnitKind, string> = { length: "'50 um'", angle: "'2 deg'"
 
 function quantity(kind: UnitKind, opts: { positive?: boolean; nonNegative?: boolean; what?: string } = {}) {
   const adjective = opts.positive ? 'positive ' : opts.nonNegative ? 'non-negative ' : '';
-  const expected = `expected ${opts.what ?? `a ${adjective}${kind} such as ${EXAMPLES[kind]}`}`;
+  const article = adjective === '' && kind === 'angle' ? 'an' : 'a';
+  const expected = `expected ${opts.what ?? `${article} ${adjective}${kind} such as ${EXAMPLES[kind]}`}`;
   return z.unknown().transform((raw, ctx): number => {
     if (raw === undefined) {
       ctx.addIssue({ code: 'custom', message: `missing: ${expected}` });
+      return z.NEVER;
+    }
+    if (typeof raw === 'object' && raw !== null) {
+      // A list or a mapping is a different type, not a bad value: reported as such, so that where a
+      // list or a range is also allowed, the error of that branch is the one shown.
+      ctx.addIssue({ code: 'invalid_type', expected: 'number', message: expected, input: raw });
       return z.NEVER;
     }
     const r = parseQuantity(raw, kind);
@@ -63,15 +70,16 @@ const range = z.strictObject(rangeShape).transform((r): SweepValues => {
 /** A sweepable positive length: one value, a list, or a range. */
 function sweepLength() {
   const one = positiveLength();
+  const msg = 'expected a length, a list of lengths or {from, to, count, spacing}';
   return z.union([
     z
-      .array(one, { error: 'expected a length, a list of lengths or {from, to, count, spacing}' })
+      .array(one, { error: msg })
       .min(1, { error: 'expected at least one value in the list' })
       .max(MAX_SWEEP_COUNT)
       .transform((values): SweepValues => ({ values, spacing: values.length === 1 ? 'single' : 'list' })),
     range,
     one.transform((v): SweepValues => ({ values: [v], spacing: 'single' })),
-  ]);
+  ], { error: msg });
 }
 
 function sweepCount(min: number) {
@@ -83,7 +91,12 @@ function sweepCount(min: number) {
       .min(1, { error: msg })
       .transform((values): SweepValues => ({ values, spacing: values.length === 1 ? 'single' : 'list' })),
     one.transform((v): SweepValues => ({ values: [v], spacing: 'single' })),
-  ]);
+  ], { error: msg });
+}
+
+/** The message for a mapping given as something else (the schema's own type issue only). */
+function mappingError(msg: string) {
+  return (issue: { code?: string }) => (issue.code === 'invalid_type' ? msg : undefined);
 }
 
 const opaque = z.boolean({ error: 'expected true or false' }).default(false);
@@ -150,14 +163,16 @@ const gridSize = z
   .refine((n) => (n & (n - 1)) === 0, { error: gridSizeMsg });
 
 const gridShape = { size: gridSize.optional(), pitch: positiveLength().optional() };
+const gridError = mappingError("expected a mapping such as {size: 1024, pitch: '1 um'}");
 export const GRID_KEYS = Object.keys(gridShape);
 
+const windowMsg = "expected a width such as '5 mm' or [width, height]";
 const windowSize = z.union([
   z
-    .tuple([positiveLength(), positiveLength()], { error: "expected a width such as '5 mm' or [width, height]" })
+    .tuple([positiveLength(), positiveLength()], { error: windowMsg })
     .transform(([w, h]): [number, number] => [w, h]),
   positiveLength().transform((w): [number, number] => [w, w]),
-]);
+], { error: windowMsg });
 
 export const METHODS = ['auto', 'angular-spectrum', 'fresnel', 'fraunhofer'] as const;
 export type MethodRequest = (typeof METHODS)[number];
@@ -183,10 +198,12 @@ const jobShape = {
   distance: sweepLength(),
   aperture,
   illumination: illumination.default({ kind: 'plane', tilt: [0, 0] }),
-  grid: z.strictObject(gridShape).optional(),
+  grid: z.strictObject(gridShape, { error: gridError }).optional(),
   window: windowSize.optional(),
   method: z.enum(METHODS, { error: `expected one of ${METHODS.join(', ')}` }).default('auto'),
-  output: z.strictObject(outputShape).default({ npy: 'float64', logDecades: 5 }),
+  output: z
+    .strictObject(outputShape, { error: mappingError("expected a mapping such as {npy: float32, logDecades: 5}") })
+    .default({ npy: 'float64', logDecades: 5 }),
 };
 export const JOB_KEYS = Object.keys(jobShape);
 
@@ -198,7 +215,7 @@ export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
       ctx.addIssue({
         code: 'custom',
         path: ['aperture', 'inner'],
-        message: `expected the inner diameter to be smaller than the outer one (${minOuter} m)`,
+        message: `expected the inner diameter to be smaller than the outer one (${formatLength(minOuter)})`,
       });
     }
   }

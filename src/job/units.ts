@@ -26,6 +26,8 @@ const ANGLE_UNITS: Record<string, number> = {
   arcsec: Math.PI / 180 / 3600,
 };
 
+const WORD_UNITS = new Set(['micron', 'microns', 'rad', 'deg', 'arcmin', 'arcsec']);
+
 const QUANTITY = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([^\s\d.+-][^\s]*)?\s*$/;
 
 export type UnitKind = 'length' | 'angle';
@@ -46,21 +48,38 @@ export function parseQuantity(input: unknown, kind: UnitKind): ParsedQuantity | 
     if (!Number.isFinite(input)) return { ok: false, reason: 'not a finite number' };
     return { ok: true, value: input };
   }
-  if (typeof input !== 'string') return { ok: false, reason: `a ${typeof input} is not a ${kind}` };
+  if (typeof input !== 'string') {
+    const what =
+      input === null || input === undefined
+        ? 'an empty value'
+        : Array.isArray(input)
+          ? 'a list'
+          : typeof input === 'object'
+            ? 'a mapping'
+            : `a ${typeof input}`;
+    return { ok: false, reason: `${what} is not ${kind === 'angle' ? 'an angle' : 'a length'}` };
+  }
   const m = QUANTITY.exec(input);
   if (!m) return { ok: false, reason: `cannot read '${input}' as a number with a unit` };
   const num = Number(m[1]);
   const unit = m[2];
   if (unit === undefined) {
     // A bare number in a string is taken as SI, like a bare number.
+    if (!Number.isFinite(num)) return { ok: false, reason: `'${input}' is too large a number` };
     return { ok: true, value: num };
   }
-  const factor = table[unit] ?? table[unit.toLowerCase()];
+  // Unit symbols are case-sensitive, as SI has them ('Mm' is not 'mm'); only the unit words
+  // (micron, deg, arcmin, ...) may be written in any case.
+  const lower = unit.toLowerCase();
+  const factor = table[unit] ?? (WORD_UNITS.has(lower) ? table[lower] : undefined);
   if (factor === undefined) {
     const known = Object.keys(table).filter((u) => !u.includes('μ')).join(', ');
-    return { ok: false, reason: `unknown ${kind} unit '${unit}' (known: ${known})` };
+    const hint = table[lower] !== undefined ? `; unit symbols are case-sensitive: did you mean '${lower}'?` : '';
+    return { ok: false, reason: `unknown ${kind} unit '${unit}' (known: ${known})${hint}` };
   }
-  return { ok: true, value: num * factor };
+  const value = num * factor;
+  if (!Number.isFinite(value)) return { ok: false, reason: `'${input}' is too large a number` };
+  return { ok: true, value };
 }
 
 /** Formats a length for people: 6.33e-7 -> "633 nm". */
@@ -79,9 +98,9 @@ export function formatAngle(rad: number): string {
   return `${trimNumber(deg, 4)}°`;
 }
 
-/** Compact, file-name-safe length token: 6.33e-7 -> "633nm", 0.0125 -> "12.5mm". */
+/** Compact, file-name-safe length token: 6.33e-7 -> "633nm", 0.0125 -> "12.5mm", 2e7 -> "2e7m". */
 export function lengthToken(metres: number): string {
-  return formatLength(metres, 6).replace(' ', '').replace('µ', 'u');
+  return formatLength(metres, 6).replace(' ', '').replace('µ', 'u').replace('e+', 'e');
 }
 
 export function trimNumber(x: number, digits: number): string {

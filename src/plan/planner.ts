@@ -107,10 +107,12 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const paraxialPhaseError = paraxialError(geo);
   const goodmanRatio = goodman(geo);
   const farFieldPhaseError = Math.PI * nfEff;
+  const beamLimited = ill.kind === 'gaussian' && waist < Math.min(facts.characteristic[0], oneD ? Infinity : facts.characteristic[1]);
+  const farFieldPeakError = beamLimited ? farFieldPhaseError ** 2 : farFieldPhaseError ** 2 / 12;
 
   // Method.
   const minFeature = facts.minFeature;
-  const candidates = chooseMethods(c.method, regime, geo, paraxialPhaseError, farFieldPhaseError, reasons);
+  const candidates = chooseMethods(c.method, geo, paraxialPhaseError, farFieldPhaseError, farFieldPeakError, reasons);
   let chosen: { method: MethodName; form?: FresnelForm; axes: AxisPlan[]; layout: Layout; memory: number; work: number } | undefined;
   let firstTooBig: { method: MethodName; memory: number; axes: AxisPlan[] } | undefined;
   for (const method of candidates) {
@@ -146,6 +148,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     paraxialPhaseError,
     goodmanRatio,
     farFieldPhaseError,
+    farFieldPeakError,
     windowLossEstimate,
     featureOverWavelength: minFeature / lam,
     samplesPerFeature,
@@ -233,6 +236,13 @@ function illuminatedEdges(f: ApertureFacts, waist: number, oneD: boolean) {
   return { edgeWeight, power: Math.min(f.openMeasure, beamPower) };
 }
 
+/** Fraction of the power that edge diffraction sends farther than u beyond the geometric spot. */
+function edgeTail(f: ApertureFacts, waist: number, lam: number, z: number, oneD: boolean, u: number): number {
+  if (!(u > 0)) return 0.5;
+  const { edgeWeight, power } = illuminatedEdges(f, waist, oneD);
+  return Math.min(1, (f.edgeMeasure * edgeWeight * lam * z) / (2 * Math.PI ** 2 * power * u));
+}
+
 function estimateWindowLoss(
   f: ApertureFacts,
   waist: number,
@@ -243,10 +253,9 @@ function estimateWindowLoss(
   windowHalf: [number, number],
   beamRadius?: number,
 ): number {
-  const { edgeWeight, power } = illuminatedEdges(f, waist, oneD);
   const axes = oneD ? [0] : [0, 1];
   const u = Math.min(...axes.map((i) => windowHalf[i]! - aEff[i]!));
-  let loss = u > 0 ? (f.edgeMeasure * edgeWeight * lam * z) / (2 * Math.PI ** 2 * power * u) : 0.5;
+  let loss = edgeTail(f, waist, lam, z, oneD, u);
   if (beamRadius !== undefined) {
     // A Gaussian profile outside the window half-width (per axis, intensity ∝ exp(−2x²/w²)).
     for (const i of axes) loss += erfcApprox((Math.SQRT2 * windowHalf[i]!) / beamRadius);
@@ -291,40 +300,38 @@ function goodman(g: Geometry): number {
 
 function chooseMethods(
   request: Case['method'],
-  regime: Regime,
   g: Geometry,
   paraxialPhase: number,
   farFieldPhase: number,
+  farFieldError: number,
   reasons: string[],
 ): MethodName[] {
   const paraxialOk = paraxialPhase <= LIMITS.paraxialPhase;
-  const farFieldOk = farFieldPhase <= LIMITS.farFieldPhase;
+  const farFieldOk = farFieldError <= LIMITS.farFieldPeakError;
   const separable = g.facts.separable;
   if (request !== 'auto') {
     reasons.push(`${methodWords(request)} as requested.`);
     return [request];
   }
   const parax = `the paraxial (Fresnel) approximation drops a phase of ${fmt(paraxialPhase, 2)} rad peak-to-peak over the spot region (limit ${LIMITS.paraxialPhase} rad)`;
+  // The cheapest method that is valid: the far-field formula, else Fresnel, else the exact angular
+  // spectrum. Later entries are fallbacks when memory does not allow the first.
   if (farFieldOk) {
     reasons.push(
-      `far-field formula chosen: the aperture's own quadratic phase π·N_F = ${fmt(farFieldPhase, 2)} rad that it neglects is within ${LIMITS.farFieldPhase} rad ` +
-        `(a peak error of about ${pct(farFieldPhase ** 2 / 12)}); it is evaluated in direction cosines, so wide angles are not paraxial.`,
+      `far-field formula chosen: the aperture's own quadratic phase π·N_F = ${fmt(farFieldPhase, 2)} rad that it neglects ` +
+        `changes the peak by about ${pct(farFieldError)} (limit ${pct(LIMITS.farFieldPeakError)}); it is evaluated in direction cosines, so wide angles are not paraxial.`,
     );
     return ['fraunhofer', 'fresnel'];
   }
-  if (paraxialOk && (separable || regime !== 'near-field')) {
+  if (paraxialOk) {
     reasons.push(
-      `Fresnel chosen: ${parax}; π·N_F = ${fmt(farFieldPhase, 2)} rad is too large for the far-field formula` +
+      `Fresnel chosen: ${parax}; the far-field formula would be off by about ${pct(farFieldError)} at the peak (π·N_F = ${fmt(farFieldPhase, 2)} rad)` +
         (separable ? '; the aperture is separable, so it is computed as 1-D problems.' : '.'),
     );
     return ['fresnel', 'angular-spectrum'];
   }
-  reasons.push(
-    `angular spectrum chosen (exact for scalar waves): ${
-      paraxialOk ? 'near field of a non-separable aperture' : parax.replace('drops', 'would drop')
-    }.`,
-  );
-  return paraxialOk ? ['angular-spectrum', 'fresnel'] : ['angular-spectrum', 'fresnel', 'fraunhofer'];
+  reasons.push(`angular spectrum chosen (exact for scalar waves): ${parax.replace('drops', 'would drop')}.`);
+  return ['angular-spectrum', 'fresnel', 'fraunhofer'];
 }
 
 interface Sampling {
@@ -339,18 +346,19 @@ function sample(method: MethodName, g: Geometry, c: Case): Sampling {
   const axes = g.oneD ? [0] : [0, 1];
   const layout: Layout = g.oneD ? 'one-d' : g.facts.separable && method !== 'angular-spectrum' ? 'separable' : 'two-d';
   if (method === 'angular-spectrum') {
-    const plans = axes.map((i) => fftAxisPlan(g, i, c));
+    const plans = axes.map((i) => fftAxisPlan(g, i, c, method));
     return { axes: plans, layout, ...costFft(plans, layout) };
   }
   if (method === 'fresnel') {
-    const fftPlans = axes.map((i) => fftAxisPlan(g, i, c));
+    const fftPlans = axes.map((i) => fftAxisPlan(g, i, c, method));
     const direct = axes.map((i) => directAxisPlan(g, i, c, 'fresnel'));
     const directCost = costDirect(direct, layout, false);
     // Voelz's rule: the transfer function is adequately sampled when Δx ≥ λz/L. Where both forms
     // are valid they give the same answer, and the cheaper one is taken.
     const sampled = fftPlans.every((p) => (p.inputPitch * p.inputPitch * p.paddedSamples) / (g.lam * g.z) >= 1);
     const fftCost = costFft(fftPlans, layout);
-    if (sampled && fftCost.work <= directCost.work) return { form: 'transfer-function', axes: fftPlans, layout, ...fftCost };
+    // A grid.size names an FFT grid, so it asks for the transfer-function form.
+    if (c.grid?.size || (sampled && fftCost.work <= directCost.work)) return { form: 'transfer-function', axes: fftPlans, layout, ...fftCost };
     return { form: 'direct', axes: direct, layout, ...directCost };
   }
   const plans = axes.map((i) => directAxisPlan(g, i, c, 'fraunhofer'));
@@ -375,19 +383,32 @@ function pitchFor(
   return { pitch: required, required, rule: best.rule };
 }
 
-function fftAxisPlan(g: Geometry, i: number, c: Case): AxisPlan {
+/** Separable apertures are computed as 1-D problems unless the angular spectrum needs a 2-D grid. */
+function onTwoDGrid(g: Geometry, method: MethodName): boolean {
+  return !g.oneD && !(g.facts.separable && method !== 'angular-spectrum');
+}
+
+function featureSamples(g: Geometry, method: MethodName): number {
+  return onTwoDGrid(g, method) ? LIMITS.featureSamples2D : LIMITS.featureSamples1D;
+}
+
+function oversampling(g: Geometry, method: MethodName): number {
+  return onTwoDGrid(g, method) ? LIMITS.oversampling2D : LIMITS.oversampling1D;
+}
+
+function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisPlan {
   const reach = g.windowHalf[i]! + Math.abs(g.centre[i]!) + g.aEff[i]!;
-  const q = LIMITS.oversampling;
+  const q = oversampling(g, method);
   const content = (g.lam * g.z) / (q * reach);
   const contentRule =
     content < g.lam / 2
       ? { pitch: g.lam / 2, rule: 'λ/2: every propagating spatial frequency' }
       : { pitch: content, rule: `${q}× the highest spatial frequency that reaches the window, λz/(${q}·${len(reach)})` };
-  const p = pitchFor(g, c, contentRule, LIMITS.featureSamplesFft);
+  const p = pitchFor(g, c, contentRule, featureSamples(g, method));
   const half = Math.max(g.facts.halfExtent[i]!, Math.abs(g.centre[i]!) + g.windowHalf[i]!);
   const minN = g.oneD ? LIMITS.minSamples1D : LIMITS.minSamples2D;
   const n = c.grid?.size ?? Math.max(minN, nextPowerOfTwo(Math.ceil((2 * half) / p.pitch) + 2));
-  const padded = n * LIMITS.padding;
+  const padded = n * paddingFactor(g, method, n * p.pitch);
   // The output is the window cut out of the padded grid, on the same pitch.
   const full = fftAxis(padded, p.pitch);
   const lo = Math.max(0, Math.ceil((g.centre[i]! - g.windowHalf[i]! - full.start) / p.pitch - 1e-9));
@@ -406,8 +427,22 @@ function fftAxisPlan(g: Geometry, i: number, c: Case): AxisPlan {
   };
 }
 
+/**
+ * The angular spectrum's band limit cuts the spectrum at f ≈ L_pad/(2λz). The cut light would land
+ * outside the window, but a sharp spectral cut rings back into it, so the padding is doubled when
+ * the edge-tail estimate says more than LIMITS.bandLimitTarget of the power lies beyond the limit.
+ */
+function paddingFactor(g: Geometry, method: MethodName, width: number): number {
+  if (method !== 'angular-spectrum') return LIMITS.padding;
+  const beyond = (pad: number) => {
+    const u = g.lam * g.z * bandLimitFrequency(g.z, g.lam, pad * width);
+    return edgeTail(g.facts, g.waist, g.lam, g.z, g.oneD, u);
+  };
+  return beyond(LIMITS.padding) > LIMITS.bandLimitTarget ? 2 * LIMITS.padding : LIMITS.padding;
+}
+
 function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fraunhofer'): AxisPlan {
-  const q = LIMITS.oversampling;
+  const q = oversampling(g, method);
   const reach = g.windowHalf[i]! + Math.abs(g.centre[i]!) + g.aEff[i]!;
   let contentRule: { pitch: number; rule: string };
   if (method === 'fresnel') {
@@ -416,7 +451,7 @@ function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fr
     const fmax = farFieldMaxFrequency(g, i);
     contentRule = { pitch: 1 / (q * fmax), rule: `${q}× the highest direction-cosine frequency in the window (${fmt(fmax * g.lam, 3)}/λ)` };
   }
-  const p = pitchFor(g, c, contentRule, LIMITS.featureSamplesDirect);
+  const p = pitchFor(g, c, contentRule, featureSamples(g, method));
   // The Fresnel form corrects the cell response on its own source grid and needs a margin for it.
   const margin = method === 'fresnel' ? LIMITS.compensationMargin : 0;
   const nIn = c.grid?.size ?? 2 * (Math.ceil(g.aEff[i]! / p.pitch + 0.5) + margin) + 1;
@@ -558,10 +593,10 @@ function preChecks(
       message: `the Fresnel (paraxial) approximation drops ${fmt(checks.paraxialPhaseError, 2)} rad of phase over the spot region (limit ${LIMITS.paraxialPhase} rad; Goodman's sufficient condition ratio ${fmt(checks.goodmanRatio, 2)}): positions and intensities may be off; use method: angular-spectrum`,
     });
   }
-  if (method === 'fraunhofer' && checks.farFieldPhaseError > LIMITS.farFieldPhaseWarn) {
+  if (method === 'fraunhofer' && checks.farFieldPeakError > LIMITS.farFieldPeakErrorWarn) {
     w.push({
       code: 'not-far-field',
-      message: `the far-field formula neglects the aperture's quadratic phase π·N_F = ${fmt(checks.farFieldPhaseError, 2)} rad here (N_F = ${fmt(checks.effectiveFresnelNumber, 3)}; far field from ${len(checks.farFieldDistance)}): the pattern is not yet the far-field one; use method: auto or fresnel`,
+      message: `the far-field formula neglects the aperture's quadratic phase π·N_F = ${fmt(checks.farFieldPhaseError, 2)} rad here (N_F = ${fmt(checks.effectiveFresnelNumber, 3)}; far field from ${len(checks.farFieldDistance)}), about ${pct(checks.farFieldPeakError)} at the peak: the pattern is not yet the far-field one; use method: auto or fresnel`,
     });
   }
   if (checks.transferSampling !== undefined && checks.transferSampling < 1) {

@@ -62,6 +62,12 @@ export interface Checks {
   goodmanRatio: number;
   /** The aperture's quadratic phase π·N_F that the far-field formula neglects (rad). */
   farFieldPhaseError: number;
+  /**
+   * Estimated relative error of the far-field formula's peak: (πN_F)²/12 for a uniformly lit
+   * aperture (on-axis 4sin²(πN_F/2) against (πN_F)²), (z_R/z)² for a Gaussian beam narrower than
+   * the aperture (w(z)² = w_ff²(1 + z_R²/z²)).
+   */
+  farFieldPeakError: number;
   /** Estimated fraction of power outside the window (before computing). */
   windowLossEstimate: number;
   /** Smallest feature over wavelength. */

@@ -1,0 +1,53 @@
+// Shared helpers for tests: cases built like the job expander builds them, with nothing but the
+// physics given (the planner chooses grids unless a test says otherwise).
+import type { Aperture, Illumination } from '../src/optics/aperture.js';
+import type { Case } from '../src/plan/types.js';
+import { planCase } from '../src/plan/planner.js';
+import { runPlannedCase } from '../src/run/run-case.js';
+
+export interface CaseSpec {
+  wavelength: number;
+  distance: number;
+  aperture: Aperture;
+  illumination?: Illumination;
+  method?: Case['method'];
+  grid?: Case['grid'];
+  window?: [number, number];
+}
+
+export function makeCase(s: CaseSpec): Case {
+  return {
+    job: 'test',
+    index: 0,
+    id: 'case',
+    wavelength: s.wavelength,
+    distance: s.distance,
+    aperture: s.aperture,
+    illumination: s.illumination ?? { kind: 'plane', tilt: [0, 0] },
+    ...(s.grid ? { grid: s.grid } : {}),
+    ...(s.window ? { window: s.window } : {}),
+    method: s.method ?? 'auto',
+    swept: {},
+    output: { npy: 'float64', logDecades: 5 },
+  };
+}
+
+export function runCase(s: CaseSpec) {
+  const plan = planCase(makeCase(s));
+  const rec = runPlannedCase(plan);
+  const c = rec.computed;
+  const x = (col: number) => c.origin[0] + col * c.pitch[0];
+  const y = (row: number) => (c.pitch[1] === null ? 0 : c.origin[1] + row * c.pitch[1]);
+  return { plan, rec, c, x, y, codes: rec.warnings.map((w) => w.code) };
+}
+
+/** Largest |a_i − b_i| over a set of samples. */
+export function maxAbsDiff(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let m = 0;
+  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i]! - b[i]!));
+  return m;
+}
+
+export const um = 1e-6;
+export const mm = 1e-3;
+export const nm = 1e-9;
