@@ -100,7 +100,7 @@ export function formatAngle(rad: number): string {
 
 /** Compact, file-name-safe length token: 6.33e-7 -> "633nm", 0.0125 -> "12.5mm", 2e7 -> "2e7m". */
 export function lengthToken(metres: number): string {
-  return formatLength(metres, 6).replace(' ', '').replace('µ', 'u').replace('e+', 'e');
+  return formatLength(metres, 4).replace(' ', '').replace('µ', 'u').replace('e+', 'e');
 }
 
 export function trimNumber(x: number, digits: number): string {

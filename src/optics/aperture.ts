@@ -139,7 +139,8 @@ export function apertureFacts(a: Aperture): ApertureFacts {
 }
 
 function um(x: number): string {
-  return `${Number((x * 1e6).toPrecision(4))} µm`;
+  // Sizes people read: µm below a millimetre, mm above (no import from the job layer: optics stays pure).
+  return x < 1e-3 ? `${Number((x * 1e6).toPrecision(4))} µm` : `${Number((x * 1e3).toPrecision(4))} mm`;
 }
 
 export function describe(a: Aperture): string {

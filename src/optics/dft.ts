@@ -7,10 +7,41 @@ import { axisAt, type Axis } from './field.js';
 // rounding drift below 1e-13 while costing one trig call per RESEED samples.
 const RESEED = 64;
 
+/** One kernel row e^{−i2π f ξ_m}, m = 0..n−1, into out (interleaved complex). */
+function fillKernelRow(out: Float64Array, f: number, xi: Axis): void {
+  const stepPhase = -2 * Math.PI * f * xi.step;
+  const sc = Math.cos(stepPhase);
+  const ss = Math.sin(stepPhase);
+  let wr = 0;
+  let wi = 0;
+  for (let m = 0; m < xi.n; m++) {
+    if (m % RESEED === 0) {
+      const ph = -2 * Math.PI * f * axisAt(xi, m);
+      wr = Math.cos(ph);
+      wi = Math.sin(ph);
+    } else {
+      const t = wr * sc - wi * ss;
+      wi = wr * ss + wi * sc;
+      wr = t;
+    }
+    out[2 * m] = wr;
+    out[2 * m + 1] = wi;
+  }
+}
+
 /** Kernel rows e^{−i2π f_p ξ_m} for all p (rows) and m (columns), interleaved complex. */
 export function dftKernel(freqs: Float64Array, xi: Axis): Float64Array {
   const n = xi.n;
   const k = new Float64Array(2 * freqs.length * n);
+  for (let p = 0; p < freqs.length; p++) fillKernelRow(k.subarray(2 * p * n, 2 * (p + 1) * n), freqs[p]!, xi);
+  return k;
+}
+
+/** 1-D: Â(f_p) for a vector of samples u on axis xi (phasors made on the fly: no M×N kernel). */
+export function dft1(u: Float64Array, xi: Axis, freqs: Float64Array): Float64Array {
+  const out = new Float64Array(2 * freqs.length);
+  const [lo, hi] = nonZeroSpan(u, xi.n);
+  if (lo > hi) return out;
   for (let p = 0; p < freqs.length; p++) {
     const f = freqs[p]!;
     const stepPhase = -2 * Math.PI * f * xi.step;
@@ -18,9 +49,10 @@ export function dftKernel(freqs: Float64Array, xi: Axis): Float64Array {
     const ss = Math.sin(stepPhase);
     let wr = 0;
     let wi = 0;
-    const base = 2 * p * n;
-    for (let m = 0; m < n; m++) {
-      if (m % RESEED === 0) {
+    let sr = 0;
+    let si = 0;
+    for (let m = lo; m <= hi; m++) {
+      if ((m - lo) % RESEED === 0) {
         const ph = -2 * Math.PI * f * axisAt(xi, m);
         wr = Math.cos(ph);
         wi = Math.sin(ph);
@@ -29,34 +61,10 @@ export function dftKernel(freqs: Float64Array, xi: Axis): Float64Array {
         wi = wr * ss + wi * sc;
         wr = t;
       }
-      k[base + 2 * m] = wr;
-      k[base + 2 * m + 1] = wi;
-    }
-  }
-  return k;
-}
-
-/** 1-D: Â(f_p) for a vector of samples u on axis xi. */
-export function dft1(u: Float64Array, xi: Axis, freqs: Float64Array): Float64Array {
-  const out = new Float64Array(2 * freqs.length);
-  const n = xi.n;
-  const [lo, hi] = nonZeroSpan(u, n);
-  if (lo > hi) return out;
-  // Trim to the non-zero span so that padding costs nothing.
-  const sub: Axis = { n: hi - lo + 1, start: axisAt(xi, lo), step: xi.step };
-  const us = u.subarray(2 * lo, 2 * (hi + 1));
-  const kern = dftKernel(freqs, sub);
-  for (let p = 0; p < freqs.length; p++) {
-    let sr = 0;
-    let si = 0;
-    const b = 2 * p * sub.n;
-    for (let m = 0; m < sub.n; m++) {
-      const ur = us[2 * m]!;
-      const ui = us[2 * m + 1]!;
-      const kr = kern[b + 2 * m]!;
-      const ki = kern[b + 2 * m + 1]!;
-      sr += ur * kr - ui * ki;
-      si += ur * ki + ui * kr;
+      const ur = u[2 * m]!;
+      const ui = u[2 * m + 1]!;
+      sr += ur * wr - ui * wi;
+      si += ur * wi + ui * wr;
     }
     out[2 * p] = sr * xi.step;
     out[2 * p + 1] = si * xi.step;
@@ -151,10 +159,8 @@ export function dft2AtPoints(
   }
   const ex = new Float64Array(2 * nx);
   const cell = xi.step * eta.step;
-  const one = new Float64Array(1);
   for (let i = 0; i < fx.length; i++) {
-    one[0] = fx[i]!;
-    ex.set(dftKernel(one, xi));
+    fillKernelRow(ex, fx[i]!, xi);
     let sr = 0;
     let si = 0;
     for (const n of rows) {

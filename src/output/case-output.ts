@@ -45,7 +45,8 @@ export const CASE_FILES = {
 
 export function caseTitle(plan: Plan): string {
   const c = plan.case;
-  return `${describe(c.aperture)} · ${formatLength(c.wavelength, 4)} · z = ${formatLength(c.distance, 4)}`;
+  const beam = c.illumination.kind === 'gaussian' ? ` · beam w0 ${formatLength(c.illumination.waist, 3)}` : '';
+  return `${describe(c.aperture)}${beam} · ${formatLength(c.wavelength, 4)} · z = ${formatLength(c.distance, 4)}`;
 }
 
 export function resultJson(rec: CaseRecord): Record<string, unknown> {

@@ -507,7 +507,7 @@ function costFft(axes: AxisPlan[], layout: Layout): { memory: number; work: numb
 function costDirect(axes: AxisPlan[], layout: Layout, farField: boolean): { memory: number; work: number } {
   const m = axes.reduce((p, a) => p * a.output.n, 1);
   if (layout !== 'two-d') {
-    const mem = axes.reduce((s, a) => s + 16 * (2 * a.inputSamples + a.output.n * (1 + a.inputSamples)), 0);
+    const mem = axes.reduce((s, a) => s + 16 * (2 * a.inputSamples + 2 * a.output.n), 0);
     const work = axes.reduce((s, a) => s + 8 * a.inputSamples * (farField && layout === 'separable' ? m : a.output.n), 0);
     return { memory: BASELINE_MEMORY + mem + 64 * (layout === 'separable' ? m : 0), work: work + 20 * m };
   }
