@@ -435,8 +435,9 @@ function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisP
 function paddingFactor(g: Geometry, method: MethodName, width: number): number {
   if (method !== 'angular-spectrum') return LIMITS.padding;
   const beyond = (pad: number) => {
-    const u = g.lam * g.z * bandLimitFrequency(g.z, g.lam, pad * width);
-    return edgeTail(g.facts, g.waist, g.lam, g.z, g.oneD, u);
+    // Light at the band-limit angle (sin θ = λ f) lands z·tan θ away.
+    const s = Math.min(0.999, g.lam * bandLimitFrequency(g.z, g.lam, pad * width));
+    return edgeTail(g.facts, g.waist, g.lam, g.z, g.oneD, (g.z * s) / Math.sqrt(1 - s * s));
   };
   return beyond(LIMITS.padding) > LIMITS.bandLimitTarget ? 2 * LIMITS.padding : LIMITS.padding;
 }

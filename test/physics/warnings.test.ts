@@ -1,0 +1,104 @@
+// Each validity warning fires where its condition holds and stays quiet where it does not
+// (DESIGN.md §3: the tool warns instead of silently returning an aliased or truncated result).
+import { describe, expect, it } from 'vitest';
+import { planCase } from '../../src/plan/planner.js';
+import { makeCase, mm, nm, runCase, um, type CaseSpec } from '../helpers.js';
+
+const lam = 633 * nm;
+const circle = (D: number, opaque = false) => ({ shape: 'circle' as const, diameter: D, opaque });
+const slit = (w: number) => ({ shape: 'slit' as const, width: w, opaque: false });
+
+function codes(s: CaseSpec): string[] {
+  return runCase(s).codes;
+}
+
+/** A case the planner handles without any warning, to contrast with each firing case. */
+const quietFarField: CaseSpec = { wavelength: lam, distance: 1, aperture: slit(100 * um) };
+
+describe('warnings', () => {
+  it('the contrast cases are quiet', () => {
+    expect(codes(quietFarField)).toEqual([]);
+    expect(codes({ wavelength: lam, distance: 0.1, aperture: slit(1 * mm) })).toEqual([]);
+  });
+
+  it('near-wavelength: a 2 µm slit at 633 nm (features under 4λ; common practice: scalar theory needs features ≫ λ)', () => {
+    expect(codes({ wavelength: lam, distance: 0.01, aperture: slit(2 * um) })).toContain('near-wavelength');
+    expect(codes({ wavelength: lam, distance: 0.01, aperture: slit(20 * um) })).not.toContain('near-wavelength');
+  });
+
+  it('undersampled-feature and coarse-sampling: a given pitch of a third of the slit width', () => {
+    const c = codes({ ...quietFarField, grid: { pitch: 100 * um / 3 } });
+    expect(c).toContain('undersampled-feature');
+    expect(c).toContain('coarse-sampling');
+    // A given pitch finer than the planner's own is fine.
+    const fine = planCase(makeCase(quietFarField)).x.inputPitch / 2;
+    expect(codes({ ...quietFarField, grid: { pitch: fine } })).toEqual([]);
+  });
+
+  it('paraxial: Fresnel forced close to a wide aperture; auto takes the angular spectrum and is quiet', () => {
+    const near: CaseSpec = { wavelength: lam, distance: 2 * mm, aperture: slit(1 * mm) };
+    expect(codes({ ...near, method: 'fresnel' })).toContain('paraxial');
+    const auto = runCase(near);
+    expect(auto.plan.method).toBe('angular-spectrum');
+    expect(auto.codes).not.toContain('paraxial');
+  });
+
+  it('not-far-field: the far-field formula forced at N_F ≈ 2', () => {
+    const z = (0.5 * mm) ** 2 / (2 * lam);
+    expect(codes({ wavelength: lam, distance: z, aperture: slit(1 * mm), method: 'fraunhofer' })).toContain('not-far-field');
+    expect(codes({ ...quietFarField, method: 'fraunhofer' })).not.toContain('not-far-field');
+  });
+
+  it('window-loss: a window that cuts the far-field pattern to its central lobe', () => {
+    const lobe = (2 * lam * 1) / (100 * um);
+    expect(codes({ ...quietFarField, window: [lobe, lobe] })).toContain('window-loss');
+  });
+
+  it('edge-energy and band-limit: the angular spectrum forced on a grid far too small for the far field', () => {
+    const c = codes({ wavelength: lam, distance: 1, aperture: slit(100 * um), method: 'angular-spectrum', grid: { size: 256 } });
+    expect(c).toContain('band-limit');
+    expect(c).toContain('edge-energy');
+  });
+
+  it('evanescent: a sub-wavelength slit by the angular spectrum', () => {
+    const c = codes({ wavelength: lam, distance: 5 * um, aperture: slit(0.3 * um), method: 'angular-spectrum' });
+    expect(c).toContain('evanescent');
+    expect(c).toContain('near-wavelength');
+  });
+
+  it('transfer-undersampled: the Fresnel transfer function on a fine grid far from the aperture (Voelz)', () => {
+    const c = codes({ wavelength: lam, distance: 1, aperture: slit(100 * um), method: 'fresnel', grid: { size: 4096, pitch: 1 * um } });
+    expect(c).toContain('transfer-undersampled');
+  });
+
+  it('output-undersampled: a window so wide that the output cannot resolve the fringes (a check made before computing)', () => {
+    // 2049 output samples over 0.5 m give 0.24 mm, coarser than the intensity's Nyquist pitch
+    // λz/(2D) = 0.16 mm; computing this case would take minutes, and the warning is the planner's.
+    const plan = planCase(makeCase({ wavelength: lam, distance: 1, aperture: circle(2 * mm), window: [0.5, 0.5] }));
+    expect(plan.warnings.map((w) => w.code)).toContain('output-undersampled');
+    const ok = planCase(makeCase({ wavelength: lam, distance: 1, aperture: circle(2 * mm) }));
+    expect(ok.warnings).toEqual([]);
+  });
+
+  it('grid-too-small: a given grid that does not cover the aperture', () => {
+    const c = codes({ wavelength: lam, distance: 0.1, aperture: slit(1 * mm), method: 'angular-spectrum', grid: { size: 256, pitch: 2 * um } });
+    expect(c).toContain('grid-too-small');
+  });
+
+  it('power-excess: the far-field formula on an aliased (too coarse) source', () => {
+    const c = codes({ wavelength: lam, distance: 1, aperture: { shape: 'slits', count: 20, width: 5 * um, period: 10 * um, opaque: false }, grid: { pitch: 4 * um } });
+    expect(c).toContain('power-excess');
+  });
+
+  it('tilt-y-ignored: a tilt along the lines of a 1-D slit', () => {
+    expect(codes({ ...quietFarField, illumination: { kind: 'plane', tilt: [0, 0.01] } })).toContain('tilt-y-ignored');
+  });
+});
+
+describe('memory guard', () => {
+  it('refuses a case whose grid cannot fit, with the estimate and how to lower it', () => {
+    const plan = planCase(makeCase({ wavelength: lam, distance: 5 * mm, aperture: circle(20 * mm) }), { maxMemoryBytes: 2 * 1024 ** 3 });
+    expect(plan.error).toMatch(/needs about [\d.]+ (GiB|TiB)/);
+    expect(plan.error).toMatch(/smaller window|coarser grid\.pitch|--max-memory/);
+  });
+});
