@@ -31,6 +31,8 @@ export const LIMITS = {
   featureSamples1D: 64,
   /** Fewer samples than this across the smallest feature is a warning. */
   minSamplesPerFeature: 4,
+  /** Largest FFT of the single-FFT Fresnel form per axis. */
+  maxSingleFft: 16384,
   /** Cells of margin around the aperture for the cell-response correction of direct sums. */
   compensationMargin: 8,
   /** Power beyond the angular spectrum's band limit above which the padding is doubled (measured: 4× padding took a slit at N_F = 3 from 0.5 % to 0.03 % error). */

@@ -193,11 +193,17 @@ function regimeWords(r: Regime): string {
       : 'far field (N_F ≤ 1/8: the pattern is the Fourier transform of the aperture)';
 }
 
+const FORM_WORDS: Record<FresnelForm, string> = {
+  'transfer-function': 'transfer-function form',
+  'single-fft': 'single-transform form by one FFT',
+  direct: 'single-transform form by direct sums onto the window',
+};
+
 export function methodWords(m: MethodName, form?: FresnelForm): string {
   return m === 'angular-spectrum'
     ? 'angular spectrum'
     : m === 'fresnel'
-      ? `Fresnel${form ? ` (${form === 'direct' ? 'direct single-transform form' : 'transfer-function form'})` : ''}`
+      ? `Fresnel${form ? ` (${FORM_WORDS[form]})` : ''}`
       : 'far-field formula';
 }
 
@@ -350,16 +356,21 @@ function sample(method: MethodName, g: Geometry, c: Case): Sampling {
     return { axes: plans, layout, ...costFft(plans, layout) };
   }
   if (method === 'fresnel') {
-    const fftPlans = axes.map((i) => fftAxisPlan(g, i, c, method));
+    // Three forms of the same integral. Voelz's rule: the transfer function is adequately sampled
+    // when Δx ≥ λz/L. Where several forms are valid they give the same answer, and the cheapest
+    // is taken; a grid.size names an FFT grid, so it asks for the transfer-function form.
+    const tf = axes.map((i) => fftAxisPlan(g, i, c, method));
+    const tfCost = costFft(tf, layout);
+    const tfSampled = tf.every((p) => (p.inputPitch * p.inputPitch * p.paddedSamples) / (g.lam * g.z) >= 1);
+    if (c.grid?.size) return { form: 'transfer-function', axes: tf, layout, ...tfCost };
     const direct = axes.map((i) => directAxisPlan(g, i, c, 'fresnel'));
-    const directCost = costDirect(direct, layout, false);
-    // Voelz's rule: the transfer function is adequately sampled when Δx ≥ λz/L. Where both forms
-    // are valid they give the same answer, and the cheaper one is taken.
-    const sampled = fftPlans.every((p) => (p.inputPitch * p.inputPitch * p.paddedSamples) / (g.lam * g.z) >= 1);
-    const fftCost = costFft(fftPlans, layout);
-    // A grid.size names an FFT grid, so it asks for the transfer-function form.
-    if (c.grid?.size || (sampled && fftCost.work <= directCost.work)) return { form: 'transfer-function', axes: fftPlans, layout, ...fftCost };
-    return { form: 'direct', axes: direct, layout, ...directCost };
+    const options: Sampling[] = [{ form: 'direct', axes: direct, layout, ...costDirect(direct, layout, false) }];
+    if (tfSampled) options.push({ form: 'transfer-function', axes: tf, layout, ...tfCost });
+    const single = direct.map((d) => singleFftAxisPlan(g, d));
+    if (single.every((a) => a.paddedSamples <= LIMITS.maxSingleFft)) {
+      options.push({ form: 'single-fft', axes: single, layout, ...costFft(single, layout) });
+    }
+    return options.reduce((best, o) => (o.work < best.work ? o : best));
   }
   const plans = axes.map((i) => directAxisPlan(g, i, c, 'fraunhofer'));
   return { axes: plans, layout, ...costDirect(plans, layout, true) };
@@ -479,6 +490,20 @@ function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fr
   };
 }
 
+/**
+ * The single-FFT form samples the aperture like the direct form, zero-pads to n and lands on the
+ * lattice λz/(nΔx): n is the power of two that makes that pitch at least as fine as the direct form's.
+ */
+function singleFftAxisPlan(g: Geometry, d: AxisPlan): AxisPlan {
+  const target = Math.min(d.output.step, (2 * d.windowHalf) / ((g.oneD ? LIMITS.minOutput1D : LIMITS.minOutput2D) - 1));
+  const n = nextPowerOfTwo(Math.max(d.inputSamples + 2, Math.ceil((g.lam * g.z) / (d.inputPitch * target))));
+  const step = (g.lam * g.z) / (n * d.inputPitch);
+  const full = fftAxis(n, step);
+  const lo = Math.max(0, Math.ceil((d.windowCentre - d.windowHalf - full.start) / step - 1e-9));
+  const hi = Math.min(n - 1, Math.floor((d.windowCentre + d.windowHalf - full.start) / step + 1e-9));
+  return { ...d, paddedSamples: n, output: { n: hi - lo + 1, start: full.start + lo * step, step } };
+}
+
 function farFieldMaxFrequency(g: Geometry, i: number): number {
   // |x/(λr) − α/λ| at the two window edges, with the other coordinate at its window centre.
   let worst = 0;
@@ -532,7 +557,9 @@ function samplingReasons(method: MethodName, form: FresnelForm | undefined, axes
       `${axis}: aperture-plane pitch ${len(a.inputPitch)} (${a.pitchRule}); ` +
         (fft
           ? `${a.inputSamples} samples zero-padded to ${a.paddedSamples}; output ${a.output.n} samples at the same pitch.`
-          : `${a.inputSamples} samples over the illuminated aperture; output ${a.output.n} samples at ${len(a.output.step)}.`),
+          : form === 'single-fft'
+            ? `${a.inputSamples} samples over the illuminated aperture, zero-padded to ${a.paddedSamples} so that the output lattice λz/(NΔx) is ${len(a.output.step)}; ${a.output.n} samples in the window.`
+            : `${a.inputSamples} samples over the illuminated aperture; output ${a.output.n} samples at ${len(a.output.step)}.`),
     );
   });
   return out;

@@ -3,7 +3,7 @@ import type { Axis } from '../optics/field.js';
 import type { MethodRequest } from '../job/schema.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer';
-export type FresnelForm = 'transfer-function' | 'direct';
+export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct';
 export type Regime = 'near-field' | 'transition' | 'far-field';
 /** one-d: invariant along y; separable: x-problem × y-problem; two-d: a full 2-D grid. */
 export type Layout = 'one-d' | 'separable' | 'two-d';

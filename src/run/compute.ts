@@ -13,6 +13,7 @@ import {
   type SpectralReport,
 } from '../optics/spectral.js';
 import { propagationPhase, rotate } from '../optics/phase.js';
+import { propagateFresnelSingleFFT } from '../optics/single-fft.js';
 import { LIMITS } from '../plan/limits.js';
 import type { AxisPlan, Plan } from '../plan/types.js';
 
@@ -98,11 +99,34 @@ function propagateOnGrid(
   return { field: cropTo(grid, outX, outY), report, edge: edgeEnergy(grid) };
 }
 
+/**
+ * The single-FFT form: the (cell-corrected) aperture samples are zero-padded onto the FFT grid,
+ * the tilt carrier multiplied in, and the window cut out of the output lattice.
+ */
+function propagateSingleFft(src: Field, plan: Plan, padded: [number, number], outX: Axis, outY: Axis | null, carrier: [number, number]): Propagated {
+  compensateCellResponse(src);
+  const grid = padField(src, padded[0], padded[1]);
+  multiplyCarrier(grid, carrier);
+  const out = propagateFresnelSingleFFT(grid, plan.case.distance);
+  return { field: cropTo(out, outX, outY) };
+}
+
+function multiplyCarrier(f: Field, carrier: [number, number]): void {
+  if (carrier[0] === 0 && carrier[1] === 0) return;
+  for (let r = 0; r < f.ny; r++) {
+    const y = f.ny === 1 ? 0 : f.y0 + r * f.dy;
+    for (let c = 0; c < f.nx; c++) {
+      rotate(f.data, 2 * (r * f.nx + c), 2 * Math.PI * (carrier[0] * (f.x0 + c * f.dx) + carrier[1] * y));
+    }
+  }
+}
+
 function propagate1D(src: Field, plan: Plan, axis: AxisPlan, carrier: number): Propagated {
   const z = plan.case.distance;
   if (plan.method === 'angular-spectrum' || plan.form === 'transfer-function') {
     return propagateOnGrid(src, plan, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]);
   }
+  if (plan.form === 'single-fft') return propagateSingleFft(src, plan, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]);
   if (plan.method === 'fresnel') {
     compensateCellResponse(src);
     return { field: propagateFresnelDirect(src, z, axis.output, null, [carrier, 0]) };
@@ -173,7 +197,9 @@ export function computeCase(plan: Plan): ComputedCase {
   } else {
     const { field: src, power } = sourceField2D(c.aperture, ill, sourceAxis(plan.x, fft), sourceAxis(plan.y!, fft), lam, opts);
     powerIn = power;
-    if (fft) result = propagateOnGrid(src, plan, [plan.x.paddedSamples, plan.y!.paddedSamples], outX, outY, carrier);
+    const padded: [number, number] = [plan.x.paddedSamples, plan.y!.paddedSamples];
+    if (fft) result = propagateOnGrid(src, plan, padded, outX, outY, carrier);
+    else if (plan.form === 'single-fft') result = propagateSingleFft(src, plan, padded, outX, outY, carrier);
     else if (plan.method === 'fresnel') {
       compensateCellResponse(src);
       result = { field: propagateFresnelDirect(src, z, outX, outY, carrier) };

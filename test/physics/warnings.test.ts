@@ -71,12 +71,18 @@ describe('warnings', () => {
     expect(c).toContain('transfer-undersampled');
   });
 
-  it('output-undersampled: a window so wide that the output cannot resolve the fringes (a check made before computing)', () => {
-    // 2049 output samples over 0.5 m give 0.24 mm, coarser than the intensity's Nyquist pitch
-    // λz/(2D) = 0.16 mm; computing this case would take minutes, and the warning is the planner's.
-    const plan = planCase(makeCase({ wavelength: lam, distance: 1, aperture: circle(2 * mm), window: [0.5, 0.5] }));
+  it('output-undersampled: a wide window over a large aperture (a check made before computing)', () => {
+    // A 20 mm aperture sampled for a 0.5 m window needs more than the largest single FFT, so the
+    // direct sums are planned, and their 2049 output samples over 0.5 m (0.24 mm) are far coarser
+    // than the intensity's Nyquist pitch λz/(2D) = 16 µm. Planning only: computing it would take hours.
+    const big = { maxMemoryBytes: 1e15 };
+    const spec = { wavelength: lam, distance: 1, window: [0.5, 0.5] as [number, number], method: 'fresnel' as const };
+    const plan = planCase(makeCase({ ...spec, aperture: circle(20 * mm) }), big);
+    expect(plan.form).toBe('direct');
     expect(plan.warnings.map((w) => w.code)).toContain('output-undersampled');
-    const ok = planCase(makeCase({ wavelength: lam, distance: 1, aperture: circle(2 * mm) }));
+    // A 2 mm aperture fits the single FFT, whose output lattice is fine enough.
+    const ok = planCase(makeCase({ ...spec, aperture: circle(2 * mm) }), big);
+    expect(ok.form).toBe('single-fft');
     expect(ok.warnings).toEqual([]);
   });
 
