@@ -130,7 +130,7 @@ const aperture = z.discriminatedUnion(
     z.strictObject(apertureShapes.annulus),
     z.strictObject(apertureShapes.slits),
   ],
-  { error: `expected shape to be one of ${SHAPE_NAMES.join(', ')}` },
+  { error: `expected a mapping such as {shape: circle, diameter: '50 um'} (shape: one of ${SHAPE_NAMES.join(', ')})` },
 );
 
 const angle = quantity('angle');
@@ -151,7 +151,7 @@ export const ILLUMINATION_KEYS: Record<IlluminationKind, string[]> = Object.from
 const illumination = z.discriminatedUnion(
   'kind',
   [z.strictObject(illuminationKinds.plane), z.strictObject(illuminationKinds.gaussian)],
-  { error: `expected kind to be one of ${ILLUMINATION_KINDS.join(', ')}` },
+  { error: `expected a mapping such as {kind: plane} (kind: one of ${ILLUMINATION_KINDS.join(', ')})` },
 );
 
 const gridSizeMsg = 'expected a whole number of samples, a power of two from 16 to 65536 (2-D) or 2^24 (1-D)';

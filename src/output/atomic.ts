@@ -38,7 +38,9 @@ export async function safeJoin(root: string, ...names: string[]): Promise<string
       const st = await lstat(cur);
       if (st.isSymbolicLink()) throw new Error(`refusing to write through the link ${cur}`);
     } catch (e) {
-      if ((e as NodeJS.ErrnoException).code === 'ENOENT') break;
+      const code = (e as NodeJS.ErrnoException).code;
+      if (code === 'ENOENT') break;
+      if (code === 'ENOTDIR') throw new Error(`cannot write ${target}: ${dirname(cur)} is a file, not a folder`);
       throw e;
     }
   }
