@@ -11,9 +11,12 @@ import { runJobFile, type JobOutcome } from './run/run-job.js';
 import { TOOL_VERSION } from './version.js';
 import { jsonNumbers } from './output/case-output.js';
 
+/** A mistake on the command line itself: reported with exit code 2, before any work. */
+class UsageError extends Error {}
+
 export function parseSize(text: string): number {
   const m = /^\s*(\d+(?:\.\d+)?)\s*(b|k|kb|kib|m|mb|mib|g|gb|gib|t|tb|tib)?\s*$/i.exec(text);
-  if (!m) throw new Error(`--max-memory: expected a size such as 4GiB or 512MB, got '${text}'`);
+  if (!m) throw new UsageError(`--max-memory: expected a size such as 4GiB or 512MB, got '${text}'`);
   const unit = (m[2] ?? 'b').toLowerCase();
   const pow = { b: 0, k: 1, kb: 1, kib: 1, m: 2, mb: 2, mib: 2, g: 3, gb: 3, gib: 3, t: 4, tb: 4, tib: 4 }[unit]!;
   return Math.round(Number(m[1]) * 1024 ** pow);
@@ -45,13 +48,14 @@ async function planCommand(files: string[], json: boolean, maxMemoryBytes: numbe
 
 async function runCommand(files: string[], out: string, maxMemoryBytes: number, quiet: boolean): Promise<number> {
   const outcomes: JobOutcome[] = [];
+  const namesInRun = new Map<string, string>();
   for (const file of files) {
     const log = (line: string) => {
       if (line.includes('FAILED') || /^\S+:\d+:\d+: |^\S+: /.test(line)) console.error(line);
       else if (!quiet) console.log(line);
     };
     try {
-      outcomes.push(await runJobFile(file, { outDir: out, maxMemoryBytes, log }));
+      outcomes.push(await runJobFile(file, { outDir: out, maxMemoryBytes, log, namesInRun }));
     } catch (e) {
       // Whatever stops one job file (a refused output folder, a full disk) must not stop the others.
       const error = `${file}: ${(e as Error).message}`;
@@ -86,6 +90,8 @@ export async function main(argv: string[]): Promise<number> {
       type: 'string' as const,
       describe: 'refuse cases estimated to need more memory than this (e.g. 4GiB)',
       default: `${DEFAULT_MAX_MEMORY / 1024 ** 3}GiB`,
+      // A bad size is a command-line mistake (exit 2), found before any work.
+      coerce: parseSize,
     },
   };
   await yargs(argv)
@@ -101,7 +107,7 @@ export async function main(argv: string[]): Promise<number> {
           .option('quiet', { type: 'boolean', default: false, describe: 'print only problems and the final lines' })
           .options(memoryOption),
       async (a) => {
-        code = await runCommand(a.jobs as string[], a.out, parseSize(a['max-memory']), a.quiet);
+        code = await runCommand(a.jobs as string[], a.out, a['max-memory'], a.quiet);
       },
     )
     .command(
@@ -113,7 +119,7 @@ export async function main(argv: string[]): Promise<number> {
           .option('json', { type: 'boolean', default: false, describe: 'print the plans as JSON' })
           .options(memoryOption),
       async (a) => {
-        code = await planCommand(a.jobs as string[], a.json, parseSize(a['max-memory']));
+        code = await planCommand(a.jobs as string[], a.json, a['max-memory']);
       },
     )
     .demandCommand(1, 'name a command: run or plan')
@@ -121,8 +127,9 @@ export async function main(argv: string[]): Promise<number> {
     .version(TOOL_VERSION)
     .help()
     .fail((msg, err) => {
-      if (err) throw err;
-      console.error(`spotcast: ${msg}\nRun 'spotcast --help' for the commands.`);
+      // yargs reports its own usage problems, and errors thrown while coercing options, as YError.
+      if (err && !(err instanceof UsageError) && err.name !== 'YError') throw err;
+      console.error(`spotcast: ${err ? err.message : msg}\nRun 'spotcast --help' for the commands.`);
       process.exit(2);
     })
     .parseAsync();

@@ -15,6 +15,11 @@ export interface RunOptions extends PlannerOptions {
   outDir: string;
   /** Receives one line per event; defaults to nothing. */
   log?: (line: string) => void;
+  /**
+   * Job names already written in this run, with their files: a second job of the same name would
+   * overwrite the first one's folder, so it is refused. Share one map across the files of a run.
+   */
+  namesInRun?: Map<string, string>;
 }
 
 export interface JobOutcome {
@@ -46,17 +51,24 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
   const { spec, file } = loaded;
   const outcome: JobOutcome = { file, job: spec.name, cases: 0, done: 0, failed: [], warnings: 0 };
   let cases;
+  let jobDir: string;
   try {
+    const earlier = opts.namesInRun?.get(spec.name);
+    if (earlier !== undefined) {
+      throw new Error(`the job name '${spec.name}' is already used by ${earlier} in this run; its results would overwrite those; rename one job`);
+    }
+    opts.namesInRun?.set(spec.name, file);
     cases = expandJob(spec);
+    outcome.cases = cases.length;
+    jobDir = await safeJoin(opts.outDir, spec.name);
+    await writeFileAtomic(`${jobDir}/job.json`, JSON.stringify({ file, job: loaded.given }, null, 2) + '\n');
   } catch (e) {
+    // The job as a whole cannot run (a refused folder, a full disk, a name clash): say so and return.
     outcome.error = `${file}: ${(e as Error).message}`;
     log(outcome.error);
     return outcome;
   }
-  outcome.cases = cases.length;
-  const jobDir = await safeJoin(opts.outDir, spec.name);
   outcome.folder = jobDir;
-  await writeFileAtomic(`${jobDir}/job.json`, JSON.stringify({ file, job: loaded.given }, null, 2) + '\n');
   log(`job ${spec.name} (${file}): ${cases.length} case${cases.length === 1 ? '' : 's'} → ${jobDir}`);
   const axes = sweepAxes(spec).filter((a) => a.values.length > 1);
   const rows: SummaryRow[] = [];

@@ -321,6 +321,18 @@ describe('spotcast run: bad input', () => {
   });
 });
 
+describe('two job files with the same name in one run', () => {
+  it('the second is refused (it would overwrite the first), the first is kept, exit 1', async () => {
+    const out = join(work, 'out-dup');
+    await writeFile(join(work, 'slit-again.yaml'), SLIT.replace('width: 20 um', 'width: 30 um'));
+    const r = spotcast('run', 'slit.yaml', 'slit-again.yaml', '--out', out, '--quiet');
+    expect(r.status).toBe(1);
+    expect(r.stderr).toMatch(/slit-again\.yaml: the job name 'slit-20um' is already used by slit\.yaml/);
+    const job = JSON.parse(await readFile(join(out, 'slit-20um', 'job.json'), 'utf8'));
+    expect(job.file).toBe('slit.yaml');
+  });
+});
+
 describe('usage errors exit 2', () => {
   it.each([
     [['frobnicate', 'slit.yaml'], /Unknown argument/],
@@ -342,9 +354,9 @@ describe('usage errors exit 2', () => {
     expect(r.stdout.trim()).toBe(pkg.version);
   });
 
-  it('a bad --max-memory value is refused with a non-zero exit', () => {
+  it('a bad --max-memory value is a usage error: exit 2', () => {
     const r = spotcast('plan', 'slit.yaml', '--max-memory', 'lots');
-    expect(r.status).not.toBe(0);
+    expect(r.status).toBe(2);
     expect(r.stderr).toContain("--max-memory: expected a size such as 4GiB or 512MB, got 'lots'");
   });
 });
