@@ -37,34 +37,25 @@ export function dftKernel(freqs: Float64Array, xi: Axis): Float64Array {
   return k;
 }
 
-/** 1-D: Â(f_p) for a vector of samples u on axis xi (phasors made on the fly: no M×N kernel). */
+/** 1-D: Â(f_p) for a vector of samples u on axis xi (one kernel row at a time: no M×N kernel). */
 export function dft1(u: Float64Array, xi: Axis, freqs: Float64Array): Float64Array {
   const out = new Float64Array(2 * freqs.length);
   const [lo, hi] = nonZeroSpan(u, xi.n);
   if (lo > hi) return out;
+  const sub: Axis = { n: hi - lo + 1, start: axisAt(xi, lo), step: xi.step };
+  const us = u.subarray(2 * lo, 2 * (hi + 1));
+  const row = new Float64Array(2 * sub.n);
   for (let p = 0; p < freqs.length; p++) {
-    const f = freqs[p]!;
-    const stepPhase = -2 * Math.PI * f * xi.step;
-    const sc = Math.cos(stepPhase);
-    const ss = Math.sin(stepPhase);
-    let wr = 0;
-    let wi = 0;
+    fillKernelRow(row, freqs[p]!, sub);
     let sr = 0;
     let si = 0;
-    for (let m = lo; m <= hi; m++) {
-      if ((m - lo) % RESEED === 0) {
-        const ph = -2 * Math.PI * f * axisAt(xi, m);
-        wr = Math.cos(ph);
-        wi = Math.sin(ph);
-      } else {
-        const t = wr * sc - wi * ss;
-        wi = wr * ss + wi * sc;
-        wr = t;
-      }
-      const ur = u[2 * m]!;
-      const ui = u[2 * m + 1]!;
-      sr += ur * wr - ui * wi;
-      si += ur * wi + ui * wr;
+    for (let m = 0; m < sub.n; m++) {
+      const ur = us[2 * m]!;
+      const ui = us[2 * m + 1]!;
+      const kr = row[2 * m]!;
+      const ki = row[2 * m + 1]!;
+      sr += ur * kr - ui * ki;
+      si += ur * ki + ui * kr;
     }
     out[2 * p] = sr * xi.step;
     out[2 * p + 1] = si * xi.step;

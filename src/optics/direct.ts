@@ -44,8 +44,20 @@ export function propagateFresnelDirect(
     const fy = axisValues(outY, 1 / (lam * z), -carrier[1]);
     out.data.set(dft2(u, xAxisOf(src), yAxisOf(src)!, fx, fy));
   }
+  applyFresnelFactor(out, z, 1);
+  return out;
+}
+
+/**
+ * Multiplies a computed Fresnel sum by its prefactor e^{ikz}/(iλz)·e^{iπ(x²+y²)/λz} (1-D:
+ * e^{ikz}/√(iλz)·e^{iπx²/λz}), times scale (the cell measure when the sum did not include it).
+ */
+export function applyFresnelFactor(out: Field, z: number, scale: number): void {
+  const lam = out.wavelength;
+  const oneD = isOneD(out);
+  const chirp = Math.PI / (lam * z);
   const kz = propagationPhase(z, lam);
-  const amp = oneD ? 1 / Math.sqrt(lam * z) : 1 / (lam * z);
+  const amp = scale * (oneD ? 1 / Math.sqrt(lam * z) : 1 / (lam * z));
   const iPhase = oneD ? -Math.PI / 4 : -Math.PI / 2; // 1/√i or 1/i
   for (let r = 0; r < out.ny; r++) {
     const y = oneD ? 0 : out.y0 + r * out.dy;
@@ -54,7 +66,6 @@ export function propagateFresnelDirect(
       rotate(out.data, 2 * (r * out.nx + c), kz + iPhase + chirp * (x * x + y * y), amp);
     }
   }
-  return out;
 }
 
 export interface FarFieldOptions {

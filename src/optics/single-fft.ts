@@ -3,7 +3,8 @@
 // both the aperture and the window have many samples.
 import { fft2 } from './fft.js';
 import { createField, fftAxis, isOneD, type Axis, type Field } from './field.js';
-import { propagationPhase, rotate } from './phase.js';
+import { rotate } from './phase.js';
+import { applyFresnelFactor } from './direct.js';
 
 /**
  * Output lattice of the single-FFT form for an FFT of n samples per axis at aperture pitch dx:
@@ -42,17 +43,7 @@ export function propagateFresnelSingleFFT(src: Field, z: number): Field {
   fft2(u, src.nx, src.ny, false);
   shiftHalf(u, src.nx, src.ny);
   f.data.set(u);
-  const kz = propagationPhase(z, lam);
-  const cell = oneD ? src.dx : src.dx * src.dy;
-  const amp = cell * (oneD ? 1 / Math.sqrt(lam * z) : 1 / (lam * z));
-  const iPhase = oneD ? -Math.PI / 4 : -Math.PI / 2;
-  for (let r = 0; r < f.ny; r++) {
-    const y = oneD ? 0 : f.y0 + r * f.dy;
-    for (let c = 0; c < f.nx; c++) {
-      const x = f.x0 + c * f.dx;
-      rotate(f.data, 2 * (r * f.nx + c), kz + iPhase + chirp * (x * x + y * y), amp);
-    }
-  }
+  applyFresnelFactor(f, z, oneD ? src.dx : src.dx * src.dy);
   return f;
 }
 

@@ -421,10 +421,7 @@ function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisP
   const n = c.grid?.size ?? Math.max(minN, nextPowerOfTwo(Math.ceil((2 * half) / p.pitch) + 2));
   const padded = n * paddingFactor(g, method, n * p.pitch);
   // The output is the window cut out of the padded grid, on the same pitch.
-  const full = fftAxis(padded, p.pitch);
-  const lo = Math.max(0, Math.ceil((g.centre[i]! - g.windowHalf[i]! - full.start) / p.pitch - 1e-9));
-  const hi = Math.min(padded - 1, Math.floor((g.centre[i]! + g.windowHalf[i]! - full.start) / p.pitch + 1e-9));
-  const output: Axis = { n: hi - lo + 1, start: full.start + lo * p.pitch, step: p.pitch };
+  const output = windowOn(fftAxis(padded, p.pitch), g.centre[i]!, g.windowHalf[i]!);
   return {
     inputPitch: p.pitch,
     inputSamples: n,
@@ -497,11 +494,15 @@ function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fr
 function singleFftAxisPlan(g: Geometry, d: AxisPlan): AxisPlan {
   const target = Math.min(d.output.step, (2 * d.windowHalf) / ((g.oneD ? LIMITS.minOutput1D : LIMITS.minOutput2D) - 1));
   const n = nextPowerOfTwo(Math.max(d.inputSamples + 2, Math.ceil((g.lam * g.z) / (d.inputPitch * target))));
-  const step = (g.lam * g.z) / (n * d.inputPitch);
-  const full = fftAxis(n, step);
-  const lo = Math.max(0, Math.ceil((d.windowCentre - d.windowHalf - full.start) / step - 1e-9));
-  const hi = Math.min(n - 1, Math.floor((d.windowCentre + d.windowHalf - full.start) / step + 1e-9));
-  return { ...d, paddedSamples: n, output: { n: hi - lo + 1, start: full.start + lo * step, step } };
+  const output = windowOn(fftAxis(n, (g.lam * g.z) / (n * d.inputPitch)), d.windowCentre, d.windowHalf);
+  return { ...d, paddedSamples: n, output };
+}
+
+/** The samples of a lattice that fall inside [centre − half, centre + half]. */
+function windowOn(full: Axis, centre: number, half: number): Axis {
+  const lo = Math.max(0, Math.ceil((centre - half - full.start) / full.step - 1e-9));
+  const hi = Math.min(full.n - 1, Math.floor((centre + half - full.start) / full.step + 1e-9));
+  return { n: hi - lo + 1, start: full.start + lo * full.step, step: full.step };
 }
 
 function farFieldMaxFrequency(g: Geometry, i: number): number {
