@@ -1,6 +1,6 @@
 // Propagators that evaluate the diffraction integral directly onto a chosen output grid:
 // the Fresnel integral (single-transform form, paraxial) and the far-field formula.
-import { dft1, dft2, dft2AtPoints } from './dft.js';
+import { dft1, dft2, dft2AtPoints, interpolateSpectrum, tabulateSpectrum } from './dft.js';
 import { axisAt, createField, isOneD, xAxisOf, yAxisOf, type Axis, type Field } from './field.js';
 import { propagationPhase, rotate } from './phase.js';
 import { cellResponse } from './spectral.js';
@@ -246,8 +246,9 @@ export function applyFarFieldFactor(out: Field, z: number): void {
 }
 
 /**
- * Far field of a separable source U₀(ξ,η) = ux(ξ)·uy(η): Â = Âx·Ây, each 1-D sum evaluated at the
- * point's own direction cosine, so the exact (non-paraxial) mapping costs only M²(nx+ny).
+ * Far field of a separable source U₀(ξ,η) = ux(ξ)·uy(η): Â = Âx·Ây, each evaluated at the point's
+ * own direction cosine. Each factor is tabulated once on a fine frequency grid and interpolated
+ * (see tabulateSpectrum), so the exact non-paraxial mapping costs O(M²) after O((Mx+My)·N).
  */
 export function propagateFarFieldSeparable(
   ux: Field,
@@ -260,25 +261,31 @@ export function propagateFarFieldSeparable(
   const lam = ux.wavelength;
   const out = createField(outX, outY, lam);
   const n = outX.n;
-  for (let r = 0; r < outY.n; r++) {
+  const m = outY.n;
+  const fx = new Float64Array(n * m);
+  const fy = new Float64Array(n * m);
+  for (let r = 0; r < m; r++) {
     const y = axisAt(outY, r);
-    const fx = new Float64Array(n);
-    const fy = new Float64Array(n);
     for (let c = 0; c < n; c++) {
       const x = axisAt(outX, c);
       const rr = Math.sqrt(x * x + y * y + z * z);
-      fx[c] = x / (lam * rr) - carrier[0];
-      fy[c] = y / (lam * rr) - carrier[1];
+      fx[r * n + c] = x / (lam * rr) - carrier[0];
+      fy[r * n + c] = y / (lam * rr) - carrier[1];
     }
-    const ax = dft1(ux.data, xAxisOf(ux), fx);
-    const ay = dft1(uy.data, xAxisOf(uy), fy);
-    divideCellResponse(ax, fx, null, ux.dx, 0);
-    divideCellResponse(ay, fy, null, uy.dx, 0);
-    for (let c = 0; c < n; c++) {
-      const i = 2 * (r * n + c);
-      out.data[i] = ax[2 * c]! * ay[2 * c]! - ax[2 * c + 1]! * ay[2 * c + 1]!;
-      out.data[i + 1] = ax[2 * c]! * ay[2 * c + 1]! + ax[2 * c + 1]! * ay[2 * c]!;
-    }
+  }
+  const range = (f: Float64Array) => f.reduce(([lo, hi], v) => [Math.min(lo, v), Math.max(hi, v)], [Infinity, -Infinity]);
+  const [x0, x1] = range(fx);
+  const [y0, y1] = range(fy);
+  const tx = tabulateSpectrum(ux.data, xAxisOf(ux), x0, x1);
+  const ty = tabulateSpectrum(uy.data, xAxisOf(uy), y0, y1);
+  const ax = new Float64Array(2);
+  const ay = new Float64Array(2);
+  for (let i = 0; i < n * m; i++) {
+    interpolateSpectrum(tx, fx[i]!, ax, 0);
+    interpolateSpectrum(ty, fy[i]!, ay, 0);
+    const g = 1 / (cellResponse(fx[i]!, ux.dx) * cellResponse(fy[i]!, uy.dx));
+    out.data[2 * i] = g * (ax[0]! * ay[0]! - ax[1]! * ay[1]!);
+    out.data[2 * i + 1] = g * (ax[0]! * ay[1]! + ax[1]! * ay[0]!);
   }
   applyFarFieldFactor(out, z);
   return out;

@@ -108,7 +108,14 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const goodmanRatio = goodman(geo);
   const farFieldPhaseError = Math.PI * nfEff;
   const beamLimited = ill.kind === 'gaussian' && waist < Math.min(facts.characteristic[0], oneD ? Infinity : facts.characteristic[1]);
-  const farFieldPeakError = beamLimited ? farFieldPhaseError ** 2 : farFieldPhaseError ** 2 / 12;
+  let farFieldPeakError = beamLimited ? farFieldPhaseError ** 2 : farFieldPhaseError ** 2 / 12;
+  if (c.aperture.opaque) {
+    // Behind an obstacle the hole's field interferes with the free beam, so its phase error (about
+    // πN_F/3 on the axis) enters linearly, scaled by the hole's amplitude relative to the beam
+    // (area/λz in 2-D, width/√(λz) in 1-D, at most about 2).
+    const holeAmplitude = Math.min(2, oneD ? facts.openMeasure / Math.sqrt(lam * z) : facts.openMeasure / (lam * z));
+    farFieldPeakError = Math.max(farFieldPeakError, (2 * farFieldPhaseError * holeAmplitude) / 3);
+  }
 
   // Method.
   const minFeature = facts.minFeature;

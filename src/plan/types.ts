@@ -65,7 +65,8 @@ export interface Checks {
   /**
    * Estimated relative error of the far-field formula's peak: (πN_F)²/12 for a uniformly lit
    * aperture (on-axis 4sin²(πN_F/2) against (πN_F)²), (z_R/z)² for a Gaussian beam narrower than
-   * the aperture (w(z)² = w_ff²(1 + z_R²/z²)).
+   * the aperture (w(z)² = w_ff²(1 + z_R²/z²)); behind an obstacle, the error of the interference
+   * of the hole's field with the free beam, relative to the beam.
    */
   farFieldPeakError: number;
   /** Estimated fraction of power outside the window (before computing). */

@@ -42,6 +42,29 @@ describe("Babinet's principle: an obstacle and its hole", () => {
   });
 });
 
+describe("Babinet's principle in 1-D: a wire", () => {
+  it('an opaque strip in a Gaussian beam equals the beam with the strip removed, propagated directly', () => {
+    const w0 = 0.5 * mm;
+    const wire = 0.1 * mm;
+    const z = 0.3;
+    const ill = { kind: 'gaussian' as const, waist: w0, tilt: [0, 0] as [number, number] };
+    const { c, plan } = runCase({ wavelength: lam, distance: z, aperture: { shape: 'slit', width: wire, opaque: true }, illumination: ill });
+    expect(plan.layout).toBe('one-d');
+    const ax = centredAxis(2 * Math.ceil((3.5 * w0) / (0.5 * um)) + 1, 0.5 * um);
+    const beam = sourceField1D({ kind: 'interval', width: 7 * w0 }, ill, ax, lam, 0, { sampleCarrier: false }).field;
+    const strip = sourceField1D({ kind: 'interval', width: wire }, ill, ax, lam, 0, { sampleCarrier: false }).field;
+    for (let i = 0; i < beam.data.length; i++) beam.data[i] = beam.data[i]! - strip.data[i]!;
+    const direct = intensityOf(propagateFresnelDirect(beam, z, plan.x.output, null));
+    let worst = 0;
+    let peak = 0;
+    for (let i = 0; i < direct.length; i++) {
+      worst = Math.max(worst, Math.abs(direct[i]! - c.intensity[i]!));
+      peak = Math.max(peak, direct[i]!);
+    }
+    expect(worst / peak).toBeLessThan(2e-3);
+  });
+});
+
 describe('reciprocity of the angular spectrum', () => {
   it('propagating forward by z and back by −z returns a band-limited field to 1e-9', () => {
     // A Gaussian of 40 µm radius is band-limited far inside the grid's band, so nothing is cut.
