@@ -75,7 +75,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   // Observation window.
   const centre: [number, number] = [(z * alpha) / gamma, oneD ? 0 : (z * beta) / gamma];
   const beamRadius = ill.kind === 'gaussian' ? beamRadiusAt(waist, lam, z) : undefined;
-  const margin = tailMargin(facts, ill.kind === 'gaussian' ? waist : Infinity, lam, z, oneD);
+  const margin = tailMargin(facts, waist, lam, z, oneD);
   const fresnelScale = Math.sqrt((lam * z) / 2);
   const windowHalf: [number, number] = [0, 0];
   for (const i of oneD ? [0] : [0, 1]) {
@@ -120,27 +120,28 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   // Method.
   const minFeature = facts.minFeature;
   const candidates = chooseMethods(c.method, geo, paraxialPhaseError, farFieldPhaseError, farFieldPeakError, reasons);
-  let chosen: { method: MethodName; form?: FresnelForm; axes: AxisPlan[]; layout: Layout; memory: number; work: number } | undefined;
-  let firstTooBig: { method: MethodName; memory: number; axes: AxisPlan[] } | undefined;
+  type Chosen = Sampling & { method: MethodName };
+  let chosen: Chosen | undefined;
+  let firstTooBig: Chosen | undefined;
   for (const method of candidates) {
-    const s = sample(method, geo, c);
+    const s: Chosen = { method, ...sample(method, geo, c) };
     if (s.memory <= maxMemory) {
-      chosen = { method, ...s };
+      chosen = s;
       break;
     }
-    firstTooBig ??= { method, memory: s.memory, axes: s.axes };
+    firstTooBig ??= s;
     if (c.method === 'auto') {
       reasons.push(`${methodWords(method)} would need ${bytes(s.memory)} (over the ${bytes(maxMemory)} limit); trying the next method.`);
     }
   }
   let error: string | undefined;
   if (!chosen) {
-    const big = firstTooBig!;
-    const s = sample(big.method, geo, c);
-    chosen = { method: big.method, ...s };
+    // Nothing fits: the plan of the preferred method is kept, so that `plan` can show it, and the
+    // case is refused with the estimate and how to lower it.
+    chosen = firstTooBig!;
     error =
-      `needs about ${bytes(big.memory)} (limit ${bytes(maxMemory)}): ${methodWords(big.method)} on ` +
-      `${big.axes.map((a) => a.paddedSamples).join(' × ')} samples at ${len(big.axes[0]!.inputPitch)}. ` +
+      `needs about ${bytes(chosen.memory)} (limit ${bytes(maxMemory)}): ${methodWords(chosen.method)} on ` +
+      `${chosen.axes.map((a) => a.paddedSamples).join(' × ')} samples at ${len(chosen.axes[0]!.inputPitch)}. ` +
       `Lower it with a smaller window, a coarser grid.pitch, ${c.method === 'auto' ? 'or' : 'method: auto or'} a larger limit (--max-memory).`;
   }
   const method = chosen.method;
