@@ -41,11 +41,15 @@ export function runCase(s: CaseSpec) {
   return { plan, rec, c, x, y, codes: rec.warnings.map((w) => w.code) };
 }
 
-/** Largest |a_i − b_i| over a set of samples. */
-export function maxAbsDiff(a: ArrayLike<number>, b: ArrayLike<number>): number {
+/** Largest |a_i − b_i| over the largest |b_i|: a difference relative to the reference's peak. */
+export function maxDiffOverPeak(a: ArrayLike<number>, b: ArrayLike<number>): number {
   let m = 0;
-  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i]! - b[i]!));
-  return m;
+  let peak = 0;
+  for (let i = 0; i < a.length; i++) {
+    m = Math.max(m, Math.abs(a[i]! - b[i]!));
+    peak = Math.max(peak, Math.abs(b[i]!));
+  }
+  return m / peak;
 }
 
 export const um = 1e-6;

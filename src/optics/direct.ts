@@ -26,15 +26,7 @@ export function propagateFresnelDirect(
 ): Field {
   const lam = src.wavelength;
   const oneD = isOneD(src);
-  const chirp = Math.PI / (lam * z);
-  const u = new Float64Array(src.data);
-  for (let r = 0; r < src.ny; r++) {
-    const y = src.y0 + r * src.dy;
-    for (let c = 0; c < src.nx; c++) {
-      const x = src.x0 + c * src.dx;
-      rotate(u, 2 * (r * src.nx + c), chirp * (x * x + y * y));
-    }
-  }
+  const u = withInputChirp(src, z);
   const fx = axisValues(outX, 1 / (lam * z), -carrier[0]);
   const out = createField(outX, oneD ? null : outY, lam);
   if (oneD) {
@@ -46,6 +38,20 @@ export function propagateFresnelDirect(
   }
   applyFresnelFactor(out, z, 1);
   return out;
+}
+
+/** A copy of the source samples times the Fresnel integral's input chirp e^{iπ(ξ²+η²)/λz}. */
+export function withInputChirp(src: Field, z: number): Float64Array {
+  const chirp = Math.PI / (src.wavelength * z);
+  const u = new Float64Array(src.data);
+  for (let r = 0; r < src.ny; r++) {
+    const y = src.y0 + r * src.dy;
+    for (let c = 0; c < src.nx; c++) {
+      const x = src.x0 + c * src.dx;
+      rotate(u, 2 * (r * src.nx + c), chirp * (x * x + y * y));
+    }
+  }
+  return u;
 }
 
 /**

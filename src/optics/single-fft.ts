@@ -3,8 +3,7 @@
 // both the aperture and the window have many samples.
 import { fft2 } from './fft.js';
 import { createField, fftAxis, isOneD, type Axis, type Field } from './field.js';
-import { rotate } from './phase.js';
-import { applyFresnelFactor } from './direct.js';
+import { applyFresnelFactor, withInputChirp } from './direct.js';
 
 /**
  * Output lattice of the single-FFT form for an FFT of n samples per axis at aperture pitch dx:
@@ -23,7 +22,6 @@ export function singleFftAxis(n: number, dx: number, wavelength: number, z: numb
 export function propagateFresnelSingleFFT(src: Field, z: number): Field {
   const lam = src.wavelength;
   const oneD = isOneD(src);
-  const chirp = Math.PI / (lam * z);
   const f = createField(
     singleFftAxis(src.nx, src.dx, lam, z),
     oneD ? null : singleFftAxis(src.ny, src.dy, lam, z),
@@ -31,14 +29,7 @@ export function propagateFresnelSingleFFT(src: Field, z: number): Field {
   );
   // Input chirp, then move the sample at x = 0 to index 0 (and back after the transform) so that the
   // FFT's phase reference is the optical axis.
-  const u = new Float64Array(src.data);
-  for (let r = 0; r < src.ny; r++) {
-    const y = src.y0 + r * src.dy;
-    for (let c = 0; c < src.nx; c++) {
-      const x = src.x0 + c * src.dx;
-      rotate(u, 2 * (r * src.nx + c), chirp * (x * x + y * y));
-    }
-  }
+  const u = withInputChirp(src, z);
   shiftHalf(u, src.nx, src.ny);
   fft2(u, src.nx, src.ny, false);
   shiftHalf(u, src.nx, src.ny);
