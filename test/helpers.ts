@@ -13,6 +13,7 @@ export interface CaseSpec {
   method?: Case['method'];
   grid?: Case['grid'];
   window?: [number, number];
+  analysis?: Case['analysis'];
 }
 
 export function makeCase(s: CaseSpec): Case {
@@ -29,6 +30,7 @@ export function makeCase(s: CaseSpec): Case {
     method: s.method ?? 'auto',
     swept: {},
     output: { npy: 'float64', logDecades: 5 },
+    analysis: s.analysis ?? { detectors: [] },
   };
 }
 

@@ -18,6 +18,10 @@ export interface SpotMetrics {
   centroid: [number, number | null];
   /** Full width at half maximum through the peak, null when the profile does not fall to half. */
   fwhm: [number | null, number | null];
+  /** Full width where the profile through the peak falls to peak/e². */
+  e2Width: [number | null, number | null];
+  /** Second-moment (D4σ) widths about the centroid over the window (ISO 11146 definition). */
+  d4sigma: [number, number | null];
   /** Distance from the peak to the first minimum of the profile through it (mean of both sides). */
   firstMinimum: [number | null, number | null];
   powerInWindow: number;
@@ -56,7 +60,12 @@ function sampleAt(p: Float64Array, t: number): number {
 
 /** Full width at half maximum around index i0 (in samples), by linear interpolation. */
 export function fwhmSamples(p: Float64Array, i0: number): number | null {
-  const half = p[i0]! / 2;
+  return widthAtSamples(p, i0, 0.5);
+}
+
+/** Full width (in samples) where the profile around i0 falls to level × its value at i0. */
+export function widthAtSamples(p: Float64Array, i0: number, level: number): number | null {
+  const half = p[i0]! * level;
   if (!(half > 0)) return null;
   let l = i0;
   while (l > 0 && p[l]! > half) l--;
@@ -160,12 +169,30 @@ export function spotMetrics(m: IntensityMap): SpotMetrics {
     const s = firstMinimumSamples(p, i);
     return s === null ? null : s * d;
   };
+  const e2 = (p: Float64Array | null, i: number, d: number | null) => {
+    if (!p || d === null) return null;
+    const s = widthAtSamples(p, i, Math.exp(-2));
+    return s === null ? null : s * d;
+  };
+  const cx = sum > 0 ? sx / sum : 0;
+  const cy = sum > 0 ? sy / sum : 0;
+  let vx = 0;
+  let vy = 0;
+  for (let r = 0; r < rows; r++) {
+    for (let c = 0; c < cols; c++) {
+      const v = I[r * cols + c]!;
+      vx += v * (xAt(m, c) - cx) ** 2;
+      vy += v * (yAt(m, r) - cy) ** 2;
+    }
+  }
   return {
     peakIntensity: peak,
     peakPosition: [peakX, peakY],
     onAxisIntensity: onAxis,
     centroid: [sum > 0 ? sx / sum : 0, dy === null ? null : sum > 0 ? sy / sum : 0],
     fwhm: [fw(rowP, pc, dx), fw(colP, pr, dy)],
+    e2Width: [e2(rowP, pc, dx), e2(colP, pr, dy)],
+    d4sigma: [sum > 0 ? 4 * Math.sqrt(vx / sum) : 0, dy === null ? null : sum > 0 ? 4 * Math.sqrt(vy / sum) : 0],
     firstMinimum: [fm(rowP, pc, dx), fm(colP, pr, dy)],
     powerInWindow: sum * cell,
   };

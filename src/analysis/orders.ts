@@ -15,10 +15,14 @@ export interface GratingOrder {
   fractionOfIncident: number | null;
   /** False when part of the order's interval lies outside the window. */
   inWindow: boolean;
+  /** Resolving power λ/Δλ = |m|·N of the order (Born & Wolf §8.6.3), null for m = 0. */
+  resolvingPower: number | null;
 }
 
 export interface GratingInput {
   period: number;
+  /** Number of lines (slits) illuminated. */
+  count: number;
   wavelength: number;
   distance: number;
   /** sin θ_i of the incident light in the plane of the grating's x axis. */
@@ -60,7 +64,16 @@ export function gratingOrders(map: IntensityMap, g: GratingInput): GratingOrder[
   for (let i = 0; i < xs.length; i++) {
     const o = xs[i]!;
     if (o.x === null) {
-      out.push({ m: o.m, angle: null, position: null, propagates: false, fractionOfTransmitted: null, fractionOfIncident: null, inWindow: false });
+      out.push({
+        m: o.m,
+        angle: null,
+        position: null,
+        propagates: false,
+        fractionOfTransmitted: null,
+        fractionOfIncident: null,
+        inWindow: false,
+        resolvingPower: null,
+      });
       continue;
     }
     const prev = xs[i - 1]?.x ?? null;
@@ -77,6 +90,7 @@ export function gratingOrders(map: IntensityMap, g: GratingInput): GratingOrder[
       fractionOfTransmitted: inWindow ? p / g.powerTransmitted : null,
       fractionOfIncident: inWindow && g.powerIncident ? p / g.powerIncident : null,
       inWindow,
+      resolvingPower: o.m === 0 ? null : Math.abs(o.m) * g.count,
     });
   }
   // Evanescent orders beyond ±1 say nothing useful; the first ones show where the cut-off is.

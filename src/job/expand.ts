@@ -61,6 +61,12 @@ export function expandJob(job: JobSpec): Case[] {
   }
   const swept = axes.filter((a) => a.values.length > 1);
   const width = String(total).length;
+  const spot = job.search?.['smallest-spot'];
+  const analysis = {
+    detectors: (job.detector ?? []).map((d) => ({ kind: d.kind, size: d.size, ...(d.at ? { at: d.at } : {}) })),
+    ...(spot ? { smallestSpot: { between: spot.between, measure: spot.measure } } : {}),
+    ...(job.orders?.overlap ? { orderOverlap: job.orders.overlap } : {}),
+  };
   const cases: Case[] = [];
   const idx = new Array<number>(axes.length).fill(0);
   for (let n = 0; n < total; n++) {
@@ -88,6 +94,7 @@ export function expandJob(job: JobSpec): Case[] {
       method: job.method,
       swept: sweptValues,
       output: job.output,
+      analysis,
     });
     // Odometer increment, last axis fastest.
     for (let i = axes.length - 1; i >= 0; i--) {

@@ -5,6 +5,10 @@ import { LineCounter, parseDocument, isNode, type Document } from 'yaml';
 import type { $ZodIssue } from 'zod/v4/core';
 import {
   APERTURE_KEYS,
+  DETECTOR_KEYS,
+  ORDERS_KEYS,
+  SEARCH_KEYS,
+  SMALLEST_SPOT_KEYS,
   GRID_KEYS,
   ILLUMINATION_KEYS,
   JOB_KEYS,
@@ -197,6 +201,14 @@ function knownKeysAt(path: (string | number)[], given: unknown): string[] {
       return GRID_KEYS;
     case 'output':
       return OUTPUT_KEYS;
+    case 'detector':
+      return DETECTOR_KEYS;
+    case 'search':
+      return SEARCH_KEYS;
+    case 'search.smallest-spot':
+      return SMALLEST_SPOT_KEYS;
+    case 'orders':
+      return ORDERS_KEYS;
     default:
       return RANGE_KEYS; // the only other mappings in a job are ranges {from, to, count, spacing}
   }

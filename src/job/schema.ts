@@ -189,6 +189,39 @@ export const OUTPUT_KEYS = Object.keys(outputShape);
 
 const nameMsg = 'expected a name of letters, digits, - and _ (at most 64 characters), such as pinhole-50um';
 
+const detectorShape = {
+  kind: z.enum(['pinhole', 'square'], { error: "expected 'pinhole' (a disc) or 'square' (a pixel)" }),
+  size: positiveLength(),
+  at: z
+    .tuple([quantity('length'), quantity('length')], { error: "expected a position [x, y] such as ['0 mm', '1.5 mm']" })
+    .optional(),
+};
+export const DETECTOR_KEYS = Object.keys(detectorShape);
+const detectorOne = z.strictObject(detectorShape, {
+  error: mappingError("expected a mapping such as {kind: pinhole, size: '20 um'}"),
+});
+const detectors = z.union([z.array(detectorOne).min(1), detectorOne.transform((d) => [d])], {
+  error: "expected a detector {kind: pinhole | square, size, at} or a list of them",
+});
+
+const SEARCH_MEASURES = ['energy', 'fwhm', 'd4sigma'] as const;
+const smallestSpotShape = {
+  between: z.tuple([positiveLength(), positiveLength()], { error: "expected two sizes [smallest, largest] such as ['10 um', '300 um']" }),
+  measure: z
+    .enum(SEARCH_MEASURES, { error: `expected one of ${SEARCH_MEASURES.join(', ')}` })
+    .default('energy'),
+};
+export const SMALLEST_SPOT_KEYS = Object.keys(smallestSpotShape);
+const searchShape = {
+  'smallest-spot': z.strictObject(smallestSpotShape, {
+    error: mappingError("expected a mapping such as {between: ['10 um', '300 um']}"),
+  }),
+};
+export const SEARCH_KEYS = Object.keys(searchShape);
+
+const ordersShape = { overlap: positiveLength().optional() };
+export const ORDERS_KEYS = Object.keys(ordersShape);
+
 const jobShape = {
   name: z
     .string({ error: nameMsg })
@@ -204,11 +237,33 @@ const jobShape = {
   output: z
     .strictObject(outputShape, { error: mappingError("expected a mapping such as {npy: float32, logDecades: 5}") })
     .default({ npy: 'float64', logDecades: 5 }),
+  detector: detectors.optional(),
+  search: z.strictObject(searchShape, { error: mappingError("expected a mapping such as {smallest-spot: {between: ['10 um', '300 um']}}") }).optional(),
+  orders: z.strictObject(ordersShape, { error: mappingError("expected a mapping such as {overlap: '0.5 mm'}") }).optional(),
 };
 export const JOB_KEYS = Object.keys(jobShape);
 
 export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
   const a = job.aperture;
+  const spot = job.search?.['smallest-spot'];
+  if (spot) {
+    if (a.shape !== 'circle' && !(a.shape === 'slit' && !a.length)) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['search', 'smallest-spot'],
+        message: `expected a circle or a (long) slit: the search varies the diameter or the width, not the sizes of a ${a.shape}`,
+      });
+    } else if ((a.shape === 'circle' ? a.diameter : a.width).values.length > 1) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['search', 'smallest-spot'],
+        message: `expected a single aperture size: the search chooses the ${a.shape === 'circle' ? 'diameter' : 'width'} itself, so it cannot also be swept`,
+      });
+    }
+    if (!(spot.between[0] < spot.between[1])) {
+      ctx.addIssue({ code: 'custom', path: ['search', 'smallest-spot', 'between'], message: 'expected [smallest, largest] with smallest < largest' });
+    }
+  }
   if (a.shape === 'annulus') {
     const minOuter = Math.min(...a.outer.values);
     if (Math.max(...a.inner.values) >= minOuter) {

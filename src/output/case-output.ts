@@ -7,6 +7,8 @@ import { describe } from '../optics/aperture.js';
 import { formatLength } from '../job/units.js';
 import { profileCol, profileRow, type IntensityMap, type SpotMetrics } from '../analysis/metrics.js';
 import type { GratingOrder } from '../analysis/orders.js';
+import type { Verdict } from '../analysis/verdict.js';
+import type { EnergyCurve } from '../analysis/encircled.js';
 import type { Plan, Warning } from '../plan/types.js';
 import type { ComputedCase } from '../run/compute.js';
 import { writeFileAtomic, safeJoin } from './atomic.js';
@@ -22,15 +24,40 @@ export interface CaseMetrics extends SpotMetrics {
   powerBlocked?: number;
   /** powerInWindow / powerThroughAperture (null for opaque obstacles). */
   windowFraction: number | null;
+  /**
+   * Encircled energy about the centroid (2-D: radii; 1-D: half-widths of a strip), as fractions of
+   * the power through the aperture; null for obstacles in a plane wave (no finite total).
+   */
+  encircled: { centre: [number, number]; radius50: number | null; radius84: number | null; radius90: number | null } | null;
+  /** Fraction of the power through the aperture on each detector the job names. */
+  detectors: { kind: 'pinhole' | 'square'; size: number; at: [number, number]; fraction: number }[];
   orders?: GratingOrder[];
+  /** Diffraction-limited verdicts (circles, slits, rectangles in a plane wave). */
+  verdicts?: Verdict[];
 }
 
 export interface CaseRecord {
   plan: Plan;
   computed: ComputedCase;
   metrics: CaseMetrics;
+  /** The encircled-energy curve behind metrics.encircled (written as a CSV). */
+  energy: EnergyCurve | null;
   warnings: Warning[];
   seconds: number;
+  /** Results of the job's search, when it asked for one. */
+  search?: SmallestSpot;
+}
+
+export interface SmallestSpot {
+  measure: 'energy' | 'fwhm' | 'd4sigma';
+  /** What was varied: the circle's diameter or the slit's width. */
+  key: string;
+  best: number;
+  bestMeasure: number;
+  textbook: number;
+  textbookMeasure: number | null;
+  method: string;
+  evaluations: number;
 }
 
 export const CASE_FILES = {
@@ -41,6 +68,7 @@ export const CASE_FILES = {
   profileX: 'profile-x.csv',
   profileY: 'profile-y.csv',
   orders: 'orders.csv',
+  energy: 'encircled-energy.csv',
 } as const;
 
 export function caseTitle(plan: Plan): string {
@@ -89,8 +117,11 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
       swept: c.swept,
     },
     files: Object.fromEntries(
-      Object.entries(CASE_FILES).filter(([k]) => (k === 'profileY' ? computed.pitch[1] !== null : k === 'orders' ? !!metrics.orders : true)),
+      Object.entries(CASE_FILES).filter(([k]) =>
+        k === 'profileY' ? computed.pitch[1] !== null : k === 'orders' ? !!metrics.orders : k === 'energy' ? !!rec.energy : true,
+      ),
     ),
+    ...(rec.search ? { search: rec.search } : {}),
     seconds: rec.seconds,
     note: 'Scalar-diffraction model of an idealised part; not a laser-hazard assessment (see the README).',
   };
@@ -134,6 +165,13 @@ export async function writeCase(jobDir: string, rec: CaseRecord): Promise<string
     await writeFileAtomic(join(tmp, CASE_FILES.profileX), profileCsv(map, 'x', row, col));
     if (computed.pitch[1] !== null) await writeFileAtomic(join(tmp, CASE_FILES.profileY), profileCsv(map, 'y', row, col));
     if (rec.metrics.orders) await writeFileAtomic(join(tmp, CASE_FILES.orders), ordersCsv(rec.metrics.orders));
+    if (rec.energy) {
+      const head = computed.pitch[1] === null ? 'half_width_m' : 'radius_m';
+      await writeFileAtomic(
+        join(tmp, CASE_FILES.energy),
+        toCsv([head, 'fraction_of_power_through_aperture'], Array.from(rec.energy.radius, (r, i) => [r, rec.energy!.fraction[i]!])),
+      );
+    }
     const picture = {
       intensity: computed.intensity,
       rows: computed.rows,
@@ -175,8 +213,8 @@ async function replaceDir(tmp: string, final: string): Promise<void> {
 
 function ordersCsv(orders: GratingOrder[]): string {
   return toCsv(
-    ['m', 'propagates', 'angle_rad', 'position_m', 'fraction_of_transmitted', 'fraction_of_incident', 'in_window'],
-    orders.map((o) => [o.m, o.propagates, o.angle, o.position, o.fractionOfTransmitted, o.fractionOfIncident, o.inWindow]),
+    ['m', 'propagates', 'angle_rad', 'position_m', 'fraction_of_transmitted', 'fraction_of_incident', 'in_window', 'resolving_power'],
+    orders.map((o) => [o.m, o.propagates, o.angle, o.position, o.fractionOfTransmitted, o.fractionOfIncident, o.inWindow, o.resolvingPower]),
   );
 }
 

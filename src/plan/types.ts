@@ -29,6 +29,22 @@ export interface Case {
   /** Values of the swept keys for this case, by dotted key path (SI units). */
   swept: Record<string, number>;
   output: { npy: 'float64' | 'float32'; logDecades: number };
+  /** What to measure beyond the standard metrics (the job's detector, search and orders keys). */
+  analysis: CaseAnalysis;
+}
+
+export interface DetectorRequest {
+  kind: 'pinhole' | 'square';
+  size: number;
+  /** Centre in the observation plane; absent: the spot's centroid. */
+  at?: [number, number];
+}
+
+export interface CaseAnalysis {
+  detectors: DetectorRequest[];
+  smallestSpot?: { between: [number, number]; measure: 'energy' | 'fwhm' | 'd4sigma' };
+  /** Orders of different wavelengths closer than this on the screen count as overlapping. */
+  orderOverlap?: number;
 }
 
 export interface AxisPlan {

@@ -10,6 +10,33 @@ import { safeJoin, writeFileAtomic } from '../output/atomic.js';
 import { summaryCsv, type SummaryRow } from '../output/summary.js';
 import { runPlannedCase } from './run-case.js';
 import { methodWords } from '../plan/planner.js';
+import { makeVerdict } from '../analysis/verdict.js';
+import { farFieldFrom, newSearchContext, smallestSpot, type SearchContext } from './searches.js';
+import { formatLength } from '../job/units.js';
+import type { SmallestSpot } from '../output/case-output.js';
+
+/**
+ * The answers that need extra propagations: from which distance the far-field size holds (added to
+ * each verdict) and, when the job asks, the aperture size with the smallest spot.
+ */
+export function answerQuestions(rec: CaseRecord, ctx: SearchContext): void {
+  const c = rec.plan.case;
+  if (rec.metrics.verdicts) {
+    rec.metrics.verdicts = rec.metrics.verdicts.map((v) => makeVerdict(v.axis, v.size, v.fresnelNumber, farFieldFrom(c, v.axis, ctx)));
+  }
+  if (c.analysis.smallestSpot) rec.search = smallestSpot(c, ctx);
+}
+
+export function searchSentence(s: SmallestSpot): string {
+  const what = s.key === 'aperture.diameter' ? 'diameter' : 'width';
+  const m = s.measure === 'energy' ? 'spot size (the 83.8 %/90.3 % measure)' : s.measure === 'fwhm' ? 'FWHM' : 'D4σ width';
+  const tb = s.textbookMeasure !== null ? ` (its spot ${formatLength(s.textbookMeasure, 3)})` : ' (outside the range searched)';
+  return (
+    `Smallest spot: ${what} ${formatLength(s.best, 4)} gives the smallest ${m}, ${formatLength(s.bestMeasure, 3)}; ` +
+    `the textbook estimate ${s.key === 'aperture.diameter' ? '√(2.44λz)' : '√(2λz)'} is ${formatLength(s.textbook, 4)}${tb}. ` +
+    `Method: ${s.method} (${s.evaluations} propagations).`
+  );
+}
 
 export interface RunOptions extends PlannerOptions {
   outDir: string;
@@ -72,6 +99,7 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
   log(`job ${spec.name} (${file}): ${cases.length} case${cases.length === 1 ? '' : 's'} → ${jobDir}`);
   const axes = sweepAxes(spec).filter((a) => a.values.length > 1);
   const rows: SummaryRow[] = [];
+  const search = newSearchContext(opts);
   for (const c of cases) {
     let plan: Plan | undefined;
     const tag = `[${c.index + 1}/${cases.length}] ${c.id}`;
@@ -79,6 +107,7 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
       plan = planCase(c, opts);
       if (plan.error) throw new Error(plan.error);
       const rec: CaseRecord = runPlannedCase(plan);
+      answerQuestions(rec, search);
       await writeCase(jobDir, rec);
       outcome.done++;
       outcome.warnings += rec.warnings.length;
@@ -87,6 +116,8 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
         `${tag}  ${plan.regime}, ${methodWords(plan.method, plan.form)}  peak ${trimNumber(rec.metrics.peakIntensity, 4)}  ` +
           `${trimNumber(rec.seconds, 2)} s${rec.warnings.length ? `  ${rec.warnings.length} warning(s)` : ''}`,
       );
+      for (const v of rec.metrics.verdicts ?? []) log(`    ${v.axis === 'radial' ? '' : `${v.axis}: `}${v.sentence}`);
+      if (rec.search) log(`    ${searchSentence(rec.search)}`);
       for (const w of rec.warnings) log(`    ! [${w.code}] ${w.message}`);
     } catch (e) {
       const error = (e as Error).message;
