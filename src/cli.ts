@@ -63,19 +63,20 @@ async function runCommand(files: string[], out: string, maxMemoryBytes: number, 
       outcomes.push({ file, cases: 0, done: 0, failed: [], warnings: 0, error });
     }
   }
-  const bad = outcomes.filter((o) => o.error || o.failed.length > 0);
+  const bad = outcomes.filter((o) => o.error || o.reportError || o.failed.length > 0);
   const done = outcomes.reduce((s, o) => s + o.done, 0);
   const total = outcomes.reduce((s, o) => s + o.cases, 0);
   const warnings = outcomes.reduce((s, o) => s + o.warnings, 0);
   console.log('');
   console.log(`spotcast: ${done} of ${total} case(s) done in ${outcomes.length} job file(s), ${warnings} warning(s).`);
   for (const o of outcomes) {
-    if (o.folder) console.log(`  ${o.job}: ${relative(process.cwd(), o.folder) || '.'}/  (summary.csv, one folder per case)`);
+    if (o.folder) console.log(`  ${o.job}: ${relative(process.cwd(), o.folder) || '.'}/  (report.html, summary.csv, one folder per case)`);
   }
   if (bad.length) {
     console.error(`spotcast: problems in ${bad.length} job file(s):`);
     for (const o of bad) {
       if (o.error) console.error(`  ${o.file}: not run (see the message above)`);
+      if (o.reportError) console.error(`  ${o.job}: report not written: ${o.reportError}`);
       for (const f of o.failed) console.error(`  ${o.job}/${f.case}: ${f.error}`);
     }
     return 1;

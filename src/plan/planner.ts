@@ -13,6 +13,11 @@ import { LIMITS } from './limits.js';
 export interface PlannerOptions {
   /** A case whose estimated peak memory exceeds this is not computed (bytes). */
   maxMemoryBytes?: number;
+  /**
+   * Fewest output samples per axis of direct methods (default: enough for a picture). Searches
+   * that only read a size off the result ask for fewer.
+   */
+  minOutputSamples?: number;
 }
 
 export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
@@ -29,6 +34,7 @@ interface Geometry {
   windowHalf: [number, number];
   waist: number; // Infinity for plane waves
   carrier: [number, number];
+  minOutput: number;
 }
 
 const fmt = (x: number, d = 3) => trimNumber(x, d);
@@ -103,7 +109,19 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     reasons.push(`window centred on the tilted beam at (${len(centre[0])}, ${len(centre[1])}) = z·tan θ.`);
   }
 
-  const geo: Geometry = { lam, z, k, facts, oneD, aEff, centre, windowHalf, waist, carrier: [alpha / lam, beta / lam] };
+  const geo: Geometry = {
+    lam,
+    z,
+    k,
+    facts,
+    oneD,
+    aEff,
+    centre,
+    windowHalf,
+    waist,
+    carrier: [alpha / lam, beta / lam],
+    minOutput: opts.minOutputSamples ?? (oneD ? LIMITS.minOutput1D : LIMITS.minOutput2D),
+  };
   const paraxialPhaseError = paraxialError(geo);
   const goodmanRatio = goodman(geo);
   const farFieldPhaseError = Math.PI * nfEff;
@@ -288,21 +306,42 @@ function erfcApprox(x: number): number {
  * Peak-to-peak quartic phase dropped by the Fresnel approximation, k|x−ξ|⁴/(8z³), across the
  * aperture, for observation points in the spot region (the illuminated aperture plus three
  * far-field lobe widths, within the window). What matters for intensities is its variation over ξ,
- * not its value, so this is far less strict than Goodman's sufficient condition.
+ * not its value, so this is far less strict than Goodman's sufficient condition. The variation is
+ * evaluated at the spot region's centre, edges and corners against aperture points at the edges,
+ * the quarters, the centre and the point nearest the observer (where it is smallest): the x and y
+ * extents stay apart, so a long slit's length does not count against its far-field width.
  */
 function paraxialError(g: Geometry): number {
   const axes = g.oneD ? [0] : [0, 1];
-  let r2 = 0;
-  let a2 = 0;
+  const obs: number[][] = [];
+  const ap: number[][] = [];
   for (const i of axes) {
     const a = g.aEff[i]!;
     const core = Math.min(g.windowHalf[i]!, a + (3 * g.lam * g.z) / (2 * Math.max(a, 1e-30)));
-    r2 += (Math.abs(g.centre[i]!) + core) ** 2;
-    a2 += a * a;
+    const c = g.centre[i]!;
+    obs.push([c - core, c, c + core]);
+    ap.push([-a, -a / 2, 0, a / 2, a]);
   }
-  const r = Math.sqrt(r2);
-  const a = Math.sqrt(a2);
-  return (g.k * ((r + a) ** 4 - Math.max(0, r - a) ** 4)) / (8 * g.z ** 3);
+  let worst = 0;
+  const quartic = (d2: number) => (g.k * d2 * d2) / (8 * g.z ** 3);
+  const clamp = (v: number, a: number) => Math.max(-a, Math.min(a, v));
+  for (const x of obs[0]!) {
+    for (const y of g.oneD ? [0] : obs[1]!) {
+      let lo = Infinity;
+      let hi = -Infinity;
+      const xs = [...ap[0]!, clamp(x, g.aEff[0]!)];
+      const ys = g.oneD ? [0] : [...ap[1]!, clamp(y, g.aEff[1]!)];
+      for (const xi of xs) {
+        for (const eta of ys) {
+          const phi = quartic((x - xi) ** 2 + (y - eta) ** 2);
+          lo = Math.min(lo, phi);
+          hi = Math.max(hi, phi);
+        }
+      }
+      worst = Math.max(worst, hi - lo);
+    }
+  }
+  return worst;
 }
 
 function goodman(g: Geometry): number {
@@ -477,7 +516,7 @@ function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fr
   const d = 2 * g.aEff[i]!;
   const nyquist = (g.lam * g.z) / (2 * d);
   const wanted = nyquist / 4;
-  const [minM, maxM] = g.oneD ? [LIMITS.minOutput1D, LIMITS.maxOutput1D] : [LIMITS.minOutput2D, LIMITS.maxOutput2D];
+  const [minM, maxM] = [g.minOutput, g.oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D];
   let m = Math.ceil((2 * g.windowHalf[i]!) / wanted) + 1;
   m = Math.min(maxM, Math.max(minM, m));
   if (m % 2 === 0) m += 1;
@@ -500,7 +539,7 @@ function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fr
  * lattice λz/(nΔx): n is the power of two that makes that pitch at least as fine as the direct form's.
  */
 function singleFftAxisPlan(g: Geometry, d: AxisPlan): AxisPlan {
-  const target = Math.min(d.output.step, (2 * d.windowHalf) / ((g.oneD ? LIMITS.minOutput1D : LIMITS.minOutput2D) - 1));
+  const target = Math.min(d.output.step, (2 * d.windowHalf) / (g.minOutput - 1));
   const n = nextPowerOfTwo(Math.max(d.inputSamples + 2, Math.ceil((g.lam * g.z) / (d.inputPitch * target))));
   const output = windowOn(fftAxis(n, (g.lam * g.z) / (n * d.inputPitch)), d.windowCentre, d.windowHalf);
   return { ...d, paddedSamples: n, output };

@@ -13,6 +13,10 @@ import { methodWords } from '../plan/planner.js';
 import { makeVerdict } from '../analysis/verdict.js';
 import { farFieldFrom, newSearchContext, smallestSpot, type SearchContext } from './searches.js';
 import { formatLength } from '../job/units.js';
+import { formatPlan } from '../plan/format.js';
+import { orderOverlaps, type OrderSet } from '../analysis/overlap.js';
+import { buildJobReport, sheetIndices, sheetTile, sweptLabel, writeJobReport } from '../report/assemble.js';
+import type { SheetTile } from '../report/contact-sheet.js';
 import type { SmallestSpot } from '../output/case-output.js';
 
 /**
@@ -59,7 +63,12 @@ export interface JobOutcome {
   warnings: number;
   /** Set when the job file itself could not be used. */
   error?: string;
+  /** Set when the cases ran but the job report could not be made. */
+  reportError?: string;
 }
+
+/** Plans kept for the report, in full; the rest are a `spotcast plan` away. */
+const REPORT_PLANS = 200;
 
 export async function runJobFile(file: string, opts: RunOptions): Promise<JobOutcome> {
   let loaded: LoadedJob;
@@ -100,6 +109,10 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
   const axes = sweepAxes(spec).filter((a) => a.values.length > 1);
   const rows: SummaryRow[] = [];
   const search = newSearchContext(opts);
+  const onSheet = sheetIndices(cases.length);
+  const tiles: SheetTile[] = [];
+  const plans: string[] = [];
+  const orderSets: OrderSet[] = [];
   for (const c of cases) {
     let plan: Plan | undefined;
     const tag = `[${c.index + 1}/${cases.length}] ${c.id}`;
@@ -111,7 +124,23 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
       await writeCase(jobDir, rec);
       outcome.done++;
       outcome.warnings += rec.warnings.length;
-      rows.push({ plan, record: rec });
+      if (onSheet.has(c.index)) {
+        const label = axes.map((a) => sweptLabel(a, c.swept[a.key]!)).join(', ') || c.id;
+        tiles.push(sheetTile(label, rec.computed));
+      }
+      if (rec.metrics.orders && c.aperture.shape === 'slits') {
+        orderSets.push({
+          caseId: c.id,
+          wavelength: c.wavelength,
+          distance: c.distance,
+          count: c.aperture.count,
+          period: c.aperture.period,
+          group: JSON.stringify([c.aperture, c.distance, c.illumination]),
+          orders: rec.metrics.orders,
+        });
+      }
+      // The job keeps each case's numbers, not its field: a long sweep must not hold every map.
+      rows.push({ plan, record: { ...rec, computed: { ...rec.computed, intensity: new Float64Array(0) }, energy: null } });
       log(
         `${tag}  ${plan.regime}, ${methodWords(plan.method, plan.form)}  peak ${trimNumber(rec.metrics.peakIntensity, 4)}  ` +
           `${trimNumber(rec.seconds, 2)} s${rec.warnings.length ? `  ${rec.warnings.length} warning(s)` : ''}`,
@@ -125,6 +154,7 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
       rows.push({ plan, case: c, error });
       log(`${tag}  FAILED: ${error}`);
     }
+    if (plan && plans.length < REPORT_PLANS) plans.push(formatPlan(plan));
     // Rewritten after every case, so that an interrupted run still leaves a usable table.
     await writeFileAtomic(`${jobDir}/summary.csv`, summaryCsv(axes, rows));
   }
@@ -144,9 +174,19 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
       2,
     ) + '\n',
   );
+  try {
+    const overlaps = orderOverlaps(orderSets, spec.orders?.overlap);
+    const report = buildJobReport({ loaded, axes, rows, plans, overlaps });
+    if (cases.length > plans.length) report.plans.push(`(plans of the other ${cases.length - plans.length} cases: spotcast plan ${file})`);
+    await writeJobReport(jobDir, report, tiles, overlaps);
+  } catch (e) {
+    // The case results are written; a failed report is reported, not hidden.
+    outcome.reportError = (e as Error).message;
+    log(`job ${spec.name}: the report could not be written: ${outcome.reportError}`);
+  }
   log(
     `job ${spec.name}: ${outcome.done} of ${outcome.cases} done, ${outcome.failed.length} failed, ${outcome.warnings} warning(s); ` +
-      `results in ${jobDir}`,
+      `results in ${jobDir} (report.html)`,
   );
   return outcome;
 }

@@ -225,8 +225,12 @@ describe('spotcast run: sweeps and 1-D jobs', () => {
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
     const jobDir = join(out, 'slit-sweep');
-    const dirs = (await readdir(jobDir, { withFileTypes: true })).filter((d) => d.isDirectory()).map((d) => d.name).sort();
+    const all = (await readdir(jobDir, { withFileTypes: true })).filter((d) => d.isDirectory()).map((d) => d.name).sort();
+    // Case folders, and the job's plots folder beside them.
+    expect(all).toContain('plots');
+    const dirs = all.filter((d) => d !== 'plots');
     expect(dirs).toEqual(['1_w-20um_z-1m', '2_w-20um_z-2m', '3_w-40um_z-1m', '4_w-40um_z-2m']);
+    for (const f of ['report.html', 'contact-sheet.png', 'summary.json', 'job.json']) expect(existsSync(join(jobDir, f))).toBe(true);
     const summary = (await readFile(join(jobDir, 'summary.csv'), 'utf8')).trimEnd().split('\n');
     expect(summary).toHaveLength(5);
     expect(summary.slice(1).map((l) => l.split(',')[0])).toEqual(dirs);

@@ -1,0 +1,355 @@
+// Contact sheet: the spot images of a sweep side by side at one physical scale, so that spot
+// sizes can be compared by eye. Every tile shows the same field of view around its optical axis
+// with the same metres per display pixel; brightness is per tile (each to its own peak), because
+// peaks along a sweep can differ by decades and one common brightness would blank most tiles.
+
+import { PNG } from 'pngjs';
+import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from '../output/font.js';
+import { shoal } from '../output/colour-scales.js';
+
+export interface SheetTile {
+  label: string;
+  intensity: Float64Array;
+  rows: number;
+  cols: number;
+  pitchX: number;
+  pitchY: number | null;
+  originX: number;
+  originY: number;
+}
+
+export interface SheetOptions {
+  columns?: number;
+  tilePixels?: number;
+  title?: string;
+}
+
+export interface Rect {
+  x: number;
+  y: number;
+  w: number;
+  h: number;
+}
+
+/** Where things land on the sheet; exported so callers and tests can find the tiles. */
+export interface SheetLayout {
+  width: number;
+  height: number;
+  /** Image areas of the tiles (inside their frames), in input order. */
+  tiles: Rect[];
+  /** Physical width (= height) of every tile's field of view, metres. */
+  fieldOfView: number;
+  metresPerPixel: number;
+}
+
+// The look of the per-case pictures (src/output/picture.ts), so sheet and pictures read alike.
+const BACKGROUND: Colour = [30, 30, 34];
+const FRAME: Colour = [96, 96, 108];
+const TEXT: Colour = [225, 225, 225];
+
+const MARGIN = 16;
+const GAP_X = 16;
+const GAP_Y = 14;
+const LINE = CELL_H + 3;
+const MIN_SLOT = 132; // room for a label like "λ 633 nm, D 50 µm" on one line
+const BAR_THICK = 3;
+const CBAR_H = 10;
+const LUT_LEVELS = 256;
+// A display pixel less than half covered by a tile's data shows the background: its value would
+// stand for data that was never computed.
+const MIN_COVER = 0.5;
+
+interface Plan {
+  layout: SheetLayout;
+  columns: number;
+  slotW: number;
+  labelLines: string[][];
+  captions: string[];
+  title: string;
+  titleScale: number;
+  footerY: number;
+}
+
+function validate(tiles: SheetTile[], opts: SheetOptions): void {
+  if (tiles.length === 0) throw new RangeError('contact sheet: no tiles');
+  const posInt = (v: number): boolean => Number.isInteger(v) && v > 0;
+  if (opts.columns !== undefined && !posInt(opts.columns)) throw new RangeError(`contact sheet: columns must be a positive integer, got ${opts.columns}`);
+  if (opts.tilePixels !== undefined && !(posInt(opts.tilePixels) && opts.tilePixels >= 16)) {
+    throw new RangeError(`contact sheet: tilePixels must be an integer >= 16, got ${opts.tilePixels}`);
+  }
+  for (const t of tiles) {
+    const what = `contact sheet: tile "${t.label}"`;
+    if (!posInt(t.rows) || !posInt(t.cols)) throw new RangeError(`${what}: rows and cols must be positive integers`);
+    if (t.intensity.length !== t.rows * t.cols) throw new RangeError(`${what}: ${t.intensity.length} values for ${t.rows}×${t.cols}`);
+    const ok = (v: number): boolean => Number.isFinite(v) && v > 0;
+    if (!ok(t.pitchX) || (t.pitchY !== null && !ok(t.pitchY))) throw new RangeError(`${what}: pitches must be finite and > 0`);
+    if (!Number.isFinite(t.originX) || !Number.isFinite(t.originY)) throw new RangeError(`${what}: origin must be finite`);
+    for (const v of t.intensity) if (!Number.isFinite(v) || v < 0) throw new RangeError(`${what}: intensity must be finite and >= 0, found ${v}`);
+  }
+}
+
+/** Half-width of the common field of view: the farthest data edge from the axis over all tiles. */
+function halfField(tiles: SheetTile[]): number {
+  let h = 0;
+  const reach = (origin: number, pitch: number, n: number): number =>
+    Math.max(Math.abs(origin - pitch / 2), Math.abs(origin + (n - 0.5) * pitch));
+  for (const t of tiles) {
+    h = Math.max(h, reach(t.originX, t.pitchX, t.cols));
+    if (t.pitchY !== null) h = Math.max(h, reach(t.originY, t.pitchY, t.rows));
+  }
+  return h;
+}
+
+/** Up to two lines, broken at ", " where possible, cut with "..." as a last resort. */
+function wrapLabel(label: string, room: number): string[] {
+  if (textWidth(label) <= room) return [label];
+  const parts = label.split(', ');
+  let first = '';
+  let k = 0;
+  while (k < parts.length) {
+    const next = first ? `${first}, ${parts[k]}` : parts[k]!;
+    if (textWidth(next + ',') > room && first) break;
+    first = next;
+    k++;
+  }
+  const lines = [k < parts.length ? first + ',' : first, parts.slice(k).join(', ')].filter((s) => s !== '');
+  return lines.slice(0, 2).map((s) => cut(s, room));
+}
+
+function cut(s: string, room: number): string {
+  if (textWidth(s) <= room) return s;
+  const chars = [...s];
+  while (chars.length > 0 && textWidth(chars.join('') + '...') > room) chars.pop();
+  return chars.join('') + '...';
+}
+
+function plan(tiles: SheetTile[], opts: SheetOptions): Plan {
+  const T = opts.tilePixels ?? 160;
+  const columns = Math.min(opts.columns ?? Math.min(tiles.length, 4), tiles.length);
+  const rowsOfTiles = Math.ceil(tiles.length / columns);
+  const slotW = Math.max(T + 2, MIN_SLOT);
+  const gridW = columns * slotW + (columns - 1) * GAP_X;
+  const H = halfField(tiles);
+  const fov = formatLength(2 * H);
+  const captions = ['each tile scaled to its own peak (linear)', `one scale: every tile ${fov} × ${fov}, centred on the axis`];
+  const width = Math.max(2 * MARGIN + gridW, 2 * MARGIN + Math.max(...captions.map((c) => textWidth(c))));
+  const left = Math.floor((width - gridW) / 2);
+
+  let title = opts.title ?? '';
+  const room = width - 2 * MARGIN;
+  const titleScale = title && textWidth(title, 2) <= room ? 2 : 1;
+  title = cut(title, room);
+  const top = MARGIN + (title ? CELL_H * titleScale + 12 : 0);
+
+  const labelLines = tiles.map((t) => wrapLabel(t.label, slotW));
+  const nLines = Math.max(1, ...labelLines.map((l) => l.length));
+  const cellH = nLines * LINE + 2 + T + 2 + 4 + LINE; // labels, frame, image, frame, peak line
+
+  const rects = tiles.map((_, i) => {
+    const c = i % columns, r = Math.floor(i / columns);
+    const sx = left + c * (slotW + GAP_X);
+    return { x: sx + Math.floor((slotW - T) / 2), y: top + r * (cellH + GAP_Y) + nLines * LINE + 1, w: T, h: T };
+  });
+  const footerY = top + rowsOfTiles * cellH + (rowsOfTiles - 1) * GAP_Y + 8;
+  // Footer: scale bar, colour bar with its two ends, two caption lines.
+  const height = footerY + LINE + 6 + CBAR_H + 4 + LINE + 4 + 2 * LINE + MARGIN;
+  return {
+    layout: { width, height, tiles: rects, fieldOfView: 2 * H, metresPerPixel: (2 * H) / T },
+    columns,
+    slotW,
+    labelLines,
+    captions,
+    title,
+    titleScale,
+    footerY,
+  };
+}
+
+export function layoutContactSheet(tiles: SheetTile[], opts: SheetOptions = {}): SheetLayout {
+  validate(tiles, opts);
+  return plan(tiles, opts).layout;
+}
+
+export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}): Buffer {
+  validate(tiles, opts);
+  const pl = plan(tiles, opts);
+  const { layout } = pl;
+  const img: RgbImage = { width: layout.width, height: layout.height, data: new Uint8Array(layout.width * layout.height * 3) };
+  fillRect(img, { x: 0, y: 0, w: img.width, h: img.height }, BACKGROUND);
+  if (pl.title) drawText(img, MARGIN, MARGIN, pl.title, TEXT, pl.titleScale);
+  const lut = buildLut();
+  const H = layout.fieldOfView / 2;
+
+  tiles.forEach((t, i) => {
+    const r = layout.tiles[i]!;
+    const slotX = r.x - Math.floor((pl.slotW - r.w) / 2);
+    pl.labelLines[i]!.forEach((line, k) => drawText(img, slotX, r.y - 1 - pl.labelLines[i]!.length * LINE + k * LINE, line, TEXT));
+    frame(img, r);
+    let peak = 0;
+    for (const v of t.intensity) if (v > peak) peak = v;
+    const view = resample(t, H, r.w);
+    for (let y = 0; y < r.h; y++) {
+      for (let x = 0; x < r.w; x++) {
+        const v = view[y * r.w + x]!;
+        if (Number.isNaN(v)) continue; // outside the tile's data: leave the background
+        putLut(img, r.x + x, r.y + y, lut, peak > 0 ? v / peak : 0);
+      }
+    }
+    drawText(img, slotX, r.y + r.h + 1 + 4, `peak ${compact(peak)}`, TEXT);
+  });
+
+  // One scale bar for the whole sheet: a round length near a quarter of the field of view.
+  const bar = roundLength(layout.fieldOfView / 4);
+  const barPx = Math.max(1, Math.round(bar / layout.metresPerPixel));
+  const fy = pl.footerY;
+  fillRect(img, { x: MARGIN, y: fy + 3, w: barPx, h: BAR_THICK }, TEXT);
+  drawText(img, MARGIN + barPx + 6, fy, formatLength(bar), TEXT);
+
+  const cbY = fy + LINE + 6;
+  const cbW = Math.min(layout.width - 2 * MARGIN, 200);
+  const cb: Rect = { x: MARGIN + 1, y: cbY, w: cbW, h: CBAR_H };
+  frame(img, cb);
+  for (let x = 0; x < cb.w; x++) for (let y = 0; y < cb.h; y++) putLut(img, cb.x + x, cb.y + y, lut, cb.w > 1 ? x / (cb.w - 1) : 1);
+  drawText(img, cb.x, cbY + CBAR_H + 4, '0', TEXT);
+  drawText(img, cb.x + cb.w - textWidth('peak'), cbY + CBAR_H + 4, 'peak', TEXT);
+
+  const capY = cbY + CBAR_H + 4 + LINE + 4;
+  pl.captions.forEach((c, k) => drawText(img, MARGIN, capY + k * LINE, c, TEXT));
+
+  const png = new PNG({ width: img.width, height: img.height });
+  for (let i = 0, j = 0; i < img.data.length; i += 3, j += 4) {
+    png.data[j] = img.data[i]!;
+    png.data[j + 1] = img.data[i + 1]!;
+    png.data[j + 2] = img.data[i + 2]!;
+    png.data[j + 3] = 255;
+  }
+  return PNG.sync.write(png, { colorType: 2 });
+}
+
+/**
+ * For each display pixel along one axis (the field [-H, H] cut into m pixels), the data pixels it
+ * overlaps and their share of it. Overlap weights are box averaging when shrinking (fringes finer
+ * than a display pixel average out instead of aliasing) and plain sampling when enlarging.
+ */
+function axisWeights(n: number, origin: number, pitch: number, H: number, m: number): { list: [number, number][]; cover: number }[] {
+  const s = (2 * H) / m;
+  const out: { list: [number, number][]; cover: number }[] = [];
+  for (let j = 0; j < m; j++) {
+    // In data-index units, data pixel i spans [i, i + 1].
+    const a = (-H + j * s - origin) / pitch + 0.5;
+    const b = (-H + (j + 1) * s - origin) / pitch + 0.5;
+    const list: [number, number][] = [];
+    let cover = 0;
+    for (let i = Math.max(0, Math.floor(a)); i < Math.min(n, Math.ceil(b)); i++) {
+      const w = (Math.min(b, i + 1) - Math.max(a, i)) / (b - a);
+      if (w > 0) {
+        list.push([i, w]);
+        cover += w;
+      }
+    }
+    out.push({ list, cover });
+  }
+  return out;
+}
+
+/** The tile on the common m×m display grid; NaN where the tile has no data. */
+function resample(t: SheetTile, H: number, m: number): Float64Array {
+  const out = new Float64Array(m * m).fill(NaN);
+  const wx = axisWeights(t.cols, t.originX, t.pitchX, H, m);
+  if (t.pitchY === null) {
+    // Invariant along y by contract: collapse rows by averaging and draw the profile as stripes.
+    const prof = new Float64Array(t.cols);
+    for (let r = 0; r < t.rows; r++) for (let c = 0; c < t.cols; c++) prof[c]! += t.intensity[r * t.cols + c]! / t.rows;
+    for (let x = 0; x < m; x++) {
+      const { list, cover } = wx[x]!;
+      if (cover < MIN_COVER) continue;
+      let s = 0;
+      for (const [i, w] of list) s += w * prof[i]!;
+      for (let y = 0; y < m; y++) out[y * m + x] = s / cover;
+    }
+    return out;
+  }
+  const wy = axisWeights(t.rows, t.originY, t.pitchY, H, m);
+  const tmp = new Float64Array(t.rows * m);
+  for (let r = 0; r < t.rows; r++) {
+    for (let x = 0; x < m; x++) {
+      let s = 0;
+      for (const [i, w] of wx[x]!.list) s += w * t.intensity[r * t.cols + i]!;
+      tmp[r * m + x] = s;
+    }
+  }
+  for (let y = 0; y < m; y++) {
+    const { list, cover } = wy[y]!;
+    if (cover < MIN_COVER) continue;
+    for (let x = 0; x < m; x++) {
+      const cx = wx[x]!.cover;
+      if (cx < MIN_COVER) continue;
+      let s = 0;
+      for (const [i, w] of list) s += w * tmp[i * m + x]!;
+      out[y * m + x] = s / (cover * cx);
+    }
+  }
+  return out;
+}
+
+/** The 1, 2 or 5 × 10^k nearest (in ratio) to `target`. */
+function roundLength(target: number): number {
+  const k = Math.floor(Math.log10(target));
+  let best = 10 ** k, err = Infinity;
+  for (const kk of [k, k + 1]) {
+    for (const m of [1, 2, 5]) {
+      const v = m * 10 ** kk;
+      const e = Math.abs(Math.log(v / target));
+      if (e < err) [best, err] = [v, e];
+    }
+  }
+  return best;
+}
+
+function formatLength(v: number): string {
+  const units: [number, string][] = [[1, 'm'], [1e-3, 'mm'], [1e-6, 'µm'], [1e-9, 'nm']];
+  const [f, name] = units.find(([f]) => v >= f * (1 - 1e-9)) ?? units[units.length - 1]!;
+  return `${Number((v / f).toPrecision(3))} ${name}`;
+}
+
+/** Three significant digits, exponent form outside 0.01..1000 (as the case pictures print peaks). */
+function compact(v: number): string {
+  if (v === 0) return '0';
+  return v >= 0.01 && v < 1000 ? v.toPrecision(3) : v.toExponential(2);
+}
+
+function buildLut(): Uint8Array {
+  const lut = new Uint8Array(LUT_LEVELS * 3);
+  for (let i = 0; i < LUT_LEVELS; i++) {
+    const c = shoal(i / (LUT_LEVELS - 1));
+    for (let j = 0; j < 3; j++) lut[i * 3 + j] = Math.round(c[j]!);
+  }
+  return lut;
+}
+
+function putLut(img: RgbImage, x: number, y: number, lut: Uint8Array, t: number): void {
+  const k = Math.round(Math.min(1, Math.max(0, t)) * (LUT_LEVELS - 1)) * 3;
+  const i = (y * img.width + x) * 3;
+  img.data[i] = lut[k]!;
+  img.data[i + 1] = lut[k + 1]!;
+  img.data[i + 2] = lut[k + 2]!;
+}
+
+function fillRect(img: RgbImage, r: Rect, c: Colour): void {
+  for (let y = Math.max(0, r.y); y < Math.min(img.height, r.y + r.h); y++) {
+    for (let x = Math.max(0, r.x); x < Math.min(img.width, r.x + r.w); x++) {
+      const i = (y * img.width + x) * 3;
+      img.data[i] = c[0];
+      img.data[i + 1] = c[1];
+      img.data[i + 2] = c[2];
+    }
+  }
+}
+
+/** A one-pixel frame just outside `r`: it marks the field of view where the data stops short of it. */
+function frame(img: RgbImage, r: Rect): void {
+  fillRect(img, { x: r.x - 1, y: r.y - 1, w: r.w + 2, h: 1 }, FRAME);
+  fillRect(img, { x: r.x - 1, y: r.y + r.h, w: r.w + 2, h: 1 }, FRAME);
+  fillRect(img, { x: r.x - 1, y: r.y, w: 1, h: r.h }, FRAME);
+  fillRect(img, { x: r.x + r.w, y: r.y, w: 1, h: r.h }, FRAME);
+}

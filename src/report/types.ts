@@ -1,0 +1,81 @@
+// What a job's report, plots and contact sheet are made from: plain data, gathered by the runner
+// from the case results (no I/O here).
+
+/** One swept key of the job. */
+export interface SweepKey {
+  /** Dotted key path in the job file, e.g. "distance" or "aperture.diameter". */
+  key: string;
+  /** Axis label for people, e.g. "distance". */
+  label: string;
+  /** "m" for lengths (values in metres), "1" for counts. */
+  unit: 'm' | '1';
+  /** How the values were given: log-spaced sweeps get log axes. */
+  spacing: 'list' | 'linear' | 'log';
+  values: number[];
+}
+
+/** A metric as it appears in tables and plots. */
+export interface MetricInfo {
+  key: string;
+  label: string;
+  /** "m" lengths, "1" dimensionless (fractions, relative intensities). */
+  unit: 'm' | '1';
+  /** Plot on a log axis by default (e.g. intensities that span decades). */
+  log?: boolean;
+}
+
+export interface ReportCase {
+  id: string;
+  /** Case folder relative to the job folder. */
+  folder: string;
+  status: 'done' | 'failed';
+  error?: string;
+  /** Values of the swept keys for this case (SI), by key path. */
+  swept: Record<string, number>;
+  wavelength: number;
+  distance: number;
+  fresnelNumber: number | null;
+  regime: string | null;
+  method: string | null;
+  /** Flat numeric metrics by MetricInfo.key (null where not defined for this case). */
+  metrics: Record<string, number | null>;
+  warnings: { code: string; message: string }[];
+  reasons: string[];
+  /** One-sentence verdict (diffraction-limited or not, by what factor), when one applies. */
+  verdict?: string;
+  /** Relative path of the case's picture (intensity.png), when the case is done. */
+  picture?: string;
+}
+
+export interface ReportTable {
+  title: string;
+  header: string[];
+  rows: (string | number | null)[][];
+  note?: string;
+}
+
+export interface ReportPlot {
+  title: string;
+  /** Relative paths of the written files. */
+  svg: string;
+  png: string;
+}
+
+export interface JobReport {
+  job: string;
+  file: string;
+  description?: string;
+  /** The job as written (parsed YAML/JSON). */
+  given: unknown;
+  toolVersion: string;
+  createdAt: string;
+  sweeps: SweepKey[];
+  metrics: MetricInfo[];
+  cases: ReportCase[];
+  tables: ReportTable[];
+  plots: ReportPlot[];
+  /** Relative path of the contact sheet PNG, when there is more than one done case. */
+  contactSheet?: string;
+  /** Plans in words, one block per case (as `spotcast plan` prints them). */
+  plans: string[];
+}
