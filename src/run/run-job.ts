@@ -33,7 +33,7 @@ export function answerQuestions(rec: CaseRecord, ctx: SearchContext): void {
 
 export function searchSentence(s: SmallestSpot): string {
   const what = s.key === 'aperture.diameter' ? 'diameter' : 'width';
-  const m = s.measure === 'energy' ? 'spot size (the 83.8 %/90.3 % measure)' : s.measure === 'fwhm' ? 'FWHM' : 'D4σ width';
+  const m = s.measure === 'energy' ? 'spot (radius or half-width holding half the power)' : s.measure === 'fwhm' ? 'FWHM' : 'D4σ width';
   const tb = s.textbookMeasure !== null ? ` (its spot ${formatLength(s.textbookMeasure, 3)})` : ' (outside the range searched)';
   return (
     `Smallest spot: ${what} ${formatLength(s.best, 4)} gives the smallest ${m}, ${formatLength(s.bestMeasure, 3)}; ` +
