@@ -4,14 +4,13 @@
 // All report data here is INVENTED for the test (a made-up coupon of bench apertures); nothing is
 // a computed result. The pictures are tiny PNGs encoded here with pngjs and one hand-written SVG.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { existsSync } from 'node:fs';
 import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { pathToFileURL } from 'node:url';
 import { PNG } from 'pngjs';
 import { REPORT_LIMITS, renderReportHtml, type ReportAssets } from '../../src/report/html.js';
 import type { JobReport, ReportCase } from '../../src/report/types.js';
+import { CHROMIUM, haveChromium, openOffline } from './browser.js';
 
 // --- Invented fixtures -------------------------------------------------------------------------
 
@@ -301,28 +300,6 @@ describe('job report HTML', () => {
 
 // --- In a real browser ------------------------------------------------------------------------
 
-// The page's globals, as far as the checks below use them: the test program is compiled without
-// the DOM library, and these declarations stay local to this module.
-interface Box {
-  getBoundingClientRect(): { width: number; height: number };
-}
-interface PageImage extends Box {
-  alt: string;
-  complete: boolean;
-  naturalWidth: number;
-  naturalHeight: number;
-}
-declare const document: {
-  images: ArrayLike<PageImage>;
-  scripts: { length: number };
-  title: string;
-  querySelectorAll(selector: string): ArrayLike<Box>;
-  querySelector(selector: string): { textContent: string | null } | null;
-  getElementById(id: string): Box | null;
-};
-
-const CHROMIUM = '/usr/bin/chromium';
-const haveChromium = existsSync(CHROMIUM);
 if (!haveChromium) {
   console.warn(`report browser check skipped: ${CHROMIUM} is absent (Debian package "chromium"; .ci/run installs it)`);
 }
@@ -339,92 +316,31 @@ describe('job report in headless Chromium', () => {
   it.skipIf(!haveChromium)(
     `loads offline with no console error, no broken image and nothing fetched (needs ${CHROMIUM}; skipped without it)`,
     async () => {
-      const { chromium } = await import('playwright-core');
       const { report, files } = demoReport();
       const html = await renderReportHtml(report, assetsOf(files));
       const file = join(dir, 'report.html');
       await writeFile(file, html);
-
-      // playwright-core already passes --headless, --no-sandbox (chromiumSandbox is off by default),
-      // --disable-background-networking, --disable-component-update, --no-first-run, --disable-sync
-      // and a fresh --user-data-dir of its own that it deletes on close (it refuses one in args).
-      // Repeated here where they matter for an offline root run, plus the two it does not set.
-      const browser = await chromium.launch({
-        executablePath: CHROMIUM,
-        timeout: 60_000,
-        args: [
-          '--headless',
-          '--no-sandbox',
-          '--disable-gpu',
-          '--disable-quic',
-          '--no-first-run',
-          '--disable-background-networking',
-          '--disable-component-update',
-          '--disable-sync',
-        ],
-      });
-      try {
-        const context = await browser.newContext({ offline: true });
-        const consoleErrors: string[] = [];
-        const pageErrors: string[] = [];
-        const foreign: string[] = [];
-        const isLocal = (u: string) => u.startsWith('file:') || u.startsWith('data:');
-        await context.route('**/*', (route) => {
-          const u = route.request().url();
-          if (isLocal(u)) return route.continue();
-          foreign.push(u);
-          return route.abort('blockedbyclient');
-        });
-        const page = await context.newPage();
-        page.setDefaultTimeout(30_000);
-        page.on('console', (m) => {
-          if (m.type() === 'error') consoleErrors.push(m.text());
-        });
-        page.on('pageerror', (e) => pageErrors.push(e.message));
-        page.on('request', (r) => {
-          if (!isLocal(r.url())) foreign.push(r.url());
-        });
-
-        await page.goto(pathToFileURL(file).href, { waitUntil: 'load', timeout: 30_000 });
-        const seen = await page.evaluate(() => {
-          const box = (e: Box | null) => {
-            if (!e) return { w: 0, h: 0 };
-            const r = e.getBoundingClientRect();
-            return { w: r.width, h: r.height };
-          };
-          return {
-            images: Array.from(document.images).map((i) => ({ alt: i.alt, complete: i.complete, nw: i.naturalWidth, nh: i.naturalHeight, ...box(i) })),
-            svgs: Array.from(document.querySelectorAll('svg')).map(box),
-            scripts: document.scripts.length,
-            description: document.querySelector('.description')?.textContent ?? null,
-            safety: box(document.getElementById('safety')),
-            title: document.title,
-          };
-        });
-
-        expect(consoleErrors).toEqual([]);
-        expect(pageErrors).toEqual([]);
-        expect(foreign).toEqual([]);
-        expect(seen.images).toHaveLength(imgTags(html).length);
-        expect(seen.images.length).toBeGreaterThanOrEqual(4);
-        for (const i of seen.images) {
-          expect(i, i.alt).toMatchObject({ complete: true });
-          expect(i.nw, i.alt).toBeGreaterThan(0);
-          expect(i.nh, i.alt).toBeGreaterThan(0);
-          expect(i.w * i.h, i.alt).toBeGreaterThan(0); // drawn, not collapsed by the layout
-        }
-        // Plots are SVG through <img>: the SVG plot decoded at the size its root declares (160×90).
-        expect(seen.images.find((i) => i.alt === 'peak against distance')).toMatchObject({ nw: 160, nh: 90 });
-        // The page inlines no <svg> today; this guards the day one is added.
-        for (const s of seen.svgs) expect(s.w * s.h).toBeGreaterThan(0);
-        // The hostile description is shown as text and nothing became a script.
-        expect(seen.scripts).toBe(0);
-        expect(seen.description).toBe(HOSTILE);
-        expect(seen.safety.w * seen.safety.h).toBeGreaterThan(0);
-        expect(seen.title).toContain('coupon-demo');
-      } finally {
-        await browser.close();
+      const seen = await openOffline(file);
+      expect(seen.consoleErrors).toEqual([]);
+      expect(seen.pageErrors).toEqual([]);
+      expect(seen.foreign).toEqual([]);
+      expect(seen.images).toHaveLength(imgTags(html).length);
+      expect(seen.images.length).toBeGreaterThanOrEqual(4);
+      for (const i of seen.images) {
+        expect(i, i.alt).toMatchObject({ complete: true });
+        expect(i.nw, i.alt).toBeGreaterThan(0);
+        expect(i.nh, i.alt).toBeGreaterThan(0);
+        expect(i.w * i.h, i.alt).toBeGreaterThan(0); // drawn, not collapsed by the layout
       }
+      // Plots are SVG through <img>: the SVG plot decoded at the size its root declares (160×90).
+      expect(seen.images.find((i) => i.alt === 'peak against distance')).toMatchObject({ nw: 160, nh: 90 });
+      // The page inlines no <svg> today; this guards the day one is added.
+      for (const s of seen.svgs) expect(s.w * s.h).toBeGreaterThan(0);
+      // The hostile description is shown as text and nothing became a script.
+      expect(seen.scripts).toBe(0);
+      expect(seen.description).toBe(HOSTILE);
+      expect(seen.safety.w * seen.safety.h).toBeGreaterThan(0);
+      expect(seen.title).toContain('coupon-demo');
     },
     90_000,
   );

@@ -1,0 +1,61 @@
+// A real job end to end: its report page, plots and contact sheet, opened in the browser.
+import { mkdtemp, readdir, rm, writeFile } from 'node:fs/promises';
+import { existsSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { runJobFile } from '../../src/run/run-job.js';
+import { CHROMIUM, haveChromium, openOffline } from './browser.js';
+
+// An invented bench check: a 30 µm slit at 532 nm, screen moved from 0.5 mm to 50 mm (1-D, quick).
+const JOB = `name: slit-bench
+description: 30 um slit, screen from 0.5 mm to 50 mm
+wavelength: 532 nm
+distance: {from: 0.5 mm, to: 50 mm, count: 5, spacing: log}
+aperture: {shape: slit, width: 30 um}
+detector: {kind: square, size: 20 um}
+`;
+
+let dir = '';
+let jobDir = '';
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'spotcast-e2e-'));
+  await writeFile(join(dir, 'job.yaml'), JOB);
+  const o = await runJobFile(join(dir, 'job.yaml'), { outDir: join(dir, 'out') });
+  expect(o.error).toBeUndefined();
+  expect(o.reportError).toBeUndefined();
+  expect(o.done).toBe(5);
+  jobDir = o.folder!;
+});
+afterAll(async () => {
+  if (dir) await rm(dir, { recursive: true, force: true });
+});
+
+describe('job report of a distance sweep', () => {
+  it('writes the report, the contact sheet and plots of the swept metrics (SVG and PNG)', async () => {
+    expect(existsSync(join(jobDir, 'report.html'))).toBe(true);
+    expect(existsSync(join(jobDir, 'contact-sheet.png'))).toBe(true);
+    const plots = await readdir(join(jobDir, 'plots'));
+    const svg = plots.filter((p) => p.endsWith('.svg'));
+    expect(svg.length).toBeGreaterThanOrEqual(5);
+    expect(plots.filter((p) => p.endsWith('.png')).length).toBe(svg.length);
+    expect(svg.some((p) => p.startsWith('fwhm-x'))).toBe(true);
+    expect(svg.some((p) => p.includes('fraction-on-square'))).toBe(true);
+  });
+
+  it.skipIf(!haveChromium)(`opens in the browser with every plot and picture drawn (needs ${CHROMIUM})`, async () => {
+    const seen = await openOffline(join(jobDir, 'report.html'));
+    expect(seen.consoleErrors).toEqual([]);
+    expect(seen.pageErrors).toEqual([]);
+    expect(seen.foreign).toEqual([]);
+    const plots = (await readdir(join(jobDir, 'plots'))).filter((p) => p.endsWith('.svg')).length;
+    // Plots, the contact sheet and the five case pictures, all decoded and laid out.
+    expect(seen.images.length).toBeGreaterThanOrEqual(plots + 1 + 5);
+    for (const i of seen.images) {
+      expect(i.complete, i.alt).toBe(true);
+      expect(i.nw * i.nh, i.alt).toBeGreaterThan(0);
+      expect(i.w * i.h, i.alt).toBeGreaterThan(0);
+    }
+    expect(seen.safety.w * seen.safety.h).toBeGreaterThan(0);
+  }, 90_000);
+});
