@@ -5,6 +5,7 @@
 import { PNG } from 'pngjs';
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from './font.js';
 import { gray, shoal, type ColourScale } from './colour-scales.js';
+import { buildLut, fillRect, frame, putLut, type Rect } from './raster.js';
 
 export type ScaleName = 'gray' | 'shoal';
 
@@ -19,12 +20,7 @@ export interface PictureInput {
   title?: string; // one short line drawn at the top
 }
 
-export interface Rect {
-  x: number;
-  y: number;
-  w: number;
-  h: number;
-}
+export type { Rect } from './raster.js';
 
 /** Where things land in the picture; exported so callers and tests can find the panels. */
 export interface PictureLayout {
@@ -41,7 +37,6 @@ const STRIPE_HEIGHT = 120; // height of a 1-D panel: tall enough to read as stri
 const MIN_SLOT = 280; // narrowest panel column, so labels and colour bars still fit
 const MARGIN = 16;
 const GUTTER = 28;
-const LUT_LEVELS = 256; // one per 8-bit step: finer tables only add rounding dips
 
 const BACKGROUND: Colour = [30, 30, 34];
 const FRAME: Colour = [96, 96, 108];
@@ -174,7 +169,7 @@ export function renderIntensityPng(p: PictureInput): Buffer {
     const panel = layout.panels[k]!;
     const cbar = layout.colourBars[k]!;
     drawText(img, slotX[k]!, panel.y - 1 - LABEL_GAP - CELL_H * LABEL_SCALE, view.label, TEXT, LABEL_SCALE);
-    frame(img, panel);
+    frame(img, panel, FRAME);
     for (let y = 0; y < panel.h; y++) {
       for (let x = 0; x < panel.w; x++) {
         putLut(img, panel.x + x, panel.y + y, lut, view.map(shown[y * panel.w + x]!));
@@ -182,7 +177,7 @@ export function renderIntensityPng(p: PictureInput): Buffer {
     }
     drawScaleBar(img, panel, p.cols * p.pitchX);
 
-    frame(img, cbar);
+    frame(img, cbar, FRAME);
     for (let x = 0; x < cbar.w; x++) {
       const t = cbar.w > 1 ? x / (cbar.w - 1) : 1;
       for (let y = 0; y < cbar.h; y++) putLut(img, cbar.x + x, cbar.y + y, lut, t);
@@ -307,40 +302,6 @@ function formatLength(m: number, k: number): string {
   return `${value} ${unit}`;
 }
 
-function buildLut(scale: ColourScale): Uint8Array {
-  const lut = new Uint8Array(LUT_LEVELS * 3);
-  for (let i = 0; i < LUT_LEVELS; i++) {
-    const c = scale(i / (LUT_LEVELS - 1));
-    for (let j = 0; j < 3; j++) lut[i * 3 + j] = Math.round(c[j]!);
-  }
-  return lut;
-}
 
-function putLut(img: RgbImage, x: number, y: number, lut: Uint8Array, t: number): void {
-  // A NaN here would index past the table and quietly paint black; it is a bug upstream, so say so.
-  if (Number.isNaN(t)) throw new Error(`picture: NaN colour value at (${x}, ${y})`);
-  const k = Math.round(Math.min(1, Math.max(0, t)) * (LUT_LEVELS - 1)) * 3;
-  const i = (y * img.width + x) * 3;
-  img.data[i] = lut[k]!;
-  img.data[i + 1] = lut[k + 1]!;
-  img.data[i + 2] = lut[k + 2]!;
-}
 
-function fillRect(img: RgbImage, r: Rect, c: Colour): void {
-  for (let y = Math.max(0, r.y); y < Math.min(img.height, r.y + r.h); y++) {
-    for (let x = Math.max(0, r.x); x < Math.min(img.width, r.x + r.w); x++) {
-      const i = (y * img.width + x) * 3;
-      img.data[i] = c[0];
-      img.data[i + 1] = c[1];
-      img.data[i + 2] = c[2];
-    }
-  }
-}
 
-/** A one-pixel frame just outside `r`, so the black end of the scale stays visible on the dark background. */
-function frame(img: RgbImage, r: Rect): void {
-  fillRect(img, { x: r.x - 1, y: r.y - 1, w: r.w + 2, h: 1 }, FRAME);
-  fillRect(img, { x: r.x - 1, y: r.y + r.h, w: r.w + 2, h: 1 }, FRAME);
-  fillRect(img, { x: r.x - 1, y: r.y, w: 1, h: r.h }, FRAME);
-  fillRect(img, { x: r.x + r.w, y: r.y, w: 1, h: r.h }, FRAME);
-}

@@ -469,6 +469,10 @@ function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisP
   const padded = n * paddingFactor(g, method, n * p.pitch);
   // The output is the window cut out of the padded grid, on the same pitch.
   const output = windowOn(fftAxis(padded, p.pitch), g.centre[i]!, g.windowHalf[i]!);
+  return axisPlan(g, i, p, n, padded, output);
+}
+
+function axisPlan(g: Geometry, i: number, p: { pitch: number; required: number; rule: string }, n: number, padded: number, output: Axis): AxisPlan {
   return {
     inputPitch: p.pitch,
     inputSamples: n,
@@ -521,17 +525,7 @@ function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fr
   m = Math.min(maxM, Math.max(minM, m));
   if (m % 2 === 0) m += 1;
   const output = centredAxis(m, (2 * g.windowHalf[i]!) / (m - 1), g.centre[i]!);
-  return {
-    inputPitch: p.pitch,
-    inputSamples: nIn,
-    paddedSamples: nIn,
-    output,
-    apertureHalf: g.aEff[i]!,
-    windowHalf: g.windowHalf[i]!,
-    windowCentre: g.centre[i]!,
-    requiredPitch: p.required,
-    pitchRule: p.rule,
-  };
+  return axisPlan(g, i, p, nIn, nIn, output);
 }
 
 /**

@@ -6,6 +6,7 @@
 import { PNG } from 'pngjs';
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from '../output/font.js';
 import { shoal } from '../output/colour-scales.js';
+import { buildLut, fillRect, frame, putLut, type Rect } from '../output/raster.js';
 
 export interface SheetTile {
   label: string;
@@ -24,12 +25,7 @@ export interface SheetOptions {
   title?: string;
 }
 
-export interface Rect {
-  x: number;
-  y: number;
-  w: number;
-  h: number;
-}
+export type { Rect } from '../output/raster.js';
 
 /** Where things land on the sheet; exported so callers and tests can find the tiles. */
 export interface SheetLayout {
@@ -54,7 +50,6 @@ const LINE = CELL_H + 3;
 const MIN_SLOT = 132; // room for a label like "λ 633 nm, D 50 µm" on one line
 const BAR_THICK = 3;
 const CBAR_H = 10;
-const LUT_LEVELS = 256;
 // A display pixel less than half covered by a tile's data shows the background: its value would
 // stand for data that was never computed.
 const MIN_COVER = 0.5;
@@ -177,14 +172,14 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
   const img: RgbImage = { width: layout.width, height: layout.height, data: new Uint8Array(layout.width * layout.height * 3) };
   fillRect(img, { x: 0, y: 0, w: img.width, h: img.height }, BACKGROUND);
   if (pl.title) drawText(img, MARGIN, MARGIN, pl.title, TEXT, pl.titleScale);
-  const lut = buildLut();
+  const lut = buildLut(shoal);
   const H = layout.fieldOfView / 2;
 
   tiles.forEach((t, i) => {
     const r = layout.tiles[i]!;
     const slotX = r.x - Math.floor((pl.slotW - r.w) / 2);
     pl.labelLines[i]!.forEach((line, k) => drawText(img, slotX, r.y - 1 - pl.labelLines[i]!.length * LINE + k * LINE, line, TEXT));
-    frame(img, r);
+    frame(img, r, FRAME);
     let peak = 0;
     for (const v of t.intensity) if (v > peak) peak = v;
     const view = resample(t, H, r.w);
@@ -208,7 +203,7 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
   const cbY = fy + LINE + 6;
   const cbW = Math.min(layout.width - 2 * MARGIN, 200);
   const cb: Rect = { x: MARGIN + 1, y: cbY, w: cbW, h: CBAR_H };
-  frame(img, cb);
+  frame(img, cb, FRAME);
   for (let x = 0; x < cb.w; x++) for (let y = 0; y < cb.h; y++) putLut(img, cb.x + x, cb.y + y, lut, cb.w > 1 ? x / (cb.w - 1) : 1);
   drawText(img, cb.x, cbY + CBAR_H + 4, '0', TEXT);
   drawText(img, cb.x + cb.w - textWidth('peak'), cbY + CBAR_H + 4, 'peak', TEXT);
@@ -318,38 +313,6 @@ function compact(v: number): string {
   return v >= 0.01 && v < 1000 ? v.toPrecision(3) : v.toExponential(2);
 }
 
-function buildLut(): Uint8Array {
-  const lut = new Uint8Array(LUT_LEVELS * 3);
-  for (let i = 0; i < LUT_LEVELS; i++) {
-    const c = shoal(i / (LUT_LEVELS - 1));
-    for (let j = 0; j < 3; j++) lut[i * 3 + j] = Math.round(c[j]!);
-  }
-  return lut;
-}
 
-function putLut(img: RgbImage, x: number, y: number, lut: Uint8Array, t: number): void {
-  const k = Math.round(Math.min(1, Math.max(0, t)) * (LUT_LEVELS - 1)) * 3;
-  const i = (y * img.width + x) * 3;
-  img.data[i] = lut[k]!;
-  img.data[i + 1] = lut[k + 1]!;
-  img.data[i + 2] = lut[k + 2]!;
-}
 
-function fillRect(img: RgbImage, r: Rect, c: Colour): void {
-  for (let y = Math.max(0, r.y); y < Math.min(img.height, r.y + r.h); y++) {
-    for (let x = Math.max(0, r.x); x < Math.min(img.width, r.x + r.w); x++) {
-      const i = (y * img.width + x) * 3;
-      img.data[i] = c[0];
-      img.data[i + 1] = c[1];
-      img.data[i + 2] = c[2];
-    }
-  }
-}
 
-/** A one-pixel frame just outside `r`: it marks the field of view where the data stops short of it. */
-function frame(img: RgbImage, r: Rect): void {
-  fillRect(img, { x: r.x - 1, y: r.y - 1, w: r.w + 2, h: 1 }, FRAME);
-  fillRect(img, { x: r.x - 1, y: r.y + r.h, w: r.w + 2, h: 1 }, FRAME);
-  fillRect(img, { x: r.x - 1, y: r.y, w: 1, h: r.h }, FRAME);
-  fillRect(img, { x: r.x + r.w, y: r.y, w: 1, h: r.h }, FRAME);
-}
