@@ -7,7 +7,11 @@ import { JobError, loadJobFile } from './job/load.js';
 import { expandJob } from './job/expand.js';
 import { DEFAULT_MAX_MEMORY, planCase } from './plan/planner.js';
 import { formatPlan } from './plan/format.js';
-import { runJobFile, type JobOutcome } from './run/run-job.js';
+import { defaultWorkers, runJobFile, type JobOutcome } from './run/run-job.js';
+import { gatherJob } from './run/gather.js';
+import { lineReporter, terminalReporter } from './run/progress.js';
+import { parseShard, type ShardSpec } from './run/shard.js';
+import { safeJoin } from './output/atomic.js';
 import { TOOL_VERSION } from './version.js';
 import { jsonNumbers } from './output/case-output.js';
 
@@ -46,31 +50,101 @@ async function planCommand(files: string[], json: boolean, maxMemoryBytes: numbe
   return status;
 }
 
-async function runCommand(files: string[], out: string, maxMemoryBytes: number, quiet: boolean): Promise<number> {
+interface RunFlags {
+  out: string;
+  maxMemoryBytes: number;
+  quiet: boolean;
+  workers: number;
+  force: boolean;
+  shard?: ShardSpec;
+  acceptLarge: boolean;
+}
+
+function reporterFor(quiet: boolean) {
+  // A live bar on a terminal; one line per case into logs and scheduler output.
+  return process.stdout.isTTY
+    ? terminalReporter(process.stdout, process.stderr, quiet)
+    : lineReporter((line, problem) => (problem ? console.error(line) : console.log(line)), quiet);
+}
+
+/**
+ * Ctrl-C or SIGTERM stops the run between cases: running cases are abandoned (their folders were
+ * never renamed into place), finished ones are kept, and the same command resumes. A second
+ * Ctrl-C leaves at once.
+ */
+function stopOnSignals(): { signal: AbortSignal; dispose(): void; stoppedBy(): string | null } {
+  const ctl = new AbortController();
+  let by: string | null = null;
+  const handler = (name: string) => () => {
+    if (by) process.exit(130);
+    by = name;
+    process.stderr.write(`\nspotcast: ${name}: stopping after the cases that are finishing; press Ctrl-C again to quit at once\n`);
+    ctl.abort();
+  };
+  const onInt = handler('interrupted');
+  const onTerm = handler('terminated');
+  process.on('SIGINT', onInt);
+  process.on('SIGTERM', onTerm);
+  return {
+    signal: ctl.signal,
+    stoppedBy: () => by,
+    dispose() {
+      process.off('SIGINT', onInt);
+      process.off('SIGTERM', onTerm);
+    },
+  };
+}
+
+async function runCommand(files: string[], flags: RunFlags): Promise<number> {
   const outcomes: JobOutcome[] = [];
   const namesInRun = new Map<string, string>();
-  for (const file of files) {
-    const log = (line: string) => {
-      if (line.includes('FAILED') || /^\S+:\d+:\d+: |^\S+: /.test(line)) console.error(line);
-      else if (!quiet) console.log(line);
-    };
-    try {
-      outcomes.push(await runJobFile(file, { outDir: out, maxMemoryBytes, log, namesInRun }));
-    } catch (e) {
-      // Whatever stops one job file (a refused output folder, a full disk) must not stop the others.
-      const error = `${file}: ${(e as Error).message}`;
-      console.error(error);
-      outcomes.push({ file, cases: 0, done: 0, failed: [], warnings: 0, error });
+  const stop = stopOnSignals();
+  const reporter = reporterFor(flags.quiet);
+  try {
+    for (const file of files) {
+      if (stop.signal.aborted) break;
+      try {
+        outcomes.push(
+          await runJobFile(file, {
+            outDir: flags.out,
+            maxMemoryBytes: flags.maxMemoryBytes,
+            workers: flags.workers,
+            force: flags.force,
+            acceptLarge: flags.acceptLarge,
+            ...(flags.shard ? { shard: flags.shard } : {}),
+            signal: stop.signal,
+            reporter,
+            namesInRun,
+          }),
+        );
+      } catch (e) {
+        // Whatever stops one job file (a refused output folder, a full disk) must not stop the others.
+        const error = `${file}: ${(e as Error).message}`;
+        console.error(error);
+        outcomes.push({ file, cases: 0, done: 0, skipped: 0, failed: [], warnings: 0, error });
+      }
     }
+  } finally {
+    stop.dispose();
   }
   const bad = outcomes.filter((o) => o.error || o.reportError || o.failed.length > 0);
   const done = outcomes.reduce((s, o) => s + o.done, 0);
+  const skipped = outcomes.reduce((s, o) => s + o.skipped, 0);
   const total = outcomes.reduce((s, o) => s + o.cases, 0);
+  const failed = outcomes.reduce((s, o) => s + o.failed.length, 0);
   const warnings = outcomes.reduce((s, o) => s + o.warnings, 0);
   console.log('');
-  console.log(`spotcast: ${done} of ${total} case(s) done in ${outcomes.length} job file(s), ${warnings} warning(s).`);
+  console.log(
+    `spotcast: ${done} of ${total} case(s) done (${skipped} skipped, already done), ${failed} failed, ${warnings} warning(s), ` +
+      `in ${outcomes.length} job file(s)${flags.shard ? ` (shard ${flags.shard.k}/${flags.shard.n})` : ''}.`,
+  );
   for (const o of outcomes) {
     if (o.folder) console.log(`  ${o.job}: ${relative(process.cwd(), o.folder) || '.'}/  (report.html, summary.csv, one folder per case)`);
+  }
+  const by = stop.stoppedBy();
+  if (by) {
+    console.error(`spotcast: ${by} with ${done} case(s) done; run the same command again to go on (finished cases are kept and skipped).`);
+    return 130;
   }
   if (bad.length) {
     console.error(`spotcast: problems in ${bad.length} job file(s):`);
@@ -82,6 +156,28 @@ async function runCommand(files: string[], out: string, maxMemoryBytes: number, 
     return 1;
   }
   return 0;
+}
+
+async function gatherCommand(files: string[], out: string): Promise<number> {
+  let status = 0;
+  for (const file of files) {
+    try {
+      const loaded = await loadJobFile(file);
+      const jobDir = await safeJoin(out, loaded.spec.name);
+      const g = await gatherJob(loaded, jobDir, expandJob(loaded.spec));
+      console.log(
+        `${loaded.spec.name}: ${g.done} of ${g.total} done, ${g.failed.length} failed, ${g.missing.length} not (yet) done; ` +
+          `summary.csv and report.html in ${relative(process.cwd(), jobDir) || '.'}/`,
+      );
+      for (const f of g.failed) console.error(`  ${f.case}: ${f.error}`);
+      if (g.reportError) console.error(`  report not written: ${g.reportError}`);
+      if (g.failed.length || g.missing.length || g.reportError) status = 1;
+    } catch (e) {
+      status = 1;
+      console.error(e instanceof JobError ? e.message : `${file}: ${(e as Error).message}`);
+    }
+  }
+  return status;
 }
 
 export async function main(argv: string[]): Promise<number> {
@@ -106,9 +202,40 @@ export async function main(argv: string[]): Promise<number> {
           .positional('jobs', { type: 'string', array: true, demandOption: true, describe: 'job files (YAML or JSON)' })
           .option('out', { type: 'string', default: 'outputs', describe: 'output folder (one sub-folder per job)' })
           .option('quiet', { type: 'boolean', default: false, describe: 'print only problems and the final lines' })
+          .option('workers', {
+            type: 'number',
+            default: defaultWorkers(),
+            describe: 'cases computed at once on worker threads (default: the number of cores)',
+            coerce: (n: number) => {
+              if (!Number.isInteger(n) || n < 1) throw new UsageError(`--workers: expected a whole number 1 or more, got ${n}`);
+              return n;
+            },
+          })
+          .option('force', { type: 'boolean', default: false, describe: 'recompute cases that an earlier run finished' })
+          .option('shard', {
+            type: 'string',
+            describe: 'run only shard K of N (K/N) of the cases, for a cluster array job; then spotcast gather',
+            coerce: (t: string | undefined) => {
+              if (t === undefined) return undefined;
+              try {
+                return parseShard(t);
+              } catch (e) {
+                throw new UsageError((e as Error).message);
+              }
+            },
+          })
+          .option('accept-large', { type: 'boolean', default: false, describe: 'run a sweep above the size limits' })
           .options(memoryOption),
       async (a) => {
-        code = await runCommand(a.jobs as string[], a.out, a['max-memory'], a.quiet);
+        code = await runCommand(a.jobs as string[], {
+          out: a.out,
+          maxMemoryBytes: a['max-memory'],
+          quiet: a.quiet,
+          workers: a.workers,
+          force: a.force,
+          ...(a.shard ? { shard: a.shard } : {}),
+          acceptLarge: a['accept-large'],
+        });
       },
     )
     .command(
@@ -123,7 +250,18 @@ export async function main(argv: string[]): Promise<number> {
         code = await planCommand(a.jobs as string[], a.json, a['max-memory']);
       },
     )
-    .demandCommand(1, 'name a command: run or plan')
+    .command(
+      'gather <jobs..>',
+      "merge the shards' case results into the job's summary and report (safe while shards still run)",
+      (y) =>
+        y
+          .positional('jobs', { type: 'string', array: true, demandOption: true, describe: 'job files (YAML or JSON)' })
+          .option('out', { type: 'string', default: 'outputs', describe: 'the output folder the shards wrote into' }),
+      async (a) => {
+        code = await gatherCommand(a.jobs as string[], a.out);
+      },
+    )
+    .demandCommand(1, 'name a command: run, plan or gather')
     .strict()
     .version(TOOL_VERSION)
     .help()

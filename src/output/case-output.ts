@@ -36,16 +36,20 @@ export interface CaseMetrics extends SpotMetrics {
   verdicts?: Verdict[];
 }
 
-export interface CaseRecord {
+/** What a finished case leaves for the job: small, serialisable, stored as record.json. */
+export interface CaseSummary {
   plan: Plan;
-  computed: ComputedCase;
   metrics: CaseMetrics;
-  /** The encircled-energy curve behind metrics.encircled (written as a CSV). */
-  energy: EnergyCurve | null;
   warnings: Warning[];
   seconds: number;
   /** Results of the job's search, when it asked for one. */
   search?: SmallestSpot;
+}
+
+export interface CaseRecord extends CaseSummary {
+  computed: ComputedCase;
+  /** The encircled-energy curve behind metrics.encircled (written as a CSV). */
+  energy: EnergyCurve | null;
 }
 
 export interface SmallestSpot {
@@ -69,6 +73,8 @@ export const CASE_FILES = {
   profileY: 'profile-y.csv',
   orders: 'orders.csv',
   energy: 'encircled-energy.csv',
+  /** The case's summary and the hash of what made it; written last, it marks a complete case. */
+  record: 'record.json',
 } as const;
 
 export function caseTitle(plan: Plan): string {
@@ -118,7 +124,7 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
     },
     files: Object.fromEntries(
       Object.entries(CASE_FILES).filter(([k]) =>
-        k === 'profileY' ? computed.pitch[1] !== null : k === 'orders' ? !!metrics.orders : k === 'energy' ? !!rec.energy : true,
+        k === 'profileY' ? computed.pitch[1] !== null : k === 'orders' ? !!metrics.orders : k === 'energy' ? !!rec.energy : k !== 'record',
       ),
     ),
     ...(rec.search ? { search: rec.search } : {}),
@@ -149,8 +155,25 @@ function profileCsv(map: IntensityMap, axis: 'x' | 'y', row: number, col: number
   return toCsv(['y_m', 'intensity'], Array.from(p, (v, i) => [map.origin[1] + i * map.pitch[1]!, v]));
 }
 
+/** The summary part of a record: everything but the field. */
+export function summaryOf(rec: CaseRecord): CaseSummary {
+  return {
+    plan: rec.plan,
+    metrics: rec.metrics,
+    warnings: rec.warnings,
+    seconds: rec.seconds,
+    ...(rec.search ? { search: rec.search } : {}),
+  };
+}
+
+export interface StoredRecord extends CaseSummary {
+  /** Hash of the case's parameters and the tool version (see run/records.ts). */
+  hash: string;
+  tool: string;
+}
+
 /** Writes a case into jobDir/<case id>/, replacing an older result only once the new one is whole. */
-export async function writeCase(jobDir: string, rec: CaseRecord): Promise<string> {
+export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Promise<string> {
   const { plan, computed } = rec;
   const final = await safeJoin(jobDir, plan.case.id);
   const tmp = await safeJoin(jobDir, `.${plan.case.id}.partial-${randomBytes(4).toString('hex')}`);
@@ -183,8 +206,9 @@ export async function writeCase(jobDir: string, rec: CaseRecord): Promise<string
     };
     await writeFileAtomic(join(tmp, CASE_FILES.picture), renderIntensityPng({ ...picture, scale: 'shoal' }));
     await writeFileAtomic(join(tmp, CASE_FILES.pictureGray), renderIntensityPng({ ...picture, scale: 'gray' }));
-    // result.json last: its presence marks a complete case even before the rename.
     await writeFileAtomic(join(tmp, CASE_FILES.result), JSON.stringify(resultJson(rec), jsonNumbers, 2) + '\n');
+    const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION };
+    await writeFileAtomic(join(tmp, CASE_FILES.record), JSON.stringify(stored, jsonNumbers) + '\n');
     await replaceDir(tmp, final);
   } catch (e) {
     await rm(tmp, { recursive: true, force: true });

@@ -1,16 +1,18 @@
 // summary.csv: one row per case, the swept parameters first, then the key numbers. The same
 // column list tells the report which metrics there are and how to plot them.
 import type { SweepAxis } from '../job/expand.js';
-import type { CaseRecord } from './case-output.js';
+import type { CaseSummary } from './case-output.js';
 import type { Case, Plan } from '../plan/types.js';
 import type { MetricInfo } from '../report/types.js';
 import { toCsv, type Cell } from './csv.js';
 
 export interface SummaryRow {
   plan?: Plan | undefined;
-  record?: CaseRecord;
+  record?: CaseSummary;
   case?: Case;
   error?: string;
+  /** A case not (yet) computed: a shard still running it, or a run that stopped before it. */
+  missing?: boolean;
 }
 
 export interface Column {
@@ -20,7 +22,7 @@ export interface Column {
   metric?: MetricInfo;
 }
 
-const num = (header: string, label: string, unit: 'm' | '1', get: (rec: CaseRecord) => number | null | undefined, log = false): Column => ({
+const num = (header: string, label: string, unit: 'm' | '1', get: (rec: CaseSummary) => number | null | undefined, log = false): Column => ({
   header,
   get: (r) => (r.record ? (get(r.record) ?? null) : null),
   metric: { key: header, label, unit, ...(log ? { log } : {}) },
@@ -41,7 +43,7 @@ export function summaryColumns(rows: SummaryRow[]): Column[] {
   const axes = new Set<string>();
   for (const r of rows) for (const v of r.record?.metrics.verdicts ?? []) axes.add(v.axis);
   const cols: Column[] = [
-    { header: 'status', get: (r) => (r.error ? 'failed' : 'done') },
+    { header: 'status', get: (r) => (r.error ? 'failed' : r.missing ? 'missing' : 'done') },
     { header: 'wavelength_m', get: (r) => caseOf(r).wavelength },
     { header: 'distance_m', get: (r) => caseOf(r).distance },
     {
@@ -86,7 +88,7 @@ export function summaryColumns(rows: SummaryRow[]): Column[] {
   );
   for (const axis of axes) {
     const tag = axis === 'radial' ? '' : `_${axis}`;
-    const verdict = (m: CaseRecord) => m.metrics.verdicts?.find((v) => v.axis === axis);
+    const verdict = (m: CaseSummary) => m.metrics.verdicts?.find((v) => v.axis === axis);
     cols.push({ header: `verdict${tag}`, get: (r) => (r.record ? (verdict(r.record)?.kind ?? null) : null) });
     cols.push(num(`spot_over_far_field${tag}`, `spot / far-field size${tag ? ` (${axis})` : ''}`, '1', (m) => verdict(m)?.spotOverFarField));
     cols.push(num(`spot_over_shadow${tag}`, `spot / geometric shadow${tag ? ` (${axis})` : ''}`, '1', (m) => verdict(m)?.spotOverShadow, true));

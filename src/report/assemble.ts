@@ -130,7 +130,7 @@ export function buildJobReport(inp: ReportInputs): JobReport {
     return {
       id: c.id,
       folder: c.id,
-      status: r.error ? 'failed' : 'done',
+      status: r.error ? 'failed' : r.missing ? 'missing' : 'done',
       ...(r.error ? { error: r.error } : {}),
       swept: c.swept,
       wavelength: c.wavelength,
@@ -181,7 +181,7 @@ function reportTables(inp: ReportInputs): ReportTable[] {
         p ? fmtNum(Math.max(p.checks.fresnelNumbers[0], p.checks.fresnelNumbers[1] ?? 0), 3) : null,
         p?.regime ?? null,
         p ? (p.form ? `${p.method} (${p.form})` : p.method) : null,
-        r.error ? `failed: ${r.error}` : fmtNum(m?.peakIntensity),
+        r.error ? `failed: ${r.error}` : r.missing ? 'not computed yet' : fmtNum(m?.peakIntensity),
         fmtLen(m?.fwhm[0]),
         fmtLen(m?.encircled?.radius50),
         m?.windowFraction === null || m?.windowFraction === undefined ? null : `${trimNumber(100 * m.windowFraction, 3)} %`,

@@ -156,7 +156,8 @@ IEC&nbsp;60825-1 and ANSI&nbsp;Z136.1, and the instructions of your site's laser
 
 function header(r: JobReport): string {
   const done = r.cases.filter((c) => c.status === 'done').length;
-  const failed = r.cases.length - done;
+  const failed = r.cases.filter((c) => c.status === 'failed').length;
+  const missing = r.cases.length - done - failed;
   const warnings = r.cases.reduce((n, c) => n + c.warnings.length, 0);
   const warned = r.cases.filter((c) => c.warnings.length > 0).length;
   const row = (k: string, v: string) => `<div><dt>${k}</dt><dd>${v}</dd></div>`;
@@ -170,6 +171,7 @@ ${row('tool', `${esc(TOOL_NAME)} ${esc(r.toolVersion)}`)}
 ${row('created', esc(r.createdAt))}
 ${row('cases', String(r.cases.length))}
 ${row('done / failed', `${done} / <span class="${failed > 0 ? 'bad' : ''}">${failed}</span>`)}
+${missing > 0 ? row('not computed yet', `<span class="bad">${missing}</span>`) : ''}
 ${row('warnings', warnings === 0 ? 'none' : `${warnings} in ${plural(warned, 'case')}`)}
 </dl>
 </header>`;
@@ -478,6 +480,7 @@ table.kv caption { font-size: 0.8rem; color: var(--muted); font-weight: normal; 
 .status { font-size: 0.75rem; font-weight: 600; padding: 0.05rem 0.4rem; border-radius: 3px; vertical-align: middle; }
 .status.done { background: #e6f0ea; color: #285e3c; }
 .status.failed { background: #f7e4e4; color: #9b2c2c; }
+.status.missing { background: #f1eee2; color: #6b5a1e; }
 .badge { font-size: 0.75rem; padding: 0.05rem 0.4rem; border-radius: 3px; background: #fbf1db; color: #7a5410; vertical-align: middle; }
 .verdict { font-weight: 600; margin: 0.3rem 0 0.5rem; }
 pre.error { border-color: #e2bcbc; background: #fbf3f3; }

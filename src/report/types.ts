@@ -28,7 +28,8 @@ export interface ReportCase {
   id: string;
   /** Case folder relative to the job folder. */
   folder: string;
-  status: 'done' | 'failed';
+  /** missing: not (yet) computed — a shard still at work, or a run that stopped before it. */
+  status: 'done' | 'failed' | 'missing';
   error?: string;
   /** Values of the swept keys for this case (SI), by key path. */
   swept: Record<string, number>;

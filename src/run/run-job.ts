@@ -1,56 +1,45 @@
-// Running a job file: validate, expand, plan, compute and write each case, then the job summary.
-// Cases run one after another here; a failing case is recorded and the others go on.
+// Running a job file: validate, expand, plan every case, skip the ones already done, check that
+// the rest fit in memory, compute them on worker threads, and make the job-level files. A failing
+// case is recorded and the others go on; an interrupted run keeps every finished case.
+import { availableParallelism, freemem } from 'node:os';
 import { trimNumber } from '../job/units.js';
 import { JobError, loadJobFile, type LoadedJob } from '../job/load.js';
-import { expandJob, sweepAxes } from '../job/expand.js';
-import { planCase, type PlannerOptions } from '../plan/planner.js';
+import { expandJob } from '../job/expand.js';
+import { bytes, methodWords, planCase, type PlannerOptions } from '../plan/planner.js';
 import type { Plan } from '../plan/types.js';
-import { writeCase, jsonNumbers, type CaseRecord } from '../output/case-output.js';
+import type { CaseSummary } from '../output/case-output.js';
 import { safeJoin, writeFileAtomic } from '../output/atomic.js';
-import { summaryCsv, type SummaryRow } from '../output/summary.js';
-import { runPlannedCase } from './run-case.js';
-import { methodWords } from '../plan/planner.js';
-import { makeVerdict } from '../analysis/verdict.js';
-import { farFieldFrom, newSearchContext, smallestSpot, type SearchContext } from './searches.js';
-import { formatLength } from '../job/units.js';
-import { formatPlan } from '../plan/format.js';
-import { orderOverlaps, type OrderSet } from '../analysis/overlap.js';
-import { buildJobReport, sheetIndices, sheetTile, sweptLabel, writeJobReport } from '../report/assemble.js';
-import type { SheetTile } from '../report/contact-sheet.js';
-import type { SmallestSpot } from '../output/case-output.js';
-
-/**
- * The answers that need extra propagations: from which distance the far-field size holds (added to
- * each verdict) and, when the job asks, the aperture size with the smallest spot.
- */
-export function answerQuestions(rec: CaseRecord, ctx: SearchContext): void {
-  const c = rec.plan.case;
-  if (rec.metrics.verdicts) {
-    rec.metrics.verdicts = rec.metrics.verdicts.map((v) => makeVerdict(v.axis, v.size, v.fresnelNumber, farFieldFrom(c, v.axis, ctx)));
-  }
-  if (c.analysis.smallestSpot) rec.search = smallestSpot(c, ctx);
-}
-
-export function searchSentence(s: SmallestSpot): string {
-  const what = s.key === 'aperture.diameter' ? 'diameter' : 'width';
-  const m = s.measure === 'energy' ? 'spot (radius or half-width holding half the power)' : s.measure === 'fwhm' ? 'FWHM' : 'D4σ width';
-  const tb = s.textbookMeasure !== null ? ` (its spot ${formatLength(s.textbookMeasure, 3)})` : ' (outside the range searched)';
-  return (
-    `Smallest spot: ${what} ${formatLength(s.best, 4)} gives the smallest ${m}, ${formatLength(s.bestMeasure, 3)}; ` +
-    `the textbook estimate ${s.key === 'aperture.diameter' ? '√(2.44λz)' : '√(2λz)'} is ${formatLength(s.textbook, 4)}${tb}. ` +
-    `Method: ${s.method} (${s.evaluations} propagations).`
-  );
-}
+import { searchSentence } from './searches.js';
+import { gatherJob } from './gather.js';
+import { caseHash, readRecord, removeLeftovers, writeManifest, type Manifest } from './records.js';
+import { runTasks } from './scheduler.js';
+import type { CaseTask } from './execute.js';
+import { assignShards, type ShardSpec } from './shard.js';
+import { lineReporter, silentReporter, type RunReporter } from './progress.js';
+import { TOOL_VERSION } from '../version.js';
 
 export interface RunOptions extends PlannerOptions {
   outDir: string;
-  /** Receives one line per event; defaults to nothing. */
+  /** Worker threads (default 1: this thread). The command line defaults to the number of cores. */
+  workers?: number;
+  /** Recompute cases that are already done. */
+  force?: boolean;
+  /** Run only this shard's cases and leave the job-level files to `spotcast gather`. */
+  shard?: ShardSpec;
+  /** Accept a sweep above the size limits (LARGE_SWEEP). */
+  acceptLarge?: boolean;
+  /** Stops the run between cases (running cases on worker threads are abandoned). */
+  signal?: AbortSignal;
+  reporter?: RunReporter;
+  /** One line per event, for scripts that want plain text (ignored when reporter is given). */
   log?: (line: string) => void;
   /**
    * Job names already written in this run, with their files: a second job of the same name would
    * overwrite the first one's folder, so it is refused. Share one map across the files of a run.
    */
   namesInRun?: Map<string, string>;
+  /** Memory the run may use (bytes); default: what the machine has free now. */
+  availableMemoryBytes?: number;
 }
 
 export interface JobOutcome {
@@ -58,17 +47,32 @@ export interface JobOutcome {
   job?: string;
   folder?: string;
   cases: number;
+  /** Cases done, including those done by earlier runs. */
   done: number;
+  /** Cases this run skipped because an earlier run had done them. */
+  skipped: number;
   failed: { case: string; error: string }[];
   warnings: number;
-  /** Set when the job file itself could not be used. */
+  /** Set when the job file itself could not be used, or the job was refused before any work. */
   error?: string;
   /** Set when the cases ran but the job report could not be made. */
   reportError?: string;
+  /** The run was stopped (Ctrl-C, SIGTERM) before all cases were done. */
+  interrupted?: boolean;
 }
 
-/** Plans kept for the report, in full; the rest are a `spotcast plan` away. */
-const REPORT_PLANS = 200;
+/** Sweeps above these ask for acceptLarge (--accept-large): a typo in a range should not start a week of work. */
+export const LARGE_SWEEP = { cases: 5000, seconds: 12 * 3600 };
+
+/** Rough floating-point rate of one core in these kernels, for time estimates only. */
+const FLOPS_PER_SECOND = 2e8;
+
+/** Memory a case may count on: what is free, kept below 80 % for the rest of the machine. */
+export function availableMemory(): number {
+  const constrained = typeof process.constrainedMemory === 'function' ? process.constrainedMemory() : 0;
+  const free = freemem();
+  return 0.8 * (constrained && constrained > 0 ? Math.min(constrained, free) : free);
+}
 
 export async function runJobFile(file: string, opts: RunOptions): Promise<JobOutcome> {
   let loaded: LoadedJob;
@@ -76,117 +80,166 @@ export async function runJobFile(file: string, opts: RunOptions): Promise<JobOut
     loaded = await loadJobFile(file);
   } catch (e) {
     const msg = e instanceof JobError ? e.message : `${file}: ${(e as Error).message}`;
-    opts.log?.(msg);
-    return { file, cases: 0, done: 0, failed: [], warnings: 0, error: msg };
+    reporterOf(opts).note(msg);
+    return { file, cases: 0, done: 0, skipped: 0, failed: [], warnings: 0, error: msg };
   }
   return runJob(loaded, opts);
 }
 
+function reporterOf(opts: RunOptions): RunReporter {
+  if (opts.reporter) return opts.reporter;
+  const log = opts.log;
+  return log ? lineReporter((l) => log(l)) : silentReporter;
+}
+
+/** The first line and the answers for a finished case, as the reporter shows them. */
+export function caseLines(s: CaseSummary): string[] {
+  const p = s.plan;
+  const lines = [
+    `${p.regime}, ${methodWords(p.method, p.form)}  peak ${trimNumber(s.metrics.peakIntensity, 4)}  ${trimNumber(s.seconds, 2)} s` +
+      (s.warnings.length ? `  ${s.warnings.length} warning(s)` : ''),
+  ];
+  for (const v of s.metrics.verdicts ?? []) lines.push(`${v.axis === 'radial' ? '' : `${v.axis}: `}${v.sentence}`);
+  if (s.search) lines.push(searchSentence(s.search));
+  for (const w of s.warnings) lines.push(`! [${w.code}] ${w.message}`);
+  return lines;
+}
+
 export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOutcome> {
-  const log = opts.log ?? (() => {});
+  const rep = reporterOf(opts);
   const { spec, file } = loaded;
-  const outcome: JobOutcome = { file, job: spec.name, cases: 0, done: 0, failed: [], warnings: 0 };
-  let cases;
+  const outcome: JobOutcome = { file, job: spec.name, cases: 0, done: 0, skipped: 0, failed: [], warnings: 0 };
+  const refuse = (msg: string): JobOutcome => {
+    // The job as a whole cannot run (a refused folder, a full disk, a name clash, too big): say so.
+    outcome.error = `${file}: ${msg}`;
+    rep.note(outcome.error);
+    return outcome;
+  };
   let jobDir: string;
+  let plans: Plan[];
   try {
     const earlier = opts.namesInRun?.get(spec.name);
     if (earlier !== undefined) {
-      throw new Error(`the job name '${spec.name}' is already used by ${earlier} in this run; its results would overwrite those; rename one job`);
+      return refuse(`the job name '${spec.name}' is already used by ${earlier} in this run; its results would overwrite those; rename one job`);
     }
     opts.namesInRun?.set(spec.name, file);
-    cases = expandJob(spec);
+    const cases = expandJob(spec);
     outcome.cases = cases.length;
+    plans = cases.map((c) => planCase(c, opts));
+    const seconds = plans.reduce((s, p) => s + p.work, 0) / FLOPS_PER_SECOND;
+    if (!opts.acceptLarge && (cases.length > LARGE_SWEEP.cases || seconds > LARGE_SWEEP.seconds)) {
+      return refuse(
+        `the sweeps make ${cases.length} cases, estimated at ${trimNumber(seconds / 3600, 3)} CPU hours ` +
+          `(limits ${LARGE_SWEEP.cases} cases, ${LARGE_SWEEP.seconds / 3600} hours); if that is meant, run again with --accept-large`,
+      );
+    }
     jobDir = await safeJoin(opts.outDir, spec.name);
     await writeFileAtomic(`${jobDir}/job.json`, JSON.stringify({ file, job: loaded.given }, null, 2) + '\n');
   } catch (e) {
-    // The job as a whole cannot run (a refused folder, a full disk, a name clash): say so and return.
-    outcome.error = `${file}: ${(e as Error).message}`;
-    log(outcome.error);
-    return outcome;
+    return refuse((e as Error).message);
   }
   outcome.folder = jobDir;
-  log(`job ${spec.name} (${file}): ${cases.length} case${cases.length === 1 ? '' : 's'} → ${jobDir}`);
-  const axes = sweepAxes(spec).filter((a) => a.values.length > 1);
-  const rows: SummaryRow[] = [];
-  const search = newSearchContext(opts);
-  const onSheet = sheetIndices(cases.length);
-  const tiles: SheetTile[] = [];
-  const plans: string[] = [];
-  const orderSets: OrderSet[] = [];
-  for (const c of cases) {
-    let plan: Plan | undefined;
-    const tag = `[${c.index + 1}/${cases.length}] ${c.id}`;
-    try {
-      plan = planCase(c, opts);
-      if (plan.error) throw new Error(plan.error);
-      const rec: CaseRecord = runPlannedCase(plan);
-      answerQuestions(rec, search);
-      await writeCase(jobDir, rec);
-      outcome.done++;
+
+  // This run's cases: all, or one shard's.
+  const shardOf = opts.shard ? assignShards(plans.map((p) => p.work), opts.shard.n) : null;
+  const mine = plans.filter((_, i) => !shardOf || shardOf[i] === opts.shard!.k);
+  if (!opts.shard) await removeLeftovers(jobDir);
+
+  const manifest: Manifest = {
+    tool: TOOL_VERSION,
+    job: spec.name,
+    shard: opts.shard ? `${opts.shard.k}/${opts.shard.n}` : null,
+    completed: {},
+    failed: {},
+  };
+  const todo: CaseTask[] = [];
+  const tooBig: Plan[] = [];
+  for (const p of mine) {
+    const hash = caseHash(p.case);
+    const rec = opts.force ? null : await readRecord(jobDir, p.case.id);
+    if (rec && rec.hash === hash) {
+      manifest.completed[p.case.id] = hash;
+      outcome.skipped++;
       outcome.warnings += rec.warnings.length;
-      if (onSheet.has(c.index)) {
-        const label = axes.map((a) => sweptLabel(a, c.swept[a.key]!)).join(', ') || c.id;
-        tiles.push(sheetTile(label, rec.computed));
-      }
-      if (rec.metrics.orders && c.aperture.shape === 'slits') {
-        orderSets.push({
-          caseId: c.id,
-          wavelength: c.wavelength,
-          distance: c.distance,
-          count: c.aperture.count,
-          period: c.aperture.period,
-          group: JSON.stringify([c.aperture, c.distance, c.illumination]),
-          orders: rec.metrics.orders,
-        });
-      }
-      // The job keeps each case's numbers, not its field: a long sweep must not hold every map.
-      rows.push({ plan, record: { ...rec, computed: { ...rec.computed, intensity: new Float64Array(0) }, energy: null } });
-      log(
-        `${tag}  ${plan.regime}, ${methodWords(plan.method, plan.form)}  peak ${trimNumber(rec.metrics.peakIntensity, 4)}  ` +
-          `${trimNumber(rec.seconds, 2)} s${rec.warnings.length ? `  ${rec.warnings.length} warning(s)` : ''}`,
+    } else if (p.error) tooBig.push(p);
+    else todo.push({ plan: p, jobDir, hash });
+  }
+
+  // Memory guard: every case must fit, and as many run at once as the memory allows.
+  const requested = Math.max(1, opts.workers ?? 1);
+  const available = opts.availableMemoryBytes ?? availableMemory();
+  const largest = todo.reduce<Plan | null>((m, t) => (!m || t.plan.memoryBytes > m.memoryBytes ? t.plan : m), null);
+  let workers = Math.min(requested, Math.max(1, todo.length));
+  if (largest) {
+    if (largest.memoryBytes > available) {
+      return refuse(
+        `case ${largest.case.id} needs about ${bytes(largest.memoryBytes)} but only ${bytes(available)} is available; ` +
+          `lower it with a smaller window, a coarser grid.pitch or fewer cases at once, or free memory`,
       );
-      for (const v of rec.metrics.verdicts ?? []) log(`    ${v.axis === 'radial' ? '' : `${v.axis}: `}${v.sentence}`);
-      if (rec.search) log(`    ${searchSentence(rec.search)}`);
-      for (const w of rec.warnings) log(`    ! [${w.code}] ${w.message}`);
-    } catch (e) {
-      const error = (e as Error).message;
-      outcome.failed.push({ case: c.id, error });
-      rows.push({ plan, case: c, error });
-      log(`${tag}  FAILED: ${error}`);
     }
-    if (plan && plans.length < REPORT_PLANS) plans.push(formatPlan(plan));
-    // Rewritten after every case, so that an interrupted run still leaves a usable table.
-    await writeFileAtomic(`${jobDir}/summary.csv`, summaryCsv(axes, rows));
+    const fit = Math.floor(available / largest.memoryBytes);
+    if (fit < workers) {
+      rep.note(
+        `memory: ${workers} cases at once would need up to ${bytes(workers * largest.memoryBytes)} (largest case ${largest.case.id}, ` +
+          `${bytes(largest.memoryBytes)}), ${bytes(available)} is available: running ${fit} at a time`,
+      );
+      workers = fit;
+    }
   }
-  await writeFileAtomic(
-    `${jobDir}/summary.json`,
-    JSON.stringify(
-      {
-        job: spec.name,
-        file,
-        cases: outcome.cases,
-        done: outcome.done,
-        failed: outcome.failed,
-        warnings: outcome.warnings,
-        swept: axes.map((a) => ({ key: a.key, values: a.values, spacing: a.spacing })),
+
+  rep.jobStart(spec.name, jobDir, mine.length, outcome.skipped, workers);
+  const save = () => writeManifest(jobDir, manifest, opts.shard ?? null);
+  const fail = async (id: string, hash: string, error: string) => {
+    outcome.failed.push({ case: id, error });
+    manifest.failed[id] = { hash, error };
+    rep.caseFailed(id, error);
+    await save();
+  };
+  for (const p of tooBig) await fail(p.case.id, caseHash(p.case), p.error!);
+  const hashes = new Map(todo.map((t) => [t.plan.case.id, t.hash]));
+  const heapMb = largest ? Math.ceil(largest.memoryBytes / 1024 ** 2) + 512 : undefined;
+  const { interrupted } = await runTasks(
+    todo,
+    { workers, ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}) },
+    {
+      start: (id) => rep.caseStart(id),
+      done: async (d) => {
+        outcome.warnings += d.summary.warnings.length;
+        manifest.completed[d.id] = hashes.get(d.id)!;
+        delete manifest.failed[d.id];
+        rep.caseDone(d.id, caseLines(d.summary), d.summary.warnings.length);
+        await save();
       },
-      jsonNumbers,
-      2,
-    ) + '\n',
+      failed: (id, error) => fail(id, hashes.get(id)!, error),
+      note: (line) => rep.note(line),
+    },
   );
-  try {
-    const overlaps = orderOverlaps(orderSets, spec.orders?.overlap);
-    const report = buildJobReport({ loaded, axes, rows, plans, overlaps });
-    if (cases.length > plans.length) report.plans.push(`(plans of the other ${cases.length - plans.length} cases: spotcast plan ${file})`);
-    await writeJobReport(jobDir, report, tiles, overlaps);
-  } catch (e) {
-    // The case results are written; a failed report is reported, not hidden.
-    outcome.reportError = (e as Error).message;
-    log(`job ${spec.name}: the report could not be written: ${outcome.reportError}`);
+  await save();
+  outcome.done = Object.keys(manifest.completed).length;
+  if (interrupted) outcome.interrupted = true;
+
+  const cases = plans.map((p) => p.case);
+  if (opts.shard) {
+    rep.jobEnd(
+      `job ${spec.name}, shard ${opts.shard.k}/${opts.shard.n}: ${outcome.done} of ${mine.length} cases done, ${outcome.failed.length} failed` +
+        `${interrupted ? ' (interrupted)' : ''}; gather the shards with: spotcast gather ${file} --out ${opts.outDir}`,
+    );
+    return outcome;
   }
-  log(
-    `job ${spec.name}: ${outcome.done} of ${outcome.cases} done, ${outcome.failed.length} failed, ${outcome.warnings} warning(s); ` +
-      `results in ${jobDir} (report.html)`,
+  const g = await gatherJob(loaded, jobDir, cases, opts);
+  if (g.reportError) {
+    outcome.reportError = g.reportError;
+    rep.note(`job ${spec.name}: the report could not be written: ${g.reportError}`);
+  }
+  rep.jobEnd(
+    `job ${spec.name}: ${g.done} of ${g.total} done (${outcome.skipped} from earlier runs), ${g.failed.length} failed, ` +
+      `${outcome.warnings} warning(s)${interrupted ? `, stopped with ${g.missing.length} not done` : ''}; results in ${jobDir} (report.html)`,
   );
   return outcome;
 }
+
+/** The default worker count of the command line: one per core. */
+export function defaultWorkers(): number {
+  return typeof availableParallelism === 'function' ? availableParallelism() : 1;
+}
+

@@ -2,9 +2,10 @@
 // size can be trusted, and which aperture size gives the smallest spot at a distance. Results that
 // depend only on the aperture and the wavelength are cached across the cases of a job.
 import { spotMetrics } from '../analysis/metrics.js';
-import { AIRY_HALF_POWER_V, SINC_HALF_POWER_U, spotSize, verdictWidth, type Verdict } from '../analysis/verdict.js';
+import { AIRY_HALF_POWER_V, makeVerdict, SINC_HALF_POWER_U, spotSize, verdictWidth, type Verdict } from '../analysis/verdict.js';
+import { formatLength } from '../job/units.js';
 import type { Aperture } from '../optics/aperture.js';
-import type { SmallestSpot } from '../output/case-output.js';
+import type { CaseRecord, SmallestSpot } from '../output/case-output.js';
 import { planCase, type PlannerOptions } from '../plan/planner.js';
 import type { Case } from '../plan/types.js';
 import { computeCase } from './compute.js';
@@ -168,3 +169,27 @@ export function smallestSpot(c: Case, ctx: SearchContext): SmallestSpot {
     evaluations,
   };
 }
+
+/**
+ * The answers that need extra propagations: from which distance the far-field size holds (added to
+ * each verdict) and, when the job asks, the aperture size with the smallest spot.
+ */
+export function answerQuestions(rec: CaseRecord, ctx: SearchContext): void {
+  const c = rec.plan.case;
+  if (rec.metrics.verdicts) {
+    rec.metrics.verdicts = rec.metrics.verdicts.map((v) => makeVerdict(v.axis, v.size, v.fresnelNumber, farFieldFrom(c, v.axis, ctx)));
+  }
+  if (c.analysis.smallestSpot) rec.search = smallestSpot(c, ctx);
+}
+
+export function searchSentence(s: SmallestSpot): string {
+  const what = s.key === 'aperture.diameter' ? 'diameter' : 'width';
+  const m = s.measure === 'energy' ? 'spot (radius or half-width holding half the power)' : s.measure === 'fwhm' ? 'FWHM' : 'D4σ width';
+  const tb = s.textbookMeasure !== null ? ` (its spot ${formatLength(s.textbookMeasure, 3)})` : ' (outside the range searched)';
+  return (
+    `Smallest spot: ${what} ${formatLength(s.best, 4)} gives the smallest ${m}, ${formatLength(s.bestMeasure, 3)}; ` +
+    `the textbook estimate ${s.key === 'aperture.diameter' ? '√(2.44λz)' : '√(2λz)'} is ${formatLength(s.textbook, 4)}${tb}. ` +
+    `Method: ${s.method} (${s.evaluations} propagations).`
+  );
+}
+

@@ -342,7 +342,7 @@ describe('usage errors exit 2', () => {
     [['frobnicate', 'slit.yaml'], /Unknown argument/],
     [['run', 'slit.yaml', '--bogus'], /Unknown argument: bogus/],
     [['plan', 'slit.yaml', '--frobnicate=3'], /Unknown argument: frobnicate/],
-    [[], /name a command: run or plan/],
+    [[], /name a command: run, plan or gather/],
     [['run'], /Not enough non-option arguments/],
   ])('spotcast %j', (args, message) => {
     const r = spotcast(...args);

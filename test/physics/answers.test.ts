@@ -6,8 +6,7 @@ import { AIRY_HALF_POWER_V, SINC_HALF_POWER_U, sineIntegral } from '../../src/an
 import { orderOverlaps, type OrderSet } from '../../src/analysis/overlap.js';
 import { planCase } from '../../src/plan/planner.js';
 import { runPlannedCase } from '../../src/run/run-case.js';
-import { answerQuestions } from '../../src/run/run-job.js';
-import { newSearchContext, smallestSpot } from '../../src/run/searches.js';
+import { answerQuestions, newSearchContext, smallestSpot } from '../../src/run/searches.js';
 import besselj0 from '@stdlib/math-base-special-besselj0';
 import besselj1 from '@stdlib/math-base-special-besselj1';
 import { makeCase, mm, nm, runCase, um, type CaseSpec } from '../helpers.js';

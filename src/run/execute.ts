@@ -1,0 +1,37 @@
+// One case from plan to written folder, the same on a worker thread and in the main thread.
+import { summaryOf, writeCase, type CaseSummary } from '../output/case-output.js';
+import type { Plan } from '../plan/types.js';
+import { runPlannedCase } from './run-case.js';
+import { answerQuestions, type SearchContext } from './searches.js';
+
+export interface CaseTask {
+  plan: Plan;
+  jobDir: string;
+  hash: string;
+}
+
+export interface CaseDone {
+  id: string;
+  summary: CaseSummary;
+}
+
+/**
+ * Fault injection for the failure-isolation tests: SPOTCAST_FAULT=crash:<case id> makes the
+ * worker running that case die, throw:<case id> makes the case throw. Never set in normal use.
+ */
+function injectFault(id: string): void {
+  const f = process.env.SPOTCAST_FAULT;
+  if (!f) return;
+  const [kind, target] = f.split(':');
+  if (target !== id) return;
+  if (kind === 'crash') process.exit(70);
+  if (kind === 'throw') throw new Error(`fault injected for ${id} (SPOTCAST_FAULT)`);
+}
+
+export async function executeCase(task: CaseTask, search: SearchContext): Promise<CaseDone> {
+  injectFault(task.plan.case.id);
+  const rec = runPlannedCase(task.plan);
+  answerQuestions(rec, search);
+  await writeCase(task.jobDir, rec, task.hash);
+  return { id: task.plan.case.id, summary: summaryOf(rec) };
+}
