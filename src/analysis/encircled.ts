@@ -30,21 +30,26 @@ export function energyCurve(map: IntensityMap, centre: [number, number], referen
   const binWidth = rMax / bins;
   const hist = new Float64Array(bins + 1);
   const cell = (oneD ? dx : dx * dy) / (oneD ? s : s * s);
+  // Sub-cell offsets from a sample's centre (Math.sqrt, not Math.hypot: this loop is hot).
+  const offX = Array.from({ length: s }, (_, i) => ((i + 0.5) / s - 0.5) * dx);
+  const offY = oneD ? [0] : Array.from({ length: s }, (_, j) => ((j + 0.5) / s - 0.5) * dy);
+  const inv = 1 / binWidth;
   for (let r = 0; r < map.rows; r++) {
+    const y0 = oneD ? 0 : map.origin[1] + r * dy - centre[1];
     for (let c = 0; c < map.cols; c++) {
       const v = map.intensity[r * map.cols + c]! * cell;
       if (v === 0) continue;
       const x0 = map.origin[0] + c * dx - centre[0];
-      const y0 = oneD ? 0 : map.origin[1] + r * dy - centre[1];
       for (let i = 0; i < s; i++) {
-        const x = x0 + ((i + 0.5) / s - 0.5) * dx;
+        const x = x0 + offX[i]!;
         if (oneD) {
-          hist[Math.min(bins, Math.floor(Math.abs(x) / binWidth))]! += v;
+          hist[Math.min(bins, Math.floor(Math.abs(x) * inv))]! += v;
           continue;
         }
+        const x2 = x * x;
         for (let j = 0; j < s; j++) {
-          const y = y0 + ((j + 0.5) / s - 0.5) * dy;
-          hist[Math.min(bins, Math.floor(Math.hypot(x, y) / binWidth))]! += v;
+          const y = y0 + offY[j]!;
+          hist[Math.min(bins, Math.floor(Math.sqrt(x2 + y * y) * inv))]! += v;
         }
       }
     }

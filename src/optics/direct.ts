@@ -80,6 +80,11 @@ export interface FarFieldOptions {
    * across the aperture; below it the separable fast path is taken. Default 1e-4.
    */
   mappingTolerance?: number;
+  /**
+   * The source is rotationally symmetric (a centred round aperture in an untilted, centred beam):
+   * its spectrum depends on |f| only, so it is tabulated along one radius and interpolated.
+   */
+  radial?: boolean;
 }
 
 /**
@@ -111,7 +116,10 @@ export function propagateFarField(
   } else {
     if (!outY) throw new Error('a 2-D field needs a y output axis');
     const tol = opts.mappingTolerance ?? 1e-4;
-    const spectrum = farFieldSpectrum2D(src, z, outX, outY, carrier, tol);
+    const spectrum =
+      opts.radial && carrier[0] === 0 && carrier[1] === 0
+        ? radialFarFieldSpectrum(src, z, outX, outY)
+        : farFieldSpectrum2D(src, z, outX, outY, carrier, tol);
     out.data.set(spectrum);
   }
   applyFarFieldFactor(out, z);
@@ -132,6 +140,47 @@ export function mappingError(halfExtent: [number, number], z: number, outX: Axis
     }
   }
   return worst;
+}
+
+/**
+ * Â(|f|) of a rotationally symmetric source: computed along the fx axis (fy = 0) on a fine radial
+ * grid — steps of 1/(32R), R the source's reach, as in tabulateSpectrum — with the cell response
+ * divided out there, then interpolated (cubic) at each output point's |f| = ρ/(λr). The cost is
+ * N²·T for T table entries instead of N²·M² point by point.
+ */
+function radialFarFieldSpectrum(src: Field, z: number, outX: Axis, outY: Axis): Float64Array {
+  const lam = src.wavelength;
+  const xi = xAxisOf(src);
+  const eta = yAxisOf(src)!;
+  const reach = Math.max(Math.abs(xi.start), Math.abs(axisAt(xi, xi.n - 1)), Math.abs(eta.start), Math.abs(axisAt(eta, eta.n - 1))) + xi.step;
+  let fMax = 0;
+  for (const x of [axisAt(outX, 0), axisAt(outX, outX.n - 1)]) {
+    for (const y of [axisAt(outY, 0), axisAt(outY, outY.n - 1)]) {
+      const r = Math.sqrt(x * x + y * y + z * z);
+      fMax = Math.max(fMax, Math.sqrt(x * x + y * y) / (lam * r));
+    }
+  }
+  const step = 1 / (32 * reach);
+  const n = Math.ceil(fMax / step) + 4;
+  const freqs = new Float64Array(n + 1);
+  for (let i = 0; i <= n; i++) freqs[i] = (i - 1) * step; // one entry below 0 for the interpolation
+  const line = dft2(src.data, xi, eta, freqs, new Float64Array([0]));
+  for (let i = 0; i <= n; i++) {
+    const g = 1 / cellResponse(freqs[i]!, xi.step);
+    line[2 * i] = line[2 * i]! * g;
+    line[2 * i + 1] = line[2 * i + 1]! * g;
+  }
+  const table = { start: -step, step, values: line };
+  const out = new Float64Array(2 * outX.n * outY.n);
+  for (let r = 0; r < outY.n; r++) {
+    const y = axisAt(outY, r);
+    for (let c = 0; c < outX.n; c++) {
+      const x = axisAt(outX, c);
+      const rr = Math.sqrt(x * x + y * y + z * z);
+      interpolateSpectrum(table, Math.sqrt(x * x + y * y) / (lam * rr), out, r * outX.n + c);
+    }
+  }
+  return out;
 }
 
 function farFieldSpectrum2D(

@@ -203,7 +203,11 @@ export function computeCase(plan: Plan): ComputedCase {
     else if (plan.method === 'fresnel') {
       compensateCellResponse(src);
       result = { field: propagateFresnelDirect(src, z, outX, outY, carrier) };
-    } else result = { field: propagateFarField(src, z, outX, outY, carrier) };
+    } else {
+      // A centred round aperture in an untilted beam has a radially symmetric spectrum.
+      const radial = (c.aperture.shape === 'circle' || c.aperture.shape === 'annulus') && ill.tilt[0] === 0 && ill.tilt[1] === 0;
+      result = { field: propagateFarField(src, z, outX, outY, carrier, { radial }) };
+    }
   }
 
   const field = result.field;

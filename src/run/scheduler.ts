@@ -72,8 +72,11 @@ function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEv
     const finish = (interrupted: boolean) => {
       if (stopped) return;
       stopped = true;
-      // Idle workers stop themselves; on an interruption the busy ones are abandoned.
-      if (interrupted) for (const w of busy.keys()) void w.terminate();
+      // Idle workers are told to stop; on an interruption the busy ones are abandoned.
+      for (const [w, t] of busy) {
+        if (interrupted && t) void w.terminate();
+        else w.postMessage({ type: 'stop' } satisfies ToWorker);
+      }
       chain.then(() => resolve({ interrupted }));
     };
     opts.signal?.addEventListener('abort', () => finish(true), { once: true });
