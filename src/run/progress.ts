@@ -75,16 +75,16 @@ export function terminalReporter(out: NodeJS.WriteStream, err: NodeJS.WriteStrea
   const width = () => Math.max(40, (out.columns ?? 100) - 1);
   const bar = () => {
     const frac = total ? done / total : 1;
-    const cells = 24;
+    const cells = 20;
     const fill = Math.round(frac * cells);
     const elapsed = (Date.now() - t0) / 1000;
     const thisRun = done - startDone;
     const eta = thisRun > 0 ? (elapsed / thisRun) * (total - done) : NaN;
     const names = [...running].slice(0, 3).join(', ') + (running.size > 3 ? ` +${running.size - 3}` : '');
+    // The numbers first: a narrow terminal cuts the end of the line.
     const text =
-      `${job} [${'#'.repeat(fill)}${'-'.repeat(cells - fill)}] ${done}/${total}` +
-      `${failed ? ` (${failed} failed)` : ''} · ${clock(elapsed)} elapsed · ETA ${clock(eta)}` +
-      `${names ? ` · running ${names}` : ''}`;
+      `${done}/${total}${failed ? ` (${failed} failed)` : ''} [${'#'.repeat(fill)}${'-'.repeat(cells - fill)}] ` +
+      `${clock(elapsed)} elapsed, ETA ${clock(eta)} · ${job}${names ? ` · running ${names}` : ''}`;
     return text.length > width() ? `${text.slice(0, width() - 1)}…` : text;
   };
   const draw = () => out.write(`\r\x1b[2K${bar()}`);

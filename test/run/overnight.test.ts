@@ -83,6 +83,29 @@ describe('kill -9 in the middle of a sweep, then the same command again', () => 
   }, 180_000);
 });
 
+describe('changing the job', () => {
+  it('recomputes only the cases whose parameters changed', async () => {
+    const dir = join(work, 'out-change');
+    const text = (distances: string, description: string) =>
+      `name: change-sweep\ndescription: ${description}\nwavelength: 633 nm\ndistance: [${distances}]\naperture: {shape: slit, width: 30 um}\n`;
+    const first = await runJob(parseJobText(text('10 mm, 20 mm, 40 mm', 'first')), { outDir: dir });
+    expect(first.done).toBe(3);
+    const jobDir = join(dir, 'change-sweep');
+    const stamp = async () => new Map(await Promise.all((await caseDirs(jobDir)).map(async (d) => [d, (await stat(join(jobDir, d, 'record.json'))).mtimeMs] as const)));
+    const t1 = await stamp();
+    // A new description changes no case; a fourth distance adds one case and leaves the others.
+    const second = await runJob(parseJobText(text('10 mm, 20 mm, 40 mm, 80 mm', 'second')), { outDir: dir });
+    expect(second.skipped).toBe(3);
+    expect(second.done).toBe(4);
+    const t2 = await stamp();
+    for (const [d, t] of t1) expect(t2.get(d), d).toBe(t);
+    // A different slit width changes every case: all are recomputed.
+    const third = await runJob(parseJobText(text('10 mm, 20 mm, 40 mm, 80 mm', 'second').replace('30 um', '35 um')), { outDir: dir });
+    expect(third.skipped).toBe(0);
+    expect(third.done).toBe(4);
+  });
+});
+
 describe('Ctrl-C', () => {
   it('stops cleanly between cases, says how to go on, and the next run finishes the job', async () => {
     const file = join(work, 'int.yaml');
