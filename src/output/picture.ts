@@ -2,10 +2,9 @@
 // each with a colour bar and a physical scale bar. Plain raster drawing on
 // purpose — this writes a picture of a result, it is not a plotting library.
 
-import { PNG } from 'pngjs';
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from './font.js';
 import { gray, shoal, type ColourScale } from './colour-scales.js';
-import { buildLut, fillRect, frame, putLut, type Rect } from './raster.js';
+import { buildLut, encodePng, fillRect, frame, putLut, type Rect } from './raster.js';
 
 export type ScaleName = 'gray' | 'shoal';
 
@@ -193,14 +192,7 @@ export function renderIntensityPng(p: PictureInput): Buffer {
     drawText(img, slotX[k]!, labelY + CELL_H + 6, view.caption, TEXT);
   });
 
-  const png = new PNG({ width: img.width, height: img.height });
-  for (let i = 0, j = 0; i < img.data.length; i += 3, j += 4) {
-    png.data[j] = img.data[i]!;
-    png.data[j + 1] = img.data[i + 1]!;
-    png.data[j + 2] = img.data[i + 2]!;
-    png.data[j + 3] = 255;
-  }
-  return PNG.sync.write(png, { colorType: 2 });
+  return encodePng(img);
 }
 
 /** Peak and tick values: three significant digits, exponent form outside 0.01..1000. */

@@ -1,5 +1,6 @@
 // Small raster helpers shared by the case pictures and the contact sheet: colour tables, filled
 // rectangles and frames on an RGB image.
+import { PNG } from 'pngjs';
 import type { Colour, RgbImage } from './font.js';
 import type { ColourScale } from './colour-scales.js';
 
@@ -48,4 +49,16 @@ export function frame(img: RgbImage, r: Rect, c: Colour): void {
   fillRect(img, { x: r.x - 1, y: r.y + r.h, w: r.w + 2, h: 1 }, c);
   fillRect(img, { x: r.x - 1, y: r.y, w: 1, h: r.h }, c);
   fillRect(img, { x: r.x + r.w, y: r.y, w: 1, h: r.h }, c);
+}
+
+/** PNG file bytes of an RGB image (8-bit, no alpha). */
+export function encodePng(img: RgbImage): Buffer {
+  const png = new PNG({ width: img.width, height: img.height });
+  for (let i = 0, j = 0; i < img.data.length; i += 3, j += 4) {
+    png.data[j] = img.data[i]!;
+    png.data[j + 1] = img.data[i + 1]!;
+    png.data[j + 2] = img.data[i + 2]!;
+    png.data[j + 3] = 255;
+  }
+  return PNG.sync.write(png, { colorType: 2 });
 }

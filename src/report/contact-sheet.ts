@@ -3,10 +3,9 @@
 // with the same metres per display pixel; brightness is per tile (each to its own peak), because
 // peaks along a sweep can differ by decades and one common brightness would blank most tiles.
 
-import { PNG } from 'pngjs';
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from '../output/font.js';
 import { shoal } from '../output/colour-scales.js';
-import { buildLut, fillRect, frame, putLut, type Rect } from '../output/raster.js';
+import { buildLut, encodePng, fillRect, frame, putLut, type Rect } from '../output/raster.js';
 
 export interface SheetTile {
   label: string;
@@ -211,14 +210,7 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
   const capY = cbY + CBAR_H + 4 + LINE + 4;
   pl.captions.forEach((c, k) => drawText(img, MARGIN, capY + k * LINE, c, TEXT));
 
-  const png = new PNG({ width: img.width, height: img.height });
-  for (let i = 0, j = 0; i < img.data.length; i += 3, j += 4) {
-    png.data[j] = img.data[i]!;
-    png.data[j + 1] = img.data[i + 1]!;
-    png.data[j + 2] = img.data[i + 2]!;
-    png.data[j + 3] = 255;
-  }
-  return PNG.sync.write(png, { colorType: 2 });
+  return encodePng(img);
 }
 
 /**
