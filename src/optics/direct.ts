@@ -220,17 +220,7 @@ function farFieldSpectrum2D(
   const sym = carrier[0] === 0 && carrier[1] === 0 && isMirrorSymmetric(src) && isSymmetricAxis(outX) && isSymmetricAxis(outY);
   const cols = sym ? (outX.n + 1) / 2 : outX.n;
   const rows = sym ? (outY.n + 1) / 2 : outY.n;
-  const fx = new Float64Array(cols * rows);
-  const fy = new Float64Array(cols * rows);
-  for (let r = 0; r < rows; r++) {
-    const y = axisAt(outY, r);
-    for (let c = 0; c < cols; c++) {
-      const x = axisAt(outX, c);
-      const rr = Math.sqrt(x * x + y * y + z * z);
-      fx[r * cols + c] = x / (lam * rr) - carrier[0];
-      fy[r * cols + c] = y / (lam * rr) - carrier[1];
-    }
-  }
+  const [fx, fy] = directionFrequencies(outX, outY, rows, cols, z, lam, carrier);
   const part = dft2AtPoints(src.data, xi, eta, fx, fy);
   divideCellResponse(part, fx, fy, xi.step, eta.step);
   if (!sym) return part;
@@ -270,6 +260,33 @@ function isMirrorSymmetric(f: Field): boolean {
     }
   }
   return true;
+}
+
+/**
+ * Spatial frequencies (α/λ − carrier) seen from the first rows×cols output points: the direction
+ * cosines x/r, y/r over λ, row-major.
+ */
+function directionFrequencies(
+  outX: Axis,
+  outY: Axis,
+  rows: number,
+  cols: number,
+  z: number,
+  lam: number,
+  carrier: [number, number],
+): [Float64Array, Float64Array] {
+  const fx = new Float64Array(rows * cols);
+  const fy = new Float64Array(rows * cols);
+  for (let r = 0; r < rows; r++) {
+    const y = axisAt(outY, r);
+    for (let c = 0; c < cols; c++) {
+      const x = axisAt(outX, c);
+      const rr = Math.sqrt(x * x + y * y + z * z);
+      fx[r * cols + c] = x / (lam * rr) - carrier[0];
+      fy[r * cols + c] = y / (lam * rr) - carrier[1];
+    }
+  }
+  return [fx, fy];
 }
 
 /**
@@ -317,17 +334,7 @@ export function propagateFarFieldSeparable(
   const out = createField(outX, outY, lam);
   const n = outX.n;
   const m = outY.n;
-  const fx = new Float64Array(n * m);
-  const fy = new Float64Array(n * m);
-  for (let r = 0; r < m; r++) {
-    const y = axisAt(outY, r);
-    for (let c = 0; c < n; c++) {
-      const x = axisAt(outX, c);
-      const rr = Math.sqrt(x * x + y * y + z * z);
-      fx[r * n + c] = x / (lam * rr) - carrier[0];
-      fy[r * n + c] = y / (lam * rr) - carrier[1];
-    }
-  }
+  const [fx, fy] = directionFrequencies(outX, outY, m, n, z, lam, carrier);
   const range = (f: Float64Array) => f.reduce(([lo, hi], v) => [Math.min(lo, v), Math.max(hi, v)], [Infinity, -Infinity]);
   const [x0, x1] = range(fx);
   const [y0, y1] = range(fy);
