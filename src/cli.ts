@@ -13,6 +13,7 @@ import { lineReporter, terminalReporter } from './run/progress.js';
 import { parseShard, type ShardSpec } from './run/shard.js';
 import { safeJoin } from './output/atomic.js';
 import { TOOL_VERSION } from './version.js';
+import { loadFastKernels } from './kernels.js';
 import { jsonNumbers } from './output/case-output.js';
 
 /** A mistake on the command line itself: reported with exit code 2, before any work. */
@@ -275,6 +276,7 @@ export async function main(argv: string[]): Promise<number> {
   return code;
 }
 
+loadFastKernels();
 main(hideBin(process.argv)).then(
   (code) => process.exit(code),
   (e) => {

@@ -1,4 +1,9 @@
 // The library API: the same job schema, planner, propagators and writers the command line uses.
+import { loadFastKernels } from './kernels.js';
+
+// The WebAssembly FFT kernel, when built; the TypeScript one otherwise (same results).
+loadFastKernels();
+export { loadFastKernels };
 export { parseQuantity, formatLength, formatAngle } from './job/units.js';
 export { jobSchema, type JobSpec, type JobInput, type MethodRequest } from './job/schema.js';
 export { loadJobFile, parseJobText, validateJob, JobError, type LoadedJob, type JobProblem } from './job/load.js';

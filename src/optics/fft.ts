@@ -1,6 +1,9 @@
-// Complex FFTs on interleaved Float64Arrays, built on fft.js. Plans (twiddle tables) are made once
-// per size and kept, because sweeps transform many fields of the same size.
+// Complex FFTs on interleaved Float64Arrays. fft2 runs the fast kernels of fft-fast.ts (WebAssembly
+// SIMD once installed, else TypeScript); fft2Reference is the straightforward row-then-column use
+// of fft.js that they are tested against (to 1e-12; in practice they agree bit for bit). Plans
+// (twiddle tables) are made once per size and kept, because sweeps transform many fields alike.
 import FFT from 'fft.js';
+import { fft2Interleaved } from './fft-fast.js';
 
 const plans = new Map<number, FFT>();
 const scratch = new Map<number, { a: Float64Array; b: Float64Array }>();
@@ -38,6 +41,11 @@ export function nextPowerOfTwo(n: number): number {
  * Forward: X[k] = Σ x[j] e^{-2πi jk/n}; inverse includes the 1/n factor per axis.
  */
 export function fft2(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
+  fft2Interleaved(data, nx, ny, inverse);
+}
+
+/** The same transform by fft.js, row by row then column by column: the reference for the fast kernels. */
+export function fft2Reference(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
   if (!isPowerOfTwo(nx) || (ny !== 1 && !isPowerOfTwo(ny))) {
     throw new Error(`FFT sizes must be powers of two, got ${nx}×${ny}`);
   }

@@ -4,6 +4,7 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import { executeCase, type CaseTask } from './execute.js';
 import { newSearchContext } from './searches.js';
+import { loadFastKernels } from '../kernels.js';
 
 export type ToWorker = { type: 'task'; task: CaseTask } | { type: 'stop' };
 export type FromWorker =
@@ -11,6 +12,7 @@ export type FromWorker =
   | { type: 'done'; done: Awaited<ReturnType<typeof executeCase>> }
   | { type: 'failed'; id: string; error: string };
 
+loadFastKernels();
 const port = parentPort;
 if (!port) throw new Error('worker.ts runs as a worker thread');
 const search = newSearchContext(workerData as { maxMemoryBytes?: number });

@@ -1,0 +1,161 @@
+#!/usr/bin/env node
+// 2-D complex FFT benchmark (not a test): one thread, n×n forward transforms, median wall-clock time
+// of several runs after warm-up. Runs against the built program (`npm run build` first; `npm run
+// bench:fft` does), and, when python3 with SciPy is on the machine, times scipy.fft.fft2(a,
+// workers=1) on the same sizes in the same run as an outside yardstick.
+//   node bench/fft.mjs [--sizes 512,1024,2048,4096] [--runs N] [--no-scipy] [--json]
+//
+// Compared: fft2 of src/optics/fft.ts (fft.js rows and gathered columns), and fft2Interleaved /
+// fft2Split of src/optics/fft-fast.ts with each of its kernels (WebAssembly SIMD, TypeScript). The
+// variants of one size run in turn, round after round, so that a slow spell of the machine falls on
+// all of them; each run starts from the same random data, restored outside the timing.
+import { spawnSync } from 'node:child_process';
+import { fft2 } from '../dist/src/optics/fft.js';
+import { fft2Interleaved, fft2Split, useFastFftBackend, fastFftBackend } from '../dist/src/optics/fft-fast.js';
+
+const args = process.argv.slice(2);
+const opt = (name, dflt) => (args.includes(name) ? args[args.indexOf(name) + 1] : dflt);
+const json = args.includes('--json');
+const sizes = opt('--sizes', '512,1024,2048,4096').split(',').map(Number);
+const runsArg = opt('--runs', null);
+const withScipy = !args.includes('--no-scipy');
+
+const runsFor = (n) => (runsArg ? Number(runsArg) : n <= 1024 ? 15 : n <= 2048 ? 9 : 5);
+const median = (xs) => {
+  const s = [...xs].sort((a, b) => a - b);
+  return s.length % 2 ? s[s.length >> 1] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
+};
+
+const scipyScript = `
+import json, sys, time
+import numpy as np, scipy, scipy.fft
+n, runs = int(sys.argv[1]), int(sys.argv[2])
+rng = np.random.default_rng(1)
+a = rng.random((n, n)) - 0.5 + 1j * (rng.random((n, n)) - 0.5)
+for _ in range(2): scipy.fft.fft2(a, workers=1)
+ts = []
+for _ in range(runs):
+    t = time.perf_counter(); scipy.fft.fft2(a, workers=1); ts.append((time.perf_counter() - t) * 1e3)
+ts.sort()
+print(json.dumps({"median": ts[len(ts) // 2] if len(ts) % 2 else (ts[len(ts)//2 - 1] + ts[len(ts)//2]) / 2, "min": ts[0], "version": scipy.__version__}))
+`;
+
+let scipyNote = null;
+function scipyTime(n, runs) {
+  if (!withScipy || scipyNote) return null;
+  const env = { ...process.env };
+  // Settings some machines need for old BLAS builds; they slow a current numpy (not its FFT, but
+  // unset them for this command alone anyway).
+  delete env.OPENBLAS_CORETYPE;
+  delete env.OPENBLAS_L2_SIZE;
+  const r = spawnSync('python3', ['-c', scipyScript, String(n), String(runs)], { env, encoding: 'utf8' });
+  if (r.status !== 0) {
+    scipyNote = `SciPy not timed: ${(r.stderr || r.error?.message || 'python3 failed').trim().split('\n').pop()}`;
+    return null;
+  }
+  return JSON.parse(r.stdout.trim().split('\n').pop());
+}
+
+function relDiff(ref, got) {
+  let d = 0;
+  let m = 0;
+  for (let i = 0; i < ref.length; i++) {
+    d = Math.max(d, Math.abs(ref[i] - got[i]));
+    m = Math.max(m, Math.abs(ref[i]));
+  }
+  return d / m;
+}
+
+const hasWasm = fastFftBackend() === 'wasm-simd';
+const rows = [];
+for (const n of sizes) {
+  const N = n * n;
+  const orig = new Float64Array(2 * N);
+  let seed = 12345;
+  for (let i = 0; i < orig.length; i++) {
+    seed = (Math.imul(seed, 1103515245) + 12345) >>> 0;
+    orig[i] = seed / 2 ** 32 - 0.5;
+  }
+  const origRe = new Float64Array(N);
+  const origIm = new Float64Array(N);
+  for (let i = 0; i < N; i++) {
+    origRe[i] = orig[2 * i];
+    origIm[i] = orig[2 * i + 1];
+  }
+  const d = new Float64Array(2 * N);
+  const re = new Float64Array(N);
+  const im = new Float64Array(N);
+  const inter = () => d.set(orig);
+  const split = () => {
+    re.set(origRe);
+    im.set(origIm);
+  };
+  const variants = [
+    { name: 'fft.js fft2', setup: inter, run: () => fft2(d, n, n, false) },
+    ...(hasWasm
+      ? [
+          { name: 'wasm interleaved', backend: 'wasm-simd', setup: inter, run: () => fft2Interleaved(d, n, n, false) },
+          { name: 'wasm split', backend: 'wasm-simd', setup: split, run: () => fft2Split(re, im, n, n, false) },
+        ]
+      : []),
+    { name: 'ts interleaved', backend: 'js', setup: inter, run: () => fft2Interleaved(d, n, n, false) },
+    { name: 'ts split', backend: 'js', setup: split, run: () => fft2Split(re, im, n, n, false) },
+  ];
+
+  // Agreement with fft.js, checked on this data before timing.
+  inter();
+  fft2(d, n, n, false);
+  const ref = d.slice();
+  for (const v of variants.slice(1)) {
+    useFastFftBackend(v.backend);
+    v.setup();
+    v.run();
+    let got = d;
+    if (v.setup === split) {
+      got = new Float64Array(2 * N);
+      for (let i = 0; i < N; i++) {
+        got[2 * i] = re[i];
+        got[2 * i + 1] = im[i];
+      }
+    }
+    v.diff = relDiff(ref, got);
+  }
+
+  const runs = runsFor(n);
+  const times = variants.map(() => []);
+  for (let round = 0; round < runs + 2; round++) {
+    for (let k = 0; k < variants.length; k++) {
+      const v = variants[k];
+      if (v.backend) useFastFftBackend(v.backend);
+      v.setup();
+      const t0 = performance.now();
+      v.run();
+      const t = performance.now() - t0;
+      if (round >= 2) times[k].push(t); // the first two rounds warm up
+    }
+  }
+  const sp = scipyTime(n, runs);
+  const row = { n, runs, scipy: sp ? { medianMs: sp.median, minMs: sp.min, version: sp.version } : null, variants: {} };
+  variants.forEach((v, k) => {
+    row.variants[v.name] = { medianMs: median(times[k]), minMs: Math.min(...times[k]), maxRelDiffVsFftJs: v.diff ?? 0 };
+  });
+  rows.push(row);
+  if (!json) printRow(row);
+}
+
+function printRow(row) {
+  const f = (x) => x.toFixed(1).padStart(8);
+  if (row === rows[0]) {
+    console.log(`2-D complex FFT, n×n, forward, one thread; median (min) ms over the runs shown; max |Δ|/max|x| vs fft.js`);
+  }
+  console.log(`\n${row.n}×${row.n} (${row.runs} runs)`);
+  for (const [name, v] of Object.entries(row.variants)) {
+    const ratio = row.scipy ? `  ${(v.medianMs / row.scipy.medianMs).toFixed(2)}× SciPy` : '';
+    const diff = name === 'fft.js fft2' ? '' : `  Δ ${v.maxRelDiffVsFftJs.toExponential(1)}`;
+    console.log(`  ${name.padEnd(18)}${f(v.medianMs)} (${v.minMs.toFixed(1)})${ratio}${diff}`);
+  }
+  if (row.scipy) console.log(`  ${`SciPy ${row.scipy.version}`.padEnd(18)}${f(row.scipy.medianMs)} (${row.scipy.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=1)`);
+}
+
+if (json) console.log(JSON.stringify({ rows, scipyNote }, null, 2));
+else if (scipyNote) console.log(`\n${scipyNote}`);

@@ -1,0 +1,468 @@
+// A faster 2-D complex FFT with the conventions of ./fft.ts (same sign, inverse scaled by 1/n per
+// axis, sizes powers of two, ny = 1 for a 1-D transform). Two kernels sit behind one interface:
+//
+// - 'wasm-simd': WebAssembly with 128-bit SIMD (source: ./wasm/fft.ts, AssemblyScript, compiled by
+//   `npm run build:wasm` to dist/src/optics/wasm/fft.wasm; the program's entry points read that
+//   file (src/kernels.ts) and hand the bytes to installWasmFft, so this layer does no I/O). The data is
+//   copied into the module's memory with each row padded by one cache line (a power-of-two row
+//   length would put a whole column in the same few cache sets), the row transforms run as the rows
+//   arrive, then the columns, B adjacent ones at a time, then the result is copied back. The
+//   module's memory grows to the largest transform asked for (the data, padded, plus O(n)
+//   scratch) and is kept, so the first call at a new largest size also pays for that memory.
+// - 'js': the same algorithm in TypeScript on split Float64Arrays; used when the WebAssembly file
+//   is not installed or cannot be compiled, or when memory for it cannot be had.
+//
+// Both: radix-4 decimation in time (one radix-2 stage first when log2 n is odd) on split real and
+// imaginary planes, bit-reversal permutation done while gathering (or by swaps in place), twiddles
+// and permutation built once per size and kept; columns are gathered in blocks of adjacent columns so that each cache
+// line read is used whole. The inverse is the forward transform with the planes exchanged.
+import { isPowerOfTwo } from './fft.js';
+
+export type FastFftBackend = 'wasm-simd' | 'js';
+
+/**
+ * In-place 2-D FFT of an ny×nx complex array held as two planes of nx·ny values each (row-major).
+ * Same sign and 1/n convention as fft2 in ./fft.ts.
+ */
+export function fft2Split(re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): void {
+  checkShape(nx, ny);
+  if (re.length !== nx * ny || im.length !== nx * ny) {
+    throw new Error(`fft2Split: planes of ${re.length} and ${im.length} values for a ${nx}×${ny} grid`);
+  }
+  if (backend === 'wasm-simd' && wasmSplit(re, im, nx, ny, inverse)) return;
+  jsSplit(re, im, nx, ny, inverse);
+}
+
+/** Drop-in for fft2 in ./fft.ts: in-place 2-D FFT of an ny×nx interleaved (re, im, …) array. */
+export function fft2Interleaved(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
+  checkShape(nx, ny);
+  if (data.length !== 2 * nx * ny) {
+    throw new Error(`fft2Interleaved: ${data.length} values for a ${nx}×${ny} complex grid`);
+  }
+  if (backend === 'wasm-simd' && wasmInterleaved(data, nx, ny, inverse)) return;
+  jsInterleaved(data, nx, ny, inverse);
+}
+
+/** The kernel in use: 'wasm-simd' once installed (installWasmFft), else 'js'. */
+export function fastFftBackend(): FastFftBackend {
+  return backend;
+}
+
+/**
+ * Choose the kernel (for tests and benchmarks). Asking for 'wasm-simd' when the module could not
+ * be loaded throws, with the reason.
+ */
+export function useFastFftBackend(b: FastFftBackend): void {
+  if (b === 'wasm-simd' && !wasm) throw new Error(`WebAssembly FFT unavailable: ${wasmProblem}`);
+  backend = b;
+}
+
+function checkShape(nx: number, ny: number): void {
+  if (!isPowerOfTwo(nx) || (ny !== 1 && !isPowerOfTwo(ny))) {
+    throw new Error(`FFT sizes must be powers of two, got ${nx}×${ny}`);
+  }
+}
+
+// ---- tables (shared by both kernels) ----------------------------------------------------------
+
+interface Tables {
+  rev: Uint32Array; // bit-reversal permutation
+  tw: Float64Array; // per radix-4 stage of half-size L ≥ 2: L records (w^k, w^2k, w^3k), w = e^{-2πi/4L}
+}
+
+const tables = new Map<number, Tables>();
+
+function log2(n: number): number {
+  return 31 - Math.clz32(n);
+}
+
+/** Half-size of the first twiddled stage: after a radix-2 first stage 2, after a radix-4 one 4. */
+function firstL(n: number): number {
+  return log2(n) & 1 ? 2 : 4;
+}
+
+function tablesFor(n: number): Tables {
+  let t = tables.get(n);
+  if (t) return t;
+  const bits = log2(n);
+  const rev = new Uint32Array(n);
+  for (let i = 0; i < n; i++) {
+    let r = 0;
+    for (let b = 0, x = i; b < bits; b++, x >>= 1) r = (r << 1) | (x & 1);
+    rev[i] = r;
+  }
+  let len = 0;
+  for (let L = firstL(n); L < n; L *= 4) len += 6 * L;
+  const tw = new Float64Array(len);
+  let o = 0;
+  for (let L = firstL(n); L < n; L *= 4) {
+    for (let k = 0; k < L; k++) {
+      for (let m = 1; m <= 3; m++) {
+        const a = (-2 * Math.PI * m * k) / (4 * L);
+        tw[o++] = Math.cos(a);
+        tw[o++] = Math.sin(a);
+      }
+    }
+  }
+  t = { rev, tw };
+  tables.set(n, t);
+  return t;
+}
+
+// ---- the TypeScript kernel ----------------------------------------------------------------------
+
+/**
+ * W independent length-n transforms at once, in place on re/im from `off`, point-major (point p of
+ * all W transforms is W contiguous values), input in bit-reversed point order.
+ */
+function jsLanes(re: Float64Array, im: Float64Array, off: number, n: number, W: number, tw: Float64Array): void {
+  const end = off + n * W;
+  if (log2(n) & 1) {
+    for (let o = off; o < end; o += 2 * W) {
+      for (let a = o; a < o + W; a++) {
+        const b = a + W;
+        const ar = re[a], ai = im[a], br = re[b], bi = im[b];
+        re[a] = ar + br;
+        im[a] = ai + bi;
+        re[b] = ar - br;
+        im[b] = ai - bi;
+      }
+    }
+  } else {
+    for (let o = off; o < end; o += 4 * W) {
+      for (let i0 = o; i0 < o + W; i0++) {
+        const i2 = i0 + W, i1 = i2 + W, i3 = i1 + W;
+        const b0r = re[i0], b0i = im[i0], b2r = re[i2], b2i = im[i2];
+        const b1r = re[i1], b1i = im[i1], b3r = re[i3], b3i = im[i3];
+        const t0r = b0r + b2r, t0i = b0i + b2i, t1r = b0r - b2r, t1i = b0i - b2i;
+        const t2r = b1r + b3r, t2i = b1i + b3i, t3r = b1r - b3r, t3i = b1i - b3i;
+        re[i0] = t0r + t2r;
+        im[i0] = t0i + t2i;
+        re[i1] = t0r - t2r;
+        im[i1] = t0i - t2i;
+        re[i2] = t1r + t3i;
+        im[i2] = t1i - t3r;
+        re[i3] = t1r - t3i;
+        im[i3] = t1i + t3r;
+      }
+    }
+  }
+  let t0 = 0;
+  for (let L = firstL(n); L < n; L *= 4) {
+    const q = L * W;
+    for (let base = off; base < end; base += 4 * q) {
+      for (let k = 0, t = t0; k < L; k++, t += 6) {
+        const w1r = tw[t], w1i = tw[t + 1], w2r = tw[t + 2], w2i = tw[t + 3], w3r = tw[t + 4], w3i = tw[t + 5];
+        const p = base + k * W;
+        for (let i0 = p; i0 < p + W; i0++) {
+          const i2 = i0 + q, i1 = i2 + q, i3 = i1 + q;
+          const b0r = re[i0], b0i = im[i0];
+          let xr = re[i1], xi = im[i1];
+          const b1r = xr * w1r - xi * w1i, b1i = xr * w1i + xi * w1r;
+          xr = re[i2];
+          xi = im[i2];
+          const b2r = xr * w2r - xi * w2i, b2i = xr * w2i + xi * w2r;
+          xr = re[i3];
+          xi = im[i3];
+          const b3r = xr * w3r - xi * w3i, b3i = xr * w3i + xi * w3r;
+          const t0r = b0r + b2r, t0i = b0i + b2i, t1r = b0r - b2r, t1i = b0i - b2i;
+          const t2r = b1r + b3r, t2i = b1i + b3i, t3r = b1r - b3r, t3i = b1i - b3i;
+          re[i0] = t0r + t2r;
+          im[i0] = t0i + t2i;
+          re[i1] = t0r - t2r;
+          im[i1] = t0i - t2i;
+          re[i2] = t1r + t3i;
+          im[i2] = t1i - t3r;
+          re[i3] = t1r - t3i;
+          im[i3] = t1i + t3r;
+        }
+      }
+    }
+    t0 += 6 * L;
+  }
+}
+
+/** Adjacent columns transformed together (JS kernel). */
+const JS_BLOCK = 16;
+
+const jsScratch = new Map<number, { re: Float64Array; im: Float64Array }>();
+
+function jsBuffers(len: number) {
+  let s = jsScratch.get(len);
+  if (!s) {
+    s = { re: new Float64Array(len), im: new Float64Array(len) };
+    jsScratch.set(len, s);
+  }
+  return s;
+}
+
+function jsSplit(re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): void {
+  // The inverse: the forward transform of the exchanged planes.
+  const R = inverse ? im : re, I = inverse ? re : im;
+  const tx = tablesFor(nx);
+  const rev = tx.rev;
+  const sx = inverse ? 1 / nx : 1;
+  for (let r = 0; r < ny; r++) {
+    const o = r * nx;
+    for (let i = 0; i < nx; i++) {
+      const j = rev[i];
+      if (j > i) {
+        const a = o + i, b = o + j;
+        let t = R[a];
+        R[a] = R[b];
+        R[b] = t;
+        t = I[a];
+        I[a] = I[b];
+        I[b] = t;
+      }
+    }
+    jsLanes(R, I, o, nx, 1, tx.tw);
+    if (sx !== 1) {
+      for (let i = o; i < o + nx; i++) {
+        R[i] *= sx;
+        I[i] *= sx;
+      }
+    }
+  }
+  if (ny === 1) return;
+  const ty = tablesFor(ny);
+  const B = Math.min(JS_BLOCK, nx);
+  const s = jsBuffers(B * ny);
+  const sr = s.re, si = s.im, rv = ty.rev;
+  const sy = inverse ? 1 / ny : 1;
+  for (let c0 = 0; c0 < nx; c0 += B) {
+    for (let r = 0; r < ny; r++) {
+      let src = r * nx + c0;
+      let d = rv[r] * B;
+      for (let b = 0; b < B; b++, src++, d++) {
+        sr[d] = R[src];
+        si[d] = I[src];
+      }
+    }
+    jsLanes(sr, si, 0, ny, B, ty.tw);
+    for (let r = 0; r < ny; r++) {
+      let dst = r * nx + c0;
+      let o = r * B;
+      for (let b = 0; b < B; b++, dst++, o++) {
+        R[dst] = sr[o] * sy;
+        I[dst] = si[o] * sy;
+      }
+    }
+  }
+}
+
+function jsInterleaved(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
+  const tx = tablesFor(nx);
+  const rev = tx.rev;
+  const s = jsBuffers(Math.max(nx, ny > 1 ? Math.min(JS_BLOCK, nx) * ny : 0));
+  // The inverse: the forward transform with real and imaginary parts exchanged.
+  const sr = inverse ? s.im : s.re, si = inverse ? s.re : s.im;
+  const sx = inverse ? 1 / nx : 1;
+  for (let r = 0; r < ny; r++) {
+    const o = 2 * r * nx;
+    for (let k = 0; k < nx; k++) {
+      const j = o + 2 * rev[k];
+      s.re[k] = data[j];
+      s.im[k] = data[j + 1];
+    }
+    jsLanes(sr, si, 0, nx, 1, tx.tw);
+    for (let k = 0; k < nx; k++) {
+      data[o + 2 * k] = s.re[k] * sx;
+      data[o + 2 * k + 1] = s.im[k] * sx;
+    }
+  }
+  if (ny === 1) return;
+  const ty = tablesFor(ny);
+  const B = Math.min(JS_BLOCK, nx);
+  const rv = ty.rev;
+  const sy = inverse ? 1 / ny : 1;
+  for (let c0 = 0; c0 < nx; c0 += B) {
+    for (let r = 0; r < ny; r++) {
+      let src = 2 * (r * nx + c0);
+      let d = rv[r] * B;
+      for (let b = 0; b < B; b++, src += 2, d++) {
+        s.re[d] = data[src];
+        s.im[d] = data[src + 1];
+      }
+    }
+    jsLanes(sr, si, 0, ny, B, ty.tw);
+    for (let r = 0; r < ny; r++) {
+      let dst = 2 * (r * nx + c0);
+      let o = r * B;
+      for (let b = 0; b < B; b++, dst += 2, o++) {
+        data[dst] = s.re[o] * sy;
+        data[dst + 1] = s.im[o] * sy;
+      }
+    }
+  }
+}
+
+// ---- the WebAssembly kernel ---------------------------------------------------------------------
+
+// The few WebAssembly globals used here (the project's lib settings do not declare them).
+interface WasmMemory {
+  readonly buffer: ArrayBuffer;
+  grow(pages: number): number;
+}
+declare const WebAssembly: {
+  Module: new (bytes: Uint8Array) => object;
+  Instance: new (module: object, imports: object) => { exports: unknown };
+};
+
+type Pass = (
+  a: number, b: number, nx: number, ny: number, stride: number, lanes: number,
+  rev: number, tw: number, sre: number, sim: number, swap: number, scale: number,
+) => void;
+
+interface WasmFft {
+  memory: WasmMemory;
+  heapBase(): number;
+  rowsInterleaved(
+    data: number, nx: number, ny: number, stride: number, R: number,
+    rev: number, tw: number, sre: number, sim: number, swap: number, scale: number,
+  ): void;
+  colsInterleaved(
+    data: number, nx: number, ny: number, stride: number, B: number,
+    rev: number, tw: number, sre: number, sim: number, swap: number, scale: number,
+  ): void;
+  rowsSplit: Pass;
+  colsSplit: Pass;
+}
+
+/** Bytes added to each row in the module's copy of the data. */
+const PAD = 64;
+/** Adjacent columns transformed together (WebAssembly kernel). */
+const WASM_BLOCK = 16;
+
+let wasmProblem = 'the WebAssembly kernel was not installed (installWasmFft)';
+let wasm: WasmFft | null = null;
+let backend: FastFftBackend = 'js';
+
+/**
+ * Compiles the WebAssembly kernel from its bytes and makes it the default; false (with the reason
+ * kept for useFastFftBackend's error) when it cannot be compiled, which leaves the TypeScript kernel.
+ */
+export function installWasmFft(bytes: Uint8Array | null, whyMissing = 'fft.wasm not found'): boolean {
+  if (wasm) return true;
+  if (!bytes) {
+    wasmProblem = whyMissing;
+    return false;
+  }
+  try {
+    const instance = new WebAssembly.Instance(new WebAssembly.Module(bytes), {});
+    wasm = instance.exports as unknown as WasmFft;
+    backend = 'wasm-simd';
+    return true;
+  } catch (e) {
+    wasmProblem = `fft.wasm could not be compiled: ${(e as Error).message}`;
+    return false;
+  }
+}
+
+interface WasmTables {
+  rev: number;
+  tw: number;
+}
+
+const wasmTables = new Map<number, WasmTables>();
+let tableTop = 0; // end of the tables in the module's memory; the data goes after it, per call
+let heap = new Float64Array(0); // view of the module's memory, renewed when it grows
+
+/** Make the module's memory at least `end` bytes; false when it cannot grow. */
+function reserve(w: WasmFft, end: number): boolean {
+  const have = w.memory.buffer.byteLength;
+  if (end > have) {
+    try {
+      w.memory.grow(Math.ceil((end - have) / 65536));
+    } catch {
+      return false;
+    }
+  }
+  if (heap.buffer !== w.memory.buffer) heap = new Float64Array(w.memory.buffer);
+  return true;
+}
+
+function align64(n: number): number {
+  return Math.ceil(n / 64) * 64;
+}
+
+function wasmTablesFor(w: WasmFft, n: number): WasmTables | null {
+  let t = wasmTables.get(n);
+  if (t) return t;
+  const js = tablesFor(n);
+  if (tableTop === 0) tableTop = align64(w.heapBase());
+  const rev = tableTop;
+  const tw = align64(rev + 4 * n);
+  const end = align64(tw + 8 * Math.max(1, js.tw.length));
+  if (!reserve(w, end)) return null;
+  new Uint32Array(w.memory.buffer, rev, n).set(js.rev);
+  heap.set(js.tw, tw / 8);
+  tableTop = end;
+  t = { rev, tw };
+  wasmTables.set(n, t);
+  return t;
+}
+
+/** Lay out a call: tables, then `dataBytes` of data, then two scratch planes. */
+function wasmLayout(w: WasmFft, nx: number, ny: number, R: number, B: number, dataBytes: number) {
+  const tx = wasmTablesFor(w, nx);
+  const ty = ny > 1 ? wasmTablesFor(w, ny) : tx;
+  if (!tx || !ty) return null;
+  const base = tableTop;
+  const plane = align64(8 * Math.max(nx * R, ny > 1 ? ny * B : 0));
+  const sre = align64(base + dataBytes);
+  const sim = sre + plane;
+  if (!reserve(w, sim + plane)) return null;
+  return { tx, ty, base, sre, sim };
+}
+
+function wasmInterleaved(data: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
+  const w = wasm!;
+  const R = ny >= 4 ? 4 : 2;
+  const B = Math.min(WASM_BLOCK, nx);
+  const rowLen = 2 * nx; // values per row
+  const stride = ny > 1 ? 16 * nx + PAD : 16 * nx; // bytes per row in the module
+  const L = wasmLayout(w, nx, ny, R, B, stride * ny);
+  if (!L) return false;
+  const { tx, ty, base, sre, sim } = L;
+  const swap = inverse ? 1 : 0;
+  const sx = inverse ? 1 / nx : 1;
+  const at = base / 8, step = stride / 8;
+  // copy R rows in, transform them while they are in cache, go on
+  for (let r0 = 0; r0 < ny; r0 += R) {
+    const g = Math.min(R, ny - r0);
+    for (let r = r0; r < r0 + g; r++) heap.set(data.subarray(r * rowLen, (r + 1) * rowLen), at + r * step);
+    w.rowsInterleaved(base + r0 * stride, nx, g, stride, R, tx.rev, tx.tw, sre, sim, swap, sx);
+  }
+  if (ny > 1) w.colsInterleaved(base, nx, ny, stride, B, ty.rev, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
+  for (let r = 0; r < ny; r++) data.set(heap.subarray(at + r * step, at + r * step + rowLen), r * rowLen);
+  return true;
+}
+
+function wasmSplit(re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
+  const w = wasm!;
+  const R = ny >= 4 ? 4 : 2;
+  const B = Math.min(WASM_BLOCK, nx);
+  const stride = ny > 1 ? 8 * nx + PAD : 8 * nx;
+  const L = wasmLayout(w, nx, ny, R, B, 2 * stride * ny);
+  if (!L) return false;
+  const { tx, ty, base, sre, sim } = L;
+  const pr = base, pi = base + stride * ny;
+  const swap = inverse ? 1 : 0;
+  const sx = inverse ? 1 / nx : 1;
+  const ar = pr / 8, ai = pi / 8, step = stride / 8;
+  for (let r0 = 0; r0 < ny; r0 += R) {
+    const g = Math.min(R, ny - r0);
+    for (let r = r0; r < r0 + g; r++) {
+      heap.set(re.subarray(r * nx, (r + 1) * nx), ar + r * step);
+      heap.set(im.subarray(r * nx, (r + 1) * nx), ai + r * step);
+    }
+    w.rowsSplit(pr + r0 * stride, pi + r0 * stride, nx, g, stride, R, tx.rev, tx.tw, sre, sim, swap, sx);
+  }
+  if (ny > 1) w.colsSplit(pr, pi, nx, ny, stride, B, ty.rev, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
+  for (let r = 0; r < ny; r++) {
+    re.set(heap.subarray(ar + r * step, ar + r * step + nx), r * nx);
+    im.set(heap.subarray(ai + r * step, ai + r * step + nx), r * nx);
+  }
+  return true;
+}
