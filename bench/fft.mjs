@@ -1,16 +1,17 @@
 #!/usr/bin/env node
 // 2-D complex FFT benchmark (not a test): one thread, n×n forward transforms, median wall-clock time
 // of several runs after warm-up. Runs against the built program (`npm run build` first; `npm run
-// bench:fft` does), and, when python3 with SciPy is on the machine, times scipy.fft.fft2(a,
+// bench` does), and, when python3 with SciPy is on the machine, times scipy.fft.fft2(a,
 // workers=1) on the same sizes in the same run as an outside yardstick.
 //   node bench/fft.mjs [--sizes 512,1024,2048,4096] [--runs N] [--no-scipy] [--json]
 //
-// Compared: fft2 of src/optics/fft.ts (fft.js rows and gathered columns), and fft2Interleaved /
+// Compared: fft2Reference of src/optics/fft.ts (fft.js rows and gathered columns), and fft2Interleaved /
 // fft2Split of src/optics/fft-fast.ts with each of its kernels (WebAssembly SIMD, TypeScript). The
 // variants of one size run in turn, round after round, so that a slow spell of the machine falls on
 // all of them; each run starts from the same random data, restored outside the timing.
 import { spawnSync } from 'node:child_process';
-import { fft2 } from '../dist/src/optics/fft.js';
+import { fft2Reference as fft2 } from '../dist/src/optics/fft.js';
+import { loadFastKernels } from '../dist/src/kernels.js';
 import { fft2Interleaved, fft2Split, useFastFftBackend, fastFftBackend } from '../dist/src/optics/fft-fast.js';
 
 const args = process.argv.slice(2);
@@ -66,6 +67,7 @@ function relDiff(ref, got) {
   return d / m;
 }
 
+loadFastKernels();
 const hasWasm = fastFftBackend() === 'wasm-simd';
 const rows = [];
 for (const n of sizes) {
