@@ -1,5 +1,4 @@
 import { describe, expect, it, vi } from 'vitest';
-import { PNG } from 'pngjs';
 
 // Every string the picture writer prints goes through drawText; recording them
 // lets the tests read the labels without optical character recognition.
@@ -18,17 +17,8 @@ vi.mock('../../src/output/font.js', async (importOriginal) => {
 import { layoutPicture, renderIntensityPng, type PictureInput, type Rect } from '../../src/output/picture.js';
 import { gray, shoal, SHOAL_ANCHORS, type ColourScale } from '../../src/output/colour-scales.js';
 import { CELL_H, drawText, hasGlyph, textWidth, type RgbImage } from '../../src/output/font.js';
+import { decode, type Px } from '../png.js';
 
-type Px = [number, number, number];
-
-function decode(buf: Buffer) {
-  const png = PNG.sync.read(buf);
-  const at = (x: number, y: number): Px => {
-    const i = (y * png.width + x) * 4;
-    return [png.data[i]!, png.data[i + 1]!, png.data[i + 2]!];
-  };
-  return { width: png.width, height: png.height, at };
-}
 
 function render(p: PictureInput) {
   drawn.length = 0;

@@ -1,5 +1,4 @@
 import { describe, expect, it, vi } from 'vitest';
-import { PNG } from 'pngjs';
 
 // Every string the sheet prints goes through drawText; recording them (with where they were
 // drawn) lets the tests read the labels without optical character recognition.
@@ -17,17 +16,8 @@ vi.mock('../../src/output/font.js', async (importOriginal) => {
 
 import { layoutContactSheet, renderContactSheet, type SheetTile } from '../../src/report/contact-sheet.js';
 import { shoal } from '../../src/output/colour-scales.js';
+import { decode, type Px } from '../png.js';
 
-type Px = [number, number, number];
-
-function decode(buf: Buffer) {
-  const png = PNG.sync.read(buf);
-  const at = (x: number, y: number): Px => {
-    const i = (y * png.width + x) * 4;
-    return [png.data[i]!, png.data[i + 1]!, png.data[i + 2]!];
-  };
-  return { width: png.width, height: png.height, at };
-}
 
 function render(tiles: SheetTile[], opts: Parameters<typeof renderContactSheet>[1] = {}) {
   drawn.length = 0;
