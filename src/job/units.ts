@@ -85,7 +85,8 @@ export function parseQuantity(input: unknown, kind: UnitKind): ParsedQuantity | 
 /** Formats a length for people: 6.33e-7 -> "633 nm". */
 export function formatLength(metres: number, digits = 4): string {
   if (!Number.isFinite(metres)) return String(metres);
-  const a = Math.abs(metres);
+  // A hair of tolerance, so that 1 mm computed as 0.9999999999e-3 still reads "1 mm".
+  const a = Math.abs(metres) * (1 + 1e-9);
   const [unit, f] =
     a === 0 ? ['m', 1] : a < 1e-6 ? ['nm', 1e-9] : a < 1e-3 ? ['µm', 1e-6] : a < 1 ? ['mm', 1e-3] : ['m', 1];
   return `${trimNumber(metres / f, digits)} ${unit}`;

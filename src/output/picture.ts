@@ -293,7 +293,3 @@ function formatLength(m: number, k: number): string {
   const value = d >= 0 ? String(m * 10 ** d) : String(Number((m * 10 ** d).toPrecision(1)));
   return `${value} ${unit}`;
 }
-
-
-
-

@@ -6,6 +6,7 @@
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from '../output/font.js';
 import { shoal } from '../output/colour-scales.js';
 import { buildLut, encodePng, fillRect, frame, putLut, type Rect } from '../output/raster.js';
+import { formatLength } from '../job/units.js';
 
 export interface SheetTile {
   label: string;
@@ -124,7 +125,7 @@ function plan(tiles: SheetTile[], opts: SheetOptions): Plan {
   const slotW = Math.max(T + 2, MIN_SLOT);
   const gridW = columns * slotW + (columns - 1) * GAP_X;
   const H = halfField(tiles);
-  const fov = formatLength(2 * H);
+  const fov = formatLength(2 * H, 3);
   const captions = ['each tile scaled to its own peak (linear)', `one scale: every tile ${fov} × ${fov}, centred on the axis`];
   const width = Math.max(2 * MARGIN + gridW, 2 * MARGIN + Math.max(...captions.map((c) => textWidth(c))));
   const left = Math.floor((width - gridW) / 2);
@@ -197,7 +198,7 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
   const barPx = Math.max(1, Math.round(bar / layout.metresPerPixel));
   const fy = pl.footerY;
   fillRect(img, { x: MARGIN, y: fy + 3, w: barPx, h: BAR_THICK }, TEXT);
-  drawText(img, MARGIN + barPx + 6, fy, formatLength(bar), TEXT);
+  drawText(img, MARGIN + barPx + 6, fy, formatLength(bar, 3), TEXT);
 
   const cbY = fy + LINE + 6;
   const cbW = Math.min(layout.width - 2 * MARGIN, 200);
@@ -293,11 +294,6 @@ function roundLength(target: number): number {
   return best;
 }
 
-function formatLength(v: number): string {
-  const units: [number, string][] = [[1, 'm'], [1e-3, 'mm'], [1e-6, 'µm'], [1e-9, 'nm']];
-  const [f, name] = units.find(([f]) => v >= f * (1 - 1e-9)) ?? units[units.length - 1]!;
-  return `${Number((v / f).toPrecision(3))} ${name}`;
-}
 
 /** Three significant digits, exponent form outside 0.01..1000 (as the case pictures print peaks). */
 function compact(v: number): string {

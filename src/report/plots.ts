@@ -6,6 +6,7 @@ import { compile, type TopLevelSpec } from 'vega-lite';
 import * as vega from 'vega';
 import { Resvg } from '@resvg/resvg-js';
 import type { JobReport, MetricInfo, ReportCase, SweepKey } from './types.js';
+import { formatLength } from '../job/units.js';
 
 export interface PlotInput {
   title: string;
@@ -46,11 +47,6 @@ export function lengthUnitFor(values: readonly number[]): LengthUnit {
   return LENGTH_UNITS.find((u) => m >= u.metres * (1 - 1e-9)) ?? LENGTH_UNITS[LENGTH_UNITS.length - 1]!;
 }
 
-/** One value with its own unit, three significant digits: "633 nm", "1.5 mm". */
-export function formatLength(v: number): string {
-  const u = lengthUnitFor([v]);
-  return `${Number((v / u.metres).toPrecision(3))} ${u.name}`;
-}
 
 function axisScale(a: PlotInput['x'], values: number[]): { factor: number; title: string } {
   if (a.unit !== 'm') return { factor: 1, title: a.label };
@@ -191,7 +187,7 @@ const SYMBOLS: Record<string, string> = {
 
 function formatKeyValue(k: SweepKey, v: number): string {
   const name = SYMBOLS[k.key] ?? k.label;
-  return `${name} ${k.unit === 'm' ? formatLength(v) : String(v)}`;
+  return `${name} ${k.unit === 'm' ? formatLength(v, 3) : String(v)}`;
 }
 
 /**
