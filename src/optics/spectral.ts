@@ -3,7 +3,7 @@
 // caller has already zero-padded, and report how much of the field's spectrum they had to drop.
 import { binFrequency, fft2, nextPowerOfTwo } from './fft.js';
 import { createField, fftAxis, isOneD, type Field } from './field.js';
-import { propagationPhase, rotate } from './phase.js';
+import { propagationPhase } from './phase.js';
 
 export interface SpectralReport {
   /** Fraction of the spectral power outside the band limit (and not evanescent). */
@@ -43,9 +43,6 @@ export function bandLimitFrequency(z: number, wavelength: number, gridWidth: num
   return 1 / (wavelength * Math.sqrt((2 * df * z) ** 2 + 1));
 }
 
-/** kind: 0 passed, 1 cut by the band limit, 2 evanescent. phase excludes the common e^{ikz}. */
-type Transfer = (fx: number, fy: number) => { phase: number; amp: number; kind: 0 | 1 | 2 };
-
 /**
  * The spectrum of an area-sampled mask is the aperture's spectrum times the cell's response
  * sinc(fΔx)·sinc(fΔy) (plus aliases): its samples are the aperture blurred by one cell. Dividing
@@ -62,84 +59,210 @@ export function cellResponse(f: number, d: number): number {
   return u < 1e-8 ? 1 : Math.sin(Math.PI * u) / (Math.PI * u);
 }
 
-function applyTransfer(
+/**
+ * What multiplies the spectrum: the exact angular-spectrum factor with its band limit, the paraxial
+ * Fresnel factor, or nothing (only the cell-response division). All depend on fx² + fy² alone.
+ */
+export type TransferSpec =
+  | { kind: 'angular-spectrum'; z: number; wavelength: number; limit: [number, number] }
+  | { kind: 'fresnel'; z: number; wavelength: number }
+  | { kind: 'identity' };
+
+/** The band-limited angular-spectrum transfer over z for a grid of this size and pitch. */
+export function angularSpectrumTransfer(f: Field, z: number): TransferSpec {
+  const lam = f.wavelength;
+  const limX = bandLimitFrequency(z, lam, f.nx * f.dx);
+  const limY = isOneD(f) ? Infinity : bandLimitFrequency(z, lam, f.ny * f.dy);
+  return { kind: 'angular-spectrum', z, wavelength: lam, limit: [limX, limY] };
+}
+
+/**
+ * A padded source's forward transform, kept so that the same source can be propagated to several
+ * distances for one inverse transform each. `totalPower` is Σ|F|², which the loss fractions need.
+ */
+export interface SourceSpectrum {
+  data: Float64Array;
+  totalPower: number;
+}
+
+/** Transforms a (padded) field to its spectrum in place and returns Σ|F|². */
+export function toSpectrum(f: Field): number {
+  fft2(f.data, f.nx, f.ny, false);
+  const d = f.data;
+  let total = 0;
+  for (let i = 0; i < d.length; i += 2) total += d[i]! * d[i]! + d[i + 1]! * d[i + 1]!;
+  return total;
+}
+
+/** Per-axis tables: bin frequencies and the cell responses (about the carrier) they are divided by. */
+function axisTables(n: number, d: number, carrier: number | null): { f: Float64Array; cell: Float64Array } {
+  const f = new Float64Array(n);
+  const cell = new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    f[k] = binFrequency(k, n, d);
+    cell[k] = carrier === null ? 1 : cellResponse(f[k]! - carrier, d);
+  }
+  return { f, cell };
+}
+
+/**
+ * The transfer for one row of the spectrum at frequency fy, for columns 0..m (m = nx/2: the other
+ * columns mirror these, since binFrequency(nx−k) = −binFrequency(k) exactly), as the rotation
+ * cos/sin of the total phase, the amplitude and the kind (0 passed, 1 cut by the band limit,
+ * 2 evanescent).
+ */
+function rowTransfer(
+  spec: TransferSpec,
+  fy: number,
+  fx: Float64Array,
+  m: number,
+  globalPhase: number,
+  cos: Float64Array,
+  sin: Float64Array,
+  amp: Float64Array,
+  kind: Uint8Array,
+): void {
+  if (spec.kind === 'identity') {
+    for (let c = 0; c <= m; c++) {
+      cos[c] = Math.cos(globalPhase);
+      sin[c] = Math.sin(globalPhase);
+      amp[c] = 1;
+      kind[c] = 0;
+    }
+    return;
+  }
+  const lam = spec.wavelength;
+  const z = spec.z;
+  if (spec.kind === 'fresnel') {
+    for (let c = 0; c <= m; c++) {
+      const phase = -Math.PI * lam * z * (fx[c]! * fx[c]! + fy * fy);
+      cos[c] = Math.cos(phase + globalPhase);
+      sin[c] = Math.sin(phase + globalPhase);
+      amp[c] = 1;
+      kind[c] = 0;
+    }
+    return;
+  }
+  const inv2 = 1 / (lam * lam);
+  const [limX, limY] = spec.limit;
+  const rowCut = Math.abs(fy) > limY;
+  for (let c = 0; c <= m; c++) {
+    const f2 = fx[c]! * fx[c]! + fy * fy;
+    if (f2 >= inv2) {
+      // Evanescent: a pure decay exp(−2πz√(f²−1/λ²)), without the common e^{ikz}.
+      cos[c] = 1;
+      sin[c] = 0;
+      amp[c] = Math.exp(-2 * Math.PI * z * Math.sqrt(f2 - inv2));
+      kind[c] = 2;
+    } else if (rowCut || Math.abs(fx[c]!) > limX) {
+      cos[c] = 1;
+      sin[c] = 0;
+      amp[c] = 0;
+      kind[c] = 1;
+    } else {
+      // 2πz(√(1/λ²−f²) − 1/λ) in a form without cancellation.
+      const phase = (-2 * Math.PI * z * lam * f2) / (1 + Math.sqrt(1 - lam * lam * f2));
+      cos[c] = Math.cos(phase + globalPhase);
+      sin[c] = Math.sin(phase + globalPhase);
+      amp[c] = 1;
+      kind[c] = 0;
+    }
+  }
+}
+
+/**
+ * Multiplies a field's spectrum (in place) by the transfer and the common phase, dividing out the
+ * cell response when asked. `spectrum`, when given, is read instead of f.data (which is then only
+ * written): the cached-source path, with no copy. The transfer depends on |fx| and |fy| only, so it
+ * is evaluated on one quadrant (a quarter of the square roots and sines) and applied to all four.
+ */
+function multiplyTransfer(
   f: Field,
-  transfer: Transfer,
+  spec: TransferSpec,
   globalPhase: number,
   comp: PixelCompensation | undefined,
-): SpectralReport {
+  spectrum: Float64Array,
+): { cut: number; evan: number } {
   const oneD = isOneD(f);
-  fft2(f.data, f.nx, f.ny, false);
-  let total = 0;
+  const { nx, ny } = f;
+  const X = axisTables(nx, f.dx, comp ? comp.carrier[0] : null);
+  const Y = oneD ? { f: new Float64Array(1), cell: new Float64Array([1]) } : axisTables(ny, f.dy, comp ? comp.carrier[1] : null);
+  const m = nx >> 1;
+  const cos = new Float64Array(m + 1);
+  const sin = new Float64Array(m + 1);
+  const amp = new Float64Array(m + 1);
+  const kind = new Uint8Array(m + 1);
+  const src = spectrum;
+  const d = f.data;
   let cut = 0;
   let evan = 0;
-  const d = f.data;
-  for (let r = 0; r < f.ny; r++) {
-    const fy = oneD ? 0 : binFrequency(r, f.ny, f.dy);
-    for (let c = 0; c < f.nx; c++) {
-      const fx = binFrequency(c, f.nx, f.dx);
-      const i = 2 * (r * f.nx + c);
-      const p = d[i]! * d[i]! + d[i + 1]! * d[i + 1]!;
-      total += p;
-      const t = transfer(fx, fy);
-      if (t.kind === 1) cut += p;
-      else if (t.kind === 2) evan += p;
-      if (t.amp === 0) {
-        d[i] = 0;
-        d[i + 1] = 0;
-      } else {
-        const cell = comp
-          ? cellResponse(fx - comp.carrier[0], f.dx) * (oneD ? 1 : cellResponse(fy - comp.carrier[1], f.dy))
-          : 1;
-        rotate(d, i, t.phase + globalPhase, t.amp / cell);
+  const half = oneD ? 0 : ny >> 1;
+  for (let q = 0; q <= half; q++) {
+    rowTransfer(spec, Y.f[q]!, X.f, m, globalPhase, cos, sin, amp, kind);
+    // Rows q and ny − q see the same transfer (fy² equal); row 0 and row ny/2 have no mirror.
+    const rows = oneD || q === 0 || q === half ? 1 : 2;
+    for (let k = 0; k < rows; k++) {
+      const r = k === 0 ? q : ny - q;
+      const cy = Y.cell[r]!;
+      const base = 2 * r * nx;
+      for (let c = 0; c < nx; c++) {
+        const j = c <= m ? c : nx - c;
+        const i = base + 2 * c;
+        const re = src[i]!;
+        const im = src[i + 1]!;
+        const kd = kind[j]!;
+        if (kd !== 0) {
+          const p = re * re + im * im;
+          if (kd === 1) cut += p;
+          else evan += p;
+        }
+        const a = amp[j]!;
+        if (a === 0) {
+          d[i] = 0;
+          d[i + 1] = 0;
+        } else {
+          const s = a / (comp ? X.cell[c]! * cy : 1);
+          const cr = s * cos[j]!;
+          const sn = s * sin[j]!;
+          d[i] = re * cr - im * sn;
+          d[i + 1] = re * sn + im * cr;
+        }
       }
     }
   }
+  return { cut, evan };
+}
+
+/**
+ * Propagates by a transfer function, in place: f holds the padded source on entry and the
+ * propagated field on return. With `cached`, f's entry contents are ignored and the source's
+ * kept spectrum is used instead (one inverse transform, no forward one).
+ */
+export function propagateByTransfer(
+  f: Field,
+  spec: TransferSpec,
+  comp?: PixelCompensation,
+  cached?: SourceSpectrum,
+): SpectralReport {
+  const total = cached ? cached.totalPower : toSpectrum(f);
+  const globalPhase = spec.kind === 'identity' ? 0 : propagationPhase(spec.z, spec.wavelength);
+  const { cut, evan } = multiplyTransfer(f, spec, globalPhase, comp, cached ? cached.data : f.data);
   fft2(f.data, f.nx, f.ny, true);
   return {
     bandLimitLoss: total > 0 ? cut / total : 0,
     evanescentLoss: total > 0 ? evan / total : 0,
-    bandLimit: [Infinity, Infinity],
+    bandLimit: spec.kind === 'angular-spectrum' ? spec.limit : [Infinity, Infinity],
   };
 }
 
 /** Band-limited angular spectrum propagation over z, in place. */
-export function propagateAngularSpectrum(f: Field, z: number, comp?: PixelCompensation): SpectralReport {
-  const lam = f.wavelength;
-  const oneD = isOneD(f);
-  const limX = bandLimitFrequency(z, lam, f.nx * f.dx);
-  const limY = oneD ? Infinity : bandLimitFrequency(z, lam, f.ny * f.dy);
-  const inv2 = 1 / (lam * lam);
-  const kz = propagationPhase(z, lam);
-  const report = applyTransfer(
-    f,
-    (fx, fy) => {
-      const f2 = fx * fx + fy * fy;
-      if (f2 >= inv2) {
-        // Evanescent: a pure decay exp(−2πz√(f²−1/λ²)), so the common e^{ikz} is undone here.
-        return { phase: -kz, amp: Math.exp(-2 * Math.PI * z * Math.sqrt(f2 - inv2)), kind: 2 };
-      }
-      if (Math.abs(fx) > limX || Math.abs(fy) > limY) return { phase: 0, amp: 0, kind: 1 };
-      // 2πz(√(1/λ²−f²) − 1/λ) in a form without cancellation.
-      const phase = (-2 * Math.PI * z * lam * f2) / (1 + Math.sqrt(1 - lam * lam * f2));
-      return { phase, amp: 1, kind: 0 };
-    },
-    kz,
-    comp,
-  );
-  report.bandLimit = [limX, limY];
-  return report;
+export function propagateAngularSpectrum(f: Field, z: number, comp?: PixelCompensation, cached?: SourceSpectrum): SpectralReport {
+  return propagateByTransfer(f, angularSpectrumTransfer(f, z), comp, cached);
 }
 
 /** Fresnel transfer function H = e^{ikz}·exp(−iπλz(fx²+fy²)), in place (paraxial). */
-export function propagateFresnelTransfer(f: Field, z: number, comp?: PixelCompensation): SpectralReport {
-  const lam = f.wavelength;
-  return applyTransfer(
-    f,
-    (fx, fy) => ({ phase: -Math.PI * lam * z * (fx * fx + fy * fy), amp: 1, kind: 0 }),
-    propagationPhase(z, lam),
-    comp,
-  );
+export function propagateFresnelTransfer(f: Field, z: number, comp?: PixelCompensation, cached?: SourceSpectrum): SpectralReport {
+  return propagateByTransfer(f, { kind: 'fresnel', z, wavelength: f.wavelength }, comp, cached);
 }
 
 /**
@@ -151,7 +274,7 @@ export function compensateCellResponse(f: Field): void {
   const nx = nextPowerOfTwo(2 * f.nx);
   const ny = isOneD(f) ? 1 : nextPowerOfTwo(2 * f.ny);
   const padded = padField(f, nx, ny);
-  applyTransfer(padded, () => ({ phase: 0, amp: 1, kind: 0 }), 0, { carrier: [0, 0] });
+  propagateByTransfer(padded, { kind: 'identity' }, { carrier: [0, 0] });
   const c0 = Math.round((f.x0 - padded.x0) / f.dx);
   const r0 = isOneD(f) ? 0 : Math.round((f.y0 - padded.y0) / f.dy);
   for (let r = 0; r < f.ny; r++) {

@@ -1,0 +1,94 @@
+// The faster transfer-function propagators (quadrant symmetry, per-axis tables, the fast FFT, a
+// kept source spectrum) against the straightforward per-sample evaluation they replaced
+// (./spectral-reference.ts, fft.js underneath): the same numbers to 1e-12 of the field's largest
+// value. A rewrite for speed must not change a result; 1e-12 is the project's identity bound
+// (common practice for rounding-level agreement of double-precision transforms).
+import { beforeAll, describe, expect, it } from 'vitest';
+import { loadFastKernels } from '../../src/kernels.js';
+import { createField, fftAxis, type Field } from '../../src/optics/field.js';
+import {
+  padField,
+  propagateAngularSpectrum,
+  propagateFresnelTransfer,
+  toSpectrum,
+  type SourceSpectrum,
+} from '../../src/optics/spectral.js';
+import { referenceAngularSpectrum, referenceFresnelTransfer } from './spectral-reference.js';
+
+beforeAll(() => {
+  loadFastKernels();
+});
+
+/** A disc of radius `a` (2-D) or a slit of half-width `a` (1-D) with a smooth random phase. */
+function source(nx: number, ny: number, dx: number, a: number, lam: number): Field {
+  const f = createField(fftAxis(nx, dx), ny > 1 ? fftAxis(ny, dx) : null, lam);
+  let s = 12345;
+  for (let r = 0; r < f.ny; r++) {
+    for (let c = 0; c < f.nx; c++) {
+      const x = f.x0 + c * dx;
+      const y = ny > 1 ? f.y0 + r * dx : 0;
+      if (x * x + y * y > a * a) continue;
+      s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+      const ph = (s / 2 ** 32) * 0.3;
+      f.data[2 * (r * f.nx + c)] = Math.cos(ph);
+      f.data[2 * (r * f.nx + c) + 1] = Math.sin(ph);
+    }
+  }
+  return f;
+}
+
+function maxRelDiff(a: Float64Array, b: Float64Array): number {
+  let peak = 0;
+  let diff = 0;
+  for (let i = 0; i < a.length; i++) {
+    peak = Math.max(peak, Math.abs(a[i]!));
+    diff = Math.max(diff, Math.abs(a[i]! - b[i]!));
+  }
+  return diff / peak;
+}
+
+const lam = 633e-9;
+const cases = [
+  { name: '2-D 128×64, near field, with band limit cut', nx: 128, ny: 64, dx: 0.4e-6, a: 8e-6, z: 300e-6, carrier: [0, 0] },
+  { name: '2-D 64², evanescent bins (pitch below λ/2)', nx: 64, ny: 64, dx: 0.25e-6, a: 3e-6, z: 2e-6, carrier: [0, 0] },
+  { name: '2-D 256×128, tilted carrier', nx: 256, ny: 128, dx: 0.5e-6, a: 15e-6, z: 1e-3, carrier: [2.1e4, -1.3e4] },
+  { name: '1-D 1024', nx: 1024, ny: 1, dx: 0.5e-6, a: 40e-6, z: 5e-3, carrier: [1e4, 0] },
+] as const;
+
+describe('transfer-function propagation is unchanged by the fast path', () => {
+  for (const k of cases) {
+    for (const method of ['angular-spectrum', 'fresnel'] as const) {
+      it(`${method}: ${k.name}`, () => {
+        const src = source(k.nx / 2, k.ny > 1 ? k.ny / 2 : 1, k.dx, k.a, lam);
+        const fast = padField(src, k.nx, k.ny);
+        const ref = padField(src, k.nx, k.ny);
+        const comp = { carrier: [k.carrier[0], k.carrier[1]] as [number, number] };
+        const run = method === 'angular-spectrum' ? propagateAngularSpectrum : propagateFresnelTransfer;
+        const refRun = method === 'angular-spectrum' ? referenceAngularSpectrum : referenceFresnelTransfer;
+        const got = run(fast, k.z, comp);
+        const want = refRun(ref, k.z, comp);
+        expect(maxRelDiff(ref.data, fast.data)).toBeLessThan(1e-12);
+        expect(Math.abs(got.bandLimitLoss - want.bandLimitLoss)).toBeLessThanOrEqual(1e-12 * Math.max(1e-300, want.bandLimitLoss) + 1e-300);
+        expect(Math.abs(got.evanescentLoss - want.evanescentLoss)).toBeLessThanOrEqual(1e-12 * want.evanescentLoss + 1e-300);
+        if (method === 'angular-spectrum' && k.name.includes('band limit')) expect(want.bandLimitLoss).toBeGreaterThan(0);
+        if (method === 'angular-spectrum' && k.name.includes('evanescent')) expect(want.evanescentLoss).toBeGreaterThan(0);
+      });
+    }
+  }
+
+  it('a kept source spectrum gives the same field at every distance as a fresh transform', () => {
+    const k = cases[0];
+    const src = source(k.nx / 2, k.ny / 2, k.dx, k.a, lam);
+    const spectrumField = padField(src, k.nx, k.ny);
+    const kept: SourceSpectrum = { totalPower: toSpectrum(spectrumField), data: spectrumField.data };
+    for (const z of [100e-6, 300e-6, 2e-3]) {
+      const fresh = padField(src, k.nx, k.ny);
+      const a = propagateAngularSpectrum(fresh, z, { carrier: [0, 0] });
+      const reused = createField(fftAxis(k.nx, k.dx), fftAxis(k.ny, k.dx), lam);
+      const b = propagateAngularSpectrum(reused, z, { carrier: [0, 0] }, kept);
+      // Same arithmetic on the same spectrum: bit for bit.
+      expect(Array.from(reused.data)).toEqual(Array.from(fresh.data));
+      expect(b).toEqual(a);
+    }
+  });
+});
