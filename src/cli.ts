@@ -7,6 +7,7 @@ import { JobError, loadJobFile } from './job/load.js';
 import { expandJob } from './job/expand.js';
 import { DEFAULT_MAX_MEMORY, planCase } from './plan/planner.js';
 import { formatPlan } from './plan/format.js';
+import { shareSourceSpectra } from './plan/share.js';
 import { defaultWorkers, runJobFile, type JobOutcome } from './run/run-job.js';
 import { gatherJob } from './run/gather.js';
 import { lineReporter, terminalReporter } from './run/progress.js';
@@ -35,6 +36,7 @@ async function planCommand(files: string[], json: boolean, maxMemoryBytes: numbe
       const { spec } = await loadJobFile(file);
       const cases = expandJob(spec);
       const plans = cases.map((c) => planCase(c, { maxMemoryBytes }));
+      shareSourceSpectra(plans);
       if (plans.some((p) => p.error)) status = 1;
       if (json) {
         all.push({ file, job: spec.name, plans });

@@ -32,6 +32,9 @@ export function formatPlan(p: Plan): string {
     );
   }
   lines.push(`  memory       about ${bytes(p.memoryBytes)}`);
+  if (p.sharedSpectrum) {
+    lines.push(`  shared       the source's spectrum is computed once for the ${p.sharedSpectrum.cases} cases on this grid (source ${p.sharedSpectrum.id})`);
+  }
   lines.push('  why');
   for (const r of p.reasons) lines.push(`    - ${r}`);
   lines.push('  checks');

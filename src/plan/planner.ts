@@ -569,7 +569,8 @@ function costFft(axes: AxisPlan[], layout: Layout): { memory: number; work: numb
     const oneD = axes.reduce((s, a) => s + 16 * (a.inputSamples + a.paddedSamples + a.output.n), 0);
     return { memory: BASELINE_MEMORY + oneD + 64 * m, work: axes.reduce((s, a) => s + 10 * a.paddedSamples * Math.log2(a.paddedSamples), 0) + 20 * m };
   }
-  return { memory: BASELINE_MEMORY + 16 * n + 16 * np + 64 * m, work: 10 * np * Math.log2(np) + 30 * np };
+  // Source, padded grid, the FFT kernel's working copy of it (kept between calls), output arrays.
+  return { memory: BASELINE_MEMORY + 16 * n + 32 * np + 64 * m, work: 10 * np * Math.log2(np) + 30 * np };
 }
 
 function costDirect(axes: AxisPlan[], layout: Layout, farField: boolean): { memory: number; work: number } {

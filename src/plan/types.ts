@@ -110,7 +110,14 @@ export interface Plan {
   checks: Checks;
   reasons: string[];
   warnings: Warning[];
+  /** Estimated peak memory of the case (bytes), counting a kept source spectrum (sharedSpectrum). */
   memoryBytes: number;
+  /**
+   * Set by shareSourceSpectra when other cases of the run propagate the same padded source (a
+   * sweep in distance on one grid): the source's spectrum is computed once and kept. `id` names
+   * the source (a digest of aperture, light and grid); `cases` is how many cases share it.
+   */
+  sharedSpectrum?: { id: string; cases: number };
   /** Rough count of floating-point operations, for ordering and progress. */
   work: number;
   /** A Gaussian beam's radius at the observation plane (m). */

@@ -6,11 +6,14 @@ import { propagateFarField, propagateFarFieldSeparable, propagateFresnelDirect }
 import { complementInPlace, freeField } from '../optics/free.js';
 import { carrierFrequencies, sourceField1D, sourceField2D } from '../optics/source.js';
 import {
+  angularSpectrumTransfer,
   compensateCellResponse,
   padField,
-  propagateAngularSpectrum,
-  propagateFresnelTransfer,
+  propagateByTransfer,
+  toSpectrum,
+  type SourceSpectrum,
   type SpectralReport,
+  type TransferSpec,
 } from '../optics/spectral.js';
 import { propagationPhase, rotate } from '../optics/phase.js';
 import { propagateFresnelSingleFFT } from '../optics/single-fft.js';
@@ -26,6 +29,8 @@ export interface Diagnostics {
   evanescentLoss?: number;
   /** Fraction of the power in the outer frame of the padded FFT grid (wrap-around risk). */
   edgeEnergy?: number;
+  /** For a shared source (plan.sharedSpectrum): whether its spectrum was computed here or reused. */
+  sourceSpectrum?: 'computed' | 'reused';
 }
 
 export interface ComputedCase {
@@ -81,8 +86,30 @@ interface Propagated {
   edge?: number;
 }
 
-/** Propagates a source with an FFT method on the padded grid and cuts out the window. */
-/** Propagates a source with an FFT method on its padded grid and cuts out the window. */
+/**
+ * The spectrum of the last shared source this thread computed (plans with sharedSpectrum): the
+ * next case of the same sweep starts from it instead of building and transforming the source.
+ */
+let kept: { key: string; spectrum: SourceSpectrum; powerIn: number } | null = null;
+
+/** Lets go of the kept spectrum (at the end of a run, so that a library caller gets the memory back). */
+export function releaseKeptSpectrum(): void {
+  kept = null;
+}
+
+function transferFor(plan: Plan, grid: Field): TransferSpec {
+  const z = plan.case.distance;
+  return plan.method === 'angular-spectrum' ? angularSpectrumTransfer(grid, z) : { kind: 'fresnel', z, wavelength: grid.wavelength };
+}
+
+function cutOut(grid: Field, report: SpectralReport, outX: Axis, outY: Axis | null): Propagated {
+  return { field: cropTo(grid, outX, outY), report, edge: edgeEnergy(grid) };
+}
+
+/**
+ * Propagates a source with an FFT method on its padded grid and cuts out the window. With `keep`,
+ * the source's spectrum is kept (a copy) for the next cases of the sweep.
+ */
 function propagateOnGrid(
   src: Field,
   plan: Plan,
@@ -90,13 +117,22 @@ function propagateOnGrid(
   outX: Axis,
   outY: Axis | null,
   carrier: [number, number],
+  keep?: { key: string; powerIn: number },
 ): Propagated {
-  const z = plan.case.distance;
   const grid = padField(src, padded[0], padded[1]);
   const comp = { carrier };
-  const report =
-    plan.method === 'angular-spectrum' ? propagateAngularSpectrum(grid, z, comp) : propagateFresnelTransfer(grid, z, comp);
-  return { field: cropTo(grid, outX, outY), report, edge: edgeEnergy(grid) };
+  const spec = transferFor(plan, grid);
+  if (!keep) return cutOut(grid, propagateByTransfer(grid, spec, comp), outX, outY);
+  const totalPower = toSpectrum(grid);
+  kept = { key: keep.key, spectrum: { data: grid.data.slice(), totalPower }, powerIn: keep.powerIn };
+  // The grid holds the spectrum now: it is read and overwritten in one pass.
+  return cutOut(grid, propagateByTransfer(grid, spec, comp, { data: grid.data, totalPower }), outX, outY);
+}
+
+/** The same from a kept spectrum: no source, no forward transform. */
+function propagateKept(spectrum: SourceSpectrum, plan: Plan, outX: Axis, outY: Axis | null, carrier: [number, number]): Propagated {
+  const grid = createField(fftAxis(plan.x.paddedSamples, plan.x.inputPitch), fftAxis(plan.y!.paddedSamples, plan.y!.inputPitch), plan.case.wavelength);
+  return cutOut(grid, propagateByTransfer(grid, transferFor(plan, grid), { carrier }, spectrum), outX, outY);
 }
 
 /**
@@ -147,6 +183,7 @@ export function computeCase(plan: Plan): ComputedCase {
   const opts = { sampleCarrier: fft };
   let result: Propagated;
   let powerIn: number;
+  let reused = false;
 
   if (plan.layout === 'one-d') {
     if (!isOneDAperture(c.aperture)) throw new Error('one-d layout for a 2-D aperture');
@@ -194,11 +231,17 @@ export function computeCase(plan: Plan): ComputedCase {
         ...(px.edge !== undefined ? { edge: Math.max(px.edge, py.edge ?? 0) } : {}),
       };
     }
+  } else if ((reused = fft && !!plan.sharedSpectrum && kept?.key === plan.sharedSpectrum.id)) {
+    powerIn = kept!.powerIn;
+    result = propagateKept(kept!.spectrum, plan, outX, outY, carrier);
   } else {
+    // A kept spectrum of another source is of no further use: let it go before allocating.
+    kept = null;
     const { field: src, power } = sourceField2D(c.aperture, ill, sourceAxis(plan.x, fft), sourceAxis(plan.y!, fft), lam, opts);
     powerIn = power;
     const padded: [number, number] = [plan.x.paddedSamples, plan.y!.paddedSamples];
-    if (fft) result = propagateOnGrid(src, plan, padded, outX, outY, carrier);
+    const keep = plan.sharedSpectrum ? { key: plan.sharedSpectrum.id, powerIn } : undefined;
+    if (fft) result = propagateOnGrid(src, plan, padded, outX, outY, carrier, keep);
     else if (plan.form === 'single-fft') result = propagateSingleFft(src, plan, padded, outX, outY, carrier);
     else if (plan.method === 'fresnel') {
       compensateCellResponse(src);
@@ -220,6 +263,7 @@ export function computeCase(plan: Plan): ComputedCase {
     diagnostics.evanescentLoss = result.report.evanescentLoss;
   }
   if (result.edge !== undefined) diagnostics.edgeEnergy = result.edge;
+  if (plan.sharedSpectrum && fft && plan.layout === 'two-d') diagnostics.sourceSpectrum = reused ? 'reused' : 'computed';
   return {
     intensity,
     rows: field.ny,
