@@ -43,6 +43,69 @@ export function fft2Interleaved(data: Float64Array, nx: number, ny: number, inve
   jsInterleaved(data, nx, ny, inverse);
 }
 
+/**
+ * One pass of fft2Interleaved over part of the array, for threads that share one transform: the
+ * row transforms of rows [r0, r1) of `src`, an ny×nx interleaved array, written to the same rows of
+ * `dst` (which may be `src`). The kernel and its arithmetic are those of fft2Interleaved, so all
+ * rows, then all columns (transformColumns), in any split, give its result bit for bit.
+ *
+ * `commit`, when given, is asked after the part has been transformed in this thread's own memory
+ * and before anything is written: when it answers false nothing is written and the result is false
+ * (another thread has taken the part over). Reading `src` and writing `dst` only at the end is what
+ * lets a part that a thread abandoned be done again by another from the untouched `src`.
+ */
+export function transformRows(
+  src: Float64Array, dst: Float64Array, nx: number, ny: number, r0: number, r1: number, inverse: boolean,
+  commit?: () => boolean,
+): boolean {
+  checkPiece(src, dst, nx, ny, r0, r1, ny, 'rows');
+  if (backend === 'wasm-simd') {
+    const done = wasmRows(src, dst, nx, r0, r1, inverse, commit);
+    if (done !== null) return done;
+  }
+  return jsRows(src, dst, nx, r0, r1, inverse, commit);
+}
+
+/**
+ * The column transforms of columns [c0, c1) of `src` (c0 and c1 even), written to the same
+ * columns of `dst`; see transformRows. `src` must hold the row transforms already.
+ */
+export function transformColumns(
+  src: Float64Array, dst: Float64Array, nx: number, ny: number, c0: number, c1: number, inverse: boolean,
+  commit?: () => boolean,
+): boolean {
+  checkPiece(src, dst, nx, ny, c0, c1, nx, 'columns');
+  if (c0 % 2 !== 0 || c1 % 2 !== 0) throw new Error(`transformColumns: columns ${c0}..${c1} must start and end on even indices`);
+  if (ny === 1) {
+    // A 1-D transform has no column pass; the part is copied so that dst holds the result.
+    if (commit && !commit()) return false;
+    if (dst !== src) dst.set(src.subarray(2 * c0, 2 * c1), 2 * c0);
+    return true;
+  }
+  if (backend === 'wasm-simd') {
+    const done = wasmCols(src, dst, nx, ny, c0, c1, inverse, commit);
+    if (done !== null) return done;
+  }
+  return jsCols(src, dst, nx, ny, c0, c1, inverse, commit);
+}
+
+function checkPiece(
+  src: Float64Array, dst: Float64Array, nx: number, ny: number, a: number, b: number, n: number, what: string,
+): void {
+  checkShape(nx, ny);
+  if (src.length !== 2 * nx * ny || dst.length !== 2 * nx * ny) {
+    throw new Error(`transform ${what}: ${src.length} and ${dst.length} values for a ${nx}×${ny} complex grid`);
+  }
+  if (!Number.isInteger(a) || !Number.isInteger(b) || a < 0 || b > n || a >= b) {
+    throw new Error(`transform ${what}: range ${a}..${b} outside 0..${n}`);
+  }
+}
+
+/** Lanes per block for a part `width` columns wide: a power of two dividing it, at most `max`. */
+function blockFor(width: number, max: number): number {
+  return Math.min(max, width & -width);
+}
+
 /** The kernel in use: 'wasm-simd' once installed (installWasmFft), else 'js'. */
 export function fastFftBackend(): FastFftBackend {
   return backend;
@@ -297,6 +360,80 @@ function jsInterleaved(data: Float64Array, nx: number, ny: number, inverse: bool
   }
 }
 
+// Scratch for the parts (transformRows, transformColumns), grown to the largest part asked for.
+let piece = { re: new Float64Array(0), im: new Float64Array(0) };
+
+function pieceBuffers(len: number) {
+  if (piece.re.length < len) piece = { re: new Float64Array(len), im: new Float64Array(len) };
+  return piece;
+}
+
+function jsRows(
+  src: Float64Array, dst: Float64Array, nx: number, r0: number, r1: number, inverse: boolean, commit?: () => boolean,
+): boolean {
+  const tx = tablesFor(nx);
+  const rev = tx.rev;
+  const s = pieceBuffers((r1 - r0) * nx);
+  const sr = inverse ? s.im : s.re, si = inverse ? s.re : s.im;
+  const sx = inverse ? 1 / nx : 1;
+  for (let r = r0; r < r1; r++) {
+    const o = 2 * r * nx, off = (r - r0) * nx;
+    for (let k = 0; k < nx; k++) {
+      const j = o + 2 * rev[k];
+      s.re[off + k] = src[j];
+      s.im[off + k] = src[j + 1];
+    }
+    jsLanes(sr, si, off, nx, 1, tx.tw);
+  }
+  if (commit && !commit()) return false;
+  for (let r = r0; r < r1; r++) {
+    const o = 2 * r * nx, off = (r - r0) * nx;
+    for (let k = 0; k < nx; k++) {
+      dst[o + 2 * k] = s.re[off + k] * sx;
+      dst[o + 2 * k + 1] = s.im[off + k] * sx;
+    }
+  }
+  return true;
+}
+
+function jsCols(
+  src: Float64Array, dst: Float64Array, nx: number, ny: number, c0: number, c1: number, inverse: boolean,
+  commit?: () => boolean,
+): boolean {
+  const ty = tablesFor(ny);
+  const rv = ty.rev;
+  const width = c1 - c0;
+  const B = blockFor(width, JS_BLOCK);
+  const s = pieceBuffers(ny * width);
+  const sr = inverse ? s.im : s.re, si = inverse ? s.re : s.im;
+  const sy = inverse ? 1 / ny : 1;
+  for (let b0 = 0; b0 < width; b0 += B) {
+    const off = b0 * ny;
+    for (let r = 0; r < ny; r++) {
+      let from = 2 * (r * nx + c0 + b0);
+      let d = off + rv[r] * B;
+      for (let b = 0; b < B; b++, from += 2, d++) {
+        s.re[d] = src[from];
+        s.im[d] = src[from + 1];
+      }
+    }
+    jsLanes(sr, si, off, ny, B, ty.tw);
+  }
+  if (commit && !commit()) return false;
+  for (let b0 = 0; b0 < width; b0 += B) {
+    const off = b0 * ny;
+    for (let r = 0; r < ny; r++) {
+      let to = 2 * (r * nx + c0 + b0);
+      let o = off + r * B;
+      for (let b = 0; b < B; b++, to += 2, o++) {
+        dst[to] = s.re[o] * sy;
+        dst[to + 1] = s.im[o] * sy;
+      }
+    }
+  }
+  return true;
+}
+
 // ---- the WebAssembly kernel ---------------------------------------------------------------------
 
 // The few WebAssembly globals used here (the project's lib settings do not declare them).
@@ -408,8 +545,13 @@ function wasmLayout(w: WasmFft, nx: number, ny: number, R: number, B: number, da
   const tx = wasmTablesFor(w, nx);
   const ty = ny > 1 ? wasmTablesFor(w, ny) : tx;
   if (!tx || !ty) return null;
+  return wasmArea(w, tx, ty, dataBytes, Math.max(nx * R, ny > 1 ? ny * B : 0));
+}
+
+/** After the tables: `dataBytes` of data, then two scratch planes of `planeValues` f64 each. */
+function wasmArea(w: WasmFft, tx: WasmTables, ty: WasmTables, dataBytes: number, planeValues: number) {
   const base = tableTop;
-  const plane = align64(8 * Math.max(nx * R, ny > 1 ? ny * B : 0));
+  const plane = align64(8 * planeValues);
   const sre = align64(base + dataBytes);
   const sim = sre + plane;
   if (!reserve(w, sim + plane)) return null;
@@ -465,4 +607,68 @@ function wasmSplit(re: Float64Array, im: Float64Array, nx: number, ny: number, i
     im.set(heap.subarray(ai + r * step, ai + r * step + nx), r * nx);
   }
   return true;
+}
+
+// The parts: the data of one part is copied in, transformed, and (if committed) copied out. Null
+// when the module's memory cannot be had (the caller then uses the TypeScript kernel).
+
+function wasmRows(
+  src: Float64Array, dst: Float64Array, nx: number, r0: number, r1: number, inverse: boolean, commit?: () => boolean,
+): boolean | null {
+  const w = wasm!;
+  const k = r1 - r0;
+  const R = k >= 4 ? 4 : 2;
+  const tx = wasmTablesFor(w, nx);
+  if (!tx) return null;
+  // Rows need no padding: they are read whole, not down a column.
+  const L = wasmArea(w, tx, tx, 16 * nx * k, nx * R);
+  if (!L) return null;
+  const at = L.base / 8;
+  heap.set(src.subarray(2 * r0 * nx, 2 * r1 * nx), at);
+  w.rowsInterleaved(L.base, nx, k, 16 * nx, R, tx.rev, tx.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / nx : 1);
+  if (commit && !commit()) return false;
+  dst.set(heap.subarray(at, at + 2 * k * nx), 2 * r0 * nx);
+  return true;
+}
+
+function wasmCols(
+  src: Float64Array, dst: Float64Array, nx: number, ny: number, c0: number, c1: number, inverse: boolean,
+  commit?: () => boolean,
+): boolean | null {
+  const w = wasm!;
+  const width = c1 - c0;
+  const B = blockFor(width, WASM_BLOCK);
+  // One block of B columns is read row after row, contiguously; wider parts get the padded rows.
+  const stride = width > B ? 16 * width + PAD : 16 * width;
+  const ty = wasmTablesFor(w, ny);
+  if (!ty) return null;
+  const L = wasmArea(w, ty, ty, stride * ny, ny * B);
+  if (!L) return null;
+  const at = L.base / 8, step = stride / 8, len = 2 * width;
+  for (let r = 0; r < ny; r++) copyIn(src, 2 * (r * nx + c0), len, at + r * step);
+  w.colsInterleaved(L.base, width, ny, stride, B, ty.rev, ty.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / ny : 1);
+  if (commit && !commit()) return false;
+  for (let r = 0; r < ny; r++) copyOut(dst, 2 * (r * nx + c0), len, at + r * step);
+  return true;
+}
+
+/** Below this many values a plain loop copies faster than set() on a new subarray. */
+const SHORT_COPY = 64;
+
+function copyIn(src: Float64Array, from: number, len: number, to: number): void {
+  if (len >= SHORT_COPY) {
+    heap.set(src.subarray(from, from + len), to);
+    return;
+  }
+  const h = heap;
+  for (let i = 0; i < len; i++) h[to + i] = src[from + i];
+}
+
+function copyOut(dst: Float64Array, to: number, len: number, from: number): void {
+  if (len >= SHORT_COPY) {
+    dst.set(heap.subarray(from, from + len), to);
+    return;
+  }
+  const h = heap;
+  for (let i = 0; i < len; i++) dst[to + i] = h[from + i];
 }

@@ -37,10 +37,25 @@ export function nextPowerOfTwo(n: number): number {
 }
 
 /**
+ * Something that can do an fft2 call another way (threads sharing one transform, installed by
+ * src/parallel): it answers false to decline, and fft2 then runs in this thread. Its result must be
+ * the one fft2Interleaved gives. Kept here as a plain function so that optics knows no threads.
+ */
+export type Fft2Executor = (data: Float64Array, nx: number, ny: number, inverse: boolean) => boolean;
+
+let executor: Fft2Executor | null = null;
+
+/** Route fft2 through `fn` (null: back to this thread only). */
+export function installFft2Executor(fn: Fft2Executor | null): void {
+  executor = fn;
+}
+
+/**
  * In-place 2-D FFT of an ny×nx interleaved complex array (ny = 1 gives a 1-D transform).
  * Forward: X[k] = Σ x[j] e^{-2πi jk/n}; inverse includes the 1/n factor per axis.
  */
 export function fft2(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
+  if (executor !== null && ny > 1 && executor(data, nx, ny, inverse)) return;
   fft2Interleaved(data, nx, ny, inverse);
 }
 

@@ -38,10 +38,27 @@ export function isOneD(f: Field): boolean {
   return f.ny === 1 && f.dy === 0;
 }
 
+/**
+ * Where large sample arrays come from: while threads share FFTs (src/parallel) they must live in
+ * shared memory. The allocator answers null for arrays it leaves to the default.
+ */
+export type SampleAllocator = (values: number) => Float64Array | null;
+
+let sampleAllocator: SampleAllocator | null = null;
+
+export function installSampleAllocator(fn: SampleAllocator | null): void {
+  sampleAllocator = fn;
+}
+
+/** A zeroed Float64Array of `values` numbers, from the installed allocator if it takes it. */
+export function allocateSamples(values: number): Float64Array {
+  return sampleAllocator?.(values) ?? new Float64Array(values);
+}
+
 export function createField(xAxis: Axis, yAxis: Axis | null, wavelength: number): Field {
   const ny = yAxis ? yAxis.n : 1;
   return {
-    data: new Float64Array(2 * xAxis.n * ny),
+    data: allocateSamples(2 * xAxis.n * ny),
     nx: xAxis.n,
     ny,
     dx: xAxis.step,
