@@ -172,9 +172,14 @@ function rowTransfer(
 
 /**
  * Multiplies a field's spectrum (in place) by the transfer and the common phase, dividing out the
- * cell response when asked. `spectrum`, when given, is read instead of f.data (which is then only
- * written): the cached-source path, with no copy. The transfer depends on |fx| and |fy| only, so it
- * is evaluated on one quadrant (a quarter of the square roots and sines) and applied to all four.
+ * cell response when asked, and sums the power it cuts and finds evanescent. `spectrum` is read
+ * and f.data written (the same array, or a kept source spectrum with no copy made).
+ *
+ * The transfer depends on |fx| and |fy| only, so it is evaluated on one quadrant (a quarter of the
+ * square roots and sines) and applied to all four; the cell response is a product of per-axis
+ * factors, so a row pair's multiplier is made once and the inner loop is a plain complex multiply.
+ * Without evanescent bins the band limit is a rectangle: rows beyond it are zeroed without being
+ * read, columns beyond it likewise, and the cut power is the total less what passes.
  */
 function multiplyTransfer(
   f: Field,
@@ -182,6 +187,7 @@ function multiplyTransfer(
   globalPhase: number,
   comp: PixelCompensation | undefined,
   spectrum: Float64Array,
+  total: number,
 ): { cut: number; evan: number } {
   const oneD = isOneD(f);
   const { nx, ny } = f;
@@ -192,45 +198,91 @@ function multiplyTransfer(
   const sin = new Float64Array(m + 1);
   const amp = new Float64Array(m + 1);
   const kind = new Uint8Array(m + 1);
+  // The row pair's multiplier before the row's own cell factor: amp·e^{iφ}/cell_x, per column.
+  const mr = new Float64Array(nx);
+  const mi = new Float64Array(nx);
   const src = spectrum;
   const d = f.data;
+  const half = oneD ? 0 : ny >> 1;
+  const fNyq2 = (0.5 / f.dx) ** 2 + (oneD ? 0 : (0.5 / f.dy) ** 2);
+  const evanescent = spec.kind === 'angular-spectrum' && fNyq2 * spec.wavelength * spec.wavelength >= 1;
+  const limX = spec.kind === 'angular-spectrum' ? spec.limit[0] : Infinity;
+  const limY = spec.kind === 'angular-spectrum' ? spec.limit[1] : Infinity;
+  // Columns 0..a and nx−a..nx−1 pass the band limit (the same in every row when nothing is evanescent).
+  let a = 0;
+  while (a < m && Math.abs(X.f[a + 1]!) <= limX) a++;
+  const passAll = a === m && Math.abs(X.f[m]!) <= limX;
   let cut = 0;
   let evan = 0;
-  const half = oneD ? 0 : ny >> 1;
+  let passed = 0;
+  let anyCut = !passAll;
   for (let q = 0; q <= half; q++) {
-    rowTransfer(spec, Y.f[q]!, X.f, m, globalPhase, cos, sin, amp, kind);
     // Rows q and ny − q see the same transfer (fy² equal); row 0 and row ny/2 have no mirror.
     const rows = oneD || q === 0 || q === half ? 1 : 2;
+    if (!evanescent && Math.abs(Y.f[q]!) > limY) {
+      anyCut = true;
+      for (let k = 0; k < rows; k++) {
+        const r = k === 0 ? q : ny - q;
+        d.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
+      }
+      continue;
+    }
+    rowTransfer(spec, Y.f[q]!, X.f, m, globalPhase, cos, sin, amp, kind);
+    for (let c = 0; c < nx; c++) {
+      const j = c <= m ? c : nx - c;
+      const s = amp[j]! / X.cell[c]!;
+      mr[c] = s * cos[j]!;
+      mi[c] = s * sin[j]!;
+    }
     for (let k = 0; k < rows; k++) {
       const r = k === 0 ? q : ny - q;
-      const cy = Y.cell[r]!;
+      const iy = 1 / Y.cell[r]!;
       const base = 2 * r * nx;
-      for (let c = 0; c < nx; c++) {
-        const j = c <= m ? c : nx - c;
-        const i = base + 2 * c;
-        const re = src[i]!;
-        const im = src[i + 1]!;
-        const kd = kind[j]!;
-        if (kd !== 0) {
-          const p = re * re + im * im;
+      if (evanescent) {
+        for (let c = 0; c < nx; c++) {
+          const kd = kind[c <= m ? c : nx - c]!;
+          if (kd === 0) continue;
+          const i = base + 2 * c;
+          const p = src[i]! * src[i]! + src[i + 1]! * src[i + 1]!;
           if (kd === 1) cut += p;
           else evan += p;
         }
-        const a = amp[j]!;
-        if (a === 0) {
-          d[i] = 0;
-          d[i + 1] = 0;
-        } else {
-          const s = a / (comp ? X.cell[c]! * cy : 1);
-          const cr = s * cos[j]!;
-          const sn = s * sin[j]!;
-          d[i] = re * cr - im * sn;
-          d[i + 1] = re * sn + im * cr;
-        }
+        multiplyRange(src, d, mr, mi, iy, base, 0, nx);
+      } else if (passAll) {
+        passed += multiplyRange(src, d, mr, mi, iy, base, 0, nx);
+      } else {
+        passed += multiplyRange(src, d, mr, mi, iy, base, 0, a + 1);
+        passed += multiplyRange(src, d, mr, mi, iy, base, nx - a, nx);
+        d.fill(0, base + 2 * (a + 1), base + 2 * (nx - a));
       }
     }
   }
+  if (!evanescent && anyCut) cut = Math.max(0, total - passed);
   return { cut, evan };
+}
+
+/** d = src·(mr + i·mi)·iy over columns c0..c1 of the row at `base`; returns Σ|src|² there. */
+function multiplyRange(
+  src: Float64Array,
+  d: Float64Array,
+  mr: Float64Array,
+  mi: Float64Array,
+  iy: number,
+  base: number,
+  c0: number,
+  c1: number,
+): number {
+  let p = 0;
+  for (let c = c0, i = base + 2 * c0; c < c1; c++, i += 2) {
+    const re = src[i]!;
+    const im = src[i + 1]!;
+    p += re * re + im * im;
+    const cr = mr[c]! * iy;
+    const sn = mi[c]! * iy;
+    d[i] = re * cr - im * sn;
+    d[i + 1] = re * sn + im * cr;
+  }
+  return p;
 }
 
 /**
@@ -246,7 +298,7 @@ export function propagateByTransfer(
 ): SpectralReport {
   const total = cached ? cached.totalPower : toSpectrum(f);
   const globalPhase = spec.kind === 'identity' ? 0 : propagationPhase(spec.z, spec.wavelength);
-  const { cut, evan } = multiplyTransfer(f, spec, globalPhase, comp, cached ? cached.data : f.data);
+  const { cut, evan } = multiplyTransfer(f, spec, globalPhase, comp, cached ? cached.data : f.data, total);
   fft2(f.data, f.nx, f.ny, true);
   return {
     bandLimitLoss: total > 0 ? cut / total : 0,

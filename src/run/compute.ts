@@ -90,7 +90,7 @@ interface Propagated {
  * The spectrum of the last shared source this thread computed (plans with sharedSpectrum): the
  * next case of the same sweep starts from it instead of building and transforming the source.
  */
-let kept: { key: string; spectrum: SourceSpectrum; powerIn: number } | null = null;
+let kept: { key: string; spectrum: SourceSpectrum; powerIn: number; work?: Float64Array } | null = null;
 
 /** Lets go of the kept spectrum (at the end of a run, so that a library caller gets the memory back). */
 export function releaseKeptSpectrum(): void {
@@ -129,10 +129,20 @@ function propagateOnGrid(
   return cutOut(grid, propagateByTransfer(grid, spec, comp, { data: grid.data, totalPower }), outX, outY);
 }
 
-/** The same from a kept spectrum: no source, no forward transform. */
-function propagateKept(spectrum: SourceSpectrum, plan: Plan, outX: Axis, outY: Axis | null, carrier: [number, number]): Propagated {
-  const grid = createField(fftAxis(plan.x.paddedSamples, plan.x.inputPitch), fftAxis(plan.y!.paddedSamples, plan.y!.inputPitch), plan.case.wavelength);
-  return cutOut(grid, propagateByTransfer(grid, transferFor(plan, grid), { carrier }, spectrum), outX, outY);
+/**
+ * The same from a kept spectrum: no source, no forward transform. The padded grid of the previous
+ * distance is written over (every sample of it is), which spares allocating and zeroing one.
+ */
+function propagateKept(plan: Plan, outX: Axis, outY: Axis | null, carrier: [number, number]): Propagated {
+  const k = kept!;
+  const xa = fftAxis(plan.x.paddedSamples, plan.x.inputPitch);
+  const ya = fftAxis(plan.y!.paddedSamples, plan.y!.inputPitch);
+  const grid =
+    k.work?.length === 2 * xa.n * ya.n
+      ? { data: k.work, nx: xa.n, ny: ya.n, dx: xa.step, dy: ya.step, x0: xa.start, y0: ya.start, wavelength: plan.case.wavelength }
+      : createField(xa, ya, plan.case.wavelength);
+  k.work = grid.data;
+  return cutOut(grid, propagateByTransfer(grid, transferFor(plan, grid), { carrier }, k.spectrum), outX, outY);
 }
 
 /**
@@ -233,10 +243,11 @@ export function computeCase(plan: Plan): ComputedCase {
     }
   } else if ((reused = fft && !!plan.sharedSpectrum && kept?.key === plan.sharedSpectrum.id)) {
     powerIn = kept!.powerIn;
-    result = propagateKept(kept!.spectrum, plan, outX, outY, carrier);
+    result = propagateKept(plan, outX, outY, carrier);
   } else {
-    // A kept spectrum of another source is of no further use: let it go before allocating.
-    kept = null;
+    // A kept spectrum of another shared source is of no further use: let it go before allocating.
+    // (Unshared cases, such as a search's extra propagations, leave it for the sweep's next case.)
+    if (plan.sharedSpectrum) kept = null;
     const { field: src, power } = sourceField2D(c.aperture, ill, sourceAxis(plan.x, fft), sourceAxis(plan.y!, fft), lam, opts);
     powerIn = power;
     const padded: [number, number] = [plan.x.paddedSamples, plan.y!.paddedSamples];

@@ -12,7 +12,9 @@ import { safeJoin, writeFileAtomic } from '../output/atomic.js';
 import { searchSentence } from './searches.js';
 import { gatherJob } from './gather.js';
 import { caseHash, readRecord, removeLeftovers, writeManifest, type Manifest } from './records.js';
-import { runTasks } from './scheduler.js';
+import { chooseParallelism, runTasks } from './scheduler.js';
+import { releaseKeptSpectrum } from './compute.js';
+import { shareSourceSpectra } from '../plan/share.js';
 import type { CaseTask } from './execute.js';
 import { assignShards, type ShardSpec } from './shard.js';
 import { lineReporter, silentReporter, type RunReporter } from './progress.js';
@@ -165,6 +167,9 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
     else todo.push({ plan: p, jobDir, hash });
   }
 
+  // Cases of a distance sweep on one grid share their source's spectrum (and count the memory it takes).
+  shareSourceSpectra(todo.map((t) => t.plan));
+
   // Memory guard: every case must fit, and as many run at once as the memory allows.
   const requested = Math.max(1, opts.workers ?? 1);
   const available = opts.availableMemoryBytes ?? availableMemory();
@@ -187,7 +192,11 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
     }
   }
 
+  // One case per worker thread, or the cases one at a time with their FFTs split across the threads.
+  const parallel = chooseParallelism(todo.map((t) => t.plan), requested, workers);
+  workers = parallel.workers;
   rep.jobStart(spec.name, jobDir, mine.length, outcome.skipped, workers);
+  if (parallel.note) rep.note(parallel.note);
   const save = () => writeManifest(jobDir, manifest, opts.shard ?? null);
   const fail = async (id: string, hash: string, error: string) => {
     outcome.failed.push({ case: id, error });
@@ -200,7 +209,7 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
   const heapMb = largest ? Math.ceil(largest.memoryBytes / 1024 ** 2) + 512 : undefined;
   const { interrupted } = await runTasks(
     todo,
-    { workers, ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}) },
+    { workers, threadsPerCase: parallel.threadsPerCase, ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}) },
     {
       start: (id) => rep.caseStart(id),
       done: async (d) => {
@@ -214,6 +223,7 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
       note: (line) => rep.note(line),
     },
   );
+  releaseKeptSpectrum();
   await save();
   outcome.done = Object.keys(manifest.completed).length;
   if (interrupted) outcome.interrupted = true;
