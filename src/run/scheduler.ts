@@ -1,5 +1,7 @@
 // Runs cases on worker threads (worker-threads-pool), one case per task, or in this thread when
-// one worker is asked for. A worker that dies fails only the case it had; a new one takes over.
+// one worker is asked for, or in this thread with an FFT team (src/parallel) when a few large cases
+// are better served by sharing each one's FFTs between the threads (chooseParallelism). A worker
+// that dies fails only the case it had; a new one takes over.
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import type { Worker } from 'node:worker_threads';
@@ -7,6 +9,8 @@ import Pool from 'worker-threads-pool';
 import { executeCase, type CaseDone, type CaseTask } from './execute.js';
 import { newSearchContext } from './searches.js';
 import type { FromWorker, ToWorker } from './worker.js';
+import type { Plan } from '../plan/types.js';
+import { startFftTeam, stopFftTeam, teamsAvailable, TEAM_MIN_VALUES } from '../parallel/fft-team.js';
 
 export interface SchedulerEvents {
   start(id: string): void;
@@ -21,6 +25,11 @@ export interface SchedulerOptions {
   /** Heap limit per worker (MB), from the largest case's memory estimate. */
   heapMb?: number;
   signal?: AbortSignal;
+  /**
+   * Threads sharing each case's large FFTs, this one included: the cases then run one after the
+   * other in this thread (workers is not used). Worker threads never start teams of their own.
+   */
+  threadsPerCase?: number;
 }
 
 const WORKER_FILE = new URL('./worker.js', import.meta.url);
@@ -30,12 +39,65 @@ export function workersAvailable(): boolean {
   return existsSync(fileURLToPath(WORKER_FILE));
 }
 
+export interface Parallelism {
+  /** Cases at once, one per worker thread. */
+  workers: number;
+  /** Threads per case (an FFT team) when the cases run one at a time here; 1 otherwise. */
+  threadsPerCase: number;
+  /**
+   * The choice and why, for the run's progress note, when the cases do not simply get one worker
+   * each (the job's first line gives the worker count; notes show even in --quiet runs).
+   */
+  note: string;
+}
+
+/** Does the case spend its time in 2-D FFTs large enough to share (fft2 on shared sample arrays)? */
+export function sharesFfts(p: Plan): boolean {
+  if (p.layout !== 'two-d' || !p.y) return false;
+  // The single-FFT Fresnel form transforms a working copy that is not in shared memory.
+  const fft = p.method === 'angular-spectrum' || (p.method === 'fresnel' && p.form === 'transfer-function');
+  return fft && p.x.paddedSamples * p.y.paddedSamples >= TEAM_MIN_VALUES;
+}
+
+/**
+ * How `requested` threads serve these cases. One case per worker thread, when there are at least
+ * as many cases as threads and `atOnce` (what the memory guard allows) lets them all run; else the
+ * cases one at a time in this thread, each case's large FFTs shared by all the threads, when the
+ * cases have such FFTs; else as many workers as there are cases and memory for.
+ */
+export function chooseParallelism(plans: Plan[], requested: number, atOnce: number): Parallelism {
+  const n = plans.length;
+  const cases = `${n} case${n === 1 ? '' : 's'}`;
+  const fallback = Math.max(1, Math.min(requested, atOnce, n));
+  if (requested <= 1 || n === 0) return { workers: 1, threadsPerCase: 1, note: '' };
+  if (n >= requested && atOnce >= requested) return { workers: requested, threadsPerCase: 1, note: '' };
+  const why = n < requested ? `${cases} for ${requested} threads` : `memory allows ${atOnce} case${atOnce === 1 ? '' : 's'} at a time`;
+  if (!plans.some(sharesFfts)) return { workers: fallback, threadsPerCase: 1, note: '' };
+  if (!teamsAvailable()) {
+    return { workers: fallback, threadsPerCase: 1, note: `${why}: splitting a case's FFTs across threads needs the built program (npm run build)` };
+  }
+  return { workers: 1, threadsPerCase: requested, note: `${why}: one case at a time, its FFTs split across ${requested} threads` };
+}
+
 export async function runTasks(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
+  if ((opts.threadsPerCase ?? 1) > 1 && tasks.length > 0) return runWithTeam(tasks, opts, ev);
   if (opts.workers <= 1 || tasks.length <= 1 || !workersAvailable()) {
     if (opts.workers > 1 && !workersAvailable()) ev.note?.('worker threads need the built program (npm run build); running the cases in this thread');
     return runHere(tasks, opts, ev);
   }
   return runOnWorkers(tasks, opts, ev);
+}
+
+/** The cases in this thread with an FFT team, which ends with the run, however the run ends. */
+async function runWithTeam(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
+  const asked = opts.threadsPerCase!;
+  try {
+    const got = await startFftTeam(asked, { onProblem: (m) => ev.note?.(m) });
+    if (got < asked) ev.note?.(`only ${got} of ${asked} threads could be started for the FFTs`);
+    return await runHere(tasks, opts, ev);
+  } finally {
+    await stopFftTeam();
+  }
 }
 
 async function runHere(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {

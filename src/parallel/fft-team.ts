@@ -1,0 +1,327 @@
+// An FFT team: this thread and helper threads share each large 2-D fft2, so that one big case uses
+// every core. The call stays synchronous: this thread posts the transform in the control block,
+// wakes the helpers, does parts itself, and waits (Atomics.wait) for the rest of the row pass and
+// then of the column pass. The protocol is in fft-work.ts; the helper's side in fft-helper.ts.
+//
+// Only arrays on a SharedArrayBuffer can be shared, so while a team runs, createField allocates
+// its large sample arrays there (optics/field.ts's allocator hook). Everything else — 1-D and small
+// transforms, data in ordinary memory — fft2 keeps doing in this thread.
+//
+// A helper that fails, or makes no progress for `stallMs`, does not stop the case: this thread
+// takes its parts over (their source is untouched, so the result is the same bits), stops the team
+// and goes on alone.
+import { existsSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { MessageChannel, Worker, type MessagePort } from 'node:worker_threads';
+import { installFft2Executor, isPowerOfTwo } from '../optics/fft.js';
+import { fastFftBackend } from '../optics/fft-fast.js';
+import { installSampleAllocator } from '../optics/field.js';
+import {
+  ABORT,
+  claimAndDo,
+  CONTROL_CELLS,
+  doPart,
+  DONE,
+  FAULT,
+  FREE,
+  HELPER_PARTS,
+  jobOf,
+  NEXT,
+  nextSeq,
+  partSizes,
+  REVOKED,
+  SEQ,
+  stateCell,
+  STOP,
+  WRITING,
+  WRITTEN,
+  type HelperFault,
+  type Job,
+  type JobMessage,
+  type PassIndex,
+} from './fft-work.js';
+import type { FromHelper, HelperData } from './fft-helper.js';
+
+const HELPER_FILE = new URL('./fft-helper.js', import.meta.url);
+
+/** Transforms of fewer complex values than this stay in one thread (the hand-off costs ~0.1 ms). */
+export const TEAM_MIN_VALUES = 2 ** 16;
+/** Sample arrays of at least this many complex values go to shared memory while a team runs. */
+export const SHARED_MIN_VALUES = 2 ** 18;
+/** No part finished for this long while helpers hold parts: they are taken to be lost. */
+const STALL_MS = 10_000;
+/** A helper that has not said it is ready by then is left out. */
+const READY_MS = 20_000;
+
+export interface TeamOptions {
+  /** Smallest transform (complex values) shared; default TEAM_MIN_VALUES. */
+  minValues?: number;
+  /** Smallest sample array (complex values) allocated in shared memory; default SHARED_MIN_VALUES. */
+  sharedMinValues?: number;
+  /** How long the caller waits without progress before it gives up on the helpers (ms). */
+  stallMs?: number;
+  /** Told, once, why the team stopped on its own (a helper lost). */
+  onProblem?: (message: string) => void;
+  /** For tests of the recovery: every helper shows this fault in its first part. */
+  faultForTests?: HelperFault;
+}
+
+export interface TeamFigures {
+  threads: number;
+  transforms: number;
+  partsByHelpers: number;
+  partsByCaller: number;
+  /** Transforms this thread finished alone after losing a helper. */
+  takeovers: number;
+  /** Why the team stopped on its own, if it did. */
+  problem?: string;
+}
+
+interface Helper {
+  worker: Worker;
+  port: MessagePort;
+  ready: boolean;
+  lost: boolean;
+}
+
+interface Team {
+  ctl: Int32Array;
+  helpers: Helper[];
+  scratch: SharedArrayBuffer | null;
+  seq: number;
+  minValues: number;
+  stallMs: number;
+  onProblem?: (message: string) => void;
+  figures: TeamFigures;
+  stopped: boolean;
+}
+
+let team: Team | null = null;
+let lastFigures: TeamFigures = { threads: 1, transforms: 0, partsByHelpers: 0, partsByCaller: 0, takeovers: 0 };
+
+/** Helper threads need the compiled helper module; from TypeScript sources (tests) there is none. */
+export function teamsAvailable(): boolean {
+  return existsSync(fileURLToPath(HELPER_FILE));
+}
+
+/** Threads sharing each large fft2 now, this one included (1: no team). */
+export function fftTeamSize(): number {
+  if (!team || team.stopped) return 1;
+  return 1 + team.helpers.filter((h) => !h.lost).length;
+}
+
+/** What the present team (or the last one) has done. */
+export function fftTeamFigures(): TeamFigures {
+  if (team) team.figures.partsByHelpers = Atomics.load(team.ctl, HELPER_PARTS);
+  return { ...(team ? team.figures : lastFigures) };
+}
+
+/**
+ * Starts a team of `threads` threads in all, this one included, and routes fft2 through it at once
+ * (parts go to the helpers as they become ready). Resolves to the number of threads ready, which
+ * is 1 when no helper could start or the compiled helper module is missing (then nothing changes).
+ * A team already running is stopped first.
+ */
+export async function startFftTeam(threads: number, opts: TeamOptions = {}): Promise<number> {
+  await stopFftTeam();
+  const n = Math.floor(threads);
+  if (!(n > 1) || !teamsAvailable()) return 1;
+  const ctl = new Int32Array(new SharedArrayBuffer(4 * CONTROL_CELLS));
+  const t: Team = {
+    ctl,
+    helpers: [],
+    scratch: null,
+    seq: 0,
+    minValues: opts.minValues ?? TEAM_MIN_VALUES,
+    stallMs: opts.stallMs ?? STALL_MS,
+    ...(opts.onProblem ? { onProblem: opts.onProblem } : {}),
+    figures: { threads: n, transforms: 0, partsByHelpers: 0, partsByCaller: 0, takeovers: 0 },
+    stopped: false,
+  };
+  team = t;
+  const readies: Promise<void>[] = [];
+  for (let k = 1; k < n; k++) {
+    const { port1, port2 } = new MessageChannel();
+    const data: HelperData = { control: ctl.buffer as SharedArrayBuffer, port: port2, ...(opts.faultForTests ? { fault: opts.faultForTests } : {}) };
+    let worker: Worker;
+    try {
+      worker = new Worker(fileURLToPath(HELPER_FILE), { workerData: data, transferList: [port2] });
+    } catch (e) {
+      port1.close();
+      giveUp(t, `an FFT helper thread could not start: ${(e as Error).message}`);
+      break;
+    }
+    // A library caller's process must be able to end while the team waits for work.
+    worker.unref();
+    port1.unref();
+    const h: Helper = { worker, port: port1, ready: false, lost: false };
+    t.helpers.push(h);
+    readies.push(
+      new Promise<void>((resolve) => {
+        const timer = setTimeout(resolve, READY_MS);
+        timer.unref();
+        const lost = (why: string) => {
+          clearTimeout(timer);
+          resolve();
+          if (h.lost) return;
+          h.lost = true;
+          if (!t.stopped) giveUp(t, `an FFT helper thread stopped (${why}); going on in one thread`);
+        };
+        worker.on('message', (m: FromHelper) => {
+          if (m.type === 'ready') {
+            h.ready = true;
+            clearTimeout(timer);
+            resolve();
+          } else lost(m.error);
+        });
+        worker.on('error', (e) => lost(e.message));
+        worker.on('exit', (code) => lost(`exit code ${code}`));
+      }),
+    );
+  }
+  if (t.stopped) return 1;
+  installFft2Executor((d, nx, ny, inverse) => execute(t, d, nx, ny, inverse));
+  const sharedMin = 2 * (opts.sharedMinValues ?? SHARED_MIN_VALUES);
+  installSampleAllocator((values) => (values >= sharedMin ? new Float64Array(new SharedArrayBuffer(8 * values)) : null));
+  await Promise.all(readies);
+  return fftTeamSize();
+}
+
+/** Stops the team (fft2 is back to this thread at once); resolves when the helpers have ended. */
+export async function stopFftTeam(): Promise<void> {
+  const t = team;
+  if (!t) return;
+  const ends = halt(t);
+  team = null;
+  await ends;
+}
+
+/** Takes the team out of service and ends its threads. */
+function halt(t: Team): Promise<unknown> {
+  if (!t.stopped) {
+    t.stopped = true;
+    installFft2Executor(null);
+    installSampleAllocator(null);
+    Atomics.store(t.ctl, STOP, 1);
+    Atomics.notify(t.ctl, SEQ);
+    t.figures.partsByHelpers = Atomics.load(t.ctl, HELPER_PARTS);
+    lastFigures = t.figures;
+  }
+  return Promise.all(t.helpers.map((h) => h.worker.terminate().catch(() => undefined)));
+}
+
+function giveUp(t: Team, why: string): void {
+  if (t.stopped) return;
+  t.figures.problem = why;
+  void halt(t);
+  t.onProblem?.(why);
+}
+
+function execute(t: Team, data: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
+  if (t.stopped || ny < 2 || !isPowerOfTwo(nx) || !isPowerOfTwo(ny) || data.length !== 2 * nx * ny) return false;
+  if (nx * ny < t.minValues || !(data.buffer instanceof SharedArrayBuffer)) return false;
+  const live = t.helpers.filter((h) => !h.lost);
+  if (live.length === 0) return false;
+  const { rowsPer, colsPer } = partSizes(nx, ny, live.length + 1);
+  const parts: [number, number] = [Math.ceil(ny / rowsPer), Math.ceil(nx / colsPer)];
+  if (parts[0] < 2 || parts[1] < 2) return false;
+
+  const values = 2 * nx * ny;
+  if (!t.scratch || t.scratch.byteLength < 8 * values) t.scratch = new SharedArrayBuffer(8 * values);
+  const ctl = t.ctl;
+  const seq = (t.seq = nextSeq(t.seq));
+  const tag = seq << 3;
+  for (const pass of [0, 1] as PassIndex[]) {
+    for (let i = 0; i < parts[pass]; i++) Atomics.store(ctl, stateCell(pass, i), tag | FREE);
+    Atomics.store(ctl, NEXT + pass, 0);
+    Atomics.store(ctl, DONE + pass, 0);
+  }
+  Atomics.store(ctl, ABORT, 0);
+  const message: JobMessage = {
+    seq, nx, ny, inverse, backend: fastFftBackend(), rowsPer, colsPer,
+    data: data.buffer, dataOffset: data.byteOffset, scratch: t.scratch,
+  };
+  for (const h of live) h.port.postMessage(message);
+  // The message is queued before the number changes, so a helper that sees the number finds it.
+  Atomics.store(ctl, SEQ, seq);
+  Atomics.notify(ctl, SEQ);
+
+  const job = jobOf(message);
+  let alone: string | null = null;
+  for (const pass of [0, 1] as PassIndex[]) {
+    if (alone === null) alone = share(t, job, pass);
+    else finishAlone(t, job, pass);
+  }
+  t.figures.transforms++;
+  if (alone !== null) {
+    t.figures.takeovers++;
+    giveUp(t, alone);
+  }
+  return true;
+}
+
+/** This thread's side of one pass; null when it went well, else why it had to finish alone. */
+function share(t: Team, job: Job, pass: PassIndex): string | null {
+  const ctl = t.ctl;
+  const n = job.parts[pass];
+  for (;;) {
+    const i = Atomics.add(ctl, NEXT + pass, 1);
+    if (i >= n) break;
+    if (claimAndDo(ctl, job, pass, i)) t.figures.partsByCaller++;
+  }
+  // parts whose number a helper still busy with an earlier transform drew from the counter
+  const free = (job.seq << 3) | FREE;
+  for (let i = 0; i < n; i++) {
+    if (Atomics.load(ctl, stateCell(pass, i)) === free && claimAndDo(ctl, job, pass, i)) t.figures.partsByCaller++;
+  }
+  let done = Atomics.load(ctl, DONE + pass);
+  let since = Date.now();
+  while (done < n) {
+    if (Atomics.load(ctl, FAULT) !== 0) return abandon(t, job, pass, 'an FFT helper thread failed; going on in one thread');
+    Atomics.wait(ctl, DONE + pass, done, 20);
+    const now = Atomics.load(ctl, DONE + pass);
+    if (now !== done) {
+      done = now;
+      since = Date.now();
+    } else if (Date.now() - since > t.stallMs) {
+      return abandon(t, job, pass, `an FFT helper thread did not answer for ${t.stallMs / 1000} s; going on in one thread`);
+    }
+  }
+  return null;
+}
+
+function abandon(t: Team, job: Job, pass: PassIndex, why: string): string {
+  Atomics.store(t.ctl, ABORT, 1);
+  Atomics.notify(t.ctl, DONE);
+  finishAlone(t, job, pass);
+  return why;
+}
+
+/**
+ * Does every part of the pass that is not written yet, after revoking it so that no helper can
+ * write it any more. A part being written is waited for; one that stays half-written for stallMs
+ * belongs to a helper that died writing it, and is done again over what it left.
+ */
+function finishAlone(t: Team, job: Job, pass: PassIndex): void {
+  const ctl = t.ctl;
+  const tag = job.seq << 3;
+  for (let i = 0; i < job.parts[pass]; i++) {
+    const at = stateCell(pass, i);
+    let waited = 0;
+    for (;;) {
+      const s = Atomics.load(ctl, at);
+      if (s === (tag | WRITTEN)) break;
+      if (s === (tag | WRITING) && waited < t.stallMs) {
+        const t0 = Date.now();
+        Atomics.wait(ctl, at, s, Math.min(50, t.stallMs - waited));
+        waited += Math.max(1, Date.now() - t0);
+        continue;
+      }
+      if (s === (tag | REVOKED) || Atomics.compareExchange(ctl, at, s, tag | REVOKED) === s) {
+        doPart(job, pass, i);
+        t.figures.partsByCaller++;
+        break;
+      }
+    }
+  }
+}
