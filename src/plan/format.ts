@@ -31,7 +31,11 @@ export function formatPlan(p: Plan): string {
       `  grid ${name}       ${a.inputSamples}${a.paddedSamples !== a.inputSamples ? ` (padded ${a.paddedSamples})` : ''} samples at ${len(a.inputPitch)}; window ${len(2 * a.windowHalf)} as ${a.output.n} samples at ${len(a.output.step)}`,
     );
   }
-  lines.push(`  memory       about ${bytes(p.memoryBytes)}`);
+  const fftGrid = p.x.paddedSamples !== p.x.inputSamples && p.layout === 'two-d';
+  lines.push(
+    `  memory       about ${bytes(p.memoryBytes)} at peak` +
+      (fftGrid ? ` (source, padded grid, the FFT's working copy${p.sharedSpectrum ? ', the kept source spectrum' : ''}, window)` : ''),
+  );
   if (p.sharedSpectrum) {
     lines.push(`  shared       the source's spectrum is computed once for the ${p.sharedSpectrum.cases} cases on this grid (source ${p.sharedSpectrum.id})`);
   }
