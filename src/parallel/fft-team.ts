@@ -145,39 +145,40 @@ export async function startFftTeam(threads: number, opts: TeamOptions = {}): Pro
     const data: HelperData = { control: ctl.buffer as SharedArrayBuffer, port: port2, ...(opts.faultForTests ? { fault: opts.faultForTests } : {}) };
     let worker: Worker;
     try {
-      worker = new Worker(fileURLToPath(HELPER_FILE), { workerData: data, transferList: [port2] });
+      worker = new Worker(fileURLToPath(HELPER_FILE), { workerData: data, transferList: [port2], execArgv: helperExecArgv() });
     } catch (e) {
       port1.close();
       giveUp(t, `an FFT helper thread could not start: ${(e as Error).message}`);
       break;
     }
-    // A library caller's process must be able to end while the team waits for work.
-    worker.unref();
     port1.unref();
     const h: Helper = { worker, port: port1, ready: false, lost: false };
     t.helpers.push(h);
-    readies.push(
-      new Promise<void>((resolve) => {
-        const timer = setTimeout(resolve, READY_MS);
-        timer.unref();
-        const lost = (why: string) => {
+    const ready = new Promise<void>((resolve) => {
+      const timer = setTimeout(resolve, READY_MS);
+      timer.unref();
+      const lost = (why: string) => {
+        clearTimeout(timer);
+        resolve();
+        if (h.lost) return;
+        h.lost = true;
+        if (!t.stopped) giveUp(t, `an FFT helper thread stopped (${why}); going on in one thread`);
+      };
+      worker.on('message', (m: FromHelper) => {
+        if (m.type === 'ready') {
+          h.ready = true;
           clearTimeout(timer);
           resolve();
-          if (h.lost) return;
-          h.lost = true;
-          if (!t.stopped) giveUp(t, `an FFT helper thread stopped (${why}); going on in one thread`);
-        };
-        worker.on('message', (m: FromHelper) => {
-          if (m.type === 'ready') {
-            h.ready = true;
-            clearTimeout(timer);
-            resolve();
-          } else lost(m.error);
-        });
-        worker.on('error', (e) => lost(e.message));
-        worker.on('exit', (code) => lost(`exit code ${code}`));
-      }),
-    );
+        } else lost(m.error);
+      });
+      worker.on('error', (e) => lost(e.message));
+      worker.on('exit', (code) => lost(`exit code ${code}`));
+    });
+    // A library caller's process must be able to end while the team waits for work, but not
+    // before the helpers have started (startFftTeam is awaited). Listeners added after unref()
+    // would hold the process again, so it comes after them.
+    void ready.then(() => worker.unref());
+    readies.push(ready);
   }
   if (t.stopped) return 1;
   installFft2Executor((d, nx, ny, inverse) => execute(t, d, nx, ny, inverse));
@@ -194,6 +195,22 @@ export async function stopFftTeam(): Promise<void> {
   const ends = halt(t);
   team = null;
   await ends;
+}
+
+/**
+ * The caller's Node options minus those about the main script (`node --input-type=module -e …`
+ * would otherwise stop a helper before it starts).
+ */
+function helperExecArgv(): string[] {
+  const out: string[] = [];
+  const a = process.execArgv;
+  for (let i = 0; i < a.length; i++) {
+    const o = a[i]!;
+    if (o === '-e' || o === '--eval' || o === '-p' || o === '--print') i++;
+    else if (o === '--input-type') i++;
+    else if (!o.startsWith('--input-type=') && !o.startsWith('--eval=') && !o.startsWith('--print=')) out.push(o);
+  }
+  return out;
 }
 
 /** Takes the team out of service and ends its threads. */

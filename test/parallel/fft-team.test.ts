@@ -1,0 +1,157 @@
+// An FFT team (src/parallel) against the transform of one thread: the same bits for every 2-D
+// size, both directions and both kernels (a parallel split of a deterministic kernel must not
+// change the arithmetic: common practice, hence exact equality rather than a tolerance; the
+// one-thread transform itself is checked against fft.js and the DFT definition in
+// test/optics/fft-fast.test.ts). Also: what the team declines, where samples are allocated, and
+// that a helper that dies, hangs or fails neither hangs the caller nor changes the result.
+import { spawnSync } from 'node:child_process';
+import { afterEach, beforeAll, describe, expect, it } from 'vitest';
+import * as sourceTeam from '../../src/parallel/fft-team.js';
+import { fromDist, distFile, type FastModule, type FftModule, type FieldModule, type KernelsModule, type TeamModule } from './dist.js';
+import { randomComplex, sameBits, sharedCopy } from './fft-data.js';
+
+let team: TeamModule;
+let fft: FftModule;
+let fast: FastModule;
+let field: FieldModule;
+
+beforeAll(async () => {
+  team = await fromDist<TeamModule>('parallel/fft-team.js');
+  fft = await fromDist<FftModule>('optics/fft.js');
+  fast = await fromDist<FastModule>('optics/fft-fast.js');
+  field = await fromDist<FieldModule>('optics/field.js');
+  expect((await fromDist<KernelsModule>('kernels.js')).loadFastKernels()).toBe(true);
+});
+
+afterEach(async () => {
+  await team.stopFftTeam();
+  fast.useFastFftBackend('wasm-simd');
+});
+
+/** One thread's transform of a copy of x. */
+function serial(x: Float64Array, nx: number, ny: number, inverse: boolean): Float64Array {
+  const y = x.slice();
+  fast.fft2Interleaved(y, nx, ny, inverse);
+  return y;
+}
+
+/** The team's transform (through fft2, as the program calls it) of a shared copy of x. */
+function viaTeam(x: Float64Array, nx: number, ny: number, inverse: boolean): Float64Array {
+  const y = sharedCopy(x);
+  fft.fft2(y, nx, ny, inverse);
+  return y;
+}
+
+describe('where teams can start', () => {
+  it('from the compiled program, yes; from the TypeScript sources, no team and nothing changes', async () => {
+    expect(team.teamsAvailable()).toBe(true);
+    expect(sourceTeam.teamsAvailable()).toBe(false);
+    expect(await sourceTeam.startFftTeam(2)).toBe(1);
+    expect(sourceTeam.fftTeamSize()).toBe(1);
+  });
+});
+
+describe.each(['wasm-simd', 'js'] as const)('%s kernel: a team of 2 equals one thread bit for bit', (backend) => {
+  const shapes: [number, number][] = [[64, 128], [256, 256], [512, 256], [128, 32]];
+  for (const inverse of [false, true]) {
+    it(`${shapes.map(([a, b]) => `${a}×${b}`).join(', ')}, ${inverse ? 'inverse' : 'forward'}`, async () => {
+      fast.useFastFftBackend(backend);
+      expect(await team.startFftTeam(2, { minValues: 1024 })).toBe(2);
+      // The helper may wake late for the first transforms; repeat until it has done parts.
+      for (let round = 0; round < 50; round++) {
+        for (const [nx, ny] of shapes) {
+          const x = randomComplex(nx * ny, 13 * nx + ny + round);
+          expect(sameBits(viaTeam(x, nx, ny, inverse), serial(x, nx, ny, inverse)), `${nx}×${ny} round ${round}`).toBe(true);
+        }
+        if (team.fftTeamFigures().partsByHelpers > 0) break;
+      }
+      const f = team.fftTeamFigures();
+      expect(f.transforms).toBeGreaterThanOrEqual(shapes.length);
+      expect(f.partsByHelpers).toBeGreaterThan(0);
+      expect(f.partsByCaller).toBeGreaterThan(0);
+      expect(f.takeovers).toBe(0);
+    });
+  }
+});
+
+describe('what the team leaves to one thread', () => {
+  it('1-D transforms, transforms below the size threshold, and data not in shared memory', async () => {
+    expect(await team.startFftTeam(2, { minValues: 2 ** 14 })).toBe(2);
+    const cases: [string, Float64Array, number, number][] = [
+      ['1-D', sharedCopy(randomComplex(2 ** 16, 1)), 2 ** 16, 1],
+      ['small', sharedCopy(randomComplex(64 * 128, 2)), 64, 128],
+      ['not shared', randomComplex(256 * 256, 3), 256, 256],
+    ];
+    for (const [what, x, nx, ny] of cases) {
+      const ref = serial(x, nx, ny, false);
+      fft.fft2(x, nx, ny, false);
+      expect(sameBits(x, ref), what).toBe(true);
+    }
+    expect(team.fftTeamFigures().transforms).toBe(0);
+    // and the one that qualifies is taken
+    const x = randomComplex(256 * 256, 4);
+    expect(sameBits(viaTeam(x, 256, 256, false), serial(x, 256, 256, false))).toBe(true);
+    expect(team.fftTeamFigures().transforms).toBe(1);
+  });
+
+  it('errors stay those of one thread (sizes not powers of two, wrong lengths)', async () => {
+    await team.startFftTeam(2, { minValues: 16 });
+    expect(() => fft.fft2(new Float64Array(new SharedArrayBuffer(8 * 2 * 12 * 8)), 12, 8, false)).toThrow(/powers of two/);
+    expect(() => fft.fft2(new Float64Array(new SharedArrayBuffer(8 * 30)), 4, 4, false)).toThrow(/values for a 4×4/);
+  });
+
+  it('large sample arrays are shared while a team runs, small ones and all after it are not', async () => {
+    const big = () => field.createField({ n: 512, start: 0, step: 1 }, { n: 512, start: 0, step: 1 }, 1e-6).data.buffer;
+    const small = () => field.createField({ n: 64, start: 0, step: 1 }, { n: 64, start: 0, step: 1 }, 1e-6).data.buffer;
+    expect(big()).toBeInstanceOf(ArrayBuffer);
+    await team.startFftTeam(2);
+    expect(big()).toBeInstanceOf(SharedArrayBuffer);
+    expect(small()).toBeInstanceOf(ArrayBuffer);
+    await team.stopFftTeam();
+    expect(big()).toBeInstanceOf(ArrayBuffer);
+    expect(team.fftTeamSize()).toBe(1);
+  });
+});
+
+describe('a helper that is lost mid-transform', () => {
+  const faults = ['exit-after-claim', 'hang-after-claim', 'exit-while-writing', 'throw'] as const;
+  it.each(faults)('%s: the caller finishes alone, with the same bits, stops the team and says why', async (fault) => {
+    const problems: string[] = [];
+    expect(await team.startFftTeam(2, { minValues: 1024, stallMs: 200, faultForTests: fault, onProblem: (m) => problems.push(m) })).toBe(2);
+    const [nx, ny] = [512, 256];
+    let rounds = 0;
+    // The fault shows in the helper's first part; until the helper takes one, the caller does all.
+    while (team.fftTeamFigures().takeovers === 0 && rounds < 100) {
+      const x = randomComplex(nx * ny, 100 + rounds++);
+      expect(sameBits(viaTeam(x, nx, ny, rounds % 2 === 0), serial(x, nx, ny, rounds % 2 === 0)), `round ${rounds}`).toBe(true);
+    }
+    const f = team.fftTeamFigures();
+    expect(f.takeovers).toBe(1);
+    expect(f.problem).toMatch(fault === 'throw' ? /failed/ : /did not answer for 0.2 s/);
+    expect(problems).toEqual([f.problem]);
+    expect(team.fftTeamSize()).toBe(1);
+    // fft2 is back to one thread and still right
+    const x = randomComplex(nx * ny, 7);
+    expect(sameBits(viaTeam(x, nx, ny, false), serial(x, nx, ny, false))).toBe(true);
+    expect(team.fftTeamFigures().transforms).toBe(f.transforms);
+  });
+});
+
+it("a library caller's process ends although its team was never stopped", () => {
+  const script = `
+    const { loadFastKernels } = await import(${JSON.stringify(distFile('kernels.js'))});
+    const { fft2 } = await import(${JSON.stringify(distFile('optics/fft.js'))});
+    const { startFftTeam, fftTeamFigures } = await import(${JSON.stringify(distFile('parallel/fft-team.js'))});
+    loadFastKernels();
+    console.log(await startFftTeam(2, { onProblem: (m) => console.error(m) }));
+    const d = new Float64Array(new SharedArrayBuffer(8 * 2 * 512 * 512));
+    d[0] = 1;
+    fft2(d, 512, 512, false);
+    console.log(fftTeamFigures().transforms, d[2 * 1000 + 1] === 0 && d[2 * 1000] === 1);
+  `;
+  const r = spawnSync(process.execPath, ['--input-type=module', '-e', script], { encoding: 'utf8', timeout: 20_000 });
+  expect(r.stderr).toBe('');
+  expect(r.status).toBe(0);
+  // a unit impulse at the origin transforms to all ones (DFT definition)
+  expect(r.stdout.trim().split('\n')).toEqual(['2', '1 true']);
+});
