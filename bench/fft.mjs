@@ -12,7 +12,16 @@
 import { spawnSync } from 'node:child_process';
 import { fft2Reference as fft2 } from '../dist/src/optics/fft.js';
 import { loadFastKernels } from '../dist/src/kernels.js';
+import { fft2 as fft2Program } from '../dist/src/optics/fft.js';
 import { fft2Interleaved, fft2Split, useFastFftBackend, fastFftBackend } from '../dist/src/optics/fft-fast.js';
+
+// FFT teams (one transform shared by threads) exist from the build that has src/parallel.
+let team = null;
+try {
+  team = await import('../dist/src/parallel/fft-team.js');
+} catch {
+  team = null;
+}
 
 const args = process.argv.slice(2);
 const opt = (name, dflt) => (args.includes(name) ? args[args.indexOf(name) + 1] : dflt);
@@ -30,26 +39,26 @@ const median = (xs) => {
 const scipyScript = `
 import json, sys, time
 import numpy as np, scipy, scipy.fft
-n, runs = int(sys.argv[1]), int(sys.argv[2])
+n, runs, workers = int(sys.argv[1]), int(sys.argv[2]), int(sys.argv[3])
 rng = np.random.default_rng(1)
 a = rng.random((n, n)) - 0.5 + 1j * (rng.random((n, n)) - 0.5)
-for _ in range(2): scipy.fft.fft2(a, workers=1)
+for _ in range(2): scipy.fft.fft2(a, workers=workers)
 ts = []
 for _ in range(runs):
-    t = time.perf_counter(); scipy.fft.fft2(a, workers=1); ts.append((time.perf_counter() - t) * 1e3)
+    t = time.perf_counter(); scipy.fft.fft2(a, workers=workers); ts.append((time.perf_counter() - t) * 1e3)
 ts.sort()
 print(json.dumps({"median": ts[len(ts) // 2] if len(ts) % 2 else (ts[len(ts)//2 - 1] + ts[len(ts)//2]) / 2, "min": ts[0], "version": scipy.__version__}))
 `;
 
 let scipyNote = null;
-function scipyTime(n, runs) {
+function scipyTime(n, runs, workers = 1) {
   if (!withScipy || scipyNote) return null;
   const env = { ...process.env };
   // Settings some machines need for old BLAS builds; they slow a current numpy (not its FFT, but
   // unset them for this command alone anyway).
   delete env.OPENBLAS_CORETYPE;
   delete env.OPENBLAS_L2_SIZE;
-  const r = spawnSync('python3', ['-c', scipyScript, String(n), String(runs)], { env, encoding: 'utf8' });
+  const r = spawnSync('python3', ['-c', scipyScript, String(n), String(runs), String(workers)], { env, encoding: 'utf8' });
   if (r.status !== 0) {
     scipyNote = `SciPy not timed: ${(r.stderr || r.error?.message || 'python3 failed').trim().split('\n').pop()}`;
     return null;
@@ -69,6 +78,9 @@ function relDiff(ref, got) {
 
 loadFastKernels();
 const hasWasm = fastFftBackend() === 'wasm-simd';
+// A team of 2 for the shared variant; the one-thread variants call the kernels directly, and data
+// in ordinary memory never goes to the team anyway.
+const threads = team && hasWasm ? await team.startFftTeam(2) : 1;
 const rows = [];
 for (const n of sizes) {
   const N = n * n;
@@ -88,6 +100,8 @@ for (const n of sizes) {
   const re = new Float64Array(N);
   const im = new Float64Array(N);
   const inter = () => d.set(orig);
+  const dShared = threads > 1 ? new Float64Array(new SharedArrayBuffer(16 * N)) : null;
+  const interShared = () => dShared.set(orig);
   const split = () => {
     re.set(origRe);
     im.set(origIm);
@@ -99,6 +113,9 @@ for (const n of sizes) {
           { name: 'wasm interleaved', backend: 'wasm-simd', setup: inter, run: () => fft2Interleaved(d, n, n, false) },
           { name: 'wasm split', backend: 'wasm-simd', setup: split, run: () => fft2Split(re, im, n, n, false) },
         ]
+      : []),
+    ...(dShared
+      ? [{ name: `wasm, ${threads} threads`, backend: 'wasm-simd', setup: interShared, out: dShared, run: () => fft2Program(dShared, n, n, false) }]
       : []),
     { name: 'ts interleaved', backend: 'js', setup: inter, run: () => fft2Interleaved(d, n, n, false) },
     { name: 'ts split', backend: 'js', setup: split, run: () => fft2Split(re, im, n, n, false) },
@@ -112,7 +129,7 @@ for (const n of sizes) {
     useFastFftBackend(v.backend);
     v.setup();
     v.run();
-    let got = d;
+    let got = v.out ?? d;
     if (v.setup === split) {
       got = new Float64Array(2 * N);
       for (let i = 0; i < N; i++) {
@@ -137,7 +154,14 @@ for (const n of sizes) {
     }
   }
   const sp = scipyTime(n, runs);
-  const row = { n, runs, scipy: sp ? { medianMs: sp.median, minMs: sp.min, version: sp.version } : null, variants: {} };
+  const sp2 = threads > 1 ? scipyTime(n, runs, 2) : null;
+  const row = {
+    n,
+    runs,
+    scipy: sp ? { medianMs: sp.median, minMs: sp.min, version: sp.version } : null,
+    scipy2: sp2 ? { medianMs: sp2.median, minMs: sp2.min, version: sp2.version } : null,
+    variants: {},
+  };
   variants.forEach((v, k) => {
     row.variants[v.name] = { medianMs: median(times[k]), minMs: Math.min(...times[k]), maxRelDiffVsFftJs: v.diff ?? 0 };
   });
@@ -148,16 +172,19 @@ for (const n of sizes) {
 function printRow(row) {
   const f = (x) => x.toFixed(1).padStart(8);
   if (row === rows[0]) {
-    console.log(`2-D complex FFT, n×n, forward, one thread; median (min) ms over the runs shown; max |Δ|/max|x| vs fft.js`);
+    console.log(`2-D complex FFT, n×n, forward, one thread (and a team of threads where said); median (min) ms over the runs shown; max |Δ|/max|x| vs fft.js`);
   }
   console.log(`\n${row.n}×${row.n} (${row.runs} runs)`);
   for (const [name, v] of Object.entries(row.variants)) {
-    const ratio = row.scipy ? `  ${(v.medianMs / row.scipy.medianMs).toFixed(2)}× SciPy` : '';
+    const yard = name.includes('threads') ? row.scipy2 : row.scipy;
+    const ratio = yard ? `  ${(v.medianMs / yard.medianMs).toFixed(2)}× SciPy${name.includes('threads') ? ' workers=2' : ''}` : '';
     const diff = name === 'fft.js fft2' ? '' : `  Δ ${v.maxRelDiffVsFftJs.toExponential(1)}`;
     console.log(`  ${name.padEnd(18)}${f(v.medianMs)} (${v.minMs.toFixed(1)})${ratio}${diff}`);
   }
   if (row.scipy) console.log(`  ${`SciPy ${row.scipy.version}`.padEnd(18)}${f(row.scipy.medianMs)} (${row.scipy.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=1)`);
+  if (row.scipy2) console.log(`  ${`SciPy ${row.scipy2.version}`.padEnd(18)}${f(row.scipy2.medianMs)} (${row.scipy2.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=2)`);
 }
 
-if (json) console.log(JSON.stringify({ rows, scipyNote }, null, 2));
+if (threads > 1) await team.stopFftTeam();
+if (json) console.log(JSON.stringify({ rows, scipyNote, threads }, null, 2));
 else if (scipyNote) console.log(`\n${scipyNote}`);
