@@ -444,6 +444,7 @@ interface WasmMemory {
 declare const WebAssembly: {
   Module: new (bytes: Uint8Array) => object;
   Instance: new (module: object, imports: object) => { exports: unknown };
+  Memory: new (d: { initial: number; maximum: number; shared: boolean }) => WasmMemory;
 };
 
 type Pass = (
@@ -488,6 +489,7 @@ export function installWasmFft(bytes: Uint8Array | null, whyMissing = 'fft.wasm 
   try {
     const instance = new WebAssembly.Instance(new WebAssembly.Module(bytes), {});
     wasm = instance.exports as unknown as WasmFft;
+    moduleBytes = bytes;
     backend = 'wasm-simd';
     return true;
   } catch (e) {
@@ -671,4 +673,199 @@ function copyOut(dst: Float64Array, to: number, len: number, from: number): void
   }
   const h = heap;
   for (let i = 0; i < len; i++) dst[to + i] = h[from + i];
+}
+
+// ---- the WebAssembly kernel in memory shared between threads ----------------------------------
+//
+// For threads that share one transform (src/parallel): every thread instantiates the kernel on one
+// shared WebAssembly memory, so that the passes run in place on one padded copy of the data, as
+// fft2Interleaved does in one thread, with no copies between the threads' memories. The data is
+// copied in row by row as the rows are transformed (sharedRowsIn), the columns are transformed in
+// place (sharedColumns), and the result is copied out row by row (sharedRowsOut). Same kernel,
+// same layout (padded rows), same arithmetic: all parts together give fft2Interleaved's result.
+
+/** The compiled module's bytes, kept to instantiate it again on a shared memory. */
+let moduleBytes: Uint8Array | null = null;
+
+/** Pages of the shared memory at most (the 4 GiB of 32-bit WebAssembly). */
+const SHARED_MAX_PAGES = 65536;
+
+interface SharedKernel {
+  memory: WasmMemory;
+  w: WasmFft;
+  heap: Float64Array;
+}
+
+let shared: SharedKernel | null = null;
+
+/**
+ * The module rewritten to take its memory from the importer ("env", "memory", shared) instead of
+ * declaring its own: the memory section goes, an import section with the memory comes after the
+ * type section. The kernel itself has no data segments and no memory-size assumptions (the
+ * JavaScript side lays everything out), so nothing else changes.
+ */
+function importingSharedMemory(bytes: Uint8Array): Uint8Array {
+  const leb = (n: number) => {
+    const out: number[] = [];
+    do {
+      let b = n & 0x7f;
+      n >>>= 7;
+      if (n) b |= 0x80;
+      out.push(b);
+    } while (n);
+    return out;
+  };
+  const name = (t: string) => [...leb(t.length), ...[...t].map((c) => c.charCodeAt(0))];
+  const entry = [...name('env'), ...name('memory'), 0x02, 0x03, ...leb(1), ...leb(SHARED_MAX_PAGES)];
+  const importSection = [0x02, ...leb(entry.length + 1), 0x01, ...entry];
+  const out: number[] = [...bytes.subarray(0, 8)];
+  let p = 8;
+  let placed = false;
+  while (p < bytes.length) {
+    const id = bytes[p]!;
+    let q = p + 1, size = 0, shift = 0, b: number;
+    do {
+      b = bytes[q++]!;
+      size |= (b & 0x7f) << shift;
+      shift += 7;
+    } while (b & 0x80);
+    const end = q + size;
+    if (id === 2) throw new Error('the kernel module already has imports');
+    if (!placed && id !== 1 && id !== 0) {
+      out.push(...importSection);
+      placed = true;
+    }
+    if (id !== 5) out.push(...bytes.subarray(p, end));
+    p = end;
+  }
+  return new Uint8Array(out);
+}
+
+/**
+ * A memory for a team's transforms, shared between threads (post it to them); null when the
+ * WebAssembly kernel is not installed or shared memory cannot be had.
+ */
+export function createSharedFftMemory(): object | null {
+  if (!moduleBytes) return null;
+  try {
+    return new WebAssembly.Memory({ initial: 1, maximum: SHARED_MAX_PAGES, shared: true });
+  } catch {
+    return null;
+  }
+}
+
+/** Runs this thread's shared passes on `memory` (from createSharedFftMemory); null detaches. */
+export function attachSharedFftMemory(memory: object | null): boolean {
+  if (memory === null) {
+    shared = null;
+    return true;
+  }
+  if (shared && shared.memory === memory) return true;
+  if (!moduleBytes) return false;
+  try {
+    const m = memory as WasmMemory;
+    const instance = new WebAssembly.Instance(new WebAssembly.Module(importingSharedMemory(moduleBytes)), { env: { memory: m } });
+    shared = { memory: m, w: instance.exports as unknown as WasmFft, heap: new Float64Array(m.buffer) };
+    return true;
+  } catch {
+    shared = null;
+    return false;
+  }
+}
+
+/** Where one transform lives in the shared memory (byte offsets); plain numbers, posted to helpers. */
+export interface SharedLayout {
+  nx: number;
+  ny: number;
+  revX: number;
+  twX: number;
+  revY: number;
+  twY: number;
+  data: number;
+  stride: number;
+  /** Scratch planes: slot k uses [scratch + 2k·plane, scratch + 2(k+1)·plane). */
+  scratch: number;
+  plane: number;
+  end: number;
+}
+
+/**
+ * Lays out an ny×nx transform for `slots` threads in the attached shared memory, writes its tables
+ * there and grows the memory as needed; null when that is not possible. Call it while no thread
+ * is transforming in the memory.
+ */
+export function sharedLayout(nx: number, ny: number, slots: number): SharedLayout | null {
+  const sh = shared;
+  if (!sh) return null;
+  checkShape(nx, ny);
+  const tx = tablesFor(nx), ty = tablesFor(ny);
+  const revX = align64(sh.w.heapBase());
+  const twX = align64(revX + 4 * nx);
+  const revY = align64(twX + 8 * Math.max(1, tx.tw.length));
+  const twY = align64(revY + 4 * ny);
+  const data = align64(twY + 8 * Math.max(1, ty.tw.length));
+  const stride = 16 * nx + PAD;
+  const plane = align64(8 * Math.max(nx * 4, ny * Math.min(WASM_BLOCK, nx)));
+  const scratch = align64(data + stride * ny);
+  const end = scratch + 2 * plane * slots;
+  const have = sh.memory.buffer.byteLength;
+  if (end > have) {
+    try {
+      sh.memory.grow(Math.ceil((end - have) / 65536));
+    } catch {
+      return null;
+    }
+  }
+  const heap = sharedHeap(sh, end);
+  new Uint32Array(heap.buffer, revX, nx).set(tx.rev);
+  heap.set(tx.tw, twX / 8);
+  new Uint32Array(heap.buffer, revY, ny).set(ty.rev);
+  heap.set(ty.tw, twY / 8);
+  return { nx, ny, revX, twX, revY, twY, data, stride, scratch, plane, end };
+}
+
+/** This thread's view of the shared memory, renewed when another thread has grown it. */
+function sharedHeap(sh: SharedKernel, end: number): Float64Array {
+  if (sh.heap.byteLength < end) sh.heap = new Float64Array(sh.memory.buffer);
+  return sh.heap;
+}
+
+function attached(L: SharedLayout): SharedKernel {
+  if (!shared) throw new Error('no shared FFT memory attached in this thread (attachSharedFftMemory)');
+  if (shared.memory.buffer.byteLength < L.end) throw new Error('the shared FFT memory is smaller than the layout');
+  return shared;
+}
+
+/** Rows [r0, r1) of `data` (ny×nx interleaved) copied into the shared memory and transformed there. */
+export function sharedRowsIn(L: SharedLayout, data: Float64Array, r0: number, r1: number, inverse: boolean, slot: number): void {
+  const sh = attached(L);
+  const heap = sharedHeap(sh, L.end);
+  const { nx, stride } = L;
+  const R = 4;
+  const sre = L.scratch + 2 * slot * L.plane, sim = sre + L.plane;
+  const rowLen = 2 * nx, step = stride / 8, at = L.data / 8;
+  for (let g0 = r0; g0 < r1; g0 += R) {
+    const g = Math.min(R, r1 - g0);
+    for (let r = g0; r < g0 + g; r++) heap.set(data.subarray(r * rowLen, (r + 1) * rowLen), at + r * step);
+    sh.w.rowsInterleaved(L.data + g0 * stride, nx, g, stride, R, L.revX, L.twX, sre, sim, inverse ? 1 : 0, inverse ? 1 / nx : 1);
+  }
+}
+
+/** Columns [c0, c1) (even bounds) transformed in place in the shared memory. */
+export function sharedColumns(L: SharedLayout, c0: number, c1: number, inverse: boolean, slot: number): void {
+  const sh = attached(L);
+  const sre = L.scratch + 2 * slot * L.plane, sim = sre + L.plane;
+  const width = c1 - c0;
+  if (c0 % 2 !== 0 || width % 2 !== 0) throw new Error(`sharedColumns: columns ${c0}..${c1} must start and end on even indices`);
+  sh.w.colsInterleaved(L.data + 16 * c0, width, L.ny, L.stride, blockFor(width, WASM_BLOCK), L.revY, L.twY, sre, sim, inverse ? 1 : 0, inverse ? 1 / L.ny : 1);
+}
+
+/** Rows [r0, r1) of the result copied out to `data`, if `commit` (asked first) allows. */
+export function sharedRowsOut(L: SharedLayout, data: Float64Array, r0: number, r1: number, commit?: () => boolean): boolean {
+  const sh = attached(L);
+  const heap = sharedHeap(sh, L.end);
+  if (commit && !commit()) return false;
+  const rowLen = 2 * L.nx, step = L.stride / 8, at = L.data / 8;
+  for (let r = r0; r < r1; r++) data.set(heap.subarray(at + r * step, at + r * step + rowLen), r * rowLen);
+  return true;
 }

@@ -1,11 +1,12 @@
-// A helper thread of an FFT team (fft-team.ts). It loads the FFT kernel, says it is ready, and then
-// blocks on the control block until the calling thread posts a transform; it takes parts of it
-// (fft-work.ts) until none is left, waits for the row pass to be complete before the column pass,
-// and blocks again. The transform's buffers arrive on its own MessagePort, read synchronously,
-// because this thread never returns to its event loop while the team lives.
+// A helper thread of an FFT team (fft-team.ts). It loads the FFT kernel, attaches the team's shared
+// WebAssembly memory, says it is ready, and then blocks on the control block until the calling
+// thread posts a transform; it takes parts of each phase (fft-work.ts) until none is left, waits
+// for the phase to be complete before the next one, and blocks again. The transform's buffers
+// arrive on its own MessagePort, read synchronously, because this thread never returns to its
+// event loop while the team lives.
 import { parentPort, receiveMessageOnPort, workerData, type MessagePort } from 'node:worker_threads';
 import { loadFastKernels } from '../kernels.js';
-import { fastFftBackend } from '../optics/fft-fast.js';
+import { attachSharedFftMemory, fastFftBackend } from '../optics/fft-fast.js';
 import {
   ABORT,
   claimAndDo,
@@ -20,23 +21,27 @@ import {
   type Job,
   type JobMessage,
   type PartHooks,
-  type PassIndex,
 } from './fft-work.js';
 
 export interface HelperData {
   control: SharedArrayBuffer;
   port: MessagePort;
+  /** This thread's scratch in the shared memory. */
+  slot: number;
+  /** The team's shared WebAssembly memory, when the WebAssembly kernel is in use. */
+  memory: object | null;
   fault?: HelperFault;
 }
 
-export type FromHelper = { type: 'ready'; backend: string } | { type: 'failed'; error: string };
+export type FromHelper = { type: 'ready'; backend: string; shared: boolean } | { type: 'failed'; error: string };
 
-const { control, port, fault } = workerData as HelperData;
+const { control, port, slot, memory, fault } = workerData as HelperData;
 const ctl = new Int32Array(control);
 const parent = parentPort!;
 
 loadFastKernels();
-parent.postMessage({ type: 'ready', backend: fastFftBackend() } satisfies FromHelper);
+const attached = memory !== null && attachSharedFftMemory(memory);
+parent.postMessage({ type: 'ready', backend: fastFftBackend(), shared: attached } satisfies FromHelper);
 
 /** The message of transform `seq`; older ones (transforms this thread missed) are dropped. */
 function take(seq: number): JobMessage | null {
@@ -54,33 +59,39 @@ const stillOn = (job: Job) => Atomics.load(ctl, SEQ) === job.seq && Atomics.load
 const hooks: PartHooks = {};
 if (fault === 'exit-after-claim') hooks.claimed = () => process.exit(3);
 if (fault === 'hang-after-claim') hooks.claimed = () => void Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0);
-if (fault === 'throw') hooks.claimed = () => {
-  throw new Error('fault injected for a test');
-};
+if (fault === 'throw') {
+  hooks.claimed = () => {
+    throw new Error('fault injected for a test');
+  };
+}
 if (fault === 'exit-while-writing') {
-  hooks.writing = (target, job, pass, i) => {
-    // half of the part written with nonsense, then gone: the caller must do it again from the source
-    const per = pass === 0 ? job.rowsPer * 2 * job.nx : 0;
-    if (pass === 0) target.fill(NaN, i * per, i * per + per / 2);
-    else for (let r = 0; r < job.ny; r += 2) target.fill(NaN, 2 * (r * job.nx + i * job.colsPer), 2 * (r * job.nx + (i + 1) * job.colsPer));
+  hooks.writing = (job, phase, i) => {
+    // half of the part written with nonsense, then gone: the caller must do it again
+    const target = phase === 0 && job.scratch ? job.scratch : job.data;
+    if (phase === 1) {
+      for (let r = 0; r < job.ny; r += 2) target.fill(NaN, 2 * (r * job.nx + i * job.colsPer), 2 * (r * job.nx + (i + 1) * job.colsPer));
+    } else {
+      const per = job.rowsPer * 2 * job.nx;
+      target.fill(NaN, i * per, i * per + per / 2);
+    }
     process.exit(4);
   };
 }
 
 function work(job: Job): void {
-  for (const pass of [0, 1] as PassIndex[]) {
+  for (let phase = 0; phase < job.parts.length; phase++) {
     for (;;) {
       if (!stillOn(job)) return;
-      const i = Atomics.add(ctl, NEXT + pass, 1);
-      if (i >= job.parts[pass]) break;
-      if (claimAndDo(ctl, job, pass, i, hooks)) Atomics.add(ctl, HELPER_PARTS, 1);
+      const i = Atomics.add(ctl, NEXT + phase, 1);
+      if (i >= job.parts[phase]!) break;
+      if (claimAndDo(ctl, job, phase, i, slot, hooks)) Atomics.add(ctl, HELPER_PARTS, 1);
     }
-    if (pass === 1) return;
-    // the columns read what every thread's rows wrote
+    if (phase === job.parts.length - 1) return;
+    // the next phase reads what every thread wrote in this one
     for (;;) {
-      const done = Atomics.load(ctl, DONE);
-      if (done >= job.parts[0] || !stillOn(job)) break;
-      Atomics.wait(ctl, DONE, done, 50);
+      const done = Atomics.load(ctl, DONE + phase);
+      if (done >= job.parts[phase]! || !stillOn(job)) break;
+      Atomics.wait(ctl, DONE + phase, done, 50);
     }
   }
 }
@@ -102,8 +113,7 @@ for (;;) {
     // Parts this thread claimed stay claimed: the caller takes them over when it sees FAULT.
     parent.postMessage({ type: 'failed', error: (e as Error).message ?? String(e) } satisfies FromHelper);
     Atomics.store(ctl, FAULT, 1);
-    Atomics.notify(ctl, DONE);
-    Atomics.notify(ctl, DONE + 1);
+    for (let phase = 0; phase < 3; phase++) Atomics.notify(ctl, DONE + phase);
     break;
   }
 }

@@ -1,24 +1,30 @@
 // An FFT team: this thread and helper threads share each large 2-D fft2, so that one big case uses
 // every core. The call stays synchronous: this thread posts the transform in the control block,
-// wakes the helpers, does parts itself, and waits (Atomics.wait) for the rest of the row pass and
-// then of the column pass. The protocol is in fft-work.ts; the helper's side in fft-helper.ts.
+// wakes the helpers, does parts itself, and waits (Atomics.wait) for the rest of each phase. With
+// the WebAssembly kernel all threads work in one shared WebAssembly memory; the protocol is in
+// fft-work.ts, the helper's side in fft-helper.ts.
 //
 // Only arrays on a SharedArrayBuffer can be shared, so while a team runs, createField allocates
 // its large sample arrays there (optics/field.ts's allocator hook). Everything else — 1-D and small
 // transforms, data in ordinary memory — fft2 keeps doing in this thread.
 //
 // A helper that fails, or makes no progress for `stallMs`, does not stop the case: this thread
-// takes its parts over (their source is untouched, so the result is the same bits), stops the team
-// and goes on alone.
+// takes its parts over, or, before anything is written to the data, transforms the data alone
+// (the same bits either way), stops the team and goes on alone.
+//
+// Memory: with the WebAssembly kernel the shared memory holds one padded copy of the largest
+// transform (the copy one thread's kernel keeps, now shared); with the TypeScript kernel a scratch
+// array of the largest transform is kept instead. Both live until the team stops.
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { MessageChannel, Worker, type MessagePort } from 'node:worker_threads';
 import { installFft2Executor, isPowerOfTwo } from '../optics/fft.js';
-import { fastFftBackend } from '../optics/fft-fast.js';
+import { attachSharedFftMemory, createSharedFftMemory, fastFftBackend, fft2Interleaved, sharedLayout } from '../optics/fft-fast.js';
 import { installSampleAllocator } from '../optics/field.js';
 import {
   ABORT,
   claimAndDo,
+  commits,
   CONTROL_CELLS,
   doPart,
   DONE,
@@ -38,7 +44,7 @@ import {
   type HelperFault,
   type Job,
   type JobMessage,
-  type PassIndex,
+  type Mode,
 } from './fft-work.js';
 import type { FromHelper, HelperData } from './fft-helper.js';
 
@@ -69,6 +75,8 @@ export interface TeamOptions {
 export interface TeamFigures {
   threads: number;
   transforms: number;
+  /** Of those, transforms done in the shared WebAssembly memory (the rest: in parts, copied). */
+  inSharedMemory: number;
   partsByHelpers: number;
   partsByCaller: number;
   /** Transforms this thread finished alone after losing a helper. */
@@ -81,11 +89,15 @@ interface Helper {
   worker: Worker;
   port: MessagePort;
   ready: boolean;
+  /** It runs the kernel on the team's shared memory. */
+  shared: boolean;
   lost: boolean;
 }
 
 interface Team {
   ctl: Int32Array;
+  /** The shared WebAssembly memory, attached in this thread too; null: 'parts' mode only. */
+  memory: object | null;
   helpers: Helper[];
   scratch: SharedArrayBuffer | null;
   seq: number;
@@ -97,7 +109,7 @@ interface Team {
 }
 
 let team: Team | null = null;
-let lastFigures: TeamFigures = { threads: 1, transforms: 0, partsByHelpers: 0, partsByCaller: 0, takeovers: 0 };
+let lastFigures: TeamFigures = { threads: 1, transforms: 0, inSharedMemory: 0, partsByHelpers: 0, partsByCaller: 0, takeovers: 0 };
 
 /** Helper threads need the compiled helper module; from TypeScript sources (tests) there is none. */
 export function teamsAvailable(): boolean {
@@ -127,22 +139,31 @@ export async function startFftTeam(threads: number, opts: TeamOptions = {}): Pro
   const n = Math.floor(threads);
   if (!(n > 1) || !teamsAvailable()) return 1;
   const ctl = new Int32Array(new SharedArrayBuffer(4 * CONTROL_CELLS));
+  let memory = createSharedFftMemory();
+  if (memory && !attachSharedFftMemory(memory)) memory = null;
   const t: Team = {
     ctl,
+    memory,
     helpers: [],
     scratch: null,
     seq: 0,
     minValues: opts.minValues ?? TEAM_MIN_VALUES,
     stallMs: opts.stallMs ?? STALL_MS,
     ...(opts.onProblem ? { onProblem: opts.onProblem } : {}),
-    figures: { threads: n, transforms: 0, partsByHelpers: 0, partsByCaller: 0, takeovers: 0 },
+    figures: { threads: n, transforms: 0, inSharedMemory: 0, partsByHelpers: 0, partsByCaller: 0, takeovers: 0 },
     stopped: false,
   };
   team = t;
   const readies: Promise<void>[] = [];
   for (let k = 1; k < n; k++) {
     const { port1, port2 } = new MessageChannel();
-    const data: HelperData = { control: ctl.buffer as SharedArrayBuffer, port: port2, ...(opts.faultForTests ? { fault: opts.faultForTests } : {}) };
+    const data: HelperData = {
+      control: ctl.buffer as SharedArrayBuffer,
+      port: port2,
+      slot: k,
+      memory,
+      ...(opts.faultForTests ? { fault: opts.faultForTests } : {}),
+    };
     let worker: Worker;
     try {
       worker = new Worker(fileURLToPath(HELPER_FILE), { workerData: data, transferList: [port2], execArgv: helperExecArgv() });
@@ -152,7 +173,7 @@ export async function startFftTeam(threads: number, opts: TeamOptions = {}): Pro
       break;
     }
     port1.unref();
-    const h: Helper = { worker, port: port1, ready: false, lost: false };
+    const h: Helper = { worker, port: port1, ready: false, shared: false, lost: false };
     t.helpers.push(h);
     const ready = new Promise<void>((resolve) => {
       const timer = setTimeout(resolve, READY_MS);
@@ -167,6 +188,7 @@ export async function startFftTeam(threads: number, opts: TeamOptions = {}): Pro
       worker.on('message', (m: FromHelper) => {
         if (m.type === 'ready') {
           h.ready = true;
+          h.shared = m.shared;
           clearTimeout(timer);
           resolve();
         } else lost(m.error);
@@ -219,6 +241,7 @@ function halt(t: Team): Promise<unknown> {
     t.stopped = true;
     installFft2Executor(null);
     installSampleAllocator(null);
+    if (t.memory) attachSharedFftMemory(null);
     Atomics.store(t.ctl, STOP, 1);
     Atomics.notify(t.ctl, SEQ);
     t.figures.partsByHelpers = Atomics.load(t.ctl, HELPER_PARTS);
@@ -239,37 +262,53 @@ function execute(t: Team, data: Float64Array, nx: number, ny: number, inverse: b
   if (nx * ny < t.minValues || !(data.buffer instanceof SharedArrayBuffer)) return false;
   const live = t.helpers.filter((h) => !h.lost);
   if (live.length === 0) return false;
-  const { rowsPer, colsPer } = partSizes(nx, ny, live.length + 1);
-  const parts: [number, number] = [Math.ceil(ny / rowsPer), Math.ceil(nx / colsPer)];
-  if (parts[0] < 2 || parts[1] < 2) return false;
+  const threads = t.helpers.length + 1;
+  // The shared memory when every helper can work in it (one that cannot yet is not ready yet).
+  let mode: Mode = t.memory && fastFftBackend() === 'wasm-simd' && live.every((h) => h.shared || !h.ready) ? 'shared' : 'parts';
+  const layout = mode === 'shared' ? sharedLayout(nx, ny, threads) : null;
+  if (!layout) mode = 'parts';
+  const { rowsPer, colsPer } = partSizes(mode, nx, ny, live.length + 1);
+  if (Math.ceil(ny / rowsPer) < 2 || Math.ceil(nx / colsPer) < 2) return false;
 
   const values = 2 * nx * ny;
-  if (!t.scratch || t.scratch.byteLength < 8 * values) t.scratch = new SharedArrayBuffer(8 * values);
+  if (mode === 'parts' && (!t.scratch || t.scratch.byteLength < 8 * values)) t.scratch = new SharedArrayBuffer(8 * values);
+  const message: JobMessage = {
+    seq: nextSeq(t.seq), mode, nx, ny, inverse, backend: fastFftBackend(), rowsPer, colsPer,
+    data: data.buffer, dataOffset: data.byteOffset,
+    ...(mode === 'parts' ? { scratch: t.scratch! } : { layout: layout! }),
+  };
+  const job = jobOf(message);
   const ctl = t.ctl;
-  const seq = (t.seq = nextSeq(t.seq));
+  const seq = (t.seq = message.seq);
   const tag = seq << 3;
-  for (const pass of [0, 1] as PassIndex[]) {
-    for (let i = 0; i < parts[pass]; i++) Atomics.store(ctl, stateCell(pass, i), tag | FREE);
-    Atomics.store(ctl, NEXT + pass, 0);
-    Atomics.store(ctl, DONE + pass, 0);
+  for (let phase = 0; phase < job.parts.length; phase++) {
+    for (let i = 0; i < job.parts[phase]!; i++) Atomics.store(ctl, stateCell(phase, i), tag | FREE);
+    Atomics.store(ctl, NEXT + phase, 0);
+    Atomics.store(ctl, DONE + phase, 0);
   }
   Atomics.store(ctl, ABORT, 0);
-  const message: JobMessage = {
-    seq, nx, ny, inverse, backend: fastFftBackend(), rowsPer, colsPer,
-    data: data.buffer, dataOffset: data.byteOffset, scratch: t.scratch,
-  };
   for (const h of live) h.port.postMessage(message);
   // The message is queued before the number changes, so a helper that sees the number finds it.
   Atomics.store(ctl, SEQ, seq);
   Atomics.notify(ctl, SEQ);
 
-  const job = jobOf(message);
   let alone: string | null = null;
-  for (const pass of [0, 1] as PassIndex[]) {
-    if (alone === null) alone = share(t, job, pass);
-    else finishAlone(t, job, pass);
+  for (let phase = 0; phase < job.parts.length; phase++) {
+    if (alone === null) {
+      alone = share(t, job, phase);
+      if (alone === null) continue;
+      Atomics.store(ctl, ABORT, 1);
+      Atomics.notify(ctl, DONE + phase);
+      if (!commits(job, phase)) {
+        // Nothing has been written to the data yet: transform it here, as if there were no team.
+        fft2Interleaved(data, nx, ny, inverse);
+        break;
+      }
+    }
+    finishAlone(t, job, phase);
   }
   t.figures.transforms++;
+  if (mode === 'shared') t.figures.inSharedMemory++;
   if (alone !== null) {
     t.figures.takeovers++;
     giveUp(t, alone);
@@ -277,53 +316,46 @@ function execute(t: Team, data: Float64Array, nx: number, ny: number, inverse: b
   return true;
 }
 
-/** This thread's side of one pass; null when it went well, else why it had to finish alone. */
-function share(t: Team, job: Job, pass: PassIndex): string | null {
+/** This thread's side of one phase; null when it went well, else why it has to go on alone. */
+function share(t: Team, job: Job, phase: number): string | null {
   const ctl = t.ctl;
-  const n = job.parts[pass];
+  const n = job.parts[phase]!;
   for (;;) {
-    const i = Atomics.add(ctl, NEXT + pass, 1);
+    const i = Atomics.add(ctl, NEXT + phase, 1);
     if (i >= n) break;
-    if (claimAndDo(ctl, job, pass, i)) t.figures.partsByCaller++;
+    if (claimAndDo(ctl, job, phase, i, 0)) t.figures.partsByCaller++;
   }
   // parts whose number a helper still busy with an earlier transform drew from the counter
   const free = (job.seq << 3) | FREE;
   for (let i = 0; i < n; i++) {
-    if (Atomics.load(ctl, stateCell(pass, i)) === free && claimAndDo(ctl, job, pass, i)) t.figures.partsByCaller++;
+    if (Atomics.load(ctl, stateCell(phase, i)) === free && claimAndDo(ctl, job, phase, i, 0)) t.figures.partsByCaller++;
   }
-  let done = Atomics.load(ctl, DONE + pass);
+  let done = Atomics.load(ctl, DONE + phase);
   let since = Date.now();
   while (done < n) {
-    if (Atomics.load(ctl, FAULT) !== 0) return abandon(t, job, pass, 'an FFT helper thread failed; going on in one thread');
-    Atomics.wait(ctl, DONE + pass, done, 20);
-    const now = Atomics.load(ctl, DONE + pass);
+    if (Atomics.load(ctl, FAULT) !== 0) return 'an FFT helper thread failed; going on in one thread';
+    Atomics.wait(ctl, DONE + phase, done, 20);
+    const now = Atomics.load(ctl, DONE + phase);
     if (now !== done) {
       done = now;
       since = Date.now();
     } else if (Date.now() - since > t.stallMs) {
-      return abandon(t, job, pass, `an FFT helper thread did not answer for ${t.stallMs / 1000} s; going on in one thread`);
+      return `an FFT helper thread did not answer for ${t.stallMs / 1000} s; going on in one thread`;
     }
   }
   return null;
 }
 
-function abandon(t: Team, job: Job, pass: PassIndex, why: string): string {
-  Atomics.store(t.ctl, ABORT, 1);
-  Atomics.notify(t.ctl, DONE);
-  finishAlone(t, job, pass);
-  return why;
-}
-
 /**
- * Does every part of the pass that is not written yet, after revoking it so that no helper can
- * write it any more. A part being written is waited for; one that stays half-written for stallMs
- * belongs to a helper that died writing it, and is done again over what it left.
+ * Does every part of a committing phase that is not written yet, after revoking it so that no
+ * helper can write it any more. A part being written is waited for; one that stays half-written
+ * for stallMs belongs to a helper that died writing it, and is done again over what it left.
  */
-function finishAlone(t: Team, job: Job, pass: PassIndex): void {
+function finishAlone(t: Team, job: Job, phase: number): void {
   const ctl = t.ctl;
   const tag = job.seq << 3;
-  for (let i = 0; i < job.parts[pass]; i++) {
-    const at = stateCell(pass, i);
+  for (let i = 0; i < job.parts[phase]!; i++) {
+    const at = stateCell(phase, i);
     let waited = 0;
     for (;;) {
       const s = Atomics.load(ctl, at);
@@ -335,7 +367,7 @@ function finishAlone(t: Team, job: Job, pass: PassIndex): void {
         continue;
       }
       if (s === (tag | REVOKED) || Atomics.compareExchange(ctl, at, s, tag | REVOKED) === s) {
-        doPart(job, pass, i);
+        doPart(job, phase, i, 0);
         t.figures.partsByCaller++;
         break;
       }

@@ -6,7 +6,13 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { loadFastKernels } from '../../src/kernels.js';
 import {
+  attachSharedFftMemory,
+  createSharedFftMemory,
   fft2Interleaved,
+  sharedColumns,
+  sharedLayout,
+  sharedRowsIn,
+  sharedRowsOut,
   transformColumns,
   transformRows,
   useFastFftBackend,
@@ -78,5 +84,42 @@ describe.each(['wasm-simd', 'js'] as FastFftBackend[])('%s kernel', (backend) =>
     expect(() => transformRows(x, x, 16, 8, 4, 4, false)).toThrow(/outside/);
     expect(() => transformColumns(x, x, 16, 8, 1, 4, false)).toThrow(/even/);
     expect(() => transformColumns(x, new Float64Array(10), 16, 8, 0, 4, false)).toThrow(/values/);
+  });
+});
+
+describe('the WebAssembly kernel on a shared memory (the parts of a team in one thread)', () => {
+  beforeAll(() => {
+    expect(loadFastKernels()).toBe(true);
+    useFastFftBackend('wasm-simd');
+  });
+
+  it('rows in, columns, rows out, in uneven parts and any order, equal fft2Interleaved bit for bit', () => {
+    const memory = createSharedFftMemory();
+    expect(memory).not.toBeNull();
+    expect(attachSharedFftMemory(memory)).toBe(true);
+    try {
+      for (const inverse of [false, true]) {
+        // growing sizes and then a smaller one: the memory grows and is laid out again
+        for (const [nx, ny] of [[64, 128], [256, 256], [512, 256], [32, 4], [16, 1024]] as [number, number][]) {
+          const x = randomComplex(nx * ny, 5 * nx + ny + (inverse ? 1 : 0));
+          const whole = x.slice();
+          fft2Interleaved(whole, nx, ny, inverse);
+          const L = sharedLayout(nx, ny, 3)!;
+          expect(L).not.toBeNull();
+          const data = x.slice();
+          for (const [a, b] of cuts(ny, [3, 1, 8]).reverse()) sharedRowsIn(L, data, a, b, inverse, 2);
+          for (const [a, b] of cuts(nx, [2, 16, 6])) sharedColumns(L, a, b, inverse, 1);
+          expect(sharedRowsOut(L, data, 0, 1, () => false)).toBe(false);
+          for (const [a, b] of cuts(ny, [5, 2])) expect(sharedRowsOut(L, data, a, b)).toBe(true);
+          expect(sameBits(data, whole), `${nx}×${ny}`).toBe(true);
+        }
+      }
+    } finally {
+      attachSharedFftMemory(null);
+    }
+  });
+
+  it('refuses to work without an attached memory', () => {
+    expect(sharedLayout(64, 64, 2)).toBeNull();
   });
 });

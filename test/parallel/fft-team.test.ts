@@ -67,6 +67,8 @@ describe.each(['wasm-simd', 'js'] as const)('%s kernel: a team of 2 equals one t
       }
       const f = team.fftTeamFigures();
       expect(f.transforms).toBeGreaterThanOrEqual(shapes.length);
+      // the WebAssembly kernel works in the team's shared memory, the TypeScript one in copied parts
+      expect(f.inSharedMemory).toBe(backend === 'wasm-simd' ? f.transforms : 0);
       expect(f.partsByHelpers).toBeGreaterThan(0);
       expect(f.partsByCaller).toBeGreaterThan(0);
       expect(f.takeovers).toBe(0);
@@ -113,9 +115,12 @@ describe('what the team leaves to one thread', () => {
   });
 });
 
-describe('a helper that is lost mid-transform', () => {
+describe.each(['wasm-simd', 'js'] as const)('%s kernel: a helper that is lost mid-transform', (backend) => {
+  // The faults show in the helper's first part (a row part; 'exit-while-writing': the first part it
+  // writes, which with the shared memory is a part of the last phase, copying the result out).
   const faults = ['exit-after-claim', 'hang-after-claim', 'exit-while-writing', 'throw'] as const;
   it.each(faults)('%s: the caller finishes alone, with the same bits, stops the team and says why', async (fault) => {
+    fast.useFastFftBackend(backend);
     const problems: string[] = [];
     expect(await team.startFftTeam(2, { minValues: 1024, stallMs: 200, faultForTests: fault, onProblem: (m) => problems.push(m) })).toBe(2);
     const [nx, ny] = [512, 256];
