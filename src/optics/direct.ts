@@ -1,7 +1,7 @@
 // Propagators that evaluate the diffraction integral directly onto a chosen output grid:
 // the Fresnel integral (single-transform form, paraxial) and the far-field formula.
 import { dft1, dft2, dft2AtPoints, interpolateSpectrum, tabulateSpectrum } from './dft.js';
-import { axisAt, createField, isOneD, xAxisOf, yAxisOf, type Axis, type Field } from './field.js';
+import { allocateSamples, axisAt, createField, isOneD, xAxisOf, yAxisOf, type Axis, type Field } from './field.js';
 import { propagationPhase, rotate } from './phase.js';
 import { cellResponse } from './spectral.js';
 
@@ -43,7 +43,10 @@ export function propagateFresnelDirect(
 /** A copy of the source samples times the Fresnel integral's input chirp e^{iπ(ξ²+η²)/λz}. */
 export function withInputChirp(src: Field, z: number): Float64Array {
   const chirp = Math.PI / (src.wavelength * z);
-  const u = new Float64Array(src.data);
+  // From the sample allocator: the single-FFT form transforms this copy, which an FFT team can
+  // share only in shared memory.
+  const u = allocateSamples(src.data.length);
+  u.set(src.data);
   for (let r = 0; r < src.ny; r++) {
     const y = src.y0 + r * src.dy;
     for (let c = 0; c < src.nx; c++) {

@@ -54,8 +54,7 @@ export interface Parallelism {
 /** Does the case spend its time in 2-D FFTs large enough to share (fft2 on shared sample arrays)? */
 export function sharesFfts(p: Plan): boolean {
   if (p.layout !== 'two-d' || !p.y) return false;
-  // The single-FFT Fresnel form transforms a working copy that is not in shared memory.
-  const fft = p.method === 'angular-spectrum' || (p.method === 'fresnel' && p.form === 'transfer-function');
+  const fft = p.method === 'angular-spectrum' || (p.method === 'fresnel' && (p.form === 'transfer-function' || p.form === 'single-fft'));
   return fft && p.x.paddedSamples * p.y.paddedSamples >= TEAM_MIN_VALUES;
 }
 
