@@ -4,6 +4,8 @@
 // for the phase to be complete before the next one, and blocks again. The transform's buffers
 // arrive on its own MessagePort, read synchronously, because this thread never returns to its
 // event loop while the team lives.
+import { setFlagsFromString } from 'node:v8';
+import { runInNewContext } from 'node:vm';
 import { parentPort, receiveMessageOnPort, workerData, type MessagePort } from 'node:worker_threads';
 import { loadFastKernels } from '../kernels.js';
 import { attachSharedFftMemory, fastFftBackend } from '../optics/fft-fast.js';
@@ -96,7 +98,15 @@ function work(job: Job): void {
   }
 }
 
+// This thread allocates almost nothing, so its garbage collector seldom runs, and every data
+// buffer it was sent stays alive here until it does: a sweep of big cases would hold one padded
+// grid per case. So it collects its garbage when a new buffer arrives (about a millisecond on this
+// small heap), with the collector that a fresh context exposes once the flag is set.
+setFlagsFromString('--expose-gc');
+const collect = runInNewContext('gc') as (() => void) | undefined;
+
 let seen = 0;
+let lastBuffer = 0;
 for (;;) {
   if (Atomics.load(ctl, STOP) !== 0) break;
   const seq = Atomics.load(ctl, SEQ);
@@ -107,6 +117,10 @@ for (;;) {
   seen = seq;
   const m = take(seq);
   if (!m) continue;
+  if (m.bufferId !== lastBuffer) {
+    lastBuffer = m.bufferId;
+    collect?.();
+  }
   try {
     work(jobOf(m));
   } catch (e) {

@@ -66,6 +66,8 @@ export interface JobMessage {
   rowsPer: number;
   colsPer: number;
   data: SharedArrayBuffer;
+  /** Names the data buffer across messages (each message brings a new wrapper of it). */
+  bufferId: number;
   dataOffset: number;
   /** 'parts': the array between the passes. */
   scratch?: SharedArrayBuffer;
