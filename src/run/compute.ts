@@ -1,7 +1,7 @@
 // Carries out a plan: builds the source field, propagates it with the planned method and layout,
 // cuts out the window and measures the numerical diagnostics the validity checks need.
 import { isOneDAperture, separableProfiles } from '../optics/aperture.js';
-import { centredAxis, createField, fftAxis, intensityOf, powerOf, type Axis, type Field } from '../optics/field.js';
+import { centredAxis, createField, fftAxis, intensityOf, powerOf, releaseSamples, type Axis, type Field } from '../optics/field.js';
 import { propagateFarField, propagateFarFieldSeparable, propagateFresnelDirect } from '../optics/direct.js';
 import { complementInPlace, freeField } from '../optics/free.js';
 import { carrierFrequencies, sourceField1D, sourceField2D } from '../optics/source.js';
@@ -122,11 +122,19 @@ function propagateOnGrid(
   const grid = padField(src, padded[0], padded[1]);
   const comp = { carrier };
   const spec = transferFor(plan, grid);
-  if (!keep) return cutOut(grid, propagateByTransfer(grid, spec, comp), outX, outY);
+  if (!keep) {
+    const out = cutOut(grid, propagateByTransfer(grid, spec, comp), outX, outY);
+    // Nothing refers to the padded grid any more: the next case of its size may have it.
+    releaseSamples(grid.data);
+    return out;
+  }
   const totalPower = toSpectrum(grid);
   kept = { key: keep.key, spectrum: { data: grid.data.slice(), totalPower }, powerIn: keep.powerIn };
-  // The grid holds the spectrum now: it is read and overwritten in one pass.
-  return cutOut(grid, propagateByTransfer(grid, spec, comp, { data: grid.data, totalPower }), outX, outY);
+  // The grid holds the spectrum now: it is read and overwritten in one pass, and kept as the
+  // grid the sweep's next distance writes into.
+  const out = cutOut(grid, propagateByTransfer(grid, spec, comp, { data: grid.data, totalPower }), outX, outY);
+  kept.work = grid.data;
+  return out;
 }
 
 /**
