@@ -92,6 +92,11 @@ export interface TeamOptions {
   onProblem?: (message: string) => void;
   /** For tests of the recovery: every helper shows this fault in its first part. */
   faultForTests?: HelperFault;
+  /**
+   * For tests: this thread draws no parts of its own (it still does the parts a helper drew and
+   * left), so that the helpers' share is certain however busy the machine is.
+   */
+  callerIdleForTests?: boolean;
 }
 
 export interface TeamFigures {
@@ -125,6 +130,7 @@ interface Team {
   seq: number;
   minValues: number;
   stallMs: number;
+  callerIdle: boolean;
   onProblem?: (message: string) => void;
   figures: TeamFigures;
   stopped: boolean;
@@ -171,6 +177,7 @@ export async function startFftTeam(threads: number, opts: TeamOptions = {}): Pro
     seq: 0,
     minValues: opts.minValues ?? TEAM_MIN_VALUES,
     stallMs: opts.stallMs ?? STALL_MS,
+    callerIdle: opts.callerIdleForTests === true,
     ...(opts.onProblem ? { onProblem: opts.onProblem } : {}),
     figures: { threads: n, transforms: 0, inSharedMemory: 0, partsByHelpers: 0, partsByCaller: 0, takeovers: 0 },
     stopped: false,
@@ -374,15 +381,20 @@ function share(t: Team, job: Job, phase: number): string | null {
   const ctl = t.ctl;
   const n = job.parts[phase]!;
   for (;;) {
+    if (t.callerIdle) break;
     const i = Atomics.add(ctl, NEXT + phase, 1);
     if (i >= n) break;
     if (claimAndDo(ctl, job, phase, i, 0)) t.figures.partsByCaller++;
   }
   // parts whose number a helper still busy with an earlier transform drew from the counter
   const free = (job.seq << 3) | FREE;
-  for (let i = 0; i < n; i++) {
-    if (Atomics.load(ctl, stateCell(phase, i)) === free && claimAndDo(ctl, job, phase, i, 0)) t.figures.partsByCaller++;
-  }
+  const leftovers = () => {
+    for (let i = 0; i < n; i++) {
+      if (Atomics.load(ctl, stateCell(phase, i)) === free && claimAndDo(ctl, job, phase, i, 0)) t.figures.partsByCaller++;
+    }
+  };
+  // (An idle caller, in tests, leaves the helpers time to draw the parts first.)
+  if (!t.callerIdle) leftovers();
   let done = Atomics.load(ctl, DONE + phase);
   let since = Date.now();
   while (done < n) {
@@ -394,6 +406,8 @@ function share(t: Team, job: Job, phase: number): string | null {
       since = Date.now();
     } else if (Date.now() - since > t.stallMs) {
       return `an FFT helper thread did not answer for ${t.stallMs / 1000} s; going on in one thread`;
+    } else if (t.callerIdle && Date.now() - since > Math.min(200, t.stallMs / 4)) {
+      leftovers();
     }
   }
   return null;

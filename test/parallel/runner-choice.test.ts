@@ -61,7 +61,8 @@ describe('the compiled runner', () => {
     const f = team.fftTeamFigures();
     expect(f.threads).toBe(2);
     expect(f.transforms).toBeGreaterThan(before.transforms);
-    expect(f.partsByHelpers).toBeGreaterThan(0);
+    // (How the parts fell between the threads depends on how busy the machine is; that helpers'
+    // parts give the same bits is tested in fft-team.test.ts, where it is certain.)
     expect(f.takeovers).toBe(0);
     expect(team.fftTeamSize()).toBe(1); // stopped with the run
 
