@@ -647,32 +647,23 @@ function wasmCols(
   const L = wasmArea(w, ty, ty, stride * ny, ny * B);
   if (!L) return null;
   const at = L.base / 8, step = stride / 8, len = 2 * width;
-  for (let r = 0; r < ny; r++) copyIn(src, 2 * (r * nx + c0), len, at + r * step);
+  for (let r = 0; r < ny; r++) copyValues(src, 2 * (r * nx + c0), heap, at + r * step, len);
   w.colsInterleaved(L.base, width, ny, stride, B, ty.rev, ty.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / ny : 1);
   if (commit && !commit()) return false;
-  for (let r = 0; r < ny; r++) copyOut(dst, 2 * (r * nx + c0), len, at + r * step);
+  for (let r = 0; r < ny; r++) copyValues(heap, at + r * step, dst, 2 * (r * nx + c0), len);
   return true;
 }
 
 /** Below this many values a plain loop copies faster than set() on a new subarray. */
 const SHORT_COPY = 64;
 
-function copyIn(src: Float64Array, from: number, len: number, to: number): void {
+/** dst[to..to+len) = src[from..from+len): set() for long runs, a plain loop for short ones. */
+function copyValues(src: Float64Array, from: number, dst: Float64Array, to: number, len: number): void {
   if (len >= SHORT_COPY) {
-    heap.set(src.subarray(from, from + len), to);
+    dst.set(src.subarray(from, from + len), to);
     return;
   }
-  const h = heap;
-  for (let i = 0; i < len; i++) h[to + i] = src[from + i];
-}
-
-function copyOut(dst: Float64Array, to: number, len: number, from: number): void {
-  if (len >= SHORT_COPY) {
-    dst.set(heap.subarray(from, from + len), to);
-    return;
-  }
-  const h = heap;
-  for (let i = 0; i < len; i++) dst[to + i] = h[from + i];
+  for (let i = 0; i < len; i++) dst[to + i] = src[from + i];
 }
 
 // ---- the WebAssembly kernel in memory shared between threads ----------------------------------
