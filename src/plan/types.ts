@@ -95,6 +95,12 @@ export interface Checks {
   transferSampling?: number;
   /** Band-limit frequency (1/m) of the angular spectrum, per axis. */
   bandLimit?: [number, number | null];
+  /**
+   * Fraction of the power through the aperture (∫|U₀|²) that the aperture sends into evanescent
+   * waves (spatial frequencies above 1/λ), as the planner's model of the light predicts it (for a
+   * grating: the thin-grating powers of the orders with |sin θ_m| > 1). It never reaches the screen.
+   */
+  evanescentFraction?: number;
 }
 
 export interface Plan {
