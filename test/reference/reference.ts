@@ -1,0 +1,193 @@
+// The exact reference for one case of the job schema's space, at given observation points, or the
+// reason there is none (test code only). It picks the cheapest exact reference that applies and
+// fits a time budget, else a paraxial one whose error is provably below 0.1 % of the peak, else an
+// exact on-axis value, else none. Which one was used is returned in words.
+//
+// - 1-D apertures (slit, slits without length): rs1d.ts (exact), else fresnel.ts (plane wave).
+// - 2-D, plane wave at normal incidence: the boundary form of rs2d.ts (exact).
+// - 2-D, tilted or Gaussian: 2-D quadrature of rs2d.ts (exact), if affordable.
+// - Else, where the paraxial bound allows: Fresnel integrals (rectangles, slits with length, plane
+//   wave) or the radial Fresnel integral (circles and annuli, no tilt, open or plane wave).
+// - Else, round apertures without tilt: the exact on-axis value, at the axis only.
+// Accuracy: that of the reference used (see each file): 1e-9 of the peak or better for the exact
+// ones, ≤ 1e-3 of the peak (bounded) for the paraxial ones.
+import type { Aperture, Illumination } from '../../src/optics/aperture.js';
+import { gratingIntervals, intensity as intensity1, rs1d, rs1dCost, type Problem1D } from './rs1d.js';
+import {
+  boundaryCost,
+  boundaryField,
+  quad2dCost,
+  quad2dField,
+  roundOnAxisIntensity,
+  type Problem2D,
+  type SignedRegion,
+} from './rs2d.js';
+import { fresnel1D, fresnelRadial, fresnelSeparableIntensity, paraxialBound } from './fresnel.js';
+
+export interface RefCase {
+  wavelength: number;
+  distance: number;
+  aperture: Aperture;
+  illumination: Illumination;
+}
+
+/** Rough cost per kernel evaluation (µs) on one core, measured in reference.test.ts' neighbour runs. */
+export const MICROS_PER_NODE = { bessel: 1.6, boundary: 0.06, quad: 0.09 } as const;
+
+export type RefOutcome =
+  | { ok: true; how: string; intensity: Float64Array; points: [number, number][] }
+  | { ok: false; reason: string };
+
+export function isOneD(a: Aperture): boolean {
+  return (a.shape === 'slit' || a.shape === 'slits') && !a.length;
+}
+
+/** Open intervals along x of a 1-D aperture (or of a separable one's x-profile). */
+export function xIntervals(a: Aperture): [number, number][] {
+  if (a.shape === 'slit') return [[-a.width / 2, a.width / 2]];
+  if (a.shape === 'slits') return gratingIntervals(a.count, a.width, a.period);
+  if (a.shape === 'rectangle') return [[-a.width / 2, a.width / 2]];
+  throw new Error(`no x-intervals for ${a.shape}`);
+}
+
+export function regionsOf(a: Aperture): SignedRegion[] {
+  switch (a.shape) {
+    case 'circle':
+      return [{ region: { kind: 'disc', radius: a.diameter / 2 }, sign: 1 }];
+    case 'annulus':
+      return [
+        { region: { kind: 'disc', radius: a.outer / 2 }, sign: 1 },
+        { region: { kind: 'disc', radius: a.inner / 2 }, sign: -1 },
+      ];
+    case 'rectangle':
+      return [{ region: { kind: 'rect', x0: -a.width / 2, x1: a.width / 2, y0: -a.height / 2, y1: a.height / 2 }, sign: 1 }];
+    case 'slit':
+    case 'slits': {
+      const h = (a.length ?? NaN) / 2;
+      return xIntervals(a).map(([x0, x1]) => ({ region: { kind: 'rect', x0, x1, y0: -h, y1: h }, sign: 1 }));
+    }
+  }
+}
+
+function lightOf(ill: Illumination) {
+  return ill.kind === 'gaussian'
+    ? { kind: 'gaussian' as const, waist: ill.waist, sinTilt: Math.sin(ill.tilt[0]) }
+    : { kind: 'plane' as const, sinTilt: Math.sin(ill.tilt[0]) };
+}
+
+/** Half extents of the aperture along x and y. */
+function halfExtent(a: Aperture): [number, number] {
+  switch (a.shape) {
+    case 'circle':
+      return [a.diameter / 2, a.diameter / 2];
+    case 'annulus':
+      return [a.outer / 2, a.outer / 2];
+    case 'rectangle':
+      return [a.width / 2, a.height / 2];
+    case 'slit':
+      return [a.width / 2, (a.length ?? 0) / 2];
+    case 'slits':
+      return [((a.count - 1) * a.period + a.width) / 2, (a.length ?? 0) / 2];
+  }
+}
+
+function openMeasure(a: Aperture): number {
+  switch (a.shape) {
+    case 'circle':
+      return (Math.PI * a.diameter ** 2) / 4;
+    case 'annulus':
+      return (Math.PI * (a.outer ** 2 - a.inner ** 2)) / 4;
+    case 'rectangle':
+      return a.width * a.height;
+    case 'slit':
+      return a.width * (a.length ?? 1);
+    case 'slits':
+      return a.count * a.width * (a.length ?? 1);
+  }
+}
+
+/**
+ * The reference intensity at `pts` ([x, y]; y is ignored for 1-D apertures), within a budget of
+ * about `budgetMicros` of computing. For 2-D cases the caller passes the points it wants; when only
+ * the axis can be had, `axisIndex` (the index in pts of the point on the axis, if any) is used.
+ */
+export function referenceIntensity(c: RefCase, pts: [number, number][], budgetMicros: number, axisIndex = -1): RefOutcome {
+  const lam = c.wavelength;
+  const z = c.distance;
+  const a = c.aperture;
+  const ill = c.illumination;
+  const light = lightOf(ill);
+  if (ill.tilt[1] !== 0 && !isOneD(a)) return { ok: false, reason: 'tilt in y: no reference here' };
+  const [hx, hy] = halfExtent(a);
+  const rhoMax = Math.max(...pts.map(([x, y]) => Math.hypot(Math.abs(x) + hx, isOneD(a) ? 0 : Math.abs(y) + hy)));
+  const k = (2 * Math.PI) / lam;
+  const freePhase = a.opaque && ill.kind === 'plane' ? Math.abs(k * z * (Math.cos(ill.tilt[0]) - 1 + Math.sin(ill.tilt[0]) ** 2 / 2)) : 0;
+
+  if (isOneD(a)) {
+    const p: Problem1D = { wavelength: lam, distance: z, intervals: xIntervals(a), light, opaque: a.opaque };
+    const xs = pts.map(([x]) => x);
+    const limit = budgetMicros / MICROS_PER_NODE.bessel;
+    if (rs1dCost(p, xs, limit) <= limit) {
+      return { ok: true, how: 'exact 1-D Rayleigh–Sommerfeld', intensity: intensity1(rs1d(p, xs)), points: pts };
+    }
+    if (ill.kind === 'plane') {
+      const I = new Float64Array(xs.map((x) => {
+        const u = fresnel1D(lam, z, p.intervals, light.sinTilt, x, a.opaque);
+        return u.re * u.re + u.im * u.im;
+      }));
+      const B = paraxialBound(lam, z, openMeasure(a), rhoMax, true) + freePhase;
+      if (paraxialOk(I, B)) return { ok: true, how: 'paraxial Fresnel integrals (error bound < 0.1 % of the peak)', intensity: I, points: pts };
+    }
+    return { ok: false, reason: 'exact 1-D reference over budget, paraxial bound not small' };
+  }
+
+  const p: Problem2D = { wavelength: lam, distance: z, regions: regionsOf(a), light, opaque: a.opaque };
+  const normal = ill.kind === 'plane' && light.sinTilt === 0;
+  if (normal && boundaryCost(p, pts) * MICROS_PER_NODE.boundary <= budgetMicros) {
+    const f = boundaryField(p, pts);
+    return { ok: true, how: 'exact boundary form of the Rayleigh–Sommerfeld integral', intensity: intensity1(f), points: pts };
+  }
+  if (!normal) {
+    const limit = budgetMicros / MICROS_PER_NODE.quad;
+    if (quad2dCost(p, pts, limit) <= limit) {
+      return { ok: true, how: 'exact 2-D quadrature of the Rayleigh–Sommerfeld integral', intensity: intensity1(quad2dField(p, pts)), points: pts };
+    }
+  }
+  // Paraxial references where the bound allows.
+  const w = ill.kind === 'gaussian' ? ill.waist : Infinity;
+  const open = Math.min(openMeasure(a), Number.isFinite(w) ? Math.PI * w * w : Infinity);
+  const B = paraxialBound(lam, z, open, rhoMax, false) + freePhase;
+  if (ill.kind === 'plane' && (a.shape === 'rectangle' || a.shape === 'slit' || a.shape === 'slits')) {
+    const yIv: [number, number][] = [[-hy, hy]];
+    const I = new Float64Array(pts.map(([x, y]) => fresnelSeparableIntensity(lam, z, xIntervals(a), yIv, light.sinTilt, x, y, a.opaque)));
+    if (paraxialOk(I, B)) return { ok: true, how: 'paraxial Fresnel integrals (error bound < 0.1 % of the peak)', intensity: I, points: pts };
+  }
+  const round = a.shape === 'circle' || a.shape === 'annulus';
+  if (round && light.sinTilt === 0 && !(a.opaque && Number.isFinite(w))) {
+    const inner = a.shape === 'annulus' ? a.inner / 2 : 0;
+    const outer = hx;
+    // Cost: the radial integral's panels (~ (k a²/2z + k ρ a/z)/8 per point), J₀ at 16 nodes each.
+    const panels = pts.reduce((s, [x, y]) => s + (k * outer * outer) / (2 * z) / 8 + (k * Math.hypot(x, y) * outer) / z / 8 + 2, 0);
+    if (panels * 16 * MICROS_PER_NODE.bessel <= budgetMicros) {
+      const I = new Float64Array(pts.map(([x, y]) => {
+        const u = fresnelRadial(lam, z, inner, outer, w, Math.hypot(x, y), a.opaque);
+        return u.re * u.re + u.im * u.im;
+      }));
+      if (paraxialOk(I, B)) return { ok: true, how: 'paraxial radial Fresnel integral (error bound < 0.1 % of the peak)', intensity: I, points: pts };
+    }
+  }
+  if (round && light.sinTilt === 0 && axisIndex >= 0) {
+    const discs = regionsOf(a).map((r) => ({ radius: (r.region as { radius: number }).radius, sign: r.sign }));
+    const I = roundOnAxisIntensity(lam, z, discs, w, a.opaque);
+    return { ok: true, how: 'exact on-axis value only', intensity: new Float64Array([I]), points: [pts[axisIndex]!] };
+  }
+  return { ok: false, reason: normal ? 'boundary form over budget, paraxial bound not small' : '2-D quadrature over budget, paraxial bound not small' };
+}
+
+/** A paraxial field is accepted when its bounded intensity error is below 0.1 % of its peak. */
+function paraxialOk(I: Float64Array, B: number): boolean {
+  let peak = 0;
+  for (const v of I) peak = Math.max(peak, v);
+  if (!(peak > 0) || !Number.isFinite(B)) return false;
+  return 2 * Math.sqrt(peak) * B + B * B <= 1e-3 * peak;
+}
