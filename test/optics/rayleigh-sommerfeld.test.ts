@@ -283,7 +283,7 @@ describe('the grating equation at real angles: 1000 slits of 1 µm, period 1.667
     });
 
     it('puts the peak of each order within two output steps of z·tan θ_m (z·sin θ_m is 24 mm off or more)', () => {
-      orders.forEach((m, q) => {
+      orders.forEach((_m, q) => {
         const [lo, hi] = region(q);
         let best = -1;
         let at = 0;
