@@ -4,6 +4,8 @@
 export const LIMITS = {
   /** Power allowed outside a planner-chosen window (sets the window margin). */
   windowLossTarget: 0.02,
+  /** Power each grating order may lose beyond a planner-chosen window (its powers are reported to 1 %). */
+  orderLossTarget: 0.002,
   /** Warn when more than this fraction of the power falls outside the window (measured). */
   windowLossWarn: 0.05,
   /** Warn when the window holds more power than went through the aperture by this fraction. */
@@ -14,8 +16,12 @@ export const LIMITS = {
   edgeFrame: 1 / 16,
   /** Warn when the band limit drops more than this fraction of the spectral power. */
   bandLimitWarn: 0.01,
-  /** Warn when more than this fraction of the spectral power is evanescent. */
-  evanescentWarn: 1e-3,
+  /**
+   * Warn when more than this fraction of the power is evanescent (never reaches the screen). Every
+   * sharp edge sends some light beyond 90° (a pinhole of diameter D about 2λ/(π²D) of it, from the
+   * Airy tail), so the warning is kept for features within about ten wavelengths.
+   */
+  evanescentWarn: 0.01,
   /**
    * Samples per period of the finest spatial frequency that reaches the window (2 = Nyquist); a
    * judgement, measured against the Fresnel-integral and Airy references (test/physics): 4 keeps

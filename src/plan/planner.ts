@@ -1,18 +1,27 @@
-// The planner: for one case, the Fresnel number and regime, the method, the sampling of the
-// aperture plane and of the observation window, the validity checks that can be made before
-// computing, a memory estimate, and the reasons for each choice in words.
+// The planner: for one case, the Fresnel number and regime, where the light goes (every beam and
+// grating order), the window that holds it, which methods are valid there, the cheapest valid one
+// that fits in memory and time, its sampling, the validity checks that can be made before
+// computing, a memory estimate, and the reasons for each choice in words. It never falls back to a
+// method whose own check fails: with nothing valid that fits, the case is refused with the reasons.
 import { apertureFacts, type ApertureFacts } from '../optics/aperture.js';
 import { centredAxis, fftAxis, type Axis } from '../optics/field.js';
 import { nextPowerOfTwo } from '../optics/fft.js';
 import { directionCosines } from '../optics/source.js';
 import { bandLimitFrequency } from '../optics/spectral.js';
+import { mappingError } from '../optics/direct.js';
 import { formatLength, trimNumber } from '../job/units.js';
-import type { AxisPlan, Case, Checks, FresnelForm, Layout, MethodName, Plan, Regime, Warning } from './types.js';
+import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOption, Plan, Regime, Warning } from './types.js';
 import { LIMITS } from './limits.js';
+import { lightModel, type LightModel } from './light.js';
+import { paraxialEstimate } from './paraxial.js';
+import { planWindow, windowLoss } from './window.js';
+import { costRsDirect1D, costRsDirect2D, costRsPerPeriod1D, periodicAxis, rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
 
 export interface PlannerOptions {
   /** A case whose estimated peak memory exceeds this is not computed (bytes). */
   maxMemoryBytes?: number;
+  /** A case whose estimated work exceeds this (floating-point operations) is not computed. */
+  maxWork?: number;
   /**
    * Fewest output samples per axis of direct methods (default: enough for a picture). Searches
    * that only read a size off the result ask for fewer.
@@ -21,6 +30,8 @@ export interface PlannerOptions {
 }
 
 export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
+/** About an hour of one core at the rate the run layer assumes (2e8 per second). */
+export const DEFAULT_MAX_WORK = 7.2e11;
 
 interface Geometry {
   lam: number;
@@ -35,6 +46,7 @@ interface Geometry {
   waist: number; // Infinity for plane waves
   carrier: [number, number];
   minOutput: number;
+  model: LightModel;
 }
 
 const fmt = (x: number, d = 3) => trimNumber(x, d);
@@ -42,6 +54,7 @@ const len = (x: number) => formatLength(x, 3);
 
 export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const maxMemory = opts.maxMemoryBytes ?? DEFAULT_MAX_MEMORY;
+  const maxWork = opts.maxWork ?? DEFAULT_MAX_WORK;
   const lam = c.wavelength;
   const z = c.distance;
   const k = (2 * Math.PI) / lam;
@@ -50,7 +63,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const ill = c.illumination;
   const warnings: Warning[] = [];
   const reasons: string[] = [];
-  const [alpha, beta, gamma] = directionCosines(ill);
+  const [alpha, beta] = directionCosines(ill);
   if (oneD && ill.tilt[1] !== 0) {
     warnings.push({
       code: 'tilt-y-ignored',
@@ -78,35 +91,47 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
       `: ${regimeWords(regime)} (the far-field distance 2D²/λ is ${len(farFieldDistance)}, common practice).`,
   );
 
-  // Observation window.
-  const centre: [number, number] = [(z * alpha) / gamma, oneD ? 0 : (z * beta) / gamma];
+  // Where the light goes, and the window that holds it.
+  const model = lightModel(c.aperture, facts, ill, lam, z, aEff);
   const beamRadius = ill.kind === 'gaussian' ? beamRadiusAt(waist, lam, z) : undefined;
-  const margin = tailMargin(facts, waist, lam, z, oneD);
-  const fresnelScale = Math.sqrt((lam * z) / 2);
-  const windowHalf: [number, number] = [0, 0];
-  for (const i of oneD ? [0] : [0, 1]) {
-    if (c.window) {
-      windowHalf[i] = c.window[i]! / 2;
-      continue;
-    }
-    const body = Math.max(aEff[i]!, beamRadius !== undefined ? LIMITS.beamWindow * beamRadius : 0);
-    const edge = regime === 'near-field' ? Math.max(margin, 2 * fresnelScale) : margin;
-    windowHalf[i] = Math.max(body + edge, LIMITS.minWindowOverAperture * aEff[i]!);
-  }
+  const winInputs = {
+    lam,
+    z,
+    model,
+    nearField: regime === 'near-field',
+    ...(beamRadius !== undefined ? { beamRadius } : {}),
+    ...(c.window ? { given: c.window } : {}),
+  };
+  const win = planWindow(winInputs);
+  const centre = win.centre;
+  const windowHalf = win.half;
   if (!c.window && !oneD && !facts.separable) {
     // Round spots get a square window.
     const w = Math.max(windowHalf[0], windowHalf[1]);
     windowHalf[0] = w;
     windowHalf[1] = w;
   }
-  const windowLossEstimate = estimateWindowLoss(facts, waist, lam, z, oneD, aEff, windowHalf, beamRadius);
+  const windowLossEstimate = windowLoss(winInputs, centre, windowHalf);
+  if (win.omitted.length > 0) {
+    const ms = win.omitted.map((b) => b.order!).sort((a, b) => a - b);
+    const power = win.omitted.reduce((t, b) => t + b.power, 0) / Math.max(1e-300, model.propagating.reduce((t, b) => t + b.power, 0));
+    warnings.push({
+      code: 'orders-outside',
+      message:
+        `propagating orders ${orderList(ms)} (${pct(power)} of the power that reaches the screen) land outside the window` +
+        (c.window
+          ? ' the job gives; they are listed in the order table as outside; widen the window to see them'
+          : `: holding them at a pitch that resolves each order would take more output samples than the ${oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D} per axis allowed; they are listed in the order table as outside; give a window around the orders of interest`),
+    });
+  }
+  reasons.push(...lightReasons(model, c, z));
   reasons.push(
     c.window
-      ? `window ${len(2 * windowHalf[0])}${oneD ? '' : ` × ${len(2 * windowHalf[1])}`} as given; about ${pct(windowLossEstimate)} of the power is expected to fall outside it.`
-      : `window ${len(2 * windowHalf[0])}${oneD ? '' : ` × ${len(2 * windowHalf[1])}`}: the illuminated aperture plus a margin that should hold all but ≈${pct(windowLossEstimate)} of the power (target ${pct(LIMITS.windowLossTarget)}).`,
+      ? `window ${len(2 * windowHalf[0])}${oneD ? '' : ` × ${len(2 * windowHalf[1])}`} as given; about ${pct(windowLossEstimate)} of the power that reaches the screen is expected to fall outside it.`
+      : `window ${len(2 * windowHalf[0])}${oneD ? '' : ` × ${len(2 * windowHalf[1])}`}: every propagating beam's footprint plus a margin for its diffraction tails, which should hold all but ≈${pct(windowLossEstimate)} of the power that reaches the screen (target ${pct(LIMITS.windowLossTarget)}).`,
   );
-  if (centre[0] !== 0 || centre[1] !== 0) {
-    reasons.push(`window centred on the tilted beam at (${len(centre[0])}, ${len(centre[1])}) = z·tan θ.`);
+  if (Math.abs(centre[0]) > 1e-12 * windowHalf[0] || (!oneD && Math.abs(centre[1]) > 1e-12 * windowHalf[1])) {
+    reasons.push(`window centred at (${len(centre[0])}, ${len(centre[1])}), where the light lands.`);
   }
 
   const geo: Geometry = {
@@ -121,8 +146,17 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     waist,
     carrier: [alpha / lam, beta / lam],
     minOutput: opts.minOutputSamples ?? (oneD ? LIMITS.minOutput1D : LIMITS.minOutput2D),
+    model,
   };
-  const paraxialPhaseError = paraxialError(geo);
+  const paraxial = paraxialEstimate({
+    lam,
+    z,
+    model,
+    aperture: aEff,
+    centre,
+    half: windowHalf,
+    interferesWithFreeBeam: c.aperture.opaque,
+  });
   const goodmanRatio = goodman(geo);
   const farFieldPhaseError = Math.PI * nfEff;
   const beamLimited = ill.kind === 'gaussian' && waist < Math.min(facts.characteristic[0], oneD ? Infinity : facts.characteristic[1]);
@@ -135,49 +169,65 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     farFieldPeakError = Math.max(farFieldPeakError, (2 * farFieldPhaseError * holeAmplitude) / 3);
   }
 
-  // Method.
-  const minFeature = facts.minFeature;
-  const candidates = chooseMethods(c.method, geo, paraxialPhaseError, farFieldPhaseError, farFieldPeakError, reasons);
-  type Chosen = Sampling & { method: MethodName };
-  let chosen: Chosen | undefined;
-  let firstTooBig: Chosen | undefined;
-  for (const method of candidates) {
-    const s: Chosen = { method, ...sample(method, geo, c) };
-    if (s.memory <= maxMemory) {
-      chosen = s;
-      break;
-    }
-    firstTooBig ??= s;
-    if (c.method === 'auto') {
-      reasons.push(`${methodWords(method)} would need ${bytes(s.memory)} (over the ${bytes(maxMemory)} limit); trying the next method.`);
+  // Methods: every one is costed; the valid ones compete on cost.
+  const validity = methodValidity(geo, paraxial.error, farFieldPhaseError, farFieldPeakError, paraxial);
+  const options: MethodOption[] = [];
+  const samplings: (Sampling & { method: MethodName })[] = [];
+  for (const method of METHOD_ORDER) {
+    const v = validity[method];
+    for (const s of sample(method, geo, c)) {
+      const fits = s.memory <= maxMemory && s.work <= maxWork;
+      options.push({ method, ...(s.form ? { form: s.form } : {}), valid: v.valid, ...(v.why ? { why: v.why } : {}), memoryBytes: s.memory, work: s.work, fits });
+      samplings.push({ method, ...s });
     }
   }
+  type Chosen = Sampling & { method: MethodName };
+  let chosen: Chosen | undefined;
   let error: string | undefined;
-  if (!chosen) {
-    // Nothing fits: the plan of the preferred method is kept, so that `plan` can show it, and the
-    // case is refused with the estimate and how to lower it.
-    chosen = firstTooBig!;
-    error =
-      `needs about ${bytes(chosen.memory)} (limit ${bytes(maxMemory)}): ${methodWords(chosen.method)} on ` +
-      `${chosen.axes.map((a) => a.paddedSamples).join(' × ')} samples at ${len(chosen.axes[0]!.inputPitch)}. ` +
-      `Lower it with a smaller window, a coarser grid.pitch, ${c.method === 'auto' ? 'or' : 'method: auto or'} a larger limit (--max-memory).`;
+  const fitsLimits = (s: Sampling) => s.memory <= maxMemory && s.work <= maxWork;
+  if (c.method !== 'auto') {
+    const forced = samplings.filter((s) => s.method === c.method);
+    chosen = forced.filter(fitsLimits).reduce<Chosen | undefined>((b, s) => (!b || s.work < b.work ? s : b), undefined);
+    reasons.push(`${methodWords(c.method)} as requested.`);
+    if (!chosen) {
+      chosen = forced.reduce((b, s) => (s.work < b.work ? s : b));
+      error = tooBig(chosen, c, maxMemory, maxWork, options);
+    }
+  } else {
+    const valid = samplings.filter((s) => validity[s.method].valid);
+    chosen = preferred(valid.filter(fitsLimits));
+    for (const m of METHOD_ORDER) if (!validity[m].valid) reasons.push(`${methodWords(m)} not valid here: ${validity[m].why}.`);
+    for (const s of valid) {
+      if (!fitsLimits(s)) reasons.push(`${methodWords(s.method, s.form)} would need ${limitWords(s, maxMemory, maxWork)}.`);
+    }
+    if (chosen) {
+      reasons.push(`${methodWords(chosen.method, chosen.form)} chosen: ${validity[chosen.method].because}; of the valid methods that fit, the simplest for its work (about ${seconds(chosen.work)}).`);
+    } else {
+      // Nothing valid fits: the cheapest valid plan is kept, so that `plan` can show it, and the
+      // case is refused with why each method is out and how to bring one within the limits.
+      chosen = valid.reduce((b, s) => (s.work < b.work ? s : b));
+      error = refusal(chosen, maxMemory, maxWork, validity);
+    }
   }
   const method = chosen.method;
   const [xPlan, yPlan] = chosen.axes;
 
   // Validity checks that can be made before computing.
+  const minFeature = facts.minFeature;
   const samplesPerFeature = minFeature / Math.max(xPlan!.inputPitch, yPlan?.inputPitch ?? 0);
   const checks: Checks = {
     fresnelNumbers: [nfx, nfy],
     effectiveFresnelNumber: nfEff,
     farFieldDistance,
-    paraxialPhaseError,
+    paraxialPhaseError: paraxial.error,
+    paraxialWorst: { at: paraxial.at, phase: paraxial.phase, weight: paraxial.weight },
     goodmanRatio,
     farFieldPhaseError,
     farFieldPeakError,
     windowLossEstimate,
     featureOverWavelength: minFeature / lam,
     samplesPerFeature,
+    evanescentFraction: model.evanescentFraction,
   };
   if (method === 'angular-spectrum') {
     checks.bandLimit = [
@@ -189,7 +239,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     checks.transferSampling = Math.min(...chosen.axes.map((a) => (a.inputPitch * a.inputPitch * a.paddedSamples) / (lam * z)));
   }
   reasons.push(...samplingReasons(method, chosen.form, chosen.axes, oneD));
-  warnings.push(...preChecks(c, method, chosen.form, checks, chosen.axes, geo));
+  warnings.push(...preChecks(c, method, chosen.form, checks, chosen.axes, geo, options, maxMemory));
 
   const plan: Plan = {
     case: c,
@@ -201,6 +251,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     x: xPlan!,
     y: yPlan ?? null,
     checks,
+    beams: model.beams.map((b) => ({ order: b.order, dir: b.dir, power: b.power, propagates: b.propagates, landing: b.landing })),
+    options,
     reasons,
     warnings,
     memoryBytes: chosen.memory,
@@ -211,6 +263,87 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   return plan;
 }
 
+/** The order in which methods are listed (and, at equal cost, preferred). */
+const METHOD_ORDER: MethodName[] = ['fraunhofer', 'fresnel', 'angular-spectrum', 'rayleigh-sommerfeld'];
+
+/**
+ * Among valid methods that fit, the far-field formula, else Fresnel, else the cheaper exact method,
+ * unless a simpler one costs more than PREFERENCE_SPAN times the cheapest: the closed forms are
+ * what a practitioner checks by hand, and their results move smoothly across a sweep.
+ */
+const PREFERENCE_SPAN = 20;
+
+function preferred<T extends Sampling & { method: MethodName }>(list: T[]): T | undefined {
+  if (list.length === 0) return undefined;
+  const cheapest = list.reduce((b, s) => (s.work < b.work ? s : b));
+  for (const m of ['fraunhofer', 'fresnel'] as MethodName[]) {
+    const forms = list.filter((s) => s.method === m);
+    if (forms.length === 0) continue;
+    const best = forms.reduce((b, s) => (s.work < b.work ? s : b));
+    if (best.work <= PREFERENCE_SPAN * cheapest.work) return best;
+  }
+  return cheapest;
+}
+
+interface Validity {
+  valid: boolean;
+  /** Why it is not valid. */
+  why?: string;
+  /** Why it is valid (for the reasons). */
+  because: string;
+}
+
+function methodValidity(
+  g: Geometry,
+  paraxialError: number,
+  farFieldPhase: number,
+  farFieldError: number,
+  paraxial: { at: [number, number]; phase: number; weight: number },
+): Record<MethodName, Validity> {
+  const ffOk = farFieldError <= LIMITS.farFieldPeakError;
+  const parOk = paraxialError <= LIMITS.paraxialPhase;
+  const where = `at (${len(paraxial.at[0])}${g.oneD ? '' : `, ${len(paraxial.at[1])}`}) it drops ${fmt(paraxial.phase, 2)} rad of phase across the aperture where the light is ${pct(paraxial.weight)} of the peak (weighted ${fmt(paraxialError, 2)} rad, limit ${LIMITS.paraxialPhase} rad)`;
+  return {
+    fraunhofer: {
+      valid: ffOk,
+      because: `the aperture's own quadratic phase π·N_F = ${fmt(farFieldPhase, 2)} rad that it neglects changes the peak by about ${pct(farFieldError)} (limit ${pct(LIMITS.farFieldPeakError)}); it is evaluated in direction cosines with the exact kernel, so wide angles are not paraxial`,
+      ...(ffOk ? {} : { why: `the aperture's quadratic phase π·N_F = ${fmt(farFieldPhase, 2)} rad would change the peak by about ${pct(farFieldError)} (limit ${pct(LIMITS.farFieldPeakError)})` }),
+    },
+    fresnel: {
+      valid: parOk,
+      because: `the paraxial approximation holds wherever the light lands (${where})`,
+      ...(parOk ? {} : { why: `the paraxial approximation fails where light lands: ${where}` }),
+    },
+    'angular-spectrum': { valid: true, because: 'it is exact for scalar waves' },
+    'rayleigh-sommerfeld': { valid: true, because: 'the Rayleigh–Sommerfeld integral is exact for scalar waves at any distance and angle' },
+  };
+}
+
+function lightReasons(m: LightModel, c: Case, z: number): string[] {
+  const orders = m.propagating.filter((b) => b.order !== null);
+  if (orders.length === 0) {
+    return m.evanescentFraction > LIMITS.evanescentWarn ? [`about ${pct(m.evanescentFraction)} of the light is evanescent (spatial frequencies above 1/λ) and never reaches the screen.`] : [];
+  }
+  const ms = orders.map((b) => b.order!).sort((a, b) => a - b);
+  const outer = orders.reduce((b, o) => (Math.abs(o.landing![0]) > Math.abs(b.landing![0]) ? o : b));
+  return [
+    `grating orders m = ${ms[0]}…${ms[ms.length - 1]} propagate (d(sin θ_m − sin θ_i) = mλ); the outermost lands at ${len(outer.landing![0])} = z·tan θ (θ = ${fmt((Math.asin(outer.dir[0]) * 180) / Math.PI, 3)}°)` +
+      (m.evanescentFraction > 1e-4 ? `; about ${pct(m.evanescentFraction)} of the transmitted power goes into evanescent orders and never reaches the screen.` : '.'),
+  ].concat(c.window ? [] : [`the window holds every propagating order at z = ${len(z)}.`]);
+}
+
+/** Order numbers in words: runs of consecutive orders as a…b. */
+function orderList(ms: number[]): string {
+  const parts: string[] = [];
+  for (let i = 0; i < ms.length; ) {
+    let j = i;
+    while (j + 1 < ms.length && ms[j + 1] === ms[j]! + 1) j++;
+    parts.push(j > i ? `${ms[i]}…${ms[j]}` : `${ms[i]}`);
+    i = j + 1;
+  }
+  return parts.join(', ');
+}
+
 function regimeWords(r: Regime): string {
   return r === 'near-field'
     ? 'near field (N_F > 1: the pattern still resembles the aperture)'
@@ -219,18 +352,23 @@ function regimeWords(r: Regime): string {
       : 'far field (N_F ≤ 1/8: the pattern is the Fourier transform of the aperture)';
 }
 
-const FORM_WORDS: Record<FresnelForm, string> = {
+const FORM_WORDS: Record<string, string> = {
   'transfer-function': 'transfer-function form',
   'single-fft': 'single-transform form by one FFT',
   direct: 'single-transform form by direct sums onto the window',
 };
 
-export function methodWords(m: MethodName, form?: FresnelForm): string {
-  return m === 'angular-spectrum'
-    ? 'angular spectrum'
-    : m === 'fresnel'
-      ? `Fresnel${form ? ` (${FORM_WORDS[form]})` : ''}`
-      : 'far-field formula';
+export function methodWords(m: MethodName, form?: MethodForm): string {
+  switch (m) {
+    case 'angular-spectrum':
+      return 'angular spectrum';
+    case 'fresnel':
+      return `Fresnel${form ? ` (${FORM_WORDS[form]})` : ''}`;
+    case 'fraunhofer':
+      return 'far-field formula';
+    case 'rayleigh-sommerfeld':
+      return `Rayleigh–Sommerfeld integral${form === 'per-period' ? ' (one period, summed over the periods)' : form === 'direct' ? ' (direct sums over the aperture)' : ''}`;
+  }
 }
 
 function pct(x: number): string {
@@ -244,104 +382,51 @@ export function bytes(n: number): string {
   return `${trimNumber(n / 1024, 3)} KiB`;
 }
 
+/** Work in words, at the rate the run layer assumes (run-job.ts FLOPS_PER_SECOND). */
+function seconds(work: number): string {
+  const s = work / 2e8;
+  if (s < 1) return '<1 s';
+  if (s < 120) return `${trimNumber(s, 2)} s`;
+  if (s < 7200) return `${trimNumber(s / 60, 2)} min`;
+  return `${trimNumber(s / 3600, 2)} h`;
+}
+
+function limitWords(s: Sampling, maxMemory: number, maxWork: number): string {
+  const parts: string[] = [];
+  if (s.memory > maxMemory) parts.push(`about ${bytes(s.memory)} (over the ${bytes(maxMemory)} limit)`);
+  if (s.work > maxWork) parts.push(`about ${seconds(s.work)} of computing (over the ${seconds(maxWork)} limit)`);
+  return parts.join(' and ');
+}
+
+function tooBig(s: Sampling & { method: MethodName }, c: Case, maxMemory: number, maxWork: number, options: MethodOption[]): string {
+  const alt = options.filter((o) => o.valid && o.fits && o.method !== s.method);
+  return (
+    `${methodWords(s.method, s.form)} needs ${limitWords(s, maxMemory, maxWork)}: ` +
+    `${s.axes.map((a) => a.paddedSamples).join(' × ')} samples at ${len(s.axes[0]!.inputPitch)}. ` +
+    (alt.length ? `method: ${alt[0]!.method} is valid here and fits; ` : '') +
+    `otherwise a smaller window${c.grid?.pitch ? ' or a coarser grid.pitch' : ''} or a larger limit (--max-memory).`
+  );
+}
+
+function refusal(s: Sampling & { method: MethodName }, maxMemory: number, maxWork: number, validity: Record<MethodName, Validity>): string {
+  const out = METHOD_ORDER.filter((m) => !validity[m].valid).map((m) => `${methodWords(m)}: ${validity[m].why}`);
+  return (
+    `no valid method fits: the cheapest, ${methodWords(s.method, s.form)}, needs ${limitWords(s, maxMemory, maxWork)}` +
+    ` (${s.axes.map((a) => a.paddedSamples).join(' × ')} ${s.method === 'rayleigh-sommerfeld' ? 'cells' : 'samples'} at ${len(s.axes[0]!.inputPitch)})` +
+    (out.length ? `; ${out.join('; ')}` : '') +
+    `. Lower it with a smaller window, or raise the limit (--max-memory).`
+  );
+}
+
 export function beamRadiusAt(w0: number, lam: number, z: number): number {
   const zr = (Math.PI * w0 * w0) / lam;
   return w0 * Math.sqrt(1 + (z / zr) ** 2);
 }
 
-/**
- * Edge-diffraction tails: far outside the geometric spot an edge of length ℓ (per unit length of
- * edge) scatters power ≈ λz/(2π²u)·I_edge beyond a distance u (Fresnel edge and far-field sinc²/Airy
- * tails share this 1/u law; e.g. Airy: 1 − EE(r) ≈ 2λz/(π²Dr)). Solving for the target loss gives
- * the margin around the aperture's projection.
- */
-function tailMargin(f: ApertureFacts, waist: number, lam: number, z: number, oneD: boolean): number {
-  const { edgeWeight, power } = illuminatedEdges(f, waist, oneD);
-  return (f.edgeMeasure * edgeWeight * lam * z) / (2 * Math.PI ** 2 * power * LIMITS.windowLossTarget);
-}
-
-function illuminatedEdges(f: ApertureFacts, waist: number, oneD: boolean) {
-  if (!Number.isFinite(waist)) return { edgeWeight: 1, power: f.openMeasure };
-  const edgeDist = oneD ? f.halfExtent[0] : Math.min(f.halfExtent[0], f.halfExtent[1]);
-  const edgeWeight = Math.exp((-2 * edgeDist * edgeDist) / (waist * waist));
-  const beamPower = oneD ? waist * Math.sqrt(Math.PI / 2) : (Math.PI * waist * waist) / 2;
-  return { edgeWeight, power: Math.min(f.openMeasure, beamPower) };
-}
-
 /** Fraction of the power that edge diffraction sends farther than u beyond the geometric spot. */
-function edgeTail(f: ApertureFacts, waist: number, lam: number, z: number, oneD: boolean, u: number): number {
+function edgeTail(m: LightModel, lam: number, z: number, u: number): number {
   if (!(u > 0)) return 0.5;
-  const { edgeWeight, power } = illuminatedEdges(f, waist, oneD);
-  return Math.min(1, (f.edgeMeasure * edgeWeight * lam * z) / (2 * Math.PI ** 2 * power * u));
-}
-
-function estimateWindowLoss(
-  f: ApertureFacts,
-  waist: number,
-  lam: number,
-  z: number,
-  oneD: boolean,
-  aEff: [number, number],
-  windowHalf: [number, number],
-  beamRadius?: number,
-): number {
-  const axes = oneD ? [0] : [0, 1];
-  const u = Math.min(...axes.map((i) => windowHalf[i]! - aEff[i]!));
-  let loss = edgeTail(f, waist, lam, z, oneD, u);
-  if (beamRadius !== undefined) {
-    // A Gaussian profile outside the window half-width (per axis, intensity ∝ exp(−2x²/w²)).
-    for (const i of axes) loss += erfcApprox((Math.SQRT2 * windowHalf[i]!) / beamRadius);
-  }
-  return Math.min(1, loss);
-}
-
-function erfcApprox(x: number): number {
-  // Abramowitz & Stegun 7.1.26 (|error| < 1.5e-7), enough for an estimate.
-  const t = 1 / (1 + 0.3275911 * x);
-  const y = t * (0.254829592 + t * (-0.284496736 + t * (1.421413741 + t * (-1.453152027 + t * 1.061405429))));
-  return y * Math.exp(-x * x);
-}
-
-/**
- * Peak-to-peak quartic phase dropped by the Fresnel approximation, k|x−ξ|⁴/(8z³), across the
- * aperture, for observation points in the spot region (the illuminated aperture plus three
- * far-field lobe widths, within the window). What matters for intensities is its variation over ξ,
- * not its value, so this is far less strict than Goodman's sufficient condition. The variation is
- * evaluated at the spot region's centre, edges and corners against aperture points at the edges,
- * the quarters, the centre and the point nearest the observer (where it is smallest): the x and y
- * extents stay apart, so a long slit's length does not count against its far-field width.
- */
-function paraxialError(g: Geometry): number {
-  const axes = g.oneD ? [0] : [0, 1];
-  const obs: number[][] = [];
-  const ap: number[][] = [];
-  for (const i of axes) {
-    const a = g.aEff[i]!;
-    const core = Math.min(g.windowHalf[i]!, a + (3 * g.lam * g.z) / (2 * Math.max(a, 1e-30)));
-    const c = g.centre[i]!;
-    obs.push([c - core, c, c + core]);
-    ap.push([-a, -a / 2, 0, a / 2, a]);
-  }
-  let worst = 0;
-  const quartic = (d2: number) => (g.k * d2 * d2) / (8 * g.z ** 3);
-  const clamp = (v: number, a: number) => Math.max(-a, Math.min(a, v));
-  for (const x of obs[0]!) {
-    for (const y of g.oneD ? [0] : obs[1]!) {
-      let lo = Infinity;
-      let hi = -Infinity;
-      const xs = [...ap[0]!, clamp(x, g.aEff[0]!)];
-      const ys = g.oneD ? [0] : [...ap[1]!, clamp(y, g.aEff[1]!)];
-      for (const xi of xs) {
-        for (const eta of ys) {
-          const phi = quartic((x - xi) ** 2 + (y - eta) ** 2);
-          lo = Math.min(lo, phi);
-          hi = Math.max(hi, phi);
-        }
-      }
-      worst = Math.max(worst, hi - lo);
-    }
-  }
-  return worst;
+  return Math.min(1, (m.edgesPerPower * lam * z) / (2 * Math.PI ** 2 * u));
 }
 
 function goodman(g: Geometry): number {
@@ -351,65 +436,31 @@ function goodman(g: Geometry): number {
   return (Math.PI * rho2 * rho2) / (4 * g.lam * g.z ** 3);
 }
 
-function chooseMethods(
-  request: Case['method'],
-  g: Geometry,
-  paraxialPhase: number,
-  farFieldPhase: number,
-  farFieldError: number,
-  reasons: string[],
-): MethodName[] {
-  const paraxialOk = paraxialPhase <= LIMITS.paraxialPhase;
-  const farFieldOk = farFieldError <= LIMITS.farFieldPeakError;
-  const separable = g.facts.separable;
-  if (request !== 'auto') {
-    reasons.push(`${methodWords(request)} as requested.`);
-    return [request];
-  }
-  const parax = `the paraxial (Fresnel) approximation drops a phase of ${fmt(paraxialPhase, 2)} rad peak-to-peak over the spot region (limit ${LIMITS.paraxialPhase} rad)`;
-  // The cheapest method that is valid: the far-field formula, else Fresnel, else the exact angular
-  // spectrum. Later entries are fallbacks when memory does not allow the first.
-  if (farFieldOk) {
-    reasons.push(
-      `far-field formula chosen: the aperture's own quadratic phase π·N_F = ${fmt(farFieldPhase, 2)} rad that it neglects ` +
-        `changes the peak by about ${pct(farFieldError)} (limit ${pct(LIMITS.farFieldPeakError)}); it is evaluated in direction cosines, so wide angles are not paraxial.`,
-    );
-    return ['fraunhofer', 'fresnel'];
-  }
-  if (paraxialOk) {
-    reasons.push(
-      `Fresnel chosen: ${parax}; the far-field formula would be off by about ${pct(farFieldError)} at the peak (π·N_F = ${fmt(farFieldPhase, 2)} rad)` +
-        (separable ? '; the aperture is separable, so it is computed as 1-D problems.' : '.'),
-    );
-    return ['fresnel', 'angular-spectrum'];
-  }
-  reasons.push(`angular spectrum chosen (exact for scalar waves): ${parax.replace('drops', 'would drop')}.`);
-  return ['angular-spectrum', 'fresnel', 'fraunhofer'];
-}
-
 interface Sampling {
-  form?: FresnelForm;
+  form?: MethodForm;
   axes: AxisPlan[];
   layout: Layout;
   memory: number;
   work: number;
 }
 
-function sample(method: MethodName, g: Geometry, c: Case): Sampling {
+/** The plans of a method: one per form that applies (Fresnel has three; the exact integral two). */
+function sample(method: MethodName, g: Geometry, c: Case): Sampling[] {
   const axes = g.oneD ? [0] : [0, 1];
-  const layout: Layout = g.oneD ? 'one-d' : g.facts.separable && method !== 'angular-spectrum' ? 'separable' : 'two-d';
   if (method === 'angular-spectrum') {
+    const layout: Layout = g.oneD ? 'one-d' : 'two-d';
     const plans = axes.map((i) => fftAxisPlan(g, i, c, method));
-    return { axes: plans, layout, ...costFft(plans, layout) };
+    return [{ axes: plans, layout, ...costFft(plans, layout) }];
   }
+  const layout: Layout = g.oneD ? 'one-d' : g.facts.separable ? 'separable' : 'two-d';
   if (method === 'fresnel') {
     // Three forms of the same integral. Voelz's rule: the transfer function is adequately sampled
-    // when Δx ≥ λz/L. Where several forms are valid they give the same answer, and the cheapest
-    // is taken; a grid.size names an FFT grid, so it asks for the transfer-function form.
+    // when Δx ≥ λz/L. They give the same answer; a grid.size names an FFT grid, so it asks for the
+    // transfer-function form.
     const tf = axes.map((i) => fftAxisPlan(g, i, c, method));
     const tfCost = costFft(tf, layout);
     const tfSampled = tf.every((p) => (p.inputPitch * p.inputPitch * p.paddedSamples) / (g.lam * g.z) >= 1);
-    if (c.grid?.size) return { form: 'transfer-function', axes: tf, layout, ...tfCost };
+    if (c.grid?.size) return [{ form: 'transfer-function', axes: tf, layout, ...tfCost }];
     const direct = axes.map((i) => directAxisPlan(g, i, c, 'fresnel'));
     const options: Sampling[] = [{ form: 'direct', axes: direct, layout, ...costDirect(direct, layout, false) }];
     if (tfSampled) options.push({ form: 'transfer-function', axes: tf, layout, ...tfCost });
@@ -417,18 +468,83 @@ function sample(method: MethodName, g: Geometry, c: Case): Sampling {
     if (single.every((a) => a.paddedSamples <= LIMITS.maxSingleFft)) {
       options.push({ form: 'single-fft', axes: single, layout, ...costFft(single, layout) });
     }
-    return options.reduce((best, o) => (o.work < best.work ? o : best));
+    return options;
   }
-  const plans = axes.map((i) => directAxisPlan(g, i, c, 'fraunhofer'));
-  return { axes: plans, layout, ...costDirect(plans, layout, true) };
+  if (method === 'fraunhofer') {
+    const plans = axes.map((i) => directAxisPlan(g, i, c, 'fraunhofer'));
+    return [{ axes: plans, layout, ...costFarField(plans, layout, g, c) }];
+  }
+  return sampleExact(g, c);
 }
 
-function pitchFor(
-  g: Geometry,
-  c: Case,
-  contentRule: { pitch: number; rule: string },
-  featureSamples: number,
-) {
+/**
+ * The exact integral. 1-D: cells no wider than the curvature rule allows (rs-sampling.ts) over the
+ * open intervals, summed onto the window; for a grating lit by a plane wave, also one period's
+ * field summed over the periods on a lattice commensurate with the period. 2-D: an area-sampled
+ * grid, cells no wider than the curvature rule, the smallest feature's 16th and λ/(4·sin θ) of the
+ * steepest ray into the window (partial edge cells carry their open area at the cell centre, so
+ * their phase error must stay small at the widest angle), summed onto the window point by point.
+ */
+function sampleExact(g: Geometry, c: Case): Sampling[] {
+  const a = c.aperture;
+  const waist = Number.isFinite(g.waist) ? { waist: g.waist } : {};
+  // A given grid.pitch bounds the cells too (the job asked for at least that resolution).
+  const cell = Math.min(rsMaxCell(g.lam, g.z, waist), c.grid?.pitch ?? Infinity);
+  if (g.oneD) {
+    const out = directAxisPlan(g, 0, c, 'rayleigh-sommerfeld');
+    const intervals = a.shape === 'slits' ? a.count : 1;
+    const open = Number.isFinite(g.waist) ? Math.min(g.facts.openMeasure, 2 * g.aEff[0]) : g.facts.openMeasure;
+    const cells = Math.ceil(open / cell) + intervals;
+    const rule = { pitch: cell, required: cell, rule: `cells of at most ${len(cell)} over the open intervals, edges exact (the kernel's phase curvature across a cell stays within the accuracy target)` };
+    const direct: Sampling = {
+      form: 'direct',
+      axes: [axisPlan(g, 0, rule, cells, cells, out.output)],
+      layout: 'one-d',
+      memory: BASELINE_MEMORY + 16 * (5 * cells + 2 * out.output.n),
+      work: costRsDirect1D(cells, out.output.n),
+    };
+    const list = [direct];
+    if (a.shape === 'slits' && a.count >= 2 && c.illumination.kind === 'plane') {
+      const lo = out.output.start;
+      const hi = out.output.start + (out.output.n - 1) * out.output.step;
+      const pa = periodicAxis(a.period, out.output.step, lo, hi);
+      const perPeriod = Math.ceil(a.width / cell);
+      const lattice = (a.count - 1) * pa.p + (pa.axis.n - 1) * pa.s + 1;
+      const axis = axisPlan(g, 0, { ...rule, rule: `${rule.rule}; one period's field on a lattice of ${len(a.period / pa.p)}, summed over the ${a.count} periods` }, perPeriod, perPeriod, pa.axis);
+      axis.periodic = { p: pa.p, s: pa.s };
+      list.push({
+        form: 'per-period',
+        axes: [axis],
+        layout: 'one-d',
+        // One period's field on the whole lattice, then the output.
+        memory: BASELINE_MEMORY + 16 * (lattice + 2 * pa.axis.n + 5 * perPeriod),
+        work: costRsPerPeriod1D(perPeriod, a.count, pa.axis.n, pa.p, pa.s),
+      });
+    }
+    return list;
+  }
+  const sMax = steepestDirection(g);
+  const width = Math.min(cell, g.lam / (4 * Math.max(sMax, 1e-6)));
+  const p = pitchFor(g, c, { pitch: width, rule: `the kernel's curvature rule and λ/(4 sin θ) at the steepest ray into the window (partial edge cells carry their open area at the cell centre)` }, LIMITS.featureSamples2D);
+  const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
+  const n = [0, 1].map((i) => c.grid?.size ?? 2 * Math.ceil(g.aEff[i]! / p.pitch + 0.5) + 1);
+  const axes = [0, 1].map((i) => axisPlan(g, i, p, n[i]!, n[i]!, out[i]!.output));
+  const cells = n[0]! * n[1]!;
+  const outputs = out[0]!.output.n * out[1]!.output.n;
+  return [{ form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + 16 * (3 * cells) + 64 * outputs, work: costRsDirect2D(cells, outputs) }];
+}
+
+/** The largest direction cosine from the illuminated aperture to the window. */
+function steepestDirection(g: Geometry): number {
+  let s = 0;
+  for (const i of g.oneD ? [0] : [0, 1]) {
+    const reach = Math.abs(g.centre[i]!) + g.windowHalf[i]! + g.aEff[i]!;
+    s = Math.max(s, reach / Math.sqrt(reach * reach + g.z * g.z));
+  }
+  return s;
+}
+
+function pitchFor(g: Geometry, c: Case, contentRule: { pitch: number; rule: string }, featureSamples: number) {
   const rules: { pitch: number; rule: string }[] = [
     { pitch: g.facts.minFeature / featureSamples, rule: `${featureSamples} samples across the smallest feature (${len(g.facts.minFeature)})` },
     contentRule,
@@ -441,9 +557,9 @@ function pitchFor(
   return { pitch: required, required, rule: best.rule };
 }
 
-/** Separable apertures are computed as 1-D problems unless the angular spectrum needs a 2-D grid. */
+/** Separable apertures are computed as 1-D problems unless the method needs a 2-D grid. */
 function onTwoDGrid(g: Geometry, method: MethodName): boolean {
-  return !g.oneD && !(g.facts.separable && method !== 'angular-spectrum');
+  return !g.oneD && !(g.facts.separable && (method === 'fresnel' || method === 'fraunhofer'));
 }
 
 function featureSamples(g: Geometry, method: MethodName): number {
@@ -454,14 +570,26 @@ function oversampling(g: Geometry, method: MethodName): number {
   return onTwoDGrid(g, method) ? LIMITS.oversampling2D : LIMITS.oversampling1D;
 }
 
+/**
+ * FFT grids. The pitch resolves the highest spatial frequency that reaches the window,
+ * sin θ/λ of the steepest ray from the aperture into it (q samples per period of it). Where the
+ * window takes in steep rays (short distances, wide windows) that rule reaches λ/4 (2-D) or λ/8
+ * (1-D): the area-sampled edge is not band-limited, and its spectrum beyond the grid's band folds
+ * back into the propagating band — far away the folded light leaves the window, close to the
+ * aperture it lands in it. Below λ/2 the grid carries evanescent frequencies, which the angular
+ * spectrum damps correctly.
+ */
 function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisPlan {
-  const reach = g.windowHalf[i]! + Math.abs(g.centre[i]!) + g.aEff[i]!;
   const q = oversampling(g, method);
-  const content = (g.lam * g.z) / (q * reach);
-  const contentRule =
-    content < g.lam / 2
-      ? { pitch: g.lam / 2, rule: 'λ/2: every propagating spatial frequency' }
-      : { pitch: content, rule: `${q}× the highest spatial frequency that reaches the window, λz/(${q}·${len(reach)})` };
+  let contentRule: { pitch: number; rule: string };
+  if (method === 'angular-spectrum') {
+    const s = steepestDirection(g);
+    contentRule = { pitch: g.lam / (q * s), rule: `${q}× the highest spatial frequency that reaches the window, sin θ/λ = ${fmt(s, 3)}/λ` };
+  } else {
+    const reach = g.windowHalf[i]! + Math.abs(g.centre[i]!) + g.aEff[i]!;
+    const content = (g.lam * g.z) / (q * reach);
+    contentRule = { pitch: content, rule: `${q}× the highest spatial frequency that reaches the window, λz/(${q}·${len(reach)})` };
+  }
   const p = pitchFor(g, c, contentRule, featureSamples(g, method));
   const half = Math.max(g.facts.halfExtent[i]!, Math.abs(g.centre[i]!) + g.windowHalf[i]!);
   const minN = g.oneD ? LIMITS.minSamples1D : LIMITS.minSamples2D;
@@ -496,12 +624,12 @@ function paddingFactor(g: Geometry, method: MethodName, width: number): number {
   const beyond = (pad: number) => {
     // Light at the band-limit angle (sin θ = λ f) lands z·tan θ away.
     const s = Math.min(0.999, g.lam * bandLimitFrequency(g.z, g.lam, pad * width));
-    return edgeTail(g.facts, g.waist, g.lam, g.z, g.oneD, (g.z * s) / Math.sqrt(1 - s * s));
+    return edgeTail(g.model, g.lam, g.z, (g.z * s) / Math.sqrt(1 - s * s));
   };
   return beyond(LIMITS.padding) > LIMITS.bandLimitTarget ? 2 * LIMITS.padding : LIMITS.padding;
 }
 
-function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fraunhofer'): AxisPlan {
+function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld'): AxisPlan {
   const q = oversampling(g, method);
   const reach = g.windowHalf[i]! + Math.abs(g.centre[i]!) + g.aEff[i]!;
   let contentRule: { pitch: number; rule: string };
@@ -590,40 +718,92 @@ function costDirect(axes: AxisPlan[], layout: Layout, farField: boolean): { memo
   return { memory: BASELINE_MEMORY + mem, work };
 }
 
-function samplingReasons(method: MethodName, form: FresnelForm | undefined, axes: AxisPlan[], oneD: boolean): string[] {
+/**
+ * The far-field formula's cost by the path direct.ts takes: a 1-D sum per output sample; for
+ * separable apertures each factor's spectrum tabulated (steps of 1/(32·reach)) and interpolated;
+ * for round untilted apertures one radial line of the spectrum, interpolated; otherwise, where
+ * x/(λr) ≈ x/(λz) holds across the aperture (mappingError), two matrix products, else a sum per
+ * output point.
+ */
+function costFarField(axes: AxisPlan[], layout: Layout, g: Geometry, c: Case): { memory: number; work: number } {
+  const m = axes.reduce((p, a) => p * a.output.n, 1);
+  const table = (a: AxisPlan) => {
+    const reach = a.apertureHalf + a.inputPitch;
+    const fSpan = (2 * (Math.abs(a.windowCentre) + a.windowHalf)) / (g.lam * g.z);
+    return Math.ceil(32 * reach * fSpan) + 5;
+  };
+  if (layout === 'one-d') {
+    const a = axes[0]!;
+    return { memory: BASELINE_MEMORY + 16 * (2 * a.inputSamples + 2 * a.output.n), work: 8 * a.inputSamples * a.output.n + 20 * m };
+  }
+  if (layout === 'separable') {
+    const mem = axes.reduce((s, a) => s + 16 * (2 * a.inputSamples + table(a)), 0);
+    return { memory: BASELINE_MEMORY + mem + 64 * m, work: axes.reduce((s, a) => s + 8 * a.inputSamples * table(a), 0) + 60 * m };
+  }
+  const [x, y] = axes as [AxisPlan, AxisPlan];
+  const nin = x.inputSamples * y.inputSamples;
+  const mem = BASELINE_MEMORY + 16 * (2 * nin + x.output.n * x.inputSamples + y.output.n * y.inputSamples + y.inputSamples * x.output.n) + 64 * m;
+  const untilted = c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0;
+  if (untilted && (c.aperture.shape === 'circle' || c.aperture.shape === 'annulus')) {
+    const reach = Math.max(x.apertureHalf, y.apertureHalf) + x.inputPitch;
+    const fMax = (Math.SQRT2 * Math.max(x.windowHalf, y.windowHalf)) / (g.lam * g.z);
+    return { memory: mem, work: 8 * nin * (Math.ceil(32 * reach * fMax) + 5) + 40 * m };
+  }
+  const outX = x.output;
+  const outY = y.output;
+  if (mappingError([x.apertureHalf, y.apertureHalf], g.z, outX, outY, g.lam) <= 1e-4) {
+    return { memory: mem, work: 8 * (nin * x.output.n + y.output.n * y.inputSamples * x.output.n) + 40 * m };
+  }
+  return { memory: mem, work: 8 * nin * m + 40 * m };
+}
+
+function samplingReasons(method: MethodName, form: MethodForm | undefined, axes: AxisPlan[], oneD: boolean): string[] {
   const names = oneD ? ['x'] : ['x', 'y'];
   const out: string[] = [];
   axes.forEach((a, i) => {
     const axis = names[i];
     const fft = method === 'angular-spectrum' || form === 'transfer-function';
-    out.push(
-      `${axis}: aperture-plane pitch ${len(a.inputPitch)} (${a.pitchRule}); ` +
-        (fft
-          ? `${a.inputSamples} samples zero-padded to ${a.paddedSamples}; output ${a.output.n} samples at the same pitch.`
-          : form === 'single-fft'
-            ? `${a.inputSamples} samples over the illuminated aperture, zero-padded to ${a.paddedSamples} so that the output lattice λz/(NΔx) is ${len(a.output.step)}; ${a.output.n} samples in the window.`
-            : `${a.inputSamples} samples over the illuminated aperture; output ${a.output.n} samples at ${len(a.output.step)}.`),
-    );
+    let tail: string;
+    if (fft) tail = `${a.inputSamples} samples zero-padded to ${a.paddedSamples}; output ${a.output.n} samples at the same pitch.`;
+    else if (form === 'single-fft') tail = `${a.inputSamples} samples over the illuminated aperture, zero-padded to ${a.paddedSamples} so that the output lattice λz/(NΔx) is ${len(a.output.step)}; ${a.output.n} samples in the window.`;
+    else if (method === 'rayleigh-sommerfeld') tail = `${a.inputSamples} cells; output ${a.output.n} samples at ${len(a.output.step)}.`;
+    else tail = `${a.inputSamples} samples over the illuminated aperture; output ${a.output.n} samples at ${len(a.output.step)}.`;
+    out.push(`${axis}: aperture-plane ${method === 'rayleigh-sommerfeld' ? 'cells' : 'pitch'} ${len(a.inputPitch)} (${a.pitchRule}); ${tail}`);
   });
   return out;
+}
+
+/** A valid method that fits, other than `not`, to advise; null if there is none. */
+function advisable(options: MethodOption[], not: MethodName): MethodOption | null {
+  const ok = options.filter((o) => o.valid && o.fits && o.method !== not);
+  if (ok.length === 0) return null;
+  return ok.reduce((b, o) => ((o.work ?? Infinity) < (b.work ?? Infinity) ? o : b));
+}
+
+function adviceFor(options: MethodOption[], not: MethodName): string {
+  const a = advisable(options, not);
+  return a ? `use method: ${a.method} (valid here, and it fits)` : 'no valid method fits this case as given: narrow the window or raise --max-memory';
 }
 
 function preChecks(
   c: Case,
   method: MethodName,
-  form: FresnelForm | undefined,
+  form: MethodForm | undefined,
   checks: Checks,
   axes: AxisPlan[],
   g: Geometry,
+  options: MethodOption[],
+  maxMemory: number,
 ): Warning[] {
   const w: Warning[] = [];
+  void maxMemory;
   if (checks.featureOverWavelength < LIMITS.vectorFeature) {
     w.push({
       code: 'near-wavelength',
       message: `the smallest feature (${len(g.facts.minFeature)}) is only ${fmt(checks.featureOverWavelength, 2)} λ: scalar diffraction loses accuracy there (polarisation, edge and thickness effects); a rigorous vector method is needed for quantitative results`,
     });
   }
-  if (checks.samplesPerFeature < LIMITS.minSamplesPerFeature) {
+  if (checks.samplesPerFeature < LIMITS.minSamplesPerFeature && method !== 'rayleigh-sommerfeld') {
     w.push({
       code: 'undersampled-feature',
       message: `only ${fmt(checks.samplesPerFeature, 2)} samples across the smallest feature (${len(g.facts.minFeature)}); at least ${LIMITS.minSamplesPerFeature} are needed for its edges to be resolved`,
@@ -659,15 +839,16 @@ function preChecks(
     }
   }
   if (method === 'fresnel' && checks.paraxialPhaseError > LIMITS.paraxialPhase) {
+    const at = checks.paraxialWorst!;
     w.push({
       code: 'paraxial',
-      message: `the Fresnel (paraxial) approximation drops ${fmt(checks.paraxialPhaseError, 2)} rad of phase over the spot region (limit ${LIMITS.paraxialPhase} rad; Goodman's sufficient condition ratio ${fmt(checks.goodmanRatio, 2)}): positions and intensities may be off; use method: angular-spectrum`,
+      message: `the Fresnel (paraxial) approximation is off where light lands: at (${len(at.at[0])}${g.oneD ? '' : `, ${len(at.at[1])}`}) it drops ${fmt(at.phase, 2)} rad of phase across the aperture where the light is ${pct(at.weight)} of the peak (weighted ${fmt(checks.paraxialPhaseError, 2)} rad, limit ${LIMITS.paraxialPhase} rad; Goodman's sufficient condition ratio ${fmt(checks.goodmanRatio, 2)}): positions and intensities there are off; ${adviceFor(options, 'fresnel')}`,
     });
   }
   if (method === 'fraunhofer' && checks.farFieldPeakError > LIMITS.farFieldPeakErrorWarn) {
     w.push({
       code: 'not-far-field',
-      message: `the far-field formula neglects the aperture's quadratic phase π·N_F = ${fmt(checks.farFieldPhaseError, 2)} rad here (N_F = ${fmt(checks.effectiveFresnelNumber, 3)}; far field from ${len(checks.farFieldDistance)}), about ${pct(checks.farFieldPeakError)} at the peak: the pattern is not yet the far-field one; use method: auto or fresnel`,
+      message: `the far-field formula neglects the aperture's quadratic phase π·N_F = ${fmt(checks.farFieldPhaseError, 2)} rad here (N_F = ${fmt(checks.effectiveFresnelNumber, 3)}; far field from ${len(checks.farFieldDistance)}), about ${pct(checks.farFieldPeakError)} at the peak: the pattern is not yet the far-field one; ${adviceFor(options, 'fraunhofer')}`,
     });
   }
   if (checks.transferSampling !== undefined && checks.transferSampling < 1) {

@@ -2,8 +2,11 @@ import type { Aperture, Illumination } from '../optics/aperture.js';
 import type { Axis } from '../optics/field.js';
 import type { MethodRequest } from '../job/schema.js';
 
-export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer';
+export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
 export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct';
+/** The exact integral summed over the aperture's cells, or one period's field summed over a grating's periods. */
+export type RsForm = 'direct' | 'per-period';
+export type MethodForm = FresnelForm | RsForm;
 export type Regime = 'near-field' | 'transition' | 'far-field';
 /** one-d: invariant along y; separable: x-problem × y-problem; two-d: a full 2-D grid. */
 export type Layout = 'one-d' | 'separable' | 'two-d';
@@ -63,6 +66,11 @@ export interface AxisPlan {
   /** The pitch the accuracy rules asked for, and which rule set it. */
   requiredPitch: number;
   pitchRule: string;
+  /**
+   * The per-period sums (a grating): the output pitch is s·(period/p), and one period's field is
+   * evaluated on the lattice of pitch period/p.
+   */
+  periodic?: { p: number; s: number };
 }
 
 export interface Checks {
@@ -72,8 +80,14 @@ export interface Checks {
   effectiveFresnelNumber: number;
   /** 2D²/λ with D the largest aperture dimension (common practice far-field distance). */
   farFieldDistance: number;
-  /** Peak-to-peak quartic phase the paraxial approximation drops over the spot region (rad). */
+  /**
+   * The paraxial approximation's error where the light lands: over the window, the largest
+   * peak-to-peak variation across the aperture of the phase it drops, weighted by the share of the
+   * peak intensity the planner's model puts there (rad; see plan/paraxial.ts).
+   */
   paraxialPhaseError: number;
+  /** Where that error is largest, the unweighted phase variation there and the weight. */
+  paraxialWorst?: { at: [number, number]; phase: number; weight: number };
   /** Goodman's sufficient condition z³ ≫ (π/4λ)·max ρ⁴ as the ratio (π/4λ)ρ⁴/z³ over the window. */
   goodmanRatio: number;
   /** The aperture's quadratic phase π·N_F that the far-field formula neglects (rad). */
@@ -103,17 +117,43 @@ export interface Checks {
   evanescentFraction?: number;
 }
 
+/** A method the planner considered, whether it is valid here, and what it would cost. */
+export interface MethodOption {
+  method: MethodName;
+  form?: MethodForm;
+  valid: boolean;
+  /** Why it is not valid (when it is not). */
+  why?: string;
+  memoryBytes?: number;
+  work?: number;
+  /** Within the memory and time limits. */
+  fits?: boolean;
+}
+
+/** A beam of the planner's light model (src/plan/light.ts), as plain data. */
+export interface PlannedBeam {
+  order: number | null;
+  dir: [number, number];
+  power: number;
+  propagates: boolean;
+  landing: [number, number] | null;
+}
+
 export interface Plan {
   case: Case;
   regime: Regime;
   method: MethodName;
-  form?: FresnelForm;
+  form?: MethodForm;
   layout: Layout;
   /** Opaque apertures: U = U_free − U_open (Babinet). */
   babinet: boolean;
   x: AxisPlan;
   y: AxisPlan | null;
   checks: Checks;
+  /** Where the planner expects the light: every beam (grating order) it sized the window for. */
+  beams: PlannedBeam[];
+  /** Every method considered, valid or not, with its cost: advice is chosen from these. */
+  options: MethodOption[];
   reasons: string[];
   warnings: Warning[];
   /** Estimated peak memory of the case (bytes), counting a kept source spectrum (sharedSpectrum). */

@@ -17,6 +17,8 @@ import {
 } from '../optics/spectral.js';
 import { propagationPhase, rotate } from '../optics/phase.js';
 import { propagateFresnelSingleFFT } from '../optics/single-fft.js';
+import { cellsFromIntervals, rsDirect1D, rsDirect2D, rsPerPeriod1D, type Interval } from '../optics/rayleigh-sommerfeld.js';
+import type { Illumination, Profile } from '../optics/aperture.js';
 import { LIMITS } from '../plan/limits.js';
 import type { AxisPlan, Plan } from '../plan/types.js';
 
@@ -188,6 +190,63 @@ function propagate1D(src: Field, plan: Plan, axis: AxisPlan, carrier: number): P
   return { field: propagateFarField(src, z, axis.output, null, [carrier, 0]) };
 }
 
+/** The open intervals of a 1-D profile, centred on the axis as the masks centre it. */
+export function profileIntervals(p: Profile): Interval[] {
+  if (p.kind === 'interval') return [{ lo: -p.width / 2, hi: p.width / 2 }];
+  const first = -((p.count - 1) / 2) * p.period;
+  const out: Interval[] = [];
+  for (let n = 0; n < p.count; n++) out.push({ lo: first + n * p.period - p.width / 2, hi: first + n * p.period + p.width / 2 });
+  return out;
+}
+
+/** ∫|U₀|² over a 1-D profile: its open length, or under a Gaussian exp(−ξ²/w²) its exact integral. */
+function profilePower(p: Profile, ill: Illumination): number {
+  const open = profileIntervals(p);
+  if (ill.kind === 'plane') return open.reduce((s, iv) => s + (iv.hi - iv.lo), 0);
+  // ∫ e^{−2ξ²/w²} dξ over [lo, hi] = w·√(π/8)·(erf(√2·hi/w) − erf(√2·lo/w)).
+  const w = ill.waist;
+  return open.reduce((s, iv) => s + w * Math.sqrt(Math.PI / 8) * (erf((Math.SQRT2 * iv.hi) / w) - erf((Math.SQRT2 * iv.lo) / w)), 0);
+}
+
+/** erf to about 1e-7 (Abramowitz & Stegun 7.1.26): enough for a power total. */
+function erf(x: number): number {
+  const t = 1 / (1 + 0.3275911 * Math.abs(x));
+  const y = 1 - t * (0.254829592 + t * (-0.284496736 + t * (1.421413741 + t * (-1.453152027 + t * 1.061405429)))) * Math.exp(-x * x);
+  return x < 0 ? -y : y;
+}
+
+/**
+ * The exact integral for a 1-D aperture: a grating lit by a plane wave as one period's field
+ * summed over its periods, anything else by the direct sums over cells with exact edges.
+ */
+function propagateExact1D(plan: Plan, prof: Profile, ill: Illumination): Field {
+  const c = plan.case;
+  const lam = c.wavelength;
+  const sinTilt = Math.sin(ill.tilt[0]);
+  const maxCell = plan.x.inputPitch;
+  const out = plan.x.output;
+  const f = createField(out, null, lam);
+  if (plan.form === 'per-period' && prof.kind === 'grating') {
+    const first = -((prof.count - 1) / 2) * prof.period - prof.width / 2;
+    const periodic = plan.x.periodic!;
+    f.data.set(
+      rsPerPeriod1D(
+        { period: prof.period, count: prof.count, firstOrigin: first, open: [{ lo: 0, hi: prof.width }] },
+        { sinTilt },
+        lam,
+        c.distance,
+        { axis: out, p: periodic.p, s: periodic.s },
+        maxCell,
+      ),
+    );
+    return f;
+  }
+  const light = ill.kind === 'gaussian' ? { sinTilt, waist: ill.waist } : { sinTilt };
+  const cells = cellsFromIntervals(profileIntervals(prof), light, lam, maxCell);
+  f.data.set(rsDirect1D(cells, lam, c.distance, out));
+  return f;
+}
+
 export function computeCase(plan: Plan): ComputedCase {
   if (plan.error) throw new Error(plan.error);
   const c = plan.case;
@@ -203,7 +262,17 @@ export function computeCase(plan: Plan): ComputedCase {
   let powerIn: number;
   let reused = false;
 
-  if (plan.layout === 'one-d') {
+  if (plan.method === 'rayleigh-sommerfeld' && plan.layout === 'one-d') {
+    if (!isOneDAperture(c.aperture)) throw new Error('one-d layout for a 2-D aperture');
+    const prof = separableProfiles(c.aperture)!.x;
+    powerIn = profilePower(prof, ill);
+    result = { field: propagateExact1D(plan, prof, ill) };
+  } else if (plan.method === 'rayleigh-sommerfeld') {
+    const { field: src, power } = sourceField2D(c.aperture, ill, sourceAxis(plan.x, false), sourceAxis(plan.y!, false), lam, { sampleCarrier: false });
+    powerIn = power;
+    const k = (2 * Math.PI) / lam;
+    result = { field: rsDirect2D(src, z, outX, outY!, [k * carrier[0] * lam, k * carrier[1] * lam]) };
+  } else if (plan.layout === 'one-d') {
     if (!isOneDAperture(c.aperture)) throw new Error('one-d layout for a 2-D aperture');
     const prof = separableProfiles(c.aperture)!.x;
     const src = sourceField1D(prof, ill, sourceAxis(plan.x, fft), lam, carrier[0], opts);

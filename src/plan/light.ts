@@ -1,0 +1,180 @@
+// Where the light goes, before anything is computed: the beams an aperture sends out (one for a
+// plain aperture, one per diffraction order for a grating), the power each carries, where it lands
+// on the screen, and a coarse model of the intensity across the screen. The planner sizes the
+// window from it and checks every method's validity where the light actually is — a grating's
+// orders at 40° as much as the central lobe.
+import type { Aperture, ApertureFacts, Illumination } from '../optics/aperture.js';
+import { directionCosines } from '../optics/source.js';
+
+export interface Beam {
+  /** Diffraction order (gratings), or null for the one beam of a plain aperture. */
+  order: number | null;
+  /** Direction cosines [α, β] of the beam's axis. */
+  dir: [number, number];
+  /** Fraction of the power through the aperture (∫|U₀|²) the beam carries (thin-element theory). */
+  power: number;
+  /** α² + β² < 1: the beam reaches the screen. Evanescent beams decay within a few wavelengths. */
+  propagates: boolean;
+  /** Where the beam's axis, leaving the aperture's centre, meets the screen: z·α/γ, z·β/γ. */
+  landing: [number, number] | null;
+}
+
+export interface LightModel {
+  beams: Beam[];
+  /** The propagating beams, strongest first. */
+  propagating: Beam[];
+  /** Fraction of ∫|U₀|² sent into evanescent waves (never reaches the screen). */
+  evanescentFraction: number;
+  /** Half widths of the illuminated aperture [x, y] (the footprint of every beam on the screen). */
+  footprint: [number, number];
+  oneD: boolean;
+  /** Power through the aperture per unit incident irradiance (m² in 2-D, m in 1-D), as lit. */
+  power: number;
+  /** Edge measure of the illuminated aperture per unit of its power (for the edge-diffraction tails). */
+  edgesPerPower: number;
+  /**
+   * Per axis, the edge measure behind one beam's tails along that axis, per unit of its power: the
+   * whole aperture's edges for a plain one; for a grating's orders the outline's two edges across
+   * that axis (2/D_i), since each order is a beam as wide as the grating.
+   */
+  beamEdgesPerPower: [number, number];
+  waist: number;
+}
+
+/** sin(πu)/(πu). */
+export function sinc(u: number): number {
+  if (Math.abs(u) < 1e-8) return 1;
+  const x = Math.PI * u;
+  return Math.sin(x) / x;
+}
+
+/** Direction cosine γ of a direction (α, β); 0 for evanescent ones. */
+function gammaOf(a: number, b: number): number {
+  const g2 = 1 - a * a - b * b;
+  return g2 > 0 ? Math.sqrt(g2) : 0;
+}
+
+/**
+ * Thin binary amplitude grating of slit width w and period d (Goodman, Introduction to Fourier
+ * Optics, §4.4): order m carries |c_m|² = (w/d)²·sinc²(m·w/d) of the incident irradiance, and
+ * Σ_m |c_m|² = w/d, so as a fraction of the power through the slits it is (w/d)·sinc²(m·w/d).
+ */
+export function thinGratingFraction(width: number, period: number, m: number): number {
+  const duty = width / period;
+  return duty * sinc(m * duty) ** 2;
+}
+
+/** The orders m with |α + mλ/d| < 1 (propagating), as [mLow, mHigh]. */
+export function propagatingOrders(sinIncidence: number, wavelength: number, period: number): [number, number] {
+  const q = period / wavelength;
+  let lo = Math.ceil((-1 - sinIncidence) * q);
+  let hi = Math.floor((1 - sinIncidence) * q);
+  // Exactly grazing orders (|s| = 1) do not reach a screen.
+  if (Math.abs(sinIncidence + (lo * wavelength) / period) >= 1) lo++;
+  if (Math.abs(sinIncidence + (hi * wavelength) / period) >= 1) hi--;
+  return [lo, hi];
+}
+
+export function lightModel(a: Aperture, f: ApertureFacts, ill: Illumination, lam: number, z: number, footprint: [number, number]): LightModel {
+  const [alpha, beta] = directionCosines(ill);
+  const oneD = f.oneD;
+  const waist = ill.kind === 'gaussian' ? ill.waist : Infinity;
+  const power = illuminatedPower(f, waist, oneD);
+  const edgeWeight = illuminatedEdgeWeight(f, waist, oneD);
+  const edgesPerPower = (f.edgeMeasure * edgeWeight) / power;
+  const land = (s: [number, number]): [number, number] | null => {
+    const g = gammaOf(s[0], oneD ? 0 : s[1]);
+    return g > 0 ? [(z * s[0]) / g, oneD ? 0 : (z * s[1]) / g] : null;
+  };
+  const beams: Beam[] = [];
+  let beamEdgesPerPower: [number, number] = [edgesPerPower, edgesPerPower];
+  if (a.shape === 'slits' && a.count >= 2) {
+    const [lo, hi] = propagatingOrders(alpha, lam, a.period);
+    let carried = 0;
+    for (let m = lo; m <= hi; m++) {
+      const dir: [number, number] = [alpha + (m * lam) / a.period, oneD ? 0 : beta];
+      const p = thinGratingFraction(a.width, a.period, m);
+      carried += p;
+      beams.push({ order: m, dir, power: p, propagates: true, landing: land(dir) });
+    }
+    // The first evanescent order on each side, so that reports can show where the cut-off is.
+    for (const m of [lo - 1, hi + 1]) {
+      beams.push({ order: m, dir: [alpha + (m * lam) / a.period, oneD ? 0 : beta], power: thinGratingFraction(a.width, a.period, m), propagates: false, landing: null });
+    }
+    // Each order is a beam as wide as the grating: its tails come from the grating's outline
+    // (two edges in 1-D; the outline's length in 2-D), not from every slit's edges.
+    const [fx, fy] = footprint;
+    beamEdgesPerPower = [(edgeWeight * 2) / (2 * fx), oneD ? 0 : (edgeWeight * 2) / (2 * fy)];
+    beams.sort((x, y) => y.power - x.power);
+    return finish(beams, Math.max(0, 1 - carried));
+  }
+  // A plain aperture: one beam along the illumination. The part of its spectrum beyond 1/λ is
+  // evanescent; the edge tail (power beyond spatial frequency F ≈ edges·/(2π²F·power), the same
+  // 1/F law as the window's margin) estimates it, with F the distance from the carrier to the
+  // circle |f| = 1/λ.
+  const dir: [number, number] = [alpha, oneD ? 0 : beta];
+  const reach = (1 - Math.hypot(alpha, oneD ? 0 : beta)) / lam;
+  const evanescent = reach > 0 ? Math.min(0.5, edgesPerPower / (2 * Math.PI ** 2 * reach)) : 1;
+  beams.push({ order: null, dir, power: 1 - evanescent, propagates: reach > 0, landing: land(dir) });
+  return finish(beams, evanescent);
+
+  function finish(list: Beam[], evanescentFraction: number): LightModel {
+    return {
+      beams: list,
+      propagating: list.filter((b) => b.propagates),
+      evanescentFraction,
+      footprint,
+      oneD,
+      power,
+      edgesPerPower,
+      beamEdgesPerPower,
+      waist,
+    };
+  }
+}
+
+/** Power through the aperture per unit incident irradiance, with a Gaussian beam's own limit. */
+export function illuminatedPower(f: ApertureFacts, waist: number, oneD: boolean): number {
+  if (!Number.isFinite(waist)) return f.openMeasure;
+  const beamPower = oneD ? waist * Math.sqrt(Math.PI / 2) : (Math.PI * waist * waist) / 2;
+  return Math.min(f.openMeasure, beamPower);
+}
+
+/** A Gaussian beam's intensity at the aperture's nearest edge (1 for a plane wave). */
+export function illuminatedEdgeWeight(f: ApertureFacts, waist: number, oneD: boolean): number {
+  if (!Number.isFinite(waist)) return 1;
+  const edgeDist = oneD ? f.halfExtent[0] : Math.min(f.halfExtent[0], f.halfExtent[1]);
+  return Math.exp((-2 * edgeDist * edgeDist) / (waist * waist));
+}
+
+/**
+ * The model's intensity (relative to the incident irradiance) that beam b puts at (x, y): the
+ * geometric footprint (the illuminated aperture shifted to the landing point) filled at the
+ * beam's plateau, and outside it the far-zone spread of a beam of the footprint's width: spectral
+ * density D/(1 + (πDδf)²) per axis (peak D, tail 1/(π²Dδf²), the envelope of sinc²), mapped to the
+ * screen with dx/dα = z/γ³. In the far field the second term dominates everywhere and gives the
+ * familiar peak (D_x D_y/λz)² per unit power; in the near field the first gives the shadow.
+ */
+export function beamIntensity(m: LightModel, b: Beam, lam: number, z: number, x: number, y: number): number {
+  if (!b.landing) return 0;
+  const g = gammaOf(b.dir[0], m.oneD ? 0 : b.dir[1]);
+  const scale = (g * g * g) / (lam * z);
+  const axis = (u: number, half: number) => {
+    const d = 2 * half;
+    const off = Math.max(0, Math.abs(u) - half);
+    const plateau = off === 0 ? 1 / d : 0;
+    const df = off * scale;
+    const spread = (d / (1 + (Math.PI * d * df) ** 2)) * scale;
+    return Math.max(plateau, spread);
+  };
+  const px = axis(x - b.landing[0], m.footprint[0]);
+  const py = m.oneD ? 1 : axis(y - b.landing[1], m.footprint[1]);
+  return b.power * m.power * px * py;
+}
+
+/** The model's intensity at (x, y): the beams add in power (their relative phases are not modelled). */
+export function modelIntensity(m: LightModel, lam: number, z: number, x: number, y: number): number {
+  let s = 0;
+  for (const b of m.propagating) s += beamIntensity(m, b, lam, z, x, y);
+  return s;
+}

@@ -1,0 +1,98 @@
+// How far the paraxial (Fresnel) approximation is from the exact kernel where the light lands.
+// The Fresnel kernel replaces k·r by k·(z + ρ²/2z); what it drops, k(√(z²+ρ²) − z − ρ²/2z), moves
+// light landing at wide angles (a grating's order at z·sin θ instead of z·tan θ) and bends the
+// wavefront of every beam. What matters for intensities at a screen point is how much the dropped
+// phase varies over the aperture as seen from that point; what matters for the answer is how much
+// light lands there. So the check weighs the variation by the light the planner's model puts at
+// each point of the window — every beam, every order — not only at the central spot.
+import type { LightModel } from './light.js';
+import { modelIntensity } from './light.js';
+
+/** The phase the Fresnel kernel drops at lateral distance ρ: −kρ⁴/(2z(√(z²+ρ²)+z)²), without cancellation. */
+export function droppedPhase(k: number, z: number, rho: number): number {
+  const r = Math.sqrt(z * z + rho * rho);
+  const rho2 = rho * rho;
+  return (-k * rho2 * rho2) / (2 * z * (r + z) * (r + z));
+}
+
+/**
+ * Peak-to-peak of the dropped phase over the illuminated aperture (a box of half widths ax, ay
+ * about the origin) seen from (x, y): it is monotonic in ρ, so the nearest and farthest aperture
+ * points bound it.
+ */
+export function paraxialVariation(k: number, z: number, ax: number, ay: number, x: number, y: number): number {
+  const nx = Math.max(0, Math.abs(x) - ax);
+  const ny = Math.max(0, Math.abs(y) - ay);
+  const fx = Math.abs(x) + ax;
+  const fy = Math.abs(y) + ay;
+  return Math.abs(droppedPhase(k, z, Math.hypot(fx, fy)) - droppedPhase(k, z, Math.hypot(nx, ny)));
+}
+
+export interface ParaxialEstimate {
+  /** Largest weighted variation, weight·min(Δφ, 2π) (rad): the decision quantity. */
+  error: number;
+  /** The point where it is largest, its unweighted Δφ and the weight there. */
+  at: [number, number];
+  phase: number;
+  weight: number;
+}
+
+export interface ParaxialInputs {
+  lam: number;
+  z: number;
+  model: LightModel;
+  /** Half widths of the illuminated aperture. */
+  aperture: [number, number];
+  centre: [number, number];
+  half: [number, number];
+  /**
+   * Behind an obstacle (Babinet: free beam − hole) the hole's field interferes with the free beam
+   * of amplitude ≈ 1, so an error in it shows linearly: weight 2|U_hole| instead of I/I_peak.
+   */
+  interferesWithFreeBeam: boolean;
+}
+
+/**
+ * Samples the window (an even grid, plus every beam's landing point and footprint edges) and
+ * returns the largest weight·min(Δφ, 2π). The weight is the model's intensity relative to its
+ * peak: a beam carrying a tenth of the peak intensity may be off by ten times more phase before
+ * it disturbs the map by as much. Δφ saturates at 2π: past that the light is simply misplaced and
+ * the error is the light itself.
+ */
+export function paraxialEstimate(p: ParaxialInputs): ParaxialEstimate {
+  const { lam, z, model } = p;
+  const k = (2 * Math.PI) / lam;
+  const axes = model.oneD ? [0] : [0, 1];
+  const points: number[][] = [[], []];
+  for (const i of axes) {
+    const c = p.centre[i]!;
+    const h = p.half[i]!;
+    const even = model.oneD ? 81 : 33;
+    for (let j = 0; j < even; j++) points[i]!.push(c - h + (2 * h * j) / (even - 1));
+    for (const b of model.propagating) {
+      if (!b.landing) continue;
+      for (const u of [-1, -0.5, 0, 0.5, 1]) {
+        const x = b.landing[i]! + u * model.footprint[i]!;
+        if (Math.abs(x - c) <= h) points[i]!.push(x);
+      }
+    }
+  }
+  if (model.oneD) points[1] = [0];
+  // The model's peak: at some beam's landing point.
+  let peak = 0;
+  for (const b of model.propagating) if (b.landing) peak = Math.max(peak, modelIntensity(model, lam, z, b.landing[0], b.landing[1]));
+  if (p.interferesWithFreeBeam) peak = Math.max(1, peak);
+  let best: ParaxialEstimate = { error: 0, at: [p.centre[0], p.centre[1]], phase: 0, weight: 0 };
+  if (!(peak > 0)) return best;
+  for (const x of points[0]!) {
+    for (const y of points[1]!) {
+      const phase = paraxialVariation(k, z, p.aperture[0], model.oneD ? 0 : p.aperture[1], x, y);
+      if (phase === 0) continue;
+      const i = modelIntensity(model, lam, z, x, y);
+      const weight = p.interferesWithFreeBeam ? Math.min(1, 2 * Math.sqrt(i)) : Math.min(1, i / peak);
+      const e = weight * Math.min(phase, 2 * Math.PI);
+      if (e > best.error) best = { error: e, at: [x, y], phase, weight };
+    }
+  }
+  return best;
+}
