@@ -16,9 +16,13 @@ export interface SpotMetrics {
   /** Intensity on the optical axis (interpolated), null when the axis is outside the window. */
   onAxisIntensity: number | null;
   centroid: [number, number | null];
-  /** Full width at half maximum through the peak, null when the profile does not fall to half. */
+  /**
+   * Full width at half maximum of the profile through the peak, per axis: the distance between the
+   * outermost half-maximum crossings (the spot's envelope, not one fringe of a near-field pattern);
+   * null when the profile does not fall to half within the window.
+   */
   fwhm: [number | null, number | null];
-  /** Full width where the profile through the peak falls to peak/e². */
+  /** Full width where the profile through the peak falls to peak/e², between the outermost crossings likewise. */
   e2Width: [number | null, number | null];
   /** Second-moment (D4σ) widths about the centroid over the window (ISO 11146 definition). */
   d4sigma: [number, number | null];
@@ -58,22 +62,33 @@ function sampleAt(p: Float64Array, t: number): number {
   return p[i]! + (t - i) * (p[i + 1]! - p[i]!);
 }
 
-/** Full width at half maximum around index i0 (in samples), by linear interpolation. */
+/**
+ * Full width at half maximum of the profile through the peak at i0 (in samples): the distance
+ * between the outermost half-maximum crossings (see widthAtSamples).
+ */
 export function fwhmSamples(p: Float64Array, i0: number): number | null {
   return widthAtSamples(p, i0, 0.5);
 }
 
-/** Full width (in samples) where the profile around i0 falls to level × its value at i0. */
+/**
+ * Full width (in samples) of the profile where it falls to level × its value at i0, measured
+ * between the outermost crossings of that level: the width of the spot's envelope. At Fresnel
+ * numbers of a few the profile through the peak has fringes above half the peak, and the crossings
+ * next to the peak would give the width of one fringe; in the far field (Airy side lobes 1.75 %,
+ * sinc² 4.72 % of the peak) the outermost crossings are the ones next to the peak, so nothing
+ * changes there. Null when the profile is still above the level at an end of the window.
+ */
 export function widthAtSamples(p: Float64Array, i0: number, level: number): number | null {
   const half = p[i0]! * level;
   if (!(half > 0)) return null;
-  let l = i0;
-  while (l > 0 && p[l]! > half) l--;
-  let r = i0;
-  while (r < p.length - 1 && p[r]! > half) r++;
-  if (p[l]! > half || p[r]! > half) return null;
-  const left = l + (half - p[l]!) / (p[l + 1]! - p[l]!);
-  const right = r - (half - p[r]!) / (p[r - 1]! - p[r]!);
+  let l = 0;
+  while (l < i0 && !(p[l]! > half)) l++;
+  let r = p.length - 1;
+  while (r > i0 && !(p[r]! > half)) r--;
+  // The first and last samples above the level; the crossings lie just outside them.
+  if (l === 0 || r === p.length - 1) return null;
+  const left = l - 1 + (half - p[l - 1]!) / (p[l]! - p[l - 1]!);
+  const right = r + (p[r]! - half) / (p[r]! - p[r + 1]!);
   return right - left;
 }
 
