@@ -1,98 +1,295 @@
-// Diffraction orders of a grating of slits: where the grating equation puts them and how much of
-// the computed power lands around each.
+// Diffraction orders of a grating of slits: where the grating equation puts them, how much of the
+// computed power lands around each, and what the thin-grating theory predicts for the same number.
+//
+// Two measures of an order's power, and why both:
+// - `fractionOfTransmitted` is ∫|U|² dx over the order's interval on the screen, over ∫|U₀|² through
+//   the slits. Both are the same measure (the squared field integrated over a plane), so a correct
+//   scalar computation conserves it order by order: it is what the thin-grating coefficient
+//   |c_m|²/(w/d) predicts, at any angle.
+// - `fluxFraction` is the power that crosses the screen plane: a plane wave of intensity |U|² going
+//   at direction cosine γ carries γ|U|² through a plane normal to z, so the order's flux over the
+//   flux through the slits is fractionOfTransmitted · γ_m/γ_i = · cos θ_m / cos θ_i (the obliquity
+//   of the scalar thin-element model). Σ_m of it is not exactly the transmitted flux: scalar theory
+//   does not conserve flux at wide angles, which is one reason it loses accuracy there.
 import type { IntensityMap } from './metrics.js';
+
+/**
+ * propagating: lands on the screen inside the window; outside-window: lands, but part or all of
+ * its interval lies outside the window (`outside` says which); evanescent: |sin θ_m| > 1, decays
+ * within a few wavelengths and carries no power to the screen; grazing: |sin θ_m| = 1 exactly,
+ * travels along the screen and never lands on it.
+ */
+export type OrderStatus = 'propagating' | 'outside-window' | 'evanescent' | 'grazing';
 
 export interface GratingOrder {
   m: number;
-  /** Angle from the axis (rad), from d(sin θ_m − sin θ_i) = mλ. */
+  status: OrderStatus;
+  /** For outside-window orders: whether part or all of the order's interval is outside. */
+  outside?: 'part' | 'all';
+  /** sin θ_m = sin θ_i + mλ/d (the x direction cosine; above 1 in magnitude for evanescent orders). */
+  sinAngle: number;
+  /** Angle from the axis in the x–z plane (rad), asin(sin θ_m); null when |sin θ_m| ≥ 1. */
   angle: number | null;
-  /** Position on the screen, z·tan θ_m (m). */
+  /** Position on the screen, z·α_m/γ_m (= z·tan θ_m without a tilt along y); null when it does not land. */
   position: number | null;
+  /** Convenience: status is propagating or outside-window. */
   propagates: boolean;
-  /** Power around the order (between the midpoints to its neighbours) / power through the slits. */
-  fractionOfTransmitted: number | null;
-  /** The same power / power incident on the grating's footprint (count × period). */
-  fractionOfIncident: number | null;
-  /** False when part of the order's interval lies outside the window. */
+  /** Convenience: status is propagating (the whole interval is inside the window). */
   inWindow: boolean;
-  /** Resolving power λ/Δλ = |m|·N of the order (Born & Wolf §8.6.3), null for m = 0. */
+  /** The order's interval on the screen: between the midpoints to its neighbours' positions. */
+  interval: [number, number] | null;
+  /**
+   * ∫|U|² over the interval / power through the slits (0 for evanescent and grazing orders; null
+   * when part of the interval lies outside the window).
+   */
+  fractionOfTransmitted: number | null;
+  /** The same power / power incident on the grating's footprint (count × period); null without a plane wave. */
+  fractionOfIncident: number | null;
+  /** Thin-grating theory's value of fractionOfTransmitted: |c_m|²/(w/d) = (w/d)·sinc²(m·w/d) (Goodman §4.4). */
+  predictedFraction: number;
+  /** Flux through the screen plane over the flux through the slits: fractionOfTransmitted · cos θ_m/cos θ_i. */
+  fluxFraction: number | null;
+  /** Thin-grating theory's flux fraction: predictedFraction · cos θ_m/cos θ_i (0 when it does not land). */
+  predictedFlux: number;
+  /** Centroid of the intensity over the interval (m), null when the interval is not wholly in the window or dark. */
+  centroid: number | null;
+  /** Resolving power λ/Δλ = |m|·N of the order (Born & Wolf §8.6.3), null for m = 0 and for orders that do not land. */
   resolvingPower: number | null;
+}
+
+/** Propagating orders that are left out of the list (only for gratings with thousands of orders). */
+export interface OmittedOrders {
+  from: number;
+  to: number;
+  status: 'outside-window';
+  outside: 'all';
+  /** Σ predictedFraction over the range. */
+  predictedFraction: number;
+}
+
+export interface OrderTable {
+  orders: GratingOrder[];
+  /**
+   * Fraction of the power through the slits that thin-grating theory sends into evanescent orders
+   * (all of them, not only the listed ones): 1 − Σ over orders that land or graze of
+   * (w/d)·sinc²(m·w/d), since Σ over all m is 1 (Parseval; Goodman §4.4).
+   */
+  evanescentFraction: number;
+  omitted: OmittedOrders[];
 }
 
 export interface GratingInput {
   period: number;
+  /** Slit width (for the thin-grating prediction). */
+  width: number;
   /** Number of lines (slits) illuminated. */
   count: number;
   wavelength: number;
   distance: number;
-  /** sin θ_i of the incident light in the plane of the grating's x axis. */
+  /** sin θ_i (direction cosine α) of the incident light in the plane of the grating's x axis. */
   sinIncidence: number;
+  /** Direction cosine β of the incident light along the lines (0 for 1-D gratings). */
+  sinIncidenceY?: number;
   powerTransmitted: number;
   powerIncident: number | null;
-  maxOrder?: number;
 }
 
-/** Orders with |sin θ_i + mλ/d| ≤ 1 propagate; the others are evanescent. */
-export function gratingOrders(map: IntensityMap, g: GratingInput): GratingOrder[] {
-  const mMax = g.maxOrder ?? Math.min(50, Math.ceil((2 * g.period) / g.wavelength) + 1);
+/** sin(πu)/(πu). */
+export function sinc(u: number): number {
+  if (Math.abs(u) < 1e-9) return 1;
+  const x = Math.PI * u;
+  return Math.sin(x) / x;
+}
+
+/**
+ * Thin binary amplitude grating of slit width w and period d (Goodman, Introduction to Fourier
+ * Optics, §4.4): order m carries |c_m|² = (w/d)²·sinc²(m·w/d) of the incident irradiance and
+ * Σ_m |c_m|² = w/d, so as a fraction of the power through the slits it is (w/d)·sinc²(m·w/d).
+ */
+export function thinGratingFraction(width: number, period: number, m: number): number {
+  const duty = width / period;
+  return duty * sinc(m * duty) ** 2;
+}
+
+/**
+ * The orders that reach a screen, [lo, hi]: α_m² + β² < 1 with α_m = α + mλ/d. Exactly grazing
+ * orders (= 1) are outside this range.
+ */
+export function landingOrders(sinIncidence: number, sinIncidenceY: number, wavelength: number, period: number): [number, number] {
+  const rho = Math.sqrt(Math.max(0, 1 - sinIncidenceY * sinIncidenceY));
+  const q = period / wavelength;
+  let lo = Math.ceil((-rho - sinIncidence) * q);
+  let hi = Math.floor((rho - sinIncidence) * q);
+  const lands = (m: number) => Math.abs(sinIncidence + (m * wavelength) / period) < rho;
+  while (lo <= hi && !lands(lo)) lo++;
+  while (hi >= lo && !lands(hi)) hi--;
+  return [lo, hi];
+}
+
+/** Evanescent orders are listed while thin-grating theory gives them at least this fraction. */
+export const EVANESCENT_LISTED = 1e-3;
+/** Above this many landing orders, runs of orders wholly outside the window are summarised. */
+export const MAX_LISTED_ORDERS = 2001;
+/** Outside-window orders kept on each side of the window when the list is summarised. */
+const KEPT_OUTSIDE = 50;
+
+/** Power per column (integrated over the column's width and over all rows). */
+export function columnPower(map: IntensityMap): Float64Array {
   const dx = map.pitch[0];
-  const xs: { m: number; sin: number; x: number | null }[] = [];
-  for (let m = -mMax; m <= mMax; m++) {
-    const s = g.sinIncidence + (m * g.wavelength) / g.period;
-    const x = Math.abs(s) < 1 ? (g.distance * s) / Math.sqrt(1 - s * s) : null;
-    xs.push({ m, sin: s, x });
-  }
-  const x0 = map.origin[0];
-  const x1 = x0 + (map.cols - 1) * dx;
-  // Sum of intensity over all rows per column, so that 2-D (finite-length) gratings work too.
   const colPower = new Float64Array(map.cols);
   const cell = map.pitch[1] === null ? dx : dx * map.pitch[1];
   for (let r = 0; r < map.rows; r++) for (let c = 0; c < map.cols; c++) colPower[c] += map.intensity[r * map.cols + c]! * cell;
-  const integrate = (a: number, b: number) => {
-    // Trapezoid-free: columns whose centres fall in [a, b), with fractional end cells.
-    let s = 0;
-    const ca = (a - x0) / dx;
-    const cb = (b - x0) / dx;
-    for (let c = Math.max(0, Math.floor(ca)); c <= Math.min(map.cols - 1, Math.ceil(cb)); c++) {
-      const lo = Math.max(ca, c - 0.5);
-      const hi = Math.min(cb, c + 0.5);
-      if (hi > lo) s += colPower[c]! * (hi - lo);
+  return colPower;
+}
+
+/**
+ * ∫ over [a, b] of the column power (and of x times it, for centroids): each column is a cell of
+ * width dx centred on its sample, counted by the part of it inside [a, b].
+ */
+export function integrateColumns(colPower: Float64Array, map: IntensityMap, a: number, b: number): { power: number; moment: number } {
+  const dx = map.pitch[0];
+  const x0 = map.origin[0];
+  const ca = (a - x0) / dx;
+  const cb = (b - x0) / dx;
+  let power = 0;
+  let moment = 0;
+  for (let c = Math.max(0, Math.floor(ca)); c <= Math.min(map.cols - 1, Math.ceil(cb)); c++) {
+    const lo = Math.max(ca, c - 0.5);
+    const hi = Math.min(cb, c + 0.5);
+    if (hi > lo) {
+      const p = colPower[c]! * (hi - lo);
+      power += p;
+      // The covered part of the cell has its own centre.
+      moment += p * (x0 + ((lo + hi) / 2) * dx);
     }
-    return s;
-  };
-  const out: GratingOrder[] = [];
-  for (let i = 0; i < xs.length; i++) {
-    const o = xs[i]!;
-    if (o.x === null) {
+  }
+  return { power, moment };
+}
+
+/** The window's extent along x: the cells of the outer samples included. */
+export function windowExtent(map: IntensityMap): [number, number] {
+  const dx = map.pitch[0];
+  return [map.origin[0] - dx / 2, map.origin[0] + (map.cols - 0.5) * dx];
+}
+
+/** The order table with its evanescent total; see OrderTable. */
+export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTable {
+  const beta = g.sinIncidenceY ?? 0;
+  const gammaI = Math.sqrt(Math.max(0, 1 - g.sinIncidence ** 2 - beta ** 2));
+  const [lo, hi] = landingOrders(g.sinIncidence, beta, g.wavelength, g.period);
+  const sinOf = (m: number) => g.sinIncidence + (m * g.wavelength) / g.period;
+  const gammaOf = (m: number) => Math.sqrt(Math.max(0, 1 - sinOf(m) ** 2 - beta ** 2));
+  const positionOf = (m: number) => (g.distance * sinOf(m)) / gammaOf(m);
+  const [w0, w1] = windowExtent(map);
+  const colPower = columnPower(map);
+
+  // Orders that land: intervals between the midpoints to the neighbours; the outermost ones reach
+  // as far out as half their inner gap.
+  const landing: GratingOrder[] = [];
+  let carried = 0;
+  for (let m = lo; m <= hi; m++) {
+    const x = positionOf(m);
+    const prev = m > lo ? positionOf(m - 1) : null;
+    const next = m < hi ? positionOf(m + 1) : null;
+    const a = prev !== null ? (prev + x) / 2 : next !== null ? x - (next - x) / 2 : -Infinity;
+    const b = next !== null ? (next + x) / 2 : prev !== null ? x + (x - prev) / 2 : Infinity;
+    const inWindow = a >= w0 && b <= w1;
+    const outside = inWindow ? undefined : b < w0 || a > w1 ? ('all' as const) : ('part' as const);
+    const predicted = thinGratingFraction(g.width, g.period, m);
+    carried += predicted;
+    const obliquity = gammaOf(m) / gammaI;
+    let measured: number | null = null;
+    let centroid: number | null = null;
+    if (inWindow) {
+      const { power, moment } = integrateColumns(colPower, map, a, b);
+      measured = power / g.powerTransmitted;
+      centroid = power > 0 ? moment / power : null;
+    }
+    landing.push({
+      m,
+      status: inWindow ? 'propagating' : 'outside-window',
+      ...(outside ? { outside } : {}),
+      sinAngle: sinOf(m),
+      angle: Math.asin(sinOf(m)),
+      position: x,
+      propagates: true,
+      inWindow,
+      interval: [a, b],
+      fractionOfTransmitted: measured,
+      fractionOfIncident: measured !== null && g.powerIncident ? (measured * g.powerTransmitted) / g.powerIncident : null,
+      predictedFraction: predicted,
+      fluxFraction: measured !== null ? measured * obliquity : null,
+      predictedFlux: predicted * obliquity,
+      centroid,
+      resolvingPower: m === 0 ? null : Math.abs(m) * g.count,
+    });
+  }
+
+  // Orders that do not land, outwards from the cut-off on each side: the first one always, then
+  // as far as thin-grating theory gives one at least EVANESCENT_LISTED of the transmitted power.
+  // The sinc² envelope (w/d)/(π m w/d)² bounds how far that can be.
+  const duty = g.width / g.period;
+  const reach = Math.ceil(Math.sqrt(1 / (duty * Math.PI ** 2 * EVANESCENT_LISTED))) + 1;
+  let grazing = 0;
+  const beyond = (start: number, step: 1 | -1): GratingOrder[] => {
+    const out: GratingOrder[] = [];
+    let last = 0;
+    for (let k = 0, m = start; k === 0 || Math.abs(m) <= reach; k++, m += step) {
+      const p = thinGratingFraction(g.width, g.period, m);
+      const s = sinOf(m);
+      const graze = Math.abs(Math.abs(s) - Math.sqrt(Math.max(0, 1 - beta * beta))) < 1e-12;
+      if (graze) grazing += p;
       out.push({
-        m: o.m,
+        m,
+        status: graze ? 'grazing' : 'evanescent',
+        sinAngle: s,
         angle: null,
         position: null,
         propagates: false,
-        fractionOfTransmitted: null,
-        fractionOfIncident: null,
         inWindow: false,
+        interval: null,
+        fractionOfTransmitted: 0,
+        fractionOfIncident: g.powerIncident ? 0 : null,
+        predictedFraction: p,
+        fluxFraction: 0,
+        predictedFlux: 0,
+        centroid: null,
         resolvingPower: null,
       });
-      continue;
+      if (k === 0 || p >= EVANESCENT_LISTED || graze) last = out.length;
+      if (k > 4 * reach + 8) break;
     }
-    const prev = xs[i - 1]?.x ?? null;
-    const next = xs[i + 1]?.x ?? null;
-    const a = prev !== null ? (prev + o.x) / 2 : o.x - (next !== null ? (next - o.x) / 2 : 0);
-    const b = next !== null ? (next + o.x) / 2 : o.x + (prev !== null ? (o.x - prev) / 2 : 0);
-    const inWindow = a >= x0 - dx / 2 && b <= x1 + dx / 2;
-    const p = integrate(a, b);
-    out.push({
-      m: o.m,
-      angle: Math.asin(o.sin),
-      position: o.x,
-      propagates: true,
-      fractionOfTransmitted: inWindow ? p / g.powerTransmitted : null,
-      fractionOfIncident: inWindow && g.powerIncident ? p / g.powerIncident : null,
-      inWindow,
-      resolvingPower: o.m === 0 ? null : Math.abs(o.m) * g.count,
-    });
+    return out.slice(0, Math.max(1, last));
+  };
+  const low = beyond(lo - 1, -1).reverse();
+  const high = beyond(hi + 1, 1);
+  const evanescentFraction = Math.max(0, 1 - carried - grazing);
+
+  // Gratings with thousands of landing orders (a double slit far apart): runs wholly outside the
+  // window beyond KEPT_OUTSIDE on each side are summarised, so that records stay small.
+  const omitted: OmittedOrders[] = [];
+  let kept = landing;
+  if (landing.length > MAX_LISTED_ORDERS) {
+    const inside = landing.map((o, i) => (o.outside === 'all' ? -1 : i)).filter((i) => i >= 0);
+    const first = inside.length ? inside[0]! : Math.floor(landing.length / 2);
+    const lastIn = inside.length ? inside[inside.length - 1]! : first;
+    const keepFrom = Math.max(0, first - KEPT_OUTSIDE);
+    const keepTo = Math.min(landing.length - 1, lastIn + KEPT_OUTSIDE);
+    const sum = (os: GratingOrder[]) => os.reduce((s, o) => s + o.predictedFraction, 0);
+    if (keepFrom > 0) {
+      const run = landing.slice(0, keepFrom);
+      omitted.push({ from: run[0]!.m, to: run[run.length - 1]!.m, status: 'outside-window', outside: 'all', predictedFraction: sum(run) });
+    }
+    if (keepTo < landing.length - 1) {
+      const run = landing.slice(keepTo + 1);
+      omitted.push({ from: run[0]!.m, to: run[run.length - 1]!.m, status: 'outside-window', outside: 'all', predictedFraction: sum(run) });
+    }
+    kept = landing.slice(keepFrom, keepTo + 1);
   }
-  // Evanescent orders beyond ±1 say nothing useful; the first ones show where the cut-off is.
-  return out.filter((o) => o.propagates || Math.abs(o.m) <= 1);
+  return { orders: [...low, ...kept, ...high], evanescentFraction, omitted };
+}
+
+/** The orders alone (see gratingOrderTable). */
+export function gratingOrders(map: IntensityMap, g: GratingInput): GratingOrder[] {
+  return gratingOrderTable(map, g).orders;
 }

@@ -1,0 +1,518 @@
+// Consistency checks of a computed grating case against the grating equation and thin-grating
+// theory, made after the computation whatever method made it: are the orders where
+// d(sin θ_m − sin θ_i) = mλ puts them, is there light where no order lands, and does each order
+// carry the power thin-grating theory gives it? A paraxial method at wide angles fails the first
+// two (it puts order m at z·sin θ_m instead of z·tan θ_m, and lands evanescent orders at
+// z·sin θ_m > z); an aliased or truncated computation fails the last.
+import { formatLength, trimNumber } from '../job/units.js';
+import { METHODS } from '../job/schema.js';
+import type { Plan, Warning } from '../plan/types.js';
+import type { IntensityMap } from './metrics.js';
+import { columnPower, integrateColumns, landingOrders, sinc, thinGratingFraction, type GratingInput, type GratingOrder, type OrderTable } from './orders.js';
+
+/** Orders below this fraction of the transmitted power (thin-grating theory) are not checked. */
+export const CHECKED_ORDER_MIN = 1e-3;
+/**
+ * An order is well separated when its spot, the grating's illuminated width plus this many
+ * far-field first-zero half-widths λz/(Wγ³) on each side, stays inside its interval, and the
+ * neighbours' spots stay out of it (common practice: three lobes hold about 97 % of a sinc² beam's
+ * power in 1-D, the 1/u tail law below).
+ */
+export const SEPARATION_LOBES = 3;
+/**
+ * Light counts as stray when a peak of the map, away from every order's spot, is at least this
+ * fraction of the peak an order carrying CHECKED_ORDER_MIN of the transmitted power would have.
+ */
+export const STRAY_PEAK_LEVEL = 0.5;
+/**
+ * The power budget is this many times the finite grating's own departure from thin-grating theory
+ * (and, beyond its far field, the 1/u tail estimate); a judgement, measured on correct cases of
+ * N = 10…1000 slits (test/physics/orders-checks.test.ts).
+ */
+export const POWER_BUDGET_MARGIN = 2;
+/** The grating's own Fresnel number (W/2)²/(λz) up to which it is in its far field (the planner's far-field regime). */
+export const FAR_FIELD_NF = 1 / 8;
+/** The budget's floor: the methods' own accuracy (about 0.25 % of a peak, limits.ts), as 0.5 % of the order plus 1e-4 of the transmitted power. */
+export const POWER_FLOOR_RELATIVE = 5e-3;
+export const POWER_FLOOR_ABSOLUTE = 1e-4;
+
+export interface OrderCheck {
+  m: number;
+  position: number;
+  /**
+   * Centroid over the part of the interval symmetric about the position, less modelShift; null
+   * when that part is dark.
+   */
+  centroid: number | null;
+  /** The shift of that centroid from z·tan θ_m that the finite grating itself gives (far-field model). */
+  modelShift: number;
+  /** max(one output sample, 1 % of |position|). */
+  centroidTolerance: number;
+  measured: number;
+  predicted: number;
+  /** The far-field model's fraction for this finite grating. */
+  model: number;
+  /** Largest |measured − predicted| a correct computation of this finite grating should show. */
+  powerTolerance: number;
+}
+
+export interface StrayLight {
+  /** Position of the strongest peak of the stray light (m). */
+  position: number;
+  /** Power around it (over ± one spot half-width) / power through the slits. */
+  fraction: number;
+  /** The order whose paraxial landing point z·sin θ_m lies there, if any. */
+  paraxialOrder: number | null;
+  /** That order is evanescent (|sin θ_m| > 1): it should reach no screen at all. */
+  evanescent: boolean;
+  /** The nearest order that lands, and its position. */
+  nearestOrder: number;
+  nearestPosition: number;
+}
+
+export interface OrderCheckResult {
+  checked: OrderCheck[];
+  misplaced: OrderCheck[];
+  powerOff: OrderCheck[];
+  stray: StrayLight[];
+  warnings: Warning[];
+}
+
+export interface OrderCheckInput {
+  grating: GratingInput;
+  table: OrderTable;
+  /** Full illuminated width of the grating along x (m). */
+  illuminatedWidth: number;
+  /** Gaussian waist (m), Infinity for a plane wave. */
+  waist: number;
+  /** Intensity at the grating's outer edges relative to its peak (1 for a plane wave). */
+  edgeWeight: number;
+  /** Power in the window over the propagating power (1 − evanescent) through the slits. */
+  propagatingInWindow: number;
+  /** What to do when a check fails (methodAdvice for a planned case). */
+  advice: string;
+}
+
+const len = (x: number) => formatLength(x, 4);
+const pct = (x: number) => `${trimNumber(100 * x, 3)} %`;
+
+/** Inputs from a plan: the illuminated width is the planner's, the edge weight a Gaussian's at the outline. */
+export function orderCheckInput(plan: Plan, grating: GratingInput, table: OrderTable, powerInWindow: number): OrderCheckInput {
+  const ill = plan.case.illumination;
+  const waist = ill.kind === 'gaussian' ? ill.waist : Infinity;
+  const a = plan.case.aperture;
+  const halfExtent = a.shape === 'slits' ? ((a.count - 1) * a.period + a.width) / 2 : plan.x.apertureHalf;
+  const edgeWeight = Number.isFinite(waist) ? Math.exp((-2 * halfExtent * halfExtent) / (waist * waist)) : 1;
+  const propagating = grating.powerTransmitted * (1 - table.evanescentFraction);
+  return {
+    grating,
+    table,
+    illuminatedWidth: 2 * plan.x.apertureHalf,
+    waist,
+    edgeWeight,
+    propagatingInWindow: propagating > 0 ? powerInWindow / propagating : 1,
+    advice: methodAdvice(plan),
+  };
+}
+
+export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheckResult {
+  const g = inp.grating;
+  const lam = g.wavelength;
+  const z = g.distance;
+  const W = inp.illuminatedWidth;
+  const beta = g.sinIncidenceY ?? 0;
+  const dx = map.pitch[0];
+  const colPower = columnPower(map);
+  const P = g.powerTransmitted;
+  const model = gratingFarFieldModel(g, inp.waist);
+  const sinOf = (m: number) => g.sinIncidence + (m * lam) / g.period;
+  const gammaOf = (m: number) => Math.sqrt(Math.max(1e-12, 1 - sinOf(m) ** 2 - beta ** 2));
+  const positionOf = (m: number) => (z * sinOf(m)) / gammaOf(m);
+  /** Screen distance per λ/W of direction cosine: one far-field first-zero half-width (dx/dα = z(1 − β²)/γ³). */
+  const lobe = (gamma: number) => (lam * z * (1 - beta * beta)) / (W * gamma ** 3);
+  const lobeAt = (x: number) => lobe(Math.sqrt(Math.max(1e-12, 1 - (x / Math.hypot(x, z)) ** 2)));
+  const extent = (m: number, lobes: number) => W / 2 + lobes * lobe(gammaOf(m));
+  // A Gaussian beam's radius along x at the screen, for its own (Gaussian) tail.
+  const beamRadius = (m: number) =>
+    Number.isFinite(inp.waist) ? Math.hypot(inp.waist, (lam * z * (1 - beta * beta)) / (Math.PI * inp.waist * gammaOf(m) ** 3)) : 0;
+  /**
+   * Fraction of order m's power beyond u from its spot's edge, on one side: the edge-diffraction
+   * tail λz/(2π²·W·u) (far-field sinc² side lobes and near-field edge ringing share this 1/u law;
+   * the planner's window margin uses it too), scaled to the screen by 1/γ³ and weighted by the
+   * light at the grating's outline; and a Gaussian beam's own tail ½erfc(√2·u/w).
+   */
+  const tail = (m: number, u: number) => {
+    const uu = Math.max(u, 0.5 * lobe(gammaOf(m)));
+    let t = (inp.edgeWeight * lobe(gammaOf(m))) / (2 * Math.PI ** 2 * uu);
+    if (Number.isFinite(inp.waist)) t += 0.5 * erfc((Math.SQRT2 * (uu + W / 2)) / beamRadius(m));
+    return Math.min(0.5, t);
+  };
+  // Beyond its far field the grating's orders are Fresnel patterns of its outline, whose tails the
+  // far-field model does not hold; the 1/u tail estimate joins the budget there.
+  const farField = (W / 2) ** 2 / (lam * z) <= FAR_FIELD_NF;
+
+  const [lo, hi] = landingOrders(g.sinIncidence, beta, lam, g.period);
+  const byM = new Map<number, GratingOrder>(inp.table.orders.map((o) => [o.m, o]));
+  const checked: OrderCheck[] = [];
+  for (const o of inp.table.orders) {
+    if (o.status !== 'propagating' || o.predictedFraction < CHECKED_ORDER_MIN || !o.interval || o.position === null) continue;
+    const x = o.position;
+    const [a, b] = o.interval;
+    const h = extent(o.m, SEPARATION_LOBES);
+    if (x - a < h || b - x < h) continue;
+    // The neighbours' spots must stay out of this interval.
+    if (o.m > lo && Math.abs(positionOf(o.m - 1) - a) < extent(o.m - 1, SEPARATION_LOBES)) continue;
+    if (o.m < hi && Math.abs(positionOf(o.m + 1) - b) < extent(o.m + 1, SEPARATION_LOBES)) continue;
+    // Centroid over the part of the interval symmetric about the expected position, less the
+    // shift the finite grating itself gives it: the single-slit envelope slopes across the order's
+    // side lobes and pulls their light towards the brighter side, by about slope/(2π²N) of the
+    // spacing (1.3 % of order 1's position at N = 10, 50 % duty); the model has it exactly.
+    const r = Math.min(x - a, b - x);
+    const core = integrateColumns(colPower, map, x - r, x + r);
+    const modelCore = model.integrate(x - r, x + r);
+    const shift = modelCore.power > 0 ? modelCore.moment / modelCore.power - x : 0;
+    const centroid = core.power > 0 ? core.moment / core.power - shift : null;
+    const measured = o.fractionOfTransmitted ?? 0;
+    const f = o.predictedFraction;
+    // The finite grating's own departure from the thin-grating fraction (leakage into and out of
+    // the interval, the envelope across it), from the model; and beyond the far field the 1/u
+    // tails of this order out of the interval and of the others into it.
+    const modelPower = model.integrate(a, b).power;
+    const finite = Math.abs(modelPower - f);
+    let leak = 0;
+    if (!farField) {
+      leak = f * (tail(o.m, x - a - W / 2) + tail(o.m, b - x - W / 2));
+      for (let k = Math.max(lo, o.m - 50); k <= Math.min(hi, o.m + 50); k++) {
+        if (k === o.m) continue;
+        const xk = positionOf(k);
+        const near = Math.min(Math.abs(xk - a), Math.abs(xk - b)) - W / 2;
+        const far = Math.max(Math.abs(xk - a), Math.abs(xk - b)) - W / 2;
+        leak += thinGratingFraction(g.width, g.period, k) * Math.max(0, tail(k, near) - tail(k, far));
+      }
+    }
+    const windowLoss = f * Math.max(0, 1 - inp.propagatingInWindow);
+    const powerTolerance = POWER_BUDGET_MARGIN * (finite + leak) + windowLoss + POWER_FLOOR_RELATIVE * f + POWER_FLOOR_ABSOLUTE;
+    checked.push({
+      m: o.m,
+      position: x,
+      centroid,
+      modelShift: shift,
+      centroidTolerance: Math.max(dx, 0.01 * Math.abs(x)),
+      measured,
+      predicted: f,
+      model: modelPower,
+      powerTolerance,
+    });
+  }
+  const misplaced = checked.filter((c) => c.centroid === null || Math.abs(c.centroid - c.position) > c.centroidTolerance);
+  const powerOff = checked.filter((c) => Math.abs(c.measured - c.predicted) > c.powerTolerance);
+
+  // Stray light: peaks of the (row-summed) profile outside every landing order's reach that stand
+  // above what a correct computation puts there (expectedDensity: in the far field the model's side
+  // lobes and secondary maxima between orders, which for a few slits are far from negligible) by
+  // at least the peak an order carrying STRAY_PEAK_LEVEL·CHECKED_ORDER_MIN of the transmitted
+  // power would have.
+  const level = STRAY_PEAK_LEVEL * CHECKED_ORDER_MIN;
+  const nearestLanding = (x: number): number => {
+    // Positions increase with m: bisection for the nearest.
+    let a = lo;
+    let b = hi;
+    while (b - a > 1) {
+      const mid = (a + b) >> 1;
+      if (positionOf(mid) < x) a = mid;
+      else b = mid;
+    }
+    return Math.abs(positionOf(a) - x) <= Math.abs(positionOf(b) - x) ? a : b;
+  };
+  /**
+   * How far an order's light reaches for the stray search: its spot (illuminated width plus
+   * SEPARATION_LOBES lobes) plus SEPARATION_LOBES Fresnel-zone widths √(λz/2γ³), since nearer
+   * the grating each order is a Fresnel pattern of the grating's outline, wider than its shadow.
+   */
+  const reach = (m: number) => extent(m, SEPARATION_LOBES) + SEPARATION_LOBES * Math.sqrt((lam * z) / (2 * gammaOf(m) ** 3));
+  const inSpot = (x: number): boolean => {
+    if (lo > hi) return false;
+    const n = nearestLanding(x);
+    for (let k = Math.max(lo, n - 3); k <= Math.min(hi, n + 3); k++) if (Math.abs(positionOf(k) - x) <= reach(k)) return true;
+    return false;
+  };
+  /**
+   * What a correct computation puts at x outside the spots. In the grating's far field: the model's
+   * largest density within ± one lobe (its fringes need not line up with the map's samples). Nearer
+   * the grating each order is a Fresnel pattern of the outline, whose tail falls off from the beam's
+   * edge rather than its centre: the orders' tails, f_k·λz/(2π²W·u²) at u from the edge of order
+   * k's beam (the derivative of the 1/u tail law), summed, twice over (two overlapping tails
+   * interfere up to twice their sum).
+   */
+  const expectedDensity = (x: number): number => {
+    if (farField) {
+      const l = lobeAt(x);
+      let m = 0;
+      for (let i = -8; i <= 8; i++) m = Math.max(m, model.density(x + (i / 8) * l));
+      return m;
+    }
+    const n = nearestLanding(x);
+    let sum = 0;
+    for (let k = Math.max(lo, n - 50); k <= Math.min(hi, n + 50); k++) {
+      const f = thinGratingFraction(g.width, g.period, k);
+      const l = lobe(gammaOf(k));
+      const dist = Math.abs(x - positionOf(k));
+      const u = Math.max(dist - W / 2, l / 2);
+      sum += (f * inp.edgeWeight * l) / (2 * Math.PI ** 2 * u * u);
+      if (Number.isFinite(inp.waist)) {
+        const wr = beamRadius(k);
+        sum += f * Math.sqrt(2 / Math.PI) * Math.exp((-2 * dist * dist) / (wr * wr)) / wr;
+      }
+    }
+    return 2 * sum;
+  };
+  const strayPeaks: { i: number; x: number }[] = [];
+  const xAt = (i: number) => map.origin[0] + i * dx;
+  for (let i = 1; i < map.cols - 1; i++) {
+    const v = colPower[i]!;
+    if (!(v > colPower[i - 1]! && v >= colPower[i + 1]!)) continue;
+    const x = xAt(i);
+    // Peak density (per metre) of an order carrying `level` of the power: level/(spot width), the
+    // spot being the far-field lobe or, nearer the grating, its own illuminated width.
+    const threshold = level / Math.max(lobeAt(x), W);
+    const density = v / dx / P;
+    if (density < threshold || inSpot(x)) continue;
+    if (density - expectedDensity(x) < threshold) continue;
+    strayPeaks.push({ i, x });
+  }
+  // One entry per cluster of stray peaks (a misplaced order's own side lobes are peaks too).
+  const stray: StrayLight[] = [];
+  let lastI = -1;
+  for (const p of strayPeaks) {
+    const last = stray[stray.length - 1];
+    if (last && Math.abs(p.x - last.position) < 2 * SEPARATION_LOBES * lobeAt(p.x) + W) {
+      if (colPower[p.i]! > colPower[lastI]!) {
+        last.position = p.x;
+        lastI = p.i;
+      }
+      continue;
+    }
+    const n = lo <= hi ? nearestLanding(p.x) : 0;
+    stray.push({ position: p.x, fraction: 0, paraxialOrder: null, evanescent: false, nearestOrder: n, nearestPosition: lo <= hi ? positionOf(n) : NaN });
+    lastI = p.i;
+  }
+  for (const s of stray) {
+    const spread = lobeAt(s.position);
+    const half = W / 2 + spread;
+    s.fraction = integrateColumns(colPower, map, s.position - half, s.position + half).power / P;
+    // A paraxial method lands order m at z·sin θ_m: a propagating order too close to the axis, an
+    // evanescent one (|sin θ_m| > 1) on the screen at all.
+    const m = Math.round(((s.position / z - g.sinIncidence) * g.period) / lam);
+    let best = Infinity;
+    for (const k of [m - 1, m, m + 1]) {
+      const off = Math.abs(z * sinOf(k) - s.position);
+      if (off <= W / 2 + SEPARATION_LOBES * spread && off < best) {
+        best = off;
+        s.paraxialOrder = k;
+        s.evanescent = Math.abs(sinOf(k)) >= Math.sqrt(1 - beta * beta);
+      }
+    }
+  }
+
+  const warnings: Warning[] = [];
+  if (misplaced.length || stray.length) {
+    const parts: string[] = [];
+    if (misplaced.length) {
+      const list = misplaced.slice(0, 6).map((c) => {
+        const o = byM.get(c.m)!;
+        const deg = trimNumber(((o.angle ?? 0) * 180) / Math.PI, 4);
+        const at = c.centroid === null ? 'its interval is dark' : `its light is centred at ${len(c.centroid)}`;
+        const parax =
+          c.centroid !== null && Math.abs(z * o.sinAngle - c.centroid) < Math.abs(c.centroid - c.position) / 3
+            ? ` (about z·sin θ = ${len(z * o.sinAngle)}, where a paraxial method puts it)`
+            : '';
+        return `order ${c.m}: ${at}${parax}, but the grating equation puts it at z·tan θ = ${len(c.position)} (θ = ${deg}°)${
+          c.centroid === null ? '' : `, ${len(Math.abs(c.centroid - c.position))} off`
+        }, tolerance ${len(c.centroidTolerance)}`;
+      });
+      parts.push(
+        `${misplaced.length === 1 ? 'an order is' : `${misplaced.length} orders are`} not where they should be — ${list.join('; ')}${
+          misplaced.length > 6 ? `; and ${misplaced.length - 6} more` : ''
+        } (centroids over each order's interval, less the small shift this finite grating's envelope gives them; tolerance: the larger of one output sample, ${len(dx)}, and 1 % of the order's distance from the axis)`,
+      );
+    }
+    if (stray.length) {
+      const list = stray.slice(0, 4).map(
+        (s) =>
+          `a peak at ${len(s.position)} holding ${pct(s.fraction)} of the transmitted power` +
+          (s.paraxialOrder !== null
+            ? s.evanescent
+              ? `, where a paraxial method lands the evanescent order ${s.paraxialOrder} (z·sin θ = ${len(z * sinOf(s.paraxialOrder))}; it should reach no screen at all)`
+              : `, where a paraxial method puts order ${s.paraxialOrder} (z·sin θ = ${len(z * sinOf(s.paraxialOrder))}; it lands at z·tan θ = ${len(positionOf(s.paraxialOrder))})`
+            : '') +
+          (Number.isFinite(s.nearestPosition) ? `; the nearest order that lands is ${s.nearestOrder}, at ${len(s.nearestPosition)}` : ''),
+      );
+      parts.push(`light where no order lands: ${list.join('; ')}${stray.length > 4 ? `; and ${stray.length - 4} more such peaks` : ''}`);
+    }
+    warnings.push({ code: 'orders-misplaced', message: `${parts.join('. Also ')}. The computation itself is off here, not the physics: ${inp.advice}` });
+  }
+  if (powerOff.length) {
+    const list = powerOff
+      .slice(0, 6)
+      .map((c) => `order ${c.m}: ${pct(c.measured)} of the transmitted power measured, ${pct(c.predicted)} predicted (allowed ±${pct(c.powerTolerance)})`);
+    warnings.push({
+      code: 'orders-power',
+      message:
+        `the power of ${powerOff.length === 1 ? 'an order' : `${powerOff.length} orders`} differs from thin-grating theory (Goodman §4.4: (w/d)·sinc²(m·w/d) of the power through the slits) by more than a correct computation of this finite grating allows — ` +
+        `${list.join('; ')}${powerOff.length > 6 ? `; and ${powerOff.length - 6} more` : ''}. ` +
+        `The allowance is twice this finite grating's own departure from the thin-grating value (its far-field model)${farField ? '' : ' and from its orders\' 1/u tails'}, plus what the window misses and 0.5 % for the method's own accuracy. ` +
+        `The computation itself is off here: ${inp.advice}`,
+    });
+  }
+  return { checked, misplaced, powerOff, stray, warnings };
+}
+
+/**
+ * The far field of the finite grating as lit, in thin-grating theory (Goodman §4.2–4.4): the
+ * slits' spectrum w·sinc(w·f) times the array factor Σ_n g_n·e^{−i2πf·x_n} of the N slit centres
+ * x_n weighted by the illumination g_n, with f = (α − α_i)/λ and the screen position
+ * x = z·α/γ. Densities and integrals are fractions of the model's own transmitted power Σ g_n²·w.
+ * It is exact in the far field of the whole grating; between the orders' spots it also gives the
+ * tails a correct computation has at smaller distances (they follow the same 1/u law there).
+ */
+export interface GratingModel {
+  /** Fraction of the transmitted power per metre of screen at x. */
+  density(x: number): number;
+  /** ∫ density and ∫ x·density over [a, b]. */
+  integrate(a: number, b: number): { power: number; moment: number };
+}
+
+export function gratingFarFieldModel(g: GratingInput, waist: number): GratingModel {
+  const N = g.count;
+  const d = g.period;
+  const w = g.width;
+  const lam = g.wavelength;
+  const z = g.distance;
+  const beta = g.sinIncidenceY ?? 0;
+  const sb = Math.sqrt(Math.max(0, 1 - beta * beta));
+  const plane = !Number.isFinite(waist);
+  const first = -((N - 1) / 2) * d;
+  // Slits that carry light (a Gaussian's amplitude e^{−x²/w₀²} above 1e-8).
+  const centres: number[] = [];
+  const weights: number[] = [];
+  for (let n = 0; n < N; n++) {
+    const x = first + n * d;
+    const a = plane ? 1 : Math.exp(-(x * x) / (waist * waist));
+    if (a < 1e-8) continue;
+    centres.push(x);
+    weights.push(a);
+  }
+  let total = 0;
+  for (const a of weights) total += a * a * w;
+  // Beyond a few hundred lit slits, a Gaussian's array factor is its Poisson sum: Gaussians of
+  // width 1/(πw₀) at the orders (the grating is then much wider than the beam or nearly so).
+  const poisson = !plane && centres.length > 400;
+  const arrayFactor2 = (f: number): number => {
+    if (plane) {
+      const den = Math.sin(Math.PI * f * d);
+      if (Math.abs(den) < 1e-12) return N * N;
+      return (Math.sin(Math.PI * N * f * d) / den) ** 2;
+    }
+    if (poisson) {
+      const k0 = Math.round(f * d);
+      let s = 0;
+      for (let k = k0 - 2; k <= k0 + 2; k++) s += Math.exp(-((Math.PI * waist * (f - k / d)) ** 2));
+      return ((Math.sqrt(Math.PI) * waist) / d) ** 2 * s * s;
+    }
+    let re = 0;
+    let im = 0;
+    for (let n = 0; n < centres.length; n++) {
+      const ph = -2 * Math.PI * f * centres[n]!;
+      re += weights[n]! * Math.cos(ph);
+      im += weights[n]! * Math.sin(ph);
+    }
+    return re * re + im * im;
+  };
+  const spectrum2 = (f: number) => (w * sinc(w * f)) ** 2 * arrayFactor2(f);
+  const alphaOf = (x: number) => (x * sb) / Math.hypot(x, z);
+  const xOfAlpha = (a: number) => (z * a) / Math.sqrt(Math.max(1e-300, sb * sb - a * a));
+  // The spot of the whole lit grating in f is 1/W wide; panels of a quarter of that resolve every lobe.
+  const lit = plane ? N * d : Math.min(N * d, 6 * waist);
+  const panel = 1 / (4 * Math.max(lit, d));
+  const GL = [
+    [-Math.sqrt(3 / 5), 5 / 9],
+    [0, 8 / 9],
+    [Math.sqrt(3 / 5), 5 / 9],
+  ] as const;
+  return {
+    density(x) {
+      const r = Math.hypot(x, z);
+      const dAlphaDx = (sb * z * z) / (r * r * r);
+      return (spectrum2((alphaOf(x) - g.sinIncidence) / lam) * dAlphaDx) / lam / total;
+    },
+    integrate(a, b) {
+      const ga = Math.max(-sb, Math.min(sb, Number.isFinite(a) ? alphaOf(a) : Math.sign(a) * sb));
+      const gb = Math.max(-sb, Math.min(sb, Number.isFinite(b) ? alphaOf(b) : Math.sign(b) * sb));
+      const fa = (ga - g.sinIncidence) / lam;
+      const fb = (gb - g.sinIncidence) / lam;
+      if (!(fb > fa)) return { power: 0, moment: 0 };
+      const n = Math.min(400000, Math.max(4, Math.ceil((fb - fa) / panel)));
+      const h = (fb - fa) / n;
+      let power = 0;
+      let moment = 0;
+      for (let i = 0; i < n; i++) {
+        const mid = fa + (i + 0.5) * h;
+        for (const [t, wt] of GL) {
+          const f = mid + (t * h) / 2;
+          const v = spectrum2(f) * wt * (h / 2);
+          power += v;
+          moment += v * xOfAlpha(g.sinIncidence + lam * f);
+        }
+      }
+      // ∫|U|²dx = ∫|Â(f)|²df (the far-field mapping conserves it: analysis/orders.ts).
+      return { power: power / total, moment: moment / total };
+    },
+  };
+}
+
+/** A method the plan considered (Plan.options, where the planner records them). */
+interface OfferedMethod {
+  method: string;
+  form?: string;
+  valid: boolean;
+  fits?: boolean;
+  work?: number;
+}
+
+/**
+ * What to do when the computation is off: why the method that made it can be (by method), and a
+ * method the plan offers — valid here and within the limits, the cheapest other than this one —
+ * or, where the plan records no options, the exact methods the job may ask for.
+ */
+export function methodAdvice(plan: Plan): string {
+  const forced = plan.case.method !== 'auto';
+  const offered = ((plan as { options?: OfferedMethod[] }).options ?? []).filter((o) => o.valid && o.fits !== false && o.method !== plan.method);
+  const best = offered.length ? offered.reduce((b, o) => ((o.work ?? Infinity) < (b.work ?? Infinity) ? o : b)) : null;
+  const exact = (METHODS as readonly string[]).filter((m) => m !== 'auto' && m !== plan.method && (m === 'angular-spectrum' || /rayleigh|sommerfeld/i.test(m)));
+  const use = best
+    ? `use method: ${best.method} (the plan found it valid here, and it fits)`
+    : exact.length
+      ? `use ${exact.map((m) => `method: ${m}`).join(' or ')} (exact for scalar waves)`
+      : 'no other method the plan offers is valid here';
+  const why =
+    plan.method === 'fresnel'
+      ? 'the Fresnel method is paraxial: it sends order m to z·sin θ_m instead of z·tan θ_m and lands orders that should be evanescent'
+      : plan.method === 'fraunhofer'
+        ? `the far-field formula holds only far beyond 2D²/λ (here ${formatLength(plan.checks.farFieldDistance, 3)})`
+        : plan.method === 'angular-spectrum'
+          ? `the angular spectrum is exact for scalar waves, so its sampling is at fault (see the band-limit and edge-energy warnings, if any)${
+              plan.case.grid?.size || plan.case.grid?.pitch
+                ? '; a larger grid.size or finer grid.pitch, or no grid at all so that the planner samples it'
+                : `; the planner's grid (pitch ${formatLength(plan.x.inputPitch, 3)}, ${plan.x.paddedSamples} samples padded) was expected to do, so this is unexpected`
+            }`
+          : `${plan.method} was expected to be accurate here, so this is unexpected`;
+  return `${why}${forced ? ` (this case forces method: ${plan.case.method})` : ''}; ${use}`;
+}
+
+/** Complementary error function (Abramowitz & Stegun 7.1.26, |error| < 1.5e-7: enough for a budget). */
+function erfc(x: number): number {
+  if (x < 0) return 2 - erfc(-x);
+  const t = 1 / (1 + 0.3275911 * x);
+  const y = t * (0.254829592 + t * (-0.284496736 + t * (1.421413741 + t * (-1.453152027 + t * 1.061405429))));
+  return y * Math.exp(-x * x);
+}
