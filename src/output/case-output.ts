@@ -6,7 +6,8 @@ import { randomBytes } from 'node:crypto';
 import { describe } from '../optics/aperture.js';
 import { formatLength } from '../job/units.js';
 import { profileCol, profileRow, type IntensityMap, type SpotMetrics } from '../analysis/metrics.js';
-import type { GratingOrder } from '../analysis/orders.js';
+import type { GratingOrder, OmittedOrders } from '../analysis/orders.js';
+import type { OrderCheck, StrayLight } from '../analysis/order-checks.js';
 import type { Verdict } from '../analysis/verdict.js';
 import type { EnergyCurve } from '../analysis/encircled.js';
 import type { Plan, Warning } from '../plan/types.js';
@@ -29,11 +30,43 @@ export interface CaseMetrics extends SpotMetrics {
    * the power through the aperture; null for obstacles in a plane wave (no finite total).
    */
   encircled: { centre: [number, number]; radius50: number | null; radius84: number | null; radius90: number | null } | null;
-  /** Fraction of the power through the aperture on each detector the job names. */
-  detectors: { kind: 'pinhole' | 'square'; size: number; at: [number, number]; fraction: number }[];
+  /** The detectors the job names, each as a fraction of its `reference` power. */
+  detectors: DetectorResult[];
+  /**
+   * Grating orders (slits): every order that lands (propagating or outside-window), and the
+   * evanescent ones out to where thin-grating theory gives them under 0.1 % of the transmitted
+   * power (at least the first on each side). See analysis/orders.ts for the two power measures.
+   */
   orders?: GratingOrder[];
+  /** Runs of orders wholly outside the window left out of `orders` (gratings with thousands of orders). */
+  ordersOmitted?: OmittedOrders[];
+  /** Gratings: fraction of the power through the slits that thin-grating theory sends into evanescent orders (all of them). */
+  evanescentFraction?: number;
+  /** Gratings: the orders the consistency checks compared with the grating equation and thin-grating theory. */
+  orderChecks?: OrderCheck[];
+  /** Gratings: peaks of light away from every order that lands (see analysis/order-checks.ts). */
+  strayLight?: StrayLight[];
   /** Diffraction-limited verdicts (circles, slits, rectangles in a plane wave). */
   verdicts?: Verdict[];
+}
+
+/**
+ * A detector's reading. `reference` says what `fraction` is relative to: the power through the
+ * aperture, or — behind an opaque obstacle, where that power is infinite in a plane wave — the
+ * power the same detector would receive with nothing in the way (plane wave: its area × 1;
+ * Gaussian beam: the unobstructed beam's intensity integrated over it).
+ */
+export interface DetectorResult {
+  kind: 'pinhole' | 'square';
+  size: number;
+  at: [number, number];
+  /** Power on the part of the detector inside the window / reference power; null when the detector is wholly outside the window. */
+  fraction: number | null;
+  reference: 'power-through-aperture' | 'unobstructed-beam';
+  /** The reference power (W per unit incident irradiance; per metre along y in 1-D). */
+  referencePower: number;
+  /** Fraction of the detector's area (1-D: width) inside the window; below 1 the fraction is a lower bound. */
+  areaInWindow: number;
 }
 
 /** What a finished case leaves for the job: small, serialisable, stored as record.json. */
@@ -98,6 +131,7 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
     shape: [computed.rows, computed.cols],
     origin: computed.origin,
     units: 'SI: lengths in metres, angles in radians, intensity relative to the incident irradiance (1)',
+    definitions: METRIC_DEFINITIONS,
     fresnelNumber: Math.max(plan.checks.fresnelNumbers[0], plan.checks.fresnelNumbers[1] ?? 0),
     regime: plan.regime,
     method: plan.method,
@@ -132,6 +166,19 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
     note: 'Scalar-diffraction model of an idealised part; not a laser-hazard assessment (see the README).',
   };
 }
+
+/** What the less obvious metrics in result.json are, in words (written into every result.json). */
+export const METRIC_DEFINITIONS = {
+  fwhm:
+    'full width at half maximum of the profile through the peak, per axis: the distance between the outermost half-maximum crossings, i.e. the width of the spot envelope (at Fresnel numbers of a few the fringes near the peak are narrower); null when the profile does not fall to half within the window',
+  e2Width: 'full width between the outermost crossings of peak/e² on the profile through the peak',
+  d4sigma: 'second-moment (D4σ) width about the centroid over the window (ISO 11146 definition)',
+  detectors:
+    'fraction: power on the part of the detector inside the window over the reference power named by reference (power-through-aperture, or unobstructed-beam: what the detector would receive with nothing in the way); areaInWindow below 1 makes it a lower bound; null when the detector is wholly outside the window',
+  orders:
+    'grating orders, d(sin θ_m − sin θ_i) = mλ; fractionOfTransmitted = ∫|U|²dx over the interval between the midpoints to the neighbouring orders / power through the slits; predictedFraction = (w/d)·sinc²(m·w/d) (thin-grating theory); fluxFraction = fractionOfTransmitted · cos θ_m/cos θ_i, the power crossing the screen plane; evanescent orders carry 0',
+  evanescentFraction: 'fraction of the power through the slits that thin-grating theory sends into evanescent orders (never reaches a screen)',
+} as const;
 
 function axisJson(a: Plan['x']) {
   return {
@@ -187,7 +234,9 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
     const col = clampIndex(Math.round(computed.center[0]), computed.cols);
     await writeFileAtomic(join(tmp, CASE_FILES.profileX), profileCsv(map, 'x', row, col));
     if (computed.pitch[1] !== null) await writeFileAtomic(join(tmp, CASE_FILES.profileY), profileCsv(map, 'y', row, col));
-    if (rec.metrics.orders) await writeFileAtomic(join(tmp, CASE_FILES.orders), ordersCsv(rec.metrics.orders));
+    if (rec.metrics.orders) {
+      await writeFileAtomic(join(tmp, CASE_FILES.orders), ordersCsv(rec.metrics.orders, rec.metrics.evanescentFraction, rec.metrics.ordersOmitted));
+    }
     if (rec.energy) {
       const head = computed.pitch[1] === null ? 'half_width_m' : 'radius_m';
       await writeFileAtomic(
@@ -235,11 +284,53 @@ async function replaceDir(tmp: string, final: string): Promise<void> {
   }
 }
 
-function ordersCsv(orders: GratingOrder[]): string {
-  return toCsv(
-    ['m', 'propagates', 'angle_rad', 'position_m', 'fraction_of_transmitted', 'fraction_of_incident', 'in_window', 'resolving_power'],
-    orders.map((o) => [o.m, o.propagates, o.angle, o.position, o.fractionOfTransmitted, o.fractionOfIncident, o.inWindow, o.resolvingPower]),
-  );
+/**
+ * orders.csv: one row per listed order (see CaseMetrics.orders), then one row per summarised run
+ * of orders outside the window, and a last row with m empty and status "all-evanescent" that holds
+ * the power of all evanescent orders together (thin-grating theory).
+ */
+export function ordersCsv(orders: GratingOrder[], evanescentFraction?: number, omitted: OmittedOrders[] = []): string {
+  const header = [
+    'm',
+    'status',
+    'outside',
+    'sin_angle',
+    'angle_rad',
+    'position_m',
+    'interval_from_m',
+    'interval_to_m',
+    'centroid_m',
+    'fraction_of_transmitted',
+    'fraction_of_incident',
+    'predicted_fraction',
+    'flux_fraction',
+    'predicted_flux',
+    'resolving_power',
+  ];
+  const rows: (string | number | boolean | null)[][] = orders.map((o) => [
+    o.m,
+    o.status,
+    o.outside ?? null,
+    o.sinAngle,
+    o.angle,
+    o.position,
+    o.interval ? o.interval[0] : null,
+    o.interval ? o.interval[1] : null,
+    o.centroid,
+    o.fractionOfTransmitted,
+    o.fractionOfIncident,
+    o.predictedFraction,
+    o.fluxFraction,
+    o.predictedFlux,
+    o.resolvingPower,
+  ]);
+  for (const r of omitted) {
+    rows.push([`${r.from}..${r.to}`, r.status, r.outside, null, null, null, null, null, null, null, null, r.predictedFraction, null, null, null]);
+  }
+  if (evanescentFraction !== undefined) {
+    rows.push([null, 'all-evanescent', null, null, null, null, null, null, null, 0, null, evanescentFraction, 0, 0, null]);
+  }
+  return toCsv(header, rows);
 }
 
 /** JSON has no Infinity or NaN: write them as null rather than failing. */

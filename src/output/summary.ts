@@ -83,9 +83,18 @@ export function summaryColumns(rows: SummaryRow[]): Column[] {
     num('power_in_window', 'power in the window', '1', (m) => m.metrics.powerInWindow, true),
     num('window_fraction', 'fraction of the power in the window', '1', (m) => m.metrics.windowFraction),
   ];
-  detectors.forEach((d, i) =>
-    cols.push(num(`detector${i + 1}_fraction`, `fraction on ${d.kind} ${i + 1}`, '1', (m) => m.metrics.detectors[i]?.fraction)),
-  );
+  // A detector's fraction is of the power through the aperture, or behind an obstacle of what it
+  // would receive unobstructed (metrics.detectors[i].reference); the label says which.
+  const behind = rows.some((r) => r.record?.metrics.detectors.some((d) => d.reference === 'unobstructed-beam'));
+  const mixed = behind && rows.some((r) => r.record?.metrics.detectors.some((d) => d.reference === 'power-through-aperture'));
+  detectors.forEach((d, i) => {
+    const of = mixed ? ' (see result.json for its reference)' : behind ? ' (of the unobstructed beam on it)' : '';
+    cols.push(num(`detector${i + 1}_fraction`, `fraction on ${d.kind} ${i + 1}${of}`, '1', (m) => m.metrics.detectors[i]?.fraction));
+    cols.push({ header: `detector${i + 1}_area_in_window`, get: (r) => r.record?.metrics.detectors[i]?.areaInWindow ?? null });
+  });
+  if (rows.some((r) => r.record?.metrics.evanescentFraction !== undefined)) {
+    cols.push(num('evanescent_fraction', 'evanescent fraction (thin-grating theory)', '1', (m) => m.metrics.evanescentFraction));
+  }
   for (const axis of axes) {
     const tag = axis === 'radial' ? '' : `_${axis}`;
     const verdict = (m: CaseSummary) => m.metrics.verdicts?.find((v) => v.axis === axis);
