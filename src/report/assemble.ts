@@ -7,7 +7,10 @@ import type { SweepAxis } from '../job/expand.js';
 import type { LoadedJob } from '../job/load.js';
 import type { Overlap } from '../analysis/overlap.js';
 import { writeFileAtomic, safeJoin } from '../output/atomic.js';
-import { CASE_FILES } from '../output/case-output.js';
+import { CASE_FILES, type CaseSummary } from '../output/case-output.js';
+import type { GratingOrder } from '../analysis/orders.js';
+import { methodWords } from '../plan/planner.js';
+import type { Plan } from '../plan/types.js';
 import { toCsv } from '../output/csv.js';
 import { summaryColumns, type SummaryRow } from '../output/summary.js';
 import type { ComputedCase } from '../run/compute.js';
@@ -188,7 +191,7 @@ function reportTables(inp: ReportInputs): ReportTable[] {
         r.record ? r.record.warnings.map((w) => w.code).join(', ') : null,
       ];
     }),
-    note: 'Intensities relative to the incident irradiance; radii of encircled energy about the centroid, as fractions of the power through the aperture.',
+    note: 'Intensities relative to the incident irradiance; FWHM between the outermost half-maximum crossings of the profile through the peak (the spot\'s envelope); radii of encircled energy about the centroid, as fractions of the power through the aperture.',
   });
   const verdictRows = done.flatMap((r) => (r.record!.metrics.verdicts ?? []).map((v) => [r.record!.plan.case.id, v.axis, v.kind, v.sentence]));
   if (verdictRows.length) tables.push({ title: 'Diffraction-limited?', header: ['case', 'axis', 'verdict', 'in words'], rows: verdictRows });
@@ -206,20 +209,20 @@ function reportTables(inp: ReportInputs): ReportTable[] {
     });
   }
   const gratings = done.filter((r) => r.record!.metrics.orders);
-  for (const r of gratings.slice(0, 12)) {
-    const orders = r.record!.metrics.orders!.filter((o) => o.propagates && o.inWindow);
+  gratings.slice(0, GRATING_TABLES).forEach((r, i) => {
+    const t = orderTable(r.record!);
+    if (i === GRATING_TABLES - 1 && gratings.length > GRATING_TABLES) {
+      t.note = `${t.note} ${gratings.length - GRATING_TABLES} further grating cases are not tabulated here: each case folder's ${CASE_FILES.orders} has its orders.`;
+    }
+    tables.push(t);
+  });
+  const changes = methodChanges(inp.rows);
+  if (changes.length) {
     tables.push({
-      title: `Grating orders, ${r.record!.plan.case.id}`,
-      header: ['m', 'angle', 'position', 'of transmitted', 'of incident', 'resolving power mN'],
-      rows: orders.map((o) => [
-        o.m,
-        o.angle === null ? null : `${trimNumber((o.angle * 180) / Math.PI, 5)}°`,
-        fmtLen(o.position),
-        o.fractionOfTransmitted === null ? null : `${trimNumber(100 * o.fractionOfTransmitted, 4)} %`,
-        o.fractionOfIncident === null ? null : `${trimNumber(100 * o.fractionOfIncident, 4)} %`,
-        o.resolvingPower,
-      ]),
-      note: 'Grating equation d(sin θ_m − sin θ_i) = mλ, angles from the axis; position z·tan θ_m; power integrated between the midpoints to the neighbouring orders.',
+      title: 'Where the method changes along the sweep',
+      header: ['from case', 'to case', 'method before', 'method after', 'why (the plan of the later case)'],
+      rows: changes.map((c) => [c.from, c.to, c.before, c.after, c.why]),
+      note: 'Neighbouring cases in sweep order whose method or form differs; the reason is the planner\'s own sentence that chose the later case\'s method (and why the earlier one no longer held, where it says so).',
     });
   }
   if (inp.overlaps.length) {
@@ -231,6 +234,111 @@ function reportTables(inp: ReportInputs): ReportTable[] {
     });
   }
   return tables;
+}
+
+/** Grating cases given an order table in the report (the rest have their orders.csv). */
+export const GRATING_TABLES = 12;
+/** Runs of more orders than this wholly outside the window are one row of the report's order table. */
+export const OUTSIDE_RUN_ROWS = 6;
+
+const pctCell = (x: number | null | undefined, d = 4) => (x === null || x === undefined ? null : `${trimNumber(100 * x, d)} %`);
+
+/**
+ * A grating case's order table: every order that lands (in the window or outside it, with its
+ * status) and the evanescent ones the case lists, then the evanescent orders' power together.
+ * Every order inside the window has its own row; runs of more than OUTSIDE_RUN_ROWS orders wholly
+ * outside the window are one row each (orders.csv has them one by one).
+ */
+export function orderTable(rec: CaseSummary): ReportTable {
+  const m = rec.metrics;
+  const orders = m.orders ?? [];
+  const rows: (string | number | null)[][] = [];
+  const row = (o: GratingOrder) => [
+    o.m,
+    o.status === 'outside-window' ? `outside the window (${o.outside === 'all' ? 'all' : 'part'} of its interval)` : o.status,
+    o.angle === null ? `sin θ = ${trimNumber(o.sinAngle, 4)}` : `${trimNumber((o.angle * 180) / Math.PI, 5)}°`,
+    fmtLen(o.position),
+    pctCell(o.fractionOfTransmitted),
+    pctCell(o.predictedFraction),
+    pctCell(o.fluxFraction),
+    pctCell(o.fractionOfIncident),
+    o.resolvingPower,
+  ];
+  const rangeRow = (from: number, to: number, predicted: number) => [
+    `${from} … ${to}`,
+    'outside the window (all of their intervals)',
+    null,
+    null,
+    null,
+    pctCell(predicted),
+    null,
+    null,
+    null,
+  ];
+  const omitted = [...(m.ordersOmitted ?? [])];
+  const low = omitted.filter((r) => orders.length === 0 || r.to < orders[0]!.m);
+  const high = omitted.filter((r) => !low.includes(r));
+  for (const r of low) rows.push(rangeRow(r.from, r.to, r.predictedFraction));
+  for (let i = 0; i < orders.length; ) {
+    const o = orders[i]!;
+    if (o.outside === 'all') {
+      let j = i;
+      while (j + 1 < orders.length && orders[j + 1]!.outside === 'all') j++;
+      if (j - i + 1 > OUTSIDE_RUN_ROWS) {
+        rows.push(rangeRow(o.m, orders[j]!.m, orders.slice(i, j + 1).reduce((s2, k) => s2 + k.predictedFraction, 0)));
+        i = j + 1;
+        continue;
+      }
+    }
+    rows.push(row(o));
+    i++;
+  }
+  for (const r of high) rows.push(rangeRow(r.from, r.to, r.predictedFraction));
+  if (m.evanescentFraction !== undefined) {
+    rows.push(['all evanescent orders', 'evanescent (together)', null, null, '0 %', pctCell(m.evanescentFraction), '0 %', null, null]);
+  }
+  return {
+    title: `Grating orders, ${rec.plan.case.id}`,
+    header: ['m', 'status', 'angle', 'position', 'measured, of transmitted', 'thin-grating theory', 'flux, of transmitted', 'of incident', 'resolving power mN'],
+    rows,
+    note:
+      'Grating equation d(sin θ_m − sin θ_i) = mλ, angles from the axis; position z·tan θ_m. Measured: ∫|U|² over the interval between the midpoints to the neighbouring orders, over the power through the slits (blank where part of the interval lies outside the window). ' +
+      'Thin-grating theory: (w/d)·sinc²(m·w/d) of the same power (Goodman, Introduction to Fourier Optics, §4.4). Flux: the measured value times cos θ_m/cos θ_i, the power crossing the screen plane rather than ∫|U|². ' +
+      'Evanescent orders (|sin θ| > 1) carry no power to any screen; the last row is what thin-grating theory sends into all of them together.',
+  };
+}
+
+export interface MethodChange {
+  from: string;
+  to: string;
+  before: string;
+  after: string;
+  why: string;
+}
+
+const methodLabel = (p: Plan) => (p.form ? `${p.method} (${p.form})` : p.method);
+
+/**
+ * Neighbouring cases (in sweep order) whose plans use different methods or forms, with the later
+ * plan's sentence that chose its method and, where it has one, its sentence on why the earlier
+ * case's method is not valid there.
+ */
+export function methodChanges(rows: SummaryRow[]): MethodChange[] {
+  const out: MethodChange[] = [];
+  let prev: { id: string; plan: Plan } | null = null;
+  for (const r of rows) {
+    const plan = r.record?.plan ?? r.plan;
+    if (!plan) continue;
+    if (prev && methodLabel(prev.plan) !== methodLabel(plan)) {
+      const chose = plan.reasons.find((x) => /\bchosen\b|as requested/.test(x));
+      const before = methodWords(prev.plan.method as Parameters<typeof methodWords>[0]);
+      const rejected = plan.reasons.find((x) => x.startsWith(before) && /not valid|would need/.test(x));
+      const why = [rejected, chose].filter((x): x is string => !!x).join(' ');
+      out.push({ from: prev.id, to: plan.case.id, before: methodLabel(prev.plan), after: methodLabel(plan), why: why || 'the later plan gives no reason for its method' });
+    }
+    prev = { id: plan.case.id, plan };
+  }
+  return out;
 }
 
 export function overlapCsv(overlaps: Overlap[]): string {
