@@ -15,7 +15,7 @@ import { LIMITS } from './limits.js';
 import { lightModel, type LightModel } from './light.js';
 import { paraxialEstimate } from './paraxial.js';
 import { planWindow, windowLoss } from './window.js';
-import { costRsDirect1D, costRsDirect2D, costRsPerPeriod1D, periodicAxis, rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
+import { costRsDirect1D, costRsDirect2D, costRsPerPeriod1D, periodicAxis, rsAreaSamplingError, rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
 
 export interface PlannerOptions {
   /** A case whose estimated peak memory exceeds this is not computed (bytes). */
@@ -523,9 +523,14 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
     }
     return list;
   }
-  const sMax = steepestDirection(g);
-  const width = Math.min(cell, g.lam / (4 * Math.max(sMax, 1e-6)));
-  const p = pitchFor(g, c, { pitch: width, rule: `the kernel's curvature rule and λ/(4 sin θ) at the steepest ray into the window (partial edge cells carry their open area at the cell centre)` }, LIMITS.featureSamples2D);
+  // Area-sampled edge cells carry their open fraction over the whole cell: the error grows as
+  // (pitch·sin θ/λ)² at the steepest ray into the window (rsAreaSamplingError, measured), so the
+  // pitch is set for LIMITS.rsAreaError there.
+  const sMax = Math.max(steepestDirection(g), 1e-6);
+  const ref = g.lam;
+  const areaPitch = ref * Math.sqrt(LIMITS.rsAreaError / rsAreaSamplingError(ref, g.lam, sMax));
+  const width = Math.min(cell, areaPitch);
+  const p = pitchFor(g, c, { pitch: width, rule: `the finer of the kernel's curvature rule and the edge cells' error at the steepest ray into the window (sin θ = ${fmt(sMax, 3)})` }, LIMITS.featureSamples2D);
   const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
   const n = [0, 1].map((i) => c.grid?.size ?? 2 * Math.ceil(g.aEff[i]! / p.pitch + 0.5) + 1);
   const axes = [0, 1].map((i) => axisPlan(g, i, p, n[i]!, n[i]!, out[i]!.output));

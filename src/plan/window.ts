@@ -99,7 +99,8 @@ export function planWindow(w: WindowInputs): WindowPlan {
     const maxSamples = model.oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D;
     const tooWide = (list: Beam[]) => axes.some((i) => {
       const [lo, hi] = hull(list, i);
-      return (hi - lo) / ((lam * z) / (16 * Math.max(model.footprint[i]!, 1e-30))) > maxSamples;
+      // The intensity's Nyquist pitch λz/(2D): coarser than that, the output-undersampled check fires.
+      return (hi - lo) / ((lam * z) / (4 * Math.max(model.footprint[i]!, 1e-30))) > maxSamples;
     });
     let held = beams;
     if (beams.length > 1 && tooWide(beams)) {
@@ -120,8 +121,16 @@ export function planWindow(w: WindowInputs): WindowPlan {
     for (const i of axes) {
       const [lo, hi] = hull(held, i);
       const minHalf = LIMITS.minWindowOverAperture * model.footprint[i]!;
-      centre[i] = (lo + hi) / 2;
-      half[i] = Math.max((hi - lo) / 2, minHalf);
+      const single = held.length === 1 ? held[0]!.landing : null;
+      if (single) {
+        // One beam: the window is centred on where it lands (its margins, mapped through tan θ,
+        // are not symmetric; the larger one is kept on both sides).
+        centre[i] = single[i]!;
+        half[i] = Math.max(single[i]! - lo, hi - single[i]!, minHalf);
+      } else {
+        centre[i] = (lo + hi) / 2;
+        half[i] = Math.max((hi - lo) / 2, minHalf);
+      }
     }
     if (held !== beams) omitted.push(...beams.filter((b) => axes.some((i) => Math.abs(b.landing![i]! - centre[i]!) > half[i]!)));
   }
