@@ -63,6 +63,8 @@ export const LIMITS = {
   farFieldPeakError: 0.002,
   /** Warn when a forced far-field formula's estimated peak error exceeds this. */
   farFieldPeakErrorWarn: 0.01,
+  /** A window whose steepest ray from the aperture has sin θ above this takes in nearly every direction. */
+  steepWindow: 0.9,
   /** Largest error (fraction of the peak) the exact 2-D sums' area-sampled edge cells may add. */
   rsAreaError: 0.002,
   /** Features below this many wavelengths get the scalar-theory warning; a judgement. */

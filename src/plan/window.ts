@@ -14,11 +14,16 @@ export interface WindowPlan {
   omitted: Beam[];
 }
 
-/** The largest direction cosine a window is stretched to: beyond it light grazes the screen. */
-const S_MAX = 0.995;
+/**
+ * The largest direction cosine (64°) a margin stretches the window to: beyond it light grazes the
+ * screen, and holding it would take a window many times the distance wide. A beam that itself
+ * lands beyond (a grating's outer order) is held, without a margin on its far side; what falls
+ * outside is estimated and reported.
+ */
+const MARGIN_S_MAX = 0.9;
 
-function toScreen(s: number, z: number): number {
-  const c = Math.max(-S_MAX, Math.min(S_MAX, s));
+function toScreen(s: number, z: number, cap = 1): number {
+  const c = Math.max(-cap, Math.min(cap, s));
   return (z * c) / Math.sqrt(1 - c * c);
 }
 
@@ -86,8 +91,9 @@ export function planWindow(w: WindowInputs): WindowPlan {
         const ds = (model.beamEdgesPerPower[i]! * lam) / (2 * Math.PI ** 2 * target);
         const s = b.dir[i]!;
         const at = toScreen(s, z);
-        lo = Math.min(lo, at - body(i) - Math.max(at - toScreen(s - ds, z), fresnel));
-        hi = Math.max(hi, at + body(i) + Math.max(toScreen(s + ds, z) - at, fresnel));
+        const cap = Math.max(MARGIN_S_MAX, Math.abs(s));
+        lo = Math.min(lo, at - body(i) - Math.max(at - toScreen(s - ds, z, cap), fresnel));
+        hi = Math.max(hi, at + body(i) + Math.max(toScreen(s + ds, z, cap) - at, fresnel));
       }
       if (!(hi > lo)) return [-body(i), body(i)];
       return [lo, hi];
