@@ -207,7 +207,7 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
   const misplaced = checked.filter((c) => c.centroid === null || Math.abs(c.centroid - c.position) > c.centroidTolerance);
   const powerOff = checked.filter((c) => Math.abs(c.measured - c.predicted) > c.powerTolerance);
 
-  // Stray light: peaks of the (row-summed) profile outside every landing order's reach that stand
+  // Stray light: peaks of the (row-summed) profile outside every landing order's core that stand
   // above what a correct computation puts there (expectedDensity: in the far field the model's side
   // lobes and secondary maxima between orders, which for a few slits are far from negligible) by
   // at least the peak an order carrying STRAY_PEAK_LEVEL·CHECKED_ORDER_MIN of the transmitted
@@ -225,46 +225,46 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
     return Math.abs(positionOf(a) - x) <= Math.abs(positionOf(b) - x) ? a : b;
   };
   /**
-   * How far an order's light reaches for the stray search: its spot (illuminated width plus
-   * SEPARATION_LOBES lobes) plus SEPARATION_LOBES Fresnel-zone widths √(λz/2γ³), since nearer
-   * the grating each order is a Fresnel pattern of the grating's outline, wider than its shadow.
+   * An order's core, left to the centroid and power checks: its illuminated width plus one lobe
+   * (and, nearer the grating, one Fresnel-zone width √(λz/2γ³), the scale of the ringing at the
+   * beam's edges). Beyond it the expected density below holds the order's own side lobes and tails.
    */
-  const reach = (m: number) => extent(m, SEPARATION_LOBES) + SEPARATION_LOBES * Math.sqrt((lam * z) / (2 * gammaOf(m) ** 3));
+  const core = (m: number) => W / 2 + lobe(gammaOf(m)) + (farField ? 0 : Math.sqrt((lam * z) / (2 * gammaOf(m) ** 3)));
   const inSpot = (x: number): boolean => {
     if (lo > hi) return false;
     const n = nearestLanding(x);
-    for (let k = Math.max(lo, n - 3); k <= Math.min(hi, n + 3); k++) if (Math.abs(positionOf(k) - x) <= reach(k)) return true;
+    for (let k = Math.max(lo, n - 3); k <= Math.min(hi, n + 3); k++) if (Math.abs(positionOf(k) - x) <= core(k)) return true;
     return false;
   };
   /**
-   * What a correct computation puts at x outside the spots. In the grating's far field: the model's
-   * largest density within ± one lobe (its fringes need not line up with the map's samples). Nearer
-   * the grating each order is a Fresnel pattern of the outline, whose tail falls off from the beam's
-   * edge rather than its centre: the orders' tails, f_k·λz/(2π²W·u²) at u from the edge of order
-   * k's beam (the derivative of the 1/u tail law), summed, twice over (two overlapping tails
-   * interfere up to twice their sum).
+   * What a correct computation puts at x outside the orders' cores. The far-field model's largest density
+   * within ± one lobe (its fringes need not line up with the map's samples) holds the side lobes
+   * and the array factor's secondary maxima between orders (1/N² of an order's peak midway, far
+   * from negligible for a few slits); in the grating's far field it is exact, and gets a 25 %
+   * allowance. Nearer the grating each order is a Fresnel pattern of the outline whose tail falls
+   * off from the beam's edge rather than its centre: there the larger of the model and the orders'
+   * tails, f_k·λz/(2π²W·u²) at u from the edge of order k's beam (the derivative of the 1/u tail
+   * law) summed, counts twice over (two overlapping waves interfere up to twice their sum).
    */
   const expectedDensity = (x: number): number => {
-    if (farField) {
-      const l = lobeAt(x);
-      let m = 0;
-      for (let i = -8; i <= 8; i++) m = Math.max(m, model.density(x + (i / 8) * l));
-      return m;
-    }
+    const l = lobeAt(x);
+    let env = 0;
+    for (let i = -8; i <= 8; i++) env = Math.max(env, model.density(x + (i / 8) * l));
+    if (farField) return 1.25 * env;
     const n = nearestLanding(x);
     let sum = 0;
     for (let k = Math.max(lo, n - 50); k <= Math.min(hi, n + 50); k++) {
       const f = thinGratingFraction(g.width, g.period, k);
-      const l = lobe(gammaOf(k));
+      const lk = lobe(gammaOf(k));
       const dist = Math.abs(x - positionOf(k));
-      const u = Math.max(dist - W / 2, l / 2);
-      sum += (f * inp.edgeWeight * l) / (2 * Math.PI ** 2 * u * u);
+      const u = Math.max(dist - W / 2, lk / 2);
+      sum += (f * inp.edgeWeight * lk) / (2 * Math.PI ** 2 * u * u);
       if (Number.isFinite(inp.waist)) {
         const wr = beamRadius(k);
-        sum += f * Math.sqrt(2 / Math.PI) * Math.exp((-2 * dist * dist) / (wr * wr)) / wr;
+        sum += (f * Math.sqrt(2 / Math.PI) * Math.exp((-2 * dist * dist) / (wr * wr))) / wr;
       }
     }
-    return 2 * sum;
+    return 2 * Math.max(env, sum);
   };
   const strayPeaks: { i: number; x: number }[] = [];
   const xAt = (i: number) => map.origin[0] + i * dx;
