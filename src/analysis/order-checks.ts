@@ -486,14 +486,19 @@ interface OfferedMethod {
  */
 export function methodAdvice(plan: Plan): string {
   const forced = plan.case.method !== 'auto';
+  const requestable = (m: string) => (METHODS as readonly string[]).includes(m);
   const offered = ((plan as { options?: OfferedMethod[] }).options ?? []).filter((o) => o.valid && o.fits !== false && o.method !== plan.method);
-  const best = offered.length ? offered.reduce((b, o) => ((o.work ?? Infinity) < (b.work ?? Infinity) ? o : b)) : null;
+  const cheapest = (os: OfferedMethod[]) => (os.length ? os.reduce((b, o) => ((o.work ?? Infinity) < (b.work ?? Infinity) ? o : b)) : null);
+  const best = cheapest(offered);
+  const bestAsked = cheapest(offered.filter((o) => requestable(o.method)));
   const exact = (METHODS as readonly string[]).filter((m) => m !== 'auto' && m !== plan.method && (m === 'angular-spectrum' || /rayleigh|sommerfeld/i.test(m)));
-  const use = best
-    ? `use method: ${best.method} (the plan found it valid here, and it fits)`
-    : exact.length
-      ? `use ${exact.map((m) => `method: ${m}`).join(' or ')} (exact for scalar waves)`
-      : 'no other method the plan offers is valid here';
+  let use: string;
+  if (forced && best) {
+    use = `use method: auto, with which the planner picks ${best.method} here (valid, and it fits)${bestAsked && bestAsked.method !== best.method ? `, or method: ${bestAsked.method}` : ''}`;
+  } else if (bestAsked) use = `use method: ${bestAsked.method} (the plan found it valid here, and it fits)`;
+  else if (best) use = `the plan found ${best.method} valid here and within the limits, but a job file cannot ask for it: report this case with its job file`;
+  else if (exact.length) use = `use ${exact.map((m) => `method: ${m}`).join(' or ')} (exact for scalar waves)`;
+  else use = 'no other method the plan offers is valid here';
   const why =
     plan.method === 'fresnel'
       ? 'the Fresnel method is paraxial: it sends order m to z·sin θ_m instead of z·tan θ_m and lands orders that should be evanescent'

@@ -77,14 +77,16 @@ describe('orders-misplaced and orders-power on the paraxial (Fresnel) method for
     expect(w!.message).toMatch(/order 0: [\d.]+ % of the transmitted power measured, 50 % predicted/);
   });
 
-  it('advises a method the plan offers: valid here, fitting, and not the one that failed', () => {
+  it('advises a method the plan offers: valid here, fitting, not the one that failed, and one a job can ask for', () => {
     const r = grating(12, 8 * lam, 0.005, 30, 'fresnel');
     const offered = (r.plan.options ?? []).filter((o) => o.valid && o.fits !== false && o.method !== 'fresnel').map((o) => o.method);
     expect(offered.length).toBeGreaterThan(0);
-    const m = /use method: ([a-z-]+) \(the plan found it valid here/.exec(warning(r, 'orders-misplaced')!.message);
+    const msg = warning(r, 'orders-misplaced')!.message;
+    expect(msg).toMatch(/this case forces method: fresnel/);
+    // Forced: method auto, naming what the planner would pick here.
+    const m = /use method: auto, with which the planner picks ([a-z-]+) here \(valid, and it fits\)/.exec(msg);
     expect(m).not.toBeNull();
     expect(offered).toContain(m![1]);
-    expect(warning(r, 'orders-misplaced')!.message).toMatch(/this case forces method: fresnel/);
   });
 });
 
