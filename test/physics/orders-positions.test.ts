@@ -5,7 +5,9 @@
 // interest so that each stays a fraction of a second.
 import { describe, expect, it } from 'vitest';
 import type { GratingOrder } from '../../src/analysis/orders.js';
-import { nm, runCase, um } from '../helpers.js';
+import { postChecks } from '../../src/analysis/validity.js';
+import { planCase } from '../../src/plan/planner.js';
+import { makeCase, nm, runCase, um } from '../helpers.js';
 
 const lam = 633 * nm;
 const deg = Math.PI / 180;
@@ -218,5 +220,35 @@ describe('an order table of a grating with orders outside the window', () => {
       expect(o.fractionOfTransmitted).toBeNull();
     }
     expect(new Set(orders.map(byStatus))).toEqual(new Set(['propagating', 'outside-window', 'evanescent']));
+  });
+});
+
+describe('window loss apart from evanescent light (no advice to leave the planner’s own choice to the planner)', () => {
+  const aperture = { shape: 'slits' as const, count: 40, width: 10 * um, period: 20 * um, opaque: false };
+  it('a window the job gives that cuts orders off: widen it', () => {
+    const { rec } = runCase({ wavelength: lam, distance: 10, method: 'fraunhofer', window: [0.4, 0.4], aperture });
+    const w = rec.warnings.find((x) => x.code === 'window-loss');
+    expect(w).toBeDefined();
+    // Measured against the power that reaches the screen: the evanescent part is named apart.
+    expect(w!.message).toMatch(/of the power that reaches the screen \(the power through the aperture less the [\d.]+ % that goes into evanescent waves\)/);
+    expect(w!.message).toMatch(/widen the window the job gives/);
+    const missing = 1 - rec.metrics.evanescentFraction! - rec.metrics.windowFraction!;
+    expect(w!.message).toContain(`${Number((100 * (missing / (1 - rec.metrics.evanescentFraction!))).toPrecision(3))} %`);
+  });
+  it('the planner’s own window: no advice to leave it to the planner; unexpected beyond its own estimate, said as expected within it', () => {
+    // postChecks on the planner's plan of a slit, with the window holding 80 % and then the share
+    // the planner itself expected to keep (plan.checks.windowLossEstimate).
+    const plan = planCase(makeCase({ wavelength: lam, distance: 1, aperture: { shape: 'slit', width: 100 * um, opaque: false } }));
+    expect(plan.case.window).toBeUndefined();
+    const lost = postChecks(plan, { powerIn: 1, powerInWindow: 0.8 });
+    const w = lost.find((x) => x.code === 'window-loss')!;
+    // Of the power that reaches the screen: the planner's evanescent estimate for the slit is set apart.
+    const ev = plan.checks.evanescentFraction ?? 0;
+    expect(w.message.startsWith(`${Number((100 * ((1 - ev - 0.8) / (1 - ev))).toPrecision(3))} % of the power`)).toBe(true);
+    expect(w.message).toMatch(/unexpected for the window the planner chose, which it expected to miss about [\d.<]+ %/);
+    const expected = Math.max(plan.checks.windowLossEstimate, 0.06);
+    const asPlanned = postChecks({ ...plan, checks: { ...plan.checks, windowLossEstimate: expected } }, { powerIn: 1, powerInWindow: (1 - ev) * (1 - expected) });
+    expect(asPlanned.find((x) => x.code === 'window-loss')!.message).toMatch(/about what the planner expected when it chose this window/);
+    for (const x of [...lost, ...asPlanned]) expect(x.message).not.toMatch(/to the planner/);
   });
 });
