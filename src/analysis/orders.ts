@@ -184,15 +184,21 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
   const colPower = columnPower(map);
 
   // Orders that land: intervals between the midpoints to the neighbours; the outermost ones reach
-  // as far out as half their inner gap.
+  // as far out as half their inner gap, or to the window's edge when the order's own beam (the
+  // grating's footprint about its landing point) is inside: the planner sizes the window to hold
+  // the outer orders with their tails, and everything beyond the last order on that side is its
+  // light (what the window misses is the window loss, reported apart).
   const landing: GratingOrder[] = [];
   let carried = 0;
+  const core = ((g.count - 1) * g.period + g.width) / 2;
   for (let m = lo; m <= hi; m++) {
     const x = positionOf(m);
     const prev = m > lo ? positionOf(m - 1) : null;
     const next = m < hi ? positionOf(m + 1) : null;
-    const a = prev !== null ? (prev + x) / 2 : next !== null ? x - (next - x) / 2 : -Infinity;
-    const b = next !== null ? (next + x) / 2 : prev !== null ? x + (x - prev) / 2 : Infinity;
+    let a = prev !== null ? (prev + x) / 2 : next !== null ? x - (next - x) / 2 : -Infinity;
+    let b = next !== null ? (next + x) / 2 : prev !== null ? x + (x - prev) / 2 : Infinity;
+    if (prev === null && a < w0 && x - core >= w0) a = w0;
+    if (next === null && b > w1 && x + core <= w1) b = w1;
     const inWindow = a >= w0 && b <= w1;
     const outside = inWindow ? undefined : b < w0 || a > w1 ? ('all' as const) : ('part' as const);
     const predicted = thinGratingFraction(g.width, g.period, m);

@@ -174,7 +174,7 @@ const windowSize = z.union([
   positiveLength().transform((w): [number, number] => [w, w]),
 ], { error: windowMsg });
 
-export const METHODS = ['auto', 'angular-spectrum', 'fresnel', 'fraunhofer'] as const;
+export const METHODS = ['auto', 'angular-spectrum', 'fresnel', 'fraunhofer', 'rayleigh-sommerfeld'] as const;
 export type MethodRequest = (typeof METHODS)[number];
 
 const outputShape = {

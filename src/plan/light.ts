@@ -94,8 +94,10 @@ export function lightModel(a: Aperture, f: ApertureFacts, ill: Illumination, lam
     for (let m = lo; m <= hi; m++) {
       const dir: [number, number] = [alpha + (m * lam) / a.period, oneD ? 0 : beta];
       const p = thinGratingFraction(a.width, a.period, m);
-      carried += p;
-      beams.push({ order: m, dir, power: p, propagates: true, landing: land(dir) });
+      // With a tilt along the lines too, an order propagates only while α² + β² < 1.
+      const landing = land(dir);
+      if (landing) carried += p;
+      beams.push({ order: m, dir, power: p, propagates: landing !== null, landing });
     }
     // The first evanescent order on each side, so that reports can show where the cut-off is.
     for (const m of [lo - 1, hi + 1]) {

@@ -49,7 +49,7 @@ describe('far-field pinhole: encircled energy, FWHM, detector', () => {
     expect(Math.abs(fractionWithin(curve, r0) - 0.8378) / 0.8378).toBeLessThan(2e-3);
   });
   it('puts 83.8 % on a pinhole detector as wide as the first dark ring', () => {
-    expect(Math.abs(rec.metrics.detectors[0]!.fraction - 0.8378) / 0.8378).toBeLessThan(2e-3);
+    expect(Math.abs(rec.metrics.detectors[0]!.fraction! - 0.8378) / 0.8378).toBeLessThan(2e-3);
   });
   it('has FWHM = 1.029 λz/D (from memory; the Airy half-maximum at v = 1.6163)', () => {
     const ref = (1.029 * lam * z) / D;
@@ -83,7 +83,7 @@ describe('Gaussian beam widths', () => {
     expect(Math.abs(rec.metrics.e2Width[0]! - 2 * w) / (2 * w)).toBeLessThan(5e-3);
   });
   it('a pinhole of radius w passes 1 − e⁻² = 86.5 % (Siegman ch. 17)', () => {
-    expect(Math.abs(rec.metrics.detectors[0]!.fraction - (1 - Math.exp(-2))) / (1 - Math.exp(-2))).toBeLessThan(5e-3);
+    expect(Math.abs(rec.metrics.detectors[0]!.fraction! - (1 - Math.exp(-2))) / (1 - Math.exp(-2))).toBeLessThan(5e-3);
   });
 });
 
