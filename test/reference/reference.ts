@@ -106,6 +106,12 @@ function openMeasure(a: Aperture): number {
   }
 }
 
+/** Estimated µs of the exact 1-D reference at these points (for choosing how many to compare). */
+export function referenceCost1D(c: RefCase, pts: [number, number][]): number {
+  const p: Problem1D = { wavelength: c.wavelength, distance: c.distance, intervals: xIntervals(c.aperture), light: lightOf(c.illumination), opaque: c.aperture.opaque };
+  return rs1dCost(p, pts.map(([x]) => x)) * MICROS_PER_NODE.bessel;
+}
+
 /**
  * The reference intensity at `pts` ([x, y]; y is ignored for 1-D apertures), within a budget of
  * about `budgetMicros` of computing. For 2-D cases the caller passes the points it wants; when only

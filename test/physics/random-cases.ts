@@ -1,0 +1,448 @@
+// Random cases over the space the job schema accepts, run through the tool exactly as
+// test/helpers.ts runCase does, and compared with the exact references of test/reference/.
+// Used by random-cases.test.ts (the property test) and, with SPOTCAST_RANDOM_REPORT=1, to print
+// every case (see the test file's header).
+import type { Aperture, Illumination } from '../../src/optics/aperture.js';
+import { fork, type ChildProcess } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import type { Plan } from '../../src/plan/types.js';
+import { planCase } from '../../src/plan/planner.js';
+import { runPlannedCase } from '../../src/run/run-case.js';
+import { makeCase, type CaseSpec } from '../helpers.js';
+import { isOneD, referenceCost1D, referenceIntensity, type RefCase } from '../reference/reference.js';
+
+/** The seed of the draw; change it to see other cases (the counts in the report are for this one). */
+export const SEED = 0x5eed2026;
+/** How many cases are drawn. */
+export const CASE_COUNT = 200;
+
+/**
+ * Warning codes that say the computed values may be off. A case more than 5 % off the reference
+ * passes only if it carries one of these. Codes that speak of physics or of totals
+ * (near-wavelength, evanescent, tilt-y-ignored, window-loss) do not count.
+ */
+export const ACCURACY_WARNINGS: readonly string[] = [
+  'paraxial',
+  'not-far-field',
+  'coarse-sampling',
+  'undersampled-feature',
+  'grid-too-small',
+  'transfer-undersampled',
+  'output-undersampled',
+  'power-excess',
+  'edge-energy',
+  'band-limit',
+  // Being added by the planner rewrite:
+  'orders-misplaced',
+  'accuracy',
+];
+
+/** Cases whose plan estimates more work than this are skipped (counted): the file's time guard. */
+export const WORK_LIMIT = 4e8;
+/** Time the reference may take per case, µs (estimated from its node count). */
+export const REFERENCE_BUDGET_MICROS = 600_000;
+/** Points compared: 1-D at most this many (evenly spread); 2-D this many per central line. */
+export const POINTS_1D = 200;
+/** Fewest 1-D points: fewer are taken (down to this) when the exact reference is costly. */
+export const MIN_POINTS_1D = 40;
+/**
+ * A case that has not come back after this long is counted as timed out (a guard against plans
+ * or runs that never end; not a measurement: nothing is asserted about it).
+ */
+export const CASE_TIMEOUT_MS = 10_000;
+export const POINTS_2D_PER_LINE = 21;
+
+/** mulberry32: a tiny 32-bit PRNG (public domain, common practice for reproducible test draws). */
+export function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+export interface DrawnCase {
+  index: number;
+  spec: CaseSpec;
+}
+
+const logUniform = (rnd: () => number, lo: number, hi: number) => lo * Math.pow(hi / lo, rnd());
+
+/** Two distinct log-uniform sizes in [lo, hi], ascending. */
+function twoSizes(rnd: () => number, lo: number, hi: number): [number, number] {
+  for (;;) {
+    const a = logUniform(rnd, lo, hi);
+    const b = logUniform(rnd, lo, hi);
+    if (Math.abs(a - b) > 1e-3 * Math.max(a, b)) return a < b ? [a, b] : [b, a];
+  }
+}
+
+const SHAPES: [string, number][] = [
+  ['slit', 0.22],
+  ['slits', 0.2],
+  ['slit-length', 0.08],
+  ['slits-length', 0.08],
+  ['circle', 0.15],
+  ['rectangle', 0.14],
+  ['annulus', 0.13],
+];
+
+function pick(rnd: () => number): string {
+  let u = rnd();
+  for (const [s, w] of SHAPES) {
+    if (u < w) return s;
+    u -= w;
+  }
+  return SHAPES[0]![0];
+}
+
+/** Half the aperture's largest extent (the scale a Gaussian waist is drawn against). */
+function apertureHalf(a: Aperture): number {
+  switch (a.shape) {
+    case 'circle':
+      return a.diameter / 2;
+    case 'annulus':
+      return a.outer / 2;
+    case 'rectangle':
+      return Math.max(a.width, a.height) / 2;
+    case 'slit':
+      return a.width / 2;
+    case 'slits':
+      return ((a.count - 1) * a.period + a.width) / 2;
+  }
+}
+
+/** Draws the cases: shapes, sizes, wavelengths, distances and light over the schema's space. */
+export function drawCases(seed = SEED, n = CASE_COUNT): DrawnCase[] {
+  const rnd = mulberry32(seed);
+  const out: DrawnCase[] = [];
+  for (let index = 0; index < n; index++) {
+    const lam = logUniform(rnd, 250e-9, 10e-6);
+    const size = () => logUniform(rnd, lam, 10e-3);
+    const shape = pick(rnd);
+    const opaque = rnd() < 0.25;
+    let aperture: Aperture;
+    switch (shape) {
+      case 'circle':
+        aperture = { shape: 'circle', diameter: size(), opaque };
+        break;
+      case 'rectangle':
+        aperture = { shape: 'rectangle', width: size(), height: size(), opaque };
+        break;
+      case 'annulus': {
+        const [inner, outer] = twoSizes(rnd, lam, 10e-3);
+        aperture = { shape: 'annulus', outer, inner, opaque };
+        break;
+      }
+      case 'slit':
+      case 'slit-length':
+        aperture = { shape: 'slit', width: size(), opaque, ...(shape === 'slit-length' ? { length: size() } : {}) };
+        break;
+      default: {
+        const [width, period] = twoSizes(rnd, lam, 10e-3);
+        const count = Math.max(1, Math.min(1000, Math.round(logUniform(rnd, 1, 1000))));
+        aperture = { shape: 'slits', count, width, period, opaque, ...(shape === 'slits-length' ? { length: size() } : {}) };
+      }
+    }
+    const z = logUniform(rnd, 2 * lam, 100);
+    const tilted = rnd() < 0.2;
+    const tilt: [number, number] = [tilted ? ((rnd() * 2 - 1) * 30 * Math.PI) / 180 : 0, 0];
+    const illumination: Illumination =
+      rnd() < 0.6 ? { kind: 'plane', tilt } : { kind: 'gaussian', waist: apertureHalf(aperture) * logUniform(rnd, 0.2, 5), tilt };
+    out.push({ index, spec: { wavelength: lam, distance: z, aperture, illumination } });
+  }
+  return out;
+}
+
+// --- Running and comparing --------------------------------------------------------------------
+
+export type Status = 'compared' | 'refused' | 'too-much-work' | 'threw' | 'no-reference';
+
+export type Status2 = Status | 'timed out';
+
+/** What the report needs of a plan (outcomes cross process boundaries as JSON). */
+export interface PlanInfo {
+  method: string;
+  form?: string;
+  layout: string;
+  fresnelNumber: number;
+  work: number;
+}
+
+function planInfo(p: Plan): PlanInfo {
+  return { method: p.method, ...(p.form ? { form: p.form } : {}), layout: p.layout, fresnelNumber: p.checks.effectiveFresnelNumber, work: p.work };
+}
+
+export interface Outcome {
+  drawn: DrawnCase;
+  status: Status2;
+  oneD: boolean;
+  plan?: PlanInfo;
+  /** Refusal, exception or missing-reference reason. */
+  note?: string;
+  codes: string[];
+  warned: boolean;
+  /** max |I − I_ref| / max I_ref over the compared points. */
+  error?: number;
+  /** Where the largest difference is. */
+  at?: [number, number];
+  compared?: number;
+  how?: string;
+  /** I and I_ref at the worst point, and the reference's peak. */
+  values?: { I: number; ref: number; peak: number };
+}
+
+function evenIndices(n: number, m: number): number[] {
+  if (n <= m) return Array.from({ length: n }, (_, i) => i);
+  const out = new Set<number>();
+  for (let i = 0; i < m; i++) out.add(Math.round((i * (n - 1)) / (m - 1)));
+  return [...out];
+}
+
+/** Plans, runs and compares one case. */
+export function runRandomCase(d: DrawnCase): Outcome {
+  const oneD = isOneD(d.spec.aperture);
+  const base = { drawn: d, oneD, codes: [] as string[], warned: false };
+  let plan: Plan;
+  try {
+    plan = planCase(makeCase(d.spec));
+  } catch (e) {
+    return { ...base, status: 'threw', note: `planCase: ${(e as Error).message}` };
+  }
+  const planCodes = plan.warnings.map((w) => w.code);
+  const withPlan = { ...base, plan: planInfo(plan), codes: planCodes, warned: planCodes.some((c) => ACCURACY_WARNINGS.includes(c)) };
+  if (plan.error) return { ...withPlan, status: 'refused', note: plan.error };
+  if (plan.work > WORK_LIMIT) return { ...withPlan, status: 'too-much-work', note: `work ${plan.work.toExponential(2)}` };
+  let rec;
+  try {
+    rec = runPlannedCase(plan);
+  } catch (e) {
+    return { ...withPlan, status: 'threw', note: `runPlannedCase: ${(e as Error).message}` };
+  }
+  const codes = rec.warnings.map((w) => w.code);
+  const warned = codes.some((c) => ACCURACY_WARNINGS.includes(c));
+  const c = rec.computed;
+  const xAt = (col: number) => c.origin[0] + col * c.pitch[0];
+  const yAt = (row: number) => (c.pitch[1] === null ? 0 : c.origin[1] + row * c.pitch[1]);
+  // Points taken from the output grid itself.
+  const idx: [number, number][] = []; // [row, col]
+  if (oneD || c.rows === 1) {
+    // As many points as the exact reference can afford (its cost per point, from a sample of 5).
+    const sample = evenIndices(c.cols, 5).map((col): [number, number] => [xAt(col), 0]);
+    const perPoint = referenceCost1D(d.spec as RefCase, sample) / sample.length;
+    const n = Math.max(MIN_POINTS_1D, Math.min(POINTS_1D, Math.floor(REFERENCE_BUDGET_MICROS / Math.max(perPoint, 1e-9))));
+    for (const col of evenIndices(c.cols, n)) idx.push([0, col]);
+  } else {
+    const midRow = Math.round(c.center[1]);
+    const midCol = Math.round(c.center[0]);
+    const row = midRow >= 0 && midRow < c.rows ? midRow : c.rows >> 1;
+    const col = midCol >= 0 && midCol < c.cols ? midCol : c.cols >> 1;
+    const seen = new Set<string>();
+    for (const cc of evenIndices(c.cols, POINTS_2D_PER_LINE)) seen.add(`${row},${cc}`);
+    for (const rr of evenIndices(c.rows, POINTS_2D_PER_LINE)) seen.add(`${rr},${col}`);
+    seen.add(`${row},${col}`);
+    for (const s of seen) idx.push(s.split(',').map(Number) as [number, number]);
+  }
+  const pts = idx.map(([r, cc]): [number, number] => [xAt(cc), yAt(r)]);
+  const axisIndex = pts.findIndex(([x, y]) => Math.abs(x) <= 1e-9 * c.pitch[0] && Math.abs(y) <= 1e-9 * (c.pitch[1] ?? 1));
+  const ref = referenceIntensity(d.spec as RefCase, pts, REFERENCE_BUDGET_MICROS, axisIndex);
+  const done = { ...withPlan, codes, warned };
+  if (!ref.ok) return { ...done, status: 'no-reference', note: ref.reason };
+  // The computed values at the reference's points.
+  const used = ref.points.map((p) => idx[pts.indexOf(p)]!);
+  let peak = 0;
+  let worst = -1;
+  let worstAt = 0;
+  for (let i = 0; i < used.length; i++) peak = Math.max(peak, ref.intensity[i]!);
+  for (let i = 0; i < used.length; i++) {
+    const [r, cc] = used[i]!;
+    const diff = Math.abs(c.intensity[r * c.cols + cc]! - ref.intensity[i]!);
+    if (diff > worst) {
+      worst = diff;
+      worstAt = i;
+    }
+  }
+  const [wr, wc] = used[worstAt]!;
+  return {
+    ...done,
+    status: 'compared',
+    error: peak > 0 ? worst / peak : worst > 0 ? Infinity : 0,
+    at: ref.points[worstAt]!,
+    compared: used.length,
+    how: ref.how,
+    values: { I: c.intensity[wr * c.cols + wc]!, ref: ref.intensity[worstAt]!, peak },
+  };
+}
+
+// --- Classes and words ------------------------------------------------------------------------
+
+export type ErrorClass = 'within 2 %' | '2–5 %' | 'over 5 %';
+
+export function errorClass(e: number): ErrorClass {
+  return e <= 0.02 ? 'within 2 %' : e <= 0.05 ? '2–5 %' : 'over 5 %';
+}
+
+/** A case fails the property: more than 5 % off and no accuracy warning. */
+export function isFailure(o: Outcome): boolean {
+  return o.status === 'compared' && o.error! > 0.05 && !o.warned;
+}
+
+function len(x: number): string {
+  const a = Math.abs(x);
+  if (a >= 1) return `${+x.toPrecision(4)} m`;
+  if (a >= 1e-3) return `${+(x * 1e3).toPrecision(4)} mm`;
+  if (a >= 1e-6 || a === 0) return `${+(x * 1e6).toPrecision(4)} µm`;
+  return `${+(x * 1e9).toPrecision(4)} nm`;
+}
+
+function deg(r: number): string {
+  return `${+((r * 180) / Math.PI).toPrecision(4)}°`;
+}
+
+/** The job in one line, in the units people read. */
+export function describeCase(s: CaseSpec): string {
+  const a = s.aperture;
+  const o = a.opaque ? 'opaque ' : '';
+  let ap: string;
+  switch (a.shape) {
+    case 'circle':
+      ap = `${o}circle D ${len(a.diameter)}`;
+      break;
+    case 'annulus':
+      ap = `${o}annulus outer ${len(a.outer)} inner ${len(a.inner)}`;
+      break;
+    case 'rectangle':
+      ap = `${o}rectangle ${len(a.width)} × ${len(a.height)}`;
+      break;
+    case 'slit':
+      ap = `${o}slit width ${len(a.width)}${a.length ? ` length ${len(a.length)}` : ''}`;
+      break;
+    case 'slits':
+      ap = `${o}slits ${a.count} × width ${len(a.width)} period ${len(a.period)}${a.length ? ` length ${len(a.length)}` : ''}`;
+      break;
+  }
+  const ill = s.illumination!;
+  const tilt = ill.tilt[0] !== 0 ? ` tilt ${deg(ill.tilt[0])}` : '';
+  const light = ill.kind === 'plane' ? `plane${tilt}` : `gaussian w ${len(ill.waist)}${tilt}`;
+  return `λ ${len(s.wavelength)}, z ${len(s.distance)}, ${ap}, ${light}`;
+}
+
+/** One line per case: job, plan, outcome; and the exact spec (SI) for reproduction. */
+export function describeOutcome(o: Outcome, withSpec = true): string {
+  const p = o.plan;
+  const method = p ? `${p.method}${p.form ? `/${p.form}` : ''} ${p.layout}, N_F ${p.fresnelNumber.toPrecision(3)}` : 'no plan';
+  const where = o.at ? (o.oneD ? ` at x = ${len(o.at[0])}` : ` at (${len(o.at[0])}, ${len(o.at[1])})`) : '';
+  const result =
+    o.status === 'compared'
+      ? `error ${(100 * o.error!).toPrecision(3)} %${where} (I ${o.values!.I.toPrecision(4)} vs ref ${o.values!.ref.toPrecision(4)}, ref peak ${o.values!.peak.toPrecision(4)}; ${o.compared} points, ${o.how})`
+      : `${o.status}${o.note ? `: ${o.note}` : ''}`;
+  const warn = o.codes.length ? `warnings [${o.codes.join(', ')}]` : 'no warnings';
+  const spec = withSpec ? ` spec=${JSON.stringify(o.drawn.spec)}` : '';
+  return `#${o.drawn.index} ${describeCase(o.drawn.spec)} | ${method} | ${result} | ${warn}${spec}`;
+}
+
+/** The class counts as a small table: kind × (status or error class, warned or not). */
+export function countTable(outcomes: Outcome[]): string {
+  const kinds = ['1-D', '2-D'] as const;
+  const cols = [
+    'within 2 % / warned',
+    'within 2 % / not warned',
+    '2–5 % / warned',
+    '2–5 % / not warned',
+    'over 5 % / warned',
+    'over 5 % / NOT WARNED',
+    'no reference',
+    'refused',
+    'too much work',
+    'threw',
+    'timed out',
+  ];
+  const key = (o: Outcome): string => {
+    if (o.status === 'compared') {
+      const cl = errorClass(o.error!);
+      return `${cl} / ${o.warned ? 'warned' : cl === 'over 5 %' ? 'NOT WARNED' : 'not warned'}`;
+    }
+    return o.status === 'no-reference' ? 'no reference' : o.status === 'too-much-work' ? 'too much work' : o.status;
+  };
+  const lines: string[] = [];
+  const w = Math.max(...cols.map((c) => c.length));
+  lines.push(`${'class'.padEnd(w)}  ${kinds.map((k) => k.padStart(5)).join(' ')}  total`);
+  for (const col of cols) {
+    const n = kinds.map((k) => outcomes.filter((o) => (o.oneD ? '1-D' : '2-D') === k && key(o) === col).length);
+    lines.push(`${col.padEnd(w)}  ${n.map((v) => String(v).padStart(5)).join(' ')}  ${String(n[0]! + n[1]!).padStart(5)}`);
+  }
+  const n = kinds.map((k) => outcomes.filter((o) => (o.oneD ? '1-D' : '2-D') === k).length);
+  lines.push(`${'all cases'.padEnd(w)}  ${n.map((v) => String(v).padStart(5)).join(' ')}  ${String(outcomes.length).padStart(5)}`);
+  const hows = new Map<string, number>();
+  for (const o of outcomes) if (o.how) hows.set(o.how, (hows.get(o.how) ?? 0) + 1);
+  lines.push('references used: ' + [...hows].map(([h, c]) => `${c} × ${h}`).join('; '));
+  return lines.join('\n');
+}
+
+// --- Running in child processes ---------------------------------------------------------------
+
+/**
+ * A case may not come back (a plan that never ends has been seen): cases run in child processes
+ * (random-worker.mjs, which loads this file through Vite, already installed for vitest), and a case
+ * that has not come back after `timeoutMs` is counted as timed out and its process replaced.
+ * This is a guard against hanging, not a measurement: the limit is generous.
+ */
+export async function runInChildren(
+  drawn: DrawnCase[],
+  opts: { workers?: number; timeoutMs?: number; onOutcome?: (o: Outcome, elapsedMs: number) => void } = {},
+): Promise<Outcome[]> {
+  const workers = opts.workers ?? 2;
+  const timeoutMs = opts.timeoutMs ?? CASE_TIMEOUT_MS;
+  const script = fileURLToPath(new URL('./random-worker.mjs', import.meta.url));
+  const results: Outcome[] = new Array(drawn.length);
+  let next = 0;
+  const lane = async () => {
+    let child: ChildProcess | null = null;
+    const start = () => fork(script, [], { stdio: ['ignore', 'ignore', 'inherit', 'ipc'], serialization: 'advanced' });
+    try {
+      while (next < drawn.length) {
+        const i = next++;
+        const d = drawn[i]!;
+        child ??= start();
+        const c = child;
+        const t0 = Date.now();
+        const o = await new Promise<Outcome | null>((resolve) => {
+          const timer = setTimeout(() => done(null), timeoutMs);
+          const onMsg = (m: Outcome) => done(m);
+          const onExit = () => done(null);
+          function done(v: Outcome | null) {
+            clearTimeout(timer);
+            c.off('message', onMsg);
+            c.off('exit', onExit);
+            resolve(v);
+          }
+          c.on('message', onMsg);
+          c.on('exit', onExit);
+          c.send(d);
+        });
+        if (o) results[i] = o;
+        else {
+          const dead = c.exitCode !== null || c.signalCode !== null;
+          c.kill('SIGKILL');
+          child = null;
+          results[i] = {
+            drawn: d,
+            status: dead ? 'threw' : 'timed out',
+            oneD: isOneD(d.spec.aperture),
+            codes: [],
+            warned: false,
+            note: dead ? 'the worker process died' : `no answer within ${timeoutMs / 1000} s (the plan or the run did not end)`,
+          };
+        }
+        opts.onOutcome?.(results[i]!, Date.now() - t0);
+      }
+    } finally {
+      child?.kill('SIGKILL');
+    }
+  };
+  await Promise.all(Array.from({ length: workers }, lane));
+  return results;
+}

@@ -1,0 +1,36 @@
+// Child process for random-cases.ts: loads it through Vite (installed for vitest; no new package)
+// and runs the cases it is sent, one at a time, answering each with its Outcome.
+import { createServer } from 'vite';
+import { fileURLToPath } from 'node:url';
+
+const root = fileURLToPath(new URL('../..', import.meta.url));
+const server = await createServer({
+  root,
+  configFile: false,
+  logLevel: 'error',
+  server: { middlewareMode: true, hmr: false, ws: false },
+  appType: 'custom',
+  optimizeDeps: { noDiscovery: true, include: [] },
+});
+const mod = await server.ssrLoadModule('/test/physics/random-cases.ts');
+const queue = [];
+let busy = false;
+process.on('message', (d) => {
+  queue.push(d);
+  if (!busy) drain();
+});
+process.on('disconnect', () => process.exit(0));
+function drain() {
+  busy = true;
+  while (queue.length) {
+    const d = queue.shift();
+    let o;
+    try {
+      o = mod.runRandomCase(d);
+    } catch (e) {
+      o = { drawn: d, status: 'threw', oneD: false, codes: [], warned: false, note: String(e && e.message) };
+    }
+    process.send(o);
+  }
+  busy = false;
+}
