@@ -203,7 +203,7 @@ function evenIndices(n: number, m: number): number[] {
 }
 
 /** Plans, runs and compares one case. */
-export function runRandomCase(d: DrawnCase): Outcome {
+export function runRandomCase(d: DrawnCase, onPlanned?: (p: PlanInfo) => void): Outcome {
   const oneD = isOneD(d.spec.aperture);
   const base = { drawn: d, oneD, codes: [] as string[], warned: false };
   let plan: Plan;
@@ -215,6 +215,7 @@ export function runRandomCase(d: DrawnCase): Outcome {
   const planCodes = plan.warnings.map((w) => w.code);
   const withPlan = { ...base, plan: planInfo(plan), codes: planCodes, warned: planCodes.some((c) => ACCURACY_WARNINGS.includes(c)) };
   if (plan.error) return { ...withPlan, status: 'refused', note: plan.error };
+  onPlanned?.(withPlan.plan);
   if (plan.work > WORK_LIMIT) return { ...withPlan, status: 'too-much-work', note: `work ${plan.work.toExponential(2)}` };
   let rec;
   try {
@@ -409,9 +410,13 @@ export async function runInChildren(
         child ??= start();
         const c = child;
         const t0 = Date.now();
+        let planned: PlanInfo | undefined;
         const o = await new Promise<Outcome | null>((resolve) => {
           const timer = setTimeout(() => done(null), timeoutMs);
-          const onMsg = (m: Outcome) => done(m);
+          const onMsg = (m: Outcome | { planned: PlanInfo }) => {
+            if ('planned' in m) planned = m.planned;
+            else done(m);
+          };
           const onExit = () => done(null);
           function done(v: Outcome | null) {
             clearTimeout(timer);
@@ -432,9 +437,12 @@ export async function runInChildren(
             drawn: d,
             status: dead ? 'threw' : 'timed out',
             oneD: isOneD(d.spec.aperture),
+            ...(planned ? { plan: planned } : {}),
             codes: [],
             warned: false,
-            note: dead ? 'the worker process died' : `no answer within ${timeoutMs / 1000} s (the plan or the run did not end)`,
+            note: dead
+              ? 'the worker process died'
+              : `no answer within ${timeoutMs / 1000} s (${planned ? 'planned; the run or the reference did not end' : 'planCase did not return'})`,
           };
         }
         opts.onOutcome?.(results[i]!, Date.now() - t0);

@@ -26,7 +26,7 @@ function drain() {
     const d = queue.shift();
     let o;
     try {
-      o = mod.runRandomCase(d);
+      o = mod.runRandomCase(d, (planned) => process.send({ planned }));
     } catch (e) {
       o = { drawn: d, status: 'threw', oneD: false, codes: [], warned: false, note: String(e && e.message) };
     }

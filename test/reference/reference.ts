@@ -32,7 +32,7 @@ export interface RefCase {
 }
 
 /** Rough cost per kernel evaluation (µs) on one core, measured in reference.test.ts' neighbour runs. */
-export const MICROS_PER_NODE = { bessel: 1.6, boundary: 0.06, quad: 0.09 } as const;
+export const MICROS_PER_NODE = { bessel: 1.6, boundary: 0.06, quad: 0.09 } as const; // 1-D: rs1dCost gives µs itself
 
 export type RefOutcome =
   | { ok: true; how: string; intensity: Float64Array; points: [number, number][] }
@@ -109,7 +109,7 @@ function openMeasure(a: Aperture): number {
 /** Estimated µs of the exact 1-D reference at these points (for choosing how many to compare). */
 export function referenceCost1D(c: RefCase, pts: [number, number][]): number {
   const p: Problem1D = { wavelength: c.wavelength, distance: c.distance, intervals: xIntervals(c.aperture), light: lightOf(c.illumination), opaque: c.aperture.opaque };
-  return rs1dCost(p, pts.map(([x]) => x)) * MICROS_PER_NODE.bessel;
+  return rs1dCost(p, pts.map(([x]) => x));
 }
 
 /**
@@ -132,8 +132,7 @@ export function referenceIntensity(c: RefCase, pts: [number, number][], budgetMi
   if (isOneD(a)) {
     const p: Problem1D = { wavelength: lam, distance: z, intervals: xIntervals(a), light, opaque: a.opaque };
     const xs = pts.map(([x]) => x);
-    const limit = budgetMicros / MICROS_PER_NODE.bessel;
-    if (rs1dCost(p, xs, limit) <= limit) {
+    if (rs1dCost(p, xs, budgetMicros) <= budgetMicros) {
       return { ok: true, how: 'exact 1-D Rayleigh–Sommerfeld', intensity: intensity1(rs1d(p, xs)), points: pts };
     }
     if (ill.kind === 'plane') {

@@ -54,6 +54,18 @@ describe('convergence: every panel halved and more nodes change the field by < 1
   });
 });
 
+describe('the interpolated kernel path (large kr) agrees with stdlib J₁, Y₁ at every node', () => {
+  it.each([
+    ['far field, tilted grating', { wavelength: 500 * nm, distance: 3, intervals: gratingIntervals(9, 12 * um, 40 * um), light: { kind: 'plane' as const, sinTilt: 0.2 }, opaque: false }, linspace(0.2, 1.0, 31)],
+    ['near field, wide slit at 1 mm', { wavelength: 1 * um, distance: 1 * mm, intervals: [[-0.4 * mm, 0.4 * mm]] as [number, number][], light: { kind: 'plane' as const, sinTilt: 0 }, opaque: false }, linspace(-0.6 * mm, 0.6 * mm, 31)],
+    ['Gaussian obstacle', { wavelength: 633 * nm, distance: 0.05, intervals: [[-0.1 * mm, 0.05 * mm]] as [number, number][], light: { kind: 'gaussian' as const, waist: 0.3 * mm, sinTilt: 0.01 }, opaque: true }, linspace(-1 * mm, 1.5 * mm, 31)],
+  ] as const)('%s: to 1e-10 of the peak', (_n, p, xs) => {
+    const a = intensity(rs1d(p as Problem1D, xs));
+    const b = intensity(rs1d(p as Problem1D, xs, { direct: true }));
+    expect(maxDiffOverPeak(a, b)).toBeLessThan(1e-10);
+  });
+});
+
 describe('paraxial limit: the Fresnel integrals (Born & Wolf §8.7), z = 20 m', () => {
   it.each([
     [1, 0],
