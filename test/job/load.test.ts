@@ -225,7 +225,7 @@ describe('a wrong shape or kind names the choices', () => {
 
   it('an enumerated option', () => {
     const [p] = problems(HEAD + 'aperture: {shape: circle, diameter: 50 um}\nmethod: fast\n');
-    expect(p!.message).toBe("expected one of auto, angular-spectrum, fresnel, fraunhofer, got 'fast'");
+    expect(p!.message).toBe("expected one of auto, angular-spectrum, fresnel, fraunhofer, rayleigh-sommerfeld, got 'fast'");
   });
 });
 
