@@ -129,7 +129,9 @@ export function apertureFacts(a: Aperture): ApertureFacts {
       separable: false,
       halfExtent: [ro, ro],
       characteristic: [ro, ro],
-      minFeature: Math.min(ro - ri, a.inner > 0 ? a.inner : Infinity),
+      // A central obscuration holding less than 1e-3 of the area diffracts too little light for
+      // its own size to set the sampling (its area is still sampled exactly).
+      minFeature: Math.min(ro - ri, a.inner > 0 && (ri / ro) ** 2 >= 1e-3 ? a.inner : Infinity),
       openMeasure: Math.PI * (ro * ro - ri * ri),
       edgeMeasure: 2 * Math.PI * (ro + ri),
       description: describe(a),

@@ -34,6 +34,11 @@ export function envelope(ill: Illumination, axis: Axis): Float64Array {
 export interface SourceOptions {
   /** Multiply in the tilt carrier (FFT methods); direct methods shift frequencies instead. */
   sampleCarrier: boolean;
+  /**
+   * The aperture is an obstacle in a beam of finite extent (a Gaussian): the field is the beam
+   * where the obstacle is not (1 − open fraction of the obstacle's shape), propagated as it is.
+   */
+  obstructed?: boolean;
 }
 
 function applyCarrier(f: Field, fx0: number, fy0: number): void {
@@ -72,6 +77,7 @@ export function sourceField2D(
 ): Source {
   const f = createField(xa, ya, wavelength);
   const mask = sampleMask2D(a, xa, ya);
+  if (opts.obstructed) for (let i = 0; i < mask.length; i++) mask[i] = 1 - mask[i]!;
   const ex = envelope(ill, xa);
   const ey = envelope(ill, ya);
   let power = 0;
@@ -101,6 +107,7 @@ export function sourceField1D(
 ): Source {
   const f = createField(axis, null, wavelength);
   const mask = sampleProfile(p, axis);
+  if (opts.obstructed) for (let i = 0; i < mask.length; i++) mask[i] = 1 - mask[i]!;
   const e = envelope(ill, axis);
   let power = 0;
   for (let j = 0; j < axis.n; j++) {

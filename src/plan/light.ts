@@ -19,6 +19,9 @@ export interface Beam {
   landing: [number, number] | null;
 }
 
+/** Gratings with more propagating orders than this are modelled as one beam (see lightModel). */
+export const MAX_ORDERS = 256;
+
 export interface LightModel {
   beams: Beam[];
   /** The propagating beams, strongest first. */
@@ -75,12 +78,22 @@ export function propagatingOrders(sinIncidence: number, wavelength: number, peri
   return [lo, hi];
 }
 
-export function lightModel(a: Aperture, f: ApertureFacts, ill: Illumination, lam: number, z: number, footprint: [number, number]): LightModel {
+export function lightModel(
+  a: Aperture,
+  f: ApertureFacts,
+  ill: Illumination,
+  lam: number,
+  z: number,
+  footprint: [number, number],
+  obstructed = false,
+): LightModel {
   const [alpha, beta] = directionCosines(ill);
   const oneD = f.oneD;
   const waist = ill.kind === 'gaussian' ? ill.waist : Infinity;
-  const power = illuminatedPower(f, waist, oneD);
   const edgeWeight = illuminatedEdgeWeight(f, waist, oneD);
+  // An obstacle in a Gaussian beam passes about the beam's power beyond the obstacle's near edge.
+  const beamPower = oneD ? waist * Math.sqrt(Math.PI / 2) : (Math.PI * waist * waist) / 2;
+  const power = obstructed ? Math.max(1e-300, beamPower * edgeWeight) : illuminatedPower(f, waist, oneD);
   const edgesPerPower = (f.edgeMeasure * edgeWeight) / power;
   const land = (s: [number, number]): [number, number] | null => {
     const g = gammaOf(s[0], oneD ? 0 : s[1]);
@@ -88,8 +101,13 @@ export function lightModel(a: Aperture, f: ApertureFacts, ill: Illumination, lam
   };
   const beams: Beam[] = [];
   let beamEdgesPerPower: [number, number] = [edgesPerPower, edgesPerPower];
-  if (a.shape === 'slits' && a.count >= 2) {
-    const [lo, hi] = propagatingOrders(alpha, lam, a.period);
+  const orderRange = a.shape === 'slits' && a.count >= 2 ? propagatingOrders(alpha, lam, a.period) : null;
+  // A grating with more propagating orders than MAX_ORDERS (a sparse one, period ≫ λ) is modelled
+  // as one beam with every slit's edges: its orders are packed closer than the slits' own
+  // diffraction spreads them, and they separate on the screen only far beyond its far-field
+  // distance. The order table still lists them.
+  if (a.shape === 'slits' && !obstructed && orderRange && orderRange[1] - orderRange[0] + 1 <= MAX_ORDERS) {
+    const [lo, hi] = orderRange;
     let carried = 0;
     for (let m = lo; m <= hi; m++) {
       const dir: [number, number] = [alpha + (m * lam) / a.period, oneD ? 0 : beta];

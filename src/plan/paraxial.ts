@@ -28,6 +28,8 @@ export function paraxialVariation(k: number, z: number, ax: number, ay: number, 
   return Math.abs(droppedPhase(k, z, Math.hypot(fx, fy)) - droppedPhase(k, z, Math.hypot(nx, ny)));
 }
 
+const MAX_POINTS = 400;
+
 export interface ParaxialEstimate {
   /** Largest weighted variation, weight·min(Δφ, 2π) (rad): the decision quantity. */
   error: number;
@@ -68,14 +70,19 @@ export function paraxialEstimate(p: ParaxialInputs): ParaxialEstimate {
     const c = p.centre[i]!;
     const h = p.half[i]!;
     const even = model.oneD ? 81 : 33;
-    for (let j = 0; j < even; j++) points[i]!.push(c - h + (2 * h * j) / (even - 1));
+    const set = new Set<number>();
+    for (let j = 0; j < even; j++) set.add(c - h + (2 * h * j) / (even - 1));
     for (const b of model.propagating) {
       if (!b.landing) continue;
       for (const u of [-1, -0.5, 0, 0.5, 1]) {
         const x = b.landing[i]! + u * model.footprint[i]!;
-        if (Math.abs(x - c) <= h) points[i]!.push(x);
+        if (Math.abs(x - c) <= h) set.add(x);
       }
     }
+    // At most MAX_POINTS per axis (evenly thinned): the check costs points² × beams in 2-D.
+    const all = [...set].sort((a, b) => a - b);
+    const stride = Math.max(1, Math.ceil(all.length / MAX_POINTS));
+    points[i] = all.filter((_, j) => j % stride === 0);
   }
   if (model.oneD) points[1] = [0];
   // The model's peak: at some beam's landing point.

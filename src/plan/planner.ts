@@ -12,7 +12,7 @@ import { mappingError } from '../optics/direct.js';
 import { formatLength, trimNumber } from '../job/units.js';
 import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOption, Plan, Regime, Warning } from './types.js';
 import { LIMITS } from './limits.js';
-import { lightModel, type LightModel } from './light.js';
+import { illuminatedEdgeWeight, lightModel, type LightModel } from './light.js';
 import { paraxialEstimate } from './paraxial.js';
 import { planWindow, windowLoss } from './window.js';
 import { costRsDirect1D, costRsDirect2D, costRsPerPeriod1D, periodicAxis, rsAreaSamplingError, rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
@@ -39,6 +39,10 @@ interface Geometry {
   k: number;
   facts: ApertureFacts;
   oneD: boolean;
+  /** An obstacle in a Gaussian beam, propagated as the beam where the obstacle is not. */
+  obstructed: boolean;
+  /** An obstacle in a plane wave: the free wave minus the obstacle's complement. */
+  babinet: boolean;
   /** Half extent of the illuminated part of the aperture per axis. */
   aEff: [number, number];
   centre: [number, number];
@@ -71,15 +75,23 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     });
   }
   const waist = ill.kind === 'gaussian' ? ill.waist : Infinity;
-  const aEff: [number, number] = [
-    Math.min(facts.halfExtent[0], LIMITS.gaussianReach * waist),
-    oneD ? 0 : Math.min(facts.halfExtent[1], LIMITS.gaussianReach * waist),
-  ];
+  // An obstacle in a beam of finite extent (a Gaussian) is propagated as it is: the beam where the
+  // obstacle is not. (Babinet's free beam minus the obstacle's complement is kept for plane waves,
+  // whose free beam is exact; a Gaussian's closed form is paraxial, and where the obstacle blocks
+  // most of the beam the two did not cancel to the small field that is left.) The source then
+  // reaches past the obstacle's edge until the beam is down to e⁻⁹ of its amplitude there.
+  const obstructed = c.aperture.opaque && ill.kind === 'gaussian';
+  const reach = (h: number) => Math.sqrt(h * h + LIMITS.gaussianReach ** 2 * waist * waist);
+  const aEff: [number, number] = obstructed
+    ? [reach(facts.halfExtent[0]), oneD ? 0 : reach(facts.halfExtent[1])]
+    : [Math.min(facts.halfExtent[0], LIMITS.gaussianReach * waist), oneD ? 0 : Math.min(facts.halfExtent[1], LIMITS.gaussianReach * waist)];
 
   // Fresnel numbers and regime.
   const nfx = facts.characteristic[0] ** 2 / (lam * z);
   const nfy = oneD ? null : facts.characteristic[1] ** 2 / (lam * z);
-  const beamA = (a: number) => Math.min(a, waist);
+  // The beam's own scale where it is narrower than the aperture; an obstructed beam reaches past the
+  // obstacle's edge (the larger of the two).
+  const beamA = (a: number) => (obstructed ? Math.max(Math.min(a, LIMITS.gaussianReach * waist), waist) : Math.min(a, waist));
   const nfEff = Math.max(beamA(facts.characteristic[0]), oneD ? 0 : beamA(facts.characteristic[1])) ** 2 / (lam * z);
   const dMax = 2 * Math.max(facts.halfExtent[0], facts.halfExtent[1]);
   const farFieldDistance = (2 * dMax * dMax) / lam;
@@ -92,7 +104,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   );
 
   // Where the light goes, and the window that holds it.
-  const model = lightModel(c.aperture, facts, ill, lam, z, aEff);
+  const model = lightModel(c.aperture, facts, ill, lam, z, aEff, obstructed);
   const beamRadius = ill.kind === 'gaussian' ? beamRadiusAt(waist, lam, z) : undefined;
   const winInputs = {
     lam,
@@ -140,6 +152,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     k,
     facts,
     oneD,
+    obstructed,
+    babinet: c.aperture.opaque && !obstructed,
     aEff,
     centre,
     windowHalf,
@@ -155,13 +169,13 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     aperture: aEff,
     centre,
     half: windowHalf,
-    interferesWithFreeBeam: c.aperture.opaque,
+    interferesWithFreeBeam: c.aperture.opaque && !obstructed,
   });
   const goodmanRatio = goodman(geo);
   const farFieldPhaseError = Math.PI * nfEff;
-  const beamLimited = ill.kind === 'gaussian' && waist < Math.min(facts.characteristic[0], oneD ? Infinity : facts.characteristic[1]);
+  const beamLimited = obstructed || (ill.kind === 'gaussian' && waist < Math.min(facts.characteristic[0], oneD ? Infinity : facts.characteristic[1]));
   let farFieldPeakError = beamLimited ? farFieldPhaseError ** 2 : farFieldPhaseError ** 2 / 12;
-  if (c.aperture.opaque) {
+  if (c.aperture.opaque && !obstructed) {
     // Behind an obstacle the hole's field interferes with the free beam, so its phase error (about
     // πN_F/3 on the axis) enters linearly, scaled by the hole's amplitude relative to the beam
     // (area/λz in 2-D, width/√(λz) in 1-D, at most about 2).
@@ -247,7 +261,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     method,
     ...(chosen.form ? { form: chosen.form } : {}),
     layout: chosen.layout,
-    babinet: c.aperture.opaque,
+    babinet: c.aperture.opaque && !obstructed,
     x: xPlan!,
     y: yPlan ?? null,
     checks,
@@ -301,8 +315,9 @@ function methodValidity(
   paraxial: { at: [number, number]; phase: number; weight: number },
 ): Record<MethodName, Validity> {
   const ffOk = farFieldError <= LIMITS.farFieldPeakError;
-  const parOk = paraxialError <= LIMITS.paraxialPhase;
-  const where = `at (${len(paraxial.at[0])}${g.oneD ? '' : `, ${len(paraxial.at[1])}`}) it drops ${fmt(paraxial.phase, 2)} rad of phase across the aperture where the light is ${pct(paraxial.weight)} of the peak (weighted ${fmt(paraxialError, 2)} rad, limit ${LIMITS.paraxialPhase} rad)`;
+  const paraxialLimit = g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase;
+  const parOk = paraxialError <= paraxialLimit;
+  const where = `at (${len(paraxial.at[0])}${g.oneD ? '' : `, ${len(paraxial.at[1])}`}) it drops ${fmt(paraxial.phase, 2)} rad of phase across the aperture where the light is ${pct(paraxial.weight)} of the peak (weighted ${fmt(paraxialError, 2)} rad, limit ${paraxialLimit} rad${g.babinet ? ': behind an obstacle the diffracted light interferes with the free beam, so its error shows linearly' : ''})`;
   return {
     fraunhofer: {
       valid: ffOk,
@@ -452,7 +467,8 @@ function sample(method: MethodName, g: Geometry, c: Case): Sampling[] {
     const plans = axes.map((i) => fftAxisPlan(g, i, c, method));
     return [{ axes: plans, layout, ...costFft(plans, layout) }];
   }
-  const layout: Layout = g.oneD ? 'one-d' : g.facts.separable ? 'separable' : 'two-d';
+  // The beam minus an obstacle is not a product of two profiles, even where the obstacle is.
+  const layout: Layout = g.oneD ? 'one-d' : g.facts.separable && !g.obstructed ? 'separable' : 'two-d';
   if (method === 'fresnel') {
     // Three forms of the same integral. Voelz's rule: the transfer function is adequately sampled
     // when Δx ≥ λz/L. They give the same answer; a grid.size names an FFT grid, so it asks for the
@@ -493,8 +509,8 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
   if (g.oneD) {
     const out = directAxisPlan(g, 0, c, 'rayleigh-sommerfeld');
     const intervals = a.shape === 'slits' ? a.count : 1;
-    const open = Number.isFinite(g.waist) ? Math.min(g.facts.openMeasure, 2 * g.aEff[0]) : g.facts.openMeasure;
-    const cells = Math.ceil(open / cell) + intervals;
+    const open = g.obstructed ? 2 * g.aEff[0] : Number.isFinite(g.waist) ? Math.min(g.facts.openMeasure, 2 * g.aEff[0]) : g.facts.openMeasure;
+    const cells = Math.ceil(open / cell) + intervals + (g.obstructed ? 1 : 0);
     const rule = { pitch: cell, required: cell, rule: `cells of at most ${len(cell)} over the open intervals, edges exact (the kernel's phase curvature across a cell stays within the accuracy target)` };
     const direct: Sampling = {
       form: 'direct',
@@ -564,7 +580,7 @@ function pitchFor(g: Geometry, c: Case, contentRule: { pitch: number; rule: stri
 
 /** Separable apertures are computed as 1-D problems unless the method needs a 2-D grid. */
 function onTwoDGrid(g: Geometry, method: MethodName): boolean {
-  return !g.oneD && !(g.facts.separable && (method === 'fresnel' || method === 'fraunhofer'));
+  return !g.oneD && !(g.facts.separable && !g.obstructed && (method === 'fresnel' || method === 'fraunhofer'));
 }
 
 function featureSamples(g: Geometry, method: MethodName): number {
@@ -592,7 +608,7 @@ function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisP
     // Close to the aperture (the window takes in nearly every direction) the folded-back edge
     // spectrum lands in the window: twice the samples there (measured on a 5 µm pinhole at 2λ:
     // 1.4 % of the peak on axis at λ/4, against the exact Rayleigh–Sommerfeld value).
-    const qq = s > LIMITS.steepWindow ? 2 * q : q;
+    const qq = s > LIMITS.steepWindow && illuminatedEdgeWeight(g.facts, g.waist, g.oneD) > 1e-4 ? 2 * q : q;
     contentRule = {
       pitch: g.lam / (qq * s),
       rule: `${qq}× the highest spatial frequency that reaches the window, sin θ/λ = ${fmt(s, 3)}/λ${qq > q ? ' (doubled: the window takes in nearly every direction, where folded-back edge spectrum would land)' : ''}`,
@@ -603,7 +619,9 @@ function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisP
     contentRule = { pitch: content, rule: `${q}× the highest spatial frequency that reaches the window, λz/(${q}·${len(reach)})` };
   }
   const p = pitchFor(g, c, contentRule, featureSamples(g, method));
-  const half = Math.max(g.facts.halfExtent[i]!, Math.abs(g.centre[i]!) + g.windowHalf[i]!);
+  // The grid holds the illuminated aperture (a Gaussian beam narrower than the aperture is cut at
+  // e⁻⁹ of its amplitude) and the window.
+  const half = Math.max(g.aEff[i]!, Math.abs(g.centre[i]!) + g.windowHalf[i]!);
   const minN = g.oneD ? LIMITS.minSamples1D : LIMITS.minSamples2D;
   const n = c.grid?.size ?? Math.max(minN, nextPowerOfTwo(Math.ceil((2 * half) / p.pitch) + 2));
   const padded = n * paddingFactor(g, method, n * p.pitch);
@@ -850,11 +868,11 @@ function preChecks(
       }
     }
   }
-  if (method === 'fresnel' && checks.paraxialPhaseError > LIMITS.paraxialPhase) {
+  if (method === 'fresnel' && checks.paraxialPhaseError > (g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase)) {
     const at = checks.paraxialWorst!;
     w.push({
       code: 'paraxial',
-      message: `the Fresnel (paraxial) approximation is off where light lands: at (${len(at.at[0])}${g.oneD ? '' : `, ${len(at.at[1])}`}) it drops ${fmt(at.phase, 2)} rad of phase across the aperture where the light is ${pct(at.weight)} of the peak (weighted ${fmt(checks.paraxialPhaseError, 2)} rad, limit ${LIMITS.paraxialPhase} rad; Goodman's sufficient condition ratio ${fmt(checks.goodmanRatio, 2)}): positions and intensities there are off; ${adviceFor(options, 'fresnel')}`,
+      message: `the Fresnel (paraxial) approximation is off where light lands: at (${len(at.at[0])}${g.oneD ? '' : `, ${len(at.at[1])}`}) it drops ${fmt(at.phase, 2)} rad of phase across the aperture where the light is ${pct(at.weight)} of the peak (weighted ${fmt(checks.paraxialPhaseError, 2)} rad, limit ${g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase} rad; Goodman's sufficient condition ratio ${fmt(checks.goodmanRatio, 2)}): positions and intensities there are off; ${adviceFor(options, 'fresnel')}`,
     });
   }
   if (method === 'fraunhofer' && checks.farFieldPeakError > LIMITS.farFieldPeakErrorWarn) {

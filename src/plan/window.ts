@@ -103,24 +103,33 @@ export function planWindow(w: WindowInputs): WindowPlan {
     // fit (and every order between them); the rest are reported as outside the window, never
     // dropped without a word.
     const maxSamples = model.oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D;
+    // The intensity's Nyquist pitch λz/(2D): coarser than that, the output-undersampled check fires.
+    const resolved = (i: number) => (lam * z) / (4 * Math.max(model.footprint[i]!, 1e-30));
     const tooWide = (list: Beam[]) => axes.some((i) => {
       const [lo, hi] = hull(list, i);
-      // The intensity's Nyquist pitch λz/(2D): coarser than that, the output-undersampled check fires.
-      return (hi - lo) / ((lam * z) / (4 * Math.max(model.footprint[i]!, 1e-30))) > maxSamples;
+      return (hi - lo) / resolved(i) > maxSamples;
     });
     let held = beams;
     if (beams.length > 1 && tooWide(beams)) {
       // The strongest orders first, while the window that holds them still fits the output.
       // Orders of equal power (±m at normal incidence) are taken together or not at all, so that a
       // symmetric pattern keeps a symmetric window. (Orders landing between the chosen ones are in
-      // the window anyway; only the chosen ones size it.)
+      // the window anyway; only the chosen ones size it.) The hull grows by each group's own.
       const byPower = [...beams].sort((a, b) => b.power - a.power);
       held = [byPower[0]!];
+      const range = axes.map((i) => hull(held, i));
       for (let j = 1; j < byPower.length; ) {
         let k = j;
         while (k + 1 < byPower.length && Math.abs(byPower[k + 1]!.power - byPower[j]!.power) <= 1e-9 * byPower[j]!.power) k++;
-        const trial = [...held, ...byPower.slice(j, k + 1)];
-        if (!tooWide(trial)) held = trial;
+        const group = byPower.slice(j, k + 1);
+        const grown = axes.map((i, n) => {
+          const [lo, hi] = hull(group, i);
+          return [Math.min(lo, range[n]![0]), Math.max(hi, range[n]![1])] as [number, number];
+        });
+        if (grown.every(([lo, hi], n) => (hi - lo) / resolved(axes[n]!) <= maxSamples)) {
+          held = held.concat(group);
+          grown.forEach((g, n) => (range[n] = g));
+        }
         j = k + 1;
       }
     }

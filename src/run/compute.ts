@@ -199,9 +199,21 @@ export function profileIntervals(p: Profile): Interval[] {
   return out;
 }
 
-/** ∫|U₀|² over a 1-D profile: its open length, or under a Gaussian exp(−ξ²/w²) its exact integral. */
-function profilePower(p: Profile, ill: Illumination): number {
-  const open = profileIntervals(p);
+/** The parts of [−half, half] the (sorted, disjoint) intervals leave open: an obstacle in a beam. */
+export function complementWithin(ivs: Interval[], half: number): Interval[] {
+  const out: Interval[] = [];
+  let at = -half;
+  for (const iv of ivs) {
+    if (iv.lo > at) out.push({ lo: at, hi: Math.min(iv.lo, half) });
+    at = Math.max(at, iv.hi);
+    if (at >= half) break;
+  }
+  if (at < half) out.push({ lo: at, hi: half });
+  return out.filter((iv) => iv.hi > iv.lo);
+}
+
+/** ∫|U₀|² over open intervals: their length, or under a Gaussian exp(−ξ²/w²) its exact integral. */
+function intervalsPower(open: Interval[], ill: Illumination): number {
   if (ill.kind === 'plane') return open.reduce((s, iv) => s + (iv.hi - iv.lo), 0);
   // ∫ e^{−2ξ²/w²} dξ over [lo, hi] = w·√(π/8)·(erf(√2·hi/w) − erf(√2·lo/w)).
   const w = ill.waist;
@@ -219,7 +231,7 @@ function erf(x: number): number {
  * The exact integral for a 1-D aperture: a grating lit by a plane wave as one period's field
  * summed over its periods, anything else by the direct sums over cells with exact edges.
  */
-function propagateExact1D(plan: Plan, prof: Profile, ill: Illumination): Field {
+function propagateExact1D(plan: Plan, prof: Profile, ill: Illumination, open: Interval[]): Field {
   const c = plan.case;
   const lam = c.wavelength;
   const sinTilt = Math.sin(ill.tilt[0]);
@@ -242,7 +254,7 @@ function propagateExact1D(plan: Plan, prof: Profile, ill: Illumination): Field {
     return f;
   }
   const light = ill.kind === 'gaussian' ? { sinTilt, waist: ill.waist } : { sinTilt };
-  const cells = cellsFromIntervals(profileIntervals(prof), light, lam, maxCell);
+  const cells = cellsFromIntervals(open, light, lam, maxCell);
   f.data.set(rsDirect1D(cells, lam, c.distance, out));
   return f;
 }
@@ -257,7 +269,9 @@ export function computeCase(plan: Plan): ComputedCase {
   const carrier = carrierFrequencies(ill, lam);
   const outX = plan.x.output;
   const outY = plan.y ? plan.y.output : null;
-  const opts = { sampleCarrier: fft };
+  // An obstacle in a Gaussian beam (not Babinet: see the planner) is the beam where it is not.
+  const obstructed = c.aperture.opaque && !plan.babinet;
+  const opts = { sampleCarrier: fft, obstructed };
   let result: Propagated;
   let powerIn: number;
   let reused = false;
@@ -265,10 +279,11 @@ export function computeCase(plan: Plan): ComputedCase {
   if (plan.method === 'rayleigh-sommerfeld' && plan.layout === 'one-d') {
     if (!isOneDAperture(c.aperture)) throw new Error('one-d layout for a 2-D aperture');
     const prof = separableProfiles(c.aperture)!.x;
-    powerIn = profilePower(prof, ill);
-    result = { field: propagateExact1D(plan, prof, ill) };
+    const open = obstructed ? complementWithin(profileIntervals(prof), plan.x.apertureHalf) : profileIntervals(prof);
+    powerIn = intervalsPower(open, ill);
+    result = { field: propagateExact1D(plan, prof, ill, open) };
   } else if (plan.method === 'rayleigh-sommerfeld') {
-    const { field: src, power } = sourceField2D(c.aperture, ill, sourceAxis(plan.x, false), sourceAxis(plan.y!, false), lam, { sampleCarrier: false });
+    const { field: src, power } = sourceField2D(c.aperture, ill, sourceAxis(plan.x, false), sourceAxis(plan.y!, false), lam, { sampleCarrier: false, obstructed });
     powerIn = power;
     const k = (2 * Math.PI) / lam;
     result = { field: rsDirect2D(src, z, outX, outY!, [k * carrier[0] * lam, k * carrier[1] * lam]) };
