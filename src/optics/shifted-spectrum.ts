@@ -486,7 +486,11 @@ export interface ShiftedGridRequest {
   pitch?: [number, number];
   /** Power spectrum model of the envelope, for the cut estimate. */
   tail?: SpectrumTail;
-  /** Largest band-limit cut to aim for (default 1e-3): the grid is doubled while the estimate exceeds it. */
+  /**
+   * Largest band-limit cut to aim for: with a tail model, the grid is doubled while the estimate
+   * exceeds it. Without one nothing is doubled: the cut light lands off the window, and the tapers
+   * keep its edge from ringing into it; a target only shrinks what the window's surroundings lose.
+   */
   target?: number;
   /** Largest samples per axis (default 2^20 in 1-D, 2^14 in 2-D). */
   maxSamples?: number;
@@ -515,7 +519,7 @@ export interface ShiftedGrid {
   fresnelScale: [number, number];
   /** The band check of the grid chosen. */
   band: ShiftedBand;
-  /** Whether the cut estimate is within the target (false also when no tail model was given). */
+  /** Whether the cut estimate is within the target (false when no tail model or no target was given). */
   targetMet: boolean;
   /** Bytes of one complex grid (16 per sample). */
   gridBytes: number;
@@ -547,8 +551,8 @@ export interface ShiftedGrid {
  * Every frequency that reaches the window then lands on the grid at full weight, the light wrapping
  * round (at most a beyond the grid's edge) stays off the window, and the band edges are smooth on
  * the scale that matters. The tapers then take the slack that rounding to powers of two leaves
- * (up to 0.5). Last, the grid is doubled while the tail model says the band limit would cut more
- * than the target.
+ * (up to 0.5). Last, with a target and a tail model, the grid is doubled while the model says the
+ * band limit would cut more than the target.
  */
 export function shiftedGridFor(req: ShiftedGridRequest): ShiftedGrid {
   const lam = req.wavelength;
@@ -559,7 +563,7 @@ export function shiftedGridFor(req: ShiftedGridRequest): ShiftedGrid {
   if (oneD) centre[1] = 0;
   const q = req.samplesPerPeriod ?? 4;
   const kappa = req.taperZones ?? 2;
-  const target = req.target ?? 1e-3;
+  const target = req.target;
   const maxN = req.maxSamples ?? (oneD ? 2 ** 20 : 2 ** 14);
   const axes: (0 | 1)[] = oneD ? [0] : [0, 1];
   const reach: [number, number] = [req.window[0] + req.footprint[0], oneD ? 0 : req.window[1] + req.footprint[1]];
@@ -637,8 +641,8 @@ export function shiftedGridFor(req: ShiftedGridRequest): ShiftedGrid {
   for (const t of [tau, tauBand]) if (!(t >= 0 && t <= 0.5)) throw new Error(`shiftedGridFor: a taper must be in [0, 0.5], got ${t}`);
   const shape = (): GridShape => ({ nx: samples[0], ny: oneD ? 1 : samples[1], dx: pitch[0], dy: oneD ? 0 : pitch[1], wavelength: lam });
   let band = shiftedBand(shape(), z, req.carrier, centre, req.tail, tau, tauBand);
-  let met = !!req.tail && band.cutEstimate <= target;
-  while (req.tail && !met) {
+  let met = !!req.tail && target !== undefined && band.cutEstimate <= target;
+  while (req.tail && target !== undefined && !met) {
     // Double the axis whose band limit cuts more (by the same estimate, one axis at a time).
     let best: 0 | 1 | null = null;
     let bestCut = Infinity;
