@@ -227,7 +227,7 @@ export async function main(argv: string[]): Promise<number> {
               }
             },
           })
-          .option('accept-large', { type: 'boolean', default: false, describe: 'run a sweep above the size limits' })
+          .option('accept-large', { type: 'boolean', default: false, describe: 'run a sweep above the size limits, and cases estimated at more than an hour each' })
           .options(memoryOption),
       async (a) => {
         code = await runCommand(a.jobs as string[], {

@@ -419,7 +419,7 @@ function tooBig(s: Sampling & { method: MethodName }, c: Case, maxMemory: number
     `${methodWords(s.method, s.form)} needs ${limitWords(s, maxMemory, maxWork)}: ` +
     `${s.axes.map((a) => a.paddedSamples).join(' × ')} samples at ${len(s.axes[0]!.inputPitch)}. ` +
     (alt.length ? `method: ${alt[0]!.method} is valid here and fits; ` : '') +
-    `otherwise a smaller window${c.grid?.pitch ? ' or a coarser grid.pitch' : ''} or a larger limit (--max-memory).`
+    `otherwise a smaller window${c.grid?.pitch ? ' or a coarser grid.pitch' : ''} or ${raiseWords(s, maxMemory, maxWork)}.`
   );
 }
 
@@ -429,8 +429,16 @@ function refusal(s: Sampling & { method: MethodName }, maxMemory: number, maxWor
     `no valid method fits: the cheapest, ${methodWords(s.method, s.form)}, needs ${limitWords(s, maxMemory, maxWork)}` +
     ` (${s.axes.map((a) => a.paddedSamples).join(' × ')} ${s.method === 'rayleigh-sommerfeld' ? 'cells' : 'samples'} at ${len(s.axes[0]!.inputPitch)})` +
     (out.length ? `; ${out.join('; ')}` : '') +
-    `. Lower it with a smaller window, or raise the limit (--max-memory).`
+    `. Lower it with a smaller window, or ${raiseWords(s, maxMemory, maxWork)}.`
   );
+}
+
+/** Which limit to raise: --max-memory for memory, --accept-large for time. */
+function raiseWords(s: Sampling, maxMemory: number, maxWork: number): string {
+  const parts: string[] = [];
+  if (s.memory > maxMemory) parts.push('a larger memory limit (--max-memory)');
+  if (s.work > maxWork) parts.push('--accept-large to allow cases of more than an hour');
+  return parts.join(' and ') || 'a larger limit';
 }
 
 export function beamRadiusAt(w0: number, lam: number, z: number): number {
@@ -812,7 +820,7 @@ function advisable(options: MethodOption[], not: MethodName): MethodOption | nul
 
 function adviceFor(options: MethodOption[], not: MethodName): string {
   const a = advisable(options, not);
-  return a ? `use method: ${a.method} (valid here, and it fits)` : 'no valid method fits this case as given: narrow the window or raise --max-memory';
+  return a ? `use method: ${a.method} (valid here, and it fits)` : 'no valid method fits this case as given: narrow the window, or raise --max-memory or pass --accept-large';
 }
 
 function preChecks(

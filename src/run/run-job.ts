@@ -127,7 +127,9 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
     opts.namesInRun?.set(spec.name, file);
     const cases = expandJob(spec);
     outcome.cases = cases.length;
-    plans = cases.map((c) => planCase(c, opts));
+    // --accept-large lifts the per-case time limit as it lifts the sweep's.
+    const planOpts: PlannerOptions = opts.acceptLarge ? { ...opts, maxWork: Infinity } : opts;
+    plans = cases.map((c) => planCase(c, planOpts));
     const seconds = plans.reduce((s, p) => s + p.work, 0) / FLOPS_PER_SECOND;
     if (!opts.acceptLarge && (cases.length > LARGE_SWEEP.cases || seconds > LARGE_SWEEP.seconds)) {
       return refuse(

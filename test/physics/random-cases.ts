@@ -38,7 +38,7 @@ export const ACCURACY_WARNINGS: readonly string[] = [
 ];
 
 /** Cases whose plan estimates more work than this are skipped (counted): the file's time guard. */
-export const WORK_LIMIT = 4e8;
+export const WORK_LIMIT = Number(process.env.SPOTCAST_RANDOM_WORK ?? 4e8);
 /** Time the reference may take per case, µs (estimated from its node count). */
 export const REFERENCE_BUDGET_MICROS = 600_000;
 /** Points compared: 1-D at most this many (evenly spread); 2-D this many per central line. */
@@ -49,7 +49,7 @@ export const MIN_POINTS_1D = 40;
  * A case that has not come back after this long is counted as timed out (a guard against plans
  * or runs that never end; not a measurement: nothing is asserted about it).
  */
-export const CASE_TIMEOUT_MS = 10_000;
+export const CASE_TIMEOUT_MS = Number(process.env.SPOTCAST_RANDOM_TIMEOUT_MS ?? 10_000);
 export const POINTS_2D_PER_LINE = 21;
 
 /** mulberry32: a tiny 32-bit PRNG (public domain, common practice for reproducible test draws). */
