@@ -233,6 +233,14 @@ export function propagateShiftedSpectrum(
   // e^{i2πzγ/λ}, reduced without losing digits (with γ = 1 it is spectral.ts's common phase).
   const globalPhase = propagationPhase(gamma === 1 ? z : z * gamma, lam);
   const twoPi = 2 * Math.PI;
+  // The window shift's phase 2π(g_x·x_c + g_y·y_c), per column and per row.
+  const linX = new Float64Array(nx);
+  for (let c = 0; c < nx; c++) linX[c] = twoPi * gx[c]! * cx;
+  // ((−2π·z)·λ)·q as spectral.ts multiplies it (the same bits at normal incidence).
+  const k0 = -2 * Math.PI * z * lam;
+  const zl = z * lam;
+  const lam2 = lam * lam;
+  const decay = -twoPi * z;
   let cut = 0;
   let evan = 0;
   let pgx0 = Infinity;
@@ -250,7 +258,7 @@ export function propagateShiftedSpectrum(
     const base = 2 * r * nx;
     const lo = xLo[r]!;
     const hi = xHi[r]!;
-    const linY = g2 * cy;
+    const linY = twoPi * g2 * cy;
     for (let c = 0; c < nx; c++) {
       const i = base + 2 * c;
       const re = src[i]!;
@@ -263,22 +271,23 @@ export function propagateShiftedSpectrum(
       if (f2 >= inv2) {
         // Evanescent: a pure decay exp(−2πz√(f² − 1/λ²)), with the window shift's phase only.
         evan += re * re + im * im;
-        amp = Math.exp(-twoPi * z * Math.sqrt(f2 - inv2));
-        phase = twoPi * (g1 * cx + linY);
+        amp = Math.exp(decay * Math.sqrt(f2 - inv2));
+        phase = linX[c]! + linY;
       } else if (fx < lo || fx > hi || fy < yLo[c]! || fy > yHi[c]!) {
         cut += re * re + im * im;
         data[i] = 0;
         data[i + 1] = 0;
         continue;
       } else {
-        const root = Math.sqrt(1 - lam * lam * f2);
+        const root = Math.sqrt(1 - lam2 * f2);
         // 2πz(√(1/λ² − |g + f_c|²) − γ/λ) without cancellation: −2πzλ(2f_c·g + |g|²)/(γ + root).
         const q = g1 * g1 + g2 * g2 + 2 * (fcx * g1 + fcy * g2);
-        const dev = (-2 * Math.PI * z * lam * q) / (gamma + root);
-        phase = dev + twoPi * (g1 * cx + linY) + globalPhase;
+        const dev = (k0 * q) / (gamma + root);
+        phase = dev + (linX[c]! + linY) + globalPhase;
         amp = 1;
-        const lx = (z * lam * fx) / root - cx;
-        const ly = oneD ? 0 : (z * lam * fy) / root - cy;
+        const inv = zl / root;
+        const lx = fx * inv - cx;
+        const ly = oneD ? 0 : fy * inv - cy;
         if (tau > 0 || tauBand > 0) {
           amp = wnx[c]! * wny[r]! * taperWeight(Math.abs(lx) / halfX, tau) * (oneD ? 1 : taperWeight(Math.abs(ly) / halfY, tau));
           if (amp < 1) cut += (re * re + im * im) * (1 - amp * amp);
