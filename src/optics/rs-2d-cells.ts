@@ -15,6 +15,7 @@
 import type { Aperture, Illumination, Profile } from './aperture.js';
 import { separableProfiles } from './aperture.js';
 import { addDiscCellWeights, edgeNodes, gaussLegendreRule } from './edge-cells.js';
+import type { RsCellSummary } from './rs-2d-paths.js';
 import { directionCosines } from './source.js';
 
 /** Wholly open rectangles, structure of arrays. */
@@ -362,34 +363,23 @@ export function rsCells2DFromAperture(a: Aperture, ill: Illumination, wavelength
   };
 }
 
-/** How many cells of each kind rsCells2DFromAperture makes (edge cells: at most), without weights. */
-export interface RsCellCount {
-  box: number;
-  edge: number;
-  edgeNodes: number;
-  /** The light and aperture are round (the radial path applies). */
-  round: boolean;
-  evenX: boolean;
-  evenY: boolean;
-  /** Largest distance of an open point from the axis (m), within the Gaussian's reach. */
-  radius: number;
-}
-
-/** Counts the cells by the same classification, O(cells), for the planner's costs. */
-export function rsCellCount2D(a: Aperture, ill: Illumination, wavelength: number, pitch: number, opts: RsCells2DOptions = {}): RsCellCount {
+/**
+ * The counts rsCells2DFromAperture would give (edge cells: at most, slivers and nearly full ones
+ * included), by the same classification without the weights: O(cells), for the planner's costs
+ * (rs-2d-paths.ts rsSum2DChoice).
+ */
+export function rsCellCount2D(a: Aperture, ill: Illumination, wavelength: number, pitch: number, opts: RsCells2DOptions = {}): RsCellSummary {
   const { m, off } = checkInputs(a, wavelength, pitch, opts);
   const light = lightOf(ill, wavelength);
   const evenX = symmetricOffset(off[0]) && light.alpha === 0;
   const evenY = symmetricOffset(off[1]) && light.beta === 0;
+  const base = { wavelength, edgeNodes: m, gaussian: light.waist !== null, evenX, evenY };
   const sep = separableProfiles(a);
   if (sep) {
-    const xi = profileIntervals(sep.x);
-    const yi = profileIntervals(sep.y!);
-    const xs = gridPieces(xi, pitch, off[0], light.reach);
-    const ys = gridPieces(yi, pitch, off[1], light.reach);
-    const hx = Math.min(light.reach, Math.max(...xi.map(([lo, hi]) => Math.max(-lo, hi))));
-    const hy = Math.min(light.reach, Math.max(...yi.map(([lo, hi]) => Math.max(-lo, hi))));
-    return { box: xs.length * ys.length, edge: 0, edgeNodes: m, round: false, evenX, evenY, radius: Math.hypot(hx, hy) };
+    const xs = gridPieces(profileIntervals(sep.x), pitch, off[0], light.reach);
+    const ys = gridPieces(profileIntervals(sep.y!), pitch, off[1], light.reach);
+    const upper = ys.filter(([cy]) => cy >= 0).length;
+    return { ...base, box: xs.length * ys.length, edge: 0, round: false, radius: 0, boxUpperHalf: xs.length * upper, edgeUpperHalf: 0 };
   }
   if (a.shape !== 'circle' && a.shape !== 'annulus') throw new Error(`rsCells2D: no cells for shape ${(a as { shape: string }).shape}`);
   const ro = (a.shape === 'circle' ? a.diameter : a.outer) / 2;
@@ -398,6 +388,8 @@ export function rsCellCount2D(a: Aperture, ill: Illumination, wavelength: number
   const extent = Math.min(ro, light.reach);
   let box = 0;
   let edge = 0;
+  let boxUpper = 0;
+  let edgeUpper = 0;
   const iLo = Math.floor(-extent / pitch - off[0]) - 1;
   const iHi = Math.ceil(extent / pitch - off[0]) + 1;
   for (let j = Math.floor(-extent / pitch - off[1]) - 1; j <= Math.ceil(extent / pitch - off[1]) + 1; j++) {
@@ -407,9 +399,15 @@ export function rsCellCount2D(a: Aperture, ill: Illumination, wavelength: number
       const near = Math.hypot(Math.max(0, Math.abs(cx) - half), Math.max(0, Math.abs(cy) - half));
       const far = Math.hypot(Math.abs(cx) + half, Math.abs(cy) + half);
       if (near >= ro || far <= ri || near >= light.reach) continue;
-      if (far <= ro && near >= ri) box++;
-      else edge++;
+      if (far <= ro && near >= ri) {
+        box++;
+        if (cy >= 0) boxUpper++;
+      } else {
+        edge++;
+        if (cy >= 0) edgeUpper++;
+      }
     }
   }
-  return { box, edge, edgeNodes: m, round: light.alpha === 0 && light.beta === 0, evenX, evenY, radius: extent };
+  const round = light.alpha === 0 && light.beta === 0;
+  return { ...base, box, edge, round, radius: round ? extent : 0, boxUpperHalf: boxUpper, edgeUpperHalf: edgeUpper };
 }

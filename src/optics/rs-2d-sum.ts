@@ -23,6 +23,9 @@
 // Math.sin and Math.cos (tested), at about a third of their cost.
 import { axisAt, createField, type Axis, type Field } from './field.js';
 import type { RsCells2D } from './rs-2d-cells.js';
+import { RADIAL_STENCIL, rsSum2DChoice, summarizeCells, type RadialPlan, type RsSum2DOptions, type RsSum2DPath } from './rs-2d-paths.js';
+
+export type { RsSum2DOptions, RsSum2DPath } from './rs-2d-paths.js';
 
 const TWO_PI = 2 * Math.PI;
 
@@ -105,9 +108,6 @@ const SERIES2 = [T24, T23, T22, T21];
 const SERIES3 = [1 / 1512, -1 / 70, 1 / 5];
 const SERIES4 = [5 / 1512, -3 / 70, 1 / 5];
 
-/** Which way rsSum2D went. */
-export type RsSum2DPath = 'direct' | 'mirror' | 'radial';
-
 export interface RsSum2DResult {
   field: Field;
   path: RsSum2DPath;
@@ -117,11 +117,8 @@ export interface RsSum2DResult {
   radial: { first: number; n: number; step: number } | null;
   /** Cell × point pairs summed (box and edge apart). */
   pairs: { box: number; edge: number };
-}
-
-export interface RsSum2DOptions {
-  /** 'auto' (default): the cheapest path the cells allow; 'direct' or 'mirror' to force. */
-  path?: 'auto' | 'direct' | 'mirror';
+  /** The work the path was costed at (rs-cost.ts units). */
+  work: number;
 }
 
 /** Work space of the row sums, allocated once per call. */
@@ -137,9 +134,7 @@ interface Work {
   xi: Float64Array;
   xur: Float64Array;
   xui: Float64Array;
-  yr: Float64Array;
-  yi: Float64Array;
-  /** The edge cells' sum at one point. */
+  /** The sum at one point (of the boxes, then of the edge cells). */
   acc: Float64Array;
 }
 
@@ -157,8 +152,6 @@ function workFor(c: RsCells2D): Work {
     xi: new Float64Array(m),
     xur: new Float64Array(m),
     xui: new Float64Array(m),
-    yr: new Float64Array(m),
-    yi: new Float64Array(m),
     acc: new Float64Array(2),
   };
 }
@@ -533,7 +526,12 @@ function sumBoxGaussianAt(c: RsCells2D, x: number, z: number, wk: Work): void {
   }
 }
 
-/** The edge cells' contribution at (x, y) (y through wk.eey, wk.eq) into wk.acc. */
+/**
+ * The edge cells' contribution at (x, y) (y through wk.eey, wk.eq) into wk.acc:
+ * Σ_q Y_q·Σ_p W_qp·X_p·(1 + Γxy·u_p·w_q). The nodes come in pairs ±u (ascending, u[m−1−p] = −u[p]),
+ * so X is kept as X⁺ (the positive node) and X⁻ (its mirror) per pair, and rows q come in pairs
+ * too: a⁺ = W·X⁺ and a⁻ = W·X⁻ give both Σ W X (a⁺ + a⁻) and Σ W u X (u·(a⁺ − a⁻)).
+ */
 function sumEdgeAt(c: RsCells2D, x: number, z: number, wk: Work): void {
   const lam = c.wavelength;
   const k = TWO_PI / lam;
@@ -542,7 +540,7 @@ function sumEdgeAt(c: RsCells2D, x: number, z: number, wk: Work): void {
   const sx0 = c.slope[0];
   const sy0 = c.slope[1];
   const { m, u, cx: ecx, ar: ear, ai: eai, w: W, n: ne } = c.edge;
-  const { eey, eq, sc, xr, xi, xur, xui, yr, yi, acc } = wk;
+  const { eey, eq, xr, xi, xur, xui, acc } = wk;
   const half = m >> 1;
   const mm = m * m;
   let sr = 0;
@@ -555,9 +553,20 @@ function sumEdgeAt(c: RsCells2D, x: number, z: number, wk: Work): void {
     const r2 = ex * ex + eq[j]!;
     const r = Math.sqrt(r2);
     const ir = 1 / r;
-    fastSinCosCycles(r * invLam, sc);
-    const sn = sc[0]!;
-    const cs = sc[1]!;
+    let sn: number;
+    let cs: number;
+    {
+      const cyc = r * invLam;
+      const fr = cyc - Math.floor(cyc);
+      const q = Math.floor(4 * fr + 0.5);
+      const t = TWO_PI * (fr - 0.25 * q);
+      const t2 = t * t;
+      const ps = t + t * t2 * (S1 + t2 * (S2 + t2 * (S3 + t2 * (S4 + t2 * (S5 + t2 * (S6 + t2 * S7))))));
+      const pc = 1 + t2 * (C1 + t2 * (C2 + t2 * (C3 + t2 * (C4 + t2 * (C5 + t2 * (C6 + t2 * (C7 + t2 * C8)))))));
+      const i = q & 3;
+      sn = ps * QA[i]! + pc * QB[i]!;
+      cs = pc * QA[i]! - ps * QB[i]!;
+    }
     const f = z * ir * ir;
     const hr = f * (ir * cs + k * sn);
     const hi = f * (ir * sn - k * cs);
@@ -583,11 +592,11 @@ function sumEdgeAt(c: RsCells2D, x: number, z: number, wk: Work): void {
     const gxyi = b2 * ux * uy + rate * cxy;
     const sx = sx0 + rate * ux;
     const sy = sy0 + rate * uy;
-    // Node factors, from the positive nodes (u[m−1−p] = −u[p]).
-    for (let p = half; p < m; p++) {
-      const uu = u[p]!;
+    // X⁺ (xr, xi) and X⁻ (xur, xui) of node pair i: u = u[half + i] > 0,
+    // X± = e^{±isu}(1 ± Bx·u + Qxx·u²).
+    for (let i = 0; i < half; i++) {
+      const uu = u[half + i]!;
       const u2 = uu * uu;
-      // sin, cos of sx·uu and sy·uu (fastSinCos, written out: V8 would not inline it here).
       let s: number;
       let co: number;
       {
@@ -597,73 +606,95 @@ function sumEdgeAt(c: RsCells2D, x: number, z: number, wk: Work): void {
         const t2 = t * t;
         const ps = t + t * t2 * (S1 + t2 * (S2 + t2 * (S3 + t2 * (S4 + t2 * (S5 + t2 * (S6 + t2 * S7))))));
         const pc = 1 + t2 * (C1 + t2 * (C2 + t2 * (C3 + t2 * (C4 + t2 * (C5 + t2 * (C6 + t2 * (C7 + t2 * C8)))))));
-        const i = q & 3;
-        s = ps * QA[i]! + pc * QB[i]!;
-        co = pc * QA[i]! - ps * QB[i]!;
+        const qi = q & 3;
+        s = ps * QA[qi]! + pc * QB[qi]!;
+        co = pc * QA[qi]! - ps * QB[qi]!;
       }
-      let pr = 1 + qxxr * u2;
-      const pi = qxxi * u2;
+      const pr = 1 + qxxr * u2;
+      const pim = qxxi * u2;
       const bu = bx * uu;
-      // (co + i s)(pr + bu + i pi) and (co − i s)(pr − bu + i pi)
-      let ar = pr + bu;
-      xr[p] = co * ar - s * pi;
-      xi[p] = co * pi + s * ar;
-      ar = pr - bu;
-      xr[m - 1 - p] = co * ar + s * pi;
-      xi[m - 1 - p] = co * pi - s * ar;
-      xur[p] = uu * xr[p]!;
-      xui[p] = uu * xi[p]!;
-      xur[m - 1 - p] = -uu * xr[m - 1 - p]!;
-      xui[m - 1 - p] = -uu * xi[m - 1 - p]!;
-      let s2: number;
-      let c2: number;
-      {
-        const v = sy * uu;
-        const q = Math.round(v * TWO_OVER_PI);
-        const t = v - q * PIO2_HI - q * PIO2_LO;
-        const t2 = t * t;
-        const ps = t + t * t2 * (S1 + t2 * (S2 + t2 * (S3 + t2 * (S4 + t2 * (S5 + t2 * (S6 + t2 * S7))))));
-        const pc = 1 + t2 * (C1 + t2 * (C2 + t2 * (C3 + t2 * (C4 + t2 * (C5 + t2 * (C6 + t2 * (C7 + t2 * C8)))))));
-        const i = q & 3;
-        s2 = ps * QA[i]! + pc * QB[i]!;
-        c2 = pc * QA[i]! - ps * QB[i]!;
-      }
-      pr = 1 + qyyr * u2;
-      const pi2 = qyyi * u2;
-      const bw = by * uu;
-      ar = pr + bw;
-      yr[p] = c2 * ar - s2 * pi2;
-      yi[p] = c2 * pi2 + s2 * ar;
-      ar = pr - bw;
-      yr[m - 1 - p] = c2 * ar + s2 * pi2;
-      yi[m - 1 - p] = c2 * pi2 - s2 * ar;
+      // (co + i s)(pr + bu + i pim) and (co − i s)(pr − bu + i pim)
+      const ap = pr + bu;
+      const am = pr - bu;
+      xr[i] = co * ap - s * pim;
+      xi[i] = co * pim + s * ap;
+      xur[i] = co * am + s * pim;
+      xui[i] = co * pim - s * am;
     }
-    // Σ_q Y_q (Σ_p W_qp X_p) and Σ_q w_q Y_q (Σ_p W_qp u_p X_p)
     let tr = 0;
     let ti = 0;
     let vr = 0;
     let vi = 0;
     const base = j * mm;
-    for (let q = 0; q < m; q++) {
-      let zr = 0;
-      let zi = 0;
-      let zur = 0;
-      let zui = 0;
-      const row = base + q * m;
-      for (let p = 0; p < m; p++) {
-        const wv = W[row + p]!;
-        zr += wv * xr[p]!;
-        zi += wv * xi[p]!;
-        zur += wv * xur[p]!;
-        zui += wv * xui[p]!;
+    for (let qq = 0; qq < half; qq++) {
+      const w = u[half + qq]!;
+      // Y for +w (row half + qq) and −w (row half − 1 − qq).
+      let s: number;
+      let co: number;
+      {
+        const v = sy * w;
+        const q = Math.round(v * TWO_OVER_PI);
+        const t = v - q * PIO2_HI - q * PIO2_LO;
+        const t2 = t * t;
+        const ps = t + t * t2 * (S1 + t2 * (S2 + t2 * (S3 + t2 * (S4 + t2 * (S5 + t2 * (S6 + t2 * S7))))));
+        const pc = 1 + t2 * (C1 + t2 * (C2 + t2 * (C3 + t2 * (C4 + t2 * (C5 + t2 * (C6 + t2 * (C7 + t2 * C8)))))));
+        const qi = q & 3;
+        s = ps * QA[qi]! + pc * QB[qi]!;
+        co = pc * QA[qi]! - ps * QB[qi]!;
       }
-      const ycr = yr[q]!;
-      const yci = yi[q]!;
-      tr += ycr * zr - yci * zi;
-      ti += ycr * zi + yci * zr;
-      const wq = u[q]!;
-      vr += wq * (ycr * zur - yci * zui);
-      vi += wq * (ycr * zui + yci * zur);
+      const w2 = w * w;
+      const pr = 1 + qyyr * w2;
+      const pim = qyyi * w2;
+      const bw = by * w;
+      const ap = pr + bw;
+      const am = pr - bw;
+      const y1r = co * ap - s * pim;
+      const y1i = co * pim + s * ap;
+      const y2r = co * am + s * pim;
+      const y2i = co * pim - s * am;
+      const row1 = base + (half + qq) * m;
+      const row2 = base + (half - 1 - qq) * m;
+      let z1r = 0;
+      let z1i = 0;
+      let z1ur = 0;
+      let z1ui = 0;
+      let z2r = 0;
+      let z2i = 0;
+      let z2ur = 0;
+      let z2ui = 0;
+      for (let i = 0; i < half; i++) {
+        const pp = half + i;
+        const pm = half - 1 - i;
+        const xpr = xr[i]!;
+        const xpi = xi[i]!;
+        const xmr = xur[i]!;
+        const xmi = xui[i]!;
+        const uu = u[pp]!;
+        let wp = W[row1 + pp]!;
+        let wm = W[row1 + pm]!;
+        let apr = wp * xpr;
+        let api = wp * xpi;
+        let amr = wm * xmr;
+        let ami = wm * xmi;
+        z1r += apr + amr;
+        z1i += api + ami;
+        z1ur += uu * (apr - amr);
+        z1ui += uu * (api - ami);
+        wp = W[row2 + pp]!;
+        wm = W[row2 + pm]!;
+        apr = wp * xpr;
+        api = wp * xpi;
+        amr = wm * xmr;
+        ami = wm * xmi;
+        z2r += apr + amr;
+        z2i += api + ami;
+        z2ur += uu * (apr - amr);
+        z2ui += uu * (api - ami);
+      }
+      tr += y1r * z1r - y1i * z1i + (y2r * z2r - y2i * z2i);
+      ti += y1r * z1i + y1i * z1r + (y2r * z2i + y2i * z2r);
+      vr += w * (y1r * z1ur - y1i * z1ui - (y2r * z2ur - y2i * z2ui));
+      vi += w * (y1r * z1ui + y1i * z1ur - (y2r * z2ui + y2i * z2ur));
     }
     // T + Γxy·V
     const gr = tr + gxyr * vr - gxyi * vi;
@@ -672,68 +703,10 @@ function sumEdgeAt(c: RsCells2D, x: number, z: number, wk: Work): void {
     const wi = ear[j]! * gi + eai[j]! * gr;
     sr += wr * hr - wi * hi;
     si += wr * hi + wi * hr;
-    // Stored in the loop: a store after it would have no type feedback when V8 compiles the loop
-    // on stack, and the cached loop code would then deoptimise at every call's end.
+    // Stored in the loop (see sumBoxPlaneAt).
     acc[0] = sr;
     acc[1] = si;
   }
-}
-
-/** Samples at ±x about 0: start = −(n−1)·step/2 to rounding. */
-export function isSymmetricAxis(a: Axis): boolean {
-  return Math.abs(a.start + ((a.n - 1) / 2) * a.step) <= 1e-9 * Math.abs(a.step);
-}
-
-/** The radial samples the radial path takes for a window: see radialPlan. */
-export interface RadialPlan {
-  first: number;
-  n: number;
-  step: number;
-}
-
-/** Points of the Lagrange stencil of the radial interpolation. */
-export const RADIAL_STENCIL = 12;
-/**
- * The radial step is RADIAL_STEP_PHASE / q, q = k·sin θ the largest rate at which the field's
- * phase can change along ρ (sin θ of the steepest ray from the aperture to the window's farthest
- * point). A 12-point Lagrange stencil then interpolates e^{iqρ} within 5.5e-5·(qΔ)¹² ≈ 1.3e-8 of
- * its amplitude (the remainder at the stencil's centre, Abramowitz & Stegun 25.2.2); measured
- * against the full sum: rs-2d-rule.ts.
- */
-export const RADIAL_STEP_PHASE = 0.5;
-
-/**
- * Radial samples for a round source of radius `radius` covering the window's distances from the
- * axis [ρmin, ρmax], with the stencil's reach on both sides.
- */
-export function radialPlan(wavelength: number, z: number, radius: number, outX: Axis, outY: Axis): RadialPlan {
-  const { lo, hi } = radialRange(outX, outY);
-  const reach = hi + radius;
-  const sinMax = reach / Math.hypot(reach, z);
-  const q = ((2 * Math.PI) / wavelength) * Math.max(sinMax, 1e-3);
-  let step = RADIAL_STEP_PHASE / q;
-  // Never coarser than a sixth of the span (tiny windows), never finer than needed for 1e6 samples.
-  if (hi > 0) step = Math.min(step, Math.max(hi / 6, 1e-9 * wavelength));
-  step = Math.max(step, hi / 1e6);
-  const s = RADIAL_STENCIL / 2;
-  const first = Math.max(0, Math.floor(lo / step) - s);
-  const last = Math.ceil(hi / step) + s;
-  return { first, n: last - first + 1, step };
-}
-
-/** Smallest and largest distance from the axis of the points outX × outY. */
-function radialRange(outX: Axis, outY: Axis): { lo: number; hi: number } {
-  const span = (a: Axis): [number, number] => {
-    const e0 = a.start;
-    const e1 = a.start + (a.n - 1) * a.step;
-    const lo = Math.min(e0, e1);
-    const hi = Math.max(e0, e1);
-    const near = lo <= 0 && hi >= 0 ? 0 : Math.min(Math.abs(lo), Math.abs(hi));
-    return [near, Math.max(Math.abs(lo), Math.abs(hi))];
-  };
-  const [xn, xf] = span(outX);
-  const [yn, yf] = span(outY);
-  return { lo: Math.hypot(xn, yn), hi: Math.hypot(xf, yf) };
 }
 
 /** The cells folded about y = 0 (rows at ±η summed into η ≥ 0): for points on the line y = 0. */
@@ -768,36 +741,6 @@ function foldY(c: RsCells2D): RsCells2D {
 }
 
 /**
- * Which path rsSum2D takes for these cells and this window, and what it sums: the radial path for
- * a round source when it needs fewer pairs than the window (with the mirror halving), else the
- * mirror path when the cells and the window allow it along x or y, else every point.
- */
-export function rsSum2DChoice(
-  cells: { box: number; edge: number; round: boolean; radius: number; evenX: boolean; evenY: boolean; wavelength: number },
-  z: number,
-  outX: Axis,
-  outY: Axis,
-  opts: RsSum2DOptions = {},
-): { path: RsSum2DPath; mirrored: { x: boolean; y: boolean }; radial: RadialPlan | null; points: number; cells: { box: number; edge: number } } {
-  const want = opts.path ?? 'auto';
-  const mx = want !== 'direct' && cells.evenX && isSymmetricAxis(outX);
-  const my = want !== 'direct' && cells.evenY && isSymmetricAxis(outY);
-  const cols = mx ? Math.ceil(outX.n / 2) : outX.n;
-  const rows = my ? Math.ceil(outY.n / 2) : outY.n;
-  const all = { box: cells.box, edge: cells.edge };
-  const direct = { path: (mx || my ? 'mirror' : 'direct') as RsSum2DPath, mirrored: { x: mx, y: my }, radial: null, points: cols * rows, cells: all };
-  if (want !== 'auto' || !cells.round) return direct;
-  const rp = radialPlan(cells.wavelength, z, cells.radius, outX, outY);
-  // Folded about y = 0 when even in y: about half the cells (the row on the axis stays whole).
-  const folded = cells.evenY ? { box: Math.ceil(cells.box / 2), edge: Math.ceil(cells.edge / 2) } : all;
-  const radialPairs = rp.n * (folded.box + 3 * folded.edge);
-  const directPairs = cols * rows * (cells.box + 3 * cells.edge);
-  // The interpolation costs about as much per output as 1/4 of a pair.
-  if (radialPairs + 0.25 * outX.n * outY.n * (cells.box + cells.edge > 0 ? 1 : 0) >= directPairs) return direct;
-  return { path: 'radial', mirrored: { x: false, y: false }, radial: rp, points: rp.n, cells: folded };
-}
-
-/**
  * The field of the cells at distance z on the points outX × outY (Field: row-major [y][x]).
  * Takes the radial path for a round source (U(ρ) on radial samples, interpolated by a 12-point
  * Lagrange stencil), the mirror path for a source even about an axis on a symmetric window, or
@@ -807,22 +750,7 @@ export function rsSum2D(cells: RsCells2D, wavelength: number, z: number, outX: A
   if (!(z > 0)) throw new Error('rsSum2D: the distance must be positive');
   if (Math.abs(wavelength - cells.wavelength) > 1e-12 * cells.wavelength) throw new Error('rsSum2D: the cells were built for another wavelength');
   if (!(outX.n >= 1) || !(outY.n >= 1)) throw new Error('rsSum2D: empty window');
-  const round = cells.symmetry.round;
-  const choice = rsSum2DChoice(
-    {
-      box: cells.box.n,
-      edge: cells.edge.n,
-      round: round !== null,
-      radius: round ? Math.min(round.outer, round.waist === null ? Infinity : Math.sqrt(37) * round.waist) : 0,
-      evenX: cells.symmetry.evenX,
-      evenY: cells.symmetry.evenY,
-      wavelength: cells.wavelength,
-    },
-    z,
-    outX,
-    outY,
-    opts,
-  );
+  const choice = rsSum2DChoice(summarizeCells(cells), z, outX, outY, opts);
   const out = createField(outX, outY, cells.wavelength);
   const o = out.data;
   if (choice.path === 'radial') {
@@ -832,7 +760,7 @@ export function rsSum2D(cells: RsCells2D, wavelength: number, z: number, outX: A
     const wk = workFor(src);
     sumRow(src, z, { n: rp.n, start: rp.first * rp.step, step: rp.step }, rp.n, 0, ring, 0, wk);
     interpolateRadial(ring, rp, outX, outY, o);
-    return { field: out, path: 'radial', mirrored: { x: false, y: false }, radial: rp, pairs: { box: rp.n * src.box.n, edge: rp.n * src.edge.n } };
+    return { field: out, path: 'radial', mirrored: { x: false, y: false }, radial: rp, pairs: { box: rp.n * src.box.n, edge: rp.n * src.edge.n }, work: choice.work };
   }
   const { x: mx, y: my } = choice.mirrored;
   const cols = mx ? Math.ceil(outX.n / 2) : outX.n;
@@ -850,7 +778,7 @@ export function rsSum2D(cells: RsCells2D, wavelength: number, z: number, outX: A
       }
     }
   }
-  return { field: out, path: choice.path, mirrored: { x: mx, y: my }, radial: null, pairs: { box: rows * cols * cells.box.n, edge: rows * cols * cells.edge.n } };
+  return { field: out, path: choice.path, mirrored: { x: mx, y: my }, radial: null, pairs: { box: rows * cols * cells.box.n, edge: rows * cols * cells.edge.n }, work: choice.work };
 }
 
 /**
@@ -874,7 +802,7 @@ function interpolateRadial(ring: Float64Array, rp: RadialPlan, outX: Axis, outY:
     const y = axisAt(outY, row);
     for (let col = 0; col < outX.n; col++) {
       const x = axisAt(outX, col);
-      const t = Math.hypot(x, y) * inv;
+      const t = Math.sqrt(x * x + y * y) * inv;
       // Stencil j0 … j0 + S − 1 around t; θ = t − j0 ∈ [h − 1, h).
       const j0 = Math.floor(t) - h + 1;
       const th = t - j0;
