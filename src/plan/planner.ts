@@ -9,6 +9,7 @@ import { nextPowerOfTwo } from '../optics/fft.js';
 import { directionCosines } from '../optics/source.js';
 import { bandLimitFrequency } from '../optics/spectral.js';
 import { mappingError } from '../optics/direct.js';
+import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor } from '../optics/shifted-spectrum.js';
 import { formatLength, trimNumber } from '../job/units.js';
 import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOption, Plan, Regime, Warning } from './types.js';
 import { LIMITS } from './limits.js';
@@ -272,6 +273,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     memoryBytes: chosen.memory,
     work: chosen.work,
     ...(beamRadius !== undefined ? { beamRadius } : {}),
+    ...(chosen.shifted ? { shifted: chosen.shifted } : {}),
     ...(error ? { error } : {}),
   };
   return plan;
@@ -371,12 +373,13 @@ const FORM_WORDS: Record<string, string> = {
   'transfer-function': 'transfer-function form',
   'single-fft': 'single-transform form by one FFT',
   direct: 'single-transform form by direct sums onto the window',
+  shifted: 'in the tilted beam\'s frame, the grid shifted to where it lands',
 };
 
 export function methodWords(m: MethodName, form?: MethodForm): string {
   switch (m) {
     case 'angular-spectrum':
-      return 'angular spectrum';
+      return `angular spectrum${form === 'shifted' ? ` (${FORM_WORDS[form]})` : ''}`;
     case 'fresnel':
       return `Fresnel${form ? ` (${FORM_WORDS[form]})` : ''}`;
     case 'fraunhofer':
@@ -465,6 +468,7 @@ interface Sampling {
   layout: Layout;
   memory: number;
   work: number;
+  shifted?: Plan['shifted'];
 }
 
 /** The plans of a method: one per form that applies (Fresnel has three; the exact integral two). */
@@ -473,7 +477,10 @@ function sample(method: MethodName, g: Geometry, c: Case): Sampling[] {
   if (method === 'angular-spectrum') {
     const layout: Layout = g.oneD ? 'one-d' : 'two-d';
     const plans = axes.map((i) => fftAxisPlan(g, i, c, method));
-    return [{ axes: plans, layout, ...costFft(plans, layout) }];
+    const list: Sampling[] = [{ axes: plans, layout, ...costFft(plans, layout) }];
+    const shifted = shiftedSampling(g, c, layout);
+    if (shifted) list.push(shifted);
+    return list;
   }
   // The beam minus an obstacle is not a product of two profiles, even where the obstacle is.
   const layout: Layout = g.oneD ? 'one-d' : g.facts.separable && !g.obstructed ? 'separable' : 'two-d';
@@ -561,6 +568,54 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
   const cells = n[0]! * n[1]!;
   const outputs = out[0]!.output.n * out[1]!.output.n;
   return [{ form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + 16 * (3 * cells) + 64 * outputs, work: costRsDirect2D(cells, outputs) }];
+}
+
+/**
+ * The angular spectrum in the frame of a tilted beam (src/optics/shifted-spectrum.ts): the carrier
+ * is taken out of the source and the grid shifted to where the beam lands, so the grid is as large
+ * as the beam, not as the span from the aperture to the window, and its pitch resolves the
+ * envelope, not the carrier. For one tilted beam (a plain aperture); a grating's orders go in many
+ * directions at once.
+ */
+function shiftedSampling(g: Geometry, c: Case, layout: Layout): Sampling | null {
+  const tilted = g.carrier[0] !== 0 || (!g.oneD && g.carrier[1] !== 0);
+  if (!tilted || g.model.propagating.length !== 1 || c.grid?.size) return null;
+  const lam = g.lam;
+  const carrier: [number, number] = [g.carrier[0], g.oneD ? 0 : g.carrier[1]];
+  const feature = g.facts.minFeature / featureSamples(g, 'angular-spectrum');
+  const beamPitch = Number.isFinite(g.waist) ? g.waist / 8 : Infinity;
+  const maxPitch: [number, number] = [Math.min(feature, beamPitch), Math.min(feature, beamPitch)];
+  let grid;
+  try {
+    grid = shiftedGridFor({
+      wavelength: lam,
+      z: g.z,
+      carrier,
+      centre: [g.centre[0], g.oneD ? 0 : g.centre[1]],
+      footprint: [g.aEff[0], g.oneD ? 0 : g.aEff[1]],
+      window: [g.windowHalf[0], g.oneD ? 0 : g.windowHalf[1]],
+      oneD: g.oneD,
+      samplesPerPeriod: oversampling(g, 'angular-spectrum'),
+      maxPitch,
+      ...(c.grid?.pitch ? { pitch: [c.grid.pitch, c.grid.pitch] as [number, number] } : {}),
+      tail: Number.isFinite(g.waist) && illuminatedEdgeWeight(g.facts, g.waist, g.oneD) < 1e-4 ? gaussianSpectrumTail(g.waist) : edgeSpectrumTail(g.model.beamEdgesPerPower),
+      target: LIMITS.bandLimitTarget,
+      maxSamples: g.oneD ? 1 << 24 : 1 << 16,
+    });
+  } catch {
+    return null;
+  }
+  const axes = (g.oneD ? [0] : [0, 1]).map((i) => {
+    const p = grid.pitch[i]!;
+    const padded = grid.samples[i]!;
+    const n = Math.min(padded, nextPowerOfTwo(Math.ceil((2 * g.aEff[i]!) / p) + 2));
+    // The output lattice is the grid's own, shifted by the centre.
+    const lattice = fftAxis(padded, p);
+    const output = windowOn({ n: lattice.n, start: lattice.start + grid.centre[i]!, step: p }, g.centre[i]!, g.windowHalf[i]!);
+    const rule = { pitch: p, required: Math.min(p, maxPitch[i]!), rule: `the tilted beam's envelope, sampled in its own frame (the carrier taken out)` };
+    return axisPlan(g, i, rule, n, padded, output);
+  });
+  return { form: 'shifted', axes, layout, ...costFft(axes, layout), shifted: { centre: grid.centre, taper: grid.taper, bandTaper: grid.bandTaper } };
 }
 
 /** The largest direction cosine from the illuminated aperture to the window. */

@@ -10,7 +10,7 @@ import type { Plan } from './types.js';
  * (angular spectrum or Fresnel transfer function). Null for plans that do not use one.
  */
 export function sourceSpectrumKey(p: Plan): string | null {
-  const fftGrid = p.method === 'angular-spectrum' || (p.method === 'fresnel' && p.form === 'transfer-function');
+  const fftGrid = (p.method === 'angular-spectrum' && p.form !== 'shifted') || (p.method === 'fresnel' && p.form === 'transfer-function');
   if (!fftGrid || p.layout !== 'two-d' || !p.y || p.error) return null;
   const c = p.case;
   const axis = (a: Plan['x']) => [a.inputPitch, a.inputSamples, a.paddedSamples];

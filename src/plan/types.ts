@@ -6,7 +6,9 @@ export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'raylei
 export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct';
 /** The exact integral summed over the aperture's cells, or one period's field summed over a grating's periods. */
 export type RsForm = 'direct' | 'per-period';
-export type MethodForm = FresnelForm | RsForm;
+/** The angular spectrum in the frame of a tilted beam: carrier taken out, window shifted to where it lands. */
+export type AsForm = 'shifted';
+export type MethodForm = FresnelForm | RsForm | AsForm;
 export type Regime = 'near-field' | 'transition' | 'far-field';
 /** one-d: invariant along y; separable: x-problem × y-problem; two-d: a full 2-D grid. */
 export type Layout = 'one-d' | 'separable' | 'two-d';
@@ -168,6 +170,11 @@ export interface Plan {
   work: number;
   /** A Gaussian beam's radius at the observation plane (m). */
   beamRadius?: number;
+  /**
+   * The shifted angular spectrum (form 'shifted'): the window's centre the grid is shifted to, and
+   * the tapers of its band limit (src/optics/shifted-spectrum.ts).
+   */
+  shifted?: { centre: [number, number]; taper: number; bandTaper: number };
   /** Set when the case cannot be computed as planned (it is then reported, not run). */
   error?: string;
 }

@@ -17,6 +17,7 @@ import {
 } from '../optics/spectral.js';
 import { propagationPhase, rotate } from '../optics/phase.js';
 import { propagateFresnelSingleFFT } from '../optics/single-fft.js';
+import { propagateShiftedSpectrum, restoreCarrier } from '../optics/shifted-spectrum.js';
 import { cellsFromIntervals, rsDirect1D, rsDirect2D, rsPerPeriod1D, type Interval } from '../optics/rayleigh-sommerfeld.js';
 import type { Illumination, Profile } from '../optics/aperture.js';
 import { LIMITS } from '../plan/limits.js';
@@ -276,7 +277,23 @@ export function computeCase(plan: Plan): ComputedCase {
   let powerIn: number;
   let reused = false;
 
-  if (plan.method === 'rayleigh-sommerfeld' && plan.layout === 'one-d') {
+  if (plan.form === 'shifted') {
+    // The angular spectrum in the tilted beam's frame: envelope without its carrier, padded, shifted
+    // to where the beam lands; the carrier goes back only where the free wave must interfere.
+    const sh = plan.shifted!;
+    const oneD = plan.layout === 'one-d';
+    const prof = oneD ? separableProfiles(c.aperture)!.x : null;
+    const src = prof
+      ? sourceField1D(prof, ill, sourceAxis(plan.x, true), lam, 0, { sampleCarrier: false, obstructed })
+      : sourceField2D(c.aperture, ill, sourceAxis(plan.x, true), sourceAxis(plan.y!, true), lam, { sampleCarrier: false, obstructed });
+    powerIn = src.power;
+    const grid = padField(src.field, plan.x.paddedSamples, oneD ? 1 : plan.y!.paddedSamples);
+    const res = propagateShiftedSpectrum(grid, z, [carrier[0], oneD ? 0 : carrier[1]], sh.centre, { taper: sh.taper, bandTaper: sh.bandTaper, inPlace: true });
+    const out = cropTo(res.field, outX, outY);
+    releaseSamples(grid.data);
+    if (plan.babinet) restoreCarrier(out, [carrier[0], oneD ? 0 : carrier[1]]);
+    result = { field: out, report: { bandLimitLoss: res.report.bandLimitLoss, evanescentLoss: res.report.evanescentLoss, bandLimit: [Infinity, Infinity] } };
+  } else if (plan.method === 'rayleigh-sommerfeld' && plan.layout === 'one-d') {
     if (!isOneDAperture(c.aperture)) throw new Error('one-d layout for a 2-D aperture');
     const prof = separableProfiles(c.aperture)!.x;
     const open = obstructed ? complementWithin(profileIntervals(prof), plan.x.apertureHalf) : profileIntervals(prof);
