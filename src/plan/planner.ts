@@ -947,7 +947,7 @@ function preChecks(
   if (checks.transferSampling !== undefined && checks.transferSampling < 1) {
     w.push({
       code: 'transfer-undersampled',
-      message: `the Fresnel transfer function is under-sampled (Δx = ${fmt(checks.transferSampling, 2)}·λz/L < λz/L, Voelz): expect aliasing; the direct form would be right here`,
+      message: `the Fresnel transfer function is under-sampled (Δx = ${fmt(checks.transferSampling, 2)}·λz/L < λz/L, Voelz): expect aliasing; without grid.size the planner picks a Fresnel form that is sampled correctly here`,
     });
   }
   if (!fft) {
