@@ -45,7 +45,8 @@ export const RS2D_MAX_CELL_OVER_WAIST = 1;
 export const RS2D_MAX_EDGE_NODES = 12;
 
 /** Shares of the target given to each term. */
-const SHARE = { curvature: 0.5, edge: 0.25, envelope: 0.25 } as const;
+export const RS2D_TARGET_SHARE = { curvature: 0.5, edge: 0.25, envelope: 0.25 } as const;
+const SHARE = RS2D_TARGET_SHARE;
 
 function factorial(n: number): number {
   let f = 1;
@@ -67,6 +68,16 @@ export function rs2DCurvatureError(pitch: number, wavelength: number, z: number)
 /** The predicted error of a Gaussian envelope of waist w across boxes of side h. */
 export function rs2DEnvelopeError(pitch: number, waist: number): number {
   return RS2D_C_ENV * (pitch / waist) ** 6;
+}
+
+/**
+ * The fewest edge nodes (even, 2 … maxM) whose predicted error at this pitch is within `budget`,
+ * or maxM + 2 if none is (slope: sin θ_max + sin θ_tilt, at most 2).
+ */
+export function rs2DEdgeNodesFor(pitch: number, wavelength: number, slope: number, budget: number, maxM = RS2D_MAX_EDGE_NODES): number {
+  const sigma = (Math.PI * pitch * Math.min(2, slope)) / wavelength;
+  for (let m = 2; m <= maxM; m += 2) if (rs2DEdgeError(sigma, m) <= budget) return m;
+  return maxM + 2;
 }
 
 export interface Rs2DPitchOptions {
@@ -127,7 +138,7 @@ export function rs2DPitch(wavelength: number, z: number, sinMax: number, target:
   if (edges && opts.edgeNodes === undefined) {
     const maxM = opts.maxEdgeNodes ?? RS2D_MAX_EDGE_NODES;
     const budget = SHARE.edge * target;
-    for (m = 2; m <= maxM; m += 2) if (rs2DEdgeError(sigmaAt(pitch), m) <= budget) break;
+    m = rs2DEdgeNodesFor(pitch, wavelength, slope, budget, maxM);
     if (m > maxM) {
       m = maxM;
       // The σ at which maxM nodes meet the budget.

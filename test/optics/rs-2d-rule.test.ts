@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import type { Aperture, Illumination } from '../../src/optics/aperture.js';
 import type { Axis } from '../../src/optics/field.js';
 import { rsCellCount2D, rsCells2DFromAperture } from '../../src/optics/rs-2d-cells.js';
+import { rs2DSampling } from '../../src/optics/rs-2d-plan.js';
 import { rsSum2DChoice, summarizeCells } from '../../src/optics/rs-2d-paths.js';
 import { rs2DCurvatureError, rs2DEdgeError, rs2DEnvelopeError, rs2DPitch } from '../../src/optics/rs-2d-rule.js';
 import { rsSum2D } from '../../src/optics/rs-2d-sum.js';
@@ -197,5 +198,42 @@ describe('path choice and costs', () => {
     const choice = rsSum2DChoice(shifted, 20 * lam, big, big);
     expect(choice.path).toBe('radial');
     expect(choice.cells.box).toBe(shifted.box);
+  });
+});
+
+describe('rs2DSampling (what the planner asks for)', () => {
+  const lam633 = 633e-9;
+  const pinhole: Aperture = { shape: 'circle', diameter: 5e-6, opaque: false };
+  const window: Axis = { n: 400, start: -40 * lam633, step: (80 * lam633) / 399 };
+
+  it('a 5 µm pinhole at 30λ onto 400 × 400 points: tens of cells and the radial path', () => {
+    const s = rs2DSampling(pinhole, { kind: 'plane', tilt: [0, 0] }, lam633, 30 * lam633, window, window, 1e-3);
+    expect(s.predicted.total).toBeLessThanOrEqual(1e-3);
+    expect(s.choice.path).toBe('radial');
+    expect(s.cells.box + s.cells.edge).toBeLessThan(200);
+    // The area-sampled cells needed about 0.035λ here (rsAreaSamplingError at sin θ = 0.9): ~4e4 cells.
+    expect(s.pitch).toBeGreaterThan(20 * 0.035 * lam633);
+  });
+
+  it('never costs more than the coarsest pitch the rule allows, and meets its target (disc 4λ, z = 60λ)', () => {
+    const a: Aperture = { shape: 'circle', diameter: 4 * lam, opaque: false };
+    const ill: Illumination = { kind: 'plane', tilt: [0, 0] };
+    const z = 60 * lam;
+    const n = 9;
+    const outX: Axis = { n, start: -30 * lam, step: (75 * lam) / (n - 1) };
+    const outY: Axis = { n, start: -40 * lam, step: (70 * lam) / (n - 1) };
+    const s = rs2DSampling(a, ill, lam, z, outX, outY, 1e-4);
+    const coarsest = rsSum2DChoice(rsCellCount2D(a, ill, lam, s.rule.pitch, { edgeNodes: s.rule.edgeNodes }), z, outX, outY);
+    expect(s.choice.work).toBeLessThanOrEqual(coarsest.work);
+    expect(s.predicted.total).toBeLessThanOrEqual(1e-4);
+    const pts: Array<[number, number]> = [];
+    for (let r = 0; r < n; r++) for (let q = 0; q < n; q++) pts.push([outX.start + q * outX.step, outY.start + r * outY.step]);
+    const ref = boundaryField({ wavelength: lam, distance: z, regions: [{ region: { kind: 'disc', radius: 2 * lam }, sign: 1 }], light: { kind: 'plane', sinTilt: 0 }, opaque: false }, pts);
+    const got = rsSum2D(rsCells2DFromAperture(a, ill, lam, s.pitch, { edgeNodes: s.edgeNodes }), lam, z, outX, outY).field.data;
+    let peak = 0;
+    let worst = 0;
+    for (let i = 0; i < pts.length; i++) peak = Math.max(peak, ref.re[i]! ** 2 + ref.im[i]! ** 2);
+    for (let i = 0; i < pts.length; i++) worst = Math.max(worst, Math.abs(got[2 * i]! ** 2 + got[2 * i + 1]! ** 2 - ref.re[i]! ** 2 - ref.im[i]! ** 2));
+    expect(worst / peak).toBeLessThan(1e-4);
   });
 });
