@@ -4,6 +4,12 @@
 // Each source sample is a cell of the grid (dx × dy); over it the carrier's phase slope minus the
 // kernel's is integrated exactly and the rest of the kernel to second order (rs-moments.ts), as in
 // the 1-D sums.
+//
+// Superseded for new work by rs-2d-cells.ts + rs-2d-sum.ts (rsCells2DFromAperture, rsSum2D): the
+// same kernel integral over cells whose edges are exact instead of area-sampled, so that the pitch
+// is set by the kernel's curvature (rs-2d-rule.ts) rather than by 0.032λ/sin θ, with a radial path
+// for round sources. This function stays for area-sampled sources given as a Field (its tests:
+// rayleigh-sommerfeld-2d.test.ts).
 import { axisAt, createField, isOneD, type Axis, type Field } from './field.js';
 import { sincMoments } from './rs-moments.js';
 
