@@ -25,6 +25,12 @@ export { cellsFromIntervals, rsMaxCell, rsAreaSamplingError, RS_PHASE_BUDGET, RS
 export type { Interval, Light1D, RsCells } from './rs-cells.js';
 export { rsDirect2D, type RsDirect2DOptions } from './rs-2d.js';
 export { costRsDirect1D, costRsPerPeriod1D, costRsDirect2D, RS1D_PAIR_WORK, RS2D_PAIR_WORK } from './rs-cost.js';
+export { rsCells2DFromAperture, rsCellCount2D, RS_DEFAULT_EDGE_NODES, type RsCells2D, type RsCells2DOptions, type RsBoxCells, type RsEdgeCells, type RoundSource } from './rs-2d-cells.js';
+export { rsSum2D, type RsSum2DResult } from './rs-2d-sum.js';
+export { rsSum2DChoice, summarizeCells, radialPlan, type RsCellSummary, type RsSum2DChoice, type RsSum2DOptions, type RsSum2DPath } from './rs-2d-paths.js';
+export { rs2DPitch, rs2DCurvatureError, rs2DEdgeError, rs2DEnvelopeError, rs2DEdgeNodesFor, type Rs2DPitch, type Rs2DPitchOptions } from './rs-2d-rule.js';
+export { rs2DSampling, rs2DSinMax, type Rs2DSampling } from './rs-2d-plan.js';
+export { costRsSum2D, memoryRsSum2D, rs2DEdgePairWork, RS2D_BOX_PAIR_WORK, RS2D_GAUSSIAN_BOX_PAIR_WORK, RS2D_RADIAL_POINT_WORK } from './rs-cost.js';
 
 const TWO_PI = 2 * Math.PI;
 

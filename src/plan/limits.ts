@@ -2,6 +2,12 @@
 // documentation refer to the same numbers. Where a number is a judgement rather than a published
 // value, the comment says so.
 export const LIMITS = {
+  /**
+   * Work units (the plans' \`work\`) one core gets through per second: a direct Fourier sum's
+   * multiply-add counts 8 and ran at 5.5–5.7 ns (1.4e9 per second, dft.ts); the exact sums' pairs
+   * were calibrated to the same rate; 1e9 leaves room for a slower or busier machine.
+   */
+  workPerSecond: 1e9,
   /** Power allowed outside a planner-chosen window (sets the window margin). */
   windowLossTarget: 0.02,
   /** Power each grating order may lose beyond a planner-chosen window (its powers are reported to 1 %). */
@@ -74,6 +80,8 @@ export const LIMITS = {
   farFieldPeakErrorWarn: 0.01,
   /** A window whose steepest ray from the aperture has sin θ above this takes in nearly every direction. */
   steepWindow: 0.9,
+  /** Error (fraction of the peak) the exact 2-D sums with exact edge cells are sampled for. */
+  rsExactTarget: 1e-3,
   /** Largest error (fraction of the peak) the exact 2-D sums' area-sampled edge cells may add. */
   rsAreaError: 0.002,
   /** Features below this many wavelengths get the scalar-theory warning; a judgement. */

@@ -16,7 +16,7 @@ import { LIMITS } from './limits.js';
 import { illuminatedEdgeWeight, lightModel, type LightModel } from './light.js';
 import { paraxialEstimate } from './paraxial.js';
 import { planWindow, windowLoss } from './window.js';
-import { costRsDirect1D, costRsDirect2D, costRsPerPeriod1D, periodicAxis, rsAreaSamplingError, rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
+import { costRsDirect1D, costRsDirect2D, costRsPerPeriod1D, periodicAxis, rs2DSampling, rsAreaSamplingError, rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
 
 export interface PlannerOptions {
   /** A case whose estimated peak memory exceeds this is not computed (bytes). */
@@ -31,8 +31,8 @@ export interface PlannerOptions {
 }
 
 export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
-/** About an hour of one core at the rate the run layer assumes (2e8 per second). */
-export const DEFAULT_MAX_WORK = 7.2e11;
+/** About an hour of one core (LIMITS.workPerSecond). */
+export const DEFAULT_MAX_WORK = 3600 * LIMITS.workPerSecond;
 
 interface Geometry {
   lam: number;
@@ -274,6 +274,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     work: chosen.work,
     ...(beamRadius !== undefined ? { beamRadius } : {}),
     ...(chosen.shifted ? { shifted: chosen.shifted } : {}),
+    ...(chosen.exact2D ? { exact2D: chosen.exact2D } : {}),
     ...(error ? { error } : {}),
   };
   return plan;
@@ -400,9 +401,9 @@ export function bytes(n: number): string {
   return `${trimNumber(n / 1024, 3)} KiB`;
 }
 
-/** Work in words, at the rate the run layer assumes (run-job.ts FLOPS_PER_SECOND). */
+/** Work in words, at LIMITS.workPerSecond. */
 function seconds(work: number): string {
-  const s = work / 2e8;
+  const s = work / LIMITS.workPerSecond;
   if (s < 1) return '<1 s';
   if (s < 120) return `${trimNumber(s, 2)} s`;
   if (s < 7200) return `${trimNumber(s / 60, 2)} min`;
@@ -469,6 +470,7 @@ interface Sampling {
   memory: number;
   work: number;
   shifted?: Plan['shifted'];
+  exact2D?: Plan['exact2D'];
 }
 
 /** The plans of a method: one per form that applies (Fresnel has three; the exact integral two). */
@@ -554,20 +556,31 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
     }
     return list;
   }
-  // Area-sampled edge cells carry their open fraction over the whole cell: the error grows as
-  // (pitch·sin θ/λ)² at the steepest ray into the window (rsAreaSamplingError, measured), so the
-  // pitch is set for LIMITS.rsAreaError there.
-  const sMax = Math.max(steepestDirection(g), 1e-6);
-  const ref = g.lam;
-  const areaPitch = ref * Math.sqrt(LIMITS.rsAreaError / rsAreaSamplingError(ref, g.lam, sMax));
-  const width = Math.min(cell, areaPitch);
-  const p = pitchFor(g, c, { pitch: width, rule: `the finer of the kernel's curvature rule and the edge cells' error at the steepest ray into the window (sin θ = ${fmt(sMax, 3)})` }, LIMITS.featureSamples2D);
+  if (g.obstructed) {
+    // The beam where an obstacle is not: area-sampled cells (the exact edge cells are built for
+    // holes). Area-sampled edge cells carry their open fraction over the whole cell: the error grows
+    // as (pitch·sin θ/λ)² at the steepest ray into the window (rsAreaSamplingError, measured).
+    const sMax = Math.max(steepestDirection(g), 1e-6);
+    const ref = g.lam;
+    const areaPitch = ref * Math.sqrt(LIMITS.rsAreaError / rsAreaSamplingError(ref, g.lam, sMax));
+    const p = pitchFor(g, c, { pitch: Math.min(cell, areaPitch), rule: `the finer of the kernel's curvature rule and the area-sampled edge cells' error at the steepest ray into the window (sin θ = ${fmt(sMax, 3)})` }, LIMITS.featureSamples2D);
+    const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
+    const n = [0, 1].map((i) => c.grid?.size ?? 2 * Math.ceil(g.aEff[i]! / p.pitch + 0.5) + 1);
+    const axes = [0, 1].map((i) => axisPlan(g, i, p, n[i]!, n[i]!, out[i]!.output));
+    const cells = n[0]! * n[1]!;
+    const outputs = out[0]!.output.n * out[1]!.output.n;
+    return [{ form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + 16 * (3 * cells) + 64 * outputs, work: costRsDirect2D(cells, outputs) }];
+  }
+  // Boxes for every wholly open cell and Gauss–Legendre nodes with exact weights in the cells an
+  // edge crosses (src/optics/rs-2d-*.ts): the pitch and node count are the cheapest that keep the
+  // error within the target; round and mirror-symmetric sources take the radial or mirror path.
   const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
-  const n = [0, 1].map((i) => c.grid?.size ?? 2 * Math.ceil(g.aEff[i]! / p.pitch + 0.5) + 1);
-  const axes = [0, 1].map((i) => axisPlan(g, i, p, n[i]!, n[i]!, out[i]!.output));
-  const cells = n[0]! * n[1]!;
-  const outputs = out[0]!.output.n * out[1]!.output.n;
-  return [{ form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + 16 * (3 * cells) + 64 * outputs, work: costRsDirect2D(cells, outputs) }];
+  const s2 = rs2DSampling(c.aperture, c.illumination, g.lam, g.z, out[0]!.output, out[1]!.output, LIMITS.rsExactTarget);
+  const pitch = c.grid?.pitch ? Math.min(c.grid.pitch, s2.pitch) : s2.pitch;
+  const rule = { pitch, required: s2.pitch, rule: `boxes of ${len(s2.pitch)} with exact edges (${s2.edgeNodes}² nodes in each edge cell), the cheapest that keeps the error within ${LIMITS.rsExactTarget} of the peak; ${s2.choice.path} path` };
+  const n = [0, 1].map((i) => 2 * Math.ceil(g.aEff[i]! / pitch + 0.5) + 1);
+  const axes = [0, 1].map((i) => axisPlan(g, i, rule, n[i]!, n[i]!, out[i]!.output));
+  return [{ form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + s2.choice.memory, work: s2.choice.work, exact2D: { edgeNodes: s2.edgeNodes, path: s2.choice.path } }];
 }
 
 /**
@@ -788,10 +801,12 @@ function costFft(axes: AxisPlan[], layout: Layout): { memory: number; work: numb
   if (layout === 'separable') {
     // Two 1-D problems, then the 2-D product on the output window.
     const oneD = axes.reduce((s, a) => s + 16 * (a.inputSamples + a.paddedSamples + a.output.n), 0);
-    return { memory: BASELINE_MEMORY + oneD + 64 * m, work: axes.reduce((s, a) => s + 10 * a.paddedSamples * Math.log2(a.paddedSamples), 0) + 20 * m };
+    return { memory: BASELINE_MEMORY + oneD + 64 * m, work: axes.reduce((s, a) => s + 3.3 * a.paddedSamples * Math.log2(a.paddedSamples), 0) + 20 * m };
   }
   // Source, padded grid, the FFT kernel's working copy of it (kept between calls), output arrays.
-  return { memory: BASELINE_MEMORY + 16 * n + 32 * np + 64 * m, work: 10 * np * Math.log2(np) + 30 * np };
+  // Work: two FFTs and the transfer multiply; the SIMD kernel runs a 4096² case (pad of 2048²) in
+  // about 1.1 s, about 3.3·N·log₂N + 10·N at LIMITS.workPerSecond's calibration (npm run bench).
+  return { memory: BASELINE_MEMORY + 16 * n + 32 * np + 64 * m, work: 3.3 * np * Math.log2(np) + 10 * np };
 }
 
 function costDirect(axes: AxisPlan[], layout: Layout, farField: boolean): { memory: number; work: number } {

@@ -175,6 +175,8 @@ export interface Plan {
    * the tapers of its band limit (src/optics/shifted-spectrum.ts).
    */
   shifted?: { centre: [number, number]; taper: number; bandTaper: number };
+  /** The exact 2-D sums with exact edge cells: nodes per edge cell (per axis) and the path taken. */
+  exact2D?: { edgeNodes: number; path: 'direct' | 'mirror' | 'radial' };
   /** Set when the case cannot be computed as planned (it is then reported, not run). */
   error?: string;
 }

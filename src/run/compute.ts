@@ -18,7 +18,7 @@ import {
 import { propagationPhase, rotate } from '../optics/phase.js';
 import { propagateFresnelSingleFFT } from '../optics/single-fft.js';
 import { propagateShiftedSpectrum, restoreCarrier } from '../optics/shifted-spectrum.js';
-import { cellsFromIntervals, rsDirect1D, rsDirect2D, rsPerPeriod1D, type Interval } from '../optics/rayleigh-sommerfeld.js';
+import { cellsFromIntervals, rsCells2DFromAperture, rsDirect1D, rsDirect2D, rsPerPeriod1D, rsSum2D, type Interval } from '../optics/rayleigh-sommerfeld.js';
 import type { Illumination, Profile } from '../optics/aperture.js';
 import { LIMITS } from '../plan/limits.js';
 import type { AxisPlan, Plan } from '../plan/types.js';
@@ -299,6 +299,11 @@ export function computeCase(plan: Plan): ComputedCase {
     const open = obstructed ? complementWithin(profileIntervals(prof), plan.x.apertureHalf) : profileIntervals(prof);
     powerIn = intervalsPower(open, ill);
     result = { field: propagateExact1D(plan, prof, ill, open) };
+  } else if (plan.method === 'rayleigh-sommerfeld' && plan.exact2D) {
+    // Boxes and exact edge cells (for an obstacle in a plane wave: its hole, for Babinet below).
+    const cells = rsCells2DFromAperture(c.aperture, ill, lam, plan.x.inputPitch, { edgeNodes: plan.exact2D.edgeNodes });
+    powerIn = cells.power;
+    result = { field: rsSum2D(cells, lam, z, outX, outY!).field };
   } else if (plan.method === 'rayleigh-sommerfeld') {
     const { field: src, power } = sourceField2D(c.aperture, ill, sourceAxis(plan.x, false), sourceAxis(plan.y!, false), lam, { sampleCarrier: false, obstructed });
     powerIn = power;

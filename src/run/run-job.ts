@@ -6,6 +6,7 @@ import { trimNumber } from '../job/units.js';
 import { JobError, loadJobFile, type LoadedJob } from '../job/load.js';
 import { expandJob } from '../job/expand.js';
 import { bytes, methodWords, planCase, type PlannerOptions } from '../plan/planner.js';
+import { LIMITS } from '../plan/limits.js';
 import type { Plan } from '../plan/types.js';
 import type { CaseSummary } from '../output/case-output.js';
 import { safeJoin, writeFileAtomic } from '../output/atomic.js';
@@ -66,8 +67,6 @@ export interface JobOutcome {
 /** Sweeps above these ask for acceptLarge (--accept-large): a typo in a range should not start a week of work. */
 export const LARGE_SWEEP = { cases: 5000, seconds: 12 * 3600 };
 
-/** Rough floating-point rate of one core in these kernels, for time estimates only. */
-const FLOPS_PER_SECOND = 2e8;
 
 /** Memory a case may count on: what is free, kept below 80 % for the rest of the machine. */
 export function availableMemory(): number {
@@ -130,7 +129,7 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
     // --accept-large lifts the per-case time limit as it lifts the sweep's.
     const planOpts: PlannerOptions = opts.acceptLarge ? { ...opts, maxWork: Infinity } : opts;
     plans = cases.map((c) => planCase(c, planOpts));
-    const seconds = plans.reduce((s, p) => s + p.work, 0) / FLOPS_PER_SECOND;
+    const seconds = plans.reduce((s, p) => s + p.work, 0) / LIMITS.workPerSecond;
     if (!opts.acceptLarge && (cases.length > LARGE_SWEEP.cases || seconds > LARGE_SWEEP.seconds)) {
       return refuse(
         `the sweeps make ${cases.length} cases, estimated at ${trimNumber(seconds / 3600, 3)} CPU hours ` +
