@@ -386,6 +386,17 @@ export function rsCellCount2D(a: Aperture, ill: Illumination, wavelength: number
   const ri = a.shape === 'annulus' ? a.inner / 2 : 0;
   const half = pitch / 2;
   const extent = Math.min(ro, light.reach);
+  const round = light.alpha === 0 && light.beta === 0;
+  // Counting cell by cell costs as much as building them; where that is millions, the counts
+  // follow from the area and the rim (each rim cell is an edge cell; the rest of the area is boxes),
+  // which is what the planner's cost needs. (Such a source is far beyond the work limit anyway.)
+  const approxCells = (Math.PI * (extent * extent - Math.min(ri, extent) ** 2)) / (pitch * pitch);
+  if (approxCells > 4e6) {
+    const rim = (2 * Math.PI * (extent + (ri < extent ? ri : 0))) / pitch;
+    const edgeN = Math.ceil(1.3 * rim);
+    const boxN = Math.max(0, Math.ceil(approxCells - rim / 2));
+    return { ...base, box: boxN, edge: edgeN, round, radius: round ? extent : 0, boxUpperHalf: Math.ceil(boxN / 2), edgeUpperHalf: Math.ceil(edgeN / 2) };
+  }
   let box = 0;
   let edge = 0;
   let boxUpper = 0;
@@ -408,6 +419,5 @@ export function rsCellCount2D(a: Aperture, ill: Illumination, wavelength: number
       }
     }
   }
-  const round = light.alpha === 0 && light.beta === 0;
   return { ...base, box, edge, round, radius: round ? extent : 0, boxUpperHalf: boxUpper, edgeUpperHalf: edgeUpper };
 }
