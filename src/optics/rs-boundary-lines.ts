@@ -12,7 +12,7 @@
 // the distance √(u² + R_c²) to the branch points of R at u = ±i·R_c. On each panel the integrand is
 // sampled at n Gauss–Legendre nodes and the antiderivative of the interpolant kept as Chebyshev
 // coefficients (rs-boundary-rules.ts), so that a reading costs a binary search and a Clenshaw sum.
-import { antiderivativeMap, glRule } from './rs-boundary-rules.js';
+import { glRule, integrateChebyshev, interpolantMap } from './rs-boundary-rules.js';
 
 export interface LineRule {
   /** Nodes per panel. */
@@ -25,7 +25,12 @@ export interface LineRule {
 /** A reusable table (its arrays grow as needed; nothing is allocated per reading). */
 export class LineTable {
   private readonly n: number;
-  private readonly M: Float64Array;
+  private readonly C: Float64Array;
+  private readonly sym: Float64Array;
+  private readonly anti: Float64Array;
+  private readonly cheb: Float64Array;
+  /** The panel of the last reading (readings come in runs of neighbouring s). */
+  private hint = 0;
   private readonly x: Float64Array;
   private readonly w: Float64Array;
   private readonly q: Float64Array;
@@ -46,7 +51,11 @@ export class LineTable {
   constructor(rule: LineRule) {
     this.rule = rule;
     this.n = rule.n;
-    this.M = antiderivativeMap(rule.n);
+    if (rule.n % 2 !== 0) throw new Error('LineTable: the node count must be even');
+    this.C = interpolantMap(rule.n);
+    this.sym = new Float64Array(rule.n);
+    this.anti = new Float64Array(rule.n);
+    this.cheb = new Float64Array(2 * rule.n);
     const gl = glRule(rule.n);
     this.x = gl.x;
     this.w = gl.w;
@@ -78,7 +87,8 @@ export class LineTable {
    */
   build(c: number, z: number, k: number, uLo: number, uHi: number): void {
     const n = this.n;
-    const { x, w, q, M, ph, amp, rest } = this;
+    const { x, w, q, C, ph, amp, rest, sym, anti, cheb } = this;
+    const nh = n >> 1;
     let bArr = this.b;
     let gArr = this.g;
     let coef = this.coef;
@@ -90,7 +100,6 @@ export class LineTable {
     const z2 = z * z;
     const kHalf = 0.5 * k;
     const twoZ = 2 * z;
-    const deg = n; // the antiderivative has degree n
     let u0 = uLo;
     let R = Math.sqrt(uLo * uLo + Rc2);
     let gr = 0;
@@ -139,20 +148,32 @@ export class LineTable {
         gArr = this.g;
         coef = this.coef;
       }
-      // Antiderivative coefficients of this panel (t units; a reading multiplies by half).
-      const base = p * 2 * (deg + 1);
-      for (let m = 0; m <= deg; m++) {
+      // The interpolant's Chebyshev coefficients from the nodal values, using the nodes' symmetry
+      // (even m from q_j + q_{n−1−j}, odd m from the difference: half the multiplications), then
+      // the antiderivative's (t units; a reading multiplies by half).
+      for (let j = 0; j < nh; j++) {
+        const jm = n - 1 - j;
+        sym[2 * j] = q[2 * j]! + q[2 * jm]!;
+        sym[2 * j + 1] = q[2 * j + 1]! + q[2 * jm + 1]!;
+        anti[2 * j] = q[2 * j]! - q[2 * jm]!;
+        anti[2 * j + 1] = q[2 * j + 1]! - q[2 * jm + 1]!;
+      }
+      for (let m = 0; m < n; m++) {
+        const src = (m & 1) === 0 ? sym : anti;
+        const row = m * n;
         let ar = 0;
         let ai = 0;
-        const row = m * n;
-        for (let j = 0; j < n; j++) {
-          const mj = M[row + j]!;
-          ar += mj * q[2 * j]!;
-          ai += mj * q[2 * j + 1]!;
+        for (let j = 0; j < nh; j++) {
+          const cj = C[row + j]!;
+          ar += cj * src[2 * j]!;
+          ai += cj * src[2 * j + 1]!;
         }
-        coef[base + 2 * m] = ar;
-        coef[base + 2 * m + 1] = ai;
+        cheb[2 * m] = ar;
+        cheb[2 * m + 1] = ai;
       }
+      const base = p * 2 * (n + 1);
+      integrateChebyshev(cheb, 0, n, coef, base);
+      integrateChebyshev(cheb, 1, n, coef, base + 1);
       gArr[2 * p] = gr;
       gArr[2 * p + 1] = gi;
       gr += half * sr;
@@ -163,6 +184,7 @@ export class LineTable {
       R = Math.sqrt(u1 * u1 + Rc2);
     }
     this.count = p;
+    this.hint = 0;
   }
 
   /** Adds weight·G(s) to acc[off], acc[off + 1] (uLo ≤ |s| ≤ uHi of the build). */
@@ -171,13 +193,22 @@ export class LineTable {
     const b = this.b;
     const count = this.count;
     if (count === 0) return;
-    // The panel holding u: b[lo] ≤ u < b[lo + 1].
-    let lo = 0;
-    let hi = count;
-    while (hi - lo > 1) {
-      const mid = (lo + hi) >> 1;
-      if (b[mid]! <= u) lo = mid;
-      else hi = mid;
+    // The panel holding u (b[lo] ≤ u ≤ b[lo + 1]): the last one or a neighbour, else a binary search.
+    let lo = this.hint;
+    if (lo >= count) lo = count - 1;
+    if (!(b[lo]! <= u && u <= b[lo + 1]!)) {
+      if (lo + 1 < count && u >= b[lo + 1]! && u <= b[lo + 2]!) lo++;
+      else if (lo > 0 && u >= b[lo - 1]! && u <= b[lo]!) lo--;
+      else {
+        lo = 0;
+        let hi = count;
+        while (hi - lo > 1) {
+          const mid = (lo + hi) >> 1;
+          if (b[mid]! <= u) lo = mid;
+          else hi = mid;
+        }
+      }
+      this.hint = lo;
     }
     const b0 = b[lo]!;
     const b1 = b[lo + 1]!;
@@ -229,4 +260,90 @@ export function lineTableCount(c: number, z: number, k: number, uLo: number, uHi
     R = Math.sqrt(u1 * u1 + Rc2);
   }
   return p * rule.n;
+}
+
+// --- One edge at one output point ------------------------------------------------------------
+//
+// Where a table would integrate far more than the edges themselves (an output row much wider than
+// the edges, as in the far field, or the gaps between a grating's lines), each open stretch of the
+// line is integrated for each output point: Gauss–Legendre panels stepped in R from the end
+// nearer the foot's projection, as in the tables.
+
+const MAX_NODES = 64;
+const PH = new Float64Array(MAX_NODES);
+const AMP = new Float64Array(MAX_NODES);
+const REST = new Float64Array(MAX_NODES);
+
+/**
+ * ∫_{uA}^{uB} c·K(c² + u²) du for 0 ≤ uA ≤ uB, added to out[off], out[off + 1] times weight. Returns the
+ * kernel evaluations.
+ */
+export function lineIntegral(c: number, z: number, k: number, uA: number, uB: number, rule: LineRule, weight: number, out: Float64Array, off: number): number {
+  const n = rule.n;
+  if (n > MAX_NODES) throw new Error(`lineIntegral: at most ${MAX_NODES} nodes per panel`);
+  const { x, w } = glRule(n);
+  const c2 = c * c;
+  const z2 = z * z;
+  const Rc2 = c2 + z2;
+  const Rc = Math.sqrt(Rc2);
+  const dR = rule.phase / k;
+  const kHalf = 0.5 * k;
+  const twoZ = 2 * z;
+  let u0 = uA;
+  let R = Math.sqrt(uA * uA + Rc2);
+  let re = 0;
+  let im = 0;
+  let ev = 0;
+  while (u0 < uB) {
+    const Rn = R + dR;
+    let u1 = Math.sqrt((Rn - Rc) * (Rn + Rc));
+    const cap = rule.beta * Math.sqrt(u0 * u0 + Rc2);
+    if (u1 > u0 + cap) u1 = u0 + cap;
+    if (u1 > uB) u1 = uB;
+    const half = 0.5 * (u1 - u0);
+    const mid = 0.5 * (u1 + u0);
+    for (let j = 0; j < n; j++) {
+      const u = mid + half * x[j]!;
+      const rho2 = c2 + u * u;
+      const Rr = Math.sqrt(rho2 + z2);
+      const S = Rr + z;
+      const RR = Rr * rho2;
+      const inv = 1 / (S * RR);
+      const iS = RR * inv;
+      PH[j] = kHalf * rho2 * iS;
+      AMP[j] = w[j]! * half * c * S * inv;
+      REST[j] = rho2 * iS;
+    }
+    for (let j = 0; j < n; j++) {
+      const sn = Math.sin(PH[j]!);
+      const cs = Math.cos(PH[j]!);
+      const f = AMP[j]!;
+      const A = twoZ * sn;
+      re += f * (-A * sn - REST[j]!);
+      im += f * A * cs;
+    }
+    ev += n;
+    u0 = u1;
+    R = Math.sqrt(u1 * u1 + Rc2);
+  }
+  out[off] = out[off]! + weight * re;
+  out[off + 1] = out[off + 1]! + weight * im;
+  return ev;
+}
+
+/**
+ * ∫_{sA}^{sB} c·K(c² + u²) du for any sA ≤ sB (the integrand is even in u: a stretch across the
+ * foot's projection is split there, where the phase is stationary). Returns the evaluations.
+ */
+export function stretchIntegral(c: number, z: number, k: number, sA: number, sB: number, rule: LineRule, weight: number, out: Float64Array, off: number): number {
+  if (sA >= 0) return lineIntegral(c, z, k, sA, sB, rule, weight, out, off);
+  if (sB <= 0) return lineIntegral(c, z, k, -sB, -sA, rule, weight, out, off);
+  return lineIntegral(c, z, k, 0, -sA, rule, weight, out, off) + lineIntegral(c, z, k, 0, sB, rule, weight, out, off);
+}
+
+/** Kernel evaluations stretchIntegral makes. */
+export function stretchIntegralCount(c: number, z: number, k: number, sA: number, sB: number, rule: LineRule): number {
+  if (sA >= 0) return lineTableCount(c, z, k, sA, sB, rule);
+  if (sB <= 0) return lineTableCount(c, z, k, -sB, -sA, rule);
+  return lineTableCount(c, z, k, 0, -sA, rule) + lineTableCount(c, z, k, 0, sB, rule);
 }

@@ -37,7 +37,7 @@
 import { type Aperture } from './aperture.js';
 import { axisAt, createField, type Axis, type Field } from './field.js';
 import { discContour, discContourCount, type DiscRule } from './rs-boundary-disc.js';
-import { LineTable, lineTableCount, type LineRule } from './rs-boundary-lines.js';
+import { LineTable, lineTableCount, stretchIntegral, stretchIntegralCount, type LineRule } from './rs-boundary-lines.js';
 import { gaussPhaseLimit, lagrangeStepLimit, partialPhaseLimit } from './rs-boundary-rules.js';
 
 export type BoundaryRegion =
@@ -97,6 +97,12 @@ interface Lines {
   /** End coordinates along the line and their weights. */
   ends: Float64Array;
   weights: Float64Array;
+  /**
+   * The same as open stretches of the line, triples (from, to, weight): with the ends sorted and
+   * C_m the sum of the first m weights, Σ_e w_e·G(e − v) = −Σ_m C_m·[G(e_{m+1} − v) − G(e_m − v)]
+   * (summation by parts; the weights sum to 0), and each bracket is ∫ over the stretch.
+   */
+  stretches: Float64Array;
 }
 
 interface BoundaryPlan {
@@ -108,6 +114,7 @@ interface BoundaryPlan {
   vertical: Lines[];
   discRule: DiscRule;
   lineRule: LineRule;
+  directRule: LineRule;
   /** Kept output index ranges [start, end) per axis, and whether mirrored. */
   xs: [number, number];
   ys: [number, number];
@@ -184,7 +191,19 @@ function collectLines(rects: Extract<BoundaryRegion, { kind: 'rect' }>[], horizo
   for (const [at, m] of map) {
     const entries = [...m].filter(([, w]) => w !== 0);
     if (entries.length === 0) continue;
-    out.push({ at, ends: Float64Array.from(entries.map((e) => e[0])), weights: Float64Array.from(entries.map((e) => e[1])) });
+    entries.sort((p, q) => p[0] - q[0]);
+    const stretches: number[] = [];
+    let cum = 0;
+    for (let m = 0; m + 1 < entries.length; m++) {
+      cum += entries[m]![1];
+      if (cum !== 0) stretches.push(entries[m]![0], entries[m + 1]![0], -cum);
+    }
+    out.push({
+      at,
+      ends: Float64Array.from(entries.map((e) => e[0])),
+      weights: Float64Array.from(entries.map((e) => e[1])),
+      stretches: Float64Array.from(stretches),
+    });
   }
   return out;
 }
@@ -219,6 +238,7 @@ function plan(regions: BoundaryRegion[], wavelength: number, z: number, outX: Ax
   const eps = Math.min(EPS_CEIL, Math.max(EPS_FLOOR, tol * scale * QUAD_SHARE));
   const discRule: DiscRule = { n: DISC_NODES, phase: PHASE_SAFETY * gaussPhaseLimit(DISC_NODES, eps), beta: BETA };
   const lineRule: LineRule = { n: LINE_NODES, phase: PHASE_SAFETY * partialPhaseLimit(LINE_NODES, eps), beta: BETA };
+  const directRule: LineRule = { n: DISC_NODES, phase: discRule.phase, beta: BETA };
 
   const useSym = opts.symmetry ?? true;
   const mirrorX = useSym && outX.n > 1 && axisSymmetric(outX) && rectsSymmetric(rects, true);
@@ -256,6 +276,7 @@ function plan(regions: BoundaryRegion[], wavelength: number, z: number, outX: Ax
     vertical: collectLines(rects, false),
     discRule,
     lineRule,
+    directRule,
     xs,
     ys,
     mirrorX,
@@ -340,6 +361,76 @@ function readingRange(ends: Float64Array, first: number, last: number, out: Floa
   } else {
     out[0] = 0;
     out[1] = Math.max(-lo, hi) + pad;
+  }
+}
+
+/** Work of the two ways of doing one line for one output row or column (see linePlan). */
+interface LineChoice {
+  table: boolean;
+  evaluations: number;
+  readings: number;
+}
+
+/** Outputs sampled to estimate the direct path's work. */
+const DIRECT_SAMPLES = 8;
+
+/**
+ * Whether a table or direct integration is cheaper for this line at offset c, for the outputs
+ * along[a0..a1), and the kernel evaluations and readings that choice makes (the table's exactly,
+ * the direct path's estimated from a few outputs).
+ */
+function linePlan(p: BoundaryPlan, line: Lines, c: number, z: number, along: Axis, a0: number, a1: number, span: Float64Array): LineChoice {
+  const nOut = a1 - a0;
+  readingRange(line.ends, axisAt(along, a0), axisAt(along, a1 - 1), span);
+  const tableEvals = lineTableCount(c, z, p.k, span[0]!, span[1]!, p.lineRule);
+  const readings = line.ends.length * nOut;
+  const tableWork = RSB_TABLE_EVAL_WORK * tableEvals + RSB_READ_WORK * readings;
+  const st = line.stretches;
+  const samples = Math.min(nOut, DIRECT_SAMPLES);
+  let direct = 0;
+  for (let q = 0; q < samples && RSB_EVAL_WORK * direct * (nOut / samples) < tableWork; q++) {
+    const v = axisAt(along, a0 + Math.floor(((q + 0.5) * nOut) / samples));
+    for (let m = 0; m < st.length; m += 3) direct += stretchIntegralCount(c, z, p.k, st[m]! - v, st[m + 1]! - v, p.directRule);
+  }
+  const directEvals = (direct * nOut) / samples;
+  if (RSB_EVAL_WORK * directEvals < tableWork) return { table: false, evaluations: directEvals, readings: 0 };
+  return { table: true, evaluations: tableEvals, readings };
+}
+
+/** One line at offset c for the outputs along[a0..a1), written at data[base + stride·(idx − a0)]... (see callers). */
+function doLine(
+  p: BoundaryPlan,
+  line: Lines,
+  c: number,
+  z: number,
+  along: Axis,
+  a0: number,
+  a1: number,
+  base: number,
+  stride: number,
+  table: LineTable,
+  span: Float64Array,
+  data: Float64Array,
+  stats: RsBoundaryStats,
+): void {
+  const factor = -1 / (2 * Math.PI);
+  const choice = linePlan(p, line, c, z, along, a0, a1, span);
+  if (choice.table) {
+    table.build(c, z, p.k, span[0]!, span[1]!);
+    // Ends outermost: the readings of a run move monotonically through the table.
+    for (let e = 0; e < line.ends.length; e++) {
+      const end = line.ends[e]!;
+      const wgt = factor * line.weights[e]!;
+      for (let a = a0; a < a1; a++) table.addAt(end - axisAt(along, a), wgt, data, base + stride * a);
+    }
+    stats.readings += choice.readings;
+  } else {
+    const st = line.stretches;
+    for (let a = a0; a < a1; a++) {
+      const v = axisAt(along, a);
+      for (let m = 0; m < st.length; m += 3)
+        stats.evaluations += stretchIntegral(c, z, p.k, st[m]! - v, st[m + 1]! - v, p.directRule, factor * st[m + 2]!, data, base + stride * a);
+    }
   }
 }
 
@@ -441,42 +532,23 @@ export function rsBoundaryWithStats(
     }
   }
 
-  // Straight edges: a table per line and output row (horizontal lines) or column (vertical).
+  // Straight edges, per line and output row (horizontal lines) or column (vertical): a table read
+  // at every output, or each open stretch integrated at each output, whichever is cheaper.
   if (p.horizontal.length + p.vertical.length > 0) {
     const table = new LineTable(p.lineRule);
-    const factor = -1 / (2 * Math.PI);
-    const xFirst = axisAt(outX, x0);
-    const xLast = axisAt(outX, x1 - 1);
-    const yFirst = axisAt(outY, y0);
-    const yLast = axisAt(outY, y1 - 1);
     const span = new Float64Array(2);
     for (const line of p.horizontal) {
-      readingRange(line.ends, xFirst, xLast, span);
-      const ne = line.ends.length;
       for (let i = y0; i < y1; i++) {
         const c = line.at - axisAt(outY, i);
         if (c === 0) continue; // the foot is on the line: its edges subtend no angle
-        table.build(c, z, p.k, span[0]!, span[1]!);
-        const row = 2 * i * nx;
-        for (let j = x0; j < x1; j++) {
-          const x = axisAt(outX, j);
-          for (let e = 0; e < ne; e++) table.addAt(line.ends[e]! - x, factor * line.weights[e]!, data, row + 2 * j);
-        }
-        stats.readings += ne * (x1 - x0);
+        doLine(p, line, c, z, outX, x0, x1, 2 * i * nx, 2, table, span, data, stats);
       }
     }
     for (const line of p.vertical) {
-      readingRange(line.ends, yFirst, yLast, span);
-      const ne = line.ends.length;
       for (let j = x0; j < x1; j++) {
         const c = line.at - axisAt(outX, j);
         if (c === 0) continue;
-        table.build(c, z, p.k, span[0]!, span[1]!);
-        for (let i = y0; i < y1; i++) {
-          const y = axisAt(outY, i);
-          for (let e = 0; e < ne; e++) table.addAt(line.ends[e]! - y, factor * line.weights[e]!, data, 2 * (i * nx + j));
-        }
-        stats.readings += ne * (y1 - y0);
+        doLine(p, line, c, z, outY, y0, y1, 2 * j, 2 * nx, table, span, data, stats);
       }
     }
     stats.evaluations += table.evaluations;
@@ -525,6 +597,8 @@ export function rsBoundaryWithStats(
 
 /** Work of one kernel evaluation (a square root, two divisions, a sine and a cosine, ~20 flops). */
 export const RSB_EVAL_WORK = 40;
+/** Work of one kernel evaluation in a line table (with the panel's Chebyshev coefficients). */
+export const RSB_TABLE_EVAL_WORK = 60;
 /** Work of one line-table reading (binary search, two Clenshaw sums of 17 terms). */
 export const RSB_READ_WORK = 40;
 /** Work of one interpolated output point (20-point barycentric Lagrange, complex). */
@@ -585,24 +659,34 @@ export function costRsBoundary(
       evaluations += (sum / Math.max(is.length, js.length)) * p.keptPoints;
     }
   }
+  let tableEvaluations = 0;
   const lines = (list: Lines[], along: Axis, a0: number, a1: number, across: Axis, b0: number, b1: number) => {
     const span = new Float64Array(2);
     for (const line of list) {
-      readingRange(line.ends, axisAt(along, a0), axisAt(along, a1 - 1), span);
       const bs = sampleIndices(b0, b1);
-      let sum = 0;
+      let ev = 0;
+      let tev = 0;
+      let rd = 0;
       for (const b of bs) {
         const c = line.at - axisAt(across, b);
-        if (c !== 0) sum += lineTableCount(c, z, p.k, span[0]!, span[1]!, p.lineRule);
+        if (c === 0) continue;
+        const choice = linePlan(p, line, c, z, along, a0, a1, span);
+        if (choice.table) tev += choice.evaluations;
+        else ev += choice.evaluations;
+        rd += choice.readings;
       }
-      evaluations += (sum / bs.length) * (b1 - b0);
-      readings += line.ends.length * (a1 - a0) * (b1 - b0);
+      const scale = (b1 - b0) / bs.length;
+      evaluations += ev * scale;
+      tableEvaluations += tev * scale;
+      readings += rd * scale;
     }
   };
   lines(p.horizontal, outX, x0, x1, outY, y0, y1);
   lines(p.vertical, outY, y0, y1, outX, x0, x1);
   const points = outX.n * outY.n;
-  const work = RSB_EVAL_WORK * evaluations + RSB_READ_WORK * readings + RSB_INTERP_WORK * interpolated + RSB_POINT_WORK * points;
+  const work =
+    RSB_EVAL_WORK * evaluations + RSB_TABLE_EVAL_WORK * tableEvaluations + RSB_READ_WORK * readings + RSB_INTERP_WORK * interpolated + RSB_POINT_WORK * points;
+  evaluations += tableEvaluations;
   const memory = RSB_BASE_MEMORY + 16 * points + (p.radial ? 16 * (p.radial.mHi - p.radial.mLo + 1) : 0);
   return { work, memory, evaluations, readings, interpolated };
 }
