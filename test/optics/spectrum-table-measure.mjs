@@ -27,13 +27,9 @@ try {
   const { propagateFarField } = await server.ssrLoadModule('/src/optics/direct.ts');
   const st = await server.ssrLoadModule('/src/optics/spectrum-table.ts');
   console.log(`WebAssembly FFT kernel: ${loadFastKernels()}`);
-  const k = Number(process.argv[2] ?? 10);
+  const every = Number(process.argv[2] ?? 10);
   const deg = Math.PI / 180;
-  const lam = 4.755e-6;
-  const z = 1.776;
-  const tilt = 29 * deg;
-  const carrier = [Math.sin(tilt) / lam, 0];
-  const half = z * Math.tan(40 * deg);
+  const half = 1.776 * Math.tan(40 * deg);
   const cases = [
     {
       // Window ±40° about the axis, 401²; source pitch 1/(4·f_max) per axis (the planner's far-field
@@ -52,10 +48,28 @@ try {
       grid: [1.567e-6, 2.009e-6, 343, 241],
       out: [centredAxis(1503, 2.9806 / 1502, 0.9845), centredAxis(1351, 2.9806 / 1350)],
     },
+    {
+      // A large source: a 600 µm disc lit at 20° by a plane wave at 1 µm, sampled at λ/4 (2404² samples),
+      // on a 401² window ±30° about the beam at 1 m; whole, and cut into tiles by a 64 MiB limit.
+      name: '600 µm disc, plane wave at 1 µm, 20°, window ±30° about the beam as 401²',
+      wavelength: 1e-6,
+      z: 1,
+      tilt: 20 * deg,
+      light: 'plane',
+      aperture: { shape: 'circle', diameter: 600e-6, opaque: false },
+      grid: [0.25e-6, 0.25e-6, 2404, 2404],
+      out: [centredAxis(401, (2 * Math.tan(30 * deg)) / 400, Math.tan(20 * deg)), centredAxis(401, (2 * Math.tan(30 * deg)) / 400)],
+      every: 40,
+      limits: [undefined, 64 * 2 ** 20],
+    },
   ];
   for (const c of cases) {
     const [dx, dy, nx, ny] = c.grid;
-    const ill = { kind: 'gaussian', waist: 79e-6, tilt: [tilt, 0] };
+    const lam = c.wavelength ?? 4.755e-6;
+    const z = c.z ?? 1.776;
+    const tilt = c.tilt ?? 29 * deg;
+    const carrier = [Math.sin(tilt) / lam, 0];
+    const ill = c.light === 'plane' ? { kind: 'plane', tilt: [tilt, 0] } : { kind: 'gaussian', waist: 79e-6, tilt: [tilt, 0] };
     const src = sourceField2D(c.aperture, ill, centredAxis(nx, dx), centredAxis(ny, dy), lam, {
       sampleCarrier: false,
       obstructed: c.aperture.opaque,
@@ -63,35 +77,38 @@ try {
     const [outX, outY] = c.out;
     const points = outX.n * outY.n;
     const band = st.farFieldBand(outX, outY, z, lam, carrier);
-    const cost = st.costFarFieldTable({ nx, ny, dx, dy }, band, points);
-    let t = performance.now();
-    const table = st.tabulateSpectrum2D(src, band);
-    const tTable = performance.now() - t;
-    t = performance.now();
-    const full = st.farFieldByTable(src, z, outX, outY, carrier);
-    const tFull = performance.now() - t;
+    const k = c.every ?? every;
     const subX = { n: Math.floor((outX.n - 1) / k) + 1, start: outX.start, step: k * outX.step };
     const subY = { n: Math.floor((outY.n - 1) / k) + 1, start: outY.start, step: k * outY.step };
-    t = performance.now();
+    let t = performance.now();
     const ref = propagateFarField(src, z, subX, subY, carrier);
     const tRef = performance.now() - t;
-    let peak = 0;
-    let diff = 0;
-    for (let r = 0; r < subY.n; r++) {
-      for (let col = 0; col < subX.n; col++) {
-        const i = 2 * (r * subX.n + col);
-        const j = 2 * (r * k * outX.n + col * k);
-        peak = Math.max(peak, Math.hypot(ref.data[i], ref.data[i + 1]));
-        diff = Math.max(diff, Math.hypot(ref.data[i] - full.data[j], ref.data[i + 1] - full.data[j + 1]));
-      }
-    }
     const scaled = (tRef / (subX.n * subY.n)) * points;
     console.log(`\n${c.name}`);
     console.log(`  source ${nx} × ${ny} samples; ${points} points; band fx [${band.fx.map((f) => (f * lam).toFixed(3)).join(', ')}]/λ, fy [${band.fy.map((f) => (f * lam).toFixed(3)).join(', ')}]/λ`);
-    console.log(`  table ${table.nx} × ${table.ny} entries (${table.mode.join('/')}), order ${table.order}, bound ${table.errorBound.toExponential(2)} of Σ|U|ΔA: ${tTable.toFixed(0)} ms`);
-    console.log(`  farFieldByTable on the whole window: ${tFull.toFixed(0)} ms (estimate ${(cost.work / 2e8 * 1000).toFixed(0)} ms at 2e8 units/s, ${(cost.memory / 2 ** 20).toFixed(1)} MiB)`);
     console.log(`  propagateFarField on every ${k}th point (${subX.n} × ${subY.n}): ${tRef.toFixed(0)} ms, so about ${(scaled / 1000).toFixed(0)} s on the whole window (planner's estimate ${((8 * nx * ny * points) / 2e8).toFixed(0)} s)`);
-    console.log(`  largest difference on those points: ${(diff / peak).toExponential(2)} of their peak |U|`);
+    for (const maxMemory of c.limits ?? [undefined]) {
+      const opts = maxMemory ? { maxMemory } : {};
+      const cost = st.costFarFieldTable({ nx, ny, dx, dy }, band, points, opts);
+      const rss0 = process.memoryUsage().rss;
+      t = performance.now();
+      const full = st.farFieldByTable(src, z, outX, outY, carrier, opts);
+      const tFull = performance.now() - t;
+      const rss1 = process.memoryUsage().rss;
+      let peak = 0;
+      let diff = 0;
+      for (let r = 0; r < subY.n; r++) {
+        for (let col = 0; col < subX.n; col++) {
+          const i = 2 * (r * subX.n + col);
+          const j = 2 * (r * k * outX.n + col * k);
+          peak = Math.max(peak, Math.hypot(ref.data[i], ref.data[i + 1]));
+          diff = Math.max(diff, Math.hypot(ref.data[i] - full.data[j], ref.data[i + 1] - full.data[j + 1]));
+        }
+      }
+      console.log(`  farFieldByTable${maxMemory ? ` (limit ${maxMemory / 2 ** 20} MiB)` : ''}: ${cost.tiles.join(' × ')} tile(s) of ${cost.entries.join(' × ')} entries (${cost.mode.join('/')}), bound ${cost.errorBound.toExponential(2)} of Σ|U|ΔA`);
+      console.log(`    ${tFull.toFixed(0)} ms (estimate ${((cost.work / 2e8) * 1000).toFixed(0)} ms at 2e8 units/s; memory estimate ${(cost.memory / 2 ** 20).toFixed(1)} MiB, resident set grew ${((rss1 - rss0) / 2 ** 20).toFixed(0)} MiB)`);
+      console.log(`    largest difference from the direct sums on their points: ${(diff / peak).toExponential(2)} of their peak |U|`);
+    }
   }
 } finally {
   await server.close();
