@@ -65,7 +65,14 @@ export interface SpectrumTableOptions {
   step?: [number, number];
   /** Transform per axis instead of the cheaper one (for tests). */
   mode?: [AxisMode, AxisMode];
-  /** Divide the cell response sinc(fxΔξ)·sinc(fyΔη) out when interpolating (default true). */
+  /**
+   * Divide the cell response sinc(fxΔξ)·sinc(fyΔη) out when interpolating (default true, as
+   * propagateFarField does). That convention is exact only for a blurred-then-sampled source; the
+   * tests measure what it does elsewhere: a point-sampled smooth envelope (a Gaussian beam) gains
+   * 1/sinc per axis (its power Δ²/(6w²)), and a mask whose edges lie on cell boundaries, whose sum is
+   * exactly Â/sinc per axis, is left off by sinc² ((πfΔ)²/3 relative at f). Both are small against
+   * the peak at the planner's pitches, not against the local intensity far out in the wings.
+   */
   divideCellResponse?: boolean;
 }
 
