@@ -9,6 +9,7 @@ import { nextPowerOfTwo } from '../optics/fft.js';
 import { directionCosines } from '../optics/source.js';
 import { bandLimitFrequency } from '../optics/spectral.js';
 import { mappingError } from '../optics/direct.js';
+import { costFarFieldTable, farFieldBand } from '../optics/spectrum-table.js';
 import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor } from '../optics/shifted-spectrum.js';
 import { formatLength, trimNumber } from '../job/units.js';
 import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOption, Plan, Regime, Warning } from './types.js';
@@ -862,7 +863,9 @@ function costFarField(axes: AxisPlan[], layout: Layout, g: Geometry, c: Case): {
   if (mappingError([x.apertureHalf, y.apertureHalf], g.z, outX, outY, g.lam) <= 1e-4) {
     return { memory: mem, work: 8 * (nin * x.output.n + y.output.n * y.inputSamples * x.output.n) + 40 * m };
   }
-  return { memory: mem, work: 8 * nin * m + 40 * m };
+  // Wide windows: the spectrum tabulated once and interpolated (spectrum-table.ts).
+  const t = costFarFieldTable({ nx: x.inputSamples, ny: y.inputSamples, dx: x.inputPitch, dy: y.inputPitch }, farFieldBand(outX, outY, g.z, g.lam, g.carrier), m);
+  return { memory: BASELINE_MEMORY + 32 * nin + t.memory + 64 * m, work: t.work + 40 * m };
 }
 
 function samplingReasons(method: MethodName, form: MethodForm | undefined, axes: AxisPlan[], oneD: boolean): string[] {
