@@ -219,8 +219,8 @@ function openArea(regions: BoundaryRegion[]): number {
 
 /** The range of |v| over axis samples [i0, i1). */
 function absRange(a: Axis, i0: number, i1: number): [number, number] {
-  const v0 = axisAt(a, i0);
-  const v1 = axisAt(a, i1 - 1);
+  const v0 = Math.min(axisAt(a, i0), axisAt(a, i1 - 1));
+  const v1 = Math.max(axisAt(a, i0), axisAt(a, i1 - 1));
   const lo = v0 <= 0 && v1 >= 0 ? 0 : Math.min(Math.abs(v0), Math.abs(v1));
   return [lo, Math.max(Math.abs(v0), Math.abs(v1))];
 }
@@ -257,11 +257,17 @@ function plan(regions: BoundaryRegion[], wavelength: number, z: number, outX: Ax
     const rhoMin = Math.hypot(xlo, ylo);
     const rhoMax = Math.hypot(xhi, yhi);
     const aMax = Math.max(...discs.map((d) => d.radius));
-    const D = rhoMax + aMax;
-    const sinMax = D / Math.hypot(D, z);
+    // The table holds V(ρ) = U(ρ)·e^{−ik(r − z)}, r = √(ρ² + z²): the field less the spherical phase
+    // of a wave from the centre. A boundary point b contributes e^{ikR_b}, so V's local rate along
+    // ρ is k times (ρ − b_ρ)/R_b − ρ/r. With s(u) = u/√(u² + z²): at most s(ρ + a) + s(ρ), and, as
+    // |s′| ≤ 1/z and the offset of b across the ray changes R_b's height by b²/2z at most, also at
+    // most a/z + 0.2(a/z)². In the far field the second is the Airy pattern's own scale.
+    const s = (u: number) => u / Math.hypot(u, z);
+    const ratio = aMax / z;
+    const rate = Math.min(s(rhoMax + aMax) + s(rhoMax), ratio + 0.2 * ratio * ratio);
     const interpEps = Math.max(1e-12, (tol * INTERP_SHARE) / 2);
     const wh = lagrangeStepLimit(LAGRANGE_POINTS, interpEps);
-    const h = Math.min(wh / (k * sinMax), PITCH_OVER_Z * z);
+    const h = Math.min(wh / (k * rate), PITCH_OVER_Z * z);
     const half = LAGRANGE_POINTS / 2;
     const mLo = Math.max(0, Math.floor(rhoMin / h) - half);
     const mHi = Math.ceil(rhoMax / h) + half;
@@ -434,6 +440,21 @@ function doLine(
   }
 }
 
+/** k(r − z), r = √(ρ² + z²), without cancellation. */
+function sphericalPhase(rho: number, z: number, k: number): number {
+  return (k * rho * rho) / (Math.hypot(rho, z) + z);
+}
+
+/** Multiplies the complex value at a[o] by e^{iφ}. */
+function rotate(a: Float64Array, o: number, phi: number): void {
+  const c = Math.cos(phi);
+  const s = Math.sin(phi);
+  const re = a[o]!;
+  const im = a[o + 1]!;
+  a[o] = re * c - im * s;
+  a[o + 1] = re * s + im * c;
+}
+
 /** Barycentric weights of p equally spaced nodes: (−1)^j·C(p − 1, j). */
 function equispacedWeights(p: number): Float64Array {
   const w = new Float64Array(p);
@@ -479,7 +500,11 @@ export function rsBoundaryWithStats(
     if (p.radial) {
       const { h, mLo, mHi } = p.radial;
       const table = new Float64Array(2 * (mHi - mLo + 1));
-      for (let m = mLo; m <= mHi; m++) stats.evaluations += discsAt(p, m * h, z, tmp, table, 2 * (m - mLo));
+      for (let m = mLo; m <= mHi; m++) {
+        const o = 2 * (m - mLo);
+        stats.evaluations += discsAt(p, m * h, z, tmp, table, o);
+        rotate(table, o, -sphericalPhase(m * h, z, p.k));
+      }
       stats.radii = mHi - mLo + 1;
       const P = LAGRANGE_POINTS;
       const bw = equispacedWeights(P);
@@ -491,7 +516,7 @@ export function rsBoundaryWithStats(
           let nr = 0;
           let ni = 0;
           let den = 0;
-          let exact = -1;
+          let exact = -Infinity;
           for (let q = 0; q < P; q++) {
             const m = first + q;
             const dx = rho - m;
@@ -506,14 +531,21 @@ export function rsBoundaryWithStats(
             den += c;
           }
           const o = 2 * (i * nx + j);
-          if (exact >= 0) {
-            const idx = 2 * (exact - mLo);
-            data[o] = data[o]! + table[idx]!;
-            data[o + 1] = data[o + 1]! + table[idx + 1]!;
+          let vr: number;
+          let vi: number;
+          if (exact !== -Infinity) {
+            const idx = 2 * ((exact < 0 ? -exact : exact) - mLo);
+            vr = table[idx]!;
+            vi = table[idx + 1]!;
           } else {
-            data[o] = data[o]! + nr / den;
-            data[o + 1] = data[o + 1]! + ni / den;
+            vr = nr / den;
+            vi = ni / den;
           }
+          const ph = sphericalPhase(rho * h, z, p.k);
+          const c = Math.cos(ph);
+          const sn = Math.sin(ph);
+          data[o] = data[o]! + vr * c - vi * sn;
+          data[o + 1] = data[o + 1]! + vr * sn + vi * c;
         }
       }
       stats.interpolated = p.keptPoints;
@@ -651,12 +683,8 @@ export function costRsBoundary(
       const is = sampleIndices(y0, y1);
       const js = sampleIndices(x0, x1);
       let sum = 0;
-      for (let q = 0; q < Math.max(is.length, js.length); q++) {
-        const i = is[q % is.length]!;
-        const j = js[(q * 7) % js.length]!;
-        sum += perRadius(Math.hypot(axisAt(outX, j), axisAt(outY, i)));
-      }
-      evaluations += (sum / Math.max(is.length, js.length)) * p.keptPoints;
+      for (const i of is) for (const j of js) sum += perRadius(Math.hypot(axisAt(outX, j), axisAt(outY, i)));
+      evaluations += (sum / (is.length * js.length)) * p.keptPoints;
     }
   }
   let tableEvaluations = 0;
