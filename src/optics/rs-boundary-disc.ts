@@ -9,8 +9,12 @@
 // kernel's one sine and one cosine.
 //
 // Panels: the phase kR is monotonic on [0, π] (R grows with φ), with stationary points at both
-// ends; each panel takes a fixed step of R (the rule's phase limit), whose end is found in closed
-// form: sin²(φ/2) = (R − R₀)(R + R₀)/(4ad), R₀ = √(z² + (a − d)²). The kernel's only singularity
+// ends. A panel may hold the rule's phase limit Φ at the largest rate of phase it contains: width ×
+// max k·dR/dt ≤ Φ (a linear phase is what the limit was measured on; at a stationary end the
+// phase is quadratic and a step of Φ in phase would reach twice that rate). The end is first put
+// where R has grown by Φ/k (closed form: sin²(φ/2) = (R − R₀)(R + R₀)/(4ad), R₀ = √(z² + (a − d)²)),
+// then pulled in to Φ/(max rate): the rate dR/dt = 4ad·s·s′/R (s = sin(φ/2) as a function of t) is
+// single-peaked on [0, 1], so its maximum over a panel is at an end or at the peak, found once. The kernel's only singularity
 // near the real line is the branch point of R = √(ρ² + z²) at ρ² = −z², which in t lies on the
 // imaginary axis at i·tanh(τ/4), cosh τ = 1 + R₀²/(2ad); panels near t = 0 are kept within β times
 // their distance from it, and within β of the poles of 1/(1 + t²) at ±i.
@@ -36,20 +40,104 @@ export interface DiscRule {
  * K as in rs-boundary.ts (relative to e^{ikz}). Writes re, im into out[0], out[1]; returns the
  * number of kernel evaluations.
  */
+/** Reusable panel walker for one contour (no allocation per radius). */
+class DiscPanels {
+  private R0 = 0;
+  private R0sq = 0;
+  private ad4 = 0;
+  private tau = 1;
+  private D = 0;
+  private beta = 0.5;
+  private tPeak = 0.5;
+  private ratePeak = 0;
+
+  reset(a: number, d: number, z: number, k: number, rule: DiscRule): void {
+    const amd = a - d;
+    this.ad4 = 4 * a * d;
+    this.R0sq = z * z + amd * amd;
+    this.R0 = Math.sqrt(this.R0sq);
+    this.D = rule.phase / k;
+    this.beta = rule.beta;
+    // Branch point of R in t (imaginary part); none when d = 0 (the integrand is then constant).
+    const X = this.ad4 > 0 ? this.R0sq / (0.5 * this.ad4) : Infinity;
+    this.tau = Number.isFinite(X) ? Math.tanh(Math.acosh(1 + X) / 4) : 1;
+    // The rate's peak on [0, 1], by golden-section search (it is single-peaked).
+    if (this.ad4 > 0) {
+      let lo = 0;
+      let hi = 1;
+      const g = 0.6180339887498949;
+      let c = hi - g * (hi - lo);
+      let e = lo + g * (hi - lo);
+      let fc = this.rate(c);
+      let fe = this.rate(e);
+      for (let it = 0; it < 40; it++) {
+        if (fc > fe) {
+          hi = e;
+          e = c;
+          fe = fc;
+          c = hi - g * (hi - lo);
+          fc = this.rate(c);
+        } else {
+          lo = c;
+          c = e;
+          fc = fe;
+          e = lo + g * (hi - lo);
+          fe = this.rate(e);
+        }
+      }
+      this.tPeak = 0.5 * (lo + hi);
+      this.ratePeak = this.rate(this.tPeak);
+    }
+  }
+
+  /** dR/dt at t. */
+  rate(t: number): number {
+    const p1 = 1 + t * t;
+    const s = (2 * t) / p1;
+    const ds = (2 * (1 - t * t)) / (p1 * p1);
+    return (this.ad4 * s * ds) / Math.sqrt(this.R0sq + this.ad4 * s * s);
+  }
+
+  /** R at t. */
+  R(t: number): number {
+    const s = (2 * t) / (1 + t * t);
+    return Math.sqrt(this.R0sq + this.ad4 * s * s);
+  }
+
+  /** The end of the panel that starts at t0. */
+  next(t0: number): number {
+    let t1 = 1;
+    if (this.ad4 > 0) {
+      const Rn = this.R(t0) + this.D;
+      const R0 = this.R0;
+      const s2 = ((Rn - R0) * (Rn + R0)) / this.ad4;
+      t1 = s2 >= 1 ? 1 : Math.sqrt(s2) / (1 + Math.sqrt(1 - s2));
+      let rm = Math.max(this.rate(t0), this.rate(t1));
+      if (this.tPeak > t0 && this.tPeak < t1) rm = Math.max(rm, this.ratePeak);
+      if ((t1 - t0) * rm > this.D) t1 = t0 + this.D / rm;
+    }
+    const cap = this.beta * Math.min(1, Math.sqrt(t0 * t0 + this.tau * this.tau));
+    if (t1 > t0 + cap) t1 = t0 + cap;
+    if (t1 > 1 || 1 - t1 < 1e-12) t1 = 1;
+    return t1;
+  }
+}
+
+const walker = new DiscPanels();
+
+/**
+ * ∮ K(ρ²)·ρ² dψ around the circle (counter-clockwise) for the foot at distance d from its centre,
+ * K as in rs-boundary.ts (relative to e^{ikz}). Writes re, im into out[0], out[1]; returns the
+ * number of kernel evaluations.
+ */
 export function discContour(a: number, d: number, z: number, k: number, rule: DiscRule, out: Float64Array): number {
   const amd = a - d;
   const ad4 = 4 * a * d;
   const z2 = z * z;
-  const R0sq = z2 + amd * amd;
-  const R0 = Math.sqrt(R0sq);
-  const dR = rule.phase / k;
-  const beta = rule.beta;
   const { x, w } = glRule(rule.n);
   const n = rule.n;
   if (n > MAX_NODES) throw new Error(`discContour: at most ${MAX_NODES} nodes per panel`);
-  // Branch point of R in t (imaginary part); 0 when d = 0 (no branch point: the integrand is constant).
-  const X = ad4 > 0 ? R0sq / (0.5 * ad4) : Infinity;
-  const tau = Number.isFinite(X) ? Math.tanh(Math.acosh(1 + X) / 4) : 1;
+  walker.reset(a, d, z, k, rule);
   const kHalf = 0.5 * k;
   const twoZ = 2 * z;
   const amd2 = amd * amd;
@@ -58,19 +146,9 @@ export function discContour(a: number, d: number, z: number, k: number, rule: Di
   let re = 0;
   let im = 0;
   let t0 = 0;
-  let R = R0;
   let evaluations = 0;
   while (t0 < 1) {
-    // End of the panel: a phase step, or the singularity cap, or the end of the range.
-    let t1: number;
-    if (ad4 > 0) {
-      const Rn = R + dR;
-      const s2 = ((Rn - R0) * (Rn + R0)) / ad4;
-      t1 = s2 >= 1 ? 1 : Math.sqrt(s2) / (1 + Math.sqrt(1 - s2));
-    } else t1 = 1;
-    const cap = beta * Math.min(1, Math.sqrt(t0 * t0 + tau * tau));
-    if (t1 > t0 + cap) t1 = t0 + cap;
-    if (t1 > 1 || 1 - t1 < 1e-12) t1 = 1;
+    const t1 = walker.next(t0);
     const half = 0.5 * (t1 - t0);
     const mid = 0.5 * (t1 + t0);
     // Two passes: the algebra for all nodes, then the sines and cosines (the calls stall the
@@ -101,10 +179,6 @@ export function discContour(a: number, d: number, z: number, k: number, rule: Di
     }
     evaluations += n;
     t0 = t1;
-    if (t0 < 1 && ad4 > 0) {
-      const s = (2 * t0) / (1 + t0 * t0);
-      R = Math.sqrt(R0sq + ad4 * s * s);
-    }
   }
   out[0] = re;
   out[1] = im;
@@ -113,32 +187,12 @@ export function discContour(a: number, d: number, z: number, k: number, rule: Di
 
 /** The number of kernel evaluations discContour makes (the same panel walk, no integrand). */
 export function discContourCount(a: number, d: number, z: number, k: number, rule: DiscRule): number {
-  const amd = a - d;
-  const ad4 = 4 * a * d;
-  const R0sq = z * z + amd * amd;
-  const R0 = Math.sqrt(R0sq);
-  const dR = rule.phase / k;
-  const X = ad4 > 0 ? R0sq / (0.5 * ad4) : Infinity;
-  const tau = Number.isFinite(X) ? Math.tanh(Math.acosh(1 + X) / 4) : 1;
+  walker.reset(a, d, z, k, rule);
   let t0 = 0;
-  let R = R0;
   let panels = 0;
   while (t0 < 1) {
-    let t1: number;
-    if (ad4 > 0) {
-      const Rn = R + dR;
-      const s2 = ((Rn - R0) * (Rn + R0)) / ad4;
-      t1 = s2 >= 1 ? 1 : Math.sqrt(s2) / (1 + Math.sqrt(1 - s2));
-    } else t1 = 1;
-    const cap = rule.beta * Math.min(1, Math.sqrt(t0 * t0 + tau * tau));
-    if (t1 > t0 + cap) t1 = t0 + cap;
-    if (t1 > 1 || 1 - t1 < 1e-12) t1 = 1;
+    t0 = walker.next(t0);
     panels++;
-    t0 = t1;
-    if (t0 < 1 && ad4 > 0) {
-      const s = (2 * t0) / (1 + t0 * t0);
-      R = Math.sqrt(R0sq + ad4 * s * s);
-    }
   }
   return panels * rule.n;
 }

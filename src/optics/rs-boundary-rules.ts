@@ -133,12 +133,13 @@ export function interpolantMap(n: number): Float64Array {
  * and a_0 makes A(−1) = 0 (T_m(−1) = (−1)^m).
  */
 export function integrateChebyshev(c: Float64Array, cOff: number, n: number, a: Float64Array, aOff: number): void {
-  const cm = (m: number) => (m < n ? c[cOff + 2 * m]! : 0);
   let atMinus1 = 0;
   for (let m = 1; m <= n; m++) {
-    const v = m === 1 ? cm(0) - cm(2) / 2 : (cm(m - 1) - cm(m + 1)) / (2 * m);
+    const lower = c[cOff + 2 * (m - 1)]!;
+    const upper = m + 1 < n ? c[cOff + 2 * (m + 1)]! : 0;
+    const v = m === 1 ? lower - upper / 2 : (lower - upper) / (2 * m);
     a[aOff + 2 * m] = v;
-    atMinus1 += m % 2 === 0 ? v : -v;
+    atMinus1 += (m & 1) === 0 ? v : -v;
   }
   a[aOff] = -atMinus1;
 }
