@@ -399,12 +399,12 @@ function linePlan(p: BoundaryPlan, line: Lines, c: number, z: number, along: Axi
   const st = line.stretches;
   const samples = Math.min(nOut, DIRECT_SAMPLES);
   let direct = 0;
-  for (let q = 0; q < samples && RSB_EVAL_WORK * direct * (nOut / samples) < tableWork; q++) {
+  for (let q = 0; q < samples && RSB_STRETCH_EVAL_WORK * direct * (nOut / samples) < tableWork; q++) {
     const v = axisAt(along, a0 + Math.floor(((q + 0.5) * nOut) / samples));
     for (let m = 0; m < st.length; m += 3) direct += stretchIntegralCount(c, z, p.k, st[m]! - v, st[m + 1]! - v, p.directRule);
   }
   const directEvals = (direct * nOut) / samples;
-  if (RSB_EVAL_WORK * directEvals < tableWork) return { table: false, evaluations: directEvals, readings: 0 };
+  if (RSB_STRETCH_EVAL_WORK * directEvals < tableWork) return { table: false, evaluations: directEvals, readings: 0 };
   return { table: true, evaluations: tableEvals, readings };
 }
 
@@ -461,15 +461,15 @@ function rotate(a: Float64Array, o: number, phi: number): void {
   a[o + 1] = re * s + im * c;
 }
 
-/** Barycentric weights of p equally spaced nodes: (−1)^j·C(p − 1, j). */
-function equispacedWeights(p: number): Float64Array {
-  const w = new Float64Array(p);
-  let c = 1;
-  for (let j = 0; j < p; j++) {
-    w[j] = j % 2 === 0 ? c : -c;
-    c = (c * (p - 1 - j)) / (j + 1);
+/** 1/Π_{m≠q}(q − m) for the nodes 0..p−1: 1/(q!·(p−1−q)!·(−1)^{p−1−q}). */
+function lagrangeDenominators(p: number): Float64Array {
+  const f = new Float64Array(p);
+  for (let q = 0; q < p; q++) {
+    let d = 1;
+    for (let m = 0; m < p; m++) if (m !== q) d *= q - m;
+    f[q] = 1 / d;
   }
-  return w;
+  return f;
 }
 
 /**
@@ -513,44 +513,35 @@ export function rsBoundaryWithStats(
       }
       stats.radii = mHi - mLo + 1;
       const P = LAGRANGE_POINTS;
-      const bw = equispacedWeights(P);
+      const cq = lagrangeDenominators(P);
+      const suf = new Float64Array(P + 1);
       for (let i = y0; i < y1; i++) {
         const y = axisAt(outY, i);
         for (let j = x0; j < x1; j++) {
           const x = axisAt(outX, j);
-          const rho = Math.sqrt(x * x + y * y) / h;
+          const rhoH = Math.sqrt(x * x + y * y);
+          const rho = rhoH / h;
           const first = Math.floor(rho) - P / 2 + 1;
-          let nr = 0;
-          let ni = 0;
-          let den = 0;
-          let exact = -Infinity;
+          const u = rho - first;
+          // L_q(u) = Π_{m≠q}(u − m)·cq[q]: suffix products, then prefix products on the way
+          // (no division; exact at the nodes, where every other factor vanishes).
+          suf[P] = 1;
+          for (let q = P - 1; q >= 0; q--) suf[q] = suf[q + 1]! * (u - q);
+          let pre = 1;
+          let vr = 0;
+          let vi = 0;
           for (let q = 0; q < P; q++) {
+            const l = pre * suf[q + 1]! * cq[q]!;
+            pre *= u - q;
             const m = first + q;
-            const dx = rho - m;
-            if (dx === 0) {
-              exact = m;
-              break;
-            }
-            const c = bw[q]! / dx;
-            const idx = 2 * ((m < 0 ? -m : m) - mLo); // U(−ρ) = U(ρ)
-            nr += c * table[idx]!;
-            ni += c * table[idx + 1]!;
-            den += c;
+            const idx = 2 * ((m < 0 ? -m : m) - mLo); // V(−ρ) = V(ρ)
+            vr += l * table[idx]!;
+            vi += l * table[idx + 1]!;
           }
-          const o = 2 * (i * nx + j);
-          let vr: number;
-          let vi: number;
-          if (exact !== -Infinity) {
-            const idx = 2 * ((exact < 0 ? -exact : exact) - mLo);
-            vr = table[idx]!;
-            vi = table[idx + 1]!;
-          } else {
-            vr = nr / den;
-            vi = ni / den;
-          }
-          const ph = sphericalPhase(rho * h, z, p.k);
+          const ph = sphericalPhase(rhoH, z, p.k);
           const c = Math.cos(ph);
           const sn = Math.sin(ph);
+          const o = 2 * (i * nx + j);
           data[o] = data[o]! + vr * c - vi * sn;
           data[o + 1] = data[o + 1]! + vr * sn + vi * c;
         }
@@ -631,20 +622,37 @@ export function rsBoundaryWithStats(
 // --- Cost ----------------------------------------------------------------------------------------
 //
 // In the planner's unit (src/plan/planner.ts: a direct Fourier sum counts 8 per complex
-// multiply-add; 2e8 units ≈ 1 s of one core). Calibrated by hand against dft1 (dft.ts) on the
-// development machine: see the constants. The counts come from the same panel walks as the
-// integrals, without the integrands, on a sample of the radii, rows and columns.
+// multiply-add; 2e8 units ≈ 1 s of one core). The counts come from the same panel walks as the
+// integrals, without the integrands, on a sample of the radii, rows and columns (within 5 % of what
+// the computation does: rs-boundary-properties.test.ts).
+//
+// Calibrated by hand against dft1 (dft.ts) by CPU time (process.cpuUsage, best of 2–5 runs, Node
+// 20, one thread, the development machine's two cores shared with two other jobs): dft1 over
+// 2000 × 2000 took 5.3–5.6 ns per complex multiply-add, so one unit ≈ 0.67–0.70 ns here. Then:
+// the disc contour 37–40 ns per evaluation alone and 70 units per evaluation over a 1001² annulus
+// (its whole time less interpolation and output); a line table 58–64 ns per evaluation with its
+// Chebyshev coefficients and 65–77 ns per reading (about 105 and 110 units in a 1001² rectangle);
+// a straight stretch per output 32–38 ns per evaluation, 75–110 units with the calls' overhead in a
+// far-field grating; 120 ns per interpolated output point (the 20 weights, a square root, a sine
+// and a cosine); 30 units per output sample (the output array's first touch, e^{ikz}, mirroring);
+// 1000 units per contour set-up (the rate's peak). Checked on the three cases of the report, a
+// direct 101² disc and two gratings, three runs each: the estimate was 0.63–1.6 of the measured
+// work (median 0.9; the spread is the machine's load, not the counts).
 
-/** Work of one kernel evaluation (a square root, two divisions, a sine and a cosine, ~20 flops). */
-export const RSB_EVAL_WORK = 40;
+/** Work of one kernel evaluation in a contour. */
+export const RSB_EVAL_WORK = 70;
+/** Work of one kernel evaluation in a stretch integrated per output (short calls: more overhead). */
+export const RSB_STRETCH_EVAL_WORK = 90;
 /** Work of one kernel evaluation in a line table (with the panel's Chebyshev coefficients). */
-export const RSB_TABLE_EVAL_WORK = 60;
-/** Work of one line-table reading (binary search, two Clenshaw sums of 17 terms). */
-export const RSB_READ_WORK = 40;
-/** Work of one interpolated output point (20-point barycentric Lagrange, complex). */
-export const RSB_INTERP_WORK = 60;
-/** Work per output sample (phase, mirroring). */
-export const RSB_POINT_WORK = 4;
+export const RSB_TABLE_EVAL_WORK = 105;
+/** Work of one line-table reading (the panel, two Clenshaw sums of 17 terms). */
+export const RSB_READ_WORK = 110;
+/** Work of one interpolated output point (20-point Lagrange, complex, and the spherical phase). */
+export const RSB_INTERP_WORK = 180;
+/** Work per output sample (the array's first touch, e^{ikz}, mirroring). */
+export const RSB_POINT_WORK = 30;
+/** Work of setting up one contour (the peak of its phase rate). */
+export const RSB_CONTOUR_WORK = 1000;
 /** Memory besides the output field and the radial table (the line table, small arrays). */
 const RSB_BASE_MEMORY = 1 << 20;
 
@@ -696,6 +704,7 @@ export function costRsBoundary(
     }
   }
   let tableEvaluations = 0;
+  let stretchEvaluations = 0;
   const lines = (list: Lines[], along: Axis, a0: number, a1: number, across: Axis, b0: number, b1: number) => {
     const span = new Float64Array(2);
     for (const line of list) {
@@ -712,7 +721,7 @@ export function costRsBoundary(
         rd += choice.readings;
       }
       const scale = (b1 - b0) / bs.length;
-      evaluations += ev * scale;
+      stretchEvaluations += ev * scale;
       tableEvaluations += tev * scale;
       readings += rd * scale;
     }
@@ -720,9 +729,16 @@ export function costRsBoundary(
   lines(p.horizontal, outX, x0, x1, outY, y0, y1);
   lines(p.vertical, outY, y0, y1, outX, x0, x1);
   const points = outX.n * outY.n;
+  const contours = p.discs.length * (p.radial ? p.radial.mHi - p.radial.mLo + 1 : p.keptPoints);
   const work =
-    RSB_EVAL_WORK * evaluations + RSB_TABLE_EVAL_WORK * tableEvaluations + RSB_READ_WORK * readings + RSB_INTERP_WORK * interpolated + RSB_POINT_WORK * points;
-  evaluations += tableEvaluations;
+    RSB_EVAL_WORK * evaluations +
+    RSB_STRETCH_EVAL_WORK * stretchEvaluations +
+    RSB_TABLE_EVAL_WORK * tableEvaluations +
+    RSB_READ_WORK * readings +
+    RSB_INTERP_WORK * interpolated +
+    RSB_POINT_WORK * points +
+    RSB_CONTOUR_WORK * contours;
+  evaluations += tableEvaluations + stretchEvaluations;
   const memory = RSB_BASE_MEMORY + 16 * points + (p.radial ? 16 * (p.radial.mHi - p.radial.mLo + 1) : 0);
   return { work, memory, evaluations, readings, interpolated };
 }
