@@ -408,7 +408,7 @@ function linePlan(p: BoundaryPlan, line: Lines, c: number, z: number, along: Axi
   return { table: true, evaluations: tableEvals, readings };
 }
 
-/** One line at offset c for the outputs along[a0..a1), written at data[base + stride·(idx − a0)]... (see callers). */
+/** Adds one line's integral at offset c for the outputs along[a0..a1) to data[base + stride·a], a ∈ [a0, a1). */
 function doLine(
   p: BoundaryPlan,
   line: Lines,
@@ -705,6 +705,7 @@ export function costRsBoundary(
   }
   let tableEvaluations = 0;
   let stretchEvaluations = 0;
+  let largestTable = 0;
   const lines = (list: Lines[], along: Axis, a0: number, a1: number, across: Axis, b0: number, b1: number) => {
     const span = new Float64Array(2);
     for (const line of list) {
@@ -716,8 +717,10 @@ export function costRsBoundary(
         const c = line.at - axisAt(across, b);
         if (c === 0) continue;
         const choice = linePlan(p, line, c, z, along, a0, a1, span);
-        if (choice.table) tev += choice.evaluations;
-        else ev += choice.evaluations;
+        if (choice.table) {
+          tev += choice.evaluations;
+          largestTable = Math.max(largestTable, choice.evaluations);
+        } else ev += choice.evaluations;
         rd += choice.readings;
       }
       const scale = (b1 - b0) / bs.length;
@@ -739,6 +742,8 @@ export function costRsBoundary(
     RSB_POINT_WORK * points +
     RSB_CONTOUR_WORK * contours;
   evaluations += tableEvaluations + stretchEvaluations;
-  const memory = RSB_BASE_MEMORY + 16 * points + (p.radial ? 16 * (p.radial.mHi - p.radial.mLo + 1) : 0);
+  // A line table keeps per panel its end, G there and 2(n + 1) Chebyshev coefficients.
+  const tableBytes = (largestTable / LINE_NODES + 1) * (8 + 16 + 16 * (LINE_NODES + 1));
+  const memory = RSB_BASE_MEMORY + 16 * points + (p.radial ? 16 * (p.radial.mHi - p.radial.mLo + 1) : 0) + 2 * tableBytes;
   return { work, memory, evaluations, readings, interpolated };
 }

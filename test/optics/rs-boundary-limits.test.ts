@@ -13,10 +13,10 @@ describe('far field of a circular aperture: the Airy pattern (Born & Wolf, Princ
   // Far from the aperture the first Rayleigh–Sommerfeld integral tends to
   //   U = −(i/λ)(z/r)(e^{ikr}/r)·πa²·2J₁(v)/v,  v = k·a·sin θ, sin θ = ρ/r, r = √(ρ² + z²)
   // (the kernel's (1/r − ik) → −ik; Born & Wolf §8.5.2 for the pattern, Goodman §3.5 for the
-  // kernel), so I = (πa²/(λz))²·(z/r)²·(z/r)²... written as (πa²/λ)²·(z/r)²/r²·[2J₁(v)/v]².
+  // kernel), so I = (πa²/λ)²·(z/r)²·(1/r²)·[2J₁(v)/v]²: the obliquity (z/r)² and the 1/r² spread.
   // J₁ from @stdlib/math-base-special-besselj1.
   // Budget at N_F = a²/(λz) = 1e-4: the neglected aperture-quadratic phase is πN_F = 3e-4 rad,
-  // which moves the intensity by about (πN_F)² ≈ 1e-7 of the peak; the neglected 1/(kr) ≈ 3e-8;
+  // which moves the intensity by about (πN_F)² ≈ 1e-7 of the peak; the neglected 1/(kr) ≈ 3e-9;
   // the boundary form's quadrature ~1e-9 and its radial interpolation ≤ 1e-5 of the peak by design
   // (measured ~1e-8). Bound: 1e-5 of the peak on the radial table, 1e-6 at single points.
   const lam = 633e-9;
@@ -96,7 +96,7 @@ describe('far field of a circular aperture: the Airy pattern (Born & Wolf, Princ
   });
 });
 
-describe('Fresnel limit of a rectangle: the Fresnel integrals (Goodman §4.5.1; Abramowitz & Stegun ch. 7)', () => {
+describe('Fresnel limit of a rectangle: the Fresnel integrals (Goodman §4.5.1, from memory; Abramowitz & Stegun ch. 7)', () => {
   // stdlib's fresnel(x) returns [S(x), C(x)], C(x) = ∫₀ˣ cos(πt²/2)dt, S(x) = ∫₀ˣ sin(πt²/2)dt.
   it('stdlib agrees with Abramowitz & Stegun table 7.7 (values from memory, 8 figures)', () => {
     const table: [number, number, number][] = [
@@ -112,21 +112,24 @@ describe('Fresnel limit of a rectangle: the Fresnel integrals (Goodman §4.5.1; 
     }
   });
 
-  // Paraxial pattern of a rectangle [x0, x1] × [y0, y1] (Goodman eq. 4-55, from memory):
+  // Paraxial pattern of a rectangle [x0, x1] × [y0, y1] (Goodman §4.5.1, from memory; normalised so
+  // that a very wide rectangle gives (1 + i)²/(2i) = 1, the incident wave):
   //   U = (e^{ikz}/2i)·F(x0 − x, x1 − x)·F(y0 − y, y1 − y),
   //   F(a, b) = [C(β_b) − C(β_a)] + i[S(β_b) − S(β_a)],  β = √(2/(λz))·(·).
-  // Set-up: 20 mm × 12 mm at z = 100 m, λ = 500 nm: N_F = 2 along x, fringes across the window
-  // ±25 mm × ±20 mm. Goodman's condition (eq. 4-18) z³ ≫ (π/4λ)·max ρ⁴: 1e6 against 3.9e-7·1.6e6 = 0.6
-  // (ρ ≤ 25 mm). Budget: the paraxial phase error kρ⁴/(8z³) ≤ 6e-7 rad and the amplitude's
-  // (obliquity z/r and 1/r against 1/z) 1.5ρ²/z² ≤ 1e-7, over ∫|h| ≈ area/(λz) = 4.8: |δU| ≤ 3.4e-6,
-  // |δI| ≤ 2·|U|max·|δU| ≤ 1.2e-5 with |U| ≤ 1.7; the boundary form's own error is far below.
+  // Set-up: 20 mm × 12 mm at z = 100 m, λ = 500 nm: N_F = 2 along x, the window ±12 mm × ±8 mm (the
+  // geometrical region, its edges' fringes and some shadow). Every aperture point is within ρ ≤ 26 mm
+  // of every output point: Goodman's condition (eq. 4-18) z³ ≫ (π/4λ)·ρ⁴ holds as 1e6 against 0.7.
+  // Budget: the paraxial phase error kρ⁴/(8z³) ≤ 7.2e-7 rad and the amplitude's (obliquity z/r and
+  // 1/r against 1/z) 1.5ρ²/z² ≤ 1e-7, over ∫|h| ≈ area/(λz) = 4.8: |δU| ≤ 3.9e-6; with |U| ≤ 1.4
+  // (1.37² is the largest of a Fresnel edge's intensity, from memory), |δI| ≤ 2·1.4·3.9e-6 = 1.1e-5.
+  // The boundary form's own error is far below (~1e-9).
   it('a 20 mm × 12 mm rectangle at 100 m (N_F = 2): within 1.5e-5 of the peak everywhere on the window', () => {
     const lam = 500e-9;
     const z = 100;
     const k = (2 * Math.PI) / lam;
     const rect = { x0: -10e-3, x1: 10e-3, y0: -6e-3, y1: 6e-3 };
-    const X = centredAxis(101, 50e-3 / 100);
-    const Y = centredAxis(81, 40e-3 / 80);
+    const X = centredAxis(97, 24e-3 / 96);
+    const Y = centredAxis(65, 16e-3 / 64);
     const f = rsBoundary([{ kind: 'rect', ...rect, sign: 1 }], lam, z, X, Y);
     const scale = Math.sqrt(2 / (lam * z));
     const F = (a: number, b: number): [number, number] => {
@@ -164,6 +167,6 @@ describe('Fresnel limit of a rectangle: the Fresnel integrals (Goodman §4.5.1; 
     let worst = 0;
     for (let q = 0; q < ref.length; q++) worst = Math.max(worst, Math.abs(got[q]! - ref[q]!));
     expect(worst / peak).toBeLessThan(1.5e-5);
-    expect(worstPhase).toBeLessThan(3.4e-6); // the field itself, phase included
+    expect(worstPhase).toBeLessThan(3.9e-6); // the field itself, phase included
   });
 });
