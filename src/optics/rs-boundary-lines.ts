@@ -7,11 +7,13 @@
 // (K as in rs-boundary.ts). For a row of outputs the offset c is the same for every output, and
 // only the ends move: so we tabulate G(s) = ∫_0^s c·K(c² + u²) du once (G is odd in s) and read it
 // at s = end − x for every output x and every edge end on the line. The table is a set of panels
-// from u = 0 outwards, each a fixed step of the phase kR (R = √(c² + z² + u²), stationary at u = 0;
-// the step's end in closed form, u² = (R − R_c)(R + R_c), R_c = √(c² + z²)), kept within β times
-// the distance √(u² + R_c²) to the branch points of R at u = ±i·R_c. On each panel the integrand is
-// sampled at n Gauss–Legendre nodes and the antiderivative of the interpolant kept as Chebyshev
-// coefficients (rs-boundary-rules.ts), so that a reading costs a binary search and a Clenshaw sum.
+// from the smallest |s| read (0 when the readings change sign) outwards, each as long as the phase
+// kR allows (R = √(c² + z² + u²), stationary at u = 0; lineBreak), kept within β times the distance
+// √(u² + R_c²) to the branch points of R at u = ±i·R_c. On each panel the integrand is sampled at n
+// Gauss–Legendre nodes and the antiderivative of the interpolant kept as Chebyshev coefficients
+// (rs-boundary-rules.ts), so that a reading costs finding its panel and a Clenshaw sum. Where a
+// table would integrate much more than the edges themselves, rs-boundary.ts integrates each open
+// stretch per output instead (stretchIntegral, below).
 import { glRule, integrateChebyshev, interpolantMap } from './rs-boundary-rules.js';
 
 export interface LineRule {
@@ -54,7 +56,7 @@ export class LineTable {
   private readonly ph: Float64Array;
   private readonly amp: Float64Array;
   private readonly rest: Float64Array;
-  /** Panel ends b[0] = 0 < b[1] < … < b[count]. */
+  /** Panel ends b[0] = uLo < b[1] < … < b[count] = uHi. */
   private b = new Float64Array(64);
   /** G at each panel's start (re, im). */
   private g = new Float64Array(128);
