@@ -9,6 +9,7 @@ import { nextPowerOfTwo } from '../optics/fft.js';
 import { directionCosines } from '../optics/source.js';
 import { bandLimitFrequency } from '../optics/spectral.js';
 import { mappingError } from '../optics/direct.js';
+import { boundaryRegionsOf, costRsBoundary } from '../optics/rs-boundary.js';
 import { costFarFieldTable, farFieldBand } from '../optics/spectrum-table.js';
 import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor } from '../optics/shifted-spectrum.js';
 import { formatLength, trimNumber } from '../job/units.js';
@@ -387,7 +388,7 @@ export function methodWords(m: MethodName, form?: MethodForm): string {
     case 'fraunhofer':
       return 'far-field formula';
     case 'rayleigh-sommerfeld':
-      return `Rayleigh–Sommerfeld integral${form === 'per-period' ? ' (one period, summed over the periods)' : form === 'direct' ? ' (direct sums over the aperture)' : ''}`;
+      return `Rayleigh–Sommerfeld integral${form === 'per-period' ? ' (one period, summed over the periods)' : form === 'direct' ? ' (direct sums over the aperture)' : form === 'boundary' ? ' (along the aperture\'s boundary)' : ''}`;
   }
 }
 
@@ -557,6 +558,18 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
     }
     return list;
   }
+  const list: Sampling[] = [];
+  // (Not when the job gives a grid: it asks for a sampled aperture.)
+  const regions = !c.grid && c.illumination.kind === 'plane' && c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0 ? boundaryRegionsOf(c.aperture) : null;
+  if (regions) {
+    // A plane wave at normal incidence: the integral over the aperture becomes one along its
+    // boundary (src/optics/rs-boundary.ts), exact and a line integral per output point.
+    const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
+    const cost = costRsBoundary(regions, g.lam, g.z, out[0]!.output, out[1]!.output);
+    const whole = (i: number) => ({ pitch: 2 * g.aEff[i]!, required: 2 * g.aEff[i]!, rule: 'none: the integral runs along the aperture\'s edges (boundary form)' });
+    const axes = [0, 1].map((i) => axisPlan(g, i, whole(i), 1, 1, out[i]!.output));
+    list.push({ form: 'boundary', axes, layout: 'two-d', memory: BASELINE_MEMORY + cost.memory, work: cost.work });
+  }
   if (g.obstructed) {
     // The beam where an obstacle is not: area-sampled cells (the exact edge cells are built for
     // holes). Area-sampled edge cells carry their open fraction over the whole cell: the error grows
@@ -570,7 +583,7 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
     const axes = [0, 1].map((i) => axisPlan(g, i, p, n[i]!, n[i]!, out[i]!.output));
     const cells = n[0]! * n[1]!;
     const outputs = out[0]!.output.n * out[1]!.output.n;
-    return [{ form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + 16 * (3 * cells) + 64 * outputs, work: costRsDirect2D(cells, outputs) }];
+    return [...list, { form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + 16 * (3 * cells) + 64 * outputs, work: costRsDirect2D(cells, outputs) }];
   }
   // Boxes for every wholly open cell and Gauss–Legendre nodes with exact weights in the cells an
   // edge crosses (src/optics/rs-2d-*.ts): the pitch and node count are the cheapest that keep the
@@ -581,7 +594,7 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
   const rule = { pitch, required: s2.pitch, rule: `boxes of ${len(s2.pitch)} with exact edges (${s2.edgeNodes}² nodes in each edge cell), the cheapest that keeps the error within ${LIMITS.rsExactTarget} of the peak; ${s2.choice.path} path` };
   const n = [0, 1].map((i) => 2 * Math.ceil(g.aEff[i]! / pitch + 0.5) + 1);
   const axes = [0, 1].map((i) => axisPlan(g, i, rule, n[i]!, n[i]!, out[i]!.output));
-  return [{ form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + s2.choice.memory, work: s2.choice.work, exact2D: { edgeNodes: s2.edgeNodes, path: s2.choice.path } }];
+  return [...list, { form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + s2.choice.memory, work: s2.choice.work, exact2D: { edgeNodes: s2.edgeNodes, path: s2.choice.path } }];
 }
 
 /**
@@ -695,6 +708,9 @@ function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisP
     const content = (g.lam * g.z) / (q * reach);
     contentRule = { pitch: content, rule: `${q}× the highest spatial frequency that reaches the window, λz/(${q}·${len(reach)})` };
   }
+  // The output of an FFT method is on the input's lattice: a detector needs ten samples across.
+  const detector = Math.min(Infinity, ...c.analysis.detectors.map((det) => det.size / 10));
+  if (detector < contentRule.pitch) contentRule = { pitch: detector, rule: `ten samples across the smallest detector (${len(10 * detector)})` };
   const p = pitchFor(g, c, contentRule, featureSamples(g, method));
   // The grid holds the illuminated aperture (a Gaussian beam narrower than the aperture is cut at
   // e⁻⁹ of its amplitude) and the window.
@@ -754,7 +770,10 @@ function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fr
   // λz/(8D) is 4× its Nyquist rate.
   const d = 2 * g.aEff[i]!;
   const nyquist = (g.lam * g.z) / (2 * d);
-  const wanted = nyquist / 4;
+  // A detector is read off the map: ten samples across the smallest keep its reading within a
+  // fraction of a per cent (its rim cuts cells, which are sub-sampled).
+  const detector = Math.min(Infinity, ...c.analysis.detectors.map((det) => det.size / 10));
+  const wanted = Math.min(nyquist / 4, detector);
   const [minM, maxM] = [g.minOutput, g.oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D];
   let m = Math.ceil((2 * g.windowHalf[i]!) / wanted) + 1;
   m = Math.min(maxM, Math.max(minM, m));

@@ -4,8 +4,11 @@ import type { MethodRequest } from '../job/schema.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
 export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct';
-/** The exact integral summed over the aperture's cells, or one period's field summed over a grating's periods. */
-export type RsForm = 'direct' | 'per-period';
+/**
+ * The exact integral summed over the aperture's cells, one period's field summed over a grating's
+ * periods, or (a plane wave at normal incidence) as an integral along the aperture's boundary.
+ */
+export type RsForm = 'direct' | 'per-period' | 'boundary';
 /** The angular spectrum in the frame of a tilted beam: carrier taken out, window shifted to where it lands. */
 export type AsForm = 'shifted';
 export type MethodForm = FresnelForm | RsForm | AsForm;

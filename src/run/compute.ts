@@ -1,6 +1,7 @@
 // Carries out a plan: builds the source field, propagates it with the planned method and layout,
 // cuts out the window and measures the numerical diagnostics the validity checks need.
-import { isOneDAperture, separableProfiles } from '../optics/aperture.js';
+import { apertureFacts, isOneDAperture, separableProfiles } from '../optics/aperture.js';
+import { boundaryRegionsOf, rsBoundary } from '../optics/rs-boundary.js';
 import { centredAxis, createField, fftAxis, intensityOf, powerOf, releaseSamples, type Axis, type Field } from '../optics/field.js';
 import { propagateFarField, propagateFarFieldSeparable, propagateFresnelDirect } from '../optics/direct.js';
 import { complementInPlace, freeField } from '../optics/free.js';
@@ -299,6 +300,12 @@ export function computeCase(plan: Plan): ComputedCase {
     const open = obstructed ? complementWithin(profileIntervals(prof), plan.x.apertureHalf) : profileIntervals(prof);
     powerIn = intervalsPower(open, ill);
     result = { field: propagateExact1D(plan, prof, ill, open) };
+  } else if (plan.form === 'boundary') {
+    // The exact integral along the aperture's boundary. For an obstacle, its hole's (Babinet below,
+    // with the free wave e^{ikz} exact at normal incidence), so that the window's power is the
+    // diffracted light's as for every other method.
+    powerIn = apertureFacts(c.aperture).openMeasure;
+    result = { field: rsBoundary(boundaryRegionsOf({ ...c.aperture, opaque: false })!, lam, z, outX, outY!) };
   } else if (plan.method === 'rayleigh-sommerfeld' && plan.exact2D) {
     // Boxes and exact edge cells (for an obstacle in a plane wave: its hole, for Babinet below).
     const cells = rsCells2DFromAperture(c.aperture, ill, lam, plan.x.inputPitch, { edgeNodes: plan.exact2D.edgeNodes });

@@ -25,7 +25,9 @@ export function runPlannedCase(plan: Plan): CaseRecord {
   const reference = plan.babinet ? null : d.powerIn;
   const centre: [number, number] = [spot.centroid[0], spot.centroid[1] ?? 0];
   const energy = reference ? energyCurve(computed, centre, reference) : null;
-  const detectors = readDetectors(plan, computed, centre, reference);
+  // Behind an obstacle (in a plane wave or a Gaussian beam) a detector reads a fraction of what it
+  // would receive with nothing in the way.
+  const detectors = readDetectors(plan, computed, centre, c.aperture.opaque ? null : reference);
   const metrics: CaseMetrics = {
     ...spot,
     powerThroughAperture: reference,

@@ -36,8 +36,9 @@ describe.each([0.5, 2, 10])('slit in the Fresnel regime, N_F = %f', (nf) => {
   const a = Math.sqrt(nf * lam * z);
   const { plan, rec, c, x } = runCase({ wavelength: lam, distance: z, aperture: { shape: 'slit', width: 2 * a, opaque: false } });
 
-  it('is planned as a paraxial near-field case without warnings', () => {
-    expect(plan.method).toBe('fresnel');
+  it('is planned with a method valid here (Fresnel, or an exact one where it is cheaper), without warnings', () => {
+    expect(plan.options.find((o) => o.method === plan.method && o.form === plan.form)!.valid).toBe(true);
+    expect(['fresnel', 'angular-spectrum', 'rayleigh-sommerfeld']).toContain(plan.method);
     expect(plan.regime).toBe(nf > 1 ? 'near-field' : 'transition');
     expect(rec.warnings).toEqual([]);
   });
