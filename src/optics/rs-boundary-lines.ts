@@ -269,9 +269,18 @@ export function lineTableCount(c: number, z: number, k: number, uLo: number, uHi
   while (u0 < uHi) {
     u0 = lineBreak(u0, Rc, D, rule.beta, uHi);
     p++;
+    if (p === COUNT_WALK && u0 < uHi) {
+      // Past the stationary point's neighbourhood each panel advances R by D: the rest of the walk
+      // follows from R at its ends (the planner costs millions of these; walking them took minutes).
+      p += Math.ceil((Math.sqrt(Rc * Rc + uHi * uHi) - Math.sqrt(Rc * Rc + u0 * u0)) / D);
+      break;
+    }
   }
   return p * rule.n;
 }
+
+/** Panels walked one by one when counting, before the rest is taken from R at the ends. */
+const COUNT_WALK = 64;
 
 // --- One edge at one output point ------------------------------------------------------------
 //
