@@ -933,6 +933,14 @@ function preChecks(
       message: `the smallest feature (${len(g.facts.minFeature)}) is only ${fmt(checks.featureOverWavelength, 2)} λ: scalar diffraction loses accuracy there (polarisation, edge and thickness effects); a rigorous vector method is needed for quantitative results`,
     });
   }
+  if (g.z < LIMITS.vectorDistance * g.lam) {
+    // The scalar integral is still evaluated exactly, but a screen within a wavelength or so of a
+    // real (thick, conducting) screen sees its near field, which scalar theory does not describe.
+    w.push({
+      code: 'near-wavelength',
+      message: `the screen is only ${fmt(g.z / g.lam, 2)} λ from the aperture: the evanescent near field of the real screen (its thickness, material and polarisation) dominates there, which scalar diffraction does not describe; a rigorous vector method is needed for quantitative results`,
+    });
+  }
   if (checks.samplesPerFeature < LIMITS.minSamplesPerFeature && method !== 'rayleigh-sommerfeld') {
     w.push({
       code: 'undersampled-feature',

@@ -26,6 +26,11 @@ describe('warnings', () => {
     expect(codes({ wavelength: lam, distance: 0.01, aperture: slit(20 * um) })).not.toContain('near-wavelength');
   });
 
+  it('near-wavelength: a screen closer than a wavelength (common practice: the real screen\'s near field is not scalar)', () => {
+    expect(codes({ wavelength: lam, distance: 0.5 * lam, aperture: slit(20 * um) })).toContain('near-wavelength');
+    expect(codes({ wavelength: lam, distance: 3 * lam, aperture: slit(20 * um) })).not.toContain('near-wavelength');
+  });
+
   it('undersampled-feature and coarse-sampling: a given pitch of a third of the slit width', () => {
     const c = codes({ ...quietFarField, grid: { pitch: 100 * um / 3 } });
     expect(c).toContain('undersampled-feature');
@@ -103,7 +108,8 @@ describe('warnings', () => {
 
 describe('memory guard', () => {
   it('refuses a case whose grid cannot fit, with the estimate and how to lower it', () => {
-    const plan = planCase(makeCase({ wavelength: lam, distance: 5 * mm, aperture: circle(20 * mm) }), { maxMemoryBytes: 2 * 1024 ** 3 });
+    // A Gaussian beam (the exact boundary form, which would take a plane wave, does not apply).
+    const plan = planCase(makeCase({ wavelength: lam, distance: 5 * mm, aperture: circle(20 * mm), illumination: { kind: 'gaussian', waist: 8 * mm, tilt: [0, 0] } }), { maxMemoryBytes: 2 * 1024 ** 3 });
     expect(plan.error).toMatch(/needs about [\d.]+ (GiB|TiB)/);
     expect(plan.error).toMatch(/smaller window|coarser grid\.pitch|--max-memory/);
   });
