@@ -8,6 +8,7 @@ import { formatLength, trimNumber } from '../job/units.js';
 import { METHODS } from '../job/schema.js';
 import type { Plan, Warning } from '../plan/types.js';
 import type { IntensityMap } from './metrics.js';
+import { erfc } from '../optics/special.js';
 import { columnPower, integrateColumns, landingOrders, sinc, thinGratingFraction, type GratingInput, type GratingOrder, type OrderTable } from './orders.js';
 
 /** Orders below this fraction of the transmitted power (thin-grating theory) are not checked. */
@@ -523,10 +524,3 @@ export function methodAdvice(plan: Plan): string {
   return `${why}${forced ? ` (this case forces method: ${plan.case.method})` : ''}; ${use}`;
 }
 
-/** Complementary error function (Abramowitz & Stegun 7.1.26, |error| < 1.5e-7: enough for a budget). */
-function erfc(x: number): number {
-  if (x < 0) return 2 - erfc(-x);
-  const t = 1 / (1 + 0.3275911 * x);
-  const y = t * (0.254829592 + t * (-0.284496736 + t * (1.421413741 + t * (-1.453152027 + t * 1.061405429))));
-  return y * Math.exp(-x * x);
-}

@@ -48,6 +48,7 @@
 // envelope's own frequencies (there is no carrier in the samples).
 //
 // Pure: typed arrays in and out, no I/O, no module state.
+import { erfc } from './special.js';
 import { binFrequency, fft2, nextPowerOfTwo } from './fft.js';
 import { allocateSamples, isOneD, type Field } from './field.js';
 import { propagationPhase } from './phase.js';
@@ -400,13 +401,6 @@ export function gaussianSpectrumTail(waist: number): SpectrumTail {
   return (_axis, G) => 0.5 * erfc(Math.SQRT2 * Math.PI * waist * Math.max(0, G));
 }
 
-/** erfc by Abramowitz & Stegun 7.1.26 (|error| < 1.5e-7 in erf): enough for an estimate. */
-function erfc(x: number): number {
-  if (x < 0) return 2 - erfc(-x);
-  const t = 1 / (1 + 0.3275911 * x);
-  const y = t * (0.254829592 + t * (-0.284496736 + t * (1.421413741 + t * (-1.453152027 + t * 1.061405429))));
-  return y * Math.exp(-x * x);
-}
 
 export interface ShiftedBand {
   /**

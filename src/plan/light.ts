@@ -5,6 +5,7 @@
 // orders at 40° as much as the central lobe.
 import type { Aperture, ApertureFacts, Illumination } from '../optics/aperture.js';
 import { directionCosines } from '../optics/source.js';
+import { landingOrders, thinGratingFraction } from '../optics/grating.js';
 
 export interface Beam {
   /** Diffraction order (gratings), or null for the one beam of a plain aperture. */
@@ -44,38 +45,10 @@ export interface LightModel {
   waist: number;
 }
 
-/** sin(πu)/(πu). */
-export function sinc(u: number): number {
-  if (Math.abs(u) < 1e-8) return 1;
-  const x = Math.PI * u;
-  return Math.sin(x) / x;
-}
-
 /** Direction cosine γ of a direction (α, β); 0 for evanescent ones. */
 function gammaOf(a: number, b: number): number {
   const g2 = 1 - a * a - b * b;
   return g2 > 0 ? Math.sqrt(g2) : 0;
-}
-
-/**
- * Thin binary amplitude grating of slit width w and period d (Goodman, Introduction to Fourier
- * Optics, §4.4): order m carries |c_m|² = (w/d)²·sinc²(m·w/d) of the incident irradiance, and
- * Σ_m |c_m|² = w/d, so as a fraction of the power through the slits it is (w/d)·sinc²(m·w/d).
- */
-export function thinGratingFraction(width: number, period: number, m: number): number {
-  const duty = width / period;
-  return duty * sinc(m * duty) ** 2;
-}
-
-/** The orders m with |α + mλ/d| < 1 (propagating), as [mLow, mHigh]. */
-export function propagatingOrders(sinIncidence: number, wavelength: number, period: number): [number, number] {
-  const q = period / wavelength;
-  let lo = Math.ceil((-1 - sinIncidence) * q);
-  let hi = Math.floor((1 - sinIncidence) * q);
-  // Exactly grazing orders (|s| = 1) do not reach a screen.
-  if (Math.abs(sinIncidence + (lo * wavelength) / period) >= 1) lo++;
-  if (Math.abs(sinIncidence + (hi * wavelength) / period) >= 1) hi--;
-  return [lo, hi];
 }
 
 export function lightModel(
@@ -101,7 +74,7 @@ export function lightModel(
   };
   const beams: Beam[] = [];
   let beamEdgesPerPower: [number, number] = [edgesPerPower, edgesPerPower];
-  const orderRange = a.shape === 'slits' && a.count >= 2 ? propagatingOrders(alpha, lam, a.period) : null;
+  const orderRange = a.shape === 'slits' && a.count >= 2 ? landingOrders(alpha, oneD ? 0 : beta, lam, a.period) : null;
   // A grating with more propagating orders than MAX_ORDERS (a sparse one, period ≫ λ) is modelled
   // as one beam with every slit's edges: its orders are packed closer than the slits' own
   // diffraction spreads them, and they separate on the screen only far beyond its far-field

@@ -2,6 +2,7 @@
 // of a grating, whatever its power) is held, each with its footprint and a margin for its
 // diffraction tails, so that a grating's outer orders are never dropped for lying outside the
 // planner's own window.
+import { erfc } from '../optics/special.js';
 import { LIMITS } from './limits.js';
 import type { Beam, LightModel } from './light.js';
 
@@ -189,12 +190,5 @@ export function windowLoss(w: WindowInputs, centre: [number, number], half: [num
   return total > 0 ? Math.min(1, loss / total) : 0;
 }
 
-/** erfc by Abramowitz & Stegun 7.1.26 (|error| < 1.5e-7), enough for an estimate. */
-export function erfc(x: number): number {
-  if (x < 0) return 2 - erfc(-x);
-  const t = 1 / (1 + 0.3275911 * x);
-  const y = t * (0.254829592 + t * (-0.284496736 + t * (1.421413741 + t * (-1.453152027 + t * 1.061405429))));
-  return y * Math.exp(-x * x);
-}
 
 export type { Beam };

@@ -17,6 +17,7 @@ import {
   type TransferSpec,
 } from '../optics/spectral.js';
 import { propagationPhase, rotate } from '../optics/phase.js';
+import { erf } from '../optics/special.js';
 import { propagateFresnelSingleFFT } from '../optics/single-fft.js';
 import { propagateShiftedSpectrum, restoreCarrier } from '../optics/shifted-spectrum.js';
 import { cellsFromIntervals, rsCells2DFromAperture, rsDirect1D, rsDirect2D, rsPerPeriod1D, rsSum2D, type Interval } from '../optics/rayleigh-sommerfeld.js';
@@ -222,12 +223,6 @@ function intervalsPower(open: Interval[], ill: Illumination): number {
   return open.reduce((s, iv) => s + w * Math.sqrt(Math.PI / 8) * (erf((Math.SQRT2 * iv.hi) / w) - erf((Math.SQRT2 * iv.lo) / w)), 0);
 }
 
-/** erf to about 1e-7 (Abramowitz & Stegun 7.1.26): enough for a power total. */
-function erf(x: number): number {
-  const t = 1 / (1 + 0.3275911 * Math.abs(x));
-  const y = 1 - t * (0.254829592 + t * (-0.284496736 + t * (1.421413741 + t * (-1.453152027 + t * 1.061405429)))) * Math.exp(-x * x);
-  return x < 0 ? -y : y;
-}
 
 /**
  * The exact integral for a 1-D aperture: a grating lit by a plane wave as one period's field
