@@ -76,7 +76,19 @@ export interface ApertureFacts {
   openMeasure: number;
   /** Total edge length (m), or number of edges for 1-D apertures. */
   edgeMeasure: number;
+  /**
+   * Distance from the axis to the nearest open point (0 when the axis is open; an annulus's inner
+   * radius; half a period less half a slit for an even number of slits): a beam centred on the axis
+   * and narrower than this passes almost nothing.
+   */
+  nearestOpen: number;
   description: string;
+}
+
+/** A profile's nearest open point to the axis: 0 unless a grating has a bar on the axis. */
+function nearestOpenOf(p: Profile): number {
+  if (p.kind === 'interval' || p.count % 2 === 1) return 0;
+  return Math.max(0, p.period / 2 - p.width / 2);
 }
 
 export function apertureFacts(a: Aperture): ApertureFacts {
@@ -92,6 +104,7 @@ export function apertureFacts(a: Aperture): ApertureFacts {
         minFeature: fx.minFeature,
         openMeasure: fx.open,
         edgeMeasure: fx.edges,
+        nearestOpen: nearestOpenOf(sep.x),
         description: describe(a),
       };
     }
@@ -105,6 +118,7 @@ export function apertureFacts(a: Aperture): ApertureFacts {
       openMeasure: fx.open * fy.open,
       // Each x-edge runs the open length along y and vice versa.
       edgeMeasure: fx.edges * fy.open + fy.edges * fx.open,
+      nearestOpen: nearestOpenOf(sep.x),
       description: describe(a),
     };
   }
@@ -118,6 +132,7 @@ export function apertureFacts(a: Aperture): ApertureFacts {
       minFeature: a.diameter,
       openMeasure: Math.PI * r * r,
       edgeMeasure: 2 * Math.PI * r,
+      nearestOpen: 0,
       description: describe(a),
     };
   }
@@ -134,6 +149,7 @@ export function apertureFacts(a: Aperture): ApertureFacts {
       minFeature: Math.min(ro - ri, a.inner > 0 && (ri / ro) ** 2 >= 1e-3 ? a.inner : Infinity),
       openMeasure: Math.PI * (ro * ro - ri * ri),
       edgeMeasure: 2 * Math.PI * (ro + ri),
+      nearestOpen: ri,
       description: describe(a),
     };
   }

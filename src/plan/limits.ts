@@ -84,6 +84,8 @@ export const LIMITS = {
   rsExactTarget: 1e-3,
   /** Largest error (fraction of the peak) the exact 2-D sums' area-sampled edge cells may add. */
   rsAreaError: 0.002,
+  /** Below this fraction of a Gaussian beam's power passing, the result is its far tail: warned. */
+  littleLight: 1e-9,
   /** Distances below this many wavelengths get the scalar-theory warning too; a judgement. */
   vectorDistance: 1,
   /** Features below this many wavelengths get the scalar-theory warning; a judgement. */

@@ -84,10 +84,12 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   // most of the beam the two did not cancel to the small field that is left.) The source then
   // reaches past the obstacle's edge until the beam is down to e⁻⁹ of its amplitude there.
   const obstructed = c.aperture.opaque && ill.kind === 'gaussian';
+  // Likewise a beam whose axis is closed (an annulus, an even number of slits) is followed past the
+  // nearest open point, not cut at three beam radii from the axis.
   const reach = (h: number) => Math.sqrt(h * h + LIMITS.gaussianReach ** 2 * waist * waist);
   const aEff: [number, number] = obstructed
     ? [reach(facts.halfExtent[0]), oneD ? 0 : reach(facts.halfExtent[1])]
-    : [Math.min(facts.halfExtent[0], LIMITS.gaussianReach * waist), oneD ? 0 : Math.min(facts.halfExtent[1], LIMITS.gaussianReach * waist)];
+    : [Math.min(facts.halfExtent[0], reach(facts.nearestOpen)), oneD ? 0 : Math.min(facts.halfExtent[1], reach(facts.nearestOpen))];
 
   // Fresnel numbers and regime.
   const nfx = facts.characteristic[0] ** 2 / (lam * z);
@@ -932,6 +934,17 @@ function preChecks(
       code: 'near-wavelength',
       message: `the smallest feature (${len(g.facts.minFeature)}) is only ${fmt(checks.featureOverWavelength, 2)} λ: scalar diffraction loses accuracy there (polarisation, edge and thickness effects); a rigorous vector method is needed for quantitative results`,
     });
+  }
+  if (Number.isFinite(g.waist)) {
+    // A beam that barely reaches the open part: what passes is its far tail, e^{−2r²/w²} of it.
+    const r = g.obstructed ? Math.min(g.facts.halfExtent[0], g.oneD ? Infinity : g.facts.halfExtent[1]) : g.facts.nearestOpen;
+    const passing = Math.exp((-2 * r * r) / (g.waist * g.waist));
+    if (passing < LIMITS.littleLight) {
+      w.push({
+        code: 'little-light',
+        message: `the ${len(g.waist)} beam passes only about ${passing.toExponential(1)} of its power (the open part begins ${len(r)} from its axis, ${fmt(r / g.waist, 2)} beam radii): the result is the beam's far tail, where the computed values are at the level of rounding and of the beam's truncation, and their relative accuracy is not controlled`,
+      });
+    }
   }
   if (g.z < LIMITS.vectorDistance * g.lam) {
     // The scalar integral is still evaluated exactly, but a screen within a wavelength or so of a

@@ -32,9 +32,9 @@ export const ACCURACY_WARNINGS: readonly string[] = [
   'power-excess',
   'edge-energy',
   'band-limit',
-  // Being added by the planner rewrite:
   'orders-misplaced',
-  'accuracy',
+  'orders-power',
+  'little-light',
 ];
 
 /** Cases whose plan estimates more work than this are skipped (counted): the file's time guard. */

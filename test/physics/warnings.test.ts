@@ -26,6 +26,12 @@ describe('warnings', () => {
     expect(codes({ wavelength: lam, distance: 0.01, aperture: slit(20 * um) })).not.toContain('near-wavelength');
   });
 
+  it('little-light: a narrow beam centred on an annulus\'s obscuration passes only its far tail (Siegman ch. 17: the Gaussian beam power beyond r is e^{−2r²/w²})', () => {
+    const ann = { shape: 'annulus' as const, outer: 40 * um, inner: 24 * um, opaque: false };
+    expect(codes({ wavelength: lam, distance: 0.1, aperture: ann, illumination: { kind: 'gaussian', waist: 2 * um, tilt: [0, 0] } })).toContain('little-light');
+    expect(codes({ wavelength: lam, distance: 0.1, aperture: ann, illumination: { kind: 'gaussian', waist: 20 * um, tilt: [0, 0] } })).not.toContain('little-light');
+  });
+
   it('near-wavelength: a screen closer than a wavelength (common practice: the real screen\'s near field is not scalar)', () => {
     expect(codes({ wavelength: lam, distance: 0.5 * lam, aperture: slit(20 * um) })).toContain('near-wavelength');
     expect(codes({ wavelength: lam, distance: 3 * lam, aperture: slit(20 * um) })).not.toContain('near-wavelength');
