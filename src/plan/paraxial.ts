@@ -20,12 +20,16 @@ export function droppedPhase(k: number, z: number, rho: number): number {
  * about the origin) seen from (x, y): it is monotonic in ρ, so the nearest and farthest aperture
  * points bound it.
  */
-export function paraxialVariation(k: number, z: number, ax: number, ay: number, x: number, y: number): number {
+export function paraxialVariation(k: number, z: number, ax: number, ay: number, x: number, y: number, absolute = false): number {
   const nx = Math.max(0, Math.abs(x) - ax);
   const ny = Math.max(0, Math.abs(y) - ay);
   const fx = Math.abs(x) + ax;
   const fy = Math.abs(y) + ay;
-  return Math.abs(droppedPhase(k, z, Math.hypot(fx, fy)) - droppedPhase(k, z, Math.hypot(nx, ny)));
+  const far = droppedPhase(k, z, Math.hypot(fx, fy));
+  // Against a free wave whose phase is exact, the dropped phase itself shifts the interference, not
+  // only its variation over the aperture: then the largest |φ| counts (φ is monotonic in ρ, ≤ 0).
+  if (absolute) return Math.abs(far);
+  return Math.abs(far - droppedPhase(k, z, Math.hypot(nx, ny)));
 }
 
 const MAX_POINTS = 400;
@@ -93,7 +97,7 @@ export function paraxialEstimate(p: ParaxialInputs): ParaxialEstimate {
   if (!(peak > 0)) return best;
   for (const x of points[0]!) {
     for (const y of points[1]!) {
-      const phase = paraxialVariation(k, z, p.aperture[0], model.oneD ? 0 : p.aperture[1], x, y);
+      const phase = paraxialVariation(k, z, p.aperture[0], model.oneD ? 0 : p.aperture[1], x, y, p.interferesWithFreeBeam);
       if (phase === 0) continue;
       const i = modelIntensity(model, lam, z, x, y);
       const weight = p.interferesWithFreeBeam ? Math.min(1, 2 * Math.sqrt(i)) : Math.min(1, i / peak);
