@@ -10,7 +10,8 @@
 //        transfer, inverse FFT, window) and the equivalent SciPy script, workers=1 and 2.
 // sweep  a 64-distance sweep of one aperture on one grid: 64 independent cases against the same
 //        64 with the source's spectrum computed once (compute and metrics; no files).
-// one-d  a long slit (1-D) and a rectangle (two 1-D problems) case, cases per second.
+// one-d  a long slit (1-D), a rectangle (two 1-D problems) and a 1000-slit grating whose orders
+//        leave at up to 45° (the exact integral, per period), cases per second.
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 
@@ -79,6 +80,14 @@ const ONE_D = [
     wavelength: 633e-9,
     distance: 15 * mm,
     aperture: { shape: 'rectangle', width: 300 * um, height: 120 * um, opaque: false },
+  },
+  {
+    // Orders to ±45°, N_F ≈ 1.2: the exact integral, one period summed over the 1000 (with the order
+    // table and its checks).
+    name: 'grating 1000 × 1 µm at 1.667 µm, 589 nm, 1 m (exact, orders to 45°)',
+    wavelength: 589e-9,
+    distance: 1,
+    aperture: { shape: 'slits', count: 1000, width: 1 * um, period: 1.667 * um, opaque: false },
   },
 ];
 
