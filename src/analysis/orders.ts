@@ -169,8 +169,11 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
     const next = m < hi ? positionOf(m + 1) : null;
     let a = prev !== null ? (prev + x) / 2 : next !== null ? x - (next - x) / 2 : -Infinity;
     let b = next !== null ? (next + x) / 2 : prev !== null ? x + (x - prev) / 2 : Infinity;
-    if (prev === null && a < w0 && x - core >= w0) a = w0;
-    if (next === null && b > w1 && x + core <= w1) b = w1;
+    // ... with at least three of the order's diffraction lobes (λ/D in angle, z·(λ/D)/γ³ on the
+    // screen) beyond its footprint, or most of its light may be past the window's edge.
+    const lobe = (g.distance * (g.wavelength / (2 * core))) / Math.max(1e-6, gammaOf(m) ** 3);
+    if (prev === null && a < w0 && x - core - 3 * lobe >= w0) a = w0;
+    if (next === null && b > w1 && x + core + 3 * lobe <= w1) b = w1;
     const inWindow = a >= w0 && b <= w1;
     const outside = inWindow ? undefined : b < w0 || a > w1 ? ('all' as const) : ('part' as const);
     const predicted = thinGratingFraction(g.width, g.period, m);

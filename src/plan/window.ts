@@ -92,7 +92,9 @@ export function planWindow(w: WindowInputs): WindowPlan {
         const ds = (model.beamEdgesPerPower[i]! * lam) / (2 * Math.PI ** 2 * target);
         const s = b.dir[i]!;
         const at = toScreen(s, z);
-        const cap = Math.max(MARGIN_S_MAX, Math.abs(s));
+        // Beyond MARGIN_S_MAX a beam still gets its margin, up to half its way to grazing: an order
+        // at 76° spreads over decimetres of the screen, and without it half its light was outside.
+        const cap = Math.max(MARGIN_S_MAX, Math.abs(s) + Math.min(ds, (1 - Math.abs(s)) / 2));
         lo = Math.min(lo, at - body(i) - Math.max(at - toScreen(s - ds, z, cap), fresnel));
         hi = Math.max(hi, at + body(i) + Math.max(toScreen(s + ds, z, cap) - at, fresnel));
       }

@@ -40,6 +40,8 @@ const JOBS: GratingJob[] = [
   { name: 'doublet', wavelengths: [589.0 * nm, 589.6 * nm], z: 1, count: 1000, width: 1 * um, period: 1.667 * um, tilt: 0 },
   { name: 'oblique mask grating', wavelengths: [488 * nm], z: 100 * mm, count: 200, width: 300 * nm, period: 600 * nm, tilt: 30 * deg },
   { name: 'white light', wavelengths: [400, 450, 500, 550, 600, 650, 700].map((l) => l * nm), z: 0.3, count: 50, width: 1.5 * um, period: 3.333 * um, tilt: 0 },
+  // A second order at 76° (405 nm): it spreads over decimetres of the screen near grazing.
+  { name: 'compact spectrometer (demo job)', wavelengths: [405 * nm, 650 * nm], z: 0.3, count: 600, width: 333 * nm, period: 833.3 * nm, tilt: 0 },
 ];
 
 describe.each(JOBS)('the $name grating: every order where the grating equation puts it', (job) => {
