@@ -182,7 +182,9 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
     const modelCore = model.integrate(x - r, x + r);
     const shift = modelCore.power > 0 ? modelCore.moment / modelCore.power - x : 0;
     const centroid = core.power > 0 ? core.moment / core.power - shift : null;
-    const measured = o.fractionOfTransmitted ?? 0;
+    // Measured here over the interval (the table leaves it empty where its own, stricter test of
+    // separation fails; this check has passed its own).
+    const measured = P > 0 ? integrateColumns(colPower, map, a, b).power / P : 0;
     const f = o.predictedFraction;
     // The finite grating's own departure from the thin-grating fraction (leakage into and out of
     // the interval, the envelope across it), from the model; and beyond the far field the 1/u

@@ -53,6 +53,13 @@ export interface GratingOrder {
   predictedFlux: number;
   /** Centroid of the intensity over the interval (m), null when the interval is not wholly in the window or dark. */
   centroid: number | null;
+  /**
+   * The order's beam is clear of its neighbours' on the screen (each is the grating's footprint
+   * about its landing point, widened by three diffraction lobes z·(λ/D)/γ³ on each side): only then
+   * is the light in its interval its own. False closer than the orders separate (the grating's
+   * near field), where its measured fractions are left empty.
+   */
+  separated: boolean;
   /** Resolving power λ/Δλ = |m|·N of the order (Born & Wolf §8.6.3), null for m = 0 and for orders that do not land. */
   resolvingPower: number | null;
 }
@@ -76,6 +83,12 @@ export interface OrderTable {
    */
   evanescentFraction: number;
   omitted: OmittedOrders[];
+  /**
+   * Propagating orders inside the window whose beams overlap a neighbour's (their powers cannot be
+   * read off the map), and the distance beyond which the first orders separate (null when they
+   * never do: four lobes of a grating of N ≤ 6 lines are as wide as the spacing).
+   */
+  unresolved: { orders: number[]; separateBeyond: number | null } | null;
 }
 
 export interface GratingInput {
@@ -179,11 +192,16 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
     const predicted = thinGratingFraction(g.width, g.period, m);
     carried += predicted;
     const obliquity = gammaOf(m) / gammaI;
+    // Spread beyond the footprint: three far-field lobes λz/D, or in the grating's near field three
+    // Fresnel zones √(λz) (its edge waves), whichever is wider, stretched by 1/γ³ at angle.
+    const spread = 3 * Math.max((g.distance * g.wavelength) / (2 * core), Math.sqrt(g.wavelength * g.distance));
+    const reachOf = (k: number) => core + spread / Math.max(1e-6, gammaOf(k) ** 3);
+    const separated = (prev === null || x - prev >= reachOf(m) + reachOf(m - 1)) && (next === null || next - x >= reachOf(m) + reachOf(m + 1));
     let measured: number | null = null;
     let centroid: number | null = null;
     if (inWindow) {
       const { power, moment } = integrateColumns(colPower, map, a, b);
-      measured = power / g.powerTransmitted;
+      if (separated) measured = power / g.powerTransmitted;
       centroid = power > 0 ? moment / power : null;
     }
     landing.push({
@@ -202,6 +220,7 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
       fluxFraction: measured !== null ? measured * obliquity : null,
       predictedFlux: predicted * obliquity,
       centroid,
+      separated,
       resolvingPower: m === 0 ? null : Math.abs(m) * g.count,
     });
   }
@@ -235,6 +254,7 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
         fluxFraction: 0,
         predictedFlux: 0,
         centroid: null,
+        separated: true,
         resolvingPower: null,
       });
       if (k === 0 || p >= EVANESCENT_LISTED || graze) last = out.length;
@@ -267,7 +287,21 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
     }
     kept = landing.slice(keepFrom, keepTo + 1);
   }
-  return { orders: [...low, ...kept, ...high], evanescentFraction, omitted };
+  // Orders in the window whose beams overlap, and where they separate: near the axis the first
+  // orders are z·λ/d apart and each reaches D/2 + 3·max(λz/D, √(λz)) from its landing point, so
+  // they separate once z·λ/d ≥ D + 6λz/D (z ≥ D/(λ/d − 6λ/D), possible only when 6d < D) and
+  // z·λ/d ≥ D + 6√(λz) (a quadratic in √z).
+  const crowded = landing.filter((o) => o.inWindow && !o.separated).map((o) => o.m);
+  const D = 2 * core;
+  let separateBeyond: number | null = null;
+  if (6 * g.period < D) {
+    const s = g.wavelength / g.period;
+    const byLobes = D / (s - (6 * g.wavelength) / D);
+    const root = (6 * Math.sqrt(g.wavelength) + Math.sqrt(36 * g.wavelength + 4 * s * D)) / (2 * s);
+    separateBeyond = Math.max(g.distance, byLobes, root * root);
+  }
+  const unresolved = crowded.length ? { orders: crowded, separateBeyond } : null;
+  return { orders: [...low, ...kept, ...high], evanescentFraction, omitted, unresolved };
 }
 
 /** The orders alone (see gratingOrderTable). */

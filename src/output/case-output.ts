@@ -176,7 +176,7 @@ export const METRIC_DEFINITIONS = {
   detectors:
     'fraction: power on the part of the detector inside the window over the reference power named by reference (power-through-aperture, or unobstructed-beam: what the detector would receive with nothing in the way); areaInWindow below 1 makes it a lower bound; null when the detector is wholly outside the window',
   orders:
-    'grating orders, d(sin θ_m − sin θ_i) = mλ; fractionOfTransmitted = ∫|U|²dx over the interval between the midpoints to the neighbouring orders / power through the slits; predictedFraction = (w/d)·sinc²(m·w/d) (thin-grating theory); fluxFraction = fractionOfTransmitted · cos θ_m/cos θ_i, the power crossing the screen plane; evanescent orders carry 0',
+    'grating orders, d(sin θ_m − sin θ_i) = mλ; fractionOfTransmitted = ∫|U|²dx over the interval between the midpoints to the neighbouring orders / power through the slits; predictedFraction = (w/d)·sinc²(m·w/d) (thin-grating theory); fluxFraction = fractionOfTransmitted · cos θ_m/cos θ_i, the power crossing the screen plane; evanescent orders carry 0; separated = false where the beam of an order overlaps that of a neighbour on the screen (closer than the orders separate): its fractions are then null',
   evanescentFraction: 'fraction of the power through the slits that thin-grating theory sends into evanescent orders (never reaches a screen)',
 } as const;
 
@@ -306,6 +306,7 @@ export function ordersCsv(orders: GratingOrder[], evanescentFraction?: number, o
     'flux_fraction',
     'predicted_flux',
     'resolving_power',
+    'separated',
   ];
   const rows: (string | number | boolean | null)[][] = orders.map((o) => [
     o.m,
@@ -323,12 +324,13 @@ export function ordersCsv(orders: GratingOrder[], evanescentFraction?: number, o
     o.fluxFraction,
     o.predictedFlux,
     o.resolvingPower,
+    o.propagates ? o.separated : null,
   ]);
   for (const r of omitted) {
-    rows.push([`${r.from}..${r.to}`, r.status, r.outside, null, null, null, null, null, null, null, null, r.predictedFraction, null, null, null]);
+    rows.push([`${r.from}..${r.to}`, r.status, r.outside, null, null, null, null, null, null, null, null, r.predictedFraction, null, null, null, null]);
   }
   if (evanescentFraction !== undefined) {
-    rows.push([null, 'all-evanescent', null, null, null, null, null, null, null, 0, null, evanescentFraction, 0, 0, null]);
+    rows.push([null, 'all-evanescent', null, null, null, null, null, null, null, 0, null, evanescentFraction, 0, 0, null, null]);
   }
   return toCsv(header, rows);
 }

@@ -255,7 +255,7 @@ export function orderTable(rec: CaseSummary): ReportTable {
   const rows: (string | number | null)[][] = [];
   const row = (o: GratingOrder) => [
     o.m,
-    o.status === 'outside-window' ? `outside the window (${o.outside === 'all' ? 'all' : 'part'} of its interval)` : o.status,
+    o.status === 'outside-window' ? `outside the window (${o.outside === 'all' ? 'all' : 'part'} of its interval)` : o.propagates && !o.separated ? 'propagating (overlaps its neighbours here)' : o.status,
     o.angle === null ? `sin θ = ${trimNumber(o.sinAngle, 4)}` : `${trimNumber((o.angle * 180) / Math.PI, 5)}°`,
     fmtLen(o.position),
     pctCell(o.fractionOfTransmitted),

@@ -77,6 +77,15 @@ export function runPlannedCase(plan: Plan): CaseRecord {
     metrics.orderChecks = checks.checked;
     if (checks.stray.length) metrics.strayLight = checks.stray;
     warnings.push(...checks.warnings);
+    if (table.unresolved) {
+      const u = table.unresolved;
+      warnings.push({
+        code: 'orders-unresolved',
+        message:
+          `at ${formatLength(c.distance, 4)} the orders ${u.orders.length > 6 ? `${u.orders[0]}…${u.orders[u.orders.length - 1]}` : u.orders.join(', ')} overlap on the screen (each is a beam as wide as the grating's ${formatLength(input.count * input.period, 3)}, widened by its diffraction): the light between two orders is theirs together, so their powers are left empty in the order table` +
+          (u.separateBeyond !== null ? `; they separate beyond about ${formatLength(u.separateBeyond, 3)}` : '; with so few lines they never separate fully'),
+      });
+    }
   }
   const verdicts = caseVerdicts(plan, computed, centre);
   if (verdicts.length) metrics.verdicts = verdicts;

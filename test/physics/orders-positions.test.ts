@@ -252,3 +252,47 @@ describe('window loss apart from evanescent light (no advice to leave the planne
     for (const x of [...lost, ...asPlanned]) expect(x.message).not.toMatch(/to the planner/);
   });
 });
+
+describe('orders that overlap on the screen (the grating’s near field): no power read off the map for them', () => {
+  // 20 slits of 5 µm at 10 µm: the beams of orders 0 and ±1 are each the grating's 195 µm footprint
+  // widened by diffraction (common practice: three far-field lobes λz/D, or three Fresnel zones √(λz)
+  // near the grating, on each side), and z·λ/d apart (Hecht §10.2.8, small angles).
+  const aperture = { shape: 'slits' as const, count: 20, width: 5 * um, period: 10 * um, opaque: false };
+  const D = 19 * 10 * um + 5 * um;
+  it('at 1 mm (orders 63 µm apart, beams about 300 µm wide) the orders overlap: warned, fractions empty, where they separate said', () => {
+    const { rec, codes } = runCase({ wavelength: lam, distance: 1e-3, aperture });
+    expect(codes).toContain('orders-unresolved');
+    const inside = rec.metrics.orders!.filter((o) => o.status === 'propagating' && Math.abs(o.m) <= 1);
+    expect(inside.length).toBe(3);
+    for (const o of inside) {
+      expect(o.separated).toBe(false);
+      expect(o.fractionOfTransmitted).toBeNull();
+      expect(o.fluxFraction).toBeNull();
+    }
+    const msg = rec.warnings.find((w) => w.code === 'orders-unresolved')!.message;
+    const beyond = /separate beyond about ([\d.]+) (mm|cm|m)\b/.exec(msg);
+    expect(beyond).not.toBeNull();
+    // Independently of the table: z·λ/d ≥ D + 6·max(λz/D, √(λz)) solved by bisection.
+    const apart = (z: number) => (z * lam) / (10 * um) - D - 6 * Math.max((lam * z) / D, Math.sqrt(lam * z));
+    let [a, b] = [1e-3, 10];
+    for (let i = 0; i < 200; i++) {
+      const m = (a + b) / 2;
+      if (apart(m) >= 0) b = m;
+      else a = m;
+    }
+    const scale = { mm: 1e-3, cm: 1e-2, m: 1 }[beyond![2] as 'mm' | 'cm' | 'm'];
+    expect(Number(beyond![1]) * scale).toBeCloseTo(b, 4);
+  });
+  it('beyond that distance the same grating’s orders are separated, read off the map, and carry their thin-grating power within 1/N', () => {
+    const apart = (z: number) => (z * lam) / (10 * um) - D - 6 * Math.max((lam * z) / D, Math.sqrt(lam * z));
+    let z = 1e-3;
+    while (apart(z) < 0) z *= 1.1;
+    const { rec, codes } = runCase({ wavelength: lam, distance: z, aperture });
+    expect(codes).not.toContain('orders-unresolved');
+    for (const o of rec.metrics.orders!.filter((k) => k.status === 'propagating' && Math.abs(k.m) <= 1)) {
+      expect(o.separated).toBe(true);
+      // Budget as above (1/N of the strongest neighbour: leakage of the finite grating's tails).
+      expect(Math.abs(o.fractionOfTransmitted! - thin(0.5, o.m))).toBeLessThan(thin(0.5, 0) / 20 + 1e-4);
+    }
+  });
+});
