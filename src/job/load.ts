@@ -1,7 +1,15 @@
 // Reading a job file: YAML or JSON text -> validated JobSpec, or errors that say where (file, line,
 // column, key path), what was given and what was expected.
-import { readFile } from 'node:fs/promises';
-import { LineCounter, parseDocument, isNode, type Document } from 'yaml';
+//
+// The work is bounded by the input: the file is a regular file of at most MAX_JOB_BYTES, read
+// without ever blocking (a FIFO or /dev/zero is refused from its stat); every stage after it is
+// linear in the text (duplicate keys are found with one set per mapping, not the parser's pairwise
+// check); at most MAX_PROBLEMS problems are described (and the rest counted); every value echoed
+// in a message is escaped and cut (safe-text.ts).
+import { constants } from 'node:fs';
+import { open, stat } from 'node:fs/promises';
+import type { Stats } from 'node:fs';
+import { LineCounter, parseDocument, isNode, isMap, isSeq, isScalar, type Document } from 'yaml';
 import type { $ZodIssue } from 'zod/v4/core';
 import {
   APERTURE_KEYS,
@@ -16,10 +24,26 @@ import {
   RANGE_KEYS,
   SHAPE_NAMES,
   ILLUMINATION_KINDS,
+  WAVELENGTH_USUAL_MAX,
+  WAVELENGTH_USUAL_MIN,
   jobSchema,
+  quantityKindAt,
   type JobSpec,
 } from './schema.js';
 import { closest } from './suggest.js';
+import { formatLength, isBareNumber } from './units.js';
+import { escapeControl, safeEcho } from '../safe-text.js';
+
+/**
+ * Largest job file read: 1 MiB. Job files are a few kB; the YAML parser holds about 250 bytes of
+ * nodes per byte of a dense file, so 1 MiB costs at most about 250 MB and a second of parsing,
+ * where 4 MiB would cost a gigabyte.
+ */
+export const MAX_JOB_BYTES = 1 << 20;
+/** Problems described in one refusal; the rest are counted ("and 37 more problems"). */
+export const MAX_PROBLEMS = 20;
+/** Longest echo of a key in a message. */
+const KEY_ECHO = 60;
 
 export interface JobProblem {
   /** Key path such as "aperture.diameter" ("" for the whole file). */
@@ -39,9 +63,16 @@ export class JobError extends Error {
   }
 }
 
+/** "file:line:column: key.path: message"; the file name is escaped too (it came from input). */
 export function formatProblem(file: string, p: JobProblem): string {
-  const where = p.line !== undefined ? `${file}:${p.line}:${p.column ?? 1}` : file;
+  const f = safeEcho(file, 300);
+  const where = p.line !== undefined ? `${f}:${p.line}:${p.column ?? 1}` : f;
   return p.path ? `${where}: ${p.path}: ${p.message}` : `${where}: ${p.message}`;
+}
+
+/** A load warning as a line: "file:line:column: key.path: warning: message". */
+export function formatWarning(file: string, p: JobProblem): string {
+  return formatProblem(file, { ...p, message: `warning: ${p.message}` });
 }
 
 export interface LoadedJob {
@@ -49,46 +80,206 @@ export interface LoadedJob {
   spec: JobSpec;
   /** The job exactly as written (parsed, before units and defaults), echoed into results. */
   given: Record<string, unknown>;
+  /**
+   * What loads but is probably not what was meant (a number without a unit, a wavelength outside
+   * 100 nm – 20 µm), at most MAX_PROBLEMS, each with its key and position. Print with formatWarning.
+   */
+  warnings: JobProblem[];
 }
 
 export async function loadJobFile(file: string): Promise<LoadedJob> {
-  let text: string;
+  return parseJobText(await readJobText(file), file);
+}
+
+/** The file's text, or a JobError: never blocks, never reads more than MAX_JOB_BYTES + 1 bytes. */
+async function readJobText(file: string): Promise<string> {
+  const refuse = (why: string) => new JobError(file, [{ path: '', message: `cannot read the job file: ${why}` }]);
+  let st: Stats;
   try {
-    text = await readFile(file, 'utf8');
+    // stat follows links, and looks before opening: opening a FIFO for reading would wait for a writer.
+    st = await stat(file);
   } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'is a folder, not a job file' : String(e);
-    throw new JobError(file, [{ path: '', message: `cannot read the job file: ${why}` }]);
+    throw refuse(fsReason(e));
   }
-  return parseJobText(text, file);
+  const notRegular = (s: Stats) => (s.isDirectory() ? 'is a folder, not a job file' : !s.isFile() ? `is ${fileKind(s)}, not a regular file` : undefined);
+  const kind = notRegular(st);
+  if (kind) throw refuse(kind);
+  if (st.size > MAX_JOB_BYTES) throw refuse(tooBig(st.size));
+  let handle;
+  try {
+    // O_NONBLOCK: if the path was swapped for a FIFO since the stat, opening still returns at once.
+    handle = await open(file, constants.O_RDONLY | constants.O_NONBLOCK);
+  } catch (e) {
+    throw refuse(fsReason(e));
+  }
+  try {
+    const again = notRegular(await handle.stat());
+    if (again) throw refuse(again);
+    const buf = Buffer.alloc(MAX_JOB_BYTES + 1);
+    let n = 0;
+    while (n < buf.length) {
+      const { bytesRead } = await handle.read(buf, n, buf.length - n, n);
+      if (bytesRead === 0) break;
+      n += bytesRead;
+    }
+    if (n > MAX_JOB_BYTES) throw refuse(tooBig(n, true));
+    return buf.toString('utf8', 0, n);
+  } catch (e) {
+    if (e instanceof JobError) throw e;
+    throw refuse(fsReason(e));
+  } finally {
+    await handle.close();
+  }
+}
+
+function fsReason(e: unknown): string {
+  const code = (e as NodeJS.ErrnoException).code;
+  switch (code) {
+    case 'ENOENT':
+      return 'no such file';
+    case 'EISDIR':
+      return 'is a folder, not a job file';
+    case 'ENOTDIR':
+      return 'a part of the path is not a folder';
+    case 'EACCES':
+    case 'EPERM':
+      return 'permission denied';
+    case 'ELOOP':
+      return 'too many levels of symbolic links';
+    case 'ENAMETOOLONG':
+      return 'the path is too long';
+    default:
+      return safeEcho((e as Error)?.message ?? String(e));
+  }
+}
+
+function fileKind(s: Stats): string {
+  if (s.isFIFO()) return 'a FIFO (named pipe)';
+  if (s.isCharacterDevice()) return 'a character device';
+  if (s.isBlockDevice()) return 'a block device';
+  if (s.isSocket()) return 'a socket';
+  return 'not a regular file';
+}
+
+function tooBig(bytes: number, grew = false): string {
+  const cap = `the ${formatBytes(MAX_JOB_BYTES)} a job file may hold`;
+  return grew ? `holds more than ${cap} (it grew while being read)` : `is ${formatBytes(bytes)} (${bytes} bytes), more than ${cap}`;
+}
+
+function formatBytes(n: number): string {
+  if (n < 1024) return `${n} bytes`;
+  if (n < 1024 * 1024) return `${Number((n / 1024).toPrecision(3))} KiB`;
+  if (n < 1024 ** 3) return `${Number((n / 1024 ** 2).toPrecision(3))} MiB`;
+  return `${Number((n / 1024 ** 3).toPrecision(3))} GiB`;
 }
 
 /** Parses job text (YAML, or JSON, which YAML reads too) and validates it. */
 export function parseJobText(text: string, file = '<job>'): LoadedJob {
+  if (text.length > MAX_JOB_BYTES) {
+    throw new JobError(file, [{ path: '', message: `the job text is ${text.length} characters, more than the ${MAX_JOB_BYTES} (${formatBytes(MAX_JOB_BYTES)}) a job may hold` }]);
+  }
   const lineCounter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: true });
-  if (doc.errors.length > 0) {
-    throw new JobError(
-      file,
-      doc.errors.map((err) => {
-        const pos = err.linePos?.[0];
-        return {
-          path: '',
-          // The parser's first line repeats the position ("... at line 3, column 1:"), given in front.
-          message: `syntax error: ${err.message.split('\n')[0]!.replace(/ at line \d+, column \d+:?\s*$/, '')}`,
-          line: pos?.line,
-          column: pos?.col,
-        };
-      }),
+  // uniqueKeys: false, and duplicates found below: the parser's own check compares every key of a
+  // mapping with every other (100 000 keys took two minutes).
+  const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: false });
+  const syntax = new Problems();
+  for (const err of doc.errors) {
+    const pos = err.linePos?.[0];
+    syntax.add(
+      {
+        path: '',
+        // The parser's first line repeats the position ("... at line 3, column 1:"), given in front.
+        message: `syntax error: ${safeEcho(err.message.split('\n')[0]!.replace(/ at line \d+, column \d+:?\s*$/, ''))}`,
+        line: pos?.line,
+        column: pos?.col,
+      },
+      err.pos?.[0] ?? 0,
     );
   }
-  const given = doc.toJS() as unknown;
+  if (doc.errors.length === 0) findDuplicateKeys(doc, lineCounter, syntax);
+  if (syntax.count > 0) throw new JobError(file, syntax.sorted());
+  let given: unknown;
+  try {
+    given = doc.toJS(); // refuses alias bombs itself (more than 100 alias expansions)
+  } catch (e) {
+    throw new JobError(file, [{ path: '', message: `cannot read the document: ${safeEcho((e as Error).message)}` }]);
+  }
   if (given === null || typeof given !== 'object' || Array.isArray(given)) {
     throw new JobError(file, [
       { path: '', message: 'expected a job: a mapping of keys such as name, wavelength, distance, aperture' },
     ]);
   }
   return validateJob(given as Record<string, unknown>, file, { doc, lineCounter });
+}
+
+/**
+ * Keys repeated in one mapping, at the later occurrence, in one pass with a set per mapping.
+ * Keys compare as the object keys they become ('1' and 1 are the same key), and the walk keeps its
+ * own stack, so deep nesting cannot overflow the call stack.
+ */
+function findDuplicateKeys(doc: Document, lineCounter: LineCounter, out: Problems): void {
+  const stack: unknown[] = [doc.contents];
+  while (stack.length > 0 && !out.full) {
+    const node = stack.pop();
+    if (isMap(node)) {
+      const seen = new Set<string>();
+      for (const item of node.items) {
+        const k = item.key;
+        if (isScalar(k)) {
+          const id = String(k.value);
+          if (seen.has(id)) {
+            const offset = k.range?.[0] ?? 0;
+            const { line, col } = lineCounter.linePos(offset);
+            out.add({ path: '', message: 'syntax error: Map keys must be unique', line, column: col }, offset);
+          }
+          seen.add(id);
+        }
+        if (isNode(item.value)) stack.push(item.value);
+      }
+    } else if (isSeq(node)) {
+      for (const item of node.items) if (isNode(item)) stack.push(item);
+    }
+  }
+}
+
+/**
+ * A capped list of problems: the first MAX_PROBLEMS (without repeats) are kept, the rest counted.
+ */
+class Problems {
+  private readonly items: { p: JobProblem; order: number }[] = [];
+  private readonly seen = new Set<string>();
+  private more = 0;
+
+  get full(): boolean {
+    return this.items.length >= MAX_PROBLEMS;
+  }
+  get count(): number {
+    return this.items.length + this.more;
+  }
+  /** Counts problems not described (the list is full). */
+  skip(n = 1): void {
+    this.more += n;
+  }
+  add(p: JobProblem, order = this.items.length): void {
+    const key = `${p.path}|${p.message}|${p.line}|${p.column}`;
+    if (this.seen.has(key)) return;
+    if (this.full) {
+      this.more++;
+      return;
+    }
+    this.seen.add(key);
+    this.items.push({ p, order });
+  }
+  private withCount(list: JobProblem[]): JobProblem[] {
+    if (this.more === 0) return list;
+    return [...list, { path: '', message: `and ${this.more} more problem${this.more === 1 ? '' : 's'} (the first ${MAX_PROBLEMS} are listed)` }];
+  }
+  list(): JobProblem[] {
+    return this.withCount(this.items.map((i) => i.p));
+  }
+  sorted(): JobProblem[] {
+    return this.withCount([...this.items].sort((a, b) => a.order - b.order).map((i) => i.p));
+  }
 }
 
 interface Positions {
@@ -99,9 +290,17 @@ interface Positions {
 /** Validates an already-parsed job object (the library entry point for scripted jobs). */
 export function validateJob(given: Record<string, unknown>, file = '<job>', positions?: Positions): LoadedJob {
   const result = jobSchema.safeParse(given);
-  if (result.success) return { file, spec: result.data, given };
-  const problems = flattenIssues(result.error.issues).map((issue) => describeIssue(issue, given, positions));
-  throw new JobError(file, dedupe(problems));
+  if (result.success) return { file, spec: result.data, given, warnings: loadWarnings(result.data, given, positions) };
+  const problems = new Problems();
+  for (const issue of flattenIssues(result.error.issues)) {
+    if (problems.full) {
+      // Described no further (each description may search for a suggestion): only counted.
+      problems.skip(issue.code === 'unrecognized_keys' ? issue.keys.length : 1);
+      continue;
+    }
+    describeIssue(issue, given, positions, problems);
+  }
+  throw new JobError(file, problems.list());
 }
 
 function flattenIssues(issues: readonly $ZodIssue[]): $ZodIssue[] {
@@ -110,11 +309,11 @@ function flattenIssues(issues: readonly $ZodIssue[]): $ZodIssue[] {
     // A union reports every branch's failure; the most specific branch is the one whose issues
     // reach deepest, which is what a person meant to write.
     if (issue.code === 'invalid_union' && issue.errors.length > 0) {
-      const best = issue.errors
-        .map((branch) => branch.map((b) => ({ ...b, path: [...issue.path, ...b.path] }) as $ZodIssue))
-        .sort((a, b) => depth(b) - depth(a))[0]!;
-      if (depth(best) > issue.path.length) {
-        out.push(...flattenIssues(best));
+      // (Depths are within the branch: its issues' paths are relative to the union's.)
+      let best = issue.errors[0]!;
+      for (const branch of issue.errors) if (depth(branch) > depth(best)) best = branch;
+      if (depth(best) > 0) {
+        out.push(...flattenIssues(best.map((b) => ({ ...b, path: [...issue.path, ...b.path] }) as $ZodIssue)));
         continue;
       }
       // Nothing went deeper: when the value's type suits exactly one branch (a number where a
@@ -142,30 +341,31 @@ function isTypeMiss(branch: $ZodIssue[]): boolean {
   );
 }
 
+/** How deep a branch's issues reach (a loop: a branch may hold 100 000 issues, too many to spread). */
 function depth(branch: $ZodIssue[]): number {
-  return Math.max(...branch.map((i) => i.path.length + (i.code === 'custom' ? 0.5 : 0)));
+  let d = -Infinity;
+  for (const i of branch) d = Math.max(d, i.path.length + (i.code === 'custom' ? 0.5 : 0));
+  return d;
 }
 
-function dedupe(problems: JobProblem[]): JobProblem[] {
-  const seen = new Set<string>();
-  return problems.filter((p) => {
-    const key = `${p.path}|${p.message}`;
-    if (seen.has(key)) return false;
-    seen.add(key);
-    return true;
-  });
-}
-
-function describeIssue(issue: $ZodIssue, given: unknown, positions?: Positions): JobProblem {
+function describeIssue(issue: $ZodIssue, given: unknown, positions: Positions | undefined, out: Problems): void {
   const path = issue.path.map((p) => (typeof p === 'number' ? p : String(p)));
   if (issue.code === 'unrecognized_keys') {
+    // One problem per key, at the key's own line; suggestions for the first MAX_PROBLEMS only.
     const known = knownKeysAt(path, given);
-    const messages = issue.keys.map((k) => {
+    for (const k of issue.keys) {
+      if (out.full) {
+        out.skip();
+        continue;
+      }
       const hint = closest(k, known);
-      return `unknown key '${k}'${hint ? ` (did you mean '${hint}'?)` : ''}; known keys here: ${known.join(', ')}`;
-    });
-    const keyPath = [...path, issue.keys[0]!];
-    return { path: dotted(path), message: messages.join('; '), ...positionOf(keyPath, positions, true) };
+      out.add({
+        path: dotted(path),
+        message: `unknown key '${safeEcho(k, KEY_ECHO)}'${hint ? ` (did you mean '${hint}'?)` : ''}; known keys here: ${known.join(', ')}`,
+        ...positionOf([...path, k], positions, true),
+      });
+    }
+    return;
   }
   const value = valueAt(given, path);
   let message = issue.message;
@@ -179,8 +379,50 @@ function describeIssue(issue: $ZodIssue, given: unknown, positions?: Positions):
   }
   const got = value === undefined ? '' : `, got ${show(value)}`;
   const reason = issue.code === 'custom' ? (issue.params as { reason?: string } | undefined)?.reason : undefined;
-  if (reason) return { path: dotted(path), message: `${message}${got}: ${reason}`, ...positionOf(path, positions, false) };
-  return { path: dotted(path), message: `${message}${got}`, ...positionOf(path, positions, false) };
+  out.add({ path: dotted(path), message: `${message}${got}${reason ? `: ${reason}` : ''}`, ...positionOf(path, positions, false) });
+}
+
+/**
+ * Warnings for a job that loads: a number without a unit where a length or an angle goes (once
+ * per key, at its first such value), and wavelengths outside 100 nm – 20 µm.
+ */
+function loadWarnings(spec: JobSpec, given: Record<string, unknown>, positions?: Positions): JobProblem[] {
+  const out = new Problems();
+  const warned = new Set<string>();
+  // The job is valid here, so its depth and size are the schema's (lists of at most 100 000 values).
+  const walk = (v: unknown, path: (string | number)[]): void => {
+    if (Array.isArray(v)) {
+      v.forEach((x, i) => walk(x, [...path, i]));
+    } else if (v !== null && typeof v === 'object') {
+      for (const [k, x] of Object.entries(v)) walk(x, [...path, k]);
+    } else if (isBareNumber(v) && Number(v) !== 0) {
+      const kind = quantityKindAt(path);
+      if (!kind) return;
+      const key = path.filter((p) => typeof p === 'string').join('.');
+      if (warned.has(key)) return;
+      warned.add(key);
+      const text = safeEcho(typeof v === 'string' ? v.trim() : String(v));
+      const x = Number(v);
+      const unit = kind === 'length' ? 'm' : 'rad';
+      const said = kind === 'length' ? formatLength(x) : `${Number(((x * 180) / Math.PI).toPrecision(4))}°`;
+      out.add({
+        path: dotted(path),
+        message: `taken as ${text} ${unit}${said === `${text} ${unit}` ? '' : ` (${said})`}, as a number without a unit is in ${kind === 'length' ? 'metres' : 'radians'}; write '${text} ${unit}' to silence this`,
+        ...positionOf(path, positions, false),
+      });
+    }
+  };
+  walk(given, []);
+  const unusual = spec.wavelength.values.filter((w) => w < WAVELENGTH_USUAL_MIN || w > WAVELENGTH_USUAL_MAX);
+  if (unusual.length > 0) {
+    const which = unusual.length === 1 ? formatLength(unusual[0]!) : `${unusual.length} of the wavelengths (${formatLength(unusual[0]!)}, ...)`;
+    out.add({
+      path: 'wavelength',
+      message: `${which} outside ${formatLength(WAVELENGTH_USUAL_MIN)} – ${formatLength(WAVELENGTH_USUAL_MAX)}, the ultraviolet to the mid-infrared: computed as given, but check the unit`,
+      ...positionOf(['wavelength'], positions, false),
+    });
+  }
+  return out.list();
 }
 
 function knownKeysAt(path: (string | number)[], given: unknown): string[] {
@@ -253,11 +495,54 @@ function keyOffset(doc: Document, path: (string | number)[]): number | undefined
 }
 
 function dotted(path: (string | number)[]): string {
-  return path.map((p, i) => (typeof p === 'number' ? `[${p}]` : i === 0 ? p : `.${p}`)).join('');
+  return path.map((p, i) => (typeof p === 'number' ? `[${p}]` : i === 0 ? safeEcho(p, KEY_ECHO) : `.${safeEcho(p, KEY_ECHO)}`)).join('');
 }
 
+/** A value as echoed after "got": text quoted and cut, anything else as short JSON, escaped. */
 function show(v: unknown): string {
-  if (typeof v === 'string') return `'${v}'`;
-  const s = JSON.stringify(v);
-  return s === undefined ? String(v) : s.length > 80 ? `${s.slice(0, 77)}...` : s;
+  if (typeof v === 'string') return `'${safeEcho(v, 80)}'`;
+  const s = preview(v, 100);
+  return escapeControl(s.length > 80 ? `${s.slice(0, 77)}...` : s);
+}
+
+/**
+ * JSON of a value, stopped once about `budget` characters are written: a list of a million values
+ * or a deeply nested one costs no more than a short one.
+ */
+function preview(v: unknown, budget: number): string {
+  const parts: string[] = [];
+  let used = 0;
+  const put = (s: string) => {
+    parts.push(s);
+    used += s.length;
+  };
+  const go = (x: unknown): void => {
+    if (used > budget) return;
+    if (Array.isArray(x)) {
+      put('[');
+      for (let i = 0; i < x.length; i++) {
+        if (used > budget) break;
+        if (i > 0) put(',');
+        go(x[i]);
+      }
+      put(']');
+    } else if (x !== null && typeof x === 'object') {
+      put('{');
+      let first = true;
+      for (const k in x) {
+        if (used > budget) break;
+        if (!first) put(',');
+        first = false;
+        put(`${JSON.stringify(k.length > budget ? k.slice(0, budget) : k)}:`);
+        go((x as Record<string, unknown>)[k]);
+      }
+      put('}');
+    } else if (typeof x === 'string') {
+      put(JSON.stringify(x.length > budget ? x.slice(0, budget) : x));
+    } else {
+      put(JSON.stringify(x) ?? String(x));
+    }
+  };
+  go(v);
+  return parts.join('');
 }

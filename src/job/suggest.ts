@@ -21,8 +21,16 @@ export function editDistance(a: string, b: string): number {
   return d[m]![n]!;
 }
 
+/**
+ * Longest word a suggestion is searched for. A slip of the keyboard keeps a word near the length
+ * of a key (the longest is 13 characters); the edit distance costs length × length, so a 100 kB
+ * key is not compared with anything.
+ */
+export const MAX_SUGGEST_LENGTH = 40;
+
 /** The closest candidate, when it is close enough to be a plausible slip of the keyboard. */
 export function closest(word: string, candidates: readonly string[]): string | undefined {
+  if (word.length > MAX_SUGGEST_LENGTH) return undefined;
   const w = word.toLowerCase();
   let best: string | undefined;
   let bestD = Infinity;

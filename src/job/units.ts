@@ -1,5 +1,6 @@
 // Units are parsed here, once, at the edge of the program; everything past this module is SI
 // (metres, radians).
+import { safeEcho } from '../safe-text.js';
 
 const LENGTH_UNITS: Record<string, number> = {
   pm: 1e-12,
@@ -32,6 +33,12 @@ const QUANTITY = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([^\s\d.+-][
 
 export type UnitKind = 'length' | 'angle';
 
+/**
+ * Longest text read as a quantity. The longest sensible one ('-1.23456789012345e-10 microns') is
+ * under 40 characters; the cap keeps the pattern match linear and the echo short.
+ */
+export const MAX_QUANTITY_TEXT = 64;
+
 export interface ParsedQuantity {
   ok: true;
   value: number;
@@ -59,13 +66,16 @@ export function parseQuantity(input: unknown, kind: UnitKind): ParsedQuantity | 
             : `a ${typeof input}`;
     return { ok: false, reason: `${what} is not ${kind === 'angle' ? 'an angle' : 'a length'}` };
   }
+  if (input.length > MAX_QUANTITY_TEXT) {
+    return { ok: false, reason: `${input.length} characters is too long for a number with a unit` };
+  }
   const m = QUANTITY.exec(input);
-  if (!m) return { ok: false, reason: `cannot read '${input}' as a number with a unit` };
+  if (!m) return { ok: false, reason: `cannot read '${safeEcho(input)}' as a number with a unit` };
   const num = Number(m[1]);
   const unit = m[2];
   if (unit === undefined) {
     // A bare number in a string is taken as SI, like a bare number.
-    if (!Number.isFinite(num)) return { ok: false, reason: `'${input}' is too large a number` };
+    if (!Number.isFinite(num)) return { ok: false, reason: `'${safeEcho(input)}' is too large a number` };
     return { ok: true, value: num };
   }
   // Unit symbols are case-sensitive, as SI has them ('Mm' is not 'mm'); only the unit words
@@ -75,11 +85,22 @@ export function parseQuantity(input: unknown, kind: UnitKind): ParsedQuantity | 
   if (factor === undefined) {
     const known = Object.keys(table).filter((u) => !u.includes('μ')).join(', ');
     const hint = table[lower] !== undefined ? `; unit symbols are case-sensitive: did you mean '${lower}'?` : '';
-    return { ok: false, reason: `unknown ${kind} unit '${unit}' (known: ${known})${hint}` };
+    return { ok: false, reason: `unknown ${kind} unit '${safeEcho(unit)}' (known: ${known})${hint}` };
   }
   const value = num * factor;
-  if (!Number.isFinite(value)) return { ok: false, reason: `'${input}' is too large a number` };
+  if (!Number.isFinite(value)) return { ok: false, reason: `'${safeEcho(input)}' is too large a number` };
   return { ok: true, value };
+}
+
+/**
+ * A number given without a unit (42, or '42' in quotes): read as SI (metres, radians), which
+ * the loader warns about, since 'wavelength: 633' meant nanometres.
+ */
+export function isBareNumber(input: unknown): boolean {
+  if (typeof input === 'number') return true;
+  if (typeof input !== 'string' || input.length > MAX_QUANTITY_TEXT) return false;
+  const m = QUANTITY.exec(input);
+  return m !== null && m[2] === undefined;
 }
 
 /** Formats a length for people: 6.33e-7 -> "633 nm". */

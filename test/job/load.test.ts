@@ -73,7 +73,8 @@ describe('a bad value names file, line, column, key path, the value and what is 
   it('explains non-numeric types in a numeric place', () => {
     const ps = problems(HEAD + 'aperture: {shape: slits, count: 2.5, width: 1 um, period: 5 um}\n');
     expect(ps).toEqual([
-      expect.objectContaining({ path: 'aperture.count', message: 'expected a whole number 1 or more, or a list of them, got 2.5' }),
+      // The upper bound (1e6 slits) came with the physical bounds on every count.
+      expect.objectContaining({ path: 'aperture.count', message: 'expected a whole number from 1 to 1000000, or a list of them, got 2.5' }),
     ]);
     const [empty] = problems(HEAD + 'aperture:\n  shape: circle\n  diameter:\n');
     expect(empty!.message).toBe("expected a positive length such as '50 um', got null: an empty value is not a length");
