@@ -18,10 +18,18 @@ describe('toCsv (RFC 4180 §2)', () => {
     expect(toCsv(['a', 'b', 'c'], [['x', 1, 2.5], ['y', -3, 1e-7]])).toBe('a,b,c\nx,1,2.5\ny,-3,1e-7\n');
   });
 
-  it('rule 6: a comma, a double quote, LF or CR forces quotes', () => {
+  it('rule 6: a comma or a double quote forces quotes', () => {
     expect(toCsv(['v'], [['a,b']])).toBe('v\n"a,b"\n');
-    expect(toCsv(['v'], [['line1\nline2']])).toBe('v\n"line1\nline2"\n');
-    expect(toCsv(['v'], [['cr\rhere']])).toBe('v\n"cr\rhere"\n');
+    expect(toCsv(['v'], [['x,"y",\nz']])).toBe('v\n"x,""y"",\\x0az"\n');
+  });
+
+  it('LF, CR and every other control character in a text cell are written as visible escapes, so a record is one line', () => {
+    // Rule 6 would allow a quoted line break, but a cell from a job file must not carry one (nor an
+    // escape sequence) into a terminal or a spreadsheet: src/safe-text.ts escapeControl.
+    expect(toCsv(['v'], [['line1\nline2']])).toBe('v\nline1\\x0aline2\n');
+    expect(toCsv(['v'], [['cr\rhere']])).toBe('v\ncr\\x0dhere\n');
+    expect(toCsv(['v'], [['\x1b[2J\x07\x00\u202e']])).toBe('v\n\\x1b[2J\\x07\\x00\\u202e\n');
+    expect(toCsv(['a\tb'], [])).toBe('a\\x09b\n');
   });
 
   it('rule 7: an inner double quote is doubled', () => {
@@ -45,6 +53,22 @@ describe('toCsv (RFC 4180 §2)', () => {
     );
   });
 
+  it('a text cell a spreadsheet would take for a formula gets a leading apostrophe (src/safe-text.ts guardFormula)', () => {
+    // The cells starting with = + - @ (or a tab or CR before one) are the classes the OWASP page
+    // "CSV Injection" lists (from memory); the apostrophe prefix is common practice.
+    const cells = ['=1+1', '+A1', '-2+3', '@SUM(A1)', '=HYPERLINK("http://x","y")', '\t=1', '\r+1'];
+    const text = toCsv(['v'], cells.map((c) => [c]));
+    expect(text.trimEnd().split('\n').slice(1)).toEqual(["'=1+1", "'+A1", "'-2+3", "'@SUM(A1)", '"\'=HYPERLINK(""http://x"",""y"")"', "'\\x09=1", "'\\x0d+1"]);
+    // Text that does not start with one of them is left alone.
+    expect(toCsv(['v'], [['a=1'], ['1-2'], ['x@y']])).toBe('v\na=1\n1-2\nx@y\n');
+  });
+
+  it('negative numbers stay numbers: the guard is for text only, decided by the cell type', () => {
+    expect(toCsv(['x', 'y'], [[-3, -2.5e-7], [-0.001, -1e300]])).toBe('x,y\n-3,-2.5e-7\n-0.001,-1e+300\n');
+    // The same characters as text are guarded: a number written as text is not trusted as one.
+    expect(toCsv(['x'], [['-3']])).toBe("x\n'-3\n");
+  });
+
   it('numbers are written so that they read back to the same double', () => {
     const xs = [6.33e-7, 1 / 3, 0.1 + 0.2, 123456789.123, 5e-324, 1.7976931348623157e308];
     const lines = toCsv(['x'], xs.map((x) => [x])).trimEnd().split('\n').slice(1);
@@ -62,9 +86,16 @@ function readWithPython(text: string): string[][] {
 
 describe.skipIf(!havePython)("cross-check with Python's csv module (skipped without python3)", () => {
   it('reads back every awkward field exactly', () => {
-    const fields = ['plain', 'a,b', 'b"bb', 'line1\nline2', 'cr\r\nlf', ' spaced ', '', 'µm ≈ 1e-6 m', '=1+1', ',"\n'];
+    const fields = ['plain', 'a,b', 'b"bb', 'line1\nline2', 'cr\r\nlf', ' spaced ', '', 'µm ≈ 1e-6 m', '=1+1', ',"\n', '-2+3'];
+    // What a reader gets back is the text with control characters escaped and formulas guarded.
+    const expected = ['plain', 'a,b', 'b"bb', 'line1\\x0aline2', 'cr\\x0d\\x0alf', ' spaced ', '', 'µm ≈ 1e-6 m', "'=1+1", ',"\\x0a', "'-2+3"];
     const text = toCsv(['case', 'note'], fields.map((f, i) => [i, f]));
-    expect(readWithPython(text)).toEqual([['case', 'note'], ...fields.map((f, i) => [String(i), f])]);
+    expect(readWithPython(text)).toEqual([['case', 'note'], ...expected.map((f, i) => [String(i), f])]);
+  });
+
+  it('reads negative numbers back as numbers, not as guarded text', () => {
+    const rows = readWithPython(toCsv(['x'], [[-3], [-2.5e-7]]));
+    expect(rows.slice(1).map((r) => Number(r[0]))).toEqual([-3, -2.5e-7]);
   });
 });
 
@@ -90,7 +121,7 @@ describe('summary.csv', () => {
     expect(header.filter((h) => h.startsWith('distance')).length).toBe(1);
   });
 
-  it.skipIf(!havePython)('is one record per case that a CSV reader parses, errors quoted intact', () => {
+  it.skipIf(!havePython)('is one record per case that a CSV reader parses, errors quoted, their line breaks escaped', () => {
     const rows = readWithPython(text);
     const header = rows[0]!;
     expect(rows).toHaveLength(3);
@@ -99,9 +130,27 @@ describe('summary.csv', () => {
       expect(r).toHaveLength(header.length);
       expect(r[0]).toBe(cases[i]!.id);
       expect(r[col('status')]).toBe('failed');
-      expect(r[col('error')]).toBe(errors[i]);
+      expect(r[col('error')]).toBe(errors[i]!.replace('\n', '\\x0a'));
       expect(Number(r[col('distance_m')])).toBe(cases[i]!.distance);
       expect(Number(r[col('aperture.width_m')])).toBe(cases[i]!.swept['aperture.width']);
     });
+  });
+
+  it('guards text cells from input against formulas and escapes their control characters; numbers stay numbers', () => {
+    // Case ids are made by the tool today; the guard must not depend on that.
+    const hostile = [
+      { case: { ...cases[0]!, id: '=1+1' }, error: '-2+3 is not a length' },
+      { case: { ...cases[1]!, id: '@SUM(A1)\x1b[2J' }, error: '+A1\x07\x00' },
+    ];
+    const lines = summaryCsv(axes, hostile).trimEnd().split('\n');
+    const header = lines[0]!.split(',');
+    const cells = lines.slice(1).map((l) => l.split(','));
+    const at = (r: number, name: string) => cells[r]![header.indexOf(name)];
+    expect(at(0, 'case')).toBe("'=1+1");
+    expect(at(0, 'error')).toBe("'-2+3 is not a length");
+    expect(at(1, 'case')).toBe("'@SUM(A1)\\x1b[2J");
+    expect(at(1, 'error')).toBe("'+A1\\x07\\x00");
+    expect(summaryCsv(axes, hostile)).not.toMatch(/[\x00-\x09\x0b-\x1f\x7f]/);
+    expect(Number(at(0, 'distance_m'))).toBe(cases[0]!.distance);
   });
 });

@@ -119,5 +119,12 @@ aperture: {shape: slits, count: 20, width: 4 um, period: 10 um}
     const csv = (await readFile(join(o.folder!, caseId, 'orders.csv'), 'utf8')).trim().split('\n');
     expect(csv[0]).toMatch(/^m,status,outside,sin_angle,/);
     expect(csv[csv.length - 1]).toMatch(/^,all-evanescent,/);
+    // Numbers are written as numbers: the formula guard (a leading apostrophe, src/output/csv.ts)
+    // is for text only, so no cell that reads as a number carries it, and the negative orders'
+    // m and angles are plain negative numbers.
+    const cells = [...lines, ...csv.slice(1)].flatMap((l) => l.split(','));
+    const guarded = cells.filter((c) => c.startsWith("'"));
+    expect(guarded.filter((c) => c.slice(1) !== '' && Number.isFinite(Number(c.slice(1))))).toEqual([]);
+    expect(csv.slice(1).some((l) => /^-\d+,/.test(l))).toBe(true);
   }, 60_000);
 });
