@@ -112,6 +112,8 @@ const G: Record<string, string[]> = {
   '"': ['.#.#.', '.#.#.', '.#.#.', '.....', '.....', '.....', '.....'],
   '#': ['.#.#.', '.#.#.', '#####', '.#.#.', '#####', '.#.#.', '.#.#.'],
   '&': ['.##..', '#..#.', '#.#..', '.#...', '#.#.#', '#..#.', '.##.#'],
+  // Control characters in a drawn name are shown as their escapes (\x1b): see safe-text.ts.
+  '\\': ['#....', '#....', '.#...', '..#..', '...#.', '....#', '....#'],
 };
 // The Greek small mu looks the same as the micro sign; titles may use either.
 G['μ'] = G['µ']!;

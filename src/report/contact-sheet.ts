@@ -3,7 +3,8 @@
 // with the same metres per display pixel; brightness is per tile (each to its own peak), because
 // peaks along a sweep can differ by decades and one common brightness would blank most tiles.
 
-import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from '../output/font.js';
+import { CELL_H, CELL_W, drawText, textWidth, type Colour, type RgbImage } from '../output/font.js';
+import { escapeControl, safeEcho } from '../safe-text.js';
 import { shoal } from '../output/colour-scales.js';
 import { buildLut, encodePng, fillRect, frame, putLut, type Rect } from '../output/raster.js';
 import { formatLength } from '../job/units.js';
@@ -73,7 +74,7 @@ function validate(tiles: SheetTile[], opts: SheetOptions): void {
     throw new RangeError(`contact sheet: tilePixels must be an integer >= 16, got ${opts.tilePixels}`);
   }
   for (const t of tiles) {
-    const what = `contact sheet: tile "${t.label}"`;
+    const what = `contact sheet: tile "${safeEcho(t.label)}"`;
     if (!posInt(t.rows) || !posInt(t.cols)) throw new RangeError(`${what}: rows and cols must be positive integers`);
     if (t.intensity.length !== t.rows * t.cols) throw new RangeError(`${what}: ${t.intensity.length} values for ${t.rows}×${t.cols}`);
     const ok = (v: number): boolean => Number.isFinite(v) && v > 0;
@@ -113,7 +114,8 @@ function wrapLabel(label: string, room: number): string[] {
 
 function cut(s: string, room: number): string {
   if (textWidth(s) <= room) return s;
-  const chars = [...s];
+  // No more characters than could fit, first: the loop below then pops a few, not 100 000.
+  const chars = [...s.slice(0, 2 * (Math.floor(room / CELL_W) + 2))].slice(0, Math.floor(room / CELL_W) + 2);
   while (chars.length > 0 && textWidth(chars.join('') + '...') > room) chars.pop();
   return chars.join('') + '...';
 }
@@ -130,13 +132,15 @@ function plan(tiles: SheetTile[], opts: SheetOptions): Plan {
   const width = Math.max(2 * MARGIN + gridW, 2 * MARGIN + Math.max(...captions.map((c) => textWidth(c))));
   const left = Math.floor((width - gridW) / 2);
 
-  let title = opts.title ?? '';
+  // The title and labels may hold a job's name: control characters are drawn as their escapes
+  // (\x1b), not as boxes of the font's missing glyph, and the text is cut to the room it has.
+  let title = escapeControl(opts.title ?? '');
   const room = width - 2 * MARGIN;
   const titleScale = title && textWidth(title, 2) <= room ? 2 : 1;
   title = cut(title, room);
   const top = MARGIN + (title ? CELL_H * titleScale + 12 : 0);
 
-  const labelLines = tiles.map((t) => wrapLabel(t.label, slotW));
+  const labelLines = tiles.map((t) => wrapLabel(escapeControl(t.label), slotW));
   const nLines = Math.max(1, ...labelLines.map((l) => l.length));
   const cellH = nLines * LINE + 2 + T + 2 + 4 + LINE; // labels, frame, image, frame, peak line
 

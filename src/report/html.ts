@@ -5,6 +5,7 @@
 
 import { stringify as yamlStringify } from 'yaml';
 import { formatLength, trimNumber } from '../job/units.js';
+import { ECHO_MAX, safeEcho } from '../safe-text.js';
 import { TOOL_NAME } from '../version.js';
 import type { JobReport, MetricInfo, ReportCase, ReportPlot, ReportTable, SweepKey } from './types.js';
 
@@ -33,6 +34,23 @@ export const REPORT_LIMITS = {
   casesPerWarning: 30,
   /** Failed cases listed with their error in the summary. */
   failedListed: 200,
+  // Text from input (names, ids, keys, paths, and messages that quote a job file) is shown with its
+  // control characters escaped and cut to these lengths with the full length said (safe-text.ts),
+  // so a job file can neither hide markup or escape sequences in the page nor fill it with one
+  // 100 kB value.
+  /** Characters of one value: a name, a case id, a key, a label, a table heading. */
+  valueChars: ECHO_MAX,
+  /** Characters of a path (the job file, a case folder, a picture). */
+  pathChars: 1024,
+  /** Characters per line of a message: a warning, an error, a reason, a plan, a table cell. */
+  lineChars: 2000,
+  /** Lines of one message; the rest are counted. */
+  messageLines: 200,
+  /** The job as given: strings and keys are cut to valueChars; at most this many lines are shown. */
+  givenLines: 10_000,
+  /** ... and this many values (keys, list items, scalars) walked, nested at most givenDepth deep. */
+  givenValues: 100_000,
+  givenDepth: 32,
 } as const;
 
 // ---------------------------------------------------------------------------------------------
@@ -45,7 +63,23 @@ export function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (ch) => ESCAPES[ch]!);
 }
 
+/** For the tool's own words (its name, counts, sentences built here): HTML-escaped only. */
 const esc = (s: unknown) => escapeHtml(String(s));
+
+/** One value from input (a name, an id, a key, a path): control characters escaped, cut, HTML-escaped. */
+const value = (v: unknown, max: number = REPORT_LIMITS.valueChars) => escapeHtml(safeEcho(String(v), max));
+const path = (v: unknown) => value(v, REPORT_LIMITS.pathChars);
+
+/**
+ * Text of one or more lines that may quote input (a message, a plan, the job as given): line
+ * breaks kept, each line as `value` with `lineChars`, at most `maxLines` lines with the rest counted.
+ */
+function lines(v: unknown, maxLines: number = REPORT_LIMITS.messageLines, lineChars: number = REPORT_LIMITS.lineChars): string {
+  const all = String(v).split(/\r\n|\n/);
+  const shown = all.slice(0, maxLines).map((l) => safeEcho(l, lineChars));
+  if (all.length > maxLines) shown.push(`…(${all.length - maxLines} more lines)`);
+  return escapeHtml(shown.join('\n'));
+}
 
 function formatValue(v: number | null | undefined, unit: 'm' | '1'): string {
   if (v === null || v === undefined) return '—';
@@ -135,10 +169,10 @@ async function embed(assets: ReportAssets, path: string, kind: 'png' | 'svg'): P
 
 function img(image: Embedded, alt: string, cls: string): string {
   const dims = `${image.width ? ` width="${Math.round(image.width)}"` : ''}${image.height ? ` height="${Math.round(image.height)}"` : ''}`;
-  return `<img class="${cls}" src="${image.uri}" alt="${esc(alt)}"${dims}>`;
+  return `<img class="${cls}" src="${image.uri}" alt="${value(alt, REPORT_LIMITS.lineChars)}"${dims}>`;
 }
 
-const missingNote = (note: string) => `<p class="missing">${esc(note)}</p>`;
+const missingNote = (note: string) => `<p class="missing">${lines(note)}</p>`;
 
 // ---------------------------------------------------------------------------------------------
 // Sections
@@ -163,12 +197,12 @@ function header(r: JobReport): string {
   const row = (k: string, v: string) => `<div><dt>${k}</dt><dd>${v}</dd></div>`;
   return `<header>
 <p class="kicker">${esc(TOOL_NAME)} job report</p>
-<h1>${esc(r.job)}</h1>
-${r.description ? `<p class="description">${esc(r.description)}</p>` : ''}
+<h1>${value(r.job)}</h1>
+${r.description ? `<p class="description">${lines(r.description)}</p>` : ''}
 <dl class="facts">
-${row('job file', `<code>${esc(r.file)}</code>`)}
-${row('tool', `${esc(TOOL_NAME)} ${esc(r.toolVersion)}`)}
-${row('created', esc(r.createdAt))}
+${row('job file', `<code>${path(r.file)}</code>`)}
+${row('tool', `${esc(TOOL_NAME)} ${value(r.toolVersion)}`)}
+${row('created', value(r.createdAt))}
 ${row('cases', String(r.cases.length))}
 ${row('done / failed', `${done} / <span class="${failed > 0 ? 'bad' : ''}">${failed}</span>`)}
 ${missing > 0 ? row('not computed yet', `<span class="bad">${missing}</span>`) : ''}
@@ -192,7 +226,7 @@ function contents(r: JobReport): string {
 }
 
 function caseRef(r: JobReport, index: number): string {
-  const id = `<code>${esc(r.cases[index]!.id)}</code>`;
+  const id = `<code>${value(r.cases[index]!.id)}</code>`;
   return index < REPORT_LIMITS.caseSections ? `<a href="#${caseAnchor(index)}">${id}</a>` : id;
 }
 
@@ -219,9 +253,9 @@ function warningsSection(r: JobReport): string {
       const shown = g.cases.slice(0, REPORT_LIMITS.casesPerWarning).map((i) => caseRef(r, i));
       const more = g.cases.length - shown.length;
       out.push(
-        `<tr><td><code>${esc(code)}</code></td><td class="num">${g.count}</td><td>${shown.join(', ')}${
+        `<tr><td><code>${value(code)}</code></td><td class="num">${g.count}</td><td>${shown.join(', ')}${
           more > 0 ? ` and ${more} more` : ''
-        } <span class="muted">(${plural(g.cases.length, 'case')})</span></td><td>${esc(g.first)}</td></tr>`,
+        } <span class="muted">(${plural(g.cases.length, 'case')})</span></td><td>${lines(g.first)}</td></tr>`,
       );
     }
     out.push('</tbody></table></div>');
@@ -232,7 +266,7 @@ function warningsSection(r: JobReport): string {
   } else {
     out.push(`<h3>Failed cases (${failed.length})</h3><ul class="failed">`);
     for (const [c, i] of failed.slice(0, REPORT_LIMITS.failedListed)) {
-      out.push(`<li>${caseRef(r, i)}: ${esc(c.error ?? 'no error message was recorded')}</li>`);
+      out.push(`<li>${caseRef(r, i)}: ${lines(c.error ?? 'no error message was recorded')}</li>`);
     }
     out.push('</ul>');
     if (failed.length > REPORT_LIMITS.failedListed) {
@@ -248,15 +282,15 @@ function table(t: ReportTable, index: number): string {
   // A column is right-aligned when its cells are numbers, so digits line up.
   const numericCol = t.header.map((_, j) => rows.length > 0 && rows.every((row) => row[j] === null || row[j] === undefined || typeof row[j] === 'number'));
   const out: string[] = [
-    `<div class="scroll"><table class="data" id="table-${index + 1}"><caption>${esc(t.title)}</caption>`,
-    `<thead><tr>${t.header.map((h, j) => `<th${numericCol[j] ? ' class="num"' : ''}>${esc(h)}</th>`).join('')}</tr></thead><tbody>`,
+    `<div class="scroll"><table class="data" id="table-${index + 1}"><caption>${value(t.title, REPORT_LIMITS.lineChars)}</caption>`,
+    `<thead><tr>${t.header.map((h, j) => `<th${numericCol[j] ? ' class="num"' : ''}>${value(h)}</th>`).join('')}</tr></thead><tbody>`,
   ];
   for (const row of rows) {
     out.push(
       `<tr>${t.header
         .map((_, j) => {
           const { text, numeric } = formatCell(row[j] ?? null);
-          return `<td${numeric || numericCol[j] ? ' class="num"' : ''}>${esc(text)}</td>`;
+          return `<td${numeric || numericCol[j] ? ' class="num"' : ''}>${lines(text)}</td>`;
         })
         .join('')}</tr>`,
     );
@@ -265,7 +299,7 @@ function table(t: ReportTable, index: number): string {
   if (t.rows.length > rows.length) {
     out.push(`<p class="note">${t.rows.length - rows.length} further rows are left out of this page; the job folder's CSV files have every row.</p>`);
   }
-  if (t.note) out.push(`<p class="note">${esc(t.note)}</p>`);
+  if (t.note) out.push(`<p class="note">${lines(t.note)}</p>`);
   return out.join('\n');
 }
 
@@ -285,7 +319,7 @@ async function plotFigure(p: ReportPlot, assets: ReportAssets): Promise<string> 
     const png = await embed(assets, p.png, 'png');
     body = png.ok ? img(png.image, p.title, 'plot') + missingNote(svg.note) : missingNote(svg.note) + missingNote(png.note);
   }
-  return `<figure class="plot">${body}<figcaption>${esc(p.title)} <span class="muted">(${esc(p.svg)})</span></figcaption></figure>`;
+  return `<figure class="plot">${body}<figcaption>${value(p.title, REPORT_LIMITS.lineChars)} <span class="muted">(${path(p.svg)})</span></figcaption></figure>`;
 }
 
 async function plotsSection(r: JobReport, assets: ReportAssets): Promise<string> {
@@ -303,7 +337,7 @@ async function contactSheetSection(r: JobReport, assets: ReportAssets): Promise<
   const e = await embed(assets, r.contactSheet, 'png');
   const body = e.ok ? img(e.image, 'contact sheet of the case pictures', 'sheet') : missingNote(e.note);
   return `<section id="contact-sheet"><h2>Contact sheet</h2>
-<figure>${body}<figcaption>Every done case at a glance <span class="muted">(${esc(r.contactSheet)})</span></figcaption></figure>
+<figure>${body}<figcaption>Every done case at a glance <span class="muted">(${path(r.contactSheet)})</span></figcaption></figure>
 </section>`;
 }
 
@@ -325,12 +359,12 @@ async function caseSection(
   const out: string[] = [];
   out.push(
     `<section class="case" id="${caseAnchor(index)}">`,
-    `<h3>case <code>${esc(c.id)}</code> <span class="status ${c.status}">${c.status}</span>${
+    `<h3>case <code>${value(c.id)}</code> <span class="status ${value(c.status)}">${value(c.status)}</span>${
       c.warnings.length > 0 ? ` <span class="badge">${plural(c.warnings.length, 'warning')}</span>` : ''
     }</h3>`,
   );
-  if (c.verdict) out.push(`<p class="verdict">${esc(c.verdict)}</p>`);
-  if (c.status === 'failed') out.push(`<pre class="error">${esc(c.error ?? 'no error message was recorded')}</pre>`);
+  if (c.verdict) out.push(`<p class="verdict">${lines(c.verdict)}</p>`);
+  if (c.status === 'failed') out.push(`<pre class="error">${lines(c.error ?? 'no error message was recorded')}</pre>`);
 
   const facts: [string, string][] = [];
   for (const [key, v] of Object.entries(c.swept)) {
@@ -349,19 +383,19 @@ async function caseSection(
   for (const [key, v] of Object.entries(c.metrics)) {
     if (!metricByKey.has(key) && v !== null && v !== undefined) metricRows.push([key, formatValue(v, '1')]);
   }
-  const kv = (rows: [string, string][]) => rows.map(([k, v]) => `<tr><th>${esc(k)}</th><td>${esc(v)}</td></tr>`).join('');
+  const kv = (rows: [string, string][]) => rows.map(([k, v]) => `<tr><th>${value(k)}</th><td>${value(v)}</td></tr>`).join('');
   out.push('<div class="case-grid">');
-  out.push(`<table class="kv"><caption>case</caption>${kv(facts)}<tr><th>folder</th><td><code>${esc(c.folder)}</code></td></tr></table>`);
+  out.push(`<table class="kv"><caption>case</caption>${kv(facts)}<tr><th>folder</th><td><code>${path(c.folder)}</code></td></tr></table>`);
   if (metricRows.length > 0) out.push(`<table class="kv"><caption>key numbers</caption>${kv(metricRows)}</table>`);
   out.push('</div>');
 
   if (c.reasons.length > 0) {
-    out.push(`<h4>Why this plan</h4><ul class="reasons">${c.reasons.map((x) => `<li>${esc(x)}</li>`).join('')}</ul>`);
+    out.push(`<h4>Why this plan</h4><ul class="reasons">${c.reasons.map((x) => `<li>${lines(x)}</li>`).join('')}</ul>`);
   }
   if (c.warnings.length > 0) {
     out.push(
       `<h4>Warnings</h4><ul class="case-warnings">${c.warnings
-        .map((w) => `<li><code>${esc(w.code)}</code> ${esc(w.message)}</li>`)
+        .map((w) => `<li><code>${value(w.code)}</code> ${lines(w.message)}</li>`)
         .join('')}</ul>`,
     );
   }
@@ -371,13 +405,13 @@ async function caseSection(
       if (e.ok) {
         budget.count++;
         budget.bytes += e.image.bytes;
-        out.push(`<figure>${img(e.image, `intensity picture of case ${c.id}`, 'picture')}<figcaption><code>${esc(c.picture)}</code></figcaption></figure>`);
+        out.push(`<figure>${img(e.image, `intensity picture of case ${safeEcho(c.id)}`, 'picture')}<figcaption><code>${path(c.picture)}</code></figcaption></figure>`);
       } else {
         out.push(missingNote(e.note));
       }
     } else {
       budget.skipped++;
-      out.push(`<p class="note">Picture not included in this page: <code>${esc(c.picture)}</code> in the job folder.</p>`);
+      out.push(`<p class="note">Picture not included in this page: <code>${path(c.picture)}</code> in the job folder.</p>`);
     }
   }
   out.push('</section>');
@@ -410,19 +444,55 @@ function plansSection(r: JobReport): string {
   const shown = r.plans.slice(0, REPORT_LIMITS.plans);
   const out = ['<section id="plans"><h2>Plans</h2>'];
   if (r.plans.length === 0) out.push('<p>No plans were recorded.</p>');
-  for (const p of shown) out.push(`<pre class="plan">${esc(p)}</pre>`);
+  for (const p of shown) out.push(`<pre class="plan">${lines(p)}</pre>`);
   if (r.plans.length > shown.length) {
-    out.push(`<p class="note">${r.plans.length - shown.length} more plans are left out of this page; <code>${esc(TOOL_NAME)} plan ${esc(r.file)}</code> prints them all.</p>`);
+    out.push(`<p class="note">${r.plans.length - shown.length} more plans are left out of this page; <code>${esc(TOOL_NAME)} plan ${path(r.file)}</code> prints them all.</p>`);
   }
   out.push('</section>');
   return out.join('\n');
 }
 
+/**
+ * The job as given with every string, key or value, as safeEcho shows it (control characters
+ * escaped, cut to valueChars with the length said), walked to a bounded depth and number of
+ * values: the page shows what the file held without carrying a raw escape sequence or a 100 kB
+ * value, and the walk costs no more than the caps whatever the parsed document is.
+ */
+export function safeGiven(given: unknown): unknown {
+  const { givenValues, givenDepth, valueChars } = REPORT_LIMITS;
+  let budget = givenValues;
+  const walk = (v: unknown, depth: number): unknown => {
+    budget--;
+    if (typeof v === 'string') return safeEcho(v, valueChars);
+    if (v === null || typeof v === 'number' || typeof v === 'boolean') return v;
+    const plain = typeof v === 'object' && (Array.isArray(v) || [Object.prototype, null].includes(Object.getPrototypeOf(v)));
+    if (!plain) return safeEcho(String(v), valueChars);
+    if (depth >= givenDepth) return `…(nested deeper than ${givenDepth} levels, not shown)`;
+    const entries: [string, unknown][] = Array.isArray(v) ? v.map((x, i) => [String(i), x]) : Object.entries(v as object);
+    const kept: [string, unknown][] = [];
+    for (const [k, x] of entries) {
+      if (budget <= 0) {
+        kept.push([`…(${entries.length - kept.length} more)`, '…(left out of this page; the job file has them)']);
+        break;
+      }
+      kept.push([Array.isArray(v) ? k : safeEcho(k, valueChars), walk(x, depth + 1)]);
+    }
+    if (Array.isArray(v)) return kept.map(([k, x]) => (k.startsWith('…') ? k : x));
+    // No prototype: a key such as "__proto__" is kept as a key instead of setting one.
+    const out = Object.create(null) as Record<string, unknown>;
+    for (const [k, x] of kept) out[k] = x;
+    return out;
+  };
+  return walk(given, 0);
+}
+
 function givenText(r: JobReport): string {
   try {
+    const given = safeGiven(r.given);
     // Shown in the notation it was written in, so it reads like the file the person wrote.
-    if (/\.ya?ml$/i.test(r.file)) return yamlStringify(r.given).trimEnd();
-    return JSON.stringify(r.given, null, 2) ?? String(r.given);
+    // No folding (lineWidth 0): a value stays on one line, with its "…(N characters)" beside it.
+    if (/\.ya?ml$/i.test(r.file)) return yamlStringify(given, { lineWidth: 0 }).trimEnd();
+    return JSON.stringify(given, null, 2) ?? String(given);
   } catch (e) {
     return `(the job could not be printed: ${e instanceof Error ? e.message : String(e)})`;
   }
@@ -430,8 +500,8 @@ function givenText(r: JobReport): string {
 
 function givenSection(r: JobReport): string {
   return `<section id="given"><h2>The job as given</h2>
-<p class="muted">From <code>${esc(r.file)}</code>, as parsed, before units were converted and sweeps expanded.</p>
-<pre class="given">${esc(givenText(r))}</pre>
+<p class="muted">From <code>${path(r.file)}</code>, as parsed, before units were converted and sweeps expanded; long values are cut and control characters shown as escapes.</p>
+<pre class="given">${lines(givenText(r), REPORT_LIMITS.givenLines)}</pre>
 </section>`;
 }
 
@@ -526,13 +596,13 @@ export async function renderReportHtml(report: JobReport, assets: ReportAssets):
 <meta charset="utf-8">
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <meta http-equiv="Content-Security-Policy" content="default-src 'none'; img-src data:; style-src 'unsafe-inline'">
-<title>${esc(report.job)} — ${esc(TOOL_NAME)} report</title>
+<title>${value(report.job)} — ${esc(TOOL_NAME)} report</title>
 <link rel="icon" href="data:,">
 <style>${STYLE}</style>
 </head>
 <body>
 ${parts.filter((p) => p !== '').join('\n')}
-<footer>Written by ${esc(TOOL_NAME)} ${esc(report.toolVersion)} on ${esc(report.createdAt)}. Scalar-diffraction model; not a laser-hazard assessment (see the safety note above).</footer>
+<footer>Written by ${esc(TOOL_NAME)} ${value(report.toolVersion)} on ${value(report.createdAt)}. Scalar-diffraction model; not a laser-hazard assessment (see the safety note above).</footer>
 </body>
 </html>
 `;

@@ -7,6 +7,7 @@ import * as vega from 'vega';
 import { Resvg } from '@resvg/resvg-js';
 import type { JobReport, MetricInfo, ReportCase, SweepKey } from './types.js';
 import { formatLength } from '../job/units.js';
+import { safeEcho } from '../safe-text.js';
 
 export interface PlotInput {
   title: string;
@@ -185,8 +186,13 @@ const SYMBOLS: Record<string, string> = {
   'aperture.height': 'h',
 };
 
+// Labels drawn in a plot are cut to this many characters, control characters escaped: a control
+// character is not allowed in SVG (XML 1.0) and would make the plot unreadable to the rasteriser.
+const PLOT_LABEL_CHARS = 80;
+const plotLabel = (s: string) => safeEcho(s, PLOT_LABEL_CHARS);
+
 function formatKeyValue(k: SweepKey, v: number): string {
-  const name = SYMBOLS[k.key] ?? k.label;
+  const name = SYMBOLS[k.key] ?? plotLabel(k.label);
   return `${name} ${k.unit === 'm' ? formatLength(v, 3) : String(v)}`;
 }
 
@@ -240,9 +246,9 @@ export function sweepPlots(report: JobReport): PlotInput[] {
       const points = here.map((c) => ({ x: c.swept[key.key]!, y: metricValue(c, m), series: series(c) }));
       if (points.filter((q) => q.y !== null && (!m.log || q.y > 0)).length < 2) continue;
       plots.push({
-        title: `${m.label} against ${key.label}`,
-        x: { label: key.label, unit: key.unit, log },
-        y: { label: m.label, unit: m.unit, log: m.log ?? false },
+        title: `${plotLabel(m.label)} against ${plotLabel(key.label)}`,
+        x: { label: plotLabel(key.label), unit: key.unit, log },
+        y: { label: plotLabel(m.label), unit: m.unit, log: m.log ?? false },
         points,
         nfBoundary,
       });
