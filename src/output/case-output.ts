@@ -1,8 +1,8 @@
 // Everything written for one case. The case folder is assembled under a temporary name and renamed
 // into place when complete, so a case folder either holds a whole result or does not exist.
-import { mkdir, rename, rm } from 'node:fs/promises';
+import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { randomBytes } from 'node:crypto';
+import { createHash, randomBytes } from 'node:crypto';
 import { describe } from '../optics/aperture.js';
 import { formatLength } from '../job/units.js';
 import { profileCol, profileRow, type IntensityMap, type SpotMetrics } from '../analysis/metrics.js';
@@ -12,7 +12,7 @@ import type { Verdict } from '../analysis/verdict.js';
 import type { EnergyCurve } from '../analysis/encircled.js';
 import type { Plan, Warning } from '../plan/types.js';
 import type { ComputedCase } from '../run/compute.js';
-import { writeFileAtomic, safeJoin } from './atomic.js';
+import { safeJoin, writeError } from './atomic.js';
 import { toCsv } from './csv.js';
 import { encodeNpy } from './npy.js';
 import { renderIntensityPng } from './picture.js';
@@ -106,9 +106,45 @@ export const CASE_FILES = {
   profileY: 'profile-y.csv',
   orders: 'orders.csv',
   energy: 'encircled-energy.csv',
-  /** The case's summary and the hash of what made it; written last, it marks a complete case. */
+  /**
+   * The case's summary, the hash of what made it, and the size and SHA-256 digest of every other
+   * file of the case; written last, it marks a complete case (run/records.ts verifies it).
+   */
   record: 'record.json',
 } as const;
+
+/** Files every complete case has, whatever its record lists (a record that omits one is not trusted). */
+export const REQUIRED_CASE_FILES: readonly string[] = [
+  CASE_FILES.intensity,
+  CASE_FILES.result,
+  CASE_FILES.picture,
+  CASE_FILES.pictureGray,
+  CASE_FILES.profileX,
+];
+
+/** A file of a case as its record holds it. */
+export interface FileDigest {
+  size: number;
+  /** SHA-256 of the file's bytes, hex. */
+  sha256: string;
+  /**
+   * Files above FULL_DIGEST_MAX: SHA-256 of their first and last EDGE_BYTES, which a rerun checks
+   * instead of reading the whole file (see run/records.ts for why).
+   */
+  ends?: string;
+}
+
+/** Files up to this size are digested whole when a rerun verifies them; larger ones by size and ends. */
+export const FULL_DIGEST_MAX = 16 * 1024 ** 2;
+export const EDGE_BYTES = 1024 ** 2;
+
+export function digestOf(data: Uint8Array): FileDigest {
+  const d: FileDigest = { size: data.byteLength, sha256: createHash('sha256').update(data).digest('hex') };
+  if (data.byteLength > FULL_DIGEST_MAX) {
+    d.ends = createHash('sha256').update(data.subarray(0, EDGE_BYTES)).update(data.subarray(data.byteLength - EDGE_BYTES)).digest('hex');
+  }
+  return d;
+}
 
 export function caseTitle(plan: Plan): string {
   const c = plan.case;
@@ -217,30 +253,54 @@ export interface StoredRecord extends CaseSummary {
   /** Hash of the case's parameters and the tool version (see run/records.ts). */
   hash: string;
   tool: string;
+  /**
+   * Every other file of the case folder (file name → size and digest). Records of earlier versions
+   * have none: their cases are not trusted and are computed again.
+   */
+  files?: Record<string, FileDigest>;
 }
 
-/** Writes a case into jobDir/<case id>/, replacing an older result only once the new one is whole. */
+/**
+ * Writes a case into jobDir/<case id>/, replacing an older result only once the new one is whole.
+ * The files go into a fresh temporary folder, each written once (flag wx: a folder removed or
+ * replaced under us fails the write rather than being silently re-made with some files missing),
+ * and record.json, written last, holds every file's size and digest.
+ */
 export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Promise<string> {
   const { plan, computed } = rec;
   const final = await safeJoin(jobDir, plan.case.id);
   const tmp = await safeJoin(jobDir, `.${plan.case.id}.partial-${randomBytes(4).toString('hex')}`);
-  await mkdir(tmp, { recursive: true });
+  try {
+    await mkdir(tmp);
+  } catch (e) {
+    throw writeError(e, final, jobDir);
+  }
+  const files: Record<string, FileDigest> = {};
+  const put = async (name: string, content: string | Uint8Array) => {
+    const data = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
+    try {
+      await writeFile(join(tmp, name), data, { flag: 'wx' });
+    } catch (e) {
+      throw writeError(e, join(final, name), jobDir);
+    }
+    if (name !== CASE_FILES.record) files[name] = digestOf(data);
+  };
   try {
     const map: IntensityMap = computed;
     const shape = [computed.rows, computed.cols];
-    await writeFileAtomic(join(tmp, CASE_FILES.intensity), encodeNpy(computed.intensity, shape, plan.case.output.npy));
+    await put(CASE_FILES.intensity, encodeNpy(computed.intensity, shape, plan.case.output.npy));
     // Profiles through the optical axis when it is in the window, else through the window centre.
     const row = clampIndex(Math.round(computed.center[1]), computed.rows);
     const col = clampIndex(Math.round(computed.center[0]), computed.cols);
-    await writeFileAtomic(join(tmp, CASE_FILES.profileX), profileCsv(map, 'x', row, col));
-    if (computed.pitch[1] !== null) await writeFileAtomic(join(tmp, CASE_FILES.profileY), profileCsv(map, 'y', row, col));
+    await put(CASE_FILES.profileX, profileCsv(map, 'x', row, col));
+    if (computed.pitch[1] !== null) await put(CASE_FILES.profileY, profileCsv(map, 'y', row, col));
     if (rec.metrics.orders) {
-      await writeFileAtomic(join(tmp, CASE_FILES.orders), ordersCsv(rec.metrics.orders, rec.metrics.evanescentFraction, rec.metrics.ordersOmitted));
+      await put(CASE_FILES.orders, ordersCsv(rec.metrics.orders, rec.metrics.evanescentFraction, rec.metrics.ordersOmitted));
     }
     if (rec.energy) {
       const head = computed.pitch[1] === null ? 'half_width_m' : 'radius_m';
-      await writeFileAtomic(
-        join(tmp, CASE_FILES.energy),
+      await put(
+        CASE_FILES.energy,
         toCsv([head, 'fraction_of_power_through_aperture'], Array.from(rec.energy.radius, (r, i) => [r, rec.energy!.fraction[i]!])),
       );
     }
@@ -253,11 +313,11 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
       logDecades: plan.case.output.logDecades,
       title: caseTitle(plan),
     };
-    await writeFileAtomic(join(tmp, CASE_FILES.picture), renderIntensityPng({ ...picture, scale: 'shoal' }));
-    await writeFileAtomic(join(tmp, CASE_FILES.pictureGray), renderIntensityPng({ ...picture, scale: 'gray' }));
-    await writeFileAtomic(join(tmp, CASE_FILES.result), JSON.stringify(resultJson(rec), jsonNumbers, 2) + '\n');
-    const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION };
-    await writeFileAtomic(join(tmp, CASE_FILES.record), JSON.stringify(stored, jsonNumbers) + '\n');
+    await put(CASE_FILES.picture, renderIntensityPng({ ...picture, scale: 'shoal' }));
+    await put(CASE_FILES.pictureGray, renderIntensityPng({ ...picture, scale: 'gray' }));
+    await put(CASE_FILES.result, JSON.stringify(resultJson(rec), jsonNumbers, 2) + '\n');
+    const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION, files };
+    await put(CASE_FILES.record, JSON.stringify(stored, jsonNumbers) + '\n');
     await replaceDir(tmp, final);
   } catch (e) {
     await rm(tmp, { recursive: true, force: true });

@@ -1,7 +1,8 @@
 // The job-level files made from what is on disk: summary.csv, summary.json and the report, from
 // the complete case folders (record.json) and the manifests' failures. A run calls it at its end;
 // `spotcast gather` calls it for shards, and may do so while shards are still writing, since a
-// case folder appears only when it is whole.
+// case folder appears only when it is whole. A case counts as done only when its folder verifies
+// (record, and every file's size and digest: see records.ts); a damaged one is reported as not done.
 import { readdir, readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { LoadedJob } from '../job/load.js';
@@ -16,13 +17,17 @@ import { planCase, type PlannerOptions } from '../plan/planner.js';
 import type { Case } from '../plan/types.js';
 import { buildJobReport, sheetIndices, sheetTile, sweptLabel, writeJobReport } from '../report/assemble.js';
 import type { SheetTile } from '../report/contact-sheet.js';
-import { caseHash, readRecord, type Manifest } from './records.js';
+import { caseHash, readRecord, verifyCases, type CaseState, type Manifest } from './records.js';
+import type { StoredRecord } from '../output/case-output.js';
 
 export interface GatherResult {
   total: number;
   done: number;
   failed: { case: string; error: string }[];
+  /** Cases not done (missing includes the damaged ones). */
   missing: string[];
+  /** Cases whose folder is there but does not verify, and why (a file missing, cut short, changed). */
+  damaged: { case: string; problems: string[] }[];
   warnings: number;
   reportError?: string;
 }
@@ -50,15 +55,39 @@ async function recordedFailures(jobDir: string): Promise<Map<string, { hash: str
   return out;
 }
 
-export async function gatherJob(loaded: LoadedJob, jobDir: string, cases: Case[], opts: PlannerOptions = {}): Promise<GatherResult> {
+/**
+ * `trusted`: cases the calling run verified or wrote itself while holding the job folder's lock;
+ * their records are read without digesting their files a second time.
+ */
+export async function gatherJob(
+  loaded: LoadedJob,
+  jobDir: string,
+  cases: Case[],
+  opts: PlannerOptions = {},
+  trusted: ReadonlySet<string> = new Set(),
+): Promise<GatherResult> {
   const axes = sweepAxes(loaded.spec).filter((a) => a.values.length > 1);
   const failures = await recordedFailures(jobDir);
   const rows: SummaryRow[] = [];
-  const result: GatherResult = { total: cases.length, done: 0, failed: [], missing: [], warnings: 0 };
-  for (const c of cases) {
-    const hash = caseHash(c);
-    const rec = await readRecord(jobDir, c.id);
-    if (rec && rec.hash === hash) {
+  const result: GatherResult = { total: cases.length, done: 0, failed: [], missing: [], damaged: [], warnings: 0 };
+  const hashes = cases.map((c) => caseHash(c));
+  const known: (StoredRecord | null)[] = [];
+  for (const [i, c] of cases.entries()) {
+    const rec = trusted.has(c.id) ? await readRecord(jobDir, c.id) : null;
+    known.push(rec && rec.hash === hashes[i] && rec.files ? rec : null);
+  }
+  const toVerify = cases.flatMap((c, i) => (known[i] ? [] : [{ id: c.id, hash: hashes[i]! }]));
+  const verified = new Map<string, CaseState>((await verifyCases(jobDir, toVerify)).map((st, i) => [toVerify[i]!.id, st]));
+  for (const [i, c] of cases.entries()) {
+    const hash = hashes[i]!;
+    let rec: StoredRecord | null = known[i] ?? null;
+    const st = verified.get(c.id);
+    if (st) {
+      if (st.state === 'done') rec = st.record;
+      else if (st.state === 'damaged') result.damaged.push({ case: c.id, problems: st.problems });
+      else if (st.state === 'unverified') result.damaged.push({ case: c.id, problems: ['recorded by an earlier version without file digests'] });
+    }
+    if (rec) {
       rows.push({ plan: rec.plan, record: rec });
       result.done++;
       result.warnings += rec.warnings.length;
@@ -84,6 +113,7 @@ export async function gatherJob(loaded: LoadedJob, jobDir: string, cases: Case[]
         done: result.done,
         failed: result.failed,
         missing: result.missing,
+        damaged: result.damaged,
         warnings: result.warnings,
         swept: axes.map((a) => ({ key: a.key, values: a.values, spacing: a.spacing })),
       },

@@ -9,10 +9,11 @@ import { bytes, methodWords, planCase, type PlannerOptions } from '../plan/plann
 import { LIMITS } from '../plan/limits.js';
 import type { Plan } from '../plan/types.js';
 import type { CaseSummary } from '../output/case-output.js';
-import { safeJoin, writeFileAtomic } from '../output/atomic.js';
+import { makeFolder, safeJoin, writeFileAtomic } from '../output/atomic.js';
 import { searchSentence } from './searches.js';
 import { gatherJob } from './gather.js';
-import { caseHash, readRecord, removeLeftovers, writeManifest, type Manifest } from './records.js';
+import { caseHash, removeLeftovers, verifyCases, writeManifest, type Manifest } from './records.js';
+import { acquireRunLock, LockBusyError, type HeldLock } from './lock.js';
 import { chooseParallelism, runTasks } from './scheduler.js';
 import { releaseKeptSpectrum } from './compute.js';
 import { shareSourceSpectra } from '../plan/share.js';
@@ -43,6 +44,11 @@ export interface RunOptions extends PlannerOptions {
   namesInRun?: Map<string, string>;
   /** Memory the run may use (bytes); default: what the machine has free now. */
   availableMemoryBytes?: number;
+  /**
+   * How long to wait for another run that holds this job folder (or this shard of it) before
+   * refusing, in ms (default LOCK_WAIT_MS, 30 s; 0 refuses at once). See run/lock.ts.
+   */
+  lockWaitMs?: number;
 }
 
 export interface JobOutcome {
@@ -137,11 +143,46 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
       );
     }
     jobDir = await safeJoin(opts.outDir, spec.name);
-    await writeFileAtomic(`${jobDir}/job.json`, JSON.stringify({ file, job: loaded.given }, null, 2) + '\n');
+    await makeFolder(jobDir);
   } catch (e) {
     return refuse((e as Error).message);
   }
-  outcome.folder = jobDir;
+  // One run at a time in this folder (or in this shard of it): see run/lock.ts.
+  let lock: HeldLock;
+  try {
+    lock = await acquireRunLock(jobDir, opts.shard ?? null, {
+      ...(opts.lockWaitMs !== undefined ? { waitMs: opts.lockWaitMs } : {}),
+      ...(opts.signal ? { signal: opts.signal } : {}),
+      note: (line) => rep.note(line),
+    });
+  } catch (e) {
+    if (e instanceof LockBusyError && opts.signal?.aborted) outcome.interrupted = true;
+    return refuse((e as Error).message);
+  }
+  try {
+    try {
+      await writeFileAtomic(`${jobDir}/job.json`, JSON.stringify({ file, job: loaded.given }, null, 2) + '\n');
+    } catch (e) {
+      return refuse((e as Error).message);
+    }
+    outcome.folder = jobDir;
+    return await runLocked(loaded, opts, rep, outcome, jobDir, plans);
+  } finally {
+    await lock.release();
+  }
+}
+
+/** Notes on cases found damaged or unverified, capped so that a sweep of thousands does not flood the console. */
+const DAMAGE_NOTES = 20;
+
+/** The cases of a job whose folder this run holds (the lock): skip what is done and verified, compute the rest. */
+async function runLocked(loaded: LoadedJob, opts: RunOptions, rep: RunReporter, outcome: JobOutcome, jobDir: string, plans: Plan[]): Promise<JobOutcome> {
+  const { spec, file } = loaded;
+  const refuse = (msg: string): JobOutcome => {
+    outcome.error = `${file}: ${msg}`;
+    rep.note(outcome.error);
+    return outcome;
+  };
 
   // This run's cases: all, or one shard's.
   const shardOf = opts.shard ? assignShards(plans.map((p) => p.work), opts.shard.n) : null;
@@ -157,15 +198,36 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
   };
   const todo: CaseTask[] = [];
   const tooBig: Plan[] = [];
-  for (const p of mine) {
-    const hash = caseHash(p.case);
-    const rec = opts.force ? null : await readRecord(jobDir, p.case.id);
-    if (rec && rec.hash === hash) {
+  // A case is skipped only when its folder verifies (record, sizes, digests); else it is computed
+  // again, and the run says why when a folder was there.
+  const unverified: string[] = [];
+  let damaged = 0;
+  const mineHashes = mine.map((p) => caseHash(p.case));
+  const states = opts.force ? [] : await verifyCases(jobDir, mine.map((p, i) => ({ id: p.case.id, hash: mineHashes[i]! })));
+  for (const [i, p] of mine.entries()) {
+    const hash = mineHashes[i]!;
+    const st = states[i] ?? null;
+    if (st?.state === 'done') {
       manifest.completed[p.case.id] = hash;
       outcome.skipped++;
-      outcome.warnings += rec.warnings.length;
-    } else if (p.error) tooBig.push(p);
+      outcome.warnings += st.record.warnings.length;
+      continue;
+    }
+    if (st?.state === 'unverified') unverified.push(p.case.id);
+    if (st?.state === 'damaged' && ++damaged <= DAMAGE_NOTES) {
+      const listed = st.problems.slice(0, 10).join(', ') + (st.problems.length > 10 ? `, and ${st.problems.length - 10} more` : '');
+      rep.note(`case ${p.case.id}: ${listed}: computing it again`);
+    }
+    if (p.error) tooBig.push(p);
     else todo.push({ plan: p, jobDir, hash });
+  }
+  if (damaged > DAMAGE_NOTES) rep.note(`${damaged - DAMAGE_NOTES} more cases had missing or damaged files: computing them again`);
+  if (unverified.length) {
+    const some = unverified.slice(0, 10).join(', ') + (unverified.length > 10 ? `, and ${unverified.length - 10} more` : '');
+    rep.note(
+      `${unverified.length} case${unverified.length === 1 ? ' was' : 's were'} recorded by an earlier version without file digests, ` +
+        `so ${unverified.length === 1 ? 'it' : 'they'} cannot be verified: computing ${unverified.length === 1 ? 'it' : 'them'} again (${some})`,
+    );
   }
 
   // Cases of a distance sweep on one grid share their source's spectrum (and count the memory it takes).
@@ -237,7 +299,8 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
     );
     return outcome;
   }
-  const g = await gatherJob(loaded, jobDir, cases, opts);
+  // The cases verified or written by this run (which holds the folder) need not be read again.
+  const g = await gatherJob(loaded, jobDir, cases, opts, new Set(Object.keys(manifest.completed)));
   if (g.reportError) {
     outcome.reportError = g.reportError;
     rep.note(`job ${spec.name}: the report could not be written: ${g.reportError}`);

@@ -291,7 +291,7 @@ describe('spotcast run: bad input', () => {
     await writeFile(file, 'precious\n');
     const r = spotcast('run', 'slit.yaml', '--out', file, '--quiet');
     expect(r.status).toBe(1);
-    expect(r.stderr).toContain(`slit.yaml: cannot write ${join(file, 'slit-20um')}: ${file} is a file, not a folder`);
+    expect(r.stderr).toContain(`slit.yaml: cannot write to ${join(file, 'slit-20um')}: ${file} is a file, not a folder`);
     expect(await readFile(file, 'utf8')).toBe('precious\n');
   });
 
@@ -343,7 +343,7 @@ describe('usage errors exit 2', () => {
     [['run', 'slit.yaml', '--bogus'], /Unknown argument: bogus/],
     [['plan', 'slit.yaml', '--frobnicate=3'], /Unknown argument: frobnicate/],
     [[], /name a command: run, plan or gather/],
-    [['run'], /Not enough non-option arguments/],
+    [['run'], /run: name at least one job file/],
   ])('spotcast %j', (args, message) => {
     const r = spotcast(...args);
     expect(r.status).toBe(2);
@@ -361,6 +361,6 @@ describe('usage errors exit 2', () => {
   it('a bad --max-memory value is a usage error: exit 2', () => {
     const r = spotcast('plan', 'slit.yaml', '--max-memory', 'lots');
     expect(r.status).toBe(2);
-    expect(r.stderr).toContain("--max-memory: expected a size such as 4GiB or 512MB, got 'lots'");
+    expect(r.stderr).toContain("--max-memory: expected a size from 64MiB to 1TiB, such as 4GiB or 512MB, got 'lots'");
   });
 });
