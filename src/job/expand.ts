@@ -59,6 +59,13 @@ export function expandJob(job: JobSpec): Case[] {
   if (total > MAX_CASES) {
     throw new Error(`the sweeps make ${total} cases, more than the ${MAX_CASES} one job may hold; split the job`);
   }
+  // The loader's bounds keep every swept value a positive finite number; a JobSpec built by a
+  // script without the loader is checked here, so no NaN, 0 or infinity reaches a case.
+  for (const a of axes) {
+    for (const v of a.values) {
+      if (!(Number.isFinite(v) && v > 0)) throw new Error(`${a.key}: ${v} is not a positive finite number; validate the job with validateJob first`);
+    }
+  }
   const swept = axes.filter((a) => a.values.length > 1);
   const width = String(total).length;
   const spot = job.search?.['smallest-spot'];

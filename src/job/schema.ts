@@ -371,6 +371,17 @@ export const JOB_KEYS = Object.keys(jobShape);
 
 export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
   const a = job.aperture;
+  // The tilts are the incident direction's cosines α = sin θx, β = sin θy (optics/source.ts): both
+  // under 90° is not enough, the direction must exist (α² + β² < 1), or no light reaches the screen.
+  const [tx, ty] = job.illumination.tilt;
+  const s2 = Math.sin(tx) ** 2 + Math.sin(ty) ** 2;
+  if (!(s2 < 1)) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['illumination', 'tilt'],
+      message: `expected tilts [θx, θy] that make one direction, sin²θx + sin²θy < 1 (these make ${Number(s2.toPrecision(4))}): together they point past the aperture plane`,
+    });
+  }
   const spot = job.search?.['smallest-spot'];
   if (spot) {
     if (a.shape !== 'circle' && !(a.shape === 'slit' && !a.length)) {

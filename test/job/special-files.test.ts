@@ -1,5 +1,5 @@
 // Reading a job file is bounded whatever the path names: a FIFO nobody writes to, /dev/zero, a
-// folder, a link to a device or a file over the 1 MiB cap is refused from its stat, at once,
+// folder, a link to a device or a file over the 256 KiB cap is refused from its stat, at once,
 // without opening it (opening a FIFO for reading waits for a writer) and without reading it.
 import { execFileSync, spawnSync } from 'node:child_process';
 import { mkdtemp, rm, symlink, writeFile } from 'node:fs/promises';
@@ -67,18 +67,18 @@ describe('special files are refused at once, naming the file and what it is', ()
     expect((await refused(join(plain, 'x.yaml'))).error.message).toMatch(/cannot read the job file: a part of the path is not a folder$/);
   });
 
-  it('a file over the 1 MiB cap, with its size and the cap; a file at the cap is read', async () => {
-    expect(MAX_JOB_BYTES).toBe(1024 * 1024);
+  it('a file over the 256 KiB cap, with its size and the cap; a file at the cap is read', async () => {
+    expect(MAX_JOB_BYTES).toBe(256 * 1024);
     const big = join(dir, 'big.yaml');
     // A valid job padded with a comment: only the size is wrong.
     const pad = (n: number) => JOB + '#' + 'x'.repeat(n - JOB.length - 2) + '\n';
     await writeFile(big, pad(MAX_JOB_BYTES + 1));
     const { error, ms } = await refused(big);
-    expect(error.message).toBe(`${big}: cannot read the job file: is 1 MiB (1048577 bytes), more than the 1 MiB a job file may hold`);
+    expect(error.message).toBe(`${big}: cannot read the job file: is 256 KiB (262145 bytes), more than the 256 KiB a job file may hold`);
     expect(ms).toBeLessThan(10_000);
     const huge = join(dir, 'huge.yaml');
-    await writeFile(huge, pad(5 * MAX_JOB_BYTES));
-    expect((await refused(huge)).error.message).toMatch(/is 5 MiB \(5242880 bytes\), more than the 1 MiB a job file may hold$/);
+    await writeFile(huge, pad(20 * MAX_JOB_BYTES));
+    expect((await refused(huge)).error.message).toMatch(/is 5 MiB \(5242880 bytes\), more than the 256 KiB a job file may hold$/);
     const atCap = join(dir, 'at-cap.yaml');
     await writeFile(atCap, pad(MAX_JOB_BYTES));
     const loaded = await loadJobFile(atCap);
