@@ -186,19 +186,16 @@ export function parseJobText(text: string, file = '<job>'): LoadedJob {
   const syntax = new Problems();
   for (const err of doc.errors) {
     const pos = err.linePos?.[0];
-    syntax.add(
-      {
-        path: '',
-        // The parser's first line repeats the position ("... at line 3, column 1:"), given in front.
-        message: `syntax error: ${safeEcho(err.message.split('\n')[0]!.replace(/ at line \d+, column \d+:?\s*$/, ''))}`,
-        line: pos?.line,
-        column: pos?.col,
-      },
-      err.pos?.[0] ?? 0,
-    );
+    syntax.add({
+      path: '',
+      // The parser's first line repeats the position ("... at line 3, column 1:"), given in front.
+      message: `syntax error: ${safeEcho(err.message.split('\n')[0]!.replace(/ at line \d+, column \d+:?\s*$/, ''))}`,
+      line: pos?.line,
+      column: pos?.col,
+    });
   }
   if (doc.errors.length === 0) findDuplicateKeys(doc, lineCounter, syntax);
-  if (syntax.count > 0) throw new JobError(file, syntax.sorted());
+  if (syntax.count > 0) throw new JobError(file, syntax.list());
   let given: unknown;
   try {
     given = doc.toJS(); // refuses alias bombs itself (more than 100 alias expansions)
@@ -231,7 +228,7 @@ function findDuplicateKeys(doc: Document, lineCounter: LineCounter, out: Problem
           if (seen.has(id)) {
             const offset = k.range?.[0] ?? 0;
             const { line, col } = lineCounter.linePos(offset);
-            out.add({ path: '', message: 'syntax error: Map keys must be unique', line, column: col }, offset);
+            out.add({ path: '', message: 'syntax error: Map keys must be unique', line, column: col });
           }
           seen.add(id);
         }
@@ -261,7 +258,8 @@ class Problems {
   skip(n = 1): void {
     this.more += n;
   }
-  add(p: JobProblem, order = this.items.length): void {
+  /** `order` sorts the list (default: by line and column; problems without a line last, as found). */
+  add(p: JobProblem, order = p.line !== undefined ? p.line * 1e7 + (p.column ?? 0) : Number.MAX_SAFE_INTEGER): void {
     const key = `${p.path}|${p.message}|${p.line}|${p.column}`;
     if (this.seen.has(key)) return;
     if (this.full) {
@@ -275,10 +273,8 @@ class Problems {
     if (this.more === 0) return list;
     return [...list, { path: '', message: `and ${this.more} more problem${this.more === 1 ? '' : 's'} (the first ${MAX_PROBLEMS} are listed)` }];
   }
+  /** In the order of the text (a stable sort: problems at one place keep the order found). */
   list(): JobProblem[] {
-    return this.withCount(this.items.map((i) => i.p));
-  }
-  sorted(): JobProblem[] {
     return this.withCount([...this.items].sort((a, b) => a.order - b.order).map((i) => i.p));
   }
 }
