@@ -21,8 +21,9 @@ export const MAX_SWEEP_COUNT = 100_000;
 /**
  * Every length that must be positive (sizes, distances, pitches, windows, waists, detector sizes):
  * 1e-10 m (an atom's size; below it scalar optics means nothing) to 1e4 m (10 km, beyond any bench
- * or range). Their ratios and products then stay far from overflow and underflow (1e4 / 1e-10 =
- * 1e14 samples would be refused by the planner as a size, never as a NaN).
+ * or range). Their ratios and products stay finite, normal numbers (1e4 / 1e-10 = 1e14,
+ * (1e4)² / 1e-9 = 1e17), so what the planner derives from them is a large number it can refuse,
+ * never an infinity, a NaN or a zero.
  */
 export const LENGTH_MIN = 1e-10;
 export const LENGTH_MAX = 1e4;
@@ -41,7 +42,7 @@ export const TILT_MAX = Math.PI / 2;
  * exact sums hold every slit's two edges in lists, so 1e6 slits are tens of MB, not an exhaustion.
  */
 export const SLIT_COUNT_MAX = 1_000_000;
-/** Detectors in one job: each is integrated over the map of every case, so a few hundred at most. */
+/** Detectors in one job: each is integrated over the map of every case, so 100 at most. */
 export const DETECTOR_COUNT_MAX = 100;
 /** A description is one line or a short paragraph, echoed into results and reports. */
 export const DESCRIPTION_MAX = 1000;

@@ -255,6 +255,16 @@ describe('ranges', () => {
   });
 });
 
+describe('expansion of a spec that skipped the loader', () => {
+  it('refuses a swept value that is not a positive finite number, naming the key', () => {
+    const { spec } = parseJobText(HEAD + CIRCLE);
+    for (const bad of [NaN, 0, -1, Infinity]) {
+      const hand = { ...spec, distance: { values: [1, bad], spacing: 'list' as const } };
+      expect(() => expandJob(hand), String(bad)).toThrow(new RegExp(`^distance: ${bad} is not a positive finite number`));
+    }
+  });
+});
+
 describe('bounded work and bounded messages', () => {
   it('100 000 unknown keys: as text, refused for its size at once; as an object, 20 described and the rest counted', () => {
     const keys = Array.from({ length: 100_000 }, (_, i) => `k${i}`);
