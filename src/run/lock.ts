@@ -140,7 +140,7 @@ function describeHolder(h: LockHolder | null): string {
 }
 
 function staleNote(path: string, seen: Seen, why: string): string {
-  return `${path}: taking over the stale lock of ${describeHolder(seen.holder)}: ${why}`;
+  return `${safeEcho(path, 400)}: taking over the stale lock of ${describeHolder(seen.holder)}: ${why}`;
 }
 
 /**
@@ -284,7 +284,7 @@ export async function acquireRunLock(jobDir: string, shard: Shard, opts: LockOpt
       if (why) {
         if (await takeOver(path, seen)) opts.note?.(staleNote(path, seen, why));
         else await sleep(100, opts.signal); // another run is taking it over: look again shortly
-        if (opts.signal?.aborted) throw new LockBusyError(`the job folder ${jobDir} was being taken over from a stale lock; stopped while waiting`);
+        if (opts.signal?.aborted) throw new LockBusyError(`the job folder ${safeEcho(jobDir, 400)} was being taken over from a stale lock; stopped while waiting`);
         continue;
       }
       blocker = { path, seen };
@@ -293,14 +293,14 @@ export async function acquireRunLock(jobDir: string, shard: Shard, opts: LockOpt
     const who = describeHolder(blocker.seen.holder);
     if (opts.signal?.aborted || waited >= waitMs) {
       throw new LockBusyError(
-        `the job folder ${jobDir} is in use by ${who}` +
+        `the job folder ${safeEcho(jobDir, 400)} is in use by ${who}` +
           (opts.signal?.aborted ? '; stopped while waiting for it' : waitMs > 0 ? `; waited ${seconds(waited)}` : '') +
           `. Let that run finish (the same command then skips its finished cases) or stop it, and run again; ` +
-          `if that process no longer exists (on a machine that went down), delete ${blocker.path} and run again`,
+          `if that process no longer exists (on a machine that went down), delete ${safeEcho(blocker.path, 400)} and run again`,
       );
     }
     if (!told) {
-      opts.note?.(`the job folder ${jobDir} is in use by ${who}: waiting up to ${seconds(waitMs)} for it`);
+      opts.note?.(`the job folder ${safeEcho(jobDir, 400)} is in use by ${who}: waiting up to ${seconds(waitMs)} for it`);
       told = true;
     }
     // Jitter, so that two runs that stepped back for each other do not meet again and again.
