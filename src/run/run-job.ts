@@ -3,7 +3,7 @@
 // case is recorded and the others go on; an interrupted run keeps every finished case.
 import { availableParallelism, freemem } from 'node:os';
 import { trimNumber } from '../job/units.js';
-import { JobError, loadJobFile, type LoadedJob } from '../job/load.js';
+import { JobError, formatWarning, loadJobFile, type LoadedJob } from '../job/load.js';
 import { expandJob } from '../job/expand.js';
 import { bytes, methodWords, planCase, type PlannerOptions } from '../plan/planner.js';
 import { LIMITS } from '../plan/limits.js';
@@ -90,6 +90,8 @@ export async function runJobFile(file: string, opts: RunOptions): Promise<JobOut
     reporterOf(opts).note(msg);
     return { file, cases: 0, done: 0, skipped: 0, failed: [], warnings: 0, error: msg };
   }
+  // Load warnings (a number without a unit taken as metres, an unusual wavelength) before any work.
+  for (const w of loaded.warnings) reporterOf(opts).note(formatWarning(file, w));
   return runJob(loaded, opts);
 }
 
