@@ -249,6 +249,44 @@ function gridPieces(intervals: Array<[number, number]>, pitch: number, off: numb
   return out;
 }
 
+/** Pieces counted one by one up to this many per interval; beyond, from the interval's length. */
+const COUNT_PIECES = 1 << 20;
+
+/**
+ * How many pieces gridPieces gives, and how many of them have their centre at or above 0, without
+ * building them: the planner costs sources of any size with it, and a source of 1e15 pieces is
+ * refused for its cost, not built to be counted. Exact up to COUNT_PIECES per interval (as
+ * gridPieces walks), from the interval's length beyond (within a piece or two).
+ */
+export function countGridPieces(intervals: Array<[number, number]>, pitch: number, off: number, reach: number): { n: number; upper: number } {
+  let n = 0;
+  let upper = 0;
+  for (const [lo0, hi0] of intervals) {
+    const lo = Math.max(lo0, -reach);
+    const hi = Math.min(hi0, reach);
+    if (!(hi > lo)) continue;
+    if ((hi - lo) / pitch > COUNT_PIECES) {
+      const all = Math.ceil((hi - lo) / pitch) + 1;
+      n += all;
+      upper += Math.ceil((all * Math.max(0, hi - Math.max(lo, 0))) / (hi - lo));
+      continue;
+    }
+    let i = Math.floor(lo / pitch - off - 0.5) + 1;
+    let a = lo;
+    for (; ; i++) {
+      const line = (i + off + 0.5) * pitch;
+      const b = Math.min(line, hi);
+      if (b - a > SLIVER * pitch) {
+        n++;
+        if (a + b >= 0) upper++;
+      }
+      if (line >= hi) break;
+      a = Math.max(a, line);
+    }
+  }
+  return { n, upper };
+}
+
 function emptyEdge(m: number, pitch: number): RsEdgeCells {
   const e = new Float64Array(0);
   return { n: 0, m, u: edgeNodes(m).map((t) => 0.5 * pitch * t), cx: e, cy: e, ar: e, ai: e, w: e };
@@ -376,10 +414,9 @@ export function rsCellCount2D(a: Aperture, ill: Illumination, wavelength: number
   const base = { wavelength, edgeNodes: m, gaussian: light.waist !== null, evenX, evenY };
   const sep = separableProfiles(a);
   if (sep) {
-    const xs = gridPieces(profileIntervals(sep.x), pitch, off[0], light.reach);
-    const ys = gridPieces(profileIntervals(sep.y!), pitch, off[1], light.reach);
-    const upper = ys.filter(([cy]) => cy >= 0).length;
-    return { ...base, box: xs.length * ys.length, edge: 0, round: false, radius: 0, boxUpperHalf: xs.length * upper, edgeUpperHalf: 0 };
+    const xs = countGridPieces(profileIntervals(sep.x), pitch, off[0], light.reach);
+    const ys = countGridPieces(profileIntervals(sep.y!), pitch, off[1], light.reach);
+    return { ...base, box: xs.n * ys.n, edge: 0, round: false, radius: 0, boxUpperHalf: xs.n * ys.upper, edgeUpperHalf: 0 };
   }
   if (a.shape !== 'circle' && a.shape !== 'annulus') throw new Error(`rsCells2D: no cells for shape ${(a as { shape: string }).shape}`);
   const ro = (a.shape === 'circle' ? a.diameter : a.outer) / 2;

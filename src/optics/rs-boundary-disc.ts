@@ -186,7 +186,18 @@ export function discContour(a: number, d: number, z: number, k: number, rule: Di
   return evaluations;
 }
 
-/** The number of kernel evaluations discContour makes (the same panel walk, no integrand). */
+/**
+ * Panels walked exactly when costing a contour; past them the rest is extrapolated. A contour of
+ * more panels than this is one of a case far beyond any work limit (a disc of metres at a
+ * wavelength of a micrometre: 1e10 panels), whose walk alone would keep the planner for hours.
+ */
+export const DISC_COUNT_WALK = 1024;
+
+/**
+ * The number of kernel evaluations discContour makes (the same panel walk, no integrand). Beyond
+ * DISC_COUNT_WALK panels the rest is extrapolated from the progress so far, in t and in R (a panel
+ * advances R by at most the rule's phase step, and t by at most its cap), whichever says more.
+ */
 export function discContourCount(a: number, d: number, z: number, k: number, rule: DiscRule): number {
   walker.reset(a, d, z, k, rule);
   let t0 = 0;
@@ -194,6 +205,13 @@ export function discContourCount(a: number, d: number, z: number, k: number, rul
   while (t0 < 1) {
     t0 = walker.next(t0);
     panels++;
+    if (panels >= DISC_COUNT_WALK && t0 < 1) {
+      const r0 = walker.R(0);
+      const doneR = walker.R(t0) - r0;
+      const leftR = walker.R(1) - walker.R(t0);
+      const ratio = Math.max((1 - t0) / Math.max(t0, 1e-300), doneR > 0 ? leftR / doneR : 0);
+      return Math.min(Number.MAX_VALUE, panels * (1 + ratio)) * rule.n;
+    }
   }
   return panels * rule.n;
 }

@@ -37,7 +37,7 @@
 // far-field peak on the axis; in the near field the geometrical region's 1).
 import { type Aperture } from './aperture.js';
 import { axisAt, createField, type Axis, type Field } from './field.js';
-import { discContour, discContourCount, type DiscRule } from './rs-boundary-disc.js';
+import { DISC_COUNT_WALK, discContour, discContourCount, type DiscRule } from './rs-boundary-disc.js';
 import { LineTable, lineTableCount, stretchIntegral, stretchIntegralCount, type LineRule } from './rs-boundary-lines.js';
 import { gaussPhaseLimit, lagrangeStepLimit, partialPhaseLimit } from './rs-boundary-rules.js';
 
@@ -669,11 +669,14 @@ export interface RsBoundaryCost {
 const COST_SAMPLES = 48;
 
 /** Evenly spread sample indices of [lo, hi) (all of them when few). */
-function sampleIndices(lo: number, hi: number): number[] {
+function sampleIndices(lo: number, hi: number, count = COST_SAMPLES): number[] {
   const n = hi - lo;
-  if (n <= COST_SAMPLES) return Array.from({ length: n }, (_, i) => lo + i);
-  return Array.from({ length: COST_SAMPLES }, (_, i) => lo + Math.floor(((i + 0.5) * n) / COST_SAMPLES));
+  if (n <= count) return Array.from({ length: n }, (_, i) => lo + i);
+  return Array.from({ length: count }, (_, i) => lo + Math.floor(((i + 0.5) * n) / count));
 }
+
+/** Samples per axis of a first, coarse look at the contours' cost (see costRsBoundary). */
+const COARSE_SAMPLES = 6;
 
 /** The work and memory rsBoundary will take, from the geometry and the output grid (no integrals). */
 export function costRsBoundary(
@@ -698,11 +701,18 @@ export function costRsBoundary(
       evaluations += (ms.reduce((s, m) => s + perRadius(m * h), 0) / ms.length) * (mHi - mLo + 1);
       interpolated = p.keptPoints;
     } else {
-      const is = sampleIndices(y0, y1);
-      const js = sampleIndices(x0, x1);
-      let sum = 0;
-      for (const i of is) for (const j of js) sum += perRadius(Math.hypot(axisAt(outX, j), axisAt(outY, i)));
-      evaluations += (sum / (is.length * js.length)) * p.keptPoints;
+      const average = (count: number) => {
+        const is = sampleIndices(y0, y1, count);
+        const js = sampleIndices(x0, x1, count);
+        let sum = 0;
+        for (const i of is) for (const j of js) sum += perRadius(Math.hypot(axisAt(outX, j), axisAt(outY, i)));
+        return sum / (is.length * js.length);
+      };
+      // A coarse look first: contours whose walk is cut short (discContourCount) belong to a case
+      // far beyond any limit, and 48² of them would keep the planner for a second.
+      const coarse = average(COARSE_SAMPLES);
+      const huge = coarse > DISC_COUNT_WALK * p.discRule.n * p.discs.length;
+      evaluations += (huge ? coarse : average(COST_SAMPLES)) * p.keptPoints;
     }
   }
   let tableEvaluations = 0;
