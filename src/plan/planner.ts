@@ -18,6 +18,7 @@ import { LIMITS } from './limits.js';
 import { illuminatedEdgeWeight, lightModel, type LightModel } from './light.js';
 import { paraxialEstimate } from './paraxial.js';
 import { planWindow, windowLoss } from './window.js';
+import { answerVariants, searchLimits } from './answers.js';
 import { costRsDirect1D, costRsDirect2D, costRsPerPeriod1D, periodicAxis, rs2DSampling, rsAreaSamplingError, rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
 
 export interface PlannerOptions {
@@ -30,6 +31,11 @@ export interface PlannerOptions {
    * that only read a size off the result ask for fewer.
    */
   minOutputSamples?: number;
+  /**
+   * Whether the estimate counts the answers' extra propagations (plan/answers.ts; default true).
+   * The searches plan their own variants without it: a variant's answers are never asked.
+   */
+  countAnswers?: boolean;
 }
 
 export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
@@ -192,10 +198,12 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const validity = methodValidity(geo, paraxial.error, farFieldPhaseError, farFieldPeakError, paraxial);
   const options: MethodOption[] = [];
   const samplings: (Sampling & { method: MethodName })[] = [];
+  const answers = opts.countAnswers === false ? 0 : answersPeak(c, opts.maxMemoryBytes);
   for (const method of METHOD_ORDER) {
     const v = validity[method];
     for (const s of sample(method, geo, c)) {
-      const fits = s.memory <= maxMemory && s.work <= maxWork;
+      wholeCase(s, c, answers);
+      const fits = !s.impossible && s.memory <= maxMemory && s.work <= maxWork;
       options.push({ method, ...(s.form ? { form: s.form } : {}), valid: v.valid, ...(v.why ? { why: v.why } : {}), memoryBytes: s.memory, work: s.work, fits });
       samplings.push({ method, ...s });
     }
@@ -203,7 +211,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   type Chosen = Sampling & { method: MethodName };
   let chosen: Chosen | undefined;
   let error: string | undefined;
-  const fitsLimits = (s: Sampling) => s.memory <= maxMemory && s.work <= maxWork;
+  const fitsLimits = (s: Sampling) => !s.impossible && s.memory <= maxMemory && s.work <= maxWork;
   if (c.method !== 'auto') {
     const forced = samplings.filter((s) => s.method === c.method);
     chosen = forced.filter(fitsLimits).reduce<Chosen | undefined>((b, s) => (!b || s.work < b.work ? s : b), undefined);
@@ -400,6 +408,7 @@ function pct(x: number): string {
 }
 
 export function bytes(n: number): string {
+  if (!Number.isFinite(n)) return 'more than any machine holds';
   if (n >= 1024 ** 3) return `${trimNumber(n / 1024 ** 3, 3)} GiB`;
   if (n >= 1024 ** 2) return `${trimNumber(n / 1024 ** 2, 3)} MiB`;
   return `${trimNumber(n / 1024, 3)} KiB`;
@@ -408,6 +417,7 @@ export function bytes(n: number): string {
 /** Work in words, at LIMITS.workPerSecond. */
 function seconds(work: number): string {
   const s = work / LIMITS.workPerSecond;
+  if (!Number.isFinite(s)) return 'no end';
   if (s < 1) return '<1 s';
   if (s < 120) return `${trimNumber(s, 2)} s`;
   if (s < 7200) return `${trimNumber(s / 60, 2)} min`;
@@ -416,7 +426,8 @@ function seconds(work: number): string {
 
 function limitWords(s: Sampling, maxMemory: number, maxWork: number): string {
   const parts: string[] = [];
-  if (s.memory > maxMemory) parts.push(`about ${bytes(s.memory)} (over the ${bytes(maxMemory)} limit)`);
+  if (s.impossible) parts.push(`${Number.isFinite(s.memory) ? `about ${bytes(s.memory)}, ` : ''}an impossible size (${s.impossible})`);
+  else if (s.memory > maxMemory) parts.push(`about ${bytes(s.memory)} (over the ${bytes(maxMemory)} limit)`);
   if (s.work > maxWork) parts.push(`about ${seconds(s.work)} of computing (over the ${seconds(maxWork)} limit)`);
   return parts.join(' and ');
 }
@@ -443,6 +454,7 @@ function refusal(s: Sampling & { method: MethodName }, maxMemory: number, maxWor
 
 /** Which limit to raise: --max-memory for memory, --accept-large for time. */
 function raiseWords(s: Sampling, maxMemory: number, maxWork: number): string {
+  if (s.impossible) return 'smaller sizes in the job (no limit allows this one)';
   const parts: string[] = [];
   if (s.memory > maxMemory) parts.push('a larger memory limit (--max-memory)');
   if (s.work > maxWork) parts.push('--accept-large to allow cases of more than an hour');
@@ -468,6 +480,8 @@ function goodman(g: Geometry): number {
 }
 
 interface Sampling {
+  /** Set when a size the sampling needs cannot exist (see impossibleSize). */
+  impossible?: string;
   form?: MethodForm;
   axes: AxisPlan[];
   layout: Layout;
@@ -503,7 +517,7 @@ function sample(method: MethodName, g: Geometry, c: Case): Sampling[] {
     if (tfSampled) options.push({ form: 'transfer-function', axes: tf, layout, ...tfCost });
     const single = direct.map((d) => singleFftAxisPlan(g, d));
     if (single.every((a) => a.paddedSamples <= LIMITS.maxSingleFft)) {
-      options.push({ form: 'single-fft', axes: single, layout, ...costFft(single, layout) });
+      options.push({ form: 'single-fft', axes: single, layout, ...costSingleFft(single, layout) });
     }
     return options;
   }
@@ -816,19 +830,107 @@ function farFieldMaxFrequency(g: Geometry, i: number): number {
 
 const BASELINE_MEMORY = 64 * 1024 ** 2;
 
+/**
+ * The most complex samples one array may hold: V8's typed arrays end at 2³² elements, and a
+ * complex array takes two per sample. A plan that needs more is impossible whatever the memory.
+ */
+export const MAX_ARRAY_SAMPLES = 2 ** 31;
+
+/** Bytes a row of a profile CSV takes while it is built (the row's array, its numbers as text, the joined line; measured 320). */
+const CSV_ROW_BYTES = 400;
+
+/**
+ * The whole case's peak, not only its propagation's: s.memory (the propagation, baseline
+ * included) against what is held after it (the intensity, 8 bytes a sample) plus the larger of the
+ * answers' peak (the largest search variant, its own baseline included) and the files written
+ * (the .npy's bytes, the profile CSVs, the pictures' resampled panels: src/output/). Sizes that no
+ * array can hold, or that are not finite, make the plan impossible: it never fits, whatever the
+ * limits, and `impossible` says which size (an estimate that is not a number is Infinity).
+ */
+function wholeCase(s: Sampling, c: Case, answers: number): void {
+  const problem = impossibleSize(s);
+  if (problem) s.impossible = problem;
+  if (!(s.memory >= 0)) s.memory = Infinity;
+  if (!(s.work >= 0)) s.work = Infinity;
+  if (problem) return;
+  const cols = s.axes[0]!.output.n;
+  const rows = s.layout === 'one-d' ? 1 : s.axes[1]!.output.n;
+  const m = rows * cols;
+  const held = 8 * m;
+  // The profile CSVs are built on the JavaScript heap, which keeps what the propagation left for
+  // the collector: they count on top of its peak (they matter for 1-D results of 1e5 samples).
+  const csv = CSV_ROW_BYTES * Math.max(rows, cols);
+  const files = (c.output.npy === 'float32' ? 4 : 8) * m + csv + 8 * rows * 400 + 4 * 1024 ** 2;
+  s.memory = Math.max(s.memory + csv, BASELINE_MEMORY + held + files, answers > 0 ? held + answers : 0);
+}
+
+/** Why a sampling cannot be carried out whatever the limits (a size not finite or beyond any array), or null. */
+function impossibleSize(s: Sampling): string | null {
+  const count = (n: number) => Number.isFinite(n) && Number.isInteger(n) && n >= 1;
+  let padded = 1;
+  let input = 1;
+  let outputs = 1;
+  for (const a of s.axes) {
+    if (!count(a.inputSamples) || !count(a.paddedSamples) || !count(a.output.n)) {
+      return `${s.axes.map((b) => b.paddedSamples).join(' × ')} samples, ${s.axes.map((b) => b.output.n).join(' × ')} outputs: not a count an array can have`;
+    }
+    if (!(a.inputPitch > 0) || !Number.isFinite(a.inputPitch) || !Number.isFinite(a.output.start) || !Number.isFinite(a.output.step)) {
+      return `a pitch or window of ${len(a.inputPitch)} that is not a finite length`;
+    }
+    padded *= a.paddedSamples;
+    input *= a.inputSamples;
+    outputs *= a.output.n;
+  }
+  const most = Math.max(padded, input, outputs);
+  if (most > MAX_ARRAY_SAMPLES) return `${trimNumber(most, 3)} samples in one array (at most ${MAX_ARRAY_SAMPLES} fit in one)`;
+  if (!(s.memory >= 0) || !(s.work >= 0)) return 'a memory or work estimate that is not a number';
+  return null;
+}
+
+/**
+ * The answers' peak (plan/answers.ts): the largest memory estimate among the variants the
+ * searches plan, each planned as the search plans it (its limits, a small output); variants that
+ * do not fit are skipped by the search and not counted. 0 when the case asks nothing of them.
+ */
+function answersPeak(c: Case, maxMemoryBytes: number | undefined): number {
+  let peak = 0;
+  for (const v of answerVariants(c)) {
+    const p = planCase(v, searchLimits(maxMemoryBytes));
+    if (!p.error) peak = Math.max(peak, p.memoryBytes);
+  }
+  return peak;
+}
+
 function costFft(axes: AxisPlan[], layout: Layout): { memory: number; work: number } {
   const n = axes.reduce((p, a) => p * a.inputSamples, 1);
   const np = axes.reduce((p, a) => p * a.paddedSamples, 1);
   const m = axes.reduce((p, a) => p * a.output.n, 1);
+  // Per axis, tables as long as the padded axis: the transfer's frequencies, cell factors,
+  // multipliers and phases (spectral.ts multiplyTransfer), the source's mask and envelope and the
+  // FFT's own tables: about 112 bytes a sample, measured on a 1-D grid of 2²⁰ (where they are most
+  // of the memory; on a 2-D grid they are nothing beside it).
+  const tables = axes.reduce((s, a) => s + 112 * a.paddedSamples, 0);
   if (layout === 'separable') {
-    // Two 1-D problems, then the 2-D product on the output window.
-    const oneD = axes.reduce((s, a) => s + 16 * (a.inputSamples + a.paddedSamples + a.output.n), 0);
-    return { memory: BASELINE_MEMORY + oneD + 64 * m, work: axes.reduce((s, a) => s + 3.3 * a.paddedSamples * Math.log2(a.paddedSamples), 0) + 20 * m };
+    // Two 1-D problems (source, padded grid and the kernel's copy, output), then the 2-D product on the output window.
+    const oneD = axes.reduce((s, a) => s + 16 * (a.inputSamples + 2 * a.paddedSamples + a.output.n), 0);
+    return { memory: BASELINE_MEMORY + oneD + tables + 64 * m, work: axes.reduce((s, a) => s + 3.3 * a.paddedSamples * Math.log2(a.paddedSamples), 0) + 20 * m };
   }
   // Source, padded grid, the FFT kernel's working copy of it (kept between calls), output arrays.
   // Work: two FFTs and the transfer multiply; the SIMD kernel runs a 4096² case (pad of 2048²) in
   // about 1.1 s, about 3.3·N·log₂N + 10·N at LIMITS.workPerSecond's calibration (npm run bench).
-  return { memory: BASELINE_MEMORY + 16 * n + 32 * np + 64 * m, work: 3.3 * np * Math.log2(np) + 10 * np };
+  return { memory: BASELINE_MEMORY + 16 * n + 32 * np + tables + 64 * m, work: 3.3 * np * Math.log2(np) + 10 * np };
+}
+
+/**
+ * The single-FFT Fresnel form: as costFft, but on a 2-D grid it holds three padded arrays besides
+ * the kernel's working copy: the padded source, its chirped copy that is transformed, and the whole
+ * output lattice the window is cut from (single-fft.ts).
+ */
+function costSingleFft(axes: AxisPlan[], layout: Layout): { memory: number; work: number } {
+  const base = costFft(axes, layout);
+  if (layout !== 'two-d') return base;
+  const np = axes.reduce((p, a) => p * a.paddedSamples, 1);
+  return { memory: base.memory + 32 * np, work: base.work };
 }
 
 function costDirect(axes: AxisPlan[], layout: Layout, farField: boolean): { memory: number; work: number } {
@@ -875,9 +977,14 @@ function costFarField(axes: AxisPlan[], layout: Layout, g: Geometry, c: Case): {
   const mem = BASELINE_MEMORY + 16 * (2 * nin + x.output.n * x.inputSamples + y.output.n * y.inputSamples + y.inputSamples * x.output.n) + 64 * m;
   const untilted = c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0;
   if (untilted && (c.aperture.shape === 'circle' || c.aperture.shape === 'annulus')) {
-    const reach = Math.max(x.apertureHalf, y.apertureHalf) + x.inputPitch;
+    // The line reaches as far as the source grid does (direct.ts: its whole extent, not the aperture's).
+    const reach = Math.max(((x.inputSamples - 1) / 2) * x.inputPitch, ((y.inputSamples - 1) / 2) * y.inputPitch) + x.inputPitch;
     const fMax = (Math.SQRT2 * Math.max(x.windowHalf, y.windowHalf)) / (g.lam * g.z);
-    return { memory: mem, work: 8 * nin * (Math.ceil(32 * reach * fMax) + 5) + 40 * m };
+    const entries = Math.ceil(32 * reach * fMax) + 5;
+    // The radial line is one dft2 onto (entries × 1) frequencies: its kernel (entries × nx), the
+    // row pass (ny × entries), the line and its frequencies (direct.ts radialFarFieldSpectrum).
+    const line = 16 * entries * (x.inputSamples + y.inputSamples + 2) + 8 * entries;
+    return { memory: mem + line, work: 8 * nin * entries + 40 * m };
   }
   const outX = x.output;
   const outY = y.output;

@@ -11,6 +11,7 @@ import { intensityOf } from '../optics/field.js';
 import { freeField } from '../optics/free.js';
 import { directionCosines } from '../optics/source.js';
 import type { CaseMetrics, CaseRecord, DetectorResult } from '../output/case-output.js';
+import { verdictAxesOf } from '../plan/answers.js';
 import type { Plan, Warning } from '../plan/types.js';
 import { computeCase, type ComputedCase } from './compute.js';
 
@@ -166,12 +167,8 @@ export function unobstructedDetectorPower(plan: Plan, map: IntensityMap, d: Dete
 
 /** The axes a verdict is given for: radial for circles, x for long slits, x and y for rectangles. */
 export function verdictAxes(plan: Plan): ('radial' | 'x' | 'y')[] {
-  const a = plan.case.aperture;
-  if (a.opaque || plan.case.illumination.kind !== 'plane') return [];
-  if (a.shape === 'circle') return ['radial'];
-  if (a.shape === 'slit') return a.length ? ['x', 'y'] : ['x'];
-  if (a.shape === 'rectangle') return ['x', 'y'];
-  return [];
+  // One rule with the planner, which costs the verdicts' searches (plan/answers.ts).
+  return verdictAxesOf(plan.case);
 }
 
 /**

@@ -2,10 +2,10 @@
 // size can be trusted, and which aperture size gives the smallest spot at a distance. Results that
 // depend only on the aperture and the wavelength are cached across the cases of a job.
 import { spotMetrics } from '../analysis/metrics.js';
-import { AIRY_HALF_POWER_V, makeVerdict, SINC_HALF_POWER_U, spotSize, verdictWidth, type Verdict } from '../analysis/verdict.js';
+import { makeVerdict, spotSize, verdictWidth, type Verdict } from '../analysis/verdict.js';
 import { formatLength } from '../job/units.js';
-import type { Aperture } from '../optics/aperture.js';
 import type { CaseRecord, SmallestSpot } from '../output/case-output.js';
+import { farFieldSearch, measureVariant, searchLimits as limitsOf, smallestSpotSizes, smallestSpotVariant } from '../plan/answers.js';
 import { planCase, type PlannerOptions } from '../plan/planner.js';
 import type { Case } from '../plan/types.js';
 import { computeCase } from './compute.js';
@@ -18,33 +18,21 @@ export function newSearchContext(opts: PlannerOptions = {}): SearchContext {
   return { ...opts, cache: new Map() };
 }
 
-/** Search evaluations are many: each may use at most this much memory (and never more than the run's limit). */
-export const SEARCH_MEMORY = 512 * 1024 ** 2;
-
-/** Output samples per axis of search evaluations: the half-power size needs no picture. */
-export const SEARCH_OUTPUT = 151;
+// The variants each search plans, and their limits, are described in plan/answers.ts, where the
+// planner costs them for the case's memory estimate.
+export { SEARCH_MEMORY, SEARCH_OUTPUT } from '../plan/answers.js';
 
 function searchLimits(ctx: SearchContext): PlannerOptions {
-  return { maxMemoryBytes: Math.min(ctx.maxMemoryBytes ?? SEARCH_MEMORY, SEARCH_MEMORY), minOutputSamples: SEARCH_OUTPUT };
+  return limitsOf(ctx.maxMemoryBytes);
 }
 
 /**
- * The spot size (the verdict's measure) of a variant of a case, fully planned and computed. The
- * measure's denominator is the power through the aperture, not the window's, so for round and 1-D
- * spots the window need only hold the half-power radius: three far-field half-power radii or
- * three quarters of the aperture, whichever is larger (separable rectangles keep the planner's
- * window: their marginals need all the light along the other axis, and they are cheap).
+ * The spot size (the verdict's measure) of a variant of a case, fully planned and computed, with
+ * the window plan/answers.ts measureVariant gives it.
  */
 function measureAt(c: Case, axis: Verdict['axis'], ctx: SearchContext): { computed: number | null; farField: number } {
   const width = verdictWidth(c.aperture, axis)!;
-  let window: [number, number] | undefined;
-  if (axis === 'radial' || (axis === 'x' && c.aperture.shape === 'slit' && !c.aperture.length)) {
-    const k = (2 * Math.PI) / c.wavelength;
-    const sin = axis === 'radial' ? AIRY_HALF_POWER_V / (k * (width / 2)) : (SINC_HALF_POWER_U * c.wavelength) / width;
-    const half = Math.max(3 * c.distance * Math.tan(Math.asin(Math.min(0.99, sin))), 0.75 * width);
-    window = [2 * half, 2 * half];
-  }
-  const plan = planCase({ ...c, window, grid: undefined, method: 'auto' }, searchLimits(ctx));
+  const plan = planCase(measureVariant(c, axis), searchLimits(ctx));
   // A variant that would need a huge grid is left out of the search rather than run for minutes.
   if (plan.error) return { computed: null, farField: NaN };
   const computed = computeCase(plan);
@@ -60,23 +48,17 @@ function measureAt(c: Case, axis: Verdict['axis'], ctx: SearchContext): { comput
  * Distances whose propagation would exceed SEARCH_MEMORY count as outside the band.
  */
 export function farFieldFrom(c0: Case, axis0: Verdict['axis'], ctx: SearchContext): number | null {
-  const width = verdictWidth(c0.aperture, axis0)!;
   // Rectangles and finite slits: the paraxial field factorises, so each axis behaves as a long slit
   // of that side; searching with the 1-D slit costs a 1-D problem per distance instead of a 2-D one.
-  const separable = c0.aperture.shape === 'rectangle' || (c0.aperture.shape === 'slit' && !!c0.aperture.length);
-  const c: Case = separable ? { ...c0, aperture: { shape: 'slit', width, opaque: false } } : c0;
-  const axis: Verdict['axis'] = separable ? 'x' : axis0;
+  const { c, axis, distances: zs } = farFieldSearch(c0, axis0);
   const key = JSON.stringify(['far-field-from', c.aperture, c.wavelength, axis, c.illumination.tilt]);
   if (ctx.cache.has(key)) return ctx.cache.get(key) as number | null;
-  const zff = (2 * width * width) / c.wavelength;
   const off = (z: number) => {
     const m = measureAt({ ...c, distance: z }, axis, ctx);
     return m.computed === null ? Infinity : Math.abs(m.computed / m.farField - 1);
   };
-  const zs: number[] = [];
   // Below 2D²/λ/4 (N_F > 1/2) the far-field size is far off for uniformly lit apertures; the
   // scan starts there, which spares the costly near-field propagations.
-  for (let k = -4; k <= 12; k++) zs.push(zff * Math.pow(2, k / 2));
   const err = zs.map(off);
   let last = -1;
   for (let i = 0; i < zs.length; i++) if (err[i]! > 0.01) last = i;
@@ -97,12 +79,6 @@ export function farFieldFrom(c0: Case, axis0: Verdict['axis'], ctx: SearchContex
   return result;
 }
 
-function withSize(a: Aperture, size: number): Aperture {
-  if (a.shape === 'circle') return { ...a, diameter: size };
-  if (a.shape === 'slit') return { ...a, width: size };
-  throw new Error(`the smallest-spot search varies circles and slits, not a ${a.shape}`);
-}
-
 /**
  * The aperture size that gives the smallest spot at the case's distance and wavelength: a scan of
  * 9 sizes spaced evenly in log between the bounds, then a golden-section search (in log size) in
@@ -118,7 +94,7 @@ export function smallestSpot(c: Case, ctx: SearchContext): SmallestSpot {
   let evaluations = 0;
   const measure = (size: number): number => {
     evaluations++;
-    const v = { ...c, aperture: withSize(c.aperture, size), illumination: { kind: 'plane' as const, tilt: [0, 0] as [number, number] } };
+    const v = smallestSpotVariant(c, size);
     if (spec.measure === 'energy') return measureAt(v, axis, ctx).computed ?? Infinity;
     const plan = planCase({ ...v, window: undefined, grid: undefined, method: 'auto' }, searchLimits(ctx));
     if (plan.error) return Infinity;
@@ -127,8 +103,8 @@ export function smallestSpot(c: Case, ctx: SearchContext): SmallestSpot {
     return w ?? Infinity;
   };
   const [lo, hi] = spec.between;
-  const n = 9;
-  const sizes = Array.from({ length: n }, (_, i) => lo * Math.pow(hi / lo, i / (n - 1)));
+  const sizes = smallestSpotSizes(spec.between);
+  const n = sizes.length;
   const values = sizes.map(measure);
   let best = 0;
   for (let i = 1; i < n; i++) if (values[i]! < values[best]!) best = i;
