@@ -893,13 +893,24 @@ function impossibleSize(s: Sampling): string | null {
  * do not fit are skipped by the search and not counted. 0 when the case asks nothing of them.
  */
 function answersPeak(c: Case, maxMemoryBytes: number | undefined): number {
+  const variants = answerVariants(c);
+  if (variants.length === 0) return 0;
+  // The cases of a distance sweep have the same far-field search: planned once (a pure function of
+  // the variants and the limit, so remembering it changes no result).
+  const key = JSON.stringify([maxMemoryBytes ?? null, variants]);
+  const known = answersPeaks.get(key);
+  if (known !== undefined) return known;
   let peak = 0;
-  for (const v of answerVariants(c)) {
+  for (const v of variants) {
     const p = planCase(v, searchLimits(maxMemoryBytes));
     if (!p.error) peak = Math.max(peak, p.memoryBytes);
   }
+  if (answersPeaks.size >= 256) answersPeaks.clear();
+  answersPeaks.set(key, peak);
   return peak;
 }
+
+const answersPeaks = new Map<string, number>();
 
 function costFft(axes: AxisPlan[], layout: Layout): { memory: number; work: number } {
   const n = axes.reduce((p, a) => p * a.inputSamples, 1);
