@@ -575,6 +575,14 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
     return list;
   }
   const list: Sampling[] = [];
+  if (a.shape === 'slits' && a.count > MAX_COSTED_SLITS) {
+    // Costing the 2-D sums walks every slit (its rectangles, its cells): past this many that walk
+    // alone would hold the planner for minutes and gigabytes, and the sums would run for days.
+    const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
+    const rule = { pitch: cell, required: cell, rule: `not costed: more than ${MAX_COSTED_SLITS} slits` };
+    const axes = [0, 1].map((i) => axisPlan(g, i, rule, 1, 1, out[i]!.output));
+    return [{ form: 'direct', axes, layout: 'two-d', memory: Infinity, work: Infinity, impossible: `${a.count} slits: the exact 2-D sums are costed for at most ${MAX_COSTED_SLITS}` }];
+  }
   // (Not when the job gives a grid: it asks for a sampled aperture.)
   const regions = !c.grid && c.illumination.kind === 'plane' && c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0 ? boundaryRegionsOf(c.aperture) : null;
   if (regions) {
@@ -612,6 +620,9 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
   const axes = [0, 1].map((i) => axisPlan(g, i, rule, n[i]!, n[i]!, out[i]!.output));
   return [...list, { form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + s2.choice.memory, work: s2.choice.work, exact2D: { edgeNodes: s2.edgeNodes, path: s2.choice.path } }];
 }
+
+/** Most slits of a 2-D grating (one with a length) whose exact 2-D sums the planner costs. */
+const MAX_COSTED_SLITS = 16384;
 
 /**
  * The angular spectrum in the frame of a tilted beam (src/optics/shifted-spectrum.ts): the carrier
@@ -848,7 +859,7 @@ const CSV_ROW_BYTES = 400;
  * limits, and `impossible` says which size (an estimate that is not a number is Infinity).
  */
 function wholeCase(s: Sampling, c: Case, answers: number): void {
-  const problem = impossibleSize(s);
+  const problem = s.impossible ?? impossibleSize(s);
   if (problem) s.impossible = problem;
   if (!(s.memory >= 0)) s.memory = Infinity;
   if (!(s.work >= 0)) s.work = Infinity;
