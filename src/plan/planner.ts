@@ -576,8 +576,9 @@ function sampleExact(g: Geometry, c: Case): Sampling[] {
   }
   const list: Sampling[] = [];
   if (a.shape === 'slits' && a.count > MAX_COSTED_SLITS) {
-    // Costing the 2-D sums walks every slit (its rectangles, its cells): past this many that walk
-    // alone would hold the planner for minutes and gigabytes, and the sums would run for days.
+    // Costing the 2-D sums walks every slit (its rectangles, its cells): past this many the walk
+    // alone holds the planner for seconds to minutes (a million slits overflowed the stack), so
+    // the form is not offered; the other methods are costed from the sizes alone.
     const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
     const rule = { pitch: cell, required: cell, rule: `not costed: more than ${MAX_COSTED_SLITS} slits` };
     const axes = [0, 1].map((i) => axisPlan(g, i, rule, 1, 1, out[i]!.output));
