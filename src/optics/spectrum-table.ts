@@ -625,6 +625,13 @@ const MAX_TILES = 1 << 14;
  * (fx while the row pass's Ny × Kx or Kx ≥ Ky dominates, else fy) halved until the largest tile fits.
  */
 export function planTableTiles(shape: SourceShape, band: SpectrumBand, opts: FarFieldTableOptions = {}): TableTiling {
+  const t = findTableTiles(shape, band, opts);
+  if ('error' in t) throw new Error(t.error);
+  return t;
+}
+
+/** planTableTiles, or why no tiling fits (for costing, which must refuse, not throw). */
+function findTableTiles(shape: SourceShape, band: SpectrumBand, opts: FarFieldTableOptions): TableTiling | { error: string } {
   const limit = opts.maxMemory ?? DEFAULT_MAX_MEMORY;
   const tiles: [number, number] = [1, 1];
   for (;;) {
@@ -634,7 +641,7 @@ export function planTableTiles(shape: SourceShape, band: SpectrumBand, opts: Far
     const work = plans.reduce((s, p) => s + p.work, 0);
     if (worst.memory <= limit) return { tiles: [tiles[0], tiles[1]], plans, work, memory: worst.memory };
     if (tiles[0] * tiles[1] >= MAX_TILES) {
-      throw new Error(`spectrum table: even as ${tiles[0]} × ${tiles[1]} tiles a tile needs ${(worst.memory / 2 ** 20).toFixed(0)} MiB (limit ${(limit / 2 ** 20).toFixed(0)} MiB)`);
+      return { error: `spectrum table: even as ${tiles[0]} × ${tiles[1]} tiles a tile needs ${(worst.memory / 2 ** 20).toFixed(0)} MiB (limit ${(limit / 2 ** 20).toFixed(0)} MiB)` };
     }
     if (worst.x.count >= worst.y.count || worst.y.count <= shape.ny) tiles[0] *= 2;
     else tiles[1] *= 2;
@@ -739,7 +746,10 @@ export interface FarFieldTableCost {
  * axis), a band (farFieldBand of the window) and `outputs` points.
  */
 export function costFarFieldTable(srcShape: SourceShape, band: SpectrumBand, outputs: number, opts: FarFieldTableOptions = {}): FarFieldTableCost {
-  const tiling = planTableTiles(srcShape, band, opts);
+  const found = findTableTiles(srcShape, band, opts);
+  // No tiling fits: a size no machine holds, which the planner refuses with its reasons.
+  if ('error' in found) return { work: Infinity, memory: Infinity, tiles: [0, 0], entries: [0, 0], mode: ['fft', 'fft'], errorBound: 0 };
+  const tiling = found;
   const tiled = tiling.tiles[0] * tiling.tiles[1] > 1;
   const worst = tiling.plans.reduce((a, b) => (b.memory > a.memory ? b : a));
   const order = worst.order;

@@ -141,27 +141,34 @@ export function illuminatedEdgeWeight(f: ApertureFacts, waist: number, oneD: boo
 }
 
 /**
- * The model's intensity (relative to the incident irradiance) that beam b puts at (x, y): the
- * geometric footprint (the illuminated aperture shifted to the landing point) filled at the
- * beam's plateau, and outside it the far-zone spread of a beam of the footprint's width: spectral
- * density D/(1 + (πDδf)²) per axis (peak D, tail 1/(π²Dδf²), the envelope of sinc²), mapped to the
- * screen with dx/dα = z/γ³. In the far field the second term dominates everywhere and gives the
- * familiar peak (D_x D_y/λz)² per unit power; in the near field the first gives the shadow.
+ * The model's intensity (relative to the incident irradiance) that beam b puts at (x, y), per
+ * axis the smaller of the geometric plateau 1/D (the illuminated aperture's width D shifted to the
+ * landing point, filled at unit irradiance) and the far-zone spread of a beam of that width:
+ * spectral density 1/(1/D + δf²/T) (peak D; tail T/δf² with T = e/(2π²) from the edge measure e
+ * per unit power behind the beam, at least 1/(π²D), the envelope of sinc²), mapped to the
+ * screen with dx/dα = z/γ³, δf measured from the footprint's edge. In the far field (D² < λz) the
+ * spread is the smaller everywhere and gives the familiar peak (D_x D_y/λz)² per unit power; in the
+ * near field the plateau caps it over the shadow and just beyond its edges, and the spread's 1/δf²
+ * tail is the edges' diffraction. Either way the power per axis is about one: a far-field axis
+ * must not carry a spike 1/D over its tiny footprint, or every other point of the window would be
+ * weighed against a peak the light never reaches.
  */
 export function beamIntensity(m: LightModel, b: Beam, lam: number, z: number, x: number, y: number): number {
   if (!b.landing) return 0;
   const g = gammaOf(b.dir[0], m.oneD ? 0 : b.dir[1]);
   const scale = (g * g * g) / (lam * z);
-  const axis = (u: number, half: number) => {
+  const axis = (u: number, half: number, edges: number) => {
     const d = 2 * half;
     const off = Math.max(0, Math.abs(u) - half);
-    const plateau = off === 0 ? 1 / d : 0;
     const df = off * scale;
-    const spread = (d / (1 + (Math.PI * d * df) ** 2)) * scale;
-    return Math.max(plateau, spread);
+    // Tail e/(2π²δf²) from the edges behind the beam (a sparse grating's every slit), at least
+    // that of the footprint's own two edges, 1/(π²Dδf²).
+    const tail = Math.max(1 / (Math.PI * Math.PI * d), edges / (2 * Math.PI * Math.PI));
+    const spread = scale / (1 / d + (df * df) / tail);
+    return Math.min(1 / d, spread);
   };
-  const px = axis(x - b.landing[0], m.footprint[0]);
-  const py = m.oneD ? 1 : axis(y - b.landing[1], m.footprint[1]);
+  const px = axis(x - b.landing[0], m.footprint[0], m.beamEdgesPerPower[0]);
+  const py = m.oneD ? 1 : axis(y - b.landing[1], m.footprint[1], m.beamEdgesPerPower[1]);
   return b.power * m.power * px * py;
 }
 

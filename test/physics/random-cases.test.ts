@@ -26,6 +26,8 @@ import {
   drawCases,
   isFailure,
   runInChildren,
+  runRandomCase,
+  type DrawnCase,
   type Outcome,
 } from './random-cases.js';
 
@@ -51,5 +53,29 @@ describe(`random cases against the exact references (seed ${SEED})`, () => {
     const failures = outcomes.filter(isFailure).map((o) => describeOutcome(o));
     if (failures.length) console.log(`${failures.length} case(s) more than 5 % off without an accuracy warning:\n${failures.join('\n')}`);
     expect(failures).toEqual([]);
+  });
+});
+
+// Cases other seeds found (seed 2026 of `random-report.mjs 200 2026`), kept so that they stay
+// fixed: a rectangle whose narrow side (1.3λ, 2.2λ) sends light to 30°–60° while its wide side is
+// in the near field, chosen for Fresnel and 8 % and 3.5 % off unwarned (the planner's light model
+// gave a far-field axis a spike 1/D over its tiny footprint, against which the wide-angle light
+// weighed nothing); a sparse set of four wires whose wide-angle light comes from every wire's
+// edges, not the set's outline (2.5 % off at 1.4°).
+describe('random cases found by other seeds, against the exact references', () => {
+  const found: [string, DrawnCase['spec']][] = [
+    ['#109: rectangle 4.18 µm × 370 µm, 3.26 µm, 6.2 mm', { wavelength: 3.257458293691932e-6, distance: 0.00620139266797446, aperture: { shape: 'rectangle', width: 4.176808419445655e-6, height: 3.6968127532504034e-4, opaque: false }, illumination: { kind: 'plane', tilt: [0, 0] } }],
+    ['#148: rectangle 38.3 µm × 1.69 µm, 776 nm, 0.95 mm', { wavelength: 7.764491298411454e-7, distance: 9.504886890909075e-4, aperture: { shape: 'rectangle', width: 3.8318367060083305e-5, height: 1.6897737106132203e-6, opaque: false }, illumination: { kind: 'plane', tilt: [0, 0] } }],
+    ['#116: four opaque wires of 102 µm at 598 µm, 1.03 µm, 15.8 m', { wavelength: 1.0302054920661494e-6, distance: 15.787954850262944, aperture: { shape: 'slits', count: 4, width: 1.0202899033157213e-4, period: 5.980763054960332e-4, opaque: true }, illumination: { kind: 'plane', tilt: [0, 0] } }],
+  ];
+  it.each(found)('%s: within 2 % of the peak, or warned (or, beyond the test\'s work limit, not planned paraxially)', (_, spec) => {
+    const o = runRandomCase({ index: 0, spec });
+    if (o.status === 'too-much-work') {
+      // #109 now takes the exact sums (about 1e9 work units), over this test's limit.
+      expect(o.plan!.method).not.toBe('fresnel');
+      return;
+    }
+    expect(o.status).toBe('compared');
+    if (!o.warned) expect(o.error!).toBeLessThan(0.02);
   });
 });
