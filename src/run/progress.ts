@@ -1,6 +1,34 @@
 // What a run tells the person who started it. On a terminal: a live bar (cases done of total,
 // the cases running, elapsed time and ETA) with finished cases' lines scrolling above it. Into a
 // log file or a scheduler's output: one line per finished case. Quiet: only problems and the end.
+// Everything printed may hold text from a job file (names, case ids, values quoted in warnings and
+// errors), so every line goes through safe-text: a job file must not write to the terminal.
+import { safeEcho } from '../safe-text.js';
+
+/**
+ * Longest line, and most lines, printed for one message. Only a guard: the planner's own sentences
+ * are far shorter and a job file's refusal lists at most 20 problems (values from input inside
+ * them are cut where they are quoted), so no real message is cut.
+ */
+export const LINE_MAX = 4000;
+export const LINES_MAX = 50;
+
+/**
+ * A message (error, warning, note) as printed: line by line (a refusal lists its problems on lines
+ * of their own), each line's control characters escaped and its length bounded by LINE_MAX.
+ */
+export function safeMessage(message: string, maxLines: number = LINES_MAX): string {
+  const lines = message.split('\n');
+  const shown = lines.slice(0, maxLines).map((l) => safeEcho(l, LINE_MAX));
+  if (lines.length > maxLines) shown.push(`…(${lines.length - maxLines} more lines)`);
+  return shown.join('\n');
+}
+
+const text = (message: string) => safeMessage(message);
+/** A value from input (job name, case id): escaped and cut to the usual echo length. */
+const value = (v: string) => safeEcho(v);
+/** A folder (from --out and the job's name): escaped, newlines included, and cut only if absurd. */
+const folderName = (f: string) => safeEcho(f, 1000);
 
 export interface RunReporter {
   jobStart(job: string, folder: string, total: number, skipped: number, workers: number): void;
@@ -30,25 +58,26 @@ export function lineReporter(log: (line: string, problem: boolean) => void, quie
       total = t;
       n = skipped;
       if (!quiet) {
-        log(`job ${job}: ${t} case${t === 1 ? '' : 's'}${skipped ? `, ${skipped} already done (skipped)` : ''}, ${workers} worker${workers === 1 ? '' : 's'} → ${folder}`, false);
+        log(`job ${value(job)}: ${t} case${t === 1 ? '' : 's'}${skipped ? `, ${skipped} already done (skipped)` : ''}, ${workers} worker${workers === 1 ? '' : 's'} → ${folderName(folder)}`, false);
       }
     },
     caseStart() {},
     caseDone(id, lines) {
       n++;
       if (quiet) return;
-      log(`[${n}/${total}] ${id}  ${lines[0] ?? ''}`, false);
-      for (const l of lines.slice(1)) log(`    ${l}`, false);
+      log(`[${n}/${total}] ${value(id)}  ${text(lines[0] ?? '')}`, false);
+      for (const l of lines.slice(1)) log(`    ${text(l)}`, false);
     },
     caseFailed(id, error) {
+      // Always shown, --quiet or not: the reason is the one thing a failed case leaves to read.
       n++;
-      log(`[${n}/${total}] ${id}  FAILED: ${error}`, true);
+      log(`[${n}/${total}] ${value(id)}  FAILED: ${text(error)}`, true);
     },
     note(line) {
-      log(line, true);
+      log(text(line), true);
     },
     jobEnd(line) {
-      log(line, false);
+      log(text(line), false);
     },
   };
 }
@@ -80,11 +109,11 @@ export function terminalReporter(out: NodeJS.WriteStream, err: NodeJS.WriteStrea
     const elapsed = (Date.now() - t0) / 1000;
     const thisRun = done - startDone;
     const eta = thisRun > 0 ? (elapsed / thisRun) * (total - done) : NaN;
-    const names = [...running].slice(0, 3).join(', ') + (running.size > 3 ? ` +${running.size - 3}` : '');
+    const names = [...running].slice(0, 3).map(value).join(', ') + (running.size > 3 ? ` +${running.size - 3}` : '');
     // The numbers first: a narrow terminal cuts the end of the line.
     const text =
       `${done}/${total}${failed ? ` (${failed} failed)` : ''} [${'#'.repeat(fill)}${'-'.repeat(cells - fill)}] ` +
-      `${clock(elapsed)} elapsed, ETA ${clock(eta)} · ${job}${names ? ` · running ${names}` : ''}`;
+      `${clock(elapsed)} elapsed, ETA ${clock(eta)} · ${value(job)}${names ? ` · running ${names}` : ''}`;
     return text.length > width() ? `${text.slice(0, width() - 1)}…` : text;
   };
   const draw = () => out.write(`\r\x1b[2K${bar()}`);
@@ -102,7 +131,7 @@ export function terminalReporter(out: NodeJS.WriteStream, err: NodeJS.WriteStrea
       failed = 0;
       t0 = Date.now();
       running.clear();
-      if (!quiet) above(`job ${j}: ${t} cases${skipped ? `, ${skipped} already done` : ''}, ${workers} worker${workers === 1 ? '' : 's'} → ${folder}`, out);
+      if (!quiet) above(`job ${value(j)}: ${t} cases${skipped ? `, ${skipped} already done` : ''}, ${workers} worker${workers === 1 ? '' : 's'} → ${folderName(folder)}`, out);
       timer = setInterval(draw, 1000);
       timer.unref();
     },
@@ -113,22 +142,23 @@ export function terminalReporter(out: NodeJS.WriteStream, err: NodeJS.WriteStrea
     caseDone(id, lines) {
       running.delete(id);
       done++;
-      if (!quiet) above(`${id}  ${lines[0] ?? ''}${lines.length > 1 ? `\n    ${lines.slice(1).join('\n    ')}` : ''}`, out);
+      if (!quiet) above([`${value(id)}  ${text(lines[0] ?? '')}`, ...lines.slice(1).map((l) => `    ${text(l)}`)].join('\n'), out);
       else draw();
     },
     caseFailed(id, error) {
       running.delete(id);
       done++;
       failed++;
-      above(`${id}  FAILED: ${error}`, err);
+      // Always shown, --quiet or not.
+      above(`${value(id)}  FAILED: ${text(error)}`, err);
     },
     note(line) {
-      above(line, err);
+      above(text(line), err);
     },
     jobEnd(line) {
       if (timer) clearInterval(timer);
       out.write('\r\x1b[2K');
-      out.write(`${line}\n`);
+      out.write(`${text(line)}\n`);
     },
   };
 }

@@ -11,6 +11,9 @@ import { newSearchContext } from './searches.js';
 import type { FromWorker, ToWorker } from './worker.js';
 import type { Plan } from '../plan/types.js';
 import { startFftTeam, stopFftTeam, teamsAvailable, TEAM_MIN_VALUES } from '../parallel/fft-team.js';
+import { machineThreads } from './threads.js';
+
+export { machineThreads };
 
 export interface SchedulerEvents {
   start(id: string): void;
@@ -59,12 +62,21 @@ export function sharesFfts(p: Plan): boolean {
 }
 
 /**
- * How `requested` threads serve these cases. One case per worker thread, when there are at least
- * as many cases as threads and `atOnce` (what the memory guard allows) lets them all run; else the
- * cases one at a time in this thread, each case's large FFTs shared by all the threads, when the
- * cases have such FFTs; else as many workers as there are cases and memory for.
+ * How `asked` threads (at most machineThreads(), said in the note when lowered) serve these cases.
+ * One case per worker thread, when there are at least as many cases as threads and `atOnce` (what
+ * the memory guard allows) lets them all run; else the cases one at a time in this thread, each
+ * case's large FFTs shared by all the threads, when the cases have such FFTs; else as many workers
+ * as there are cases and memory for.
  */
-export function chooseParallelism(plans: Plan[], requested: number, atOnce: number): Parallelism {
+export function chooseParallelism(plans: Plan[], asked: number, atOnce: number): Parallelism {
+  const machine = machineThreads();
+  const requested = Math.min(Math.max(1, Math.floor(asked) || 1), machine);
+  const lowered = asked > machine ? `${asked} threads asked for; this machine runs ${machine} at once: using ${machine}` : '';
+  const choice = chooseFor(plans, requested, atOnce);
+  return lowered ? { ...choice, note: choice.note ? `${lowered}; ${choice.note}` : lowered } : choice;
+}
+
+function chooseFor(plans: Plan[], requested: number, atOnce: number): Parallelism {
   const n = plans.length;
   const cases = `${n} case${n === 1 ? '' : 's'}`;
   const fallback = Math.max(1, Math.min(requested, atOnce, n));
@@ -89,7 +101,7 @@ export async function runTasks(tasks: CaseTask[], opts: SchedulerOptions, ev: Sc
 
 /** The cases in this thread with an FFT team, which ends with the run, however the run ends. */
 async function runWithTeam(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
-  const asked = opts.threadsPerCase!;
+  const asked = Math.min(opts.threadsPerCase!, machineThreads());
   try {
     const got = await startFftTeam(asked, { onProblem: (m) => ev.note?.(m) });
     if (got < asked) ev.note?.(`only ${got} of ${asked} threads could be started for the FFTs`);
@@ -118,7 +130,7 @@ async function runHere(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerE
 
 function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
   const queue = [...tasks];
-  const n = Math.min(opts.workers, tasks.length);
+  const n = Math.min(opts.workers, tasks.length, machineThreads());
   const pool = new Pool({ max: n });
   const busy = new Map<Worker, CaseTask | null>();
   let outstanding = tasks.length;
