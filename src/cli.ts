@@ -20,7 +20,10 @@ const DEFAULT_MAX_MEMORY_TEXT = '4GiB';
 /** A mistake on the command line itself: reported with exit code 2, before any work. */
 class UsageError extends Error {}
 
-/** The range --max-memory accepts: below 64 MiB no case fits; above 1 TiB is a typo, not a machine. */
+/**
+ * The range --max-memory accepts: below 64 MiB hardly a case fits (a 50 µm pinhole in the far field
+ * is planned at about 75 MiB); above 1 TiB is a typo, not a machine.
+ */
 export const MEMORY_RANGE = { min: 64 * 1024 ** 2, max: 1024 ** 4 };
 /** Most --workers accepted (or the machine's threads, if more): beyond it the number is a typo. */
 export const MAX_WORKERS = 1024;
