@@ -896,6 +896,8 @@ function impossibleSize(s: Sampling): string | null {
   const most = Math.max(padded, input, outputs);
   if (most > MAX_ARRAY_SAMPLES) return `${trimNumber(most, 3)} samples in one array (at most ${MAX_ARRAY_SAMPLES} fit in one)`;
   if (!(s.memory >= 0) || !(s.work >= 0)) return 'a memory or work estimate that is not a number';
+  // (Infinity passes any limit given as Infinity, as --accept-large gives the work's.)
+  if (!Number.isFinite(s.memory) || !Number.isFinite(s.work)) return 'a memory or work estimate beyond any number';
   return null;
 }
 
