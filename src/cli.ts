@@ -305,6 +305,9 @@ async function gatherCommand(files: string[], out: string): Promise<number> {
           `summary.csv and report.html in ${safeEcho(relative(process.cwd(), jobDir) || '.', 1000)}/`,
       );
       for (const f of g.failed) console.error(`  ${safeEcho(f.case)}: ${safeMessage(f.error)}`);
+      // Cases whose files do not match their record count as not done: say which and why.
+      for (const d of g.damaged.slice(0, 20)) console.error(`  ${safeEcho(d.case)}: not counted as done: ${safeMessage(d.problems.join('; '))}`);
+      if (g.damaged.length > 20) console.error(`  … and ${g.damaged.length - 20} more damaged case(s)`);
       if (g.reportError) console.error(`  report not written: ${safeMessage(g.reportError)}`);
       if (g.failed.length || g.missing.length || g.reportError) status = 1;
     } catch (e) {
