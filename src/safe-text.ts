@@ -33,6 +33,18 @@ export function safeEcho(value: unknown, max: number = ECHO_MAX): string {
 }
 
 /**
+ * Text of one or more lines that may quote input (a message, a plan): the line breaks (LF or CRLF)
+ * kept, each line as safeEcho shows it cut at lineChars, at most maxLines lines and the rest
+ * counted ("…(12 more lines)").
+ */
+export function safeLines(text: string, maxLines: number, lineChars: number): string {
+  const all = text.split(/\r\n|\n/);
+  const shown = all.slice(0, maxLines).map((l) => safeEcho(l, lineChars));
+  if (all.length > maxLines) shown.push(`…(${all.length - maxLines} more lines)`);
+  return shown.join('\n');
+}
+
+/**
  * A CSV cell that a spreadsheet would take for a formula (it starts with = + - @, or a tab or
  * carriage return before one) gets a leading apostrophe, the common-practice guard against formula
  * injection. Numbers are never passed here: only text from input (names, shapes, paths).

@@ -4,6 +4,7 @@ import type { Aperture, Illumination } from '../src/optics/aperture.js';
 import type { Case } from '../src/plan/types.js';
 import { planCase } from '../src/plan/planner.js';
 import { runPlannedCase } from '../src/run/run-case.js';
+import type { RunReporter } from '../src/run/progress.js';
 
 export interface CaseSpec {
   wavelength: number;
@@ -57,3 +58,18 @@ export function maxDiffOverPeak(a: ArrayLike<number>, b: ArrayLike<number>): num
 export const um = 1e-6;
 export const mm = 1e-3;
 export const nm = 1e-9;
+
+/** A reporter that keeps what a run says: its notes (failures as "FAILED id: error") and the cases it computed. */
+export function recorder() {
+  const notes: string[] = [];
+  const computed: string[] = [];
+  const reporter: RunReporter = {
+    jobStart() {},
+    caseStart() {},
+    caseDone: (id) => void computed.push(id),
+    caseFailed: (id, error) => void notes.push(`FAILED ${id}: ${error}`),
+    note: (line) => void notes.push(line),
+    jobEnd() {},
+  };
+  return { notes, computed, reporter };
+}

@@ -5,7 +5,7 @@
 
 import { stringify as yamlStringify } from 'yaml';
 import { formatLength, trimNumber } from '../job/units.js';
-import { ECHO_MAX, safeEcho } from '../safe-text.js';
+import { ECHO_MAX, safeEcho, safeLines } from '../safe-text.js';
 import { TOOL_NAME } from '../version.js';
 import type { JobReport, MetricInfo, ReportCase, ReportPlot, ReportTable, SweepKey } from './types.js';
 
@@ -75,10 +75,7 @@ const path = (v: unknown) => value(v, REPORT_LIMITS.pathChars);
  * breaks kept, each line as `value` with `lineChars`, at most `maxLines` lines with the rest counted.
  */
 function lines(v: unknown, maxLines: number = REPORT_LIMITS.messageLines, lineChars: number = REPORT_LIMITS.lineChars): string {
-  const all = String(v).split(/\r\n|\n/);
-  const shown = all.slice(0, maxLines).map((l) => safeEcho(l, lineChars));
-  if (all.length > maxLines) shown.push(`…(${all.length - maxLines} more lines)`);
-  return escapeHtml(shown.join('\n'));
+  return escapeHtml(safeLines(String(v), maxLines, lineChars));
 }
 
 function formatValue(v: number | null | undefined, unit: 'm' | '1'): string {

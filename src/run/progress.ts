@@ -3,7 +3,7 @@
 // log file or a scheduler's output: one line per finished case. Quiet: only problems and the end.
 // Everything printed may hold text from a job file (names, case ids, values quoted in warnings and
 // errors), so every line goes through safe-text: a job file must not write to the terminal.
-import { safeEcho } from '../safe-text.js';
+import { safeEcho, safeLines } from '../safe-text.js';
 
 /**
  * Longest line, and most lines, printed for one message. Only a guard: the planner's own sentences
@@ -18,10 +18,7 @@ export const LINES_MAX = 50;
  * of their own), each line's control characters escaped and its length bounded by LINE_MAX.
  */
 export function safeMessage(message: string, maxLines: number = LINES_MAX): string {
-  const lines = message.split('\n');
-  const shown = lines.slice(0, maxLines).map((l) => safeEcho(l, LINE_MAX));
-  if (lines.length > maxLines) shown.push(`…(${lines.length - maxLines} more lines)`);
-  return shown.join('\n');
+  return safeLines(message, maxLines, LINE_MAX);
 }
 
 const text = (message: string) => safeMessage(message);

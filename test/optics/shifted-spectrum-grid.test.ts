@@ -18,81 +18,11 @@ import {
 } from '../../src/optics/shifted-spectrum.js';
 import { DEFAULT_MAX_MEMORY, planCase } from '../../src/plan/planner.js';
 import { makeCase } from '../helpers.js';
+import { rsSquare } from './square-quadrature.js';
 
 beforeAll(() => {
   loadFastKernels();
 });
-
-// --- Brute-force Rayleigh–Sommerfeld quadrature of a tilted square (test code; as in
-// shifted-spectrum-tilted.test.ts, checked there against test/reference/rs2d.ts) ---------------
-
-function gaussLegendre(n: number): { x: Float64Array; w: Float64Array } {
-  const x = new Float64Array(n);
-  const w = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let t = Math.cos((Math.PI * (i + 0.75)) / (n + 0.5));
-    for (let it = 0; it < 100; it++) {
-      let p0 = 1;
-      let p1 = t;
-      for (let k = 2; k <= n; k++) {
-        const p2 = ((2 * k - 1) * t * p1 - (k - 1) * p0) / k;
-        p0 = p1;
-        p1 = p2;
-      }
-      const dp = (n * (t * p1 - p0)) / (t * t - 1);
-      const dt = p1 / dp;
-      t -= dt;
-      if (Math.abs(dt) < 1e-15) {
-        x[i] = t;
-        w[i] = 2 / ((1 - t * t) * dp * dp);
-        break;
-      }
-    }
-  }
-  return { x, w };
-}
-
-const GL16 = gaussLegendre(16);
-
-function panels(a: number, b: number, rate: number, maxPhase: number): { x: number[]; w: number[] } {
-  const n = Math.max(2, Math.ceil(((b - a) * rate) / maxPhase));
-  const h = (b - a) / n;
-  const x: number[] = [];
-  const w: number[] = [];
-  for (let p = 0; p < n; p++) {
-    const c = a + (p + 0.5) * h;
-    for (let i = 0; i < 16; i++) {
-      x.push(c + 0.5 * h * GL16.x[i]!);
-      w.push(0.5 * h * GL16.w[i]!);
-    }
-  }
-  return { x, w };
-}
-
-/** U = ∬_square e^{ik sin θ ξ}·(1/2π)(z/r)(1/r − ik)e^{ikr}/r dξdη (Goodman §3.5), |ξ|, |η| ≤ a. */
-function rsSquare(lam: number, z: number, a: number, sinT: number, x: number, y: number): [number, number] {
-  const k = (2 * Math.PI) / lam;
-  const X = panels(-a, a, k * (Math.abs(sinT) + 1), 10);
-  const Y = panels(-a, a, k, 10);
-  let re = 0;
-  let im = 0;
-  for (let j = 0; j < Y.x.length; j++) {
-    const dy = y - Y.x[j]!;
-    for (let i = 0; i < X.x.length; i++) {
-      const xi = X.x[i]!;
-      const dx = x - xi;
-      const r2 = dx * dx + dy * dy + z * z;
-      const r = Math.sqrt(r2);
-      const ph = k * (r + sinT * xi);
-      const s = (Y.w[j]! * X.w[i]! * z) / (2 * Math.PI * r2);
-      const c = Math.cos(ph);
-      const sn = Math.sin(ph);
-      re += s * (c / r + k * sn);
-      im += s * (sn / r - k * c);
-    }
-  }
-  return [re, im];
-}
 
 describe('the grid a tilted beam needs: 200 µm square, 633 nm, 30°, 100 mm', () => {
   const lam = 633e-9;

@@ -19,38 +19,13 @@ import { fftAxis } from '../../src/optics/field.js';
 import { padField } from '../../src/optics/spectral.js';
 import { sourceField1D } from '../../src/optics/source.js';
 import { landingCentre, propagateShiftedSpectrum, shiftedGridFor } from '../../src/optics/shifted-spectrum.js';
+import { gaussLegendre } from '../reference/quadrature.js';
 
 beforeAll(() => {
   loadFastKernels();
 });
 
 const deg = (d: number) => (d * Math.PI) / 180;
-
-function gaussLegendre(n: number): { x: Float64Array; w: Float64Array } {
-  const x = new Float64Array(n);
-  const w = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let t = Math.cos((Math.PI * (i + 0.75)) / (n + 0.5));
-    for (let it = 0; it < 100; it++) {
-      let p0 = 1;
-      let p1 = t;
-      for (let k = 2; k <= n; k++) {
-        const p2 = ((2 * k - 1) * t * p1 - (k - 1) * p0) / k;
-        p0 = p1;
-        p1 = p2;
-      }
-      const dp = (n * (t * p1 - p0)) / (t * t - 1);
-      const dt = p1 / dp;
-      t -= dt;
-      if (Math.abs(dt) < 1e-15) {
-        x[i] = t;
-        w[i] = 2 / ((1 - t * t) * dp * dp);
-        break;
-      }
-    }
-  }
-  return { x, w };
-}
 
 const GL = gaussLegendre(16);
 

@@ -27,6 +27,7 @@ import { sourceField2D } from '../../src/optics/source.js';
 import { propagateFarField } from '../../src/optics/direct.js';
 import { landingCentre, propagateShiftedSpectrum, shiftedGridFor } from '../../src/optics/shifted-spectrum.js';
 import { boundaryField, quad2dField } from '../reference/rs2d.js';
+import { rsSquare } from './square-quadrature.js';
 
 beforeAll(() => {
   loadFastKernels();
@@ -229,90 +230,12 @@ describe('tilted plane wave through a 20 µm square, far away (N_F = 0.01): the 
   });
 });
 
-// --- Brute-force Rayleigh–Sommerfeld quadrature (test code, shares nothing with src/) -----------
-
-/** n-point Gauss–Legendre nodes and weights on [−1, 1] (Newton on P_n; A&S 25.4.29 for the weights). */
-function gaussLegendre(n: number): { x: Float64Array; w: Float64Array } {
-  const x = new Float64Array(n);
-  const w = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let t = Math.cos((Math.PI * (i + 0.75)) / (n + 0.5));
-    for (let it = 0; it < 100; it++) {
-      let p0 = 1;
-      let p1 = t;
-      for (let k = 2; k <= n; k++) {
-        const p2 = ((2 * k - 1) * t * p1 - (k - 1) * p0) / k;
-        p0 = p1;
-        p1 = p2;
-      }
-      const dp = (n * (t * p1 - p0)) / (t * t - 1);
-      const dt = p1 / dp;
-      t -= dt;
-      if (Math.abs(dt) < 1e-15) {
-        x[i] = t;
-        w[i] = 2 / ((1 - t * t) * dp * dp);
-        break;
-      }
-    }
-  }
-  return { x, w };
-}
-
-const GL16 = gaussLegendre(16);
-
-/** Nodes over [a, b] in equal panels of 16 points, each spanning at most `maxPhase` rad at `rate` rad/m. */
-function panels(a: number, b: number, rate: number, maxPhase: number): { x: number[]; w: number[] } {
-  const n = Math.max(2, Math.ceil(((b - a) * rate) / maxPhase));
-  const h = (b - a) / n;
-  const x: number[] = [];
-  const w: number[] = [];
-  for (let p = 0; p < n; p++) {
-    const c = a + (p + 0.5) * h;
-    for (let i = 0; i < 16; i++) {
-      x.push(c + 0.5 * h * GL16.x[i]!);
-      w.push(0.5 * h * GL16.w[i]!);
-    }
-  }
-  return { x, w };
-}
-
-/**
- * U(x, y, z) = ∬_square e^{ik(sin θx ξ + sin θy η)}·(1/2π)(z/r)(1/r − ik)e^{ikr}/r dξdη over
- * |ξ|, |η| ≤ a: the integrand's phase changes at most k(|sin θx| + 1) per metre along ξ and
- * k(|sin θy| + 1) along η; panels of 10 rad (a 16-point panel integrates e^{iφ} over 10 rad to
- * about 1e-12).
- */
-function rsSquare(lam: number, z: number, a: number, sinT: number, x: number, y: number, sinTy = 0): [number, number] {
-  const k = (2 * Math.PI) / lam;
-  const X = panels(-a, a, k * (Math.abs(sinT) + 1), 10);
-  const Y = panels(-a, a, k * (Math.abs(sinTy) + 1), 10);
-  let re = 0;
-  let im = 0;
-  for (let j = 0; j < Y.x.length; j++) {
-    const eta = Y.x[j]!;
-    const dy = y - eta;
-    for (let i = 0; i < X.x.length; i++) {
-      const xi = X.x[i]!;
-      const dx = x - xi;
-      const r2 = dx * dx + dy * dy + z * z;
-      const r = Math.sqrt(r2);
-      const ph = k * (r + sinT * xi + sinTy * eta);
-      const s = (Y.w[j]! * X.w[i]! * z) / (2 * Math.PI * r2);
-      const c = Math.cos(ph);
-      const sn = Math.sin(ph);
-      re += s * (c / r + k * sn);
-      im += s * (sn / r - k * c);
-    }
-  }
-  return [re, im];
-}
-
 describe('tilted plane wave through a 10 µm square at N_F = 1: the Rayleigh–Sommerfeld integral', () => {
   const lam = 0.5e-6;
   const a = 5e-6;
   const D = 2 * a;
   const z = (a * a) / lam; // N_F = a²/(λz) = 1
-  it('the quadrature written here agrees with the test references of test/reference/rs2d.ts (boundary-wave form at normal incidence, panel quadrature tilted) to 1e-9', () => {
+  it('the square quadrature (square-quadrature.ts) agrees with the test references of test/reference/rs2d.ts (boundary-wave form at normal incidence, panel quadrature tilted) to 1e-9', () => {
     // Two other evaluations of the same integral in test/reference/rs2d.ts: the boundary-wave form
     // (a 1-D integral along the edge, derived differently) and its own 2-D panel quadrature.
     const square = [{ region: { kind: 'rect' as const, x0: -a, x1: a, y0: -a, y1: a }, sign: 1 as const }];

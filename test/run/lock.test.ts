@@ -14,7 +14,7 @@ import { acquireRunLock, LockBusyError, lockName } from '../../src/run/lock.js';
 import { caseHash, verifyCase } from '../../src/run/records.js';
 import { loadJobFile } from '../../src/job/load.js';
 import { expandJob } from '../../src/job/expand.js';
-import type { RunReporter } from '../../src/run/progress.js';
+import { recorder } from '../helpers.js';
 
 const JOB = `name: pin
 wavelength: 633 nm
@@ -35,20 +35,6 @@ async function folder(): Promise<string> {
   const d = join(dir, `job-${++n}`);
   await mkdir(d);
   return d;
-}
-
-function recorder() {
-  const notes: string[] = [];
-  const computed: string[] = [];
-  const reporter: RunReporter = {
-    jobStart() {},
-    caseStart() {},
-    caseDone: (id) => void computed.push(id),
-    caseFailed: (id, error) => void notes.push(`FAILED ${id}: ${error}`),
-    note: (line) => void notes.push(line),
-    jobEnd() {},
-  };
-  return { notes, computed, reporter };
 }
 
 /** A pid that existed and has ended: a child that has been waited for. */

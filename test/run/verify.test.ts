@@ -12,7 +12,7 @@ import { gatherJob } from '../../src/run/gather.js';
 import { caseHash, verifyCase } from '../../src/run/records.js';
 import { loadJobFile } from '../../src/job/load.js';
 import { expandJob } from '../../src/job/expand.js';
-import type { RunReporter } from '../../src/run/progress.js';
+import { recorder } from '../helpers.js';
 import { digestOf, EDGE_BYTES, FULL_DIGEST_MAX, REQUIRED_CASE_FILES, type StoredRecord } from '../../src/output/case-output.js';
 
 const JOB = `name: pin
@@ -27,20 +27,6 @@ let out = '';
 let jobDir = '';
 let ids: string[] = [];
 let hashes = new Map<string, string>();
-
-function recorder() {
-  const notes: string[] = [];
-  const computed: string[] = [];
-  const reporter: RunReporter = {
-    jobStart() {},
-    caseStart() {},
-    caseDone: (id) => void computed.push(id),
-    caseFailed: (id, error) => void notes.push(`FAILED ${id}: ${error}`),
-    note: (line) => void notes.push(line),
-    jobEnd() {},
-  };
-  return { notes, computed, reporter };
-}
 
 /**
  * The same command again. `quick` runs it as shard 1 of 1: the same skip-or-compute decision over
