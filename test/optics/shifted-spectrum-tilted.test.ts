@@ -8,7 +8,7 @@
 //   square's exact spectrum, and (2) by propagateFarField (src/optics/direct.ts: independent code,
 //   direct sums) from the same area-sampled square;
 // - at N_F = 1: a brute-force 2-D Gauss–Legendre quadrature of the first Rayleigh–Sommerfeld integral,
-//   U = ∬ e^{ik sin θ ξ}·h dξdη, h = (1/2π)(z/r)(1/r − ik)e^{ikr}/r (Goodman §3.5), written below;
+//   U = ∬ e^{ik sin θ ξ}·h dξdη, h = (1/2π)(z/r)(1/r − ik)e^{ikr}/r (Goodman §3.5), in square-quadrature.ts;
 // - the spot's centroid at z·tan θ: a tilted beam travels along its direction (Hecht, Optics, on
 //   the direction of a plane wave; geometric optics).
 //
