@@ -11,42 +11,15 @@
 // unless asked, impossible carriers are refused.
 import { beforeAll, describe, expect, it } from 'vitest';
 import { loadFastKernels } from '../../src/kernels.js';
-import { createField, fftAxis, type Field } from '../../src/optics/field.js';
+import { createField, fftAxis } from '../../src/optics/field.js';
 import { padField, propagateAngularSpectrum, toSpectrum, type SourceSpectrum } from '../../src/optics/spectral.js';
 import { sourceField1D, sourceField2D } from '../../src/optics/source.js';
 import { landingCentre, propagateShiftedSpectrum, restoreCarrier } from '../../src/optics/shifted-spectrum.js';
+import { maxRelDiff, randomPhaseSource } from './spectral-reference.js';
 
 beforeAll(() => {
   loadFastKernels();
 });
-
-/** A disc of radius `a` (2-D) or a slit of half-width `a` (1-D) with a smooth random phase. */
-function source(nx: number, ny: number, dx: number, a: number, lam: number): Field {
-  const f = createField(fftAxis(nx, dx), ny > 1 ? fftAxis(ny, dx) : null, lam);
-  let s = 12345;
-  for (let r = 0; r < f.ny; r++) {
-    for (let c = 0; c < f.nx; c++) {
-      const x = f.x0 + c * dx;
-      const y = ny > 1 ? f.y0 + r * dx : 0;
-      if (x * x + y * y > a * a) continue;
-      s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-      const ph = (s / 2 ** 32) * 0.3;
-      f.data[2 * (r * f.nx + c)] = Math.cos(ph);
-      f.data[2 * (r * f.nx + c) + 1] = Math.sin(ph);
-    }
-  }
-  return f;
-}
-
-function maxRelDiff(a: Float64Array, b: Float64Array): number {
-  let peak = 0;
-  let diff = 0;
-  for (let i = 0; i < a.length; i++) {
-    peak = Math.max(peak, Math.abs(a[i]!));
-    diff = Math.max(diff, Math.abs(a[i]! - b[i]!));
-  }
-  return diff / peak;
-}
 
 const lam = 633e-9;
 const cases = [
@@ -60,7 +33,7 @@ const cases = [
 describe('untilted, centre 0: the existing band-limited angular spectrum', () => {
   for (const k of cases) {
     it(`${k.name}: equal to 1e-12 of the peak, and the same losses`, () => {
-      const src = source(k.nx / 2, k.ny > 1 ? k.ny / 2 : 1, k.dx, k.a, lam);
+      const src = randomPhaseSource(k.nx / 2, k.ny > 1 ? k.ny / 2 : 1, k.dx, k.a, lam);
       const today = padField(src, k.nx, k.ny);
       const want = propagateAngularSpectrum(today, k.z, { carrier: [0, 0] });
       // The per-axis rectangle is the existing limit exactly; the exact landing box is the same
@@ -87,7 +60,7 @@ describe('untilted, centre 0: the existing band-limited angular spectrum', () =>
 
   it('the envelope is left alone unless inPlace; inPlace writes the result into its array', () => {
     const k = cases[0];
-    const env = padField(source(k.nx / 2, k.ny / 2, k.dx, k.a, lam), k.nx, k.ny);
+    const env = padField(randomPhaseSource(k.nx / 2, k.ny / 2, k.dx, k.a, lam), k.nx, k.ny);
     const before = env.data.slice();
     const copy = propagateShiftedSpectrum(env, k.z, [1e4, 0], [3e-6, 0]);
     expect(Array.from(env.data)).toEqual(Array.from(before));
@@ -99,7 +72,7 @@ describe('untilted, centre 0: the existing band-limited angular spectrum', () =>
 
   it('a kept spectrum gives the same bits as a fresh transform, at any distance, tilt and centre', () => {
     const k = cases[2];
-    const src = source(k.nx / 2, k.ny / 2, k.dx, k.a, lam);
+    const src = randomPhaseSource(k.nx / 2, k.ny / 2, k.dx, k.a, lam);
     const spectrumField = padField(src, k.nx, k.ny);
     const kept: SourceSpectrum = { totalPower: toSpectrum(spectrumField), data: spectrumField.data };
     for (const [z, carrier] of [
@@ -124,7 +97,7 @@ describe('untilted, centre 0: the existing band-limited angular spectrum', () =>
     const z = 2e-3;
     const carrier: [number, number] = [Math.sin(0.44) / lam, Math.sin(0.35) / lam];
     const centre = landingCentre(carrier, lam, z);
-    const line = padField(source(nx / 2, 1, dx, 40e-6, lam), nx, 1);
+    const line = padField(randomPhaseSource(nx / 2, 1, dx, 40e-6, lam), nx, 1);
     const one = propagateShiftedSpectrum(line, z, carrier, centre, { taper: 0.3 });
     const ny = 8;
     const plane = createField(fftAxis(nx, dx), fftAxis(ny, 20e-6), lam);
@@ -139,7 +112,7 @@ describe('untilted, centre 0: the existing band-limited angular spectrum', () =>
   });
 
   it('refuses a carrier at or beyond grazing, a taper outside [0, 0.5] and a kept spectrum of another grid', () => {
-    const env = padField(source(32, 16, 0.5e-6, 3e-6, lam), 64, 32);
+    const env = padField(randomPhaseSource(32, 16, 0.5e-6, 3e-6, lam), 64, 32);
     expect(() => propagateShiftedSpectrum(env, 1e-3, [1 / lam, 0], [0, 0])).toThrow(/not a propagating direction/);
     expect(() => propagateShiftedSpectrum(env, 1e-3, [0.8 / lam, 0.8 / lam], [0, 0])).toThrow(/not a propagating direction/);
     expect(() => propagateShiftedSpectrum(env, 1e-3, [0, 0], [0, 0], { taper: 0.6 })).toThrow(/taper/);

@@ -5,7 +5,7 @@
 // (common practice for rounding-level agreement of double-precision transforms).
 import { beforeAll, describe, expect, it } from 'vitest';
 import { loadFastKernels } from '../../src/kernels.js';
-import { createField, fftAxis, type Field } from '../../src/optics/field.js';
+import { createField, fftAxis } from '../../src/optics/field.js';
 import {
   padField,
   propagateAngularSpectrum,
@@ -13,39 +13,11 @@ import {
   toSpectrum,
   type SourceSpectrum,
 } from '../../src/optics/spectral.js';
-import { referenceAngularSpectrum, referenceFresnelTransfer } from './spectral-reference.js';
+import { maxRelDiff, randomPhaseSource, referenceAngularSpectrum, referenceFresnelTransfer } from './spectral-reference.js';
 
 beforeAll(() => {
   loadFastKernels();
 });
-
-/** A disc of radius `a` (2-D) or a slit of half-width `a` (1-D) with a smooth random phase. */
-function source(nx: number, ny: number, dx: number, a: number, lam: number): Field {
-  const f = createField(fftAxis(nx, dx), ny > 1 ? fftAxis(ny, dx) : null, lam);
-  let s = 12345;
-  for (let r = 0; r < f.ny; r++) {
-    for (let c = 0; c < f.nx; c++) {
-      const x = f.x0 + c * dx;
-      const y = ny > 1 ? f.y0 + r * dx : 0;
-      if (x * x + y * y > a * a) continue;
-      s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-      const ph = (s / 2 ** 32) * 0.3;
-      f.data[2 * (r * f.nx + c)] = Math.cos(ph);
-      f.data[2 * (r * f.nx + c) + 1] = Math.sin(ph);
-    }
-  }
-  return f;
-}
-
-function maxRelDiff(a: Float64Array, b: Float64Array): number {
-  let peak = 0;
-  let diff = 0;
-  for (let i = 0; i < a.length; i++) {
-    peak = Math.max(peak, Math.abs(a[i]!));
-    diff = Math.max(diff, Math.abs(a[i]! - b[i]!));
-  }
-  return diff / peak;
-}
 
 const lam = 633e-9;
 const cases = [
@@ -59,7 +31,7 @@ describe('transfer-function propagation is unchanged by the fast path', () => {
   for (const k of cases) {
     for (const method of ['angular-spectrum', 'fresnel'] as const) {
       it(`${method}: ${k.name}`, () => {
-        const src = source(k.nx / 2, k.ny > 1 ? k.ny / 2 : 1, k.dx, k.a, lam);
+        const src = randomPhaseSource(k.nx / 2, k.ny > 1 ? k.ny / 2 : 1, k.dx, k.a, lam);
         const fast = padField(src, k.nx, k.ny);
         const ref = padField(src, k.nx, k.ny);
         const comp = { carrier: [k.carrier[0], k.carrier[1]] as [number, number] };
@@ -81,7 +53,7 @@ describe('transfer-function propagation is unchanged by the fast path', () => {
 
   it('a kept source spectrum gives the same field at every distance as a fresh transform', () => {
     const k = cases[0];
-    const src = source(k.nx / 2, k.ny / 2, k.dx, k.a, lam);
+    const src = randomPhaseSource(k.nx / 2, k.ny / 2, k.dx, k.a, lam);
     const spectrumField = padField(src, k.nx, k.ny);
     const kept: SourceSpectrum = { totalPower: toSpectrum(spectrumField), data: spectrumField.data };
     for (const z of [100e-6, 300e-6, 2e-3]) {

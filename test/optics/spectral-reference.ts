@@ -2,7 +2,7 @@
 // own, through a closure, with the FFT of fft.js. Kept as the reference that the faster
 // src/optics/spectral.ts (mirror symmetry, per-axis tables, cached spectra) must reproduce.
 import { binFrequency, fft2Reference } from '../../src/optics/fft.js';
-import { isOneD, type Field } from '../../src/optics/field.js';
+import { createField, fftAxis, isOneD, type Field } from '../../src/optics/field.js';
 import { propagationPhase, rotate } from '../../src/optics/phase.js';
 import { bandLimitFrequency, cellResponse, type PixelCompensation } from '../../src/optics/spectral.js';
 
@@ -69,4 +69,33 @@ export function referenceFresnelTransfer(f: Field, z: number, comp?: PixelCompen
     propagationPhase(z, lam),
     comp,
   );
+}
+
+/** A disc of radius `a` (2-D) or a slit of half-width `a` (1-D) with a smooth random phase. */
+export function randomPhaseSource(nx: number, ny: number, dx: number, a: number, lam: number): Field {
+  const f = createField(fftAxis(nx, dx), ny > 1 ? fftAxis(ny, dx) : null, lam);
+  let s = 12345;
+  for (let r = 0; r < f.ny; r++) {
+    for (let c = 0; c < f.nx; c++) {
+      const x = f.x0 + c * dx;
+      const y = ny > 1 ? f.y0 + r * dx : 0;
+      if (x * x + y * y > a * a) continue;
+      s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+      const ph = (s / 2 ** 32) * 0.3;
+      f.data[2 * (r * f.nx + c)] = Math.cos(ph);
+      f.data[2 * (r * f.nx + c) + 1] = Math.sin(ph);
+    }
+  }
+  return f;
+}
+
+/** max |a − b| over max |a|. */
+export function maxRelDiff(a: Float64Array, b: Float64Array): number {
+  let peak = 0;
+  let diff = 0;
+  for (let i = 0; i < a.length; i++) {
+    peak = Math.max(peak, Math.abs(a[i]!));
+    diff = Math.max(diff, Math.abs(a[i]! - b[i]!));
+  }
+  return diff / peak;
 }
