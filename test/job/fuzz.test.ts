@@ -18,24 +18,13 @@ import { JobError, loadJobFile, parseJobText, type LoadedJob } from '../../src/j
 import { expandJob } from '../../src/job/expand.js';
 import { planCase } from '../../src/plan/planner.js';
 import type { Case } from '../../src/plan/types.js';
+import { mulberry32 } from '../helpers.js';
 
 // FUZZ_SEED and FUZZ_INPUTS explore beyond the suite's fixed set (FUZZ_PROFILE lists the slowest).
 const SEED = Number(process.env.FUZZ_SEED ?? 20_261_202);
 const INPUTS = Number(process.env.FUZZ_INPUTS ?? 600);
 /** Cases planned per valid input: the first, the last and some between (a sweep may hold 100 000). */
 const PLANNED_PER_JOB = 6;
-
-/** mulberry32: a small, well-known 32-bit PRNG (common practice for reproducible test data). */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 type Rng = () => number;
 const pick = <T>(rng: Rng, xs: readonly T[]): T => xs[Math.floor(rng() * xs.length)]!;

@@ -8,7 +8,7 @@ import { fileURLToPath } from 'node:url';
 import type { Plan } from '../../src/plan/types.js';
 import { planCase } from '../../src/plan/planner.js';
 import { runPlannedCase } from '../../src/run/run-case.js';
-import { makeCase, type CaseSpec } from '../helpers.js';
+import { makeCase, mulberry32, type CaseSpec } from '../helpers.js';
 import { isOneD, referenceCost1D, referenceIntensity, type RefCase } from '../reference/reference.js';
 
 /** The seed of the draw; change it to see other cases (the counts in the report are for this one). */
@@ -51,18 +51,6 @@ export const MIN_POINTS_1D = 40;
  */
 export const CASE_TIMEOUT_MS = Number(process.env.SPOTCAST_RANDOM_TIMEOUT_MS ?? 10_000);
 export const POINTS_2D_PER_LINE = 21;
-
-/** mulberry32: a tiny 32-bit PRNG (public domain, common practice for reproducible test draws). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 export interface DrawnCase {
   index: number;

@@ -3,6 +3,7 @@
 // as the plain longest-processing-time-first scan over every shard (Graham 1969), written here.
 import { describe, expect, it } from 'vitest';
 import { assignShards, MAX_SHARDS, parseShard } from '../../src/run/shard.js';
+import { mulberry32 } from '../helpers.js';
 
 /** LPT by a scan of all n shards: the definition the heap must reproduce exactly. */
 function scanAssign(work: number[], n: number): number[] {
@@ -16,18 +17,6 @@ function scanAssign(work: number[], n: number): number[] {
     shard[i] = best + 1;
   }
   return shard;
-}
-
-/** A fixed-seed generator (mulberry32), so that the cases below are the same on every run. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 describe('parseShard: K/N within 1 ≤ K ≤ N ≤ MAX_SHARDS', () => {
@@ -59,7 +48,7 @@ describe('parseShard: K/N within 1 ≤ K ≤ N ≤ MAX_SHARDS', () => {
 
 describe('assignShards', () => {
   it('is the scan over every shard, for random work and shard counts up to twice the cases', () => {
-    const rnd = random(20261202);
+    const rnd = mulberry32(20261202);
     for (let trial = 0; trial < 200; trial++) {
       const m = 1 + Math.floor(rnd() * 40);
       // Ties on purpose: work drawn from a few values, zeros and a non-finite estimate among them.
