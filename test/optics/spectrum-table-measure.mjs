@@ -8,18 +8,9 @@
 //   node test/optics/spectrum-table-measure.mjs [k]
 //
 // Runs the TypeScript sources through Vite (installed for vitest), so nothing needs building.
-import { createServer } from 'vite';
-import { fileURLToPath } from 'node:url';
+import { tsServer } from '../ts-loader.mjs';
 
-const root = fileURLToPath(new URL('../..', import.meta.url));
-const server = await createServer({
-  root,
-  configFile: false,
-  logLevel: 'error',
-  server: { middlewareMode: true, hmr: false, ws: false },
-  appType: 'custom',
-  optimizeDeps: { noDiscovery: true, include: [] },
-});
+const server = await tsServer();
 try {
   const { loadFastKernels } = await server.ssrLoadModule('/src/kernels.ts');
   const { centredAxis } = await server.ssrLoadModule('/src/optics/field.ts');

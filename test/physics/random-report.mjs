@@ -1,18 +1,9 @@
 // Prints every random case of the property test (random-cases.test.ts) as it comes back, then the
 // class counts: `node test/physics/random-report.mjs [count] [seed]`. Runs the TypeScript sources
 // through Vite (installed for vitest), so nothing needs building.
-import { createServer } from 'vite';
-import { fileURLToPath } from 'node:url';
+import { tsServer } from '../ts-loader.mjs';
 
-const root = fileURLToPath(new URL('../..', import.meta.url));
-const server = await createServer({
-  root,
-  configFile: false,
-  logLevel: 'error',
-  server: { middlewareMode: true, hmr: false, ws: false },
-  appType: 'custom',
-  optimizeDeps: { noDiscovery: true, include: [] },
-});
+const server = await tsServer();
 const m = await server.ssrLoadModule('/test/physics/random-cases.ts');
 const count = process.argv[2] ? Number(process.argv[2]) : m.CASE_COUNT;
 const seed = process.argv[3] ? Number(process.argv[3]) : m.SEED;

@@ -1,17 +1,8 @@
 // Child process for random-cases.ts: loads it through Vite (installed for vitest; no new package)
 // and runs the cases it is sent, one at a time, answering each with its Outcome.
-import { createServer } from 'vite';
-import { fileURLToPath } from 'node:url';
+import { tsServer } from '../ts-loader.mjs';
 
-const root = fileURLToPath(new URL('../..', import.meta.url));
-const server = await createServer({
-  root,
-  configFile: false,
-  logLevel: 'error',
-  server: { middlewareMode: true, hmr: false, ws: false },
-  appType: 'custom',
-  optimizeDeps: { noDiscovery: true, include: [] },
-});
+const server = await tsServer();
 const mod = await server.ssrLoadModule('/test/physics/random-cases.ts');
 const queue = [];
 let busy = false;
