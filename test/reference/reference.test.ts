@@ -3,20 +3,11 @@
 import { describe, expect, it } from 'vitest';
 import { referenceIntensity, type RefCase } from './reference.js';
 import { axisIntensity } from './rs2d.js';
+import { maxDiffOverPeak } from '../helpers.js';
 
 const nm = 1e-9;
 const um = 1e-6;
 const mm = 1e-3;
-
-function maxDiffOverPeak(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let m = 0;
-  let p = 0;
-  for (let i = 0; i < a.length; i++) {
-    m = Math.max(m, Math.abs(a[i]! - b[i]!));
-    p = Math.max(p, Math.abs(b[i]!));
-  }
-  return m / p;
-}
 
 const plane = { kind: 'plane' as const, tilt: [0, 0] as [number, number] };
 

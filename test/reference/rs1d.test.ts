@@ -5,6 +5,7 @@ import besselj1 from '@stdlib/math-base-special-besselj1';
 import bessely1 from '@stdlib/math-base-special-bessely1';
 import { complementWithin, gratingIntervals, intensity, rs1d, type Problem1D } from './rs1d.js';
 import { fresnel1D, paraxialBound } from './fresnel.js';
+import { maxDiffOverPeak } from '../helpers.js';
 
 const nm = 1e-9;
 const um = 1e-6;
@@ -12,16 +13,6 @@ const mm = 1e-3;
 
 function linspace(a: number, b: number, n: number): number[] {
   return Array.from({ length: n }, (_, i) => a + ((b - a) * i) / (n - 1));
-}
-
-function maxDiffOverPeak(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let m = 0;
-  let p = 0;
-  for (let i = 0; i < a.length; i++) {
-    m = Math.max(m, Math.abs(a[i]! - b[i]!));
-    p = Math.max(p, Math.abs(b[i]!));
-  }
-  return m / p;
 }
 
 describe('Hankel function H₁ = J₁ + iY₁ from @stdlib at large arguments', () => {

@@ -4,6 +4,7 @@ import { describe, expect, it } from 'vitest';
 import besselj1 from '@stdlib/math-base-special-besselj1';
 import { axisIntensity, boundaryField, quad2dField, roundOnAxisIntensity, type Problem2D } from './rs2d.js';
 import { fresnelRadial, fresnelSeparableIntensity } from './fresnel.js';
+import { maxDiffOverPeak } from '../helpers.js';
 
 const nm = 1e-9;
 const um = 1e-6;
@@ -11,16 +12,6 @@ const mm = 1e-3;
 
 function I(f: { re: Float64Array; im: Float64Array }): number[] {
   return Array.from(f.re, (r, i) => r * r + f.im[i]! ** 2);
-}
-
-function maxDiffOverPeak(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let m = 0;
-  let p = 0;
-  for (let i = 0; i < a.length; i++) {
-    m = Math.max(m, Math.abs(a[i]! - b[i]!));
-    p = Math.max(p, Math.abs(b[i]!));
-  }
-  return m / p;
 }
 
 const plane = { kind: 'plane' as const, sinTilt: 0 };
