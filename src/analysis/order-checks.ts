@@ -5,6 +5,7 @@
 // two (it puts order m at z·sin θ_m instead of z·tan θ_m, and lands evanescent orders at
 // z·sin θ_m > z); an aliased or truncated computation fails the last.
 import { formatLength, trimNumber } from '../job/units.js';
+import { gratingOf } from '../elements/registry.js';
 import { METHODS } from '../job/schema.js';
 import type { Plan, Warning } from '../plan/types.js';
 import type { IntensityMap } from './metrics.js';
@@ -110,8 +111,8 @@ const pct = (x: number) => `${trimNumber(100 * x, 3)} %`;
 export function orderCheckInput(plan: Plan, grating: GratingInput, table: OrderTable, powerInWindow: number): OrderCheckInput {
   const ill = plan.case.illumination;
   const waist = ill.kind === 'gaussian' ? ill.waist : Infinity;
-  const a = plan.case.aperture;
-  const halfExtent = a.shape === 'slits' ? ((a.count - 1) * a.period + a.width) / 2 : plan.x.apertureHalf;
+  const a = gratingOf(plan.case.aperture);
+  const halfExtent = a ? ((a.count - 1) * a.period + a.width) / 2 : plan.x.apertureHalf;
   const edgeWeight = Number.isFinite(waist) ? Math.exp((-2 * halfExtent * halfExtent) / (waist * waist)) : 1;
   const propagating = grating.powerTransmitted * (1 - table.evanescentFraction);
   return {

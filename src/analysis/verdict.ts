@@ -1,7 +1,7 @@
 // Is the spot diffraction-limited here? The computed spot is compared, with one size measure, with
 // the aperture's geometric shadow and with the far-field pattern, and the answer is put in words.
 import { formatLength, trimNumber } from '../job/units.js';
-import type { Aperture } from '../optics/aperture.js';
+import { elementOf, type Aperture } from '../elements/registry.js';
 import { energyCurve, radiusHolding } from './encircled.js';
 import type { IntensityMap } from './metrics.js';
 
@@ -82,10 +82,7 @@ export interface Verdict {
 /** The aperture width the verdict measures along an axis: circle diameter, slit or rectangle side. */
 export function verdictWidth(a: Aperture, axis: 'radial' | 'x' | 'y'): number | null {
   if (a.opaque) return null;
-  if (a.shape === 'circle') return axis === 'radial' ? a.diameter : null;
-  if (a.shape === 'slit') return axis === 'x' ? a.width : axis === 'y' ? (a.length ?? null) : null;
-  if (a.shape === 'rectangle') return axis === 'x' ? a.width : axis === 'y' ? a.height : null;
-  return null;
+  return elementOf(a).verdictWidth?.(a, axis) ?? null;
 }
 
 /** Marginal 1-D distribution along x or y (sum over the other axis), as a 1-D map. */

@@ -1,6 +1,7 @@
 // Expanding a job's sweeps into cases: the cartesian product of every swept key, with distance
 // innermost so that consecutive cases share an aperture and a wavelength.
-import type { Aperture, Illumination } from '../optics/aperture.js';
+import type { Illumination } from '../optics/aperture.js';
+import { elementOf, type Aperture } from '../elements/registry.js';
 import type { Case } from '../plan/types.js';
 import type { JobSpec, SweepValues } from './schema.js';
 import { lengthToken } from './units.js';
@@ -17,17 +18,10 @@ export interface SweepAxis {
   unit: 'm' | '1';
 }
 
+/** Folder-name tokens of the job's own sweepable keys; an element's come from its kind. */
 const TOKENS: Record<string, string> = {
   wavelength: 'wl',
   distance: 'z',
-  'aperture.diameter': 'd',
-  'aperture.width': 'w',
-  'aperture.height': 'h',
-  'aperture.length': 'len',
-  'aperture.outer': 'do',
-  'aperture.inner': 'di',
-  'aperture.count': 'n',
-  'aperture.period': 'p',
   'illumination.waist': 'waist',
 };
 
@@ -38,11 +32,12 @@ function isSweep(v: unknown): v is SweepValues {
 /** All sweepable keys of a job in product order (outermost first), swept or not. */
 export function sweepAxes(job: JobSpec): SweepAxis[] {
   const axes: SweepAxis[] = [];
-  const add = (key: string, v: SweepValues, unit: 'm' | '1' = 'm') =>
-    axes.push({ key, token: TOKENS[key] ?? key.replace(/\W/g, '-'), values: v.values, spacing: v.spacing, unit });
+  const add = (key: string, v: SweepValues, unit: 'm' | '1' = 'm', token = TOKENS[key]) =>
+    axes.push({ key, token: token ?? key.replace(/\W/g, '-'), values: v.values, spacing: v.spacing, unit });
   add('wavelength', job.wavelength);
+  const element = elementOf(job.aperture);
   for (const [k, v] of Object.entries(job.aperture)) {
-    if (isSweep(v)) add(`aperture.${k}`, v, k === 'count' ? '1' : 'm');
+    if (isSweep(v)) add(`aperture.${k}`, v, element.counts?.includes(k) ? '1' : 'm', element.tokens[k]);
   }
   if (job.illumination.kind === 'gaussian') add('illumination.waist', job.illumination.waist);
   add('distance', job.distance);
@@ -114,27 +109,8 @@ export function expandJob(job: JobSpec): Case[] {
 }
 
 function resolveAperture(job: JobSpec, value: (key: string) => number): Aperture {
-  const a = job.aperture;
-  const v = (k: string) => value(`aperture.${k}`);
-  switch (a.shape) {
-    case 'circle':
-      return { shape: 'circle', diameter: v('diameter'), opaque: a.opaque };
-    case 'rectangle':
-      return { shape: 'rectangle', width: v('width'), height: v('height'), opaque: a.opaque };
-    case 'slit':
-      return { shape: 'slit', width: v('width'), ...(a.length ? { length: v('length') } : {}), opaque: a.opaque };
-    case 'annulus':
-      return { shape: 'annulus', outer: v('outer'), inner: v('inner'), opaque: a.opaque };
-    case 'slits':
-      return {
-        shape: 'slits',
-        count: v('count'),
-        width: v('width'),
-        period: v('period'),
-        ...(a.length ? { length: v('length') } : {}),
-        opaque: a.opaque,
-      };
-  }
+  const a = job.aperture as unknown as { shape: string; opaque: boolean } & Record<string, unknown>;
+  return elementOf(a).resolve(a, (k: string) => value(`aperture.${k}`)) as Aperture;
 }
 
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {

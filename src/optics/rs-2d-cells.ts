@@ -13,7 +13,7 @@
 // The tilt carrier e^{ik(αξ + βη)} is applied analytically: its value at the cell centre is in the
 // amplitude and its slope k(α, β) is added to the linear phase of every pair.
 import type { Aperture, Illumination, Profile } from './aperture.js';
-import { separableProfiles } from './aperture.js';
+import { describe, geometryOf, isOneDAperture, separableProfiles } from '../elements/registry.js';
 import { addDiscCellWeights, edgeNodes, gaussLegendreRule } from './edge-cells.js';
 import type { RsCellSummary } from './rs-2d-paths.js';
 import { directionCosines } from './source.js';
@@ -109,7 +109,7 @@ function checkInputs(a: Aperture, wavelength: number, pitch: number, opts: RsCel
   if (!Number.isInteger(m) || m < 2 || m > 16 || m % 2 !== 0) throw new Error('rsCells2D: edgeNodes must be an even whole number from 2 to 16');
   const off = opts.offset ?? [0, 0];
   if (!off.every((o) => Number.isFinite(o))) throw new Error('rsCells2D: the offset must be finite');
-  if ((a.shape === 'slit' || a.shape === 'slits') && !a.length) throw new Error('rsCells2D: the aperture is 1-D (no length); use the 1-D cells');
+  if (isOneDAperture(a)) throw new Error('rsCells2D: the aperture is 1-D (no length); use the 1-D cells');
   return { m, off: [off[0] - Math.round(off[0]), off[1] - Math.round(off[1])] };
 }
 
@@ -322,9 +322,10 @@ export function rsCells2DFromAperture(a: Aperture, ill: Illumination, wavelength
       openArea: boxes.area,
     };
   }
-  if (a.shape !== 'circle' && a.shape !== 'annulus') throw new Error(`rsCells2D: no cells for shape ${(a as { shape: string }).shape}`);
-  const ro = (a.shape === 'circle' ? a.diameter : a.outer) / 2;
-  const ri = a.shape === 'annulus' ? a.inner / 2 : 0;
+  const g = geometryOf(a);
+  if (g.kind !== 'rings') throw new Error(`rsCells2D: no cells for ${describe(a)}`);
+  const ro = g.outer;
+  const ri = g.inner;
   if (!(ro > 0) || !(ri >= 0) || !(ri < ro)) throw new Error('rsCells2D: needs 0 ≤ inner < outer');
   const half = pitch / 2;
   const u = edgeNodes(m).map((t) => half * t);
@@ -418,9 +419,10 @@ export function rsCellCount2D(a: Aperture, ill: Illumination, wavelength: number
     const ys = countGridPieces(profileIntervals(sep.y!), pitch, off[1], light.reach);
     return { ...base, box: xs.n * ys.n, edge: 0, round: false, radius: 0, boxUpperHalf: xs.n * ys.upper, edgeUpperHalf: 0 };
   }
-  if (a.shape !== 'circle' && a.shape !== 'annulus') throw new Error(`rsCells2D: no cells for shape ${(a as { shape: string }).shape}`);
-  const ro = (a.shape === 'circle' ? a.diameter : a.outer) / 2;
-  const ri = a.shape === 'annulus' ? a.inner / 2 : 0;
+  const g = geometryOf(a);
+  if (g.kind !== 'rings') throw new Error(`rsCells2D: no cells for ${describe(a)}`);
+  const ro = g.outer;
+  const ri = g.inner;
   const half = pitch / 2;
   const extent = Math.min(ro, light.reach);
   const round = light.alpha === 0 && light.beta === 0;

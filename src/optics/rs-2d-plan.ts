@@ -1,7 +1,7 @@
 // Sampling of the exact 2-D sums for a case, as the planner needs it: the pitch and edge nodes
 // that meet an accuracy target at the least work, the path the sums will take, and their cost.
 import type { Aperture, Illumination } from './aperture.js';
-import { separableProfiles } from './aperture.js';
+import { geometryOf, separableProfiles } from '../elements/registry.js';
 import type { Axis } from './field.js';
 import { rsCellCount2D } from './rs-2d-cells.js';
 import { rsSum2DChoice, type RsCellSummary, type RsSum2DChoice, type RsSum2DOptions } from './rs-2d-paths.js';
@@ -36,7 +36,8 @@ function litHalfExtent(a: Aperture, ill: Illumination): [number, number] {
     hx = half(sep.x);
     hy = sep.y ? half(sep.y) : Infinity;
   } else {
-    const r = (a.shape === 'circle' ? a.diameter : a.shape === 'annulus' ? a.outer : 0) / 2;
+    const g = geometryOf(a);
+    const r = g.kind === 'rings' ? g.outer : 0;
     hx = r;
     hy = r;
   }

@@ -36,6 +36,7 @@
 // A² with A = 1 with a 'plane' region, else min(1, |open area|/(λz)): a scale, not a bound (the
 // far-field peak on the axis; in the near field the geometrical region's 1).
 import { type Aperture } from './aperture.js';
+import { elementOf } from '../elements/registry.js';
 import { axisAt, createField, type Axis, type Field } from './field.js';
 import { DISC_COUNT_WALK, discContour, discContourCount, type DiscRule } from './rs-boundary-disc.js';
 import { LineTable, lineTableCount, stretchIntegral, stretchIntegralCount, type LineRule } from './rs-boundary-lines.js';
@@ -305,33 +306,8 @@ function plan(regions: BoundaryRegion[], wavelength: number, z: number, outX: Ax
  * apertures infinitely long along y (a slit or grating without a length: 1-D problems).
  */
 export function boundaryRegionsOf(a: Aperture): BoundaryRegion[] | null {
-  let open: BoundaryRegion[];
-  switch (a.shape) {
-    case 'circle':
-      open = [{ kind: 'disc', radius: a.diameter / 2, sign: 1 }];
-      break;
-    case 'annulus':
-      open = [{ kind: 'disc', radius: a.outer / 2, sign: 1 }];
-      if (a.inner > 0) open.push({ kind: 'disc', radius: a.inner / 2, sign: -1 });
-      break;
-    case 'rectangle':
-      open = [{ kind: 'rect', x0: -a.width / 2, x1: a.width / 2, y0: -a.height / 2, y1: a.height / 2, sign: 1 }];
-      break;
-    case 'slit':
-      if (!a.length) return null;
-      open = [{ kind: 'rect', x0: -a.width / 2, x1: a.width / 2, y0: -a.length / 2, y1: a.length / 2, sign: 1 }];
-      break;
-    case 'slits': {
-      if (!a.length) return null;
-      open = [];
-      const first = -((a.count - 1) / 2) * a.period;
-      for (let i = 0; i < a.count; i++) {
-        const c = first + i * a.period;
-        open.push({ kind: 'rect', x0: c - a.width / 2, x1: c + a.width / 2, y0: -a.length / 2, y1: a.length / 2, sign: 1 });
-      }
-      break;
-    }
-  }
+  const open = elementOf(a).boundary?.(a) ?? null;
+  if (!open) return null;
   if (!a.opaque) return open;
   return [{ kind: 'plane', sign: 1 }, ...open.map((r) => ({ ...r, sign: (-r.sign) as 1 | -1 }))];
 }

@@ -3,7 +3,7 @@
 // planner can cost them: the variants each search plans, the limits they are planned with, and the
 // memory the largest of them takes while the case's own result is held.
 import { AIRY_HALF_POWER_V, SINC_HALF_POWER_U, verdictWidth } from '../analysis/verdict.js';
-import type { Aperture } from '../optics/aperture.js';
+import { elementOf, isOneDAperture, separableProfiles, type Aperture } from '../elements/registry.js';
 import type { Case } from './types.js';
 
 /** Search evaluations are many: each may use at most this much memory (and never more than the run's limit). */
@@ -26,10 +26,8 @@ export function searchLimits(maxMemoryBytes?: number): { maxMemoryBytes: number;
 export function verdictAxesOf(c: Case): VerdictAxis[] {
   const a = c.aperture;
   if (a.opaque || c.illumination.kind !== 'plane') return [];
-  if (a.shape === 'circle') return ['radial'];
-  if (a.shape === 'slit') return a.length ? ['x', 'y'] : ['x'];
-  if (a.shape === 'rectangle') return ['x', 'y'];
-  return [];
+  const axes: VerdictAxis[] = ['radial', 'x', 'y'];
+  return axes.filter((axis) => verdictWidth(a, axis) !== null);
 }
 
 /**
@@ -42,7 +40,7 @@ export function verdictAxesOf(c: Case): VerdictAxis[] {
 export function measureVariant(c: Case, axis: VerdictAxis): Case {
   const width = verdictWidth(c.aperture, axis)!;
   let window: [number, number] | undefined;
-  if (axis === 'radial' || (axis === 'x' && c.aperture.shape === 'slit' && !c.aperture.length)) {
+  if (axis === 'radial' || (axis === 'x' && isOneDAperture(c.aperture))) {
     const k = (2 * Math.PI) / c.wavelength;
     const sin = axis === 'radial' ? AIRY_HALF_POWER_V / (k * (width / 2)) : (SINC_HALF_POWER_U * c.wavelength) / width;
     const half = Math.max(3 * c.distance * Math.tan(Math.asin(Math.min(0.99, sin))), 0.75 * width);
@@ -62,7 +60,9 @@ export function measureVariant(c: Case, axis: VerdictAxis): Case {
  */
 export function farFieldSearch(c0: Case, axis0: VerdictAxis): { c: Case; axis: VerdictAxis; distances: number[] } {
   const width = verdictWidth(c0.aperture, axis0)!;
-  const separable = c0.aperture.shape === 'rectangle' || (c0.aperture.shape === 'slit' && !!c0.aperture.length);
+  // A 2-D product of two intervals (a rectangle, a slit of finite length): the paraxial field factorises.
+  const sep = separableProfiles(c0.aperture);
+  const separable = sep !== null && sep.y !== null && sep.x.kind === 'interval' && sep.y.kind === 'interval';
   const c: Case = separable ? { ...c0, aperture: { shape: 'slit', width, opaque: false } } : c0;
   const axis: VerdictAxis = separable ? 'x' : axis0;
   const zff = (2 * width * width) / c.wavelength;
@@ -72,9 +72,9 @@ export function farFieldSearch(c0: Case, axis0: VerdictAxis): { c: Case; axis: V
 }
 
 export function withSize(a: Aperture, size: number): Aperture {
-  if (a.shape === 'circle') return { ...a, diameter: size };
-  if (a.shape === 'slit') return { ...a, width: size };
-  throw new Error(`the smallest-spot search varies circles and slits, not a ${a.shape}`);
+  const search = elementOf(a).sizeSearch;
+  if (!search) throw new Error(`the smallest-spot search cannot vary the size of a ${a.shape}`);
+  return search.withSize(a, size) as Aperture;
 }
 
 /** The sizes the smallest-spot search scans (9, evenly in log); the golden-section steps stay between them. */
@@ -101,10 +101,11 @@ export function answerVariants(c: Case): Case[] {
     for (const z of s.distances) out.push(measureVariant({ ...s.c, distance: z }, s.axis));
   }
   const spec = c.analysis.smallestSpot;
-  if (spec && (c.aperture.shape === 'circle' || c.aperture.shape === 'slit')) {
-    const axis: VerdictAxis = c.aperture.shape === 'circle' ? 'radial' : 'x';
+  const search = elementOf(c.aperture).sizeSearch;
+  if (spec && search) {
+    const axis: VerdictAxis = search.axis;
     const sizes = smallestSpotSizes(spec.between);
-    sizes.push(c.aperture.shape === 'circle' ? Math.sqrt(2.44 * c.wavelength * c.distance) : Math.sqrt(2 * c.wavelength * c.distance));
+    sizes.push(search.textbook(c.wavelength, c.distance));
     for (const size of sizes) {
       const v = smallestSpotVariant(c, size);
       out.push(spec.measure === 'energy' ? measureVariant(v, axis) : { ...v, window: undefined, grid: undefined, method: 'auto' });

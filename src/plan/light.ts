@@ -4,6 +4,7 @@
 // window from it and checks every method's validity where the light actually is — a grating's
 // orders at 40° as much as the central lobe.
 import type { Aperture, ApertureFacts, Illumination } from '../optics/aperture.js';
+import { gratingOf } from '../elements/registry.js';
 import { directionCosines } from '../optics/source.js';
 import { landingOrders, thinGratingFraction } from '../optics/grating.js';
 
@@ -74,17 +75,18 @@ export function lightModel(
   };
   const beams: Beam[] = [];
   let beamEdgesPerPower: [number, number] = [edgesPerPower, edgesPerPower];
-  const orderRange = a.shape === 'slits' && a.count >= 2 ? landingOrders(alpha, oneD ? 0 : beta, lam, a.period) : null;
+  const grating = gratingOf(a);
+  const orderRange = grating && grating.count >= 2 ? landingOrders(alpha, oneD ? 0 : beta, lam, grating.period) : null;
   // A grating with more propagating orders than MAX_ORDERS (a sparse one, period ≫ λ) is modelled
   // as one beam with every slit's edges: its orders are packed closer than the slits' own
   // diffraction spreads them, and they separate on the screen only far beyond its far-field
   // distance. The order table still lists them.
-  if (a.shape === 'slits' && !obstructed && orderRange && orderRange[1] - orderRange[0] + 1 <= MAX_ORDERS) {
+  if (grating && !obstructed && orderRange && orderRange[1] - orderRange[0] + 1 <= MAX_ORDERS) {
     const [lo, hi] = orderRange;
     let carried = 0;
     for (let m = lo; m <= hi; m++) {
-      const dir: [number, number] = [alpha + (m * lam) / a.period, oneD ? 0 : beta];
-      const p = thinGratingFraction(a.width, a.period, m);
+      const dir: [number, number] = [alpha + (m * lam) / grating.period, oneD ? 0 : beta];
+      const p = thinGratingFraction(grating.width, grating.period, m);
       // With a tilt along the lines too, an order propagates only while α² + β² < 1.
       const landing = land(dir);
       if (landing) carried += p;
@@ -92,7 +94,7 @@ export function lightModel(
     }
     // The first evanescent order on each side, so that reports can show where the cut-off is.
     for (const m of [lo - 1, hi + 1]) {
-      beams.push({ order: m, dir: [alpha + (m * lam) / a.period, oneD ? 0 : beta], power: thinGratingFraction(a.width, a.period, m), propagates: false, landing: null });
+      beams.push({ order: m, dir: [alpha + (m * lam) / grating.period, oneD ? 0 : beta], power: thinGratingFraction(grating.width, grating.period, m), propagates: false, landing: null });
     }
     // Each order is a beam as wide as the grating: its tails come from the grating's outline
     // (two edges in 1-D; the outline's length in 2-D), not from every slit's edges.

@@ -4,6 +4,7 @@
 // case folder appears only when it is whole. A case counts as done only when its folder verifies
 // (record, and every file's size and digest: see records.ts); a damaged one is reported as not done.
 import { readdir, readFile } from 'node:fs/promises';
+import { gratingOf } from '../elements/registry.js';
 import { join } from 'node:path';
 import type { LoadedJob } from '../job/load.js';
 import { sweepAxes } from '../job/expand.js';
@@ -146,15 +147,17 @@ export async function gatherJob(
           }),
         );
       }
-      if (rec.metrics.orders && c.aperture.shape === 'slits') {
+      const orders = rec.metrics.orders;
+      const grating = orders ? gratingOf(c.aperture) : null;
+      if (orders && grating) {
         orderSets.push({
           caseId: c.id,
           wavelength: c.wavelength,
           distance: c.distance,
-          count: c.aperture.count,
-          period: c.aperture.period,
+          count: grating.count,
+          period: grating.period,
           group: JSON.stringify([c.aperture, c.distance, c.illumination]),
-          orders: rec.metrics.orders,
+          orders,
         });
       }
     }

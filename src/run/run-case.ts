@@ -10,6 +10,7 @@ import type { Axis } from '../optics/field.js';
 import { intensityOf } from '../optics/field.js';
 import { freeField } from '../optics/free.js';
 import { directionCosines } from '../optics/source.js';
+import { gratingOf } from '../elements/registry.js';
 import type { CaseMetrics, CaseRecord, DetectorResult } from '../output/case-output.js';
 import { verdictAxesOf } from '../plan/answers.js';
 import type { Plan, Warning } from '../plan/types.js';
@@ -46,8 +47,8 @@ export function runPlannedCase(plan: Plan): CaseRecord {
   };
   const warnings: Warning[] = [...plan.warnings];
   let grating: GratingEvanescence | undefined;
-  if (c.aperture.shape === 'slits' && !c.aperture.opaque) {
-    const a = c.aperture;
+  const a = gratingOf(c.aperture);
+  if (a && !c.aperture.opaque) {
     const footprint = a.count * a.period * (a.length ?? 1);
     const [alpha, beta] = directionCosines(c.illumination);
     const input: GratingInput = {

@@ -3,6 +3,7 @@
 // depend only on the aperture and the wavelength are cached across the cases of a job.
 import { spotMetrics } from '../analysis/metrics.js';
 import { makeVerdict, spotSize, verdictWidth, type Verdict } from '../analysis/verdict.js';
+import { elementOf } from '../elements/registry.js';
 import { formatLength } from '../job/units.js';
 import type { CaseRecord, SmallestSpot } from '../output/case-output.js';
 import { farFieldSearch, measureVariant, searchLimits as limitsOf, smallestSpotSizes, smallestSpotVariant } from '../plan/answers.js';
@@ -88,7 +89,8 @@ export function farFieldFrom(c0: Case, axis0: Verdict['axis'], ctx: SearchContex
  */
 export function smallestSpot(c: Case, ctx: SearchContext): SmallestSpot {
   const spec = c.analysis.smallestSpot!;
-  const axis: Verdict['axis'] = c.aperture.shape === 'circle' ? 'radial' : 'x';
+  const search = elementOf(c.aperture).sizeSearch!;
+  const axis: Verdict['axis'] = search.axis;
   const lam = c.wavelength;
   const z = c.distance;
   let evaluations = 0;
@@ -132,11 +134,11 @@ export function smallestSpot(c: Case, ctx: SearchContext): SmallestSpot {
   }
   const bestSize = f1 < f2 ? Math.exp(x1) : Math.exp(x2);
   const bestMeasure = Math.min(f1, f2);
-  const textbook = c.aperture.shape === 'circle' ? Math.sqrt(2.44 * lam * z) : Math.sqrt(2 * lam * z);
+  const textbook = search.textbook(lam, z);
   const inRange = textbook >= lo && textbook <= hi;
   return {
     measure: spec.measure,
-    key: c.aperture.shape === 'circle' ? 'aperture.diameter' : 'aperture.width',
+    key: `aperture.${search.key}`,
     best: bestSize,
     bestMeasure,
     textbook,

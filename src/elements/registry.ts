@@ -1,0 +1,77 @@
+// The element kinds, one file each. A new kind is one file and one line here; the job schema's
+// union, the folder-name tokens, the Aperture type and every question the rest of the program asks
+// about an element come from this list.
+import type { Axis } from '../optics/field.js';
+import { geometryFacts, type ApertureFacts, type ApertureGeometry, type Profile } from '../optics/geometry.js';
+import { sampleGeometry } from '../optics/mask-cells.js';
+import { annulus } from './annulus.js';
+import { circle } from './circle.js';
+import { rectangle } from './rectangle.js';
+import { slit } from './slit.js';
+import { slits } from './slits.js';
+import type { ElementKind, ElementSchema, ElementSpec } from './types.js';
+
+export const ELEMENTS = [circle, rectangle, slit, annulus, slits] as const;
+
+type SpecOf<E> = E extends ElementKind<infer S, infer _Sch> ? S : never;
+/** One case's element (SI units), whichever kind. */
+export type Aperture = SpecOf<(typeof ELEMENTS)[number]>;
+export type ShapeName = Aperture['shape'];
+export const SHAPE_NAMES: ShapeName[] = ELEMENTS.map((e) => e.shape);
+
+// The registry's entries are typed per kind; through this view the rest of the program calls any
+// of them with any spec (each entry is only ever given specs of its own kind: elementOf).
+type AnyElement = ElementKind<ElementSpec, ElementSchema, { shape: string; opaque: boolean } & Record<string, unknown>>;
+const BY_SHAPE = new Map<string, AnyElement>(ELEMENTS.map((e) => [e.shape, e as unknown as AnyElement]));
+
+/** The kind of an element spec (or of a job's element mapping, by its shape). */
+export function elementOf(a: { shape: string }): AnyElement {
+  const e = BY_SHAPE.get(a.shape);
+  if (!e) throw new Error(`unknown element shape ${a.shape}`);
+  return e;
+}
+
+export function geometryOf(a: Aperture): ApertureGeometry {
+  return elementOf(a).geometry(a);
+}
+
+export function apertureFacts(a: Aperture): ApertureFacts {
+  const e = elementOf(a);
+  return e.facts ? e.facts(a) : geometryFacts(e.geometry(a), e.describe(a));
+}
+
+/** Exact open fraction of each cell of a 2-D grid (row-major, rows along y), for the open part. */
+export function apertureMask(a: Aperture, xa: Axis, ya: Axis): Float64Array {
+  const e = elementOf(a);
+  return e.mask ? e.mask(a, xa, ya) : sampleGeometry(e.geometry(a), xa, ya);
+}
+
+/**
+ * The aperture as x-profile × y-profile when it is one (rectangles, slits, gratings); null
+ * otherwise. A null y-profile means the aperture is infinitely long along y (a 1-D problem).
+ */
+export function separableProfiles(a: Aperture): { x: Profile; y: Profile | null } | null {
+  const g = geometryOf(a);
+  return g.kind === 'separable' ? { x: g.x, y: g.y } : null;
+}
+
+export function isOneDAperture(a: Aperture): boolean {
+  const g = geometryOf(a);
+  return g.kind === 'separable' && g.y === null;
+}
+
+/** A grating of lines along x (its slits, and their length; none: infinitely long), or null. */
+export function gratingOf(a: Aperture): { count: number; width: number; period: number; length: number | null } | null {
+  const g = geometryOf(a);
+  if (g.kind !== 'separable' || g.x.kind !== 'grating') return null;
+  return { count: g.x.count, width: g.x.width, period: g.x.period, length: g.y ? g.y.width : null };
+}
+
+/** Concentric rings centred on the axis (a disc, an annulus): radially symmetric under an untilted beam. */
+export function isRound(a: Aperture): boolean {
+  return geometryOf(a).kind === 'rings';
+}
+
+export function describe(a: Aperture): string {
+  return elementOf(a).describe(a);
+}

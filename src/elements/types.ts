@@ -1,0 +1,65 @@
+// What an element kind declares: its job-file keys, how one case's element is made from them, its
+// geometry and facts for the planner, its mask, and its words. Everything outside src/elements/
+// asks an element these questions (through registry.ts) instead of switching on its name.
+import type { z } from 'zod';
+import type { Axis } from '../optics/field.js';
+import type { ApertureFacts, ApertureGeometry } from '../optics/geometry.js';
+import type { BoundaryRegion } from '../optics/rs-boundary.js';
+
+/** Every element spec: its kind and whether it is an obstacle (the complement) rather than an opening. */
+export interface ElementSpec {
+  shape: string;
+  opaque: boolean;
+}
+
+/** Reports a problem with one of the element's keys at load time. */
+export type KeyProblem = (key: string, message: string) => void;
+
+/** The spot-size searches an element supports (the smallest-spot search and the verdict axes). */
+export interface SizeSearch<S, J = unknown> {
+  /** The job key the search varies (under `aperture.`). */
+  key: string;
+  /** What a search message calls the elements it can vary ("a circle"). */
+  words: string;
+  /** Whether this job's element can be searched (a slit only without a length); absent: always. */
+  applies?(job: J): boolean;
+  /** The axis the spot is measured along. */
+  axis: 'radial' | 'x';
+  /** The element with that size. */
+  withSize(s: S, size: number): S;
+  /**
+   * The textbook size balancing geometric shadow and far-field spread at distance z (common
+   * practice): D = √(2.44 λz) for a pinhole, w = √(2λz) for a slit.
+   */
+  textbook(wavelength: number, z: number): number;
+}
+
+/** The job file's mapping of an element: a strict zod object (its keys, `shape` and `opaque` included). */
+export type ElementSchema = z.ZodObject<z.ZodRawShape, z.core.$ZodObjectConfig>;
+
+export interface ElementKind<S extends ElementSpec, Sch extends ElementSchema = ElementSchema, J = z.output<Sch>> {
+  /** The value of `shape:` in the job file. */
+  shape: S['shape'];
+  /** The job file's mapping (zod strict object, `shape` included). Sweepable keys hold SweepValues. */
+  schema: Sch;
+  /** Folder-name tokens of the sweepable keys (key → token), and which of them are counts, not lengths. */
+  tokens: Record<string, string>;
+  counts?: readonly string[];
+  /** Checks across keys at load time (the annulus's inner diameter below its outer one). */
+  check?(job: J, problem: KeyProblem): void;
+  /** One case's element from the job's mapping; value(key) is the key's value in this case. */
+  resolve(job: J, value: (key: string) => number): S;
+  /** The open part as a geometry the optics and exact methods know. */
+  geometry(s: S): ApertureGeometry;
+  /** Facts for the planner (default: from the geometry). */
+  facts?(s: S): ApertureFacts;
+  /** Exact open fraction of every cell (default: from the geometry). */
+  mask?(s: S, xa: Axis, ya: Axis): Float64Array;
+  /** The open part as boundary regions for the boundary form of the exact integral (null: none). */
+  boundary?(s: S): BoundaryRegion[] | null;
+  /** The width a diffraction-limited verdict measures along an axis (null: no verdict there). */
+  verdictWidth?(s: S, axis: 'radial' | 'x' | 'y'): number | null;
+  sizeSearch?: SizeSearch<S, J>;
+  /** In words, for plans, reports and case titles. */
+  describe(s: S): string;
+}
