@@ -9,7 +9,7 @@ import { circle } from './circle.js';
 import { rectangle } from './rectangle.js';
 import { slit } from './slit.js';
 import { slits } from './slits.js';
-import type { ElementKind, ElementSchema, ElementSpec } from './types.js';
+import type { CellTransmittance, ElementKind, ElementSchema, ElementSpec } from './types.js';
 
 export const ELEMENTS = [circle, rectangle, slit, annulus, slits] as const;
 
@@ -44,6 +44,17 @@ export function apertureFacts(a: Aperture): ApertureFacts {
 export function apertureMask(a: Aperture, xa: Axis, ya: Axis): Float64Array {
   const e = elementOf(a);
   return e.mask ? e.mask(a, xa, ya) : sampleGeometry(e.geometry(a), xa, ya);
+}
+
+/** The complex transmittance per cell of a non-binary element; null for a binary one (its mask is it). */
+export function apertureTransmittance(a: Aperture, xa: Axis, ya: Axis): CellTransmittance | null {
+  const e = elementOf(a);
+  return e.transmittance ? e.transmittance(a, xa, ya) : null;
+}
+
+/** Binary: open or closed everywhere (a mask); Babinet's complement and the exact edge methods apply. */
+export function isBinary(a: Aperture): boolean {
+  return !elementOf(a).transmittance;
 }
 
 /**

@@ -6,6 +6,12 @@ import type { Axis } from '../optics/field.js';
 import type { ApertureFacts, ApertureGeometry } from '../optics/geometry.js';
 import type { BoundaryRegion } from '../optics/rs-boundary.js';
 
+/** Cell averages of a complex transmittance (interleaved re, im) and of its squared modulus. */
+export interface CellTransmittance {
+  t: Float64Array;
+  weight: Float64Array;
+}
+
 /** Every element spec: its kind and whether it is an obstacle (the complement) rather than an opening. */
 export interface ElementSpec {
   shape: string;
@@ -13,7 +19,7 @@ export interface ElementSpec {
 }
 
 /** Reports a problem with one of the element's keys at load time. */
-export type KeyProblem = (key: string, message: string) => void;
+export type KeyProblem = (key: string | (string | number)[], message: string) => void;
 
 /** The spot-size searches an element supports (the smallest-spot search and the verdict axes). */
 export interface SizeSearch<S, J = unknown> {
@@ -55,6 +61,13 @@ export interface ElementKind<S extends ElementSpec, Sch extends ElementSchema = 
   facts?(s: S): ApertureFacts;
   /** Exact open fraction of every cell (default: from the geometry). */
   mask?(s: S, xa: Axis, ya: Axis): Float64Array;
+  /**
+   * Elements that change the phase or the amplitude other than open/closed (phase gratings, lenses,
+   * zone plates, wavefront errors): the complex transmittance averaged over every cell, and the
+   * average of |t|² over every cell (the power weight: for a pure phase element inside a stop, the
+   * stop's open fraction). Absent: the element is binary and its mask is the transmittance.
+   */
+  transmittance?(s: S, xa: Axis, ya: Axis): CellTransmittance;
   /** The open part as boundary regions for the boundary form of the exact integral (null: none). */
   boundary?(s: S): BoundaryRegion[] | null;
   /** The width a diffraction-limited verdict measures along an axis (null: no verdict there). */

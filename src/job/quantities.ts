@@ -214,3 +214,6 @@ export function mappingError(msg: string) {
 }
 
 export const opaque = z.boolean({ error: 'expected true or false' }).default(false);
+
+/** A position that may be zero or negative (a detector's centre, a part's place): |x| ≤ 1e4 m. */
+export const position = quantity('length', { absMax: POSITION_MAX, range: 'a position within ±10 km (|x| ≤ 1e4 m)' });

@@ -8,12 +8,12 @@ import { ELEMENTS, SHAPE_NAMES, elementOf } from '../elements/registry.js';
 import {
   DESCRIPTION_MAX,
   DETECTOR_COUNT_MAX,
-  POSITION_MAX,
   TILT_MAX,
   WAVELENGTH,
   mappingError,
   positiveLength,
   quantity,
+  position,
   sweepLength,
   type SweepValues,
 } from './quantities.js';
@@ -105,7 +105,6 @@ export const OUTPUT_KEYS = Object.keys(outputShape);
 
 const nameMsg = 'expected a name of letters, digits, - and _ (at most 64 characters), such as pinhole-50um';
 
-const position = quantity('length', { absMax: POSITION_MAX, range: 'a position within ±10 km (|x| ≤ 1e4 m)' });
 const detectorShape = {
   kind: z.enum(['pinhole', 'square'], { error: "expected 'pinhole' (a disc) or 'square' (a pixel)" }),
   size: positiveLength(),
@@ -206,7 +205,7 @@ export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
       ctx.addIssue({ code: 'custom', path: ['search', 'smallest-spot', 'between'], message: 'expected [smallest, largest] with smallest < largest' });
     }
   }
-  element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', key], message }));
+  element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }));
 });
 
 /** "a circle or a (long) slit": the elements the smallest-spot search can vary. */

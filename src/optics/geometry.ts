@@ -20,7 +20,9 @@ export type Profile =
  */
 export type ApertureGeometry =
   | { kind: 'separable'; x: Profile; y: Profile | null }
-  | { kind: 'rings'; outer: number; inner: number };
+  | { kind: 'rings'; outer: number; inner: number }
+  /** No structure the exact methods use: the element samples itself and states its own facts. */
+  | { kind: 'sampled' };
 
 export interface ProfileFacts {
   /** Half the full extent (from the first open edge to the last). */
@@ -103,6 +105,7 @@ export function geometryFacts(g: ApertureGeometry, description: string): Apertur
       description,
     };
   }
+  if (g.kind === 'sampled') throw new Error('a sampled element states its own facts');
   const ro = g.outer;
   const ri = g.inner;
   if (ri === 0) {

@@ -81,6 +81,7 @@ export function sampleGeometry(g: ApertureGeometry, xa: Axis, ya: Axis): Float64
     for (let r = 0; r < ya.n; r++) for (let c = 0; c < xa.n; c++) out[r * xa.n + c] = py[r]! * px[c]!;
     return out;
   }
+  if (g.kind === 'sampled') throw new Error('a sampled element samples itself');
   const hx = xa.step / 2;
   const hy = ya.step / 2;
   const ro = g.outer;

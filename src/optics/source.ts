@@ -4,6 +4,8 @@
 import type { Aperture, Illumination, Profile } from './aperture.js';
 import { axisAt, createField, type Axis, type Field } from './field.js';
 import { sampleMask2D, sampleProfile } from './mask.js';
+import { apertureTransmittance } from '../elements/registry.js';
+import type { CellTransmittance } from '../elements/types.js';
 
 export function directionCosines(ill: Illumination): [number, number, number] {
   const a = Math.sin(ill.tilt[0]);
@@ -76,6 +78,8 @@ export function sourceField2D(
   opts: SourceOptions,
 ): Source {
   const f = createField(xa, ya, wavelength);
+  const complex = apertureTransmittance(a, xa, ya);
+  if (complex) return complexSource(f, complex, ill, xa, ya, wavelength, opts);
   const mask = sampleMask2D(a, xa, ya);
   if (opts.obstructed) for (let i = 0; i < mask.length; i++) mask[i] = 1 - mask[i]!;
   const ex = envelope(ill, xa);
@@ -92,6 +96,41 @@ export function sourceField2D(
   if (opts.sampleCarrier) {
     const [fx0, fy0] = carrierFrequencies(ill, wavelength);
     applyCarrier(f, fx0, fy0);
+  }
+  return { field: f, power: power * xa.step * ya.step };
+}
+
+/**
+ * A non-binary element's source: cell-averaged transmittance × envelope, and the power as the
+ * cell averages of |t|² weigh the illumination (a phase element passes all the light its stop does).
+ */
+function complexSource(f: Field, c: CellTransmittance, ill: Illumination, xa: Axis, ya: Axis, wavelength: number, opts: SourceOptions): Source {
+  if (opts.obstructed) throw new Error('an element with a complex transmittance cannot be an obstacle (opaque)');
+  const ex = envelope(ill, xa);
+  const ey = envelope(ill, ya);
+  const [fx0, fy0] = opts.sampleCarrier ? carrierFrequencies(ill, wavelength) : [0, 0];
+  const tilted = fx0 !== 0 || fy0 !== 0;
+  const d = f.data;
+  let power = 0;
+  for (let r = 0; r < ya.n; r++) {
+    const y = axisAt(ya, r);
+    for (let col = 0; col < xa.n; col++) {
+      const k = r * xa.n + col;
+      const e = ex[col]! * ey[r]!;
+      let re = c.t[2 * k]! * e;
+      let im = c.t[2 * k + 1]! * e;
+      if (tilted) {
+        const ph = 2 * Math.PI * (fx0 * axisAt(xa, col) + fy0 * y);
+        const cs = Math.cos(ph);
+        const sn = Math.sin(ph);
+        const r2 = re * cs - im * sn;
+        im = re * sn + im * cs;
+        re = r2;
+      }
+      d[2 * k] = re;
+      d[2 * k + 1] = im;
+      power += c.weight[k]! * e * e;
+    }
   }
   return { field: f, power: power * xa.step * ya.step };
 }
