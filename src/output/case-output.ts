@@ -17,6 +17,7 @@ import { toCsv } from './csv.js';
 import { encodeNpy } from './npy.js';
 import { renderIntensityPng } from './picture.js';
 import { TOOL_NAME, TOOL_VERSION } from '../version.js';
+import { metricDefinitions } from '../metrics/registry.js';
 
 export interface CaseMetrics extends SpotMetrics {
   /** ∫ irradiance over the open area (null for opaque obstacles). */
@@ -203,18 +204,11 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
   };
 }
 
-/** What the less obvious metrics in result.json are, in words (written into every result.json). */
-export const METRIC_DEFINITIONS = {
-  fwhm:
-    'full width at half maximum of the profile through the peak, per axis: the distance between the outermost half-maximum crossings, i.e. the width of the spot envelope (at Fresnel numbers of a few the fringes near the peak are narrower); null when the profile does not fall to half within the window',
-  e2Width: 'full width between the outermost crossings of peak/e² on the profile through the peak',
-  d4sigma: 'second-moment (D4σ) width about the centroid over the window (ISO 11146 definition)',
-  detectors:
-    'fraction: power on the part of the detector inside the window over the reference power named by reference (power-through-aperture, or unobstructed-beam: what the detector would receive with nothing in the way); areaInWindow below 1 makes it a lower bound; null when the detector is wholly outside the window',
-  orders:
-    'grating orders, d(sin θ_m − sin θ_i) = mλ; fractionOfTransmitted = ∫|U|²dx over the interval between the midpoints to the neighbouring orders / power through the slits; predictedFraction = (w/d)·sinc²(m·w/d) (thin-grating theory); fluxFraction = fractionOfTransmitted · cos θ_m/cos θ_i, the power crossing the screen plane; evanescent orders carry 0; separated = false where the beam of an order overlaps that of a neighbour on the screen (closer than the orders separate): its fractions are then null',
-  evanescentFraction: 'fraction of the power through the slits that thin-grating theory sends into evanescent orders (never reaches a screen)',
-} as const;
+/**
+ * What the less obvious metrics in result.json are, in words (written into every result.json):
+ * each metric family's definitions, in registry order (metrics/registry.ts).
+ */
+export const METRIC_DEFINITIONS: Readonly<Record<string, string>> = metricDefinitions();
 
 function axisJson(a: Plan['x']) {
   return {

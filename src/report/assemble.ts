@@ -12,7 +12,8 @@ import type { GratingOrder } from '../analysis/orders.js';
 import { methodWords } from '../plan/planner.js';
 import type { Plan } from '../plan/types.js';
 import { toCsv } from '../output/csv.js';
-import { summaryColumns, type SummaryRow } from '../output/summary.js';
+import { metricScope, type SummaryRow } from '../output/summary.js';
+import { reportedMetrics } from '../metrics/registry.js';
 import type { ComputedCase } from '../run/compute.js';
 import { TOOL_VERSION } from '../version.js';
 import { renderContactSheet, type SheetTile } from './contact-sheet.js';
@@ -93,27 +94,10 @@ export interface ReportInputs {
   overlaps: Overlap[];
 }
 
-/**
- * The metrics a report plots and lists per case: the answers people read off a sweep. Positions,
- * powers and the far-field distance (the same for every distance of one aperture) stay in
- * summary.csv.
- */
-const REPORTED = [
-  /^peak_intensity$/,
-  /^on_axis_intensity$/,
-  /^fwhm_[xy]_m$/,
-  /^d4sigma_[xy]_m$/,
-  /^ee(50|84)_radius_m$/,
-  /^window_fraction$/,
-  /^detector\d+_fraction$/,
-  /^spot_over_(far_field|shadow)/,
-  /^smallest_spot/,
-];
-
 export function buildJobReport(inp: ReportInputs): JobReport {
   const { loaded, axes, rows } = inp;
-  const columns = summaryColumns(rows);
-  const metricColumns = columns.filter((c) => c.metric && REPORTED.some((re) => re.test(c.header)));
+  // The answers people read off a sweep, as the metric registry flags them (metrics/registry.ts).
+  const reported = reportedMetrics(metricScope(rows));
   const sweeps: SweepKey[] = axes.map((a) => ({
     key: a.key,
     label: LABELS[a.key] ?? a.key,
@@ -125,9 +109,9 @@ export function buildJobReport(inp: ReportInputs): JobReport {
     const c = r.record?.plan.case ?? r.plan?.case ?? r.case!;
     const p = r.record?.plan ?? r.plan;
     const metrics: Record<string, number | null> = {};
-    for (const col of metricColumns) {
-      const v = col.get(r);
-      metrics[col.metric!.key] = typeof v === 'number' && Number.isFinite(v) ? v : null;
+    for (const { info, quantity } of reported) {
+      const v = r.record ? quantity.read(r.record) : null;
+      metrics[info.key] = typeof v === 'number' && Number.isFinite(v) ? v : null;
     }
     const verdicts = r.record?.metrics.verdicts ?? [];
     return {
@@ -156,7 +140,7 @@ export function buildJobReport(inp: ReportInputs): JobReport {
     toolVersion: TOOL_VERSION,
     createdAt: new Date().toISOString(),
     sweeps: sweeps.filter((s) => s.values.length > 1),
-    metrics: metricColumns.map((c) => c.metric!),
+    metrics: reported.map((m) => m.info),
     cases,
     tables: reportTables(inp),
     plots: [],
