@@ -34,15 +34,15 @@ export type PartKind = ElementKind<ElementSpec, ElementSchema, { shape: string; 
 export const MAX_PARTS = 1000;
 
 /** A part's mapping: an element's keys with single values (parts are not swept) and `at`. */
-function partSchema(kinds: readonly PartKind[]) {
+export function partSchema(kinds: readonly PartKind[], example = "{shape: rectangle, width: '2 mm', height: '0.1 mm', at: [0, 0]}") {
   const at = z.tuple([position, position], { error: "expected a position [x, y] such as ['0 mm', '0.5 mm']" }).default([0, 0]);
   const options = kinds.map((k) => k.schema.extend({ at }));
   return z.discriminatedUnion('shape', options as unknown as [ElementSchema, ...ElementSchema[]], {
-    error: `expected a part such as {shape: rectangle, width: '2 mm', height: '0.1 mm', at: [0, 0]} (shape: one of ${kinds.map((k) => k.shape).join(', ')})`,
+    error: `expected a part such as ${example} (shape: one of ${kinds.map((k) => k.shape).join(', ')})`,
   });
 }
 
-type PartJob = { shape: string; opaque: boolean; at: [number, number] } & Record<string, unknown>;
+export type PartJob = { shape: string; opaque: boolean; at: [number, number] } & Record<string, unknown>;
 
 /** Resolve a part's mapping into its element: every value single (checked at load). */
 export function resolvePart(kinds: ReadonlyMap<string, PartKind>, job: PartJob): Placed {
