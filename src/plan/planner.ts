@@ -3,8 +3,8 @@
 // that fits in memory and time, its sampling, the validity checks that can be made before
 // computing, a memory estimate, and the reasons for each choice in words. It never falls back to a
 // method whose own check fails: with nothing valid that fits, the case is refused with the reasons.
-import { apertureFacts, type ApertureFacts } from '../optics/aperture.js';
-import { centredAxis, fftAxis, type Axis } from '../optics/field.js';
+import { apertureFacts } from '../optics/aperture.js';
+import { fftAxis } from '../optics/field.js';
 import { nextPowerOfTwo } from '../optics/fft.js';
 import { directionCosines } from '../optics/source.js';
 import { bandLimitFrequency } from '../optics/spectral.js';
@@ -12,14 +12,20 @@ import { mappingError } from '../optics/direct.js';
 import { boundaryRegionsOf, costRsBoundary } from '../optics/rs-boundary.js';
 import { costFarFieldTable, farFieldBand } from '../optics/spectrum-table.js';
 import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor } from '../optics/shifted-spectrum.js';
-import { formatLength, trimNumber } from '../job/units.js';
+import { trimNumber } from '../job/units.js';
 import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOption, Plan, Regime, Warning } from './types.js';
 import { LIMITS } from './limits.js';
 import { illuminatedEdgeWeight, lightModel, type LightModel } from './light.js';
 import { paraxialEstimate } from './paraxial.js';
+import { featureSamples, oversampling, steepestDirection, type Geometry } from './geometry.js';
+import { axisPlan, directionCosineAxisPlan, fftAxisPlan as fftAxisPlanOf, fresnelDirectAxisPlan, pitchFor, singleFftAxisPlan, windowOn } from './axis-plans.js';
+import { BASELINE_MEMORY, costDirect, costFft, costSingleFft } from './costs.js';
+import { bytes, fmt, len, pct, seconds } from './words.js';
 import { planWindow, windowLoss } from './window.js';
 import { answerVariants, searchLimits } from './answers.js';
 import { costRsDirect1D, costRsDirect2D, costRsPerPeriod1D, periodicAxis, rs2DSampling, rsAreaSamplingError, rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
+
+export { bytes };
 
 export interface PlannerOptions {
   /** A case whose estimated peak memory exceeds this is not computed (bytes). */
@@ -41,29 +47,6 @@ export interface PlannerOptions {
 export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
 /** About an hour of one core (LIMITS.workPerSecond). */
 export const DEFAULT_MAX_WORK = 3600 * LIMITS.workPerSecond;
-
-interface Geometry {
-  lam: number;
-  z: number;
-  k: number;
-  facts: ApertureFacts;
-  oneD: boolean;
-  /** An obstacle in a Gaussian beam, propagated as the beam where the obstacle is not. */
-  obstructed: boolean;
-  /** An obstacle in a plane wave: the free wave minus the obstacle's complement. */
-  babinet: boolean;
-  /** Half extent of the illuminated part of the aperture per axis. */
-  aEff: [number, number];
-  centre: [number, number];
-  windowHalf: [number, number];
-  waist: number; // Infinity for plane waves
-  carrier: [number, number];
-  minOutput: number;
-  model: LightModel;
-}
-
-const fmt = (x: number, d = 3) => trimNumber(x, d);
-const len = (x: number) => formatLength(x, 3);
 
 export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const maxMemory = opts.maxMemoryBytes ?? DEFAULT_MAX_MEMORY;
@@ -402,28 +385,6 @@ export function methodWords(m: MethodName, form?: MethodForm): string {
   }
 }
 
-function pct(x: number): string {
-  if (x < 1e-4) return '<0.01 %';
-  return `${trimNumber(100 * x, 2)} %`;
-}
-
-export function bytes(n: number): string {
-  if (!Number.isFinite(n)) return 'more than any machine holds';
-  if (n >= 1024 ** 3) return `${trimNumber(n / 1024 ** 3, 3)} GiB`;
-  if (n >= 1024 ** 2) return `${trimNumber(n / 1024 ** 2, 3)} MiB`;
-  return `${trimNumber(n / 1024, 3)} KiB`;
-}
-
-/** Work in words, at LIMITS.workPerSecond. */
-function seconds(work: number): string {
-  const s = work / LIMITS.workPerSecond;
-  if (!Number.isFinite(s)) return 'no end';
-  if (s < 1) return '<1 s';
-  if (s < 120) return `${trimNumber(s, 2)} s`;
-  if (s < 7200) return `${trimNumber(s / 60, 2)} min`;
-  return `${trimNumber(s / 3600, 2)} h`;
-}
-
 function limitWords(s: Sampling, maxMemory: number, maxWork: number): string {
   const parts: string[] = [];
   if (s.impossible) parts.push(`${Number.isFinite(s.memory) ? `about ${bytes(s.memory)}, ` : ''}an impossible size (${s.impossible})`);
@@ -637,7 +598,7 @@ function shiftedSampling(g: Geometry, c: Case, layout: Layout): Sampling | null 
   if (!tilted || g.model.propagating.length !== 1 || c.grid?.size) return null;
   const lam = g.lam;
   const carrier: [number, number] = [g.carrier[0], g.oneD ? 0 : g.carrier[1]];
-  const feature = g.facts.minFeature / featureSamples(g, 'angular-spectrum');
+  const feature = g.facts.minFeature / featureSamples(g, false);
   const beamPitch = Number.isFinite(g.waist) ? g.waist / 8 : Infinity;
   const maxPitch: [number, number] = [Math.min(feature, beamPitch), Math.min(feature, beamPitch)];
   let grid;
@@ -650,7 +611,7 @@ function shiftedSampling(g: Geometry, c: Case, layout: Layout): Sampling | null 
       footprint: [g.aEff[0], g.oneD ? 0 : g.aEff[1]],
       window: [g.windowHalf[0], g.oneD ? 0 : g.windowHalf[1]],
       oneD: g.oneD,
-      samplesPerPeriod: oversampling(g, 'angular-spectrum'),
+      samplesPerPeriod: oversampling(g, false),
       maxPitch,
       ...(c.grid?.pitch ? { pitch: [c.grid.pitch, c.grid.pitch] as [number, number] } : {}),
       tail: Number.isFinite(g.waist) && illuminatedEdgeWeight(g.facts, g.waist, g.oneD) < 1e-4 ? gaussianSpectrumTail(g.waist) : edgeSpectrumTail(g.model.beamEdgesPerPower),
@@ -673,42 +634,6 @@ function shiftedSampling(g: Geometry, c: Case, layout: Layout): Sampling | null 
   return { form: 'shifted', axes, layout, ...costFft(axes, layout), shifted: { centre: grid.centre, taper: grid.taper, bandTaper: grid.bandTaper } };
 }
 
-/** The largest direction cosine from the illuminated aperture to the window. */
-function steepestDirection(g: Geometry): number {
-  let s = 0;
-  for (const i of g.oneD ? [0] : [0, 1]) {
-    const reach = Math.abs(g.centre[i]!) + g.windowHalf[i]! + g.aEff[i]!;
-    s = Math.max(s, reach / Math.sqrt(reach * reach + g.z * g.z));
-  }
-  return s;
-}
-
-function pitchFor(g: Geometry, c: Case, contentRule: { pitch: number; rule: string }, featureSamples: number) {
-  const rules: { pitch: number; rule: string }[] = [
-    { pitch: g.facts.minFeature / featureSamples, rule: `${featureSamples} samples across the smallest feature (${len(g.facts.minFeature)})` },
-    contentRule,
-  ];
-  if (Number.isFinite(g.waist)) rules.push({ pitch: g.waist / 8, rule: `8 samples per beam radius (${len(g.waist)})` });
-  let best = rules[0]!;
-  for (const r of rules) if (r.pitch < best.pitch) best = r;
-  const required = best.pitch;
-  if (c.grid?.pitch) return { pitch: c.grid.pitch, required, rule: `grid.pitch as given (the accuracy rules ask for ${len(required)}: ${best.rule})` };
-  return { pitch: required, required, rule: best.rule };
-}
-
-/** Separable apertures are computed as 1-D problems unless the method needs a 2-D grid. */
-function onTwoDGrid(g: Geometry, method: MethodName): boolean {
-  return !g.oneD && !(g.facts.separable && !g.obstructed && (method === 'fresnel' || method === 'fraunhofer'));
-}
-
-function featureSamples(g: Geometry, method: MethodName): number {
-  return onTwoDGrid(g, method) ? LIMITS.featureSamples2D : LIMITS.featureSamples1D;
-}
-
-function oversampling(g: Geometry, method: MethodName): number {
-  return onTwoDGrid(g, method) ? LIMITS.oversampling2D : LIMITS.oversampling1D;
-}
-
 /**
  * FFT grids. The pitch resolves the highest spatial frequency that reaches the window,
  * sin θ/λ of the steepest ray from the aperture into it (q samples per period of it). Where the
@@ -719,7 +644,8 @@ function oversampling(g: Geometry, method: MethodName): number {
  * spectrum damps correctly.
  */
 function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisPlan {
-  const q = oversampling(g, method);
+  const factorises = method === 'fresnel' || method === 'fraunhofer';
+  const q = oversampling(g, factorises);
   let contentRule: { pitch: number; rule: string };
   if (method === 'angular-spectrum') {
     const s = steepestDirection(g);
@@ -736,33 +662,7 @@ function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisP
     const content = (g.lam * g.z) / (q * reach);
     contentRule = { pitch: content, rule: `${q}× the highest spatial frequency that reaches the window, λz/(${q}·${len(reach)})` };
   }
-  // The output of an FFT method is on the input's lattice: a detector needs ten samples across.
-  const detector = Math.min(Infinity, ...c.analysis.detectors.map((det) => det.size / 10));
-  if (detector < contentRule.pitch) contentRule = { pitch: detector, rule: `ten samples across the smallest detector (${len(10 * detector)})` };
-  const p = pitchFor(g, c, contentRule, featureSamples(g, method));
-  // The grid holds the illuminated aperture (a Gaussian beam narrower than the aperture is cut at
-  // e⁻⁹ of its amplitude) and the window.
-  const half = Math.max(g.aEff[i]!, Math.abs(g.centre[i]!) + g.windowHalf[i]!);
-  const minN = g.oneD ? LIMITS.minSamples1D : LIMITS.minSamples2D;
-  const n = c.grid?.size ?? Math.max(minN, nextPowerOfTwo(Math.ceil((2 * half) / p.pitch) + 2));
-  const padded = n * paddingFactor(g, method, n * p.pitch);
-  // The output is the window cut out of the padded grid, on the same pitch.
-  const output = windowOn(fftAxis(padded, p.pitch), g.centre[i]!, g.windowHalf[i]!);
-  return axisPlan(g, i, p, n, padded, output);
-}
-
-function axisPlan(g: Geometry, i: number, p: { pitch: number; required: number; rule: string }, n: number, padded: number, output: Axis): AxisPlan {
-  return {
-    inputPitch: p.pitch,
-    inputSamples: n,
-    paddedSamples: padded,
-    output,
-    apertureHalf: g.aEff[i]!,
-    windowHalf: g.windowHalf[i]!,
-    windowCentre: g.centre[i]!,
-    requiredPitch: p.required,
-    pitchRule: p.rule,
-  };
+  return fftAxisPlanOf(g, i, c, contentRule, factorises, (width) => paddingFactor(g, method, width));
 }
 
 /**
@@ -781,66 +681,8 @@ function paddingFactor(g: Geometry, method: MethodName, width: number): number {
 }
 
 function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld'): AxisPlan {
-  const q = oversampling(g, method);
-  const reach = g.windowHalf[i]! + Math.abs(g.centre[i]!) + g.aEff[i]!;
-  let contentRule: { pitch: number; rule: string };
-  if (method === 'fresnel') {
-    contentRule = { pitch: (g.lam * g.z) / (q * reach), rule: `${q}× the highest frequency of the Fresnel integrand, λz/(${q}·${len(reach)})` };
-  } else {
-    const fmax = farFieldMaxFrequency(g, i);
-    contentRule = { pitch: 1 / (q * fmax), rule: `${q}× the highest direction-cosine frequency in the window (${fmt(fmax * g.lam, 3)}/λ)` };
-  }
-  const p = pitchFor(g, c, contentRule, featureSamples(g, method));
-  // The Fresnel form corrects the cell response on its own source grid and needs a margin for it.
-  const margin = method === 'fresnel' ? LIMITS.compensationMargin : 0;
-  const nIn = c.grid?.size ?? 2 * (Math.ceil(g.aEff[i]! / p.pitch + 0.5) + margin) + 1;
-  // Output pitch: the intensity is band-limited to D/(λz) (D the illuminated width), so
-  // λz/(8D) is 4× its Nyquist rate.
-  const d = 2 * g.aEff[i]!;
-  const nyquist = (g.lam * g.z) / (2 * d);
-  // A detector is read off the map: ten samples across the smallest keep its reading within a
-  // fraction of a per cent (its rim cuts cells, which are sub-sampled).
-  const detector = Math.min(Infinity, ...c.analysis.detectors.map((det) => det.size / 10));
-  const wanted = Math.min(nyquist / 4, detector);
-  const [minM, maxM] = [g.minOutput, g.oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D];
-  let m = Math.ceil((2 * g.windowHalf[i]!) / wanted) + 1;
-  m = Math.min(maxM, Math.max(minM, m));
-  if (m % 2 === 0) m += 1;
-  const output = centredAxis(m, (2 * g.windowHalf[i]!) / (m - 1), g.centre[i]!);
-  return axisPlan(g, i, p, nIn, nIn, output);
+  return method === 'fresnel' ? fresnelDirectAxisPlan(g, i, c) : directionCosineAxisPlan(g, i, c, method === 'fraunhofer');
 }
-
-/**
- * The single-FFT form samples the aperture like the direct form, zero-pads to n and lands on the
- * lattice λz/(nΔx): n is the power of two that makes that pitch at least as fine as the direct form's.
- */
-function singleFftAxisPlan(g: Geometry, d: AxisPlan): AxisPlan {
-  const target = Math.min(d.output.step, (2 * d.windowHalf) / (g.minOutput - 1));
-  const n = nextPowerOfTwo(Math.max(d.inputSamples + 2, Math.ceil((g.lam * g.z) / (d.inputPitch * target))));
-  const output = windowOn(fftAxis(n, (g.lam * g.z) / (n * d.inputPitch)), d.windowCentre, d.windowHalf);
-  return { ...d, paddedSamples: n, output };
-}
-
-/** The samples of a lattice that fall inside [centre − half, centre + half]. */
-function windowOn(full: Axis, centre: number, half: number): Axis {
-  const lo = Math.max(0, Math.ceil((centre - half - full.start) / full.step - 1e-9));
-  const hi = Math.min(full.n - 1, Math.floor((centre + half - full.start) / full.step + 1e-9));
-  return { n: hi - lo + 1, start: full.start + lo * full.step, step: full.step };
-}
-
-function farFieldMaxFrequency(g: Geometry, i: number): number {
-  // |x/(λr) − α/λ| at the two window edges, with the other coordinate at its window centre.
-  let worst = 0;
-  for (const s of [-1, 1]) {
-    const x = g.centre[i]! + s * g.windowHalf[i]!;
-    const other = g.oneD ? 0 : g.centre[1 - i]!;
-    const r = Math.sqrt(x * x + other * other + g.z * g.z);
-    worst = Math.max(worst, Math.abs(x / (g.lam * r) - g.carrier[i]!));
-  }
-  return Math.max(worst, 1e-30);
-}
-
-const BASELINE_MEMORY = 64 * 1024 ** 2;
 
 /**
  * The most complex samples one array may hold: V8's typed arrays end at 2³² elements, and a
@@ -925,55 +767,6 @@ function answersPeak(c: Case, maxMemoryBytes: number | undefined): number {
 }
 
 const answersPeaks = new Map<string, number>();
-
-function costFft(axes: AxisPlan[], layout: Layout): { memory: number; work: number } {
-  const n = axes.reduce((p, a) => p * a.inputSamples, 1);
-  const np = axes.reduce((p, a) => p * a.paddedSamples, 1);
-  const m = axes.reduce((p, a) => p * a.output.n, 1);
-  // Per axis, tables as long as the padded axis: the transfer's frequencies, cell factors,
-  // multipliers and phases (spectral.ts multiplyTransfer), the source's mask and envelope and the
-  // FFT's own tables: about 112 bytes a sample, measured on a 1-D grid of 2²⁰ (where they are most
-  // of the memory; on a 2-D grid they are nothing beside it).
-  const tables = axes.reduce((s, a) => s + 112 * a.paddedSamples, 0);
-  if (layout === 'separable') {
-    // Two 1-D problems (source, padded grid and the kernel's copy, output), then the 2-D product on the output window.
-    const oneD = axes.reduce((s, a) => s + 16 * (a.inputSamples + 2 * a.paddedSamples + a.output.n), 0);
-    return { memory: BASELINE_MEMORY + oneD + tables + 64 * m, work: axes.reduce((s, a) => s + 3.3 * a.paddedSamples * Math.log2(a.paddedSamples), 0) + 20 * m };
-  }
-  // Source, padded grid, the FFT kernel's working copy of it (kept between calls), output arrays.
-  // Work: two FFTs and the transfer multiply; the SIMD kernel runs a 4096² case (pad of 2048²) in
-  // about 1.1 s, about 3.3·N·log₂N + 10·N at LIMITS.workPerSecond's calibration (npm run bench).
-  return { memory: BASELINE_MEMORY + 16 * n + 32 * np + tables + 64 * m, work: 3.3 * np * Math.log2(np) + 10 * np };
-}
-
-/**
- * The single-FFT Fresnel form: as costFft, but on a 2-D grid it holds three padded arrays besides
- * the kernel's working copy: the padded source, its chirped copy that is transformed, and the whole
- * output lattice the window is cut from (single-fft.ts).
- */
-function costSingleFft(axes: AxisPlan[], layout: Layout): { memory: number; work: number } {
-  const base = costFft(axes, layout);
-  if (layout !== 'two-d') return base;
-  const np = axes.reduce((p, a) => p * a.paddedSamples, 1);
-  return { memory: base.memory + 32 * np, work: base.work };
-}
-
-function costDirect(axes: AxisPlan[], layout: Layout, farField: boolean): { memory: number; work: number } {
-  const m = axes.reduce((p, a) => p * a.output.n, 1);
-  if (layout !== 'two-d') {
-    const mem = axes.reduce((s, a) => s + 16 * (2 * a.inputSamples + 2 * a.output.n), 0);
-    const work = axes.reduce((s, a) => s + 8 * a.inputSamples * (farField && layout === 'separable' ? m : a.output.n), 0);
-    return { memory: BASELINE_MEMORY + mem + 64 * (layout === 'separable' ? m : 0), work: work + 20 * m };
-  }
-  const [x, y] = axes as [AxisPlan, AxisPlan];
-  const nin = x.inputSamples * y.inputSamples;
-  const mem = 16 * (2 * nin + x.output.n * x.inputSamples + y.output.n * y.inputSamples + y.inputSamples * x.output.n) + 64 * m;
-  const separableWork = 8 * (nin * x.output.n + y.output.n * y.inputSamples * x.output.n);
-  // The far field at wide angles is evaluated point by point (the fast separable path is used when
-  // the mapping error allows; the estimate takes the slow path).
-  const work = farField ? 8 * nin * m : separableWork;
-  return { memory: BASELINE_MEMORY + mem, work };
-}
 
 /**
  * The far-field formula's cost by the path direct.ts takes: a 1-D sum per output sample; for
