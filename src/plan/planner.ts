@@ -3,23 +3,22 @@
 // that fits in memory and time, its sampling, the validity checks that can be made before
 // computing, a memory estimate, and the reasons for each choice in words. It never falls back to a
 // method whose own check fails: with nothing valid that fits, the case is refused with the reasons.
-import { apertureFacts, type ApertureFacts } from '../optics/aperture.js';
-import { centredAxis, fftAxis, type Axis } from '../optics/field.js';
-import { nextPowerOfTwo } from '../optics/fft.js';
+import { apertureFacts } from '../optics/aperture.js';
 import { directionCosines } from '../optics/source.js';
-import { bandLimitFrequency } from '../optics/spectral.js';
-import { mappingError } from '../optics/direct.js';
-import { boundaryRegionsOf, costRsBoundary } from '../optics/rs-boundary.js';
-import { costFarFieldTable, farFieldBand } from '../optics/spectrum-table.js';
-import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor } from '../optics/shifted-spectrum.js';
-import { formatLength, trimNumber } from '../job/units.js';
-import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOption, Plan, Regime, Warning } from './types.js';
+import { trimNumber } from '../job/units.js';
+import type { AxisPlan, Case, Checks, MethodForm, MethodName, MethodOption, Plan, Regime, Warning } from './types.js';
 import { LIMITS } from './limits.js';
-import { illuminatedEdgeWeight, lightModel, type LightModel } from './light.js';
+import { lightModel, type LightModel } from './light.js';
 import { paraxialEstimate } from './paraxial.js';
+import type { Geometry } from './geometry.js';
+import { BASELINE_MEMORY } from './costs.js';
+import { bytes, fmt, len, pct, seconds } from './words.js';
 import { planWindow, windowLoss } from './window.js';
 import { answerVariants, searchLimits } from './answers.js';
-import { costRsDirect1D, costRsDirect2D, costRsPerPeriod1D, periodicAxis, rs2DSampling, rsAreaSamplingError, rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
+import { METHOD_NAMES, METHOD_REGISTRY, methodWords } from '../methods/registry.js';
+import type { MethodDescriptor, Sampling, Validity, ValidityInputs } from '../methods/types.js';
+
+export { bytes, methodWords };
 
 export interface PlannerOptions {
   /** A case whose estimated peak memory exceeds this is not computed (bytes). */
@@ -41,29 +40,6 @@ export interface PlannerOptions {
 export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
 /** About an hour of one core (LIMITS.workPerSecond). */
 export const DEFAULT_MAX_WORK = 3600 * LIMITS.workPerSecond;
-
-interface Geometry {
-  lam: number;
-  z: number;
-  k: number;
-  facts: ApertureFacts;
-  oneD: boolean;
-  /** An obstacle in a Gaussian beam, propagated as the beam where the obstacle is not. */
-  obstructed: boolean;
-  /** An obstacle in a plane wave: the free wave minus the obstacle's complement. */
-  babinet: boolean;
-  /** Half extent of the illuminated part of the aperture per axis. */
-  aEff: [number, number];
-  centre: [number, number];
-  windowHalf: [number, number];
-  waist: number; // Infinity for plane waves
-  carrier: [number, number];
-  minOutput: number;
-  model: LightModel;
-}
-
-const fmt = (x: number, d = 3) => trimNumber(x, d);
-const len = (x: number) => formatLength(x, 3);
 
 export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const maxMemory = opts.maxMemoryBytes ?? DEFAULT_MAX_MEMORY;
@@ -195,20 +171,20 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   }
 
   // Methods: every one is costed; the valid ones compete on cost.
-  const validity = methodValidity(geo, paraxial.error, farFieldPhaseError, farFieldPeakError, paraxial);
+  const validity = validities({ g: geo, paraxialError: paraxial.error, paraxial, farFieldPhase: farFieldPhaseError, farFieldError: farFieldPeakError });
   const options: MethodOption[] = [];
-  const samplings: (Sampling & { method: MethodName })[] = [];
+  const samplings: Chosen[] = [];
   const answers = opts.countAnswers === false ? 0 : answersPeak(c, opts.maxMemoryBytes);
-  for (const method of METHOD_ORDER) {
-    const v = validity[method];
-    for (const s of sample(method, geo, c)) {
-      wholeCase(s, c, answers);
-      const fits = !s.impossible && s.memory <= maxMemory && s.work <= maxWork;
-      options.push({ method, ...(s.form ? { form: s.form } : {}), valid: v.valid, ...(v.why ? { why: v.why } : {}), memoryBytes: s.memory, work: s.work, fits });
-      samplings.push({ method, ...s });
-    }
+  for (const d of METHOD_REGISTRY) {
+    const sampled = d.sample(geo, c);
+    if (!sampled) continue;
+    const s: Chosen = { ...sampled, ...(d.form ? { form: d.form } : {}), method: d.method, d };
+    const v = validity[d.method];
+    wholeCase(s, c, answers);
+    const fits = !s.impossible && s.memory <= maxMemory && s.work <= maxWork;
+    options.push({ method: d.method, ...(s.form ? { form: s.form } : {}), valid: v.valid, ...(v.why ? { why: v.why } : {}), memoryBytes: s.memory, work: s.work, fits });
+    samplings.push(s);
   }
-  type Chosen = Sampling & { method: MethodName };
   let chosen: Chosen | undefined;
   let error: string | undefined;
   const fitsLimits = (s: Sampling) => !s.impossible && s.memory <= maxMemory && s.work <= maxWork;
@@ -223,7 +199,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   } else {
     const valid = samplings.filter((s) => validity[s.method].valid);
     chosen = preferred(valid.filter(fitsLimits));
-    for (const m of METHOD_ORDER) if (!validity[m].valid) reasons.push(`${methodWords(m)} not valid here: ${validity[m].why}.`);
+    for (const m of METHOD_NAMES) if (!validity[m].valid) reasons.push(`${methodWords(m)} not valid here: ${validity[m].why}.`);
     for (const s of valid) {
       if (!fitsLimits(s)) reasons.push(`${methodWords(s.method, s.form)} would need ${limitWords(s, maxMemory, maxWork)}.`);
     }
@@ -256,17 +232,10 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     samplesPerFeature,
     evanescentFraction: model.evanescentFraction,
   };
-  if (method === 'angular-spectrum') {
-    checks.bandLimit = [
-      bandLimitFrequency(z, lam, xPlan!.paddedSamples * xPlan!.inputPitch),
-      yPlan ? bandLimitFrequency(z, lam, yPlan.paddedSamples * yPlan.inputPitch) : null,
-    ];
-  }
-  if (method === 'fresnel' && chosen.form === 'transfer-function') {
-    checks.transferSampling = Math.min(...chosen.axes.map((a) => (a.inputPitch * a.inputPitch * a.paddedSamples) / (lam * z)));
-  }
-  reasons.push(...samplingReasons(method, chosen.form, chosen.axes, oneD));
-  warnings.push(...preChecks(c, method, chosen.form, checks, chosen.axes, geo, options, maxMemory));
+  // The chosen form's checks of its own sampling (the angular spectrum's band limit, Voelz's rule).
+  if (chosen.d.checks) Object.assign(checks, chosen.d.checks(chosen.axes, geo));
+  reasons.push(...samplingReasons(chosen.d, chosen.axes, oneD));
+  warnings.push(...preChecks(c, chosen.d, checks, chosen.axes, geo, options, maxMemory));
 
   const plan: Plan = {
     case: c,
@@ -292,8 +261,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   return plan;
 }
 
-/** The order in which methods are listed (and, at equal cost, preferred). */
-const METHOD_ORDER: MethodName[] = ['fraunhofer', 'fresnel', 'angular-spectrum', 'rayleigh-sommerfeld'];
+/** A sampling of a form, with its method and the descriptor that made it. */
+type Chosen = Sampling & { method: MethodName; form?: MethodForm; d: MethodDescriptor };
 
 /**
  * Among valid methods that fit, the far-field formula, else Fresnel, else the cheaper exact method,
@@ -302,11 +271,11 @@ const METHOD_ORDER: MethodName[] = ['fraunhofer', 'fresnel', 'angular-spectrum',
  */
 const PREFERENCE_SPAN = 20;
 
-function preferred<T extends Sampling & { method: MethodName }>(list: T[]): T | undefined {
+function preferred(list: Chosen[]): Chosen | undefined {
   if (list.length === 0) return undefined;
   const cheapest = list.reduce((b, s) => (s.work < b.work ? s : b));
-  for (const m of ['fraunhofer', 'fresnel'] as MethodName[]) {
-    const forms = list.filter((s) => s.method === m);
+  for (const m of METHOD_NAMES) {
+    const forms = list.filter((s) => s.method === m && s.d.closedForm);
     if (forms.length === 0) continue;
     const best = forms.reduce((b, s) => (s.work < b.work ? s : b));
     if (best.work <= PREFERENCE_SPAN * cheapest.work) return best;
@@ -314,39 +283,11 @@ function preferred<T extends Sampling & { method: MethodName }>(list: T[]): T | 
   return cheapest;
 }
 
-interface Validity {
-  valid: boolean;
-  /** Why it is not valid. */
-  why?: string;
-  /** Why it is valid (for the reasons). */
-  because: string;
-}
-
-function methodValidity(
-  g: Geometry,
-  paraxialError: number,
-  farFieldPhase: number,
-  farFieldError: number,
-  paraxial: { at: [number, number]; phase: number; weight: number },
-): Record<MethodName, Validity> {
-  const ffOk = farFieldError <= LIMITS.farFieldPeakError;
-  const paraxialLimit = g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase;
-  const parOk = paraxialError <= paraxialLimit;
-  const where = `at (${len(paraxial.at[0])}${g.oneD ? '' : `, ${len(paraxial.at[1])}`}) it drops ${fmt(paraxial.phase, 2)} rad of phase across the aperture where the light is ${pct(paraxial.weight)} of the peak (weighted ${fmt(paraxialError, 2)} rad, limit ${paraxialLimit} rad${g.babinet ? ': behind an obstacle the diffracted light interferes with the free beam, so its error shows linearly' : ''})`;
-  return {
-    fraunhofer: {
-      valid: ffOk,
-      because: `the aperture's own quadratic phase π·N_F = ${fmt(farFieldPhase, 2)} rad that it neglects changes the peak by about ${pct(farFieldError)} (limit ${pct(LIMITS.farFieldPeakError)}); it is evaluated in direction cosines with the exact kernel, so wide angles are not paraxial`,
-      ...(ffOk ? {} : { why: `the aperture's quadratic phase π·N_F = ${fmt(farFieldPhase, 2)} rad would change the peak by about ${pct(farFieldError)} (limit ${pct(LIMITS.farFieldPeakError)})` }),
-    },
-    fresnel: {
-      valid: parOk,
-      because: `the paraxial approximation holds wherever the light lands (${where})`,
-      ...(parOk ? {} : { why: `the paraxial approximation fails where light lands: ${where}` }),
-    },
-    'angular-spectrum': { valid: true, because: 'it is exact for scalar waves' },
-    'rayleigh-sommerfeld': { valid: true, because: 'the Rayleigh–Sommerfeld integral is exact for scalar waves at any distance and angle' },
-  };
+/** Each method's validity, from the first of its forms in the registry (every form shares it). */
+function validities(v: ValidityInputs): Record<MethodName, Validity> {
+  const out = {} as Record<MethodName, Validity>;
+  for (const d of METHOD_REGISTRY) if (!(d.method in out)) out[d.method] = d.validity(v);
+  return out;
 }
 
 function lightReasons(m: LightModel, c: Case, z: number): string[] {
@@ -382,48 +323,6 @@ function regimeWords(r: Regime): string {
       : 'far field (N_F ≤ 1/8: the pattern is the Fourier transform of the aperture)';
 }
 
-const FORM_WORDS: Record<string, string> = {
-  'transfer-function': 'transfer-function form',
-  'single-fft': 'single-transform form by one FFT',
-  direct: 'single-transform form by direct sums onto the window',
-  shifted: 'in the tilted beam\'s frame, the grid shifted to where it lands',
-};
-
-export function methodWords(m: MethodName, form?: MethodForm): string {
-  switch (m) {
-    case 'angular-spectrum':
-      return `angular spectrum${form === 'shifted' ? ` (${FORM_WORDS[form]})` : ''}`;
-    case 'fresnel':
-      return `Fresnel${form ? ` (${FORM_WORDS[form]})` : ''}`;
-    case 'fraunhofer':
-      return 'far-field formula';
-    case 'rayleigh-sommerfeld':
-      return `Rayleigh–Sommerfeld integral${form === 'per-period' ? ' (one period, summed over the periods)' : form === 'direct' ? ' (direct sums over the aperture)' : form === 'boundary' ? ' (along the aperture\'s boundary)' : ''}`;
-  }
-}
-
-function pct(x: number): string {
-  if (x < 1e-4) return '<0.01 %';
-  return `${trimNumber(100 * x, 2)} %`;
-}
-
-export function bytes(n: number): string {
-  if (!Number.isFinite(n)) return 'more than any machine holds';
-  if (n >= 1024 ** 3) return `${trimNumber(n / 1024 ** 3, 3)} GiB`;
-  if (n >= 1024 ** 2) return `${trimNumber(n / 1024 ** 2, 3)} MiB`;
-  return `${trimNumber(n / 1024, 3)} KiB`;
-}
-
-/** Work in words, at LIMITS.workPerSecond. */
-function seconds(work: number): string {
-  const s = work / LIMITS.workPerSecond;
-  if (!Number.isFinite(s)) return 'no end';
-  if (s < 1) return '<1 s';
-  if (s < 120) return `${trimNumber(s, 2)} s`;
-  if (s < 7200) return `${trimNumber(s / 60, 2)} min`;
-  return `${trimNumber(s / 3600, 2)} h`;
-}
-
 function limitWords(s: Sampling, maxMemory: number, maxWork: number): string {
   const parts: string[] = [];
   if (s.impossible) parts.push(`${Number.isFinite(s.memory) ? `about ${bytes(s.memory)}, ` : ''}an impossible size (${s.impossible})`);
@@ -432,7 +331,7 @@ function limitWords(s: Sampling, maxMemory: number, maxWork: number): string {
   return parts.join(' and ');
 }
 
-function tooBig(s: Sampling & { method: MethodName }, c: Case, maxMemory: number, maxWork: number, options: MethodOption[]): string {
+function tooBig(s: Chosen, c: Case, maxMemory: number, maxWork: number, options: MethodOption[]): string {
   const alt = options.filter((o) => o.valid && o.fits && o.method !== s.method);
   return (
     `${methodWords(s.method, s.form)} needs ${limitWords(s, maxMemory, maxWork)}: ` +
@@ -442,11 +341,11 @@ function tooBig(s: Sampling & { method: MethodName }, c: Case, maxMemory: number
   );
 }
 
-function refusal(s: Sampling & { method: MethodName }, maxMemory: number, maxWork: number, validity: Record<MethodName, Validity>): string {
-  const out = METHOD_ORDER.filter((m) => !validity[m].valid).map((m) => `${methodWords(m)}: ${validity[m].why}`);
+function refusal(s: Chosen, maxMemory: number, maxWork: number, validity: Record<MethodName, Validity>): string {
+  const out = METHOD_NAMES.filter((m) => !validity[m].valid).map((m) => `${methodWords(m)}: ${validity[m].why}`);
   return (
     `no valid method fits: the cheapest, ${methodWords(s.method, s.form)}, needs ${limitWords(s, maxMemory, maxWork)}` +
-    ` (${s.axes.map((a) => a.paddedSamples).join(' × ')} ${s.method === 'rayleigh-sommerfeld' ? 'cells' : 'samples'} at ${len(s.axes[0]!.inputPitch)})` +
+    ` (${s.axes.map((a) => a.paddedSamples).join(' × ')} ${s.d.apertureCells ? 'cells' : 'samples'} at ${len(s.axes[0]!.inputPitch)})` +
     (out.length ? `; ${out.join('; ')}` : '') +
     `. Lower it with a smaller window, or ${raiseWords(s, maxMemory, maxWork)}.`
   );
@@ -466,381 +365,12 @@ export function beamRadiusAt(w0: number, lam: number, z: number): number {
   return w0 * Math.sqrt(1 + (z / zr) ** 2);
 }
 
-/** Fraction of the power that edge diffraction sends farther than u beyond the geometric spot. */
-function edgeTail(m: LightModel, lam: number, z: number, u: number): number {
-  if (!(u > 0)) return 0.5;
-  return Math.min(1, (m.edgesPerPower * lam * z) / (2 * Math.PI ** 2 * u));
-}
-
 function goodman(g: Geometry): number {
   const axes = g.oneD ? [0] : [0, 1];
   let rho2 = 0;
   for (const i of axes) rho2 += (Math.abs(g.centre[i]!) + g.windowHalf[i]! + g.aEff[i]!) ** 2;
   return (Math.PI * rho2 * rho2) / (4 * g.lam * g.z ** 3);
 }
-
-interface Sampling {
-  /** Set when a size the sampling needs cannot exist (see impossibleSize). */
-  impossible?: string;
-  form?: MethodForm;
-  axes: AxisPlan[];
-  layout: Layout;
-  memory: number;
-  work: number;
-  shifted?: Plan['shifted'];
-  exact2D?: Plan['exact2D'];
-}
-
-/** The plans of a method: one per form that applies (Fresnel has three; the exact integral two). */
-function sample(method: MethodName, g: Geometry, c: Case): Sampling[] {
-  const axes = g.oneD ? [0] : [0, 1];
-  if (method === 'angular-spectrum') {
-    const layout: Layout = g.oneD ? 'one-d' : 'two-d';
-    const plans = axes.map((i) => fftAxisPlan(g, i, c, method));
-    const list: Sampling[] = [{ axes: plans, layout, ...costFft(plans, layout) }];
-    const shifted = shiftedSampling(g, c, layout);
-    if (shifted) list.push(shifted);
-    return list;
-  }
-  // The beam minus an obstacle is not a product of two profiles, even where the obstacle is.
-  const layout: Layout = g.oneD ? 'one-d' : g.facts.separable && !g.obstructed ? 'separable' : 'two-d';
-  if (method === 'fresnel') {
-    // Three forms of the same integral. Voelz's rule: the transfer function is adequately sampled
-    // when Δx ≥ λz/L. They give the same answer; a grid.size names an FFT grid, so it asks for the
-    // transfer-function form.
-    const tf = axes.map((i) => fftAxisPlan(g, i, c, method));
-    const tfCost = costFft(tf, layout);
-    const tfSampled = tf.every((p) => (p.inputPitch * p.inputPitch * p.paddedSamples) / (g.lam * g.z) >= 1);
-    if (c.grid?.size) return [{ form: 'transfer-function', axes: tf, layout, ...tfCost }];
-    const direct = axes.map((i) => directAxisPlan(g, i, c, 'fresnel'));
-    const options: Sampling[] = [{ form: 'direct', axes: direct, layout, ...costDirect(direct, layout, false) }];
-    if (tfSampled) options.push({ form: 'transfer-function', axes: tf, layout, ...tfCost });
-    const single = direct.map((d) => singleFftAxisPlan(g, d));
-    if (single.every((a) => a.paddedSamples <= LIMITS.maxSingleFft)) {
-      options.push({ form: 'single-fft', axes: single, layout, ...costSingleFft(single, layout) });
-    }
-    return options;
-  }
-  if (method === 'fraunhofer') {
-    const plans = axes.map((i) => directAxisPlan(g, i, c, 'fraunhofer'));
-    return [{ axes: plans, layout, ...costFarField(plans, layout, g, c) }];
-  }
-  return sampleExact(g, c);
-}
-
-/**
- * The exact integral. 1-D: cells no wider than the curvature rule allows (rs-sampling.ts) over the
- * open intervals, summed onto the window; for a grating lit by a plane wave, also one period's
- * field summed over the periods on a lattice commensurate with the period. 2-D: an area-sampled
- * grid, cells no wider than the curvature rule, the smallest feature's 16th and λ/(4·sin θ) of the
- * steepest ray into the window (partial edge cells carry their open area at the cell centre, so
- * their phase error must stay small at the widest angle), summed onto the window point by point.
- */
-function sampleExact(g: Geometry, c: Case): Sampling[] {
-  const a = c.aperture;
-  const waist = Number.isFinite(g.waist) ? { waist: g.waist } : {};
-  // A given grid.pitch bounds the cells too (the job asked for at least that resolution).
-  const cell = Math.min(rsMaxCell(g.lam, g.z, waist), c.grid?.pitch ?? Infinity);
-  if (g.oneD) {
-    const out = directAxisPlan(g, 0, c, 'rayleigh-sommerfeld');
-    const intervals = a.shape === 'slits' ? a.count : 1;
-    const open = g.obstructed ? 2 * g.aEff[0] : Number.isFinite(g.waist) ? Math.min(g.facts.openMeasure, 2 * g.aEff[0]) : g.facts.openMeasure;
-    const cells = Math.ceil(open / cell) + intervals + (g.obstructed ? 1 : 0);
-    const rule = { pitch: cell, required: cell, rule: `cells of at most ${len(cell)} over the open intervals, edges exact (the kernel's phase curvature across a cell stays within the accuracy target)` };
-    const direct: Sampling = {
-      form: 'direct',
-      axes: [axisPlan(g, 0, rule, cells, cells, out.output)],
-      layout: 'one-d',
-      memory: BASELINE_MEMORY + 16 * (5 * cells + 2 * out.output.n),
-      work: costRsDirect1D(cells, out.output.n),
-    };
-    const list = [direct];
-    if (a.shape === 'slits' && a.count >= 2 && c.illumination.kind === 'plane') {
-      const lo = out.output.start;
-      const hi = out.output.start + (out.output.n - 1) * out.output.step;
-      const pa = periodicAxis(a.period, out.output.step, lo, hi);
-      const perPeriod = Math.ceil(a.width / cell);
-      const lattice = (a.count - 1) * pa.p + (pa.axis.n - 1) * pa.s + 1;
-      const axis = axisPlan(g, 0, { ...rule, rule: `${rule.rule}; one period's field on a lattice of ${len(a.period / pa.p)}, summed over the ${a.count} periods` }, perPeriod, perPeriod, pa.axis);
-      axis.periodic = { p: pa.p, s: pa.s };
-      list.push({
-        form: 'per-period',
-        axes: [axis],
-        layout: 'one-d',
-        // One period's field on the whole lattice, then the output.
-        memory: BASELINE_MEMORY + 16 * (lattice + 2 * pa.axis.n + 5 * perPeriod),
-        work: costRsPerPeriod1D(perPeriod, a.count, pa.axis.n, pa.p, pa.s),
-      });
-    }
-    return list;
-  }
-  const list: Sampling[] = [];
-  if (a.shape === 'slits' && a.count > MAX_COSTED_SLITS) {
-    // Costing the 2-D sums walks every slit (its rectangles, its cells): past this many the walk
-    // alone holds the planner for seconds to minutes (a million slits overflowed the stack), so
-    // the form is not offered; the other methods are costed from the sizes alone.
-    const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
-    const rule = { pitch: cell, required: cell, rule: `not costed: more than ${MAX_COSTED_SLITS} slits` };
-    const axes = [0, 1].map((i) => axisPlan(g, i, rule, 1, 1, out[i]!.output));
-    return [{ form: 'direct', axes, layout: 'two-d', memory: Infinity, work: Infinity, impossible: `${a.count} slits: the exact 2-D sums are costed for at most ${MAX_COSTED_SLITS}` }];
-  }
-  // (Not when the job gives a grid: it asks for a sampled aperture.)
-  const regions = !c.grid && c.illumination.kind === 'plane' && c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0 ? boundaryRegionsOf(c.aperture) : null;
-  if (regions) {
-    // A plane wave at normal incidence: the integral over the aperture becomes one along its
-    // boundary (src/optics/rs-boundary.ts), exact and a line integral per output point.
-    const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
-    const cost = costRsBoundary(regions, g.lam, g.z, out[0]!.output, out[1]!.output);
-    const whole = (i: number) => ({ pitch: 2 * g.aEff[i]!, required: 2 * g.aEff[i]!, rule: 'none: the integral runs along the aperture\'s edges (boundary form)' });
-    const axes = [0, 1].map((i) => axisPlan(g, i, whole(i), 1, 1, out[i]!.output));
-    list.push({ form: 'boundary', axes, layout: 'two-d', memory: BASELINE_MEMORY + cost.memory, work: cost.work });
-  }
-  if (g.obstructed) {
-    // The beam where an obstacle is not: area-sampled cells (the exact edge cells are built for
-    // holes). Area-sampled edge cells carry their open fraction over the whole cell: the error grows
-    // as (pitch·sin θ/λ)² at the steepest ray into the window (rsAreaSamplingError, measured).
-    const sMax = Math.max(steepestDirection(g), 1e-6);
-    const ref = g.lam;
-    const areaPitch = ref * Math.sqrt(LIMITS.rsAreaError / rsAreaSamplingError(ref, g.lam, sMax));
-    const p = pitchFor(g, c, { pitch: Math.min(cell, areaPitch), rule: `the finer of the kernel's curvature rule and the area-sampled edge cells' error at the steepest ray into the window (sin θ = ${fmt(sMax, 3)})` }, LIMITS.featureSamples2D);
-    const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
-    const n = [0, 1].map((i) => c.grid?.size ?? 2 * Math.ceil(g.aEff[i]! / p.pitch + 0.5) + 1);
-    const axes = [0, 1].map((i) => axisPlan(g, i, p, n[i]!, n[i]!, out[i]!.output));
-    const cells = n[0]! * n[1]!;
-    const outputs = out[0]!.output.n * out[1]!.output.n;
-    return [...list, { form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + 16 * (3 * cells) + 64 * outputs, work: costRsDirect2D(cells, outputs) }];
-  }
-  // Boxes for every wholly open cell and Gauss–Legendre nodes with exact weights in the cells an
-  // edge crosses (src/optics/rs-2d-*.ts): the pitch and node count are the cheapest that keep the
-  // error within the target; round and mirror-symmetric sources take the radial or mirror path.
-  const out = [0, 1].map((i) => directAxisPlan(g, i, c, 'rayleigh-sommerfeld'));
-  const s2 = rs2DSampling(c.aperture, c.illumination, g.lam, g.z, out[0]!.output, out[1]!.output, LIMITS.rsExactTarget);
-  const pitch = c.grid?.pitch ? Math.min(c.grid.pitch, s2.pitch) : s2.pitch;
-  const rule = { pitch, required: s2.pitch, rule: `boxes of ${len(s2.pitch)} with exact edges (${s2.edgeNodes}² nodes in each edge cell), the cheapest that keeps the error within ${LIMITS.rsExactTarget} of the peak; ${s2.choice.path} path` };
-  const n = [0, 1].map((i) => 2 * Math.ceil(g.aEff[i]! / pitch + 0.5) + 1);
-  const axes = [0, 1].map((i) => axisPlan(g, i, rule, n[i]!, n[i]!, out[i]!.output));
-  return [...list, { form: 'direct', axes, layout: 'two-d', memory: BASELINE_MEMORY + s2.choice.memory, work: s2.choice.work, exact2D: { edgeNodes: s2.edgeNodes, path: s2.choice.path } }];
-}
-
-/** Most slits of a 2-D grating (one with a length) whose exact 2-D sums the planner costs. */
-const MAX_COSTED_SLITS = 16384;
-
-/**
- * The angular spectrum in the frame of a tilted beam (src/optics/shifted-spectrum.ts): the carrier
- * is taken out of the source and the grid shifted to where the beam lands, so the grid is as large
- * as the beam, not as the span from the aperture to the window, and its pitch resolves the
- * envelope, not the carrier. For one tilted beam (a plain aperture); a grating's orders go in many
- * directions at once.
- */
-function shiftedSampling(g: Geometry, c: Case, layout: Layout): Sampling | null {
-  const tilted = g.carrier[0] !== 0 || (!g.oneD && g.carrier[1] !== 0);
-  if (!tilted || g.model.propagating.length !== 1 || c.grid?.size) return null;
-  const lam = g.lam;
-  const carrier: [number, number] = [g.carrier[0], g.oneD ? 0 : g.carrier[1]];
-  const feature = g.facts.minFeature / featureSamples(g, 'angular-spectrum');
-  const beamPitch = Number.isFinite(g.waist) ? g.waist / 8 : Infinity;
-  const maxPitch: [number, number] = [Math.min(feature, beamPitch), Math.min(feature, beamPitch)];
-  let grid;
-  try {
-    grid = shiftedGridFor({
-      wavelength: lam,
-      z: g.z,
-      carrier,
-      centre: [g.centre[0], g.oneD ? 0 : g.centre[1]],
-      footprint: [g.aEff[0], g.oneD ? 0 : g.aEff[1]],
-      window: [g.windowHalf[0], g.oneD ? 0 : g.windowHalf[1]],
-      oneD: g.oneD,
-      samplesPerPeriod: oversampling(g, 'angular-spectrum'),
-      maxPitch,
-      ...(c.grid?.pitch ? { pitch: [c.grid.pitch, c.grid.pitch] as [number, number] } : {}),
-      tail: Number.isFinite(g.waist) && illuminatedEdgeWeight(g.facts, g.waist, g.oneD) < 1e-4 ? gaussianSpectrumTail(g.waist) : edgeSpectrumTail(g.model.beamEdgesPerPower),
-      target: LIMITS.bandLimitTarget,
-      maxSamples: g.oneD ? 1 << 24 : 1 << 16,
-    });
-  } catch {
-    return null;
-  }
-  const axes = (g.oneD ? [0] : [0, 1]).map((i) => {
-    const p = grid.pitch[i]!;
-    const padded = grid.samples[i]!;
-    const n = Math.min(padded, nextPowerOfTwo(Math.ceil((2 * g.aEff[i]!) / p) + 2));
-    // The output lattice is the grid's own, shifted by the centre.
-    const lattice = fftAxis(padded, p);
-    const output = windowOn({ n: lattice.n, start: lattice.start + grid.centre[i]!, step: p }, g.centre[i]!, g.windowHalf[i]!);
-    const rule = { pitch: p, required: Math.min(p, maxPitch[i]!), rule: `the tilted beam's envelope, sampled in its own frame (the carrier taken out)` };
-    return axisPlan(g, i, rule, n, padded, output);
-  });
-  return { form: 'shifted', axes, layout, ...costFft(axes, layout), shifted: { centre: grid.centre, taper: grid.taper, bandTaper: grid.bandTaper } };
-}
-
-/** The largest direction cosine from the illuminated aperture to the window. */
-function steepestDirection(g: Geometry): number {
-  let s = 0;
-  for (const i of g.oneD ? [0] : [0, 1]) {
-    const reach = Math.abs(g.centre[i]!) + g.windowHalf[i]! + g.aEff[i]!;
-    s = Math.max(s, reach / Math.sqrt(reach * reach + g.z * g.z));
-  }
-  return s;
-}
-
-function pitchFor(g: Geometry, c: Case, contentRule: { pitch: number; rule: string }, featureSamples: number) {
-  const rules: { pitch: number; rule: string }[] = [
-    { pitch: g.facts.minFeature / featureSamples, rule: `${featureSamples} samples across the smallest feature (${len(g.facts.minFeature)})` },
-    contentRule,
-  ];
-  if (Number.isFinite(g.waist)) rules.push({ pitch: g.waist / 8, rule: `8 samples per beam radius (${len(g.waist)})` });
-  let best = rules[0]!;
-  for (const r of rules) if (r.pitch < best.pitch) best = r;
-  const required = best.pitch;
-  if (c.grid?.pitch) return { pitch: c.grid.pitch, required, rule: `grid.pitch as given (the accuracy rules ask for ${len(required)}: ${best.rule})` };
-  return { pitch: required, required, rule: best.rule };
-}
-
-/** Separable apertures are computed as 1-D problems unless the method needs a 2-D grid. */
-function onTwoDGrid(g: Geometry, method: MethodName): boolean {
-  return !g.oneD && !(g.facts.separable && !g.obstructed && (method === 'fresnel' || method === 'fraunhofer'));
-}
-
-function featureSamples(g: Geometry, method: MethodName): number {
-  return onTwoDGrid(g, method) ? LIMITS.featureSamples2D : LIMITS.featureSamples1D;
-}
-
-function oversampling(g: Geometry, method: MethodName): number {
-  return onTwoDGrid(g, method) ? LIMITS.oversampling2D : LIMITS.oversampling1D;
-}
-
-/**
- * FFT grids. The pitch resolves the highest spatial frequency that reaches the window,
- * sin θ/λ of the steepest ray from the aperture into it (q samples per period of it). Where the
- * window takes in steep rays (short distances, wide windows) that rule reaches λ/4 (2-D) or λ/8
- * (1-D): the area-sampled edge is not band-limited, and its spectrum beyond the grid's band folds
- * back into the propagating band — far away the folded light leaves the window, close to the
- * aperture it lands in it. Below λ/2 the grid carries evanescent frequencies, which the angular
- * spectrum damps correctly.
- */
-function fftAxisPlan(g: Geometry, i: number, c: Case, method: MethodName): AxisPlan {
-  const q = oversampling(g, method);
-  let contentRule: { pitch: number; rule: string };
-  if (method === 'angular-spectrum') {
-    const s = steepestDirection(g);
-    // Close to the aperture (the window takes in nearly every direction) the folded-back edge
-    // spectrum lands in the window: twice the samples there (measured on a 5 µm pinhole at 2λ:
-    // 1.4 % of the peak on axis at λ/4, against the exact Rayleigh–Sommerfeld value).
-    const qq = s > LIMITS.steepWindow && illuminatedEdgeWeight(g.facts, g.waist, g.oneD) > 1e-4 ? 2 * q : q;
-    contentRule = {
-      pitch: g.lam / (qq * s),
-      rule: `${qq}× the highest spatial frequency that reaches the window, sin θ/λ = ${fmt(s, 3)}/λ${qq > q ? ' (doubled: the window takes in nearly every direction, where folded-back edge spectrum would land)' : ''}`,
-    };
-  } else {
-    const reach = g.windowHalf[i]! + Math.abs(g.centre[i]!) + g.aEff[i]!;
-    const content = (g.lam * g.z) / (q * reach);
-    contentRule = { pitch: content, rule: `${q}× the highest spatial frequency that reaches the window, λz/(${q}·${len(reach)})` };
-  }
-  // The output of an FFT method is on the input's lattice: a detector needs ten samples across.
-  const detector = Math.min(Infinity, ...c.analysis.detectors.map((det) => det.size / 10));
-  if (detector < contentRule.pitch) contentRule = { pitch: detector, rule: `ten samples across the smallest detector (${len(10 * detector)})` };
-  const p = pitchFor(g, c, contentRule, featureSamples(g, method));
-  // The grid holds the illuminated aperture (a Gaussian beam narrower than the aperture is cut at
-  // e⁻⁹ of its amplitude) and the window.
-  const half = Math.max(g.aEff[i]!, Math.abs(g.centre[i]!) + g.windowHalf[i]!);
-  const minN = g.oneD ? LIMITS.minSamples1D : LIMITS.minSamples2D;
-  const n = c.grid?.size ?? Math.max(minN, nextPowerOfTwo(Math.ceil((2 * half) / p.pitch) + 2));
-  const padded = n * paddingFactor(g, method, n * p.pitch);
-  // The output is the window cut out of the padded grid, on the same pitch.
-  const output = windowOn(fftAxis(padded, p.pitch), g.centre[i]!, g.windowHalf[i]!);
-  return axisPlan(g, i, p, n, padded, output);
-}
-
-function axisPlan(g: Geometry, i: number, p: { pitch: number; required: number; rule: string }, n: number, padded: number, output: Axis): AxisPlan {
-  return {
-    inputPitch: p.pitch,
-    inputSamples: n,
-    paddedSamples: padded,
-    output,
-    apertureHalf: g.aEff[i]!,
-    windowHalf: g.windowHalf[i]!,
-    windowCentre: g.centre[i]!,
-    requiredPitch: p.required,
-    pitchRule: p.rule,
-  };
-}
-
-/**
- * The angular spectrum's band limit cuts the spectrum at f ≈ L_pad/(2λz). The cut light would land
- * outside the window, but a sharp spectral cut rings back into it, so the padding is doubled when
- * the edge-tail estimate says more than LIMITS.bandLimitTarget of the power lies beyond the limit.
- */
-function paddingFactor(g: Geometry, method: MethodName, width: number): number {
-  if (method !== 'angular-spectrum') return LIMITS.padding;
-  const beyond = (pad: number) => {
-    // Light at the band-limit angle (sin θ = λ f) lands z·tan θ away.
-    const s = Math.min(0.999, g.lam * bandLimitFrequency(g.z, g.lam, pad * width));
-    return edgeTail(g.model, g.lam, g.z, (g.z * s) / Math.sqrt(1 - s * s));
-  };
-  return beyond(LIMITS.padding) > LIMITS.bandLimitTarget ? 2 * LIMITS.padding : LIMITS.padding;
-}
-
-function directAxisPlan(g: Geometry, i: number, c: Case, method: 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld'): AxisPlan {
-  const q = oversampling(g, method);
-  const reach = g.windowHalf[i]! + Math.abs(g.centre[i]!) + g.aEff[i]!;
-  let contentRule: { pitch: number; rule: string };
-  if (method === 'fresnel') {
-    contentRule = { pitch: (g.lam * g.z) / (q * reach), rule: `${q}× the highest frequency of the Fresnel integrand, λz/(${q}·${len(reach)})` };
-  } else {
-    const fmax = farFieldMaxFrequency(g, i);
-    contentRule = { pitch: 1 / (q * fmax), rule: `${q}× the highest direction-cosine frequency in the window (${fmt(fmax * g.lam, 3)}/λ)` };
-  }
-  const p = pitchFor(g, c, contentRule, featureSamples(g, method));
-  // The Fresnel form corrects the cell response on its own source grid and needs a margin for it.
-  const margin = method === 'fresnel' ? LIMITS.compensationMargin : 0;
-  const nIn = c.grid?.size ?? 2 * (Math.ceil(g.aEff[i]! / p.pitch + 0.5) + margin) + 1;
-  // Output pitch: the intensity is band-limited to D/(λz) (D the illuminated width), so
-  // λz/(8D) is 4× its Nyquist rate.
-  const d = 2 * g.aEff[i]!;
-  const nyquist = (g.lam * g.z) / (2 * d);
-  // A detector is read off the map: ten samples across the smallest keep its reading within a
-  // fraction of a per cent (its rim cuts cells, which are sub-sampled).
-  const detector = Math.min(Infinity, ...c.analysis.detectors.map((det) => det.size / 10));
-  const wanted = Math.min(nyquist / 4, detector);
-  const [minM, maxM] = [g.minOutput, g.oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D];
-  let m = Math.ceil((2 * g.windowHalf[i]!) / wanted) + 1;
-  m = Math.min(maxM, Math.max(minM, m));
-  if (m % 2 === 0) m += 1;
-  const output = centredAxis(m, (2 * g.windowHalf[i]!) / (m - 1), g.centre[i]!);
-  return axisPlan(g, i, p, nIn, nIn, output);
-}
-
-/**
- * The single-FFT form samples the aperture like the direct form, zero-pads to n and lands on the
- * lattice λz/(nΔx): n is the power of two that makes that pitch at least as fine as the direct form's.
- */
-function singleFftAxisPlan(g: Geometry, d: AxisPlan): AxisPlan {
-  const target = Math.min(d.output.step, (2 * d.windowHalf) / (g.minOutput - 1));
-  const n = nextPowerOfTwo(Math.max(d.inputSamples + 2, Math.ceil((g.lam * g.z) / (d.inputPitch * target))));
-  const output = windowOn(fftAxis(n, (g.lam * g.z) / (n * d.inputPitch)), d.windowCentre, d.windowHalf);
-  return { ...d, paddedSamples: n, output };
-}
-
-/** The samples of a lattice that fall inside [centre − half, centre + half]. */
-function windowOn(full: Axis, centre: number, half: number): Axis {
-  const lo = Math.max(0, Math.ceil((centre - half - full.start) / full.step - 1e-9));
-  const hi = Math.min(full.n - 1, Math.floor((centre + half - full.start) / full.step + 1e-9));
-  return { n: hi - lo + 1, start: full.start + lo * full.step, step: full.step };
-}
-
-function farFieldMaxFrequency(g: Geometry, i: number): number {
-  // |x/(λr) − α/λ| at the two window edges, with the other coordinate at its window centre.
-  let worst = 0;
-  for (const s of [-1, 1]) {
-    const x = g.centre[i]! + s * g.windowHalf[i]!;
-    const other = g.oneD ? 0 : g.centre[1 - i]!;
-    const r = Math.sqrt(x * x + other * other + g.z * g.z);
-    worst = Math.max(worst, Math.abs(x / (g.lam * r) - g.carrier[i]!));
-  }
-  return Math.max(worst, 1e-30);
-}
-
-const BASELINE_MEMORY = 64 * 1024 ** 2;
 
 /**
  * The most complex samples one array may hold: V8's typed arrays end at 2³² elements, and a
@@ -926,133 +456,25 @@ function answersPeak(c: Case, maxMemoryBytes: number | undefined): number {
 
 const answersPeaks = new Map<string, number>();
 
-function costFft(axes: AxisPlan[], layout: Layout): { memory: number; work: number } {
-  const n = axes.reduce((p, a) => p * a.inputSamples, 1);
-  const np = axes.reduce((p, a) => p * a.paddedSamples, 1);
-  const m = axes.reduce((p, a) => p * a.output.n, 1);
-  // Per axis, tables as long as the padded axis: the transfer's frequencies, cell factors,
-  // multipliers and phases (spectral.ts multiplyTransfer), the source's mask and envelope and the
-  // FFT's own tables: about 112 bytes a sample, measured on a 1-D grid of 2²⁰ (where they are most
-  // of the memory; on a 2-D grid they are nothing beside it).
-  const tables = axes.reduce((s, a) => s + 112 * a.paddedSamples, 0);
-  if (layout === 'separable') {
-    // Two 1-D problems (source, padded grid and the kernel's copy, output), then the 2-D product on the output window.
-    const oneD = axes.reduce((s, a) => s + 16 * (a.inputSamples + 2 * a.paddedSamples + a.output.n), 0);
-    return { memory: BASELINE_MEMORY + oneD + tables + 64 * m, work: axes.reduce((s, a) => s + 3.3 * a.paddedSamples * Math.log2(a.paddedSamples), 0) + 20 * m };
-  }
-  // Source, padded grid, the FFT kernel's working copy of it (kept between calls), output arrays.
-  // Work: two FFTs and the transfer multiply; the SIMD kernel runs a 4096² case (pad of 2048²) in
-  // about 1.1 s, about 3.3·N·log₂N + 10·N at LIMITS.workPerSecond's calibration (npm run bench).
-  return { memory: BASELINE_MEMORY + 16 * n + 32 * np + tables + 64 * m, work: 3.3 * np * Math.log2(np) + 10 * np };
-}
-
-/**
- * The single-FFT Fresnel form: as costFft, but on a 2-D grid it holds three padded arrays besides
- * the kernel's working copy: the padded source, its chirped copy that is transformed, and the whole
- * output lattice the window is cut from (single-fft.ts).
- */
-function costSingleFft(axes: AxisPlan[], layout: Layout): { memory: number; work: number } {
-  const base = costFft(axes, layout);
-  if (layout !== 'two-d') return base;
-  const np = axes.reduce((p, a) => p * a.paddedSamples, 1);
-  return { memory: base.memory + 32 * np, work: base.work };
-}
-
-function costDirect(axes: AxisPlan[], layout: Layout, farField: boolean): { memory: number; work: number } {
-  const m = axes.reduce((p, a) => p * a.output.n, 1);
-  if (layout !== 'two-d') {
-    const mem = axes.reduce((s, a) => s + 16 * (2 * a.inputSamples + 2 * a.output.n), 0);
-    const work = axes.reduce((s, a) => s + 8 * a.inputSamples * (farField && layout === 'separable' ? m : a.output.n), 0);
-    return { memory: BASELINE_MEMORY + mem + 64 * (layout === 'separable' ? m : 0), work: work + 20 * m };
-  }
-  const [x, y] = axes as [AxisPlan, AxisPlan];
-  const nin = x.inputSamples * y.inputSamples;
-  const mem = 16 * (2 * nin + x.output.n * x.inputSamples + y.output.n * y.inputSamples + y.inputSamples * x.output.n) + 64 * m;
-  const separableWork = 8 * (nin * x.output.n + y.output.n * y.inputSamples * x.output.n);
-  // The far field at wide angles is evaluated point by point (the fast separable path is used when
-  // the mapping error allows; the estimate takes the slow path).
-  const work = farField ? 8 * nin * m : separableWork;
-  return { memory: BASELINE_MEMORY + mem, work };
-}
-
-/**
- * The far-field formula's cost by the path direct.ts takes: a 1-D sum per output sample; for
- * separable apertures each factor's spectrum tabulated (steps of 1/(32·reach)) and interpolated;
- * for round untilted apertures one radial line of the spectrum, interpolated; otherwise, where
- * x/(λr) ≈ x/(λz) holds across the aperture (mappingError), two matrix products, else a sum per
- * output point.
- */
-function costFarField(axes: AxisPlan[], layout: Layout, g: Geometry, c: Case): { memory: number; work: number } {
-  const m = axes.reduce((p, a) => p * a.output.n, 1);
-  const table = (a: AxisPlan) => {
-    const reach = a.apertureHalf + a.inputPitch;
-    const fSpan = (2 * (Math.abs(a.windowCentre) + a.windowHalf)) / (g.lam * g.z);
-    return Math.ceil(32 * reach * fSpan) + 5;
-  };
-  if (layout === 'one-d') {
-    const a = axes[0]!;
-    return { memory: BASELINE_MEMORY + 16 * (2 * a.inputSamples + 2 * a.output.n), work: 8 * a.inputSamples * a.output.n + 20 * m };
-  }
-  if (layout === 'separable') {
-    const mem = axes.reduce((s, a) => s + 16 * (2 * a.inputSamples + table(a)), 0);
-    return { memory: BASELINE_MEMORY + mem + 64 * m, work: axes.reduce((s, a) => s + 8 * a.inputSamples * table(a), 0) + 60 * m };
-  }
-  const [x, y] = axes as [AxisPlan, AxisPlan];
-  const nin = x.inputSamples * y.inputSamples;
-  const mem = BASELINE_MEMORY + 16 * (2 * nin + x.output.n * x.inputSamples + y.output.n * y.inputSamples + y.inputSamples * x.output.n) + 64 * m;
-  const untilted = c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0;
-  if (untilted && (c.aperture.shape === 'circle' || c.aperture.shape === 'annulus')) {
-    // The line reaches as far as the source grid does (direct.ts: its whole extent, not the aperture's).
-    const reach = Math.max(((x.inputSamples - 1) / 2) * x.inputPitch, ((y.inputSamples - 1) / 2) * y.inputPitch) + x.inputPitch;
-    const fMax = (Math.SQRT2 * Math.max(x.windowHalf, y.windowHalf)) / (g.lam * g.z);
-    const entries = Math.ceil(32 * reach * fMax) + 5;
-    // The radial line is one dft2 onto (entries × 1) frequencies: its kernel (entries × nx), the
-    // row pass (ny × entries), the line and its frequencies (direct.ts radialFarFieldSpectrum).
-    const line = 16 * entries * (x.inputSamples + y.inputSamples + 2) + 8 * entries;
-    return { memory: mem + line, work: 8 * nin * entries + 40 * m };
-  }
-  const outX = x.output;
-  const outY = y.output;
-  if (mappingError([x.apertureHalf, y.apertureHalf], g.z, outX, outY, g.lam) <= 1e-4) {
-    return { memory: mem, work: 8 * (nin * x.output.n + y.output.n * y.inputSamples * x.output.n) + 40 * m };
-  }
-  // Wide windows: the spectrum tabulated once and interpolated (spectrum-table.ts).
-  const t = costFarFieldTable({ nx: x.inputSamples, ny: y.inputSamples, dx: x.inputPitch, dy: y.inputPitch }, farFieldBand(outX, outY, g.z, g.lam, g.carrier), m);
-  return { memory: BASELINE_MEMORY + 32 * nin + t.memory + 64 * m, work: t.work + 40 * m };
-}
-
-function samplingReasons(method: MethodName, form: MethodForm | undefined, axes: AxisPlan[], oneD: boolean): string[] {
+function samplingReasons(d: MethodDescriptor, axes: AxisPlan[], oneD: boolean): string[] {
   const names = oneD ? ['x'] : ['x', 'y'];
   const out: string[] = [];
   axes.forEach((a, i) => {
     const axis = names[i];
-    const fft = method === 'angular-spectrum' || form === 'transfer-function';
+    const fft = d.grid === 'transfer';
     let tail: string;
     if (fft) tail = `${a.inputSamples} samples zero-padded to ${a.paddedSamples}; output ${a.output.n} samples at the same pitch.`;
-    else if (form === 'single-fft') tail = `${a.inputSamples} samples over the illuminated aperture, zero-padded to ${a.paddedSamples} so that the output lattice λz/(NΔx) is ${len(a.output.step)}; ${a.output.n} samples in the window.`;
-    else if (method === 'rayleigh-sommerfeld') tail = `${a.inputSamples} cells; output ${a.output.n} samples at ${len(a.output.step)}.`;
+    else if (d.grid === 'single-fft') tail = `${a.inputSamples} samples over the illuminated aperture, zero-padded to ${a.paddedSamples} so that the output lattice λz/(NΔx) is ${len(a.output.step)}; ${a.output.n} samples in the window.`;
+    else if (d.apertureCells) tail = `${a.inputSamples} cells; output ${a.output.n} samples at ${len(a.output.step)}.`;
     else tail = `${a.inputSamples} samples over the illuminated aperture; output ${a.output.n} samples at ${len(a.output.step)}.`;
-    out.push(`${axis}: aperture-plane ${method === 'rayleigh-sommerfeld' ? 'cells' : 'pitch'} ${len(a.inputPitch)} (${a.pitchRule}); ${tail}`);
+    out.push(`${axis}: aperture-plane ${d.apertureCells ? 'cells' : 'pitch'} ${len(a.inputPitch)} (${a.pitchRule}); ${tail}`);
   });
   return out;
 }
 
-/** A valid method that fits, other than `not`, to advise; null if there is none. */
-function advisable(options: MethodOption[], not: MethodName): MethodOption | null {
-  const ok = options.filter((o) => o.valid && o.fits && o.method !== not);
-  if (ok.length === 0) return null;
-  return ok.reduce((b, o) => ((o.work ?? Infinity) < (b.work ?? Infinity) ? o : b));
-}
-
-function adviceFor(options: MethodOption[], not: MethodName): string {
-  const a = advisable(options, not);
-  return a ? `use method: ${a.method} (valid here, and it fits)` : 'no valid method fits this case as given: narrow the window, or raise --max-memory or pass --accept-large';
-}
-
 function preChecks(
   c: Case,
-  method: MethodName,
-  form: MethodForm | undefined,
+  d: MethodDescriptor,
   checks: Checks,
   axes: AxisPlan[],
   g: Geometry,
@@ -1086,7 +508,7 @@ function preChecks(
       message: `the screen is only ${fmt(g.z / g.lam, 2)} λ from the aperture: the evanescent near field of the real screen (its thickness, material and polarisation) dominates there, which scalar diffraction does not describe; a rigorous vector method is needed for quantitative results`,
     });
   }
-  if (checks.samplesPerFeature < LIMITS.minSamplesPerFeature && method !== 'rayleigh-sommerfeld') {
+  if (checks.samplesPerFeature < LIMITS.minSamplesPerFeature && !d.apertureCells) {
     w.push({
       code: 'undersampled-feature',
       message: `only ${fmt(checks.samplesPerFeature, 2)} samples across the smallest feature (${len(g.facts.minFeature)}); at least ${LIMITS.minSamplesPerFeature} are needed for its edges to be resolved`,
@@ -1101,7 +523,7 @@ function preChecks(
       break;
     }
   }
-  const fft = method === 'angular-spectrum' || form === 'transfer-function';
+  const fft = d.grid === 'transfer';
   if (fft) {
     for (const a of axes) {
       const span = a.inputSamples * a.inputPitch;
@@ -1121,19 +543,9 @@ function preChecks(
       }
     }
   }
-  if (method === 'fresnel' && checks.paraxialPhaseError > (g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase)) {
-    const at = checks.paraxialWorst!;
-    w.push({
-      code: 'paraxial',
-      message: `the Fresnel (paraxial) approximation is off where light lands: at (${len(at.at[0])}${g.oneD ? '' : `, ${len(at.at[1])}`}) it drops ${fmt(at.phase, 2)} rad of phase across the aperture where the light is ${pct(at.weight)} of the peak (weighted ${fmt(checks.paraxialPhaseError, 2)} rad, limit ${g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase} rad; Goodman's sufficient condition ratio ${fmt(checks.goodmanRatio, 2)}): positions and intensities there are off; ${adviceFor(options, 'fresnel')}`,
-    });
-  }
-  if (method === 'fraunhofer' && checks.farFieldPeakError > LIMITS.farFieldPeakErrorWarn) {
-    w.push({
-      code: 'not-far-field',
-      message: `the far-field formula neglects the aperture's quadratic phase π·N_F = ${fmt(checks.farFieldPhaseError, 2)} rad here (N_F = ${fmt(checks.effectiveFresnelNumber, 3)}; far field from ${len(checks.farFieldDistance)}), about ${pct(checks.farFieldPeakError)} at the peak: the pattern is not yet the far-field one; ${adviceFor(options, 'fraunhofer')}`,
-    });
-  }
+  // The form used where it is not valid (a method the job asks for): what is off, and what to use.
+  const use = d.useWarning?.({ checks, g, options });
+  if (use) w.push(use);
   if (checks.transferSampling !== undefined && checks.transferSampling < 1) {
     w.push({
       code: 'transfer-undersampled',

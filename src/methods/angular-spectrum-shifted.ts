@@ -1,0 +1,78 @@
+// The angular spectrum in the frame of a tilted beam (src/optics/shifted-spectrum.ts): the carrier
+// taken out of the source, the grid shifted to where the beam lands.
+import { fftAxis } from '../optics/field.js';
+import { nextPowerOfTwo } from '../optics/fft.js';
+import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor } from '../optics/shifted-spectrum.js';
+import { axisPlan, windowOn } from '../plan/axis-plans.js';
+import { costFft } from '../plan/costs.js';
+import { featureSamples, oversampling, type Geometry } from '../plan/geometry.js';
+import { illuminatedEdgeWeight } from '../plan/light.js';
+import { LIMITS } from '../plan/limits.js';
+import type { Case, Layout } from '../plan/types.js';
+import { bandLimitChecks } from './angular-spectrum.js';
+import type { MethodDescriptor, Sampling } from './types.js';
+import { angularSpectrumValidity } from './validity.js';
+
+export const angularSpectrumShifted: MethodDescriptor = {
+  id: 'angular-spectrum-shifted',
+  method: 'angular-spectrum',
+  form: 'shifted',
+  grid: 'transfer',
+  // Its propagation (propagateShiftedSpectrum) transforms the source each time: no spectrum is kept.
+  sharesSourceSpectrum: false,
+  apertureCells: false,
+  closedForm: false,
+  validity: angularSpectrumValidity,
+  sample: shiftedSampling,
+  words: { method: 'angular spectrum', form: 'in the tilted beam\'s frame, the grid shifted to where it lands' },
+  checks: bandLimitChecks,
+};
+
+/**
+ * The angular spectrum in the frame of a tilted beam (src/optics/shifted-spectrum.ts): the carrier
+ * is taken out of the source and the grid shifted to where the beam lands, so the grid is as large
+ * as the beam, not as the span from the aperture to the window, and its pitch resolves the
+ * envelope, not the carrier. For one tilted beam (a plain aperture); a grating's orders go in many
+ * directions at once.
+ */
+function shiftedSampling(g: Geometry, c: Case): Sampling | null {
+  const layout: Layout = g.oneD ? 'one-d' : 'two-d';
+  const tilted = g.carrier[0] !== 0 || (!g.oneD && g.carrier[1] !== 0);
+  if (!tilted || g.model.propagating.length !== 1 || c.grid?.size) return null;
+  const lam = g.lam;
+  const carrier: [number, number] = [g.carrier[0], g.oneD ? 0 : g.carrier[1]];
+  const feature = g.facts.minFeature / featureSamples(g, false);
+  const beamPitch = Number.isFinite(g.waist) ? g.waist / 8 : Infinity;
+  const maxPitch: [number, number] = [Math.min(feature, beamPitch), Math.min(feature, beamPitch)];
+  let grid;
+  try {
+    grid = shiftedGridFor({
+      wavelength: lam,
+      z: g.z,
+      carrier,
+      centre: [g.centre[0], g.oneD ? 0 : g.centre[1]],
+      footprint: [g.aEff[0], g.oneD ? 0 : g.aEff[1]],
+      window: [g.windowHalf[0], g.oneD ? 0 : g.windowHalf[1]],
+      oneD: g.oneD,
+      samplesPerPeriod: oversampling(g, false),
+      maxPitch,
+      ...(c.grid?.pitch ? { pitch: [c.grid.pitch, c.grid.pitch] as [number, number] } : {}),
+      tail: Number.isFinite(g.waist) && illuminatedEdgeWeight(g.facts, g.waist, g.oneD) < 1e-4 ? gaussianSpectrumTail(g.waist) : edgeSpectrumTail(g.model.beamEdgesPerPower),
+      target: LIMITS.bandLimitTarget,
+      maxSamples: g.oneD ? 1 << 24 : 1 << 16,
+    });
+  } catch {
+    return null;
+  }
+  const axes = (g.oneD ? [0] : [0, 1]).map((i) => {
+    const p = grid.pitch[i]!;
+    const padded = grid.samples[i]!;
+    const n = Math.min(padded, nextPowerOfTwo(Math.ceil((2 * g.aEff[i]!) / p) + 2));
+    // The output lattice is the grid's own, shifted by the centre.
+    const lattice = fftAxis(padded, p);
+    const output = windowOn({ n: lattice.n, start: lattice.start + grid.centre[i]!, step: p }, g.centre[i]!, g.windowHalf[i]!);
+    const rule = { pitch: p, required: Math.min(p, maxPitch[i]!), rule: `the tilted beam's envelope, sampled in its own frame (the carrier taken out)` };
+    return axisPlan(g, i, rule, n, padded, output);
+  });
+  return { axes, layout, ...costFft(axes, layout), shifted: { centre: grid.centre, taper: grid.taper, bandTaper: grid.bandTaper } };
+}

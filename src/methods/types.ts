@@ -1,0 +1,92 @@
+// One propagation method (or one form of it) as the rest of the program sees it: what it is
+// called, what kind of grid it computes on, where it is valid, how it is sampled and what that
+// costs, how it is put in words, and how it propagates. The registry (registry.ts) lists them.
+import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOption, Plan, Warning } from '../plan/types.js';
+import type { Geometry } from '../plan/geometry.js';
+
+/**
+ * How a form computes, as the planner's checks, the source-spectrum sharing and the scheduler
+ * ask it:
+ * - 'transfer': the source on a padded FFT grid, a transfer function, the output on the same
+ *   lattice (the angular spectrum, also in a tilted beam's frame; Fresnel's transfer function);
+ * - 'single-fft': the source zero-padded onto an FFT grid, one transform onto the lattice λz/(NΔx);
+ * - 'direct': sums from the aperture's samples or cells onto the window's own axis.
+ */
+export type GridKind = 'transfer' | 'single-fft' | 'direct';
+
+/** One way of sampling a case with a method: the axes, the layout and what it costs. */
+export interface Sampling {
+  /** Set when a size the sampling needs cannot exist (see impossibleSize in the planner). */
+  impossible?: string;
+  axes: AxisPlan[];
+  layout: Layout;
+  memory: number;
+  work: number;
+  shifted?: Plan['shifted'];
+  exact2D?: Plan['exact2D'];
+}
+
+/** A method's validity where the light lands. */
+export interface Validity {
+  valid: boolean;
+  /** Why it is not valid. */
+  why?: string;
+  /** Why it is valid (for the reasons). */
+  because: string;
+}
+
+/** What the planner knows before it samples, for the validity of each method. */
+export interface ValidityInputs {
+  g: Geometry;
+  /** The paraxial approximation's error where the light lands (plan/paraxial.ts), weighted, rad. */
+  paraxialError: number;
+  /** Where it is largest: the point, the unweighted phase variation there and the weight. */
+  paraxial: { at: [number, number]; phase: number; weight: number };
+  /** The aperture's quadratic phase π·N_F the far-field formula neglects, rad. */
+  farFieldPhase: number;
+  /** The far-field formula's estimated relative error at the peak. */
+  farFieldError: number;
+}
+
+/** What a form's check on its own use needs: the plan's checks, the geometry, and the options for advice. */
+export interface UseCheckInputs {
+  checks: Checks;
+  g: Geometry;
+  options: MethodOption[];
+}
+
+export interface MethodDescriptor {
+  /** The file's name, for messages and tests. */
+  id: string;
+  method: MethodName;
+  /** The plan's form (absent for a method with one form, or its axis-centred form). */
+  form?: MethodForm;
+  grid: GridKind;
+  /**
+   * The padded source's spectrum does not depend on the distance: cases of a sweep in distance on
+   * one grid can share it (plan/share.ts).
+   */
+  sharesSourceSpectrum: boolean;
+  /** The aperture is divided into cells with exact edges, not sampled: words, and no samples-per-feature check. */
+  apertureCells: boolean;
+  /**
+   * A closed form a practitioner checks by hand (the far-field formula, Fresnel): preferred, in
+   * registry order, to the cheapest exact form unless it costs more than 20× that.
+   */
+  closedForm: boolean;
+  /** Where the method is valid (the same for every form of a method). */
+  validity(v: ValidityInputs): Validity;
+  /** The form's sampling and cost for this case, or null where the form does not apply. */
+  sample(g: Geometry, c: Case): Sampling | null;
+  /** The method's name in words, and the form's (in parentheses after it). */
+  words: { method: string; form?: string };
+  /** Checks of the chosen form's own sampling, added to the plan's checks. */
+  checks?(axes: AxisPlan[], g: Geometry): Partial<Checks>;
+  /** A warning when the form is used where it is not valid (a method the job asks for). */
+  useWarning?(v: UseCheckInputs): Warning | null;
+  /**
+   * Where several descriptors share a method and form (the exact integral's direct sums: 1-D
+   * cells, 2-D area cells, 2-D edge cells), whether a plan is this one's.
+   */
+  claims?(plan: Plan): boolean;
+}

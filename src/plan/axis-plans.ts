@@ -1,0 +1,143 @@
+// The sampling of one axis: the pitch the accuracy rules ask for, the aperture-plane samples (or
+// cells), the padded FFT grid and the output window. The methods (src/methods/) pick the rules
+// that apply to them; the arithmetic of grids and windows is here, once.
+import { centredAxis, fftAxis, type Axis } from '../optics/field.js';
+import { nextPowerOfTwo } from '../optics/fft.js';
+import type { Case, AxisPlan } from './types.js';
+import { LIMITS } from './limits.js';
+import { featureSamples, oversampling, type Geometry } from './geometry.js';
+import { fmt, len } from './words.js';
+
+/** A pitch rule: the pitch and, in words, why. */
+export interface PitchRule {
+  pitch: number;
+  rule: string;
+}
+
+export function axisPlan(g: Geometry, i: number, p: { pitch: number; required: number; rule: string }, n: number, padded: number, output: Axis): AxisPlan {
+  return {
+    inputPitch: p.pitch,
+    inputSamples: n,
+    paddedSamples: padded,
+    output,
+    apertureHalf: g.aEff[i]!,
+    windowHalf: g.windowHalf[i]!,
+    windowCentre: g.centre[i]!,
+    requiredPitch: p.required,
+    pitchRule: p.rule,
+  };
+}
+
+export function pitchFor(g: Geometry, c: Case, contentRule: PitchRule, featureSamples: number) {
+  const rules: PitchRule[] = [
+    { pitch: g.facts.minFeature / featureSamples, rule: `${featureSamples} samples across the smallest feature (${len(g.facts.minFeature)})` },
+    contentRule,
+  ];
+  if (Number.isFinite(g.waist)) rules.push({ pitch: g.waist / 8, rule: `8 samples per beam radius (${len(g.waist)})` });
+  let best = rules[0]!;
+  for (const r of rules) if (r.pitch < best.pitch) best = r;
+  const required = best.pitch;
+  if (c.grid?.pitch) return { pitch: c.grid.pitch, required, rule: `grid.pitch as given (the accuracy rules ask for ${len(required)}: ${best.rule})` };
+  return { pitch: required, required, rule: best.rule };
+}
+
+/** The samples of a lattice that fall inside [centre − half, centre + half]. */
+export function windowOn(full: Axis, centre: number, half: number): Axis {
+  const lo = Math.max(0, Math.ceil((centre - half - full.start) / full.step - 1e-9));
+  const hi = Math.min(full.n - 1, Math.floor((centre + half - full.start) / full.step + 1e-9));
+  return { n: hi - lo + 1, start: full.start + lo * full.step, step: full.step };
+}
+
+/**
+ * An FFT grid. `content` is the method's rule for the highest spatial frequency that reaches the
+ * window; `padding` the zero-padding factor for a grid of the given width. The grid holds the
+ * illuminated aperture (a Gaussian beam narrower than the aperture is cut at e⁻⁹ of its amplitude)
+ * and the window; the output is the window cut out of the padded grid, on the same pitch.
+ */
+export function fftAxisPlan(g: Geometry, i: number, c: Case, content: PitchRule, factorises: boolean, padding: (width: number) => number): AxisPlan {
+  let contentRule = content;
+  // The output of an FFT method is on the input's lattice: a detector needs ten samples across.
+  const detector = Math.min(Infinity, ...c.analysis.detectors.map((det) => det.size / 10));
+  if (detector < contentRule.pitch) contentRule = { pitch: detector, rule: `ten samples across the smallest detector (${len(10 * detector)})` };
+  const p = pitchFor(g, c, contentRule, featureSamples(g, factorises));
+  const half = Math.max(g.aEff[i]!, Math.abs(g.centre[i]!) + g.windowHalf[i]!);
+  const minN = g.oneD ? LIMITS.minSamples1D : LIMITS.minSamples2D;
+  const n = c.grid?.size ?? Math.max(minN, nextPowerOfTwo(Math.ceil((2 * half) / p.pitch) + 2));
+  const padded = n * padding(n * p.pitch);
+  const output = windowOn(fftAxis(padded, p.pitch), g.centre[i]!, g.windowHalf[i]!);
+  return axisPlan(g, i, p, n, padded, output);
+}
+
+/**
+ * A direct sum onto the window: the aperture sampled at the method's content rule (with `margin`
+ * extra samples each side), the output at four times the intensity's Nyquist rate (or ten samples
+ * across the smallest detector) over the window.
+ */
+export function directAxisPlan(g: Geometry, i: number, c: Case, content: PitchRule, factorises: boolean, margin: number): AxisPlan {
+  const p = pitchFor(g, c, content, featureSamples(g, factorises));
+  const nIn = c.grid?.size ?? 2 * (Math.ceil(g.aEff[i]! / p.pitch + 0.5) + margin) + 1;
+  // Output pitch: the intensity is band-limited to D/(λz) (D the illuminated width), so
+  // λz/(8D) is 4× its Nyquist rate.
+  const d = 2 * g.aEff[i]!;
+  const nyquist = (g.lam * g.z) / (2 * d);
+  // A detector is read off the map: ten samples across the smallest keep its reading within a
+  // fraction of a per cent (its rim cuts cells, which are sub-sampled).
+  const detector = Math.min(Infinity, ...c.analysis.detectors.map((det) => det.size / 10));
+  const wanted = Math.min(nyquist / 4, detector);
+  const [minM, maxM] = [g.minOutput, g.oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D];
+  let m = Math.ceil((2 * g.windowHalf[i]!) / wanted) + 1;
+  m = Math.min(maxM, Math.max(minM, m));
+  if (m % 2 === 0) m += 1;
+  const output = centredAxis(m, (2 * g.windowHalf[i]!) / (m - 1), g.centre[i]!);
+  return axisPlan(g, i, p, nIn, nIn, output);
+}
+
+/** The span from the far side of the illuminated aperture to the far edge of the window. */
+function reachOf(g: Geometry, i: number): number {
+  return g.windowHalf[i]! + Math.abs(g.centre[i]!) + g.aEff[i]!;
+}
+
+/**
+ * The Fresnel integrand's samples (direct and single-FFT forms): q× its highest frequency; the
+ * form corrects the cell response on its own source grid and needs a margin for it.
+ */
+export function fresnelDirectAxisPlan(g: Geometry, i: number, c: Case): AxisPlan {
+  const q = oversampling(g, true);
+  const reach = reachOf(g, i);
+  const content = { pitch: (g.lam * g.z) / (q * reach), rule: `${q}× the highest frequency of the Fresnel integrand, λz/(${q}·${len(reach)})` };
+  return directAxisPlan(g, i, c, content, true, LIMITS.compensationMargin);
+}
+
+/**
+ * Direct sums in direction cosines (the far-field formula, the exact integral's output axes): q×
+ * the highest direction-cosine frequency in the window.
+ */
+export function directionCosineAxisPlan(g: Geometry, i: number, c: Case, factorises: boolean): AxisPlan {
+  const q = oversampling(g, factorises);
+  const fmax = farFieldMaxFrequency(g, i);
+  const content = { pitch: 1 / (q * fmax), rule: `${q}× the highest direction-cosine frequency in the window (${fmt(fmax * g.lam, 3)}/λ)` };
+  return directAxisPlan(g, i, c, content, factorises, 0);
+}
+
+function farFieldMaxFrequency(g: Geometry, i: number): number {
+  // |x/(λr) − α/λ| at the two window edges, with the other coordinate at its window centre.
+  let worst = 0;
+  for (const s of [-1, 1]) {
+    const x = g.centre[i]! + s * g.windowHalf[i]!;
+    const other = g.oneD ? 0 : g.centre[1 - i]!;
+    const r = Math.sqrt(x * x + other * other + g.z * g.z);
+    worst = Math.max(worst, Math.abs(x / (g.lam * r) - g.carrier[i]!));
+  }
+  return Math.max(worst, 1e-30);
+}
+
+/**
+ * The single-FFT form samples the aperture like the direct form, zero-pads to n and lands on the
+ * lattice λz/(nΔx): n is the power of two that makes that pitch at least as fine as the direct form's.
+ */
+export function singleFftAxisPlan(g: Geometry, d: AxisPlan): AxisPlan {
+  const target = Math.min(d.output.step, (2 * d.windowHalf) / (g.minOutput - 1));
+  const n = nextPowerOfTwo(Math.max(d.inputSamples + 2, Math.ceil((g.lam * g.z) / (d.inputPitch * target))));
+  const output = windowOn(fftAxis(n, (g.lam * g.z) / (n * d.inputPitch)), d.windowCentre, d.windowHalf);
+  return { ...d, paddedSamples: n, output };
+}
