@@ -85,15 +85,44 @@ export interface ZernikeTerm {
 }
 
 function prepareAll(terms: readonly ZernikeTerm[]): PreparedTerm[] {
-  return terms.filter((t) => t.rms !== 0).map((t) => prepare(t.j, t.rms));
+  // Sorted by |m|: waveAt then only advances its powers of (u + iv).
+  return terms
+    .filter((t) => t.rms !== 0)
+    .map((t) => prepare(t.j, t.rms))
+    .sort((a, b) => Math.abs(a.m) - Math.abs(b.m));
 }
 
-/** Σ rms_j Z_j at (x, y) for a pupil of radius R, any point (the polynomial's continuation). */
+/**
+ * Σ rms_j Z_j at (x, y) for a pupil of radius R, any point (the polynomial's continuation). In
+ * Cartesian form, without atan2 or trigonometry: ρ^|m|·cos(mθ) and ρ^|m|·sin(|m|θ) are the real and
+ * imaginary parts of (u + iv)^|m|, u = x/R, v = y/R, so Z_j = norm·P_j(u² + v²)·Re or Im of that power.
+ */
 function waveAt(prepared: readonly PreparedTerm[], radius: number, x: number, y: number): number {
-  const rho = Math.hypot(x, y) / radius;
-  const theta = Math.atan2(y, x);
+  const u = x / radius;
+  const v = y / radius;
+  const r2 = u * u + v * v;
   let w = 0;
-  for (const t of prepared) w += t.weight * evalPrepared(t, rho, theta);
+  // (u + iv)^k, advanced as the terms ask for higher k (terms in any order).
+  let k = 0;
+  let pr = 1;
+  let pi = 0;
+  for (const t of prepared) {
+    let p = 0;
+    for (let i = t.c.length - 1; i >= 0; i--) p = p * r2 + t.c[i]!;
+    const am = Math.abs(t.m);
+    if (am < k) {
+      k = 0;
+      pr = 1;
+      pi = 0;
+    }
+    while (k < am) {
+      const nr = pr * u - pi * v;
+      pi = pr * v + pi * u;
+      pr = nr;
+      k++;
+    }
+    w += t.weight * t.norm * p * (t.m > 0 ? pr : t.m < 0 ? pi : 1);
+  }
   return w;
 }
 
