@@ -5,8 +5,9 @@
 // the way area sampling attenuates it, not aliased from a point value.
 //
 // The Fresnel integrals come from @stdlib (C(t) = ∫₀ᵗ cos(πs²/2) ds, S likewise with sin;
-// Abramowitz & Stegun ch. 7) rather than a series of ours: the library's are accurate to a few
-// units in the last place over the whole axis, asymptotic range included.
+// Abramowitz & Stegun ch. 7) rather than a series and an asymptotic expansion of ours: one
+// well-kept routine covers the whole axis; against quadrature its values are good to a few 1e-16
+// where the phase πt²/2 is small, and beyond that to the rounding of the phase itself.
 import fresnel from '@stdlib/math-base-special-fresnel';
 import { gaussLegendreRule } from './edge-cells.js';
 import { axisAt, type Axis } from './field.js';
