@@ -166,8 +166,8 @@ export function strehlEstimate(rmsWaves: number): number {
  * is N²·max(R′², (mR/ρ)²): the θ-maximum is exact, leaving a 1-D maximum over ρ ∈ [0, 1] of two
  * polynomials of degree d = n − 1 (R′ and mR/ρ; R(0) = 0 when m ≠ 0). They are sampled at K + 1
  * equally spaced radii; both have the parity of d, so their maxima on [0, 1] and [−1, 1] agree, and
- * Markov's inequality on [−1, 1] (|p′| ≤ d²·max|p|; A. A. Markov, 1889, a classical result) bounds
- * what lies between samples: max ≤ sampled / (1 − d²/(2K)). K = 32d² keeps that factor ≤ 1.016.
+ * Markov's inequality on [−1, 1] (|p′| ≤ d²·max|p| for degree d; A. A. Markov, 1889, from memory)
+ * bounds what lies between samples: max ≤ sampled / (1 − d²/(2K)). K = 32d² keeps that factor ≤ 1.016.
  */
 function termSlopeMax(t: PreparedTerm): number {
   const d = t.n - 1;
