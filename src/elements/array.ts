@@ -79,9 +79,11 @@ export function makeArray(kinds: readonly PartKind[]) {
     const n = pts.length;
     const hex = s.layout === 'hexagonal';
     const py = hex ? (s.pitch * Math.sqrt(3)) / 2 : s.pitch;
-    // The narrowest bar between neighbours: along x at the pitch, along y at the row spacing.
+    // The narrowest bar between neighbours: along a row at the pitch; to the next row at the row
+    // spacing, or (hexagonal: the next row is shifted by half a pitch) beside it, whichever is wider.
     const gapX = s.count[0] > 1 ? s.pitch - 2 * f.halfExtent[0] : Infinity;
-    const gapY = s.count[1] > 1 ? py - 2 * f.halfExtent[1] : Infinity;
+    const rowGap = py - 2 * f.halfExtent[1];
+    const gapY = s.count[1] > 1 ? (hex ? Math.max(rowGap, s.pitch / 2 - 2 * f.halfExtent[0]) : rowGap) : Infinity;
     const half: [number, number] = [hx, hy];
     return {
       oneD: false,
@@ -92,7 +94,8 @@ export function makeArray(kinds: readonly PartKind[]) {
       openMeasure: n * f.openMeasure,
       edgeMeasure: n * f.edgeMeasure,
       nearestOpen: nearest,
-      description: describe(s),
+      exactEdges: false,
+    description: describe(s),
     };
   }
 

@@ -16,7 +16,7 @@ import type { ElementKind, ElementSchema, ElementSpec } from './types.js';
 
 /** A part of a combination (or the element of an array): a binary element and where it sits. */
 export interface Placed {
-  element: ElementSpec;
+  element: ElementSpec & Record<string, unknown>;
   at: [number, number];
 }
 
@@ -47,7 +47,7 @@ export type PartJob = { shape: string; opaque: boolean; at: [number, number] } &
 /** Resolve a part's mapping into its element: every value single (checked at load). */
 export function resolvePart(kinds: ReadonlyMap<string, PartKind>, job: PartJob): Placed {
   const kind = kinds.get(job.shape)!;
-  const element = kind.resolve(job, (key) => (job[key] as { values: number[] }).values[0]!);
+  const element = kind.resolve(job, (key) => (job[key] as { values: number[] }).values[0]!) as ElementSpec & Record<string, unknown>;
   return { element, at: job.at };
 }
 
@@ -154,7 +154,8 @@ export function makeCombined(kinds: readonly PartKind[]) {
       openMeasure: open,
       edgeMeasure: edges,
       nearestOpen: nearest,
-      description: describe(s),
+      exactEdges: false,
+    description: describe(s),
     };
   }
 

@@ -50,6 +50,7 @@ function facts(s: Polygon): ApertureFacts {
     openMeasure: f.area,
     edgeMeasure: f.perimeter,
     nearestOpen: nearestOpen(s.vertices),
+    exactEdges: false,
     description: describe(s),
   };
 }

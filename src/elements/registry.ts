@@ -5,13 +5,20 @@ import type { Axis } from '../optics/field.js';
 import { geometryFacts, type ApertureFacts, type ApertureGeometry, type Profile } from '../optics/geometry.js';
 import { sampleGeometry } from '../optics/mask-cells.js';
 import { annulus } from './annulus.js';
+import { makeArray } from './array.js';
 import { circle } from './circle.js';
+import { makeCombined, type PartKind } from './combined.js';
+import { polygon } from './polygon.js';
 import { rectangle } from './rectangle.js';
 import { slit } from './slit.js';
 import { slits } from './slits.js';
 import type { CellTransmittance, ElementKind, ElementSchema, ElementSpec } from './types.js';
 
-export const ELEMENTS = [circle, rectangle, slit, annulus, slits] as const;
+/** The binary openings a combination or an array may be built from. */
+const PARTS = [circle, rectangle, slit, annulus, slits, polygon] as const;
+const parts = PARTS as unknown as readonly PartKind[];
+
+export const ELEMENTS = [...PARTS, makeCombined(parts), makeArray(parts)] as const;
 
 type SpecOf<E> = E extends ElementKind<infer S, infer _Sch> ? S : never;
 /** One case's element (SI units), whichever kind. */

@@ -2,6 +2,7 @@
 // 1-D sums, separable factors' spectra tabulated, a radial line for round untilted apertures, two
 // matrix products where x/(λr) ≈ x/(λz) holds, and on wide windows the spectrum tabulated once and
 // interpolated (src/optics/spectrum-table.ts).
+import { isRound } from '../elements/registry.js';
 import { mappingError } from '../optics/direct.js';
 import { costFarFieldTable, farFieldBand } from '../optics/spectrum-table.js';
 import { directionCosineAxisPlan } from '../plan/axis-plans.js';
@@ -55,7 +56,7 @@ function costFarField(axes: AxisPlan[], layout: Layout, g: Geometry, c: Case): {
   const nin = x.inputSamples * y.inputSamples;
   const mem = BASELINE_MEMORY + 16 * (2 * nin + x.output.n * x.inputSamples + y.output.n * y.inputSamples + y.inputSamples * x.output.n) + 64 * m;
   const untilted = c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0;
-  if (untilted && (c.aperture.shape === 'circle' || c.aperture.shape === 'annulus')) {
+  if (untilted && isRound(c.aperture)) {
     // The line reaches as far as the source grid does (direct.ts: its whole extent, not the aperture's).
     const reach = Math.max(((x.inputSamples - 1) / 2) * x.inputPitch, ((y.inputSamples - 1) / 2) * y.inputPitch) + x.inputPitch;
     const fMax = (Math.SQRT2 * Math.max(x.windowHalf, y.windowHalf)) / (g.lam * g.z);

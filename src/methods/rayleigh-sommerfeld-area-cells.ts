@@ -21,7 +21,8 @@ export const rayleighSommerfeldAreaCells: MethodDescriptor = {
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
-    if (g.oneD || !g.obstructed || uncostedSlits(g, c)) return null;
+    // For an obstacle in a Gaussian beam, and for elements whose edges only their own masks know.
+    if (g.oneD || (!g.obstructed && g.facts.exactEdges) || uncostedSlits(g, c)) return null;
     const cell = exactCell(g, c);
     // Area-sampled edge cells carry their open fraction over the whole cell: the error grows as
     // (pitch·sin θ/λ)² at the steepest ray into the window (rsAreaSamplingError, measured).

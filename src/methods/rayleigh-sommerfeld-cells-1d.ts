@@ -1,5 +1,6 @@
 // The exact integral for a 1-D aperture: cells no wider than the kernel's curvature allows over the
 // open intervals, with exact edges, summed onto the window (src/optics/rayleigh-sommerfeld.ts).
+import { gratingOf } from '../elements/registry.js';
 import { costRsDirect1D } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -18,10 +19,10 @@ export const rayleighSommerfeldCells1D: MethodDescriptor = {
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
     if (!g.oneD) return null;
-    const a = c.aperture;
+    const grating = gratingOf(c.aperture);
     const cell = exactCell(g, c);
     const out = exactOutputAxes(g, c)[0]!;
-    const intervals = a.shape === 'slits' ? a.count : 1;
+    const intervals = grating ? grating.count : 1;
     const open = g.obstructed ? 2 * g.aEff[0] : Number.isFinite(g.waist) ? Math.min(g.facts.openMeasure, 2 * g.aEff[0]) : g.facts.openMeasure;
     const cells = Math.ceil(open / cell) + intervals + (g.obstructed ? 1 : 0);
     const rule = oneDCellRule(cell);

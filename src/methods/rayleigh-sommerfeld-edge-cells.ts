@@ -25,7 +25,9 @@ export const rayleighSommerfeldEdgeCells: MethodDescriptor = {
     // A grating with too many slits to cost gets this form, impossible, in place of every 2-D one.
     const uncosted = uncostedSlits(g, c);
     if (uncosted) return uncosted;
-    if (g.obstructed) return null;
+    // Edge cells are exact for the edges the geometry names (boxes, rings); an element that only
+    // samples itself is summed over area-sampled cells instead (rayleigh-sommerfeld-area-cells.ts).
+    if (g.obstructed || !g.facts.exactEdges) return null;
     const out = exactOutputAxes(g, c);
     const s2 = rs2DSampling(c.aperture, c.illumination, g.lam, g.z, out[0]!.output, out[1]!.output, LIMITS.rsExactTarget);
     const pitch = c.grid?.pitch ? Math.min(c.grid.pitch, s2.pitch) : s2.pitch;

@@ -1,5 +1,6 @@
 // What the exact integral's forms share in planning: the largest cell the kernel's curvature
 // allows, the output axes in direction cosines, and the guard on gratings with too many slits to cost.
+import { gratingOf } from '../elements/registry.js';
 import { rsMaxCell } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan, directionCosineAxisPlan } from '../plan/axis-plans.js';
 import type { Geometry } from '../plan/geometry.js';
@@ -33,9 +34,9 @@ export function exactOutputAxes(g: Geometry, c: Case): AxisPlan[] {
  * Null when the aperture can be costed.
  */
 export function uncostedSlits(g: Geometry, c: Case): Sampling | null {
-  const a = c.aperture;
+  const a = gratingOf(c.aperture);
   const cell = exactCell(g, c);
-  if (a.shape === 'slits' && a.count > MAX_COSTED_SLITS) {
+  if (a && a.count > MAX_COSTED_SLITS) {
     const out = [0, 1].map((i) => directionCosineAxisPlan(g, i, c, false));
     const rule = { pitch: cell, required: cell, rule: `not costed: more than ${MAX_COSTED_SLITS} slits` };
     const axes = [0, 1].map((i) => axisPlan(g, i, rule, 1, 1, out[i]!.output));

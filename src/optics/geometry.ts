@@ -65,6 +65,12 @@ export interface ApertureFacts {
    * and narrower than this passes almost nothing.
    */
   nearestOpen: number;
+  /**
+   * The exact methods know its edges (a product of intervals, or rings): boxes, exact edge cells
+   * and the boundary form apply. False for elements that only sample themselves (polygons,
+   * combinations, arrays), which the exact integral takes as area-sampled cells.
+   */
+  exactEdges: boolean;
   description: string;
 }
 
@@ -88,6 +94,7 @@ export function geometryFacts(g: ApertureGeometry, description: string): Apertur
         openMeasure: fx.open,
         edgeMeasure: fx.edges,
         nearestOpen: nearestOpenOf(g.x),
+        exactEdges: true,
         description,
       };
     }
@@ -102,6 +109,7 @@ export function geometryFacts(g: ApertureGeometry, description: string): Apertur
       // Each x-edge runs the open length along y and vice versa.
       edgeMeasure: fx.edges * fy.open + fy.edges * fx.open,
       nearestOpen: nearestOpenOf(g.x),
+      exactEdges: true,
       description,
     };
   }
@@ -118,6 +126,7 @@ export function geometryFacts(g: ApertureGeometry, description: string): Apertur
       openMeasure: Math.PI * ro * ro,
       edgeMeasure: 2 * Math.PI * ro,
       nearestOpen: 0,
+      exactEdges: true,
       description,
     };
   }
@@ -132,6 +141,7 @@ export function geometryFacts(g: ApertureGeometry, description: string): Apertur
     openMeasure: Math.PI * (ro * ro - ri * ri),
     edgeMeasure: 2 * Math.PI * (ro + ri),
     nearestOpen: ri,
+    exactEdges: true,
     description,
   };
 }

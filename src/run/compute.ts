@@ -1,6 +1,6 @@
 // Carries out a plan: builds the source field, propagates it with the planned method and layout,
 // cuts out the window and measures the numerical diagnostics the validity checks need.
-import { apertureFacts, isOneDAperture, separableProfiles } from '../optics/aperture.js';
+import { apertureFacts, isOneDAperture, isRound, separableProfiles } from '../optics/aperture.js';
 import { boundaryRegionsOf, rsBoundary } from '../optics/rs-boundary.js';
 import { centredAxis, createField, fftAxis, intensityOf, powerOf, releaseSamples, type Axis, type Field } from '../optics/field.js';
 import { propagateFarField, propagateFarFieldSeparable, propagateFresnelDirect } from '../optics/direct.js';
@@ -375,7 +375,7 @@ export function computeCase(plan: Plan): ComputedCase {
       result = { field: propagateFresnelDirect(src, z, outX, outY, carrier) };
     } else {
       // A centred round aperture in an untilted beam has a radially symmetric spectrum.
-      const radial = (c.aperture.shape === 'circle' || c.aperture.shape === 'annulus') && ill.tilt[0] === 0 && ill.tilt[1] === 0;
+      const radial = isRound(c.aperture) && ill.tilt[0] === 0 && ill.tilt[1] === 0;
       result = { field: propagateFarField(src, z, outX, outY, carrier, { radial }) };
     }
   }

@@ -2,7 +2,7 @@
 // test/helpers.ts runCase does, and compared with the exact references of test/reference/.
 // Used by random-cases.test.ts (the property test) and, with SPOTCAST_RANDOM_REPORT=1, to print
 // every case (see the test file's header).
-import type { Aperture, Illumination } from '../../src/optics/aperture.js';
+import { apertureFacts, describe as describeAperture, type Aperture, type Illumination } from '../../src/optics/aperture.js';
 import { fork, type ChildProcess } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import type { Plan } from '../../src/plan/types.js';
@@ -100,6 +100,8 @@ function apertureHalf(a: Aperture): number {
       return a.width / 2;
     case 'slits':
       return ((a.count - 1) * a.period + a.width) / 2;
+    default:
+      return apertureFacts(a).halfExtent[0];
   }
 }
 
@@ -312,6 +314,8 @@ export function describeCase(s: CaseSpec): string {
     case 'slits':
       ap = `${o}slits ${a.count} × width ${len(a.width)} period ${len(a.period)}${a.length ? ` length ${len(a.length)}` : ''}`;
       break;
+    default:
+      ap = describeAperture(a);
   }
   const ill = s.illumination!;
   const tilt = ill.tilt[0] !== 0 ? ` tilt ${deg(ill.tilt[0])}` : '';

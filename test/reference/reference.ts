@@ -66,7 +66,89 @@ export function regionsOf(a: Aperture): SignedRegion[] {
       const h = (a.length ?? NaN) / 2;
       return xIntervals(a).map(([x0, x1]) => ({ region: { kind: 'rect', x0, x1, y0: -h, y1: h }, sign: 1 }));
     }
+    default: {
+      const rects = placedRects(a);
+      if (!rects) throw new Error(`no regions for ${a.shape}`);
+      return rects.map(([x0, x1, y0, y1, sign]) => ({ region: { kind: 'rect', x0, x1, y0, y1 }, sign }));
+    }
   }
+}
+
+type SignedRect = [number, number, number, number, 1 | -1];
+
+/**
+ * Polygons, combinations and arrays as signed axis-aligned rectangles, where they are made of
+ * them: a rectilinear polygon cut into horizontal slabs (between consecutive vertex heights the
+ * vertical edges crossing the slab bound its open intervals, paired left to right); a combination
+ * of rectangles (and rectilinear polygons) as its added parts (+) and cut parts (−), which the
+ * draw keeps disjoint and inside respectively; an array of rectangles as its copies, at the
+ * lattice of the job's definition (rectangular, or hexagonal: rows √3/2 of the pitch apart, every
+ * other one shifted by ±¼ pitch). Null for anything else (no exact reference here).
+ */
+export function placedRects(a: Aperture): SignedRect[] | null {
+  const shift = (r: SignedRect[], dx: number, dy: number, sign: 1 | -1): SignedRect[] =>
+    r.map(([x0, x1, y0, y1, s]) => [x0 + dx, x1 + dx, y0 + dy, y1 + dy, (s * sign) as 1 | -1]);
+  const own = (e: { shape: string } & Record<string, unknown>): SignedRect[] | null => {
+    if (e.shape === 'rectangle') {
+      const w = e.width as number;
+      const h = e.height as number;
+      return [[-w / 2, w / 2, -h / 2, h / 2, 1]];
+    }
+    if (e.shape === 'polygon') return rectilinearSlabs(e.vertices as [number, number][]);
+    return null;
+  };
+  if (a.shape === 'polygon') return rectilinearSlabs(a.vertices);
+  if (a.shape === 'combined') {
+    const out: SignedRect[] = [];
+    for (const [list, sign] of [[a.add, 1], [a.cut, -1]] as const) {
+      for (const p of list) {
+        const r = own(p.element);
+        if (!r) return null;
+        out.push(...shift(r, p.at[0], p.at[1], sign));
+      }
+    }
+    return out;
+  }
+  if (a.shape === 'array') {
+    const r = own(a.of.element);
+    if (!r) return null;
+    const [nx, ny] = a.count;
+    const hex = a.layout === 'hexagonal';
+    const out: SignedRect[] = [];
+    for (let j = 0; j < ny; j++) {
+      const off = hex && ny > 1 ? (j % 2 === 0 ? -0.25 : 0.25) * a.pitch : 0;
+      const y = (j - (ny - 1) / 2) * a.pitch * (hex ? Math.sqrt(3) / 2 : 1);
+      for (let i = 0; i < nx; i++) out.push(...shift(r, (i - (nx - 1) / 2) * a.pitch + off + a.of.at[0], y + a.of.at[1], 1));
+    }
+    return out;
+  }
+  return null;
+}
+
+/** A rectilinear polygon's horizontal slabs as rectangles; null when an edge is not axis-aligned. */
+function rectilinearSlabs(v: readonly [number, number][]): SignedRect[] | null {
+  const n = v.length;
+  for (let i = 0; i < n; i++) {
+    const [x1, y1] = v[i]!;
+    const [x2, y2] = v[(i + 1) % n]!;
+    if (x1 !== x2 && y1 !== y2) return null;
+  }
+  const ys = [...new Set(v.map((p) => p[1]))].sort((p, q) => p - q);
+  const out: SignedRect[] = [];
+  for (let k = 0; k + 1 < ys.length; k++) {
+    const y0 = ys[k]!;
+    const y1 = ys[k + 1]!;
+    const mid = (y0 + y1) / 2;
+    const xs: number[] = [];
+    for (let i = 0; i < n; i++) {
+      const [xa, ya] = v[i]!;
+      const [xb, yb] = v[(i + 1) % n]!;
+      if (xa === xb && Math.min(ya, yb) < mid && mid < Math.max(ya, yb)) xs.push(xa);
+    }
+    xs.sort((p, q) => p - q);
+    for (let i = 0; i + 1 < xs.length; i += 2) out.push([xs[i]!, xs[i + 1]!, y0, y1, 1]);
+  }
+  return out;
 }
 
 function lightOf(ill: Illumination) {
@@ -88,6 +170,15 @@ function halfExtent(a: Aperture): [number, number] {
       return [a.width / 2, (a.length ?? 0) / 2];
     case 'slits':
       return [((a.count - 1) * a.period + a.width) / 2, (a.length ?? 0) / 2];
+    default: {
+      let hx = 0;
+      let hy = 0;
+      for (const [x0, x1, y0, y1] of placedRects(a) ?? []) {
+        hx = Math.max(hx, Math.abs(x0), Math.abs(x1));
+        hy = Math.max(hy, Math.abs(y0), Math.abs(y1));
+      }
+      return [hx, hy];
+    }
   }
 }
 
@@ -103,6 +194,11 @@ function openMeasure(a: Aperture): number {
       return a.width * (a.length ?? 1);
     case 'slits':
       return a.count * a.width * (a.length ?? 1);
+    default: {
+      let s = 0;
+      for (const [x0, x1, y0, y1, sign] of placedRects(a) ?? []) s += sign * (x1 - x0) * (y1 - y0);
+      return s;
+    }
   }
 }
 
@@ -146,6 +242,7 @@ export function referenceIntensity(c: RefCase, pts: [number, number][], budgetMi
     return { ok: false, reason: 'exact 1-D reference over budget, paraxial bound not small' };
   }
 
+  if (!['circle', 'annulus', 'rectangle', 'slit', 'slits'].includes(a.shape) && !placedRects(a)) return { ok: false, reason: `no exact reference for this ${a.shape}` };
   const p: Problem2D = { wavelength: lam, distance: z, regions: regionsOf(a), light, opaque: a.opaque };
   const normal = ill.kind === 'plane' && light.sinTilt === 0;
   if (normal && boundaryCost(p, pts) * MICROS_PER_NODE.boundary <= budgetMicros) {

@@ -1,0 +1,165 @@
+// Polygons, combinations and arrays in the far field, on planner-chosen grids, against exact
+// transforms: the polygon's by the edge-sum formula (Lee & Mittra, IEEE Trans. Antennas Propag. 31,
+// 99 (1983); test/reference/polygon-transform.ts), rectangles' by Goodman's rect pair, discs' by
+// the Airy amplitude (Born & Wolf §8.5.2), arrays as the element's transform times the array factor
+// (Goodman, Introduction to Fourier Optics, §4.4: the convolution theorem). The far-field formula
+// on a flat screen: U = e^{ikr}/(iλr)·(z/r)·F(x/(λr), y/(λr)) (Goodman §4.2), so I = |F|²(z/r)²/(λr)².
+import besselj1 from '@stdlib/math-base-special-besselj1';
+import { describe, expect, it } from 'vitest';
+import type { Aperture } from '../../src/optics/aperture.js';
+import { polygonTransform, type Complex } from '../reference/polygon-transform.js';
+import { nm, runCase, um } from '../helpers.js';
+
+const lam = 633 * nm;
+
+function rectF(w: number, h: number, at: [number, number], fx: number, fy: number): Complex {
+  const s = (u: number) => (u === 0 ? 1 : Math.sin(Math.PI * u) / (Math.PI * u));
+  const amp = w * h * s(w * fx) * s(h * fy);
+  const ph = -2 * Math.PI * (fx * at[0] + fy * at[1]);
+  return { re: amp * Math.cos(ph), im: amp * Math.sin(ph) };
+}
+function discF(d: number, at: [number, number], fx: number, fy: number): Complex {
+  const a = d / 2;
+  const q = 2 * Math.PI * a * Math.hypot(fx, fy);
+  const amp = Math.PI * a * a * (q === 0 ? 1 : (2 * besselj1(q)) / q);
+  const ph = -2 * Math.PI * (fx * at[0] + fy * at[1]);
+  return { re: amp * Math.cos(ph), im: amp * Math.sin(ph) };
+}
+
+/** Worst |I − I_ref| over the window, relative to the reference's peak, for a transform F. */
+function farFieldError(aperture: Aperture, z: number, F: (fx: number, fy: number) => Complex) {
+  const run = runCase({ wavelength: lam, distance: z, aperture });
+  const { c, x, y } = run;
+  let worst = 0;
+  let peak = 0;
+  const ref = new Float64Array(c.rows * c.cols);
+  for (let r = 0; r < c.rows; r++) {
+    for (let col = 0; col < c.cols; col++) {
+      const rr = Math.hypot(x(col), y(r), z);
+      const f = F(x(col) / (lam * rr), y(r) / (lam * rr));
+      const v = ((f.re * f.re + f.im * f.im) * (z / rr) ** 2) / (lam * rr) ** 2;
+      ref[r * c.cols + col] = v;
+      peak = Math.max(peak, v);
+    }
+  }
+  for (let i = 0; i < ref.length; i++) worst = Math.max(worst, Math.abs(c.intensity[i]! - ref[i]!));
+  if (process.env.SPOTCAST_SHOW) console.log(`${aperture.shape} z=${z}: worst ${(worst / peak).toExponential(2)} of the peak, ${c.rows}×${c.cols}, ${run.plan.method}`);
+  return { ...run, error: worst / peak };
+}
+
+describe('polygon (a triangle), far field', () => {
+  const vertices: [number, number][] = [[0, 60 * um], [-52 * um, -30 * um], [52 * um, -30 * um]];
+  const r = farFieldError({ shape: 'polygon', vertices, opaque: false }, 2, (fx, fy) => polygonTransform(vertices, fx, fy));
+  it('is planned as far field, without warnings', () => {
+    expect(r.plan.regime).toBe('far-field');
+    expect(r.codes).toEqual([]);
+  });
+  it('matches the exact polygon transform within 0.5 % of the peak (Lee & Mittra 1983)', () => {
+    expect(r.error).toBeLessThan(5e-3);
+  });
+  it('passes the triangle\'s area (shoelace) as the power through it', () => {
+    const area = 0.5 * 104 * um * 90 * um;
+    expect(Math.abs(r.rec.metrics.powerThroughAperture! - area) / area).toBeLessThan(1e-9);
+  });
+});
+
+describe('a concave polygon (an L), far field', () => {
+  const vertices: [number, number][] = [[-40 * um, -40 * um], [40 * um, -40 * um], [40 * um, -10 * um], [-10 * um, -10 * um], [-10 * um, 50 * um], [-40 * um, 50 * um]];
+  const r = farFieldError({ shape: 'polygon', vertices, opaque: false }, 1.5, (fx, fy) => polygonTransform(vertices, fx, fy));
+  it('matches the exact polygon transform within 0.5 % of the peak (Lee & Mittra 1983)', () => {
+    expect(r.codes).toEqual([]);
+    expect(r.error).toBeLessThan(5e-3);
+  });
+});
+
+describe('combination: a cross of two rectangles less a central pinhole, far field', () => {
+  const L = 200 * um;
+  const W = 20 * um;
+  const d = 10 * um;
+  const aperture: Aperture = {
+    shape: 'combined',
+    add: [
+      { element: { shape: 'rectangle', width: L, height: W, opaque: false }, at: [0, 0] },
+      { element: { shape: 'rectangle', width: W, height: L, opaque: false }, at: [0, 0] },
+    ],
+    cut: [{ element: { shape: 'circle', diameter: d, opaque: false }, at: [0, 0] }],
+    opaque: false,
+  };
+  // Linearity: cross = both rectangles less their W × W overlap, less the disc inside it.
+  const F = (fx: number, fy: number): Complex => {
+    const parts = [rectF(L, W, [0, 0], fx, fy), rectF(W, L, [0, 0], fx, fy)];
+    const minus = [rectF(W, W, [0, 0], fx, fy), discF(d, [0, 0], fx, fy)];
+    return {
+      re: parts[0]!.re + parts[1]!.re - minus[0]!.re - minus[1]!.re,
+      im: parts[0]!.im + parts[1]!.im - minus[0]!.im - minus[1]!.im,
+    };
+  };
+  const r = farFieldError(aperture, 2, F);
+  it('is planned as far field, without warnings', () => {
+    expect(r.plan.regime).toBe('far-field');
+    expect(r.codes).toEqual([]);
+  });
+  it('matches the transforms of its parts within 0.5 % of the peak (linearity; Goodman\'s rect pair, Airy)', () => {
+    expect(r.error).toBeLessThan(5e-3);
+  });
+});
+
+describe('combination: two offset slots, far field (shift theorem)', () => {
+  const aperture: Aperture = {
+    shape: 'combined',
+    add: [
+      { element: { shape: 'rectangle', width: 30 * um, height: 90 * um, opaque: false }, at: [-45 * um, 10 * um] },
+      { element: { shape: 'circle', diameter: 40 * um, opaque: false }, at: [50 * um, -20 * um] },
+    ],
+    cut: [],
+    opaque: false,
+  };
+  const F = (fx: number, fy: number): Complex => {
+    const a = rectF(30 * um, 90 * um, [-45 * um, 10 * um], fx, fy);
+    const b = discF(40 * um, [50 * um, -20 * um], fx, fy);
+    return { re: a.re + b.re, im: a.im + b.im };
+  };
+  const r = farFieldError(aperture, 3, F);
+  it('matches the shifted transforms within 0.5 % of the peak (Goodman §2.1, shift theorem)', () => {
+    expect(r.codes).toEqual([]);
+    expect(r.error).toBeLessThan(5e-3);
+  });
+});
+
+describe('hexagonal array of pinholes, far field', () => {
+  const D = 20 * um;
+  const pitch = 60 * um;
+  const aperture: Aperture = {
+    shape: 'array',
+    of: { element: { shape: 'circle', diameter: D, opaque: false }, at: [0, 0] },
+    pitch,
+    count: [4, 3],
+    layout: 'hexagonal',
+    opaque: false,
+  };
+  // The copies' centres, as a hexagonal lattice: rows √3/2 of the pitch apart, shifted by ±¼ pitch.
+  const centres: [number, number][] = [];
+  for (let j = 0; j < 3; j++) for (let i = 0; i < 4; i++) centres.push([(i - 1.5) * pitch + (j % 2 === 0 ? -0.25 : 0.25) * pitch, (j - 1) * pitch * (Math.sqrt(3) / 2)]);
+  const F = (fx: number, fy: number): Complex => {
+    let re = 0;
+    let im = 0;
+    for (const at of centres) {
+      const f = discF(D, at, fx, fy);
+      re += f.re;
+      im += f.im;
+    }
+    return { re, im };
+  };
+  const r = farFieldError(aperture, 2, F);
+  it('is planned as far field, without warnings', () => {
+    expect(r.plan.regime).toBe('far-field');
+    expect(r.codes).toEqual([]);
+  });
+  it('matches the element\'s transform times the array factor within 0.5 % of the peak (Goodman §4.4)', () => {
+    expect(r.error).toBeLessThan(5e-3);
+  });
+  it('passes 12 pinholes\' area', () => {
+    const area = 12 * Math.PI * (D / 2) ** 2;
+    expect(Math.abs(r.rec.metrics.powerThroughAperture! - area) / area).toBeLessThan(1e-9);
+  });
+});
