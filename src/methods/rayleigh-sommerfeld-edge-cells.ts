@@ -10,6 +10,7 @@ import { len } from '../plan/words.js';
 import type { MethodDescriptor } from './types.js';
 import { exactOutputAxes, uncostedSlits } from './rayleigh-sommerfeld-shared.js';
 import { rayleighSommerfeldValidity } from './validity.js';
+import { rsCells2DFromAperture, rsSum2D } from '../optics/rayleigh-sommerfeld.js';
 
 export const rayleighSommerfeldEdgeCells: MethodDescriptor = {
   id: 'rayleigh-sommerfeld-edge-cells',
@@ -36,4 +37,10 @@ export const rayleighSommerfeldEdgeCells: MethodDescriptor = {
   },
   words: { method: 'Rayleigh–Sommerfeld integral', form: 'direct sums over the aperture' },
   claims: (plan) => !!plan.exact2D,
+  propagate(plan) {
+    // Boxes and exact edge cells (for an obstacle in a plane wave: its hole, for Babinet after).
+    const c = plan.case;
+    const cells = rsCells2DFromAperture(c.aperture, c.illumination, c.wavelength, plan.x.inputPitch, { edgeNodes: plan.exact2D!.edgeNodes });
+    return { field: rsSum2D(cells, c.wavelength, c.distance, plan.x.output, plan.y!.output).field, powerIn: cells.power };
+  },
 };
