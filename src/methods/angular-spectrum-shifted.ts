@@ -1,25 +1,21 @@
 // The angular spectrum in the frame of a tilted beam (src/optics/shifted-spectrum.ts): the carrier
 // taken out of the source, the grid shifted to where the beam lands.
-import { fftAxis } from '../optics/field.js';
+import { fftAxis, releaseSamples } from '../optics/field.js';
 import { nextPowerOfTwo } from '../optics/fft.js';
-import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor } from '../optics/shifted-spectrum.js';
+import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor, propagateShiftedSpectrum, restoreCarrier } from '../optics/shifted-spectrum.js';
 import { axisPlan, windowOn } from '../plan/axis-plans.js';
 import { costFft } from '../plan/costs.js';
 import { featureSamples, oversampling, type Geometry } from '../plan/geometry.js';
 import { illuminatedEdgeWeight } from '../plan/light.js';
 import { LIMITS } from '../plan/limits.js';
-import type { Case, Layout } from '../plan/types.js';
+import type { Case, Layout, Plan } from '../plan/types.js';
 import { bandLimitChecks } from './angular-spectrum.js';
-import type { MethodDescriptor, Sampling } from './types.js';
+import type { MethodDescriptor, Sampling, Propagated, PropagationInputs } from './types.js';
 import { angularSpectrumValidity } from './validity.js';
 import { separableProfiles } from '../optics/aperture.js';
-import { releaseSamples } from '../optics/field.js';
-import { propagateShiftedSpectrum, restoreCarrier } from '../optics/shifted-spectrum.js';
 import { sourceField1D, sourceField2D } from '../optics/source.js';
 import { padField } from '../optics/spectral.js';
-import type { Plan } from '../plan/types.js';
 import { cropTo, sourceAxis } from './grid-steps.js';
-import type { Propagated, PropagationInputs } from './types.js';
 
 export const angularSpectrumShifted: MethodDescriptor = {
   id: 'angular-spectrum-shifted',

@@ -1,6 +1,6 @@
 // The angular spectrum on an axis-centred FFT grid (src/optics/spectral.ts): exact for scalar
 // waves, band-limited against aliasing of its transfer function.
-import { bandLimitFrequency } from '../optics/spectral.js';
+import { bandLimitFrequency, angularSpectrumTransfer } from '../optics/spectral.js';
 import { fftAxisPlan } from '../plan/axis-plans.js';
 import { costFft } from '../plan/costs.js';
 import { oversampling, steepestDirection, type Geometry } from '../plan/geometry.js';
@@ -10,7 +10,6 @@ import type { AxisPlan, Case, Checks, Layout } from '../plan/types.js';
 import { fmt } from '../plan/words.js';
 import type { MethodDescriptor } from './types.js';
 import { angularSpectrumValidity } from './validity.js';
-import { angularSpectrumTransfer } from '../optics/spectral.js';
 import { propagateSampled, type SampledSteps } from './sampled-source.js';
 import { propagateOnGrid, transferOnGrid2D, type TransferOf } from './transfer-grid.js';
 

@@ -5,7 +5,7 @@ import { fresnelDirectAxisPlan, singleFftAxisPlan } from '../plan/axis-plans.js'
 import { costSingleFft } from '../plan/costs.js';
 import { factorisedLayout } from '../plan/geometry.js';
 import { LIMITS } from '../plan/limits.js';
-import type { MethodDescriptor } from './types.js';
+import type { MethodDescriptor, FieldStep } from './types.js';
 import { paraxialUseWarning } from './use-warnings.js';
 import { paraxialValidity } from './validity.js';
 import type { Axis, Field } from '../optics/field.js';
@@ -14,7 +14,6 @@ import { compensateCellResponse, padField } from '../optics/spectral.js';
 import type { Plan } from '../plan/types.js';
 import { cropTo, multiplyCarrier } from './grid-steps.js';
 import { propagateSampled, sampledSource2D, type SampledSteps } from './sampled-source.js';
-import type { FieldStep } from './types.js';
 
 export const fresnelSingleFft: MethodDescriptor = {
   id: 'fresnel-single-fft',

@@ -1,7 +1,7 @@
 // The exact integral for an obstacle in a Gaussian beam, the beam where the obstacle is not:
 // area-sampled cells summed onto the window point by point (src/optics/rayleigh-sommerfeld.ts
 // rsDirect2D); the exact edge cells are built for holes.
-import { costRsDirect2D, rsAreaSamplingError } from '../optics/rayleigh-sommerfeld.js';
+import { costRsDirect2D, rsAreaSamplingError, rsDirect2D } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan, pitchFor } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
 import { steepestDirection } from '../plan/geometry.js';
@@ -10,7 +10,6 @@ import { fmt } from '../plan/words.js';
 import type { MethodDescriptor } from './types.js';
 import { exactCell, exactOutputAxes, uncostedSlits } from './rayleigh-sommerfeld-shared.js';
 import { rayleighSommerfeldValidity } from './validity.js';
-import { rsDirect2D } from '../optics/rayleigh-sommerfeld.js';
 import { sampledSource2D } from './sampled-source.js';
 
 export const rayleighSommerfeldAreaCells: MethodDescriptor = {

@@ -1,13 +1,12 @@
 // The exact integral for a plane wave at normal incidence as an integral along the aperture's
 // boundary (src/optics/rs-boundary.ts): exact, and a line integral per output point.
-import { boundaryRegionsOf, costRsBoundary } from '../optics/rs-boundary.js';
+import { boundaryRegionsOf, costRsBoundary, rsBoundary } from '../optics/rs-boundary.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
 import type { MethodDescriptor } from './types.js';
 import { exactOutputAxes, uncostedSlits } from './rayleigh-sommerfeld-shared.js';
 import { rayleighSommerfeldValidity } from './validity.js';
 import { apertureFacts } from '../optics/aperture.js';
-import { rsBoundary } from '../optics/rs-boundary.js';
 
 export const rayleighSommerfeldBoundary: MethodDescriptor = {
   id: 'rayleigh-sommerfeld-boundary',

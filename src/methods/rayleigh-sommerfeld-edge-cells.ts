@@ -2,7 +2,7 @@
 // exact weights in the cells an edge crosses (src/optics/rs-2d-*.ts); the pitch and node count are
 // the cheapest that keep the error within the target; round and mirror-symmetric sources take the
 // radial or mirror path.
-import { rs2DSampling } from '../optics/rayleigh-sommerfeld.js';
+import { rs2DSampling, rsCells2DFromAperture, rsSum2D } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
 import { LIMITS } from '../plan/limits.js';
@@ -10,7 +10,6 @@ import { len } from '../plan/words.js';
 import type { MethodDescriptor } from './types.js';
 import { exactOutputAxes, uncostedSlits } from './rayleigh-sommerfeld-shared.js';
 import { rayleighSommerfeldValidity } from './validity.js';
-import { rsCells2DFromAperture, rsSum2D } from '../optics/rayleigh-sommerfeld.js';
 
 export const rayleighSommerfeldEdgeCells: MethodDescriptor = {
   id: 'rayleigh-sommerfeld-edge-cells',
