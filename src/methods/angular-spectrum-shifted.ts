@@ -1,17 +1,21 @@
 // The angular spectrum in the frame of a tilted beam (src/optics/shifted-spectrum.ts): the carrier
 // taken out of the source, the grid shifted to where the beam lands.
-import { fftAxis } from '../optics/field.js';
+import { fftAxis, releaseSamples } from '../optics/field.js';
 import { nextPowerOfTwo } from '../optics/fft.js';
-import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor } from '../optics/shifted-spectrum.js';
+import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor, propagateShiftedSpectrum, restoreCarrier } from '../optics/shifted-spectrum.js';
 import { axisPlan, windowOn } from '../plan/axis-plans.js';
 import { costFft } from '../plan/costs.js';
 import { featureSamples, oversampling, type Geometry } from '../plan/geometry.js';
 import { illuminatedEdgeWeight } from '../plan/light.js';
 import { LIMITS } from '../plan/limits.js';
-import type { Case, Layout } from '../plan/types.js';
+import type { Case, Layout, Plan } from '../plan/types.js';
 import { bandLimitChecks } from './angular-spectrum.js';
-import type { MethodDescriptor, Sampling } from './types.js';
+import type { MethodDescriptor, Sampling, Propagated, PropagationInputs } from './types.js';
 import { angularSpectrumValidity } from './validity.js';
+import { separableProfiles } from '../optics/aperture.js';
+import { sourceField1D, sourceField2D } from '../optics/source.js';
+import { padField } from '../optics/spectral.js';
+import { cropTo, sourceAxis } from './grid-steps.js';
 
 export const angularSpectrumShifted: MethodDescriptor = {
   id: 'angular-spectrum-shifted',
@@ -26,6 +30,7 @@ export const angularSpectrumShifted: MethodDescriptor = {
   sample: shiftedSampling,
   words: { method: 'angular spectrum', form: 'in the tilted beam\'s frame, the grid shifted to where it lands' },
   checks: bandLimitChecks,
+  propagate: propagateShifted,
 };
 
 /**
@@ -75,4 +80,32 @@ function shiftedSampling(g: Geometry, c: Case): Sampling | null {
     return axisPlan(g, i, rule, n, padded, output);
   });
   return { axes, layout, ...costFft(axes, layout), shifted: { centre: grid.centre, taper: grid.taper, bandTaper: grid.bandTaper } };
+}
+
+/**
+ * The envelope without its carrier, padded, shifted to where the beam lands; the carrier goes back
+ * only where the free wave must interfere (Babinet).
+ */
+function propagateShifted(plan: Plan, run: PropagationInputs): Propagated {
+  const c = plan.case;
+  const lam = c.wavelength;
+  const z = c.distance;
+  const ill = c.illumination;
+  const carrier = run.carrier;
+  const obstructed = run.obstructed;
+  const outX = plan.x.output;
+  const outY = plan.y ? plan.y.output : null;
+  const sh = plan.shifted!;
+  const oneD = plan.layout === 'one-d';
+  const prof = oneD ? separableProfiles(c.aperture)!.x : null;
+  const src = prof
+    ? sourceField1D(prof, ill, sourceAxis(plan.x, true), lam, 0, { sampleCarrier: false, obstructed })
+    : sourceField2D(c.aperture, ill, sourceAxis(plan.x, true), sourceAxis(plan.y!, true), lam, { sampleCarrier: false, obstructed });
+  const powerIn = src.power;
+  const grid = padField(src.field, plan.x.paddedSamples, oneD ? 1 : plan.y!.paddedSamples);
+  const res = propagateShiftedSpectrum(grid, z, [carrier[0], oneD ? 0 : carrier[1]], sh.centre, { taper: sh.taper, bandTaper: sh.bandTaper, inPlace: true });
+  const out = cropTo(res.field, outX, outY);
+  releaseSamples(grid.data);
+  if (plan.babinet) restoreCarrier(out, [carrier[0], oneD ? 0 : carrier[1]]);
+  return { field: out, report: { bandLimitLoss: res.report.bandLimitLoss, evanescentLoss: res.report.evanescentLoss, bandLimit: [Infinity, Infinity] }, powerIn };
 }

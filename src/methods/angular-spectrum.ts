@@ -1,6 +1,6 @@
 // The angular spectrum on an axis-centred FFT grid (src/optics/spectral.ts): exact for scalar
 // waves, band-limited against aliasing of its transfer function.
-import { bandLimitFrequency } from '../optics/spectral.js';
+import { bandLimitFrequency, angularSpectrumTransfer } from '../optics/spectral.js';
 import { fftAxisPlan } from '../plan/axis-plans.js';
 import { costFft } from '../plan/costs.js';
 import { oversampling, steepestDirection, type Geometry } from '../plan/geometry.js';
@@ -10,6 +10,8 @@ import type { AxisPlan, Case, Checks, Layout } from '../plan/types.js';
 import { fmt } from '../plan/words.js';
 import type { MethodDescriptor } from './types.js';
 import { angularSpectrumValidity } from './validity.js';
+import { propagateSampled, type SampledSteps } from './sampled-source.js';
+import { propagateOnGrid, transferOnGrid2D, type TransferOf } from './transfer-grid.js';
 
 export const angularSpectrum: MethodDescriptor = {
   id: 'angular-spectrum',
@@ -26,6 +28,7 @@ export const angularSpectrum: MethodDescriptor = {
   },
   words: { method: 'angular spectrum' },
   checks: bandLimitChecks,
+  propagate: (plan, run) => propagateSampled(plan, run, steps),
 };
 
 /** The band-limit frequency of the padded grid, per axis (for the angular spectrum's own checks). */
@@ -78,3 +81,11 @@ function edgeTail(m: LightModel, lam: number, z: number, u: number): number {
   if (!(u > 0)) return 0.5;
   return Math.min(1, (m.edgesPerPower * lam * z) / (2 * Math.PI ** 2 * u));
 }
+
+const transfer: TransferOf = (grid, z) => angularSpectrumTransfer(grid, z);
+
+const steps: SampledSteps = {
+  fftLattice: true,
+  line: (src, plan, axis, carrier) => propagateOnGrid(src, plan, transfer, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]),
+  plane: (plan, run) => transferOnGrid2D(plan, run, transfer),
+};

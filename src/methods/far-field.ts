@@ -3,7 +3,7 @@
 // matrix products where x/(λr) ≈ x/(λz) holds, and on wide windows the spectrum tabulated once and
 // interpolated (src/optics/spectrum-table.ts).
 import { isRound } from '../elements/registry.js';
-import { mappingError } from '../optics/direct.js';
+import { mappingError, propagateFarField, propagateFarFieldSeparable } from '../optics/direct.js';
 import { costFarFieldTable, farFieldBand } from '../optics/spectrum-table.js';
 import { directionCosineAxisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -12,6 +12,7 @@ import type { AxisPlan, Case, Layout } from '../plan/types.js';
 import type { MethodDescriptor } from './types.js';
 import { farFieldUseWarning } from './use-warnings.js';
 import { farFieldValidity } from './validity.js';
+import { propagateSampled, sampledSource2D, type SampledSteps } from './sampled-source.js';
 
 export const farField: MethodDescriptor = {
   id: 'far-field',
@@ -28,6 +29,7 @@ export const farField: MethodDescriptor = {
   },
   words: { method: 'far-field formula' },
   useWarning: farFieldUseWarning,
+  propagate: (plan, run) => propagateSampled(plan, run, steps),
 };
 
 /**
@@ -75,3 +77,17 @@ function costFarField(axes: AxisPlan[], layout: Layout, g: Geometry, c: Case): {
   const t = costFarFieldTable({ nx: x.inputSamples, ny: y.inputSamples, dx: x.inputPitch, dy: y.inputPitch }, farFieldBand(outX, outY, g.z, g.lam, g.carrier), m);
   return { memory: BASELINE_MEMORY + 32 * nin + t.memory + 64 * m, work: t.work + 40 * m };
 }
+
+const steps: SampledSteps = {
+  fftLattice: false,
+  line: (src, plan, axis, carrier) => ({ field: propagateFarField(src, plan.case.distance, axis.output, null, [carrier, 0]) }),
+  separable: (sx, sy, plan, outX, outY, carrier) => propagateFarFieldSeparable(sx, sy, plan.case.distance, outX, outY, carrier),
+  plane(plan, run) {
+    const c = plan.case;
+    const ill = c.illumination;
+    const { field: src, power } = sampledSource2D(plan, run);
+    // A centred round aperture in an untilted beam has a radially symmetric spectrum.
+    const radial = isRound(c.aperture) && ill.tilt[0] === 0 && ill.tilt[1] === 0;
+    return { field: propagateFarField(src, c.distance, plan.x.output, plan.y ? plan.y.output : null, run.carrier, { radial }), powerIn: power };
+  },
+};

@@ -6,6 +6,9 @@ import { factorisedLayout } from '../plan/geometry.js';
 import type { MethodDescriptor } from './types.js';
 import { paraxialUseWarning } from './use-warnings.js';
 import { paraxialValidity } from './validity.js';
+import { propagateFresnelDirect } from '../optics/direct.js';
+import { compensateCellResponse } from '../optics/spectral.js';
+import { propagateSampled, sampledSource2D, type SampledSteps } from './sampled-source.js';
 
 export const fresnelDirect: MethodDescriptor = {
   id: 'fresnel-direct',
@@ -25,4 +28,18 @@ export const fresnelDirect: MethodDescriptor = {
   },
   words: { method: 'Fresnel', form: 'single-transform form by direct sums onto the window' },
   useWarning: paraxialUseWarning,
+  propagate: (plan, run) => propagateSampled(plan, run, steps),
+};
+
+const steps: SampledSteps = {
+  fftLattice: false,
+  line(src, plan, axis, carrier) {
+    compensateCellResponse(src);
+    return { field: propagateFresnelDirect(src, plan.case.distance, axis.output, null, [carrier, 0]) };
+  },
+  plane(plan, run) {
+    const { field: src, power } = sampledSource2D(plan, run);
+    compensateCellResponse(src);
+    return { field: propagateFresnelDirect(src, plan.case.distance, plan.x.output, plan.y ? plan.y.output : null, run.carrier), powerIn: power };
+  },
 };

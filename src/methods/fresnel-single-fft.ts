@@ -5,9 +5,15 @@ import { fresnelDirectAxisPlan, singleFftAxisPlan } from '../plan/axis-plans.js'
 import { costSingleFft } from '../plan/costs.js';
 import { factorisedLayout } from '../plan/geometry.js';
 import { LIMITS } from '../plan/limits.js';
-import type { MethodDescriptor } from './types.js';
+import type { MethodDescriptor, FieldStep } from './types.js';
 import { paraxialUseWarning } from './use-warnings.js';
 import { paraxialValidity } from './validity.js';
+import type { Axis, Field } from '../optics/field.js';
+import { propagateFresnelSingleFFT } from '../optics/single-fft.js';
+import { compensateCellResponse, padField } from '../optics/spectral.js';
+import type { Plan } from '../plan/types.js';
+import { cropTo, multiplyCarrier } from './grid-steps.js';
+import { propagateSampled, sampledSource2D, type SampledSteps } from './sampled-source.js';
 
 export const fresnelSingleFft: MethodDescriptor = {
   id: 'fresnel-single-fft',
@@ -29,4 +35,27 @@ export const fresnelSingleFft: MethodDescriptor = {
   },
   words: { method: 'Fresnel', form: 'single-transform form by one FFT' },
   useWarning: paraxialUseWarning,
+  propagate: (plan, run) => propagateSampled(plan, run, steps),
+};
+
+/**
+ * The (cell-corrected) aperture samples zero-padded onto the FFT grid, the tilt carrier multiplied
+ * in, and the window cut out of the output lattice.
+ */
+function propagateSingleFft(src: Field, plan: Plan, padded: [number, number], outX: Axis, outY: Axis | null, carrier: [number, number]): FieldStep {
+  compensateCellResponse(src);
+  const grid = padField(src, padded[0], padded[1]);
+  multiplyCarrier(grid, carrier);
+  const out = propagateFresnelSingleFFT(grid, plan.case.distance);
+  return { field: cropTo(out, outX, outY) };
+}
+
+const steps: SampledSteps = {
+  fftLattice: false,
+  line: (src, plan, axis, carrier) => propagateSingleFft(src, plan, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]),
+  plane(plan, run) {
+    const { field: src, power } = sampledSource2D(plan, run);
+    const padded: [number, number] = [plan.x.paddedSamples, plan.y!.paddedSamples];
+    return { ...propagateSingleFft(src, plan, padded, plan.x.output, plan.y ? plan.y.output : null, run.carrier), powerIn: power };
+  },
 };

@@ -10,6 +10,8 @@ import { len } from '../plan/words.js';
 import type { MethodDescriptor } from './types.js';
 import { paraxialUseWarning } from './use-warnings.js';
 import { paraxialValidity } from './validity.js';
+import { propagateSampled, type SampledSteps } from './sampled-source.js';
+import { propagateOnGrid, transferOnGrid2D, type TransferOf } from './transfer-grid.js';
 
 export const fresnelTransfer: MethodDescriptor = {
   id: 'fresnel-transfer',
@@ -32,6 +34,7 @@ export const fresnelTransfer: MethodDescriptor = {
   words: { method: 'Fresnel', form: 'transfer-function form' },
   checks: (axes, g) => ({ transferSampling: Math.min(...axes.map((a) => (a.inputPitch * a.inputPitch * a.paddedSamples) / (g.lam * g.z))) }),
   useWarning: paraxialUseWarning,
+  propagate: (plan, run) => propagateSampled(plan, run, steps),
 };
 
 /** q× the highest spatial frequency that reaches the window, λz/(q·reach), on an FFT grid padded LIMITS.padding×. */
@@ -42,3 +45,11 @@ function fresnelTransferAxisPlan(g: Geometry, i: number, c: Case): AxisPlan {
   const contentRule = { pitch: content, rule: `${q}× the highest spatial frequency that reaches the window, λz/(${q}·${len(reach)})` };
   return fftAxisPlan(g, i, c, contentRule, true, () => LIMITS.padding);
 }
+
+const transfer: TransferOf = (grid, z) => ({ kind: 'fresnel', z, wavelength: grid.wavelength });
+
+const steps: SampledSteps = {
+  fftLattice: true,
+  line: (src, plan, axis, carrier) => propagateOnGrid(src, plan, transfer, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]),
+  plane: (plan, run) => transferOnGrid2D(plan, run, transfer),
+};

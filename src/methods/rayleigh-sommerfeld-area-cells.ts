@@ -1,7 +1,7 @@
 // The exact integral for an obstacle in a Gaussian beam, the beam where the obstacle is not:
 // area-sampled cells summed onto the window point by point (src/optics/rayleigh-sommerfeld.ts
 // rsDirect2D); the exact edge cells are built for holes.
-import { costRsDirect2D, rsAreaSamplingError } from '../optics/rayleigh-sommerfeld.js';
+import { costRsDirect2D, rsAreaSamplingError, rsDirect2D } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan, pitchFor } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
 import { steepestDirection } from '../plan/geometry.js';
@@ -10,6 +10,7 @@ import { fmt } from '../plan/words.js';
 import type { MethodDescriptor } from './types.js';
 import { exactCell, exactOutputAxes, uncostedSlits } from './rayleigh-sommerfeld-shared.js';
 import { rayleighSommerfeldValidity } from './validity.js';
+import { sampledSource2D } from './sampled-source.js';
 
 export const rayleighSommerfeldAreaCells: MethodDescriptor = {
   id: 'rayleigh-sommerfeld-area-cells',
@@ -39,4 +40,10 @@ export const rayleighSommerfeldAreaCells: MethodDescriptor = {
   },
   words: { method: 'Rayleigh–Sommerfeld integral', form: 'direct sums over the aperture' },
   claims: (plan) => plan.layout === 'two-d' && !plan.exact2D,
+  propagate(plan, run) {
+    const lam = plan.case.wavelength;
+    const { field: src, power } = sampledSource2D(plan, run);
+    const k = (2 * Math.PI) / lam;
+    return { field: rsDirect2D(src, plan.case.distance, plan.x.output, plan.y!.output, [k * run.carrier[0] * lam, k * run.carrier[1] * lam]), powerIn: power };
+  },
 };

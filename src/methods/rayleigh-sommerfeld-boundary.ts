@@ -1,11 +1,12 @@
 // The exact integral for a plane wave at normal incidence as an integral along the aperture's
 // boundary (src/optics/rs-boundary.ts): exact, and a line integral per output point.
-import { boundaryRegionsOf, costRsBoundary } from '../optics/rs-boundary.js';
+import { boundaryRegionsOf, costRsBoundary, rsBoundary } from '../optics/rs-boundary.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
 import type { MethodDescriptor } from './types.js';
 import { exactOutputAxes, uncostedSlits } from './rayleigh-sommerfeld-shared.js';
 import { rayleighSommerfeldValidity } from './validity.js';
+import { apertureFacts } from '../optics/aperture.js';
 
 export const rayleighSommerfeldBoundary: MethodDescriptor = {
   id: 'rayleigh-sommerfeld-boundary',
@@ -28,4 +29,13 @@ export const rayleighSommerfeldBoundary: MethodDescriptor = {
     return { axes, layout: 'two-d', memory: BASELINE_MEMORY + cost.memory, work: cost.work };
   },
   words: { method: 'Rayleigh–Sommerfeld integral', form: 'along the aperture\'s boundary' },
+  propagate(plan) {
+    // For an obstacle, its hole's (Babinet, with the free wave e^{ikz} exact at normal incidence),
+    // so that the window's power is the diffracted light's as for every other method.
+    const c = plan.case;
+    return {
+      field: rsBoundary(boundaryRegionsOf({ ...c.aperture, opaque: false })!, c.wavelength, c.distance, plan.x.output, plan.y!.output),
+      powerIn: apertureFacts(c.aperture).openMeasure,
+    };
+  },
 };

@@ -7,6 +7,7 @@ import { BASELINE_MEMORY } from '../plan/costs.js';
 import type { MethodDescriptor } from './types.js';
 import { exactCell, exactOutputAxes, oneDCellRule } from './rayleigh-sommerfeld-shared.js';
 import { rayleighSommerfeldValidity } from './validity.js';
+import { cellSums1D, openIntervals } from './exact-intervals.js';
 
 export const rayleighSommerfeldCells1D: MethodDescriptor = {
   id: 'rayleigh-sommerfeld-cells-1d',
@@ -35,4 +36,8 @@ export const rayleighSommerfeldCells1D: MethodDescriptor = {
   },
   words: { method: 'Rayleigh–Sommerfeld integral', form: 'direct sums over the aperture' },
   claims: (plan) => plan.layout === 'one-d',
+  propagate(plan, run) {
+    const { open, powerIn } = openIntervals(plan, run.obstructed);
+    return { field: cellSums1D(plan, open), powerIn };
+  },
 };

@@ -2,7 +2,7 @@
 // exact weights in the cells an edge crosses (src/optics/rs-2d-*.ts); the pitch and node count are
 // the cheapest that keep the error within the target; round and mirror-symmetric sources take the
 // radial or mirror path.
-import { rs2DSampling } from '../optics/rayleigh-sommerfeld.js';
+import { rs2DSampling, rsCells2DFromAperture, rsSum2D } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
 import { LIMITS } from '../plan/limits.js';
@@ -38,4 +38,10 @@ export const rayleighSommerfeldEdgeCells: MethodDescriptor = {
   },
   words: { method: 'Rayleigh–Sommerfeld integral', form: 'direct sums over the aperture' },
   claims: (plan) => !!plan.exact2D,
+  propagate(plan) {
+    // Boxes and exact edge cells (for an obstacle in a plane wave: its hole, for Babinet after).
+    const c = plan.case;
+    const cells = rsCells2DFromAperture(c.aperture, c.illumination, c.wavelength, plan.x.inputPitch, { edgeNodes: plan.exact2D!.edgeNodes });
+    return { field: rsSum2D(cells, c.wavelength, c.distance, plan.x.output, plan.y!.output).field, powerIn: cells.power };
+  },
 };

@@ -8,6 +8,7 @@ import { len } from '../plan/words.js';
 import type { MethodDescriptor } from './types.js';
 import { exactCell, exactOutputAxes, oneDCellRule } from './rayleigh-sommerfeld-shared.js';
 import { rayleighSommerfeldValidity } from './validity.js';
+import { cellSums1D, openIntervals, perPeriodSums } from './exact-intervals.js';
 
 export const rayleighSommerfeldPerPeriod: MethodDescriptor = {
   id: 'rayleigh-sommerfeld-per-period',
@@ -43,4 +44,8 @@ export const rayleighSommerfeldPerPeriod: MethodDescriptor = {
     return null;
   },
   words: { method: 'Rayleigh–Sommerfeld integral', form: 'one period, summed over the periods' },
+  propagate(plan, run) {
+    const { prof, open, powerIn } = openIntervals(plan, run.obstructed);
+    return { field: prof.kind === 'grating' ? perPeriodSums(plan, prof) : cellSums1D(plan, open), powerIn };
+  },
 };

@@ -3,6 +3,8 @@
 // costs, how it is put in words, and how it propagates. The registry (registry.ts) lists them.
 import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOption, Plan, Warning } from '../plan/types.js';
 import type { Geometry } from '../plan/geometry.js';
+import type { Field } from '../optics/field.js';
+import type { SpectralReport } from '../optics/spectral.js';
 
 /**
  * How a form computes, as the planner's checks, the source-spectrum sharing and the scheduler
@@ -55,6 +57,30 @@ export interface UseCheckInputs {
   options: MethodOption[];
 }
 
+/** A field a propagation step delivers, with what it measured on the way. */
+export interface FieldStep {
+  field: Field;
+  report?: SpectralReport;
+  /** Fraction of the power in the outer frame of the padded FFT grid (wrap-around risk). */
+  edge?: number;
+}
+
+/** A form's propagation of a case: the field on the window and the power through the aperture. */
+export interface Propagated extends FieldStep {
+  /** Power through the aperture, ∫|U₀|² (per metre of slit length in 1-D). */
+  powerIn: number;
+  /** For a shared source (plan.sharedSpectrum): whether its spectrum was computed here or reused. */
+  sourceSpectrum?: 'computed' | 'reused';
+}
+
+/** What every form's propagation is given besides the plan. */
+export interface PropagationInputs {
+  /** The tilt's carrier frequencies (1/m). */
+  carrier: [number, number];
+  /** An obstacle in a Gaussian beam: propagated as the beam where the obstacle is not (not Babinet). */
+  obstructed: boolean;
+}
+
 export interface MethodDescriptor {
   /** The file's name, for messages and tests. */
   id: string;
@@ -89,4 +115,9 @@ export interface MethodDescriptor {
    * cells, 2-D area cells, 2-D edge cells), whether a plan is this one's.
    */
   claims?(plan: Plan): boolean;
+  /**
+   * Builds the source and propagates it to the window. For an obstacle in a plane wave (Babinet)
+   * it is the complementary hole's field; the caller takes it off the free wave.
+   */
+  propagate(plan: Plan, run: PropagationInputs): Propagated;
 }

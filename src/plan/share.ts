@@ -3,15 +3,16 @@
 // further distance costs one transfer multiply and one inverse transform.
 import { createHash } from 'node:crypto';
 import type { Plan } from './types.js';
+import { descriptorOf } from '../methods/registry.js';
 
 /**
  * What fixes a padded source on an FFT grid: the aperture, the light and the grid. Two plans with
  * the same key start from the same spectrum, whatever their distances, windows and methods
- * (angular spectrum or Fresnel transfer function). Null for plans that do not use one.
+ * (the forms whose descriptor says sharesSourceSpectrum: the angular spectrum on its axis-centred
+ * grid, Fresnel's transfer function). Null for plans that do not use one.
  */
 export function sourceSpectrumKey(p: Plan): string | null {
-  const fftGrid = (p.method === 'angular-spectrum' && p.form !== 'shifted') || (p.method === 'fresnel' && p.form === 'transfer-function');
-  if (!fftGrid || p.layout !== 'two-d' || !p.y || p.error) return null;
+  if (p.error || p.layout !== 'two-d' || !p.y || !descriptorOf(p).sharesSourceSpectrum) return null;
   const c = p.case;
   const axis = (a: Plan['x']) => [a.inputPitch, a.inputSamples, a.paddedSamples];
   return JSON.stringify([c.aperture, c.illumination, c.wavelength, axis(p.x), axis(p.y)]);

@@ -10,6 +10,7 @@ import { executeCase, type CaseDone, type CaseTask } from './execute.js';
 import { newSearchContext } from './searches.js';
 import type { FromWorker, ToWorker } from './worker.js';
 import type { Plan } from '../plan/types.js';
+import { descriptorOf } from '../methods/registry.js';
 import { startFftTeam, stopFftTeam, teamsAvailable, TEAM_MIN_VALUES } from '../parallel/fft-team.js';
 import { machineThreads } from './threads.js';
 
@@ -57,7 +58,8 @@ export interface Parallelism {
 /** Does the case spend its time in 2-D FFTs large enough to share (fft2 on shared sample arrays)? */
 export function sharesFfts(p: Plan): boolean {
   if (p.layout !== 'two-d' || !p.y) return false;
-  const fft = p.method === 'angular-spectrum' || (p.method === 'fresnel' && (p.form === 'transfer-function' || p.form === 'single-fft'));
+  // The transfer forms (two FFTs) and the single-FFT form transform the padded grid; direct sums do not.
+  const fft = descriptorOf(p).grid !== 'direct';
   return fft && p.x.paddedSamples * p.y.paddedSamples >= TEAM_MIN_VALUES;
 }
 
