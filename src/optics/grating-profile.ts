@@ -232,6 +232,8 @@ export function significantOrders(p: GratingProfile, tol: number): [number, numb
  */
 interface PeriodIntegrals {
   piece(c: number, x0: number, x1: number, acc: Float64Array): void;
+  /** The same for a whole grid cell inside one period (x1 − x0 = cellWidth up to rounding), faster. */
+  cell(c: number, x0: number, x1: number, acc: Float64Array): void;
   whole: [number, number];
 }
 
@@ -240,21 +242,22 @@ function overlap(a0: number, a1: number, b0: number, b1: number): number {
   return Math.max(0, Math.min(a1, b1) - Math.max(a0, b0));
 }
 
-function periodIntegrals(p: GratingProfile, d: number): PeriodIntegrals {
+function periodIntegrals(p: GratingProfile, d: number, cellWidth: number): PeriodIntegrals {
+  const same = (pi: Omit<PeriodIntegrals, 'cell'>): PeriodIntegrals => ({ ...pi, cell: pi.piece });
   switch (p.kind) {
     case 'binary-amplitude': {
       const e = (p.duty * d) / 2;
-      return {
+      return same({
         // In absolute coordinates, as mask.ts does, so that the two agree to rounding.
         piece: (c, x0, x1, acc) => void (acc[0]! += overlap(x0, x1, c - e, c + e)),
         whole: [p.duty * d, 0],
-      };
+      });
     }
     case 'binary-phase': {
       const e = (p.duty * d) / 2;
       const cr = Math.cos(p.step) - 1;
       const ci = Math.sin(p.step);
-      return {
+      return same({
         // T = 1 + (e^{iφ} − 1)·[slit].
         piece: (c, x0, x1, acc) => {
           const o = overlap(x0, x1, c - e, c + e);
@@ -262,11 +265,11 @@ function periodIntegrals(p: GratingProfile, d: number): PeriodIntegrals {
           acc[1]! += ci * o;
         },
         whole: [d + cr * p.duty * d, ci * p.duty * d],
-      };
+      });
     }
     case 'sinusoidal-amplitude': {
       const m = p.modulation;
-      return {
+      return same({
         // ∫ ½ + (m/2)cos(2πs/d) ds = ½Δ + (m/2)(d/π)·cos(π(s0 + s1)/d)·sin(πΔ/d): the difference of
         // sines written as a product, free of cancellation for thin pieces.
         piece: (c, x0, x1, acc) => {
@@ -275,11 +278,11 @@ function periodIntegrals(p: GratingProfile, d: number): PeriodIntegrals {
           acc[0]! += 0.5 * (x1 - x0) + ((m / 2) * d * Math.cos((Math.PI * (s0 + s1)) / d) * Math.sin((Math.PI * (s1 - s0)) / d)) / Math.PI;
         },
         whole: [d / 2, 0],
-      };
+      });
     }
     case 'blazed': {
       const k = (2 * Math.PI * p.depth) / d;
-      return {
+      return same({
         // ∫ e^{ik(s + d/2)} ds over [s0, s1] = Δ·sinc(αΔ/d)·e^{ik((s0 + s1)/2 + d/2)}.
         piece: (c, x0, x1, acc) => {
           const s0 = x0 - c;
@@ -291,7 +294,7 @@ function periodIntegrals(p: GratingProfile, d: number): PeriodIntegrals {
           acc[1]! += mag * Math.sin(ph);
         },
         whole: [d * Math.cos(Math.PI * p.depth) * sinc(p.depth), d * Math.sin(Math.PI * p.depth) * sinc(p.depth)],
-      };
+      });
     }
     case 'sinusoidal-phase': {
       // Jacobi–Anger: exp(i a sin u) = Σ_q J_q(a) e^{iqu}, u = 2πs/d (A&S 9.1.41). Term by term,
@@ -300,32 +303,42 @@ function periodIntegrals(p: GratingProfile, d: number): PeriodIntegrals {
       // where |J_q| < 1e-17; the rest add up to less than a few times that.
       const j = besselJnSignificant(p.modulation / 2, JACOBI_ANGER_TOL);
       const nq = j.length;
+      // w_q = 2·J_q·sinc(qΔ/d) (w_0 = J_0), then Σ w_q·(cos qū | i·sin qū). A whole grid cell has
+      // Δ = the grid step, the same for all: its weights are computed once (most cells of a fine grid
+      // lie inside one period), the pieces cut at period boundaries get their own.
+      const weights = (delta: number, w: Float64Array) => {
+        w[0] = j[0]!;
+        const beta = (Math.PI * delta) / d;
+        for (let q = 1; q < nq; q++) {
+          const qb = q * beta;
+          w[q] = 2 * j[q]! * (qb === 0 ? 1 : Math.sin(qb) / qb);
+        }
+        return w;
+      };
+      const cellW = weights(cellWidth, new Float64Array(nq));
+      const pieceW = new Float64Array(nq);
+      const add = (c: number, x0: number, x1: number, delta: number, w: Float64Array, acc: Float64Array) => {
+        const ub = (Math.PI * (x0 - c + (x1 - c))) / d;
+        const cu = Math.cos(ub);
+        const su = Math.sin(ub);
+        let re = w[0]!;
+        let im = 0;
+        // cos qū, sin qū by rotation: an error of about q ulp, far below the terms' own size.
+        let cq = 1;
+        let sq = 0;
+        for (let q = 1; q < nq; q++) {
+          const t = cq * cu - sq * su;
+          sq = sq * cu + cq * su;
+          cq = t;
+          if (q % 2 === 0) re += w[q]! * cq;
+          else im += w[q]! * sq;
+        }
+        acc[0]! += delta * re;
+        acc[1]! += delta * im;
+      };
       return {
-        piece: (c, x0, x1, acc) => {
-          const s0 = x0 - c;
-          const s1 = x1 - c;
-          const delta = x1 - x0;
-          const ub = (Math.PI * (s0 + s1)) / d;
-          const beta = (Math.PI * delta) / d;
-          const cu = Math.cos(ub);
-          const su = Math.sin(ub);
-          let re = j[0]!;
-          let im = 0;
-          // cos qū, sin qū by rotation: an error of about q ulp, far below the terms' own size.
-          let cq = 1;
-          let sq = 0;
-          for (let q = 1; q < nq; q++) {
-            const t = cq * cu - sq * su;
-            sq = sq * cu + cq * su;
-            cq = t;
-            const qb = q * beta;
-            const w = 2 * j[q]! * (qb === 0 ? 1 : Math.sin(qb) / qb);
-            if (q % 2 === 0) re += w * cq;
-            else im += w * sq;
-          }
-          acc[0]! += delta * re;
-          acc[1]! += delta * im;
-        },
+        piece: (c, x0, x1, acc) => add(c, x0, x1, x1 - x0, weights(x1 - x0, pieceW), acc),
+        cell: (c, x0, x1, acc) => add(c, x0, x1, cellWidth, cellW, acc),
         whole: [d * j[0]!, 0],
       };
     }
@@ -345,7 +358,7 @@ export function gratingCellAverages(p: GratingProfile, period: number, count: nu
   const res = out ?? new Float64Array(2 * n);
   if (res.length < 2 * n) throw new RangeError(`output holds ${res.length} numbers, ${2 * n} needed`);
   const d = period;
-  const { piece, whole } = periodIntegrals(p, d);
+  const { piece, cell, whole } = periodIntegrals(p, d, axis.step);
   const left = -(count * d) / 2;
   const right = (count * d) / 2;
   // The period centres exactly as mask.ts computes the slit centres.
@@ -367,7 +380,8 @@ export function gratingCellAverages(p: GratingProfile, period: number, count: nu
     acc[0] = 0;
     acc[1] = 0;
     if (na === nb) {
-      piece(first + na * d, a, b, acc);
+      if (a === x - half && b === x + half) cell(first + na * d, a, b, acc);
+      else piece(first + na * d, a, b, acc);
     } else {
       const ca = first + na * d;
       const cb = first + nb * d;
