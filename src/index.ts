@@ -18,6 +18,7 @@ export { runJob, runJobFile, type RunOptions, type JobOutcome } from './run/run-
 export { spotMetrics, type SpotMetrics, type IntensityMap } from './analysis/metrics.js';
 export { gratingOrders, type GratingOrder } from './analysis/orders.js';
 export { postChecks } from './analysis/validity.js';
+export { WARNING_CATALOGUE, WARNING_CODES, ACCURACY_CODES, warning, warningTitle, isAccuracyWarning, type WarningCode, type WarningDetails, type WarningEntry } from './warnings/catalogue.js';
 export { writeCase, resultJson, CASE_FILES, type CaseRecord, type CaseMetrics } from './output/case-output.js';
 export { encodeNpy, decodeNpy } from './output/npy.js';
 export { renderIntensityPng, type PictureInput } from './output/picture.js';

@@ -4,11 +4,12 @@
 // carry the power thin-grating theory gives it? A paraxial method at wide angles fails the first
 // two (it puts order m at z·sin θ_m instead of z·tan θ_m, and lands evanescent orders at
 // z·sin θ_m > z); an aliased or truncated computation fails the last.
-import { formatLength, trimNumber } from '../job/units.js';
+import { formatLength } from '../job/units.js';
 import { gratingOf } from '../elements/registry.js';
 import { METHODS } from '../job/schema.js';
 import type { Plan, Warning } from '../plan/types.js';
 import type { IntensityMap } from './metrics.js';
+import { warning } from '../warnings/catalogue.js';
 import { erfc } from '../optics/special.js';
 import { columnPower, integrateColumns, landingOrders, sinc, thinGratingFraction, type GratingInput, type GratingOrder, type OrderTable } from './orders.js';
 
@@ -103,9 +104,6 @@ export interface OrderCheckInput {
   /** What to do when a check fails (methodAdvice for a planned case). */
   advice: string;
 }
-
-const len = (x: number) => formatLength(x, 4);
-const pct = (x: number) => `${trimNumber(100 * x, 3)} %`;
 
 /** Inputs from a plan: the illuminated width is the planner's, the edge weight a Gaussian's at the outline. */
 export function orderCheckInput(plan: Plan, grating: GratingInput, table: OrderTable, powerInWindow: number): OrderCheckInput {
@@ -329,53 +327,40 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
 
   const warnings: Warning[] = [];
   if (misplaced.length || stray.length) {
-    const parts: string[] = [];
-    if (misplaced.length) {
-      const list = misplaced.slice(0, 6).map((c) => {
-        const o = byM.get(c.m)!;
-        const deg = trimNumber(((o.angle ?? 0) * 180) / Math.PI, 4);
-        const at = c.centroid === null ? 'its interval is dark' : `its light is centred at ${len(c.centroid)}`;
-        const parax =
-          c.centroid !== null && Math.abs(z * o.sinAngle - c.centroid) < Math.abs(c.centroid - c.position) / 3
-            ? ` (about z·sin θ = ${len(z * o.sinAngle)}, where a paraxial method puts it)`
-            : '';
-        return `order ${c.m}: ${at}${parax}, but the grating equation puts it at z·tan θ = ${len(c.position)} (θ = ${deg}°)${
-          c.centroid === null ? '' : `, ${len(Math.abs(c.centroid - c.position))} off`
-        }, tolerance ${len(c.centroidTolerance)}`;
-      });
-      parts.push(
-        `${misplaced.length === 1 ? 'an order is' : `${misplaced.length} orders are`} not where they should be — ${list.join('; ')}${
-          misplaced.length > 6 ? `; and ${misplaced.length - 6} more` : ''
-        } (centroids over each order's interval, less the small shift this finite grating's envelope gives them; tolerance: the larger of one output sample, ${len(dx)}, and 1 % of the order's distance from the axis)`,
-      );
-    }
-    if (stray.length) {
-      const list = stray.slice(0, 4).map(
-        (s) =>
-          `a peak at ${len(s.position)} holding ${pct(s.fraction)} of the transmitted power` +
-          (s.paraxialOrder !== null
-            ? s.evanescent
-              ? `, where a paraxial method lands the evanescent order ${s.paraxialOrder} (z·sin θ = ${len(z * sinOf(s.paraxialOrder))}; it should reach no screen at all)`
-              : `, where a paraxial method puts order ${s.paraxialOrder} (z·sin θ = ${len(z * sinOf(s.paraxialOrder))}; it lands at z·tan θ = ${len(positionOf(s.paraxialOrder))})`
-            : '') +
-          (Number.isFinite(s.nearestPosition) ? `; the nearest order that lands is ${s.nearestOrder}, at ${len(s.nearestPosition)}` : ''),
-      );
-      parts.push(`light where no order lands: ${list.join('; ')}${stray.length > 4 ? `; and ${stray.length - 4} more such peaks` : ''}`);
-    }
-    warnings.push({ code: 'orders-misplaced', message: `${parts.join('. Also ')}. The computation itself is off here, not the physics: ${inp.advice}` });
+    warnings.push(
+      warning('orders-misplaced', {
+        misplaced: misplaced.map((c) => {
+          const o = byM.get(c.m)!;
+          const paraxialAt = z * o.sinAngle;
+          return {
+            m: c.m,
+            position: c.position,
+            angle: o.angle ?? 0,
+            centroid: c.centroid,
+            paraxialAt: c.centroid !== null && Math.abs(paraxialAt - c.centroid) < Math.abs(c.centroid - c.position) / 3 ? paraxialAt : null,
+            tolerance: c.centroidTolerance,
+          };
+        }),
+        stray: stray.map((s) => ({
+          position: s.position,
+          fraction: s.fraction,
+          paraxial:
+            s.paraxialOrder !== null ? { order: s.paraxialOrder, at: z * sinOf(s.paraxialOrder), landsAt: s.evanescent ? null : positionOf(s.paraxialOrder) } : null,
+          nearest: Number.isFinite(s.nearestPosition) ? { order: s.nearestOrder, position: s.nearestPosition } : null,
+        })),
+        sampleStep: dx,
+        advice: inp.advice,
+      }),
+    );
   }
   if (powerOff.length) {
-    const list = powerOff
-      .slice(0, 6)
-      .map((c) => `order ${c.m}: ${pct(c.measured)} of the transmitted power measured, ${pct(c.predicted)} predicted (allowed ±${pct(c.powerTolerance)})`);
-    warnings.push({
-      code: 'orders-power',
-      message:
-        `the power of ${powerOff.length === 1 ? 'an order' : `${powerOff.length} orders`} differs from thin-grating theory (Goodman §4.4: (w/d)·sinc²(m·w/d) of the power through the slits) by more than a correct computation of this finite grating allows — ` +
-        `${list.join('; ')}${powerOff.length > 6 ? `; and ${powerOff.length - 6} more` : ''}. ` +
-        `The allowance is twice this finite grating's own departure from the thin-grating value (its far-field model)${farField ? '' : ' and from its orders\' 1/u tails'}, plus what the window misses and 0.5 % for the method's own accuracy. ` +
-        `The computation itself is off here: ${inp.advice}`,
-    });
+    warnings.push(
+      warning('orders-power', {
+        orders: powerOff.map((c) => ({ m: c.m, measured: c.measured, predicted: c.predicted, tolerance: c.powerTolerance })),
+        farField,
+        advice: inp.advice,
+      }),
+    );
   }
   return { checked, misplaced, powerOff, stray, warnings };
 }

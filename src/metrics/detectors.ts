@@ -3,12 +3,12 @@
 // nothing in the way.
 import { detectorAreaInWindow, detectorPower, type DetectorSpec } from '../analysis/encircled.js';
 import type { IntensityMap } from '../analysis/metrics.js';
-import { formatLength, trimNumber } from '../job/units.js';
 import type { Axis } from '../optics/field.js';
 import { intensityOf } from '../optics/field.js';
 import { freeField } from '../optics/free.js';
 import type { DetectorResult } from '../output/case-output.js';
 import type { Plan, Warning } from '../plan/types.js';
+import { warning, type DetectorOutsideDetails } from '../warnings/catalogue.js';
 import { column, metric, type MetricFamily, type Quantity } from './types.js';
 
 /**
@@ -19,7 +19,7 @@ import { column, metric, type MetricFamily, type Quantity } from './types.js';
  */
 export function readDetectors(plan: Plan, map: IntensityMap, centre: [number, number], reference: number | null): { results: DetectorResult[]; warnings: Warning[] } {
   const results: DetectorResult[] = [];
-  const outside: string[] = [];
+  const outside: DetectorOutsideDetails[] = [];
   plan.case.analysis.detectors.forEach((det, i) => {
     const at = det.at ?? centre;
     const spec: DetectorSpec = { kind: det.kind, size: det.size, at };
@@ -35,22 +35,20 @@ export function readDetectors(plan: Plan, map: IntensityMap, centre: [number, nu
       referencePower: ref,
       areaInWindow,
     });
-    if (areaInWindow < 1 - 1e-9) {
-      const where = `${det.kind} ${i + 1} (${formatLength(det.size, 3)} at ${formatLength(at[0], 4)}${plan.y ? `, ${formatLength(at[1], 4)}` : ''})`;
-      outside.push(
-        areaInWindow === 0
-          ? `${where} lies wholly outside the window: it has no value (null)`
-          : `${where} has ${trimNumber(100 * (1 - areaInWindow), 3)} % of its ${plan.y ? 'area' : 'width'} outside the window: its value counts only the part inside and is a lower bound`,
-      );
-    }
+    if (areaInWindow < 1 - 1e-9) outside.push({ kind: det.kind, number: i + 1, size: det.size, at, inside: areaInWindow });
   });
   const warnings: Warning[] = [];
   if (outside.length) {
-    const win = `${formatLength(2 * plan.x.windowHalf, 3)}${plan.y ? ` × ${formatLength(2 * plan.y.windowHalf, 3)}` : ''} window centred at ${formatLength(plan.x.windowCentre, 4)}${plan.y ? `, ${formatLength(plan.y.windowCentre, 4)}` : ''}`;
-    warnings.push({
-      code: 'detector-outside',
-      message: `${outside.join('; ')} (the ${win}); ${plan.case.window ? 'widen the window the job gives' : 'give a window in the job that covers it'} or move the detector`,
-    });
+    warnings.push(
+      warning('detector-outside', {
+        detectors: outside,
+        window: {
+          size: [2 * plan.x.windowHalf, plan.y ? 2 * plan.y.windowHalf : null],
+          centre: [plan.x.windowCentre, plan.y ? plan.y.windowCentre : null],
+        },
+        windowGiven: !!plan.case.window,
+      }),
+    );
   }
   return { results, warnings };
 }

@@ -1,6 +1,7 @@
 import type { Aperture, Illumination } from '../optics/aperture.js';
 import type { Axis } from '../optics/field.js';
 import type { MethodRequest } from '../job/schema.js';
+import type { WarningCode } from '../warnings/catalogue.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
 export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct';
@@ -16,8 +17,9 @@ export type Regime = 'near-field' | 'transition' | 'far-field';
 /** one-d: invariant along y; separable: x-problem × y-problem; two-d: a full 2-D grid. */
 export type Layout = 'one-d' | 'separable' | 'two-d';
 
+/** A warning on a case: build it with warning() from src/warnings/catalogue.ts, which holds every code and its wording. */
 export interface Warning {
-  code: string;
+  code: WarningCode;
   message: string;
 }
 

@@ -4,7 +4,6 @@ import { spotMetrics } from '../analysis/metrics.js';
 import { checkOrders, orderCheckInput } from '../analysis/order-checks.js';
 import { gratingOrderTable, type GratingInput } from '../analysis/orders.js';
 import { postChecks, type GratingEvanescence } from '../analysis/validity.js';
-import { formatLength } from '../job/units.js';
 import { readDetectors } from '../metrics/detectors.js';
 import { encircledRadii } from '../metrics/encircled.js';
 import { caseVerdicts } from '../metrics/verdicts.js';
@@ -13,6 +12,7 @@ import { directionCosines } from '../optics/source.js';
 import { gratingOf } from '../elements/registry.js';
 import type { CaseMetrics, CaseRecord } from '../output/case-output.js';
 import type { Plan, Warning } from '../plan/types.js';
+import { warning } from '../warnings/catalogue.js';
 import { computeCase } from './compute.js';
 
 export function runPlannedCase(plan: Plan): CaseRecord {
@@ -72,12 +72,9 @@ export function runPlannedCase(plan: Plan): CaseRecord {
     warnings.push(...checks.warnings);
     if (table.unresolved) {
       const u = table.unresolved;
-      warnings.push({
-        code: 'orders-unresolved',
-        message:
-          `at ${formatLength(c.distance, 4)} the orders ${u.orders.length > 6 ? `${u.orders[0]}…${u.orders[u.orders.length - 1]}` : u.orders.join(', ')} overlap on the screen (each is a beam as wide as the grating's ${formatLength(input.count * input.period, 3)}, widened by its diffraction): the light between two orders is theirs together, so their powers are left empty in the order table` +
-          (u.separateBeyond !== null ? `; they separate beyond about ${formatLength(u.separateBeyond, 3)}` : '; with so few lines they never separate fully'),
-      });
+      warnings.push(
+        warning('orders-unresolved', { distance: c.distance, orders: u.orders, gratingWidth: input.count * input.period, separateBeyond: u.separateBeyond }),
+      );
     }
   }
   const verdicts = caseVerdicts(plan, computed, centre, d.powerIn);
