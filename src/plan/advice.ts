@@ -7,8 +7,3 @@ export function advisable(options: MethodOption[], not: MethodName): MethodOptio
   if (ok.length === 0) return null;
   return ok.reduce((b, o) => ((o.work ?? Infinity) < (b.work ?? Infinity) ? o : b));
 }
-
-export function adviceFor(options: MethodOption[], not: MethodName): string {
-  const a = advisable(options, not);
-  return a ? `use method: ${a.method} (valid here, and it fits)` : 'no valid method fits this case as given: narrow the window, or raise --max-memory or pass --accept-large';
-}

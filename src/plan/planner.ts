@@ -3,6 +3,7 @@
 // that fits in memory and time, its sampling, the validity checks that can be made before
 // computing, a memory estimate, and the reasons for each choice in words. It never falls back to a
 // method whose own check fails: with nothing valid that fits, the case is refused with the reasons.
+import { warning } from '../warnings/catalogue.js';
 import { apertureFacts } from '../optics/aperture.js';
 import { directionCosines } from '../optics/source.js';
 import { trimNumber } from '../job/units.js';
@@ -54,10 +55,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const reasons: string[] = [];
   const [alpha, beta] = directionCosines(ill);
   if (oneD && ill.tilt[1] !== 0) {
-    warnings.push({
-      code: 'tilt-y-ignored',
-      message: 'illumination.tilt[1] (along the slits) is ignored: a 1-D aperture is computed in the x–z plane only',
-    });
+    warnings.push(warning('tilt-y-ignored'));
   }
   const waist = ill.kind === 'gaussian' ? ill.waist : Infinity;
   // An obstacle in a beam of finite extent (a Gaussian) is propagated as it is: the beam where the
@@ -114,14 +112,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   if (win.omitted.length > 0) {
     const ms = win.omitted.map((b) => b.order!).sort((a, b) => a - b);
     const power = win.omitted.reduce((t, b) => t + b.power, 0) / Math.max(1e-300, model.propagating.reduce((t, b) => t + b.power, 0));
-    warnings.push({
-      code: 'orders-outside',
-      message:
-        `propagating orders ${orderList(ms)} (${pct(power)} of the power that reaches the screen) land outside the window` +
-        (c.window
-          ? ' the job gives; they are listed in the order table as outside; widen the window to see them'
-          : `: holding them at a pitch that resolves each order would take more output samples than the ${oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D} per axis allowed; they are listed in the order table as outside; give a window around the orders of interest`),
-    });
+    warnings.push(warning('orders-outside', { orders: ms, fraction: power, windowGiven: !!c.window, maxOutput: oneD ? LIMITS.maxOutput1D : LIMITS.maxOutput2D }));
   }
   reasons.push(...lightReasons(model, c, z));
   reasons.push(
@@ -303,17 +294,6 @@ function lightReasons(m: LightModel, c: Case, z: number): string[] {
   ].concat(c.window ? [] : [`the window holds every propagating order at z = ${len(z)}.`]);
 }
 
-/** Order numbers in words: runs of consecutive orders as a…b. */
-function orderList(ms: number[]): string {
-  const parts: string[] = [];
-  for (let i = 0; i < ms.length; ) {
-    let j = i;
-    while (j + 1 < ms.length && ms[j + 1] === ms[j]! + 1) j++;
-    parts.push(j > i ? `${ms[i]}…${ms[j]}` : `${ms[i]}`);
-    i = j + 1;
-  }
-  return parts.join(', ');
-}
 
 function regimeWords(r: Regime): string {
   return r === 'near-field'
@@ -484,42 +464,27 @@ function preChecks(
   const w: Warning[] = [];
   void maxMemory;
   if (checks.featureOverWavelength < LIMITS.vectorFeature) {
-    w.push({
-      code: 'near-wavelength',
-      message: `the smallest feature (${len(g.facts.minFeature)}) is only ${fmt(checks.featureOverWavelength, 2)} λ: scalar diffraction loses accuracy there (polarisation, edge and thickness effects); a rigorous vector method is needed for quantitative results`,
-    });
+    w.push(warning('near-wavelength', { cause: 'feature', feature: g.facts.minFeature, ratio: checks.featureOverWavelength }));
   }
   if (Number.isFinite(g.waist)) {
     // A beam that barely reaches the open part: what passes is its far tail, e^{−2r²/w²} of it.
     const r = g.obstructed ? Math.min(g.facts.halfExtent[0], g.oneD ? Infinity : g.facts.halfExtent[1]) : g.facts.nearestOpen;
     const passing = Math.exp((-2 * r * r) / (g.waist * g.waist));
     if (passing < LIMITS.littleLight) {
-      w.push({
-        code: 'little-light',
-        message: `the ${len(g.waist)} beam passes only about ${passing.toExponential(1)} of its power (the open part begins ${len(r)} from its axis, ${fmt(r / g.waist, 2)} beam radii): the result is the beam's far tail, where the computed values are at the level of rounding and of the beam's truncation, and their relative accuracy is not controlled`,
-      });
+      w.push(warning('little-light', { waist: g.waist, passing, openFrom: r }));
     }
   }
   if (g.z < LIMITS.vectorDistance * g.lam) {
     // The scalar integral is still evaluated exactly, but a screen within a wavelength or so of a
     // real (thick, conducting) screen sees its near field, which scalar theory does not describe.
-    w.push({
-      code: 'near-wavelength',
-      message: `the screen is only ${fmt(g.z / g.lam, 2)} λ from the aperture: the evanescent near field of the real screen (its thickness, material and polarisation) dominates there, which scalar diffraction does not describe; a rigorous vector method is needed for quantitative results`,
-    });
+    w.push(warning('near-wavelength', { cause: 'screen', ratio: g.z / g.lam }));
   }
   if (checks.samplesPerFeature < LIMITS.minSamplesPerFeature && !d.apertureCells) {
-    w.push({
-      code: 'undersampled-feature',
-      message: `only ${fmt(checks.samplesPerFeature, 2)} samples across the smallest feature (${len(g.facts.minFeature)}); at least ${LIMITS.minSamplesPerFeature} are needed for its edges to be resolved`,
-    });
+    w.push(warning('undersampled-feature', { samples: checks.samplesPerFeature, feature: g.facts.minFeature, needed: LIMITS.minSamplesPerFeature }));
   }
   for (const a of axes) {
     if (a.inputPitch > a.requiredPitch * 1.0000001) {
-      w.push({
-        code: 'coarse-sampling',
-        message: `pitch ${len(a.inputPitch)} is coarser than the ${len(a.requiredPitch)} the accuracy target needs (${a.pitchRule.replace(/^grid\.pitch as given \(the accuracy rules ask for [^:]*: /, '').replace(/\)$/, '')}); expect aliasing or missing fringes`,
-      });
+      w.push(warning('coarse-sampling', { pitch: a.inputPitch, required: a.requiredPitch, rule: a.pitchRule }));
       break;
     }
   }
@@ -528,17 +493,14 @@ function preChecks(
     for (const a of axes) {
       const span = a.inputSamples * a.inputPitch;
       if (span < 2 * a.apertureHalf * 0.9999999 || (c.grid?.size && span < 2 * (Math.abs(a.windowCentre) + a.windowHalf))) {
-        w.push({
-          code: 'grid-too-small',
-          message: `the grid (${a.inputSamples} × ${len(a.inputPitch)} = ${len(span)}) does not cover the aperture and the window; the field is cut and wraps around`,
-        });
+        w.push(warning('grid-too-small', { covers: 'aperture-and-window', samples: a.inputSamples, pitch: a.inputPitch }));
         break;
       }
     }
   } else if (c.grid?.size) {
     for (const a of axes) {
       if (a.inputSamples * a.inputPitch < 2 * a.apertureHalf * 0.9999999) {
-        w.push({ code: 'grid-too-small', message: `the grid (${a.inputSamples} × ${len(a.inputPitch)}) does not cover the aperture (${len(2 * a.apertureHalf)}): the aperture is cut` });
+        w.push(warning('grid-too-small', { covers: 'aperture', samples: a.inputSamples, pitch: a.inputPitch, aperture: 2 * a.apertureHalf }));
         break;
       }
     }
@@ -547,20 +509,14 @@ function preChecks(
   const use = d.useWarning?.({ checks, g, options });
   if (use) w.push(use);
   if (checks.transferSampling !== undefined && checks.transferSampling < 1) {
-    w.push({
-      code: 'transfer-undersampled',
-      message: `the Fresnel transfer function is under-sampled (Δx = ${fmt(checks.transferSampling, 2)}·λz/L < λz/L, Voelz): expect aliasing; without grid.size the planner picks a Fresnel form that is sampled correctly here`,
-    });
+    w.push(warning('transfer-undersampled', { sampling: checks.transferSampling }));
   }
   if (!fft) {
     for (const a of axes) {
       const d = 2 * a.apertureHalf;
       const nyquist = (g.lam * g.z) / (2 * d);
       if (a.output.step > nyquist * 1.0000001) {
-        w.push({
-          code: 'output-undersampled',
-          message: `the output pitch ${len(a.output.step)} is coarser than the intensity's Nyquist pitch λz/(2D) = ${len(nyquist)}: fringes are not resolved in the window (${len(2 * a.windowHalf)}); narrow the window`,
-        });
+        w.push(warning('output-undersampled', { pitch: a.output.step, nyquist, window: 2 * a.windowHalf }));
         break;
       }
     }
