@@ -11,7 +11,8 @@ import type { Plan, Warning } from '../plan/types.js';
 import type { IntensityMap } from './metrics.js';
 import { warning } from '../warnings/catalogue.js';
 import { erfc } from '../optics/special.js';
-import { columnPower, integrateColumns, landingOrders, sinc, thinGratingFraction, type GratingInput, type GratingOrder, type OrderTable } from './orders.js';
+import { columnPower, integrateColumns, landingOrders, type GratingInput, type GratingOrder, type OrderTable } from './orders.js';
+import { gratingHalfWidth, orderFraction, periodPower, periodSpectrum2 } from './grating-shape.js';
 
 /** Orders below this fraction of the transmitted power (thin-grating theory) are not checked. */
 export const CHECKED_ORDER_MIN = 1e-3;
@@ -110,7 +111,7 @@ export function orderCheckInput(plan: Plan, grating: GratingInput, table: OrderT
   const ill = plan.case.illumination;
   const waist = ill.kind === 'gaussian' ? ill.waist : Infinity;
   const a = gratingOf(plan.case.aperture);
-  const halfExtent = a ? ((a.count - 1) * a.period + a.width) / 2 : plan.x.apertureHalf;
+  const halfExtent = a ? gratingHalfWidth(a) : plan.x.apertureHalf;
   const edgeWeight = Number.isFinite(waist) ? Math.exp((-2 * halfExtent * halfExtent) / (waist * waist)) : 1;
   const propagating = grating.powerTransmitted * (1 - table.evanescentFraction);
   return {
@@ -198,7 +199,7 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
         const xk = positionOf(k);
         const near = Math.min(Math.abs(xk - a), Math.abs(xk - b)) - W / 2;
         const far = Math.max(Math.abs(xk - a), Math.abs(xk - b)) - W / 2;
-        leak += thinGratingFraction(g.width, g.period, k) * Math.max(0, tail(k, near) - tail(k, far));
+        leak += orderFraction(g, k) * Math.max(0, tail(k, near) - tail(k, far));
       }
     }
     const windowLoss = f * Math.max(0, 1 - inp.propagatingInWindow);
@@ -208,7 +209,12 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
       position: x,
       centroid,
       modelShift: shift,
-      centroidTolerance: Math.max(dx, 0.01 * Math.abs(x)),
+      // Nearer the grating than its far field the neighbours' tails (the leak above) lie inside the
+      // interval on one side more than the other when the profile's orders are not symmetric (a
+      // sinusoidal phase grating's ±1 amplitudes have opposite signs), and pull the centroid by up
+      // to their share of the power times the half-width, twice over for their interference.
+      // Equal slits have symmetric orders: their tolerance stays one sample or 1 % of the position.
+      centroidTolerance: Math.max(dx, 0.01 * Math.abs(x), farField || f <= 0 || !g.profile ? 0 : (2 * leak * r) / f),
       measured,
       predicted: f,
       model: modelPower,
@@ -265,7 +271,7 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
     const n = nearestLanding(x);
     let sum = 0;
     for (let k = Math.max(lo, n - 50); k <= Math.min(hi, n + 50); k++) {
-      const f = thinGratingFraction(g.width, g.period, k);
+      const f = orderFraction(g, k);
       const lk = lobe(gammaOf(k));
       const dist = Math.abs(x - positionOf(k));
       const u = Math.max(dist - W / 2, lk / 2);
@@ -383,7 +389,6 @@ export interface GratingModel {
 export function gratingFarFieldModel(g: GratingInput, waist: number): GratingModel {
   const N = g.count;
   const d = g.period;
-  const w = g.width;
   const lam = g.wavelength;
   const z = g.distance;
   const beta = g.sinIncidenceY ?? 0;
@@ -401,7 +406,8 @@ export function gratingFarFieldModel(g: GratingInput, waist: number): GratingMod
     weights.push(a);
   }
   let total = 0;
-  for (const a of weights) total += a * a * w;
+  const perPeriod = periodPower(g);
+  for (const a of weights) total += a * a * perPeriod;
   // Beyond a few hundred lit slits, a Gaussian's array factor is its Poisson sum: Gaussians of
   // width 1/(πw₀) at the orders (the grating is then much wider than the beam or nearly so).
   const poisson = !plane && centres.length > 400;
@@ -426,7 +432,7 @@ export function gratingFarFieldModel(g: GratingInput, waist: number): GratingMod
     }
     return re * re + im * im;
   };
-  const spectrum2 = (f: number) => (w * sinc(w * f)) ** 2 * arrayFactor2(f);
+  const spectrum2 = (f: number) => periodSpectrum2(g, f) * arrayFactor2(f);
   const alphaOf = (x: number) => (x * sb) / Math.hypot(x, z);
   const xOfAlpha = (a: number) => (z * a) / Math.sqrt(Math.max(1e-300, sb * sb - a * a));
   // The spot of the whole lit grating in f is 1/W wide; panels of a quarter of that resolve every lobe.

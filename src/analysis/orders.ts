@@ -93,8 +93,10 @@ export interface OrderTable {
 
 export interface GratingInput {
   period: number;
-  /** Slit width (for the thin-grating prediction). */
-  width: number;
+  /** Slit width of a grating of equal slits (for the thin-grating prediction), or null for a profile. */
+  width: number | null;
+  /** The grating's profile when it is not one of equal slits (grating-profile.ts). */
+  profile?: GratingProfile | null;
   /** Number of lines (slits) illuminated. */
   count: number;
   wavelength: number;
@@ -107,7 +109,9 @@ export interface GratingInput {
   powerIncident: number | null;
 }
 
-import { landingOrders, thinGratingFraction } from '../optics/grating.js';
+import { landingOrders } from '../optics/grating.js';
+import type { GratingProfile } from '../optics/grating-profile.js';
+import { gratingHalfWidth, listedOrderReach, orderFraction } from './grating-shape.js';
 
 export { sinc, thinGratingFraction, landingOrders } from '../optics/grating.js';
 
@@ -175,7 +179,7 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
   // light (what the window misses is the window loss, reported apart).
   const landing: GratingOrder[] = [];
   let carried = 0;
-  const core = ((g.count - 1) * g.period + g.width) / 2;
+  const core = gratingHalfWidth(g);
   for (let m = lo; m <= hi; m++) {
     const x = positionOf(m);
     const prev = m > lo ? positionOf(m - 1) : null;
@@ -189,7 +193,7 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
     if (next === null && b > w1 && x + core + 3 * lobe <= w1) b = w1;
     const inWindow = a >= w0 && b <= w1;
     const outside = inWindow ? undefined : b < w0 || a > w1 ? ('all' as const) : ('part' as const);
-    const predicted = thinGratingFraction(g.width, g.period, m);
+    const predicted = orderFraction(g, m);
     carried += predicted;
     const obliquity = gammaOf(m) / gammaI;
     // Spread beyond the footprint: three far-field lobes λz/D, or in the grating's near field three
@@ -228,14 +232,13 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
   // Orders that do not land, outwards from the cut-off on each side: the first one always, then
   // as far as thin-grating theory gives one at least EVANESCENT_LISTED of the transmitted power.
   // The sinc² envelope (w/d)/(π m w/d)² bounds how far that can be.
-  const duty = g.width / g.period;
-  const reach = Math.ceil(Math.sqrt(1 / (duty * Math.PI ** 2 * EVANESCENT_LISTED))) + 1;
+  const reach = listedOrderReach(g, EVANESCENT_LISTED);
   let grazing = 0;
   const beyond = (start: number, step: 1 | -1): GratingOrder[] => {
     const out: GratingOrder[] = [];
     let last = 0;
     for (let k = 0, m = start; k === 0 || Math.abs(m) <= reach; k++, m += step) {
-      const p = thinGratingFraction(g.width, g.period, m);
+      const p = orderFraction(g, m);
       const s = sinOf(m);
       const graze = Math.abs(Math.abs(s) - Math.sqrt(Math.max(0, 1 - beta * beta))) < 1e-12;
       if (graze) grazing += p;

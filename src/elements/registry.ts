@@ -2,12 +2,14 @@
 // union, the folder-name tokens, the Aperture type and every question the rest of the program asks
 // about an element come from this list.
 import type { Axis } from '../optics/field.js';
+import type { GratingProfile } from '../optics/grating-profile.js';
 import { geometryFacts, type ApertureFacts, type ApertureGeometry, type Profile } from '../optics/geometry.js';
 import { sampleGeometry } from '../optics/mask-cells.js';
 import { annulus } from './annulus.js';
 import { makeArray } from './array.js';
 import { circle } from './circle.js';
 import { makeCombined, type PartKind } from './combined.js';
+import { grating } from './grating.js';
 import { polygon } from './polygon.js';
 import { rectangle } from './rectangle.js';
 import { slit } from './slit.js';
@@ -18,7 +20,7 @@ import type { CellTransmittance, ElementKind, ElementSchema, ElementSpec } from 
 const PARTS = [circle, rectangle, slit, annulus, slits, polygon] as const;
 const parts = PARTS as unknown as readonly PartKind[];
 
-export const ELEMENTS = [...PARTS, makeCombined(parts), makeArray(parts)] as const;
+export const ELEMENTS = [...PARTS, makeCombined(parts), makeArray(parts), grating] as const;
 
 type SpecOf<E> = E extends ElementKind<infer S, infer _Sch> ? S : never;
 /** One case's element (SI units), whichever kind. */
@@ -78,12 +80,22 @@ export function isOneDAperture(a: Aperture): boolean {
   return g.kind === 'separable' && g.y === null;
 }
 
-/** A grating of lines along x (its slits, and their length; none: infinitely long), or null. */
-export function gratingOf(a: Aperture): { count: number; width: number; period: number; length: number | null } | null {
+/**
+ * A grating of lines along x, or null: its periods, their length (null: infinitely long), and
+ * either its slit width (a binary amplitude grating of equal slits, whose thin-grating theory is
+ * (w/d)·sinc²(m·w/d)) or its profile (any thin grating: grating-profile.ts).
+ */
+export function gratingOf(a: Aperture): GratingLines | null {
   const g = geometryOf(a);
-  if (g.kind !== 'separable' || g.x.kind !== 'grating') return null;
-  return { count: g.x.count, width: g.x.width, period: g.x.period, length: g.y ? g.y.width : null };
+  if (g.kind !== 'separable' || (g.x.kind !== 'grating' && g.x.kind !== 'periodic')) return null;
+  const length = g.y && g.y.kind === 'interval' ? g.y.width : null;
+  if (g.x.kind === 'grating') return { count: g.x.count, width: g.x.width, profile: null, period: g.x.period, length };
+  return { count: g.x.count, width: null, profile: g.x.profile, period: g.x.period, length };
 }
+
+export type GratingLines =
+  | { count: number; period: number; length: number | null; width: number; profile: null }
+  | { count: number; period: number; length: number | null; width: null; profile: GratingProfile };
 
 /** Concentric rings centred on the axis (a disc, an annulus): radially symmetric under an untilted beam. */
 export function isRound(a: Aperture): boolean {

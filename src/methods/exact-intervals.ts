@@ -9,6 +9,7 @@ import type { Plan } from '../plan/types.js';
 /** The open intervals of a 1-D profile, centred on the axis as the masks centre it. */
 export function profileIntervals(p: Profile): Interval[] {
   if (p.kind === 'interval') return [{ lo: -p.width / 2, hi: p.width / 2 }];
+  if (p.kind === 'periodic') throw new Error('a grating profile has no open intervals (it is not binary): the exact sums do not take it');
   const first = -((p.count - 1) / 2) * p.period;
   const out: Interval[] = [];
   for (let n = 0; n < p.count; n++) out.push({ lo: first + n * p.period - p.width / 2, hi: first + n * p.period + p.width / 2 });

@@ -1,5 +1,6 @@
 // The exact integral for a plane wave at normal incidence as an integral along the aperture's
 // boundary (src/optics/rs-boundary.ts): exact, and a line integral per output point.
+import { isBinary } from '../elements/registry.js';
 import { boundaryRegionsOf, costRsBoundary, rsBoundary } from '../optics/rs-boundary.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -18,6 +19,8 @@ export const rayleighSommerfeldBoundary: MethodDescriptor = {
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
+    // The exact sums take openings (cells, intervals, boundaries), not complex transmittances.
+    if (!isBinary(c.aperture)) return null;
     if (g.oneD || uncostedSlits(g, c)) return null;
     // (Not when the job gives a grid: it asks for a sampled aperture.)
     const regions = !c.grid && c.illumination.kind === 'plane' && c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0 ? boundaryRegionsOf(c.aperture) : null;

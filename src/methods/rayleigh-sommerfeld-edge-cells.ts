@@ -2,6 +2,7 @@
 // exact weights in the cells an edge crosses (src/optics/rs-2d-*.ts); the pitch and node count are
 // the cheapest that keep the error within the target; round and mirror-symmetric sources take the
 // radial or mirror path.
+import { isBinary } from '../elements/registry.js';
 import { rs2DSampling, rsCells2DFromAperture, rsSum2D } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -21,6 +22,8 @@ export const rayleighSommerfeldEdgeCells: MethodDescriptor = {
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
+    // The exact sums take openings (cells, intervals, boundaries), not complex transmittances.
+    if (!isBinary(c.aperture)) return null;
     if (g.oneD) return null;
     // A grating with too many slits to cost gets this form, impossible, in place of every 2-D one.
     const uncosted = uncostedSlits(g, c);

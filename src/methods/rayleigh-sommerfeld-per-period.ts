@@ -1,6 +1,6 @@
 // The exact integral for a grating of slits lit by a plane wave: one period's field on a lattice
 // commensurate with the period, summed over the periods (src/optics/rayleigh-sommerfeld.ts).
-import { gratingOf } from '../elements/registry.js';
+import { gratingOf, isBinary } from '../elements/registry.js';
 import { costRsPerPeriod1D, periodicAxis } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -20,12 +20,14 @@ export const rayleighSommerfeldPerPeriod: MethodDescriptor = {
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
+    // The exact sums take openings (cells, intervals, boundaries), not complex transmittances.
+    if (!isBinary(c.aperture)) return null;
     if (!g.oneD) return null;
     const a = gratingOf(c.aperture);
     const cell = exactCell(g, c);
     const out = exactOutputAxes(g, c)[0]!;
     const rule = oneDCellRule(cell);
-    if (a && a.count >= 2 && c.illumination.kind === 'plane') {
+    if (a && a.width !== null && a.count >= 2 && c.illumination.kind === 'plane') {
       const lo = out.output.start;
       const hi = out.output.start + (out.output.n - 1) * out.output.step;
       const pa = periodicAxis(a.period, out.output.step, lo, hi);

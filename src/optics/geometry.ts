@@ -4,6 +4,8 @@
 // the geometry; elements (src/elements/) say which geometry they are. A representation, not a
 // list of element names: a new element either is one of these or samples itself.
 
+import { meanTransmission, profileMinFeature, type GratingProfile } from './grating-profile.js';
+
 /** Illumination in SI units: a plane wave or a Gaussian beam (waist at the aperture), tilted. */
 export type Illumination =
   | { kind: 'plane'; tilt: [number, number] }
@@ -12,7 +14,9 @@ export type Illumination =
 /** The open part of an aperture along one axis, when the aperture is a product of two such. */
 export type Profile =
   | { kind: 'interval'; width: number }
-  | { kind: 'grating'; count: number; width: number; period: number };
+  | { kind: 'grating'; count: number; width: number; period: number }
+  /** A thin grating of any profile (grating-profile.ts): complex, sampled by cell averages only. */
+  | { kind: 'periodic'; count: number; period: number; profile: GratingProfile };
 
 /**
  * The open part of an element, centred on the axis. A null y-profile means the opening is
@@ -37,6 +41,18 @@ export interface ProfileFacts {
 
 export function profileFacts(p: Profile): ProfileFacts {
   if (p.kind === 'interval') return { halfExtent: p.width / 2, minFeature: p.width, open: p.width, edges: 2 };
+  if (p.kind === 'periodic') {
+    // Open length: the power through it per unit irradiance, count·d·mean|t|². Edges: the outline's
+    // two, and every step in the profile (binary steps twice a period, a blazed tooth's once):
+    // they send light to wide angles as a slit's edges do.
+    const steps = p.profile.kind === 'binary-phase' || p.profile.kind === 'binary-amplitude' ? 2 : p.profile.kind === 'blazed' ? 1 : 0;
+    return {
+      halfExtent: (p.count * p.period) / 2,
+      minFeature: profileMinFeature(p.profile, p.period),
+      open: p.count * p.period * meanTransmission(p.profile),
+      edges: 2 + steps * p.count,
+    };
+  }
   const extent = (p.count - 1) * p.period + p.width;
   const bar = p.period - p.width;
   return {
@@ -76,7 +92,7 @@ export interface ApertureFacts {
 
 /** A profile's nearest open point to the axis: 0 unless a grating has a bar on the axis. */
 function nearestOpenOf(p: Profile): number {
-  if (p.kind === 'interval' || p.count % 2 === 1) return 0;
+  if (p.kind === 'interval' || p.kind === 'periodic' || p.count % 2 === 1) return 0;
   return Math.max(0, p.period / 2 - p.width / 2);
 }
 

@@ -21,6 +21,7 @@ export function sampleProfile(p: Profile, axis: Axis): Float64Array {
     }
     return out;
   }
+  if (p.kind === 'periodic') throw new Error('a grating profile is complex: sample it with gratingCellAverages');
   const first = -((p.count - 1) / 2) * p.period;
   const e = p.width / 2;
   for (let j = 0; j < axis.n; j++) {

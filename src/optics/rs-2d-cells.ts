@@ -219,6 +219,7 @@ function envelopePower1D(c: number, h: number, w: number): number {
 /** The open intervals of a profile centred on 0 (as the masks centre them). */
 function profileIntervals(p: Profile): Array<[number, number]> {
   if (p.kind === 'interval') return [[-p.width / 2, p.width / 2]];
+  if (p.kind === 'periodic') throw new Error('rsCells2D: a grating profile has no open intervals (it is not binary)');
   const first = -((p.count - 1) / 2) * p.period;
   const out: Array<[number, number]> = [];
   for (let n = 0; n < p.count; n++) out.push([first + n * p.period - p.width / 2, first + n * p.period + p.width / 2]);

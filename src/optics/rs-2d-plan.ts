@@ -32,7 +32,7 @@ function litHalfExtent(a: Aperture, ill: Illumination): [number, number] {
   let hx: number;
   let hy: number;
   if (sep) {
-    const half = (p: NonNullable<typeof sep.y>) => (p.kind === 'interval' ? p.width / 2 : ((p.count - 1) * p.period + p.width) / 2);
+    const half = (p: NonNullable<typeof sep.y>) => (p.kind === 'interval' ? p.width / 2 : p.kind === 'periodic' ? (p.count * p.period) / 2 : ((p.count - 1) * p.period + p.width) / 2);
     hx = half(sep.x);
     hy = sep.y ? half(sep.y) : Infinity;
   } else {

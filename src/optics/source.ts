@@ -5,6 +5,8 @@ import type { Aperture, Illumination, Profile } from './aperture.js';
 import { axisAt, createField, type Axis, type Field } from './field.js';
 import { sampleMask2D, sampleProfile } from './mask.js';
 import { apertureTransmittance } from '../elements/registry.js';
+import { gratingCellAverages } from './grating-profile.js';
+import { gratingPowerAverages } from './grating-transform.js';
 import type { CellTransmittance } from '../elements/types.js';
 
 export function directionCosines(ill: Illumination): [number, number, number] {
@@ -135,6 +137,21 @@ function complexSource(f: Field, c: CellTransmittance, ill: Illumination, xa: Ax
   return { field: f, power: power * xa.step * ya.step };
 }
 
+/** Multiplies a 1-D field by the carrier e^{i2πf₀x}. */
+function applyComplexCarrier(f: Field, fx0: number): void {
+  if (fx0 === 0) return;
+  const d = f.data;
+  for (let c = 0; c < f.nx; c++) {
+    const ph = 2 * Math.PI * fx0 * (f.x0 + c * f.dx);
+    const cs = Math.cos(ph);
+    const sn = Math.sin(ph);
+    const re = d[2 * c]!;
+    const im = d[2 * c + 1]!;
+    d[2 * c] = re * cs - im * sn;
+    d[2 * c + 1] = re * sn + im * cs;
+  }
+}
+
 /** One factor of a separable (or 1-D) source: profile × envelope along one axis. */
 export function sourceField1D(
   p: Profile,
@@ -145,6 +162,15 @@ export function sourceField1D(
   opts: SourceOptions,
 ): Source {
   const f = createField(axis, null, wavelength);
+  if (p.kind === 'periodic') {
+    const t = gratingCellAverages(p.profile, p.period, p.count, axis);
+    const cells: CellTransmittance = { t, weight: gratingPowerAverages(p.profile, p.period, p.count, axis, t) };
+    const one: Axis = { n: 1, start: 0, step: 1 };
+    // As a 2-D source of one row: the envelope along y is 1 (createField's 1-D layout keeps dy = 0).
+    const src = complexSource(f, cells, { ...ill, tilt: [ill.tilt[0], 0] } as Illumination, axis, one, wavelength, { ...opts, sampleCarrier: false });
+    if (opts.sampleCarrier) applyComplexCarrier(f, carrierFrequency);
+    return { field: f, power: src.power };
+  }
   const mask = sampleProfile(p, axis);
   if (opts.obstructed) for (let i = 0; i < mask.length; i++) mask[i] = 1 - mask[i]!;
   const e = envelope(ill, axis);

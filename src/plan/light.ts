@@ -6,7 +6,9 @@
 import type { Aperture, ApertureFacts, Illumination } from '../optics/aperture.js';
 import { gratingOf } from '../elements/registry.js';
 import { directionCosines } from '../optics/source.js';
-import { landingOrders, thinGratingFraction } from '../optics/grating.js';
+import { landingOrders } from '../optics/grating.js';
+import { orderFraction } from '../analysis/grating-shape.js';
+import { significantOrders } from '../optics/grating-profile.js';
 
 export interface Beam {
   /** Diffraction order (gratings), or null for the one beam of a plain aperture. */
@@ -23,6 +25,9 @@ export interface Beam {
 
 /** Gratings with more propagating orders than this are modelled as one beam (see lightModel). */
 export const MAX_ORDERS = 256;
+
+/** A smooth grating profile's orders beyond those holding all but this of its power are not beams. */
+export const SMOOTH_ORDER_TAIL = 1e-7;
 
 export interface LightModel {
   beams: Beam[];
@@ -81,20 +86,27 @@ export function lightModel(
   // as one beam with every slit's edges: its orders are packed closer than the slits' own
   // diffraction spreads them, and they separate on the screen only far beyond its far-field
   // distance. The order table still lists them.
-  if (grating && !obstructed && orderRange && orderRange[1] - orderRange[0] + 1 <= MAX_ORDERS) {
+  // A smooth profile (a sinusoid) puts its light into a few orders and none (or next to none)
+  // into the rest: only those are beams, or every propagating order would widen the window to 90°.
+  // Profiles with steps (slits, binary phase, blazed teeth) keep every order, as slits always have:
+  // their 1/m² tails carry light wherever the orders land.
+  const smooth = grating?.profile && (grating.profile.kind === 'sinusoidal-amplitude' || grating.profile.kind === 'sinusoidal-phase') ? significantOrders(grating.profile, SMOOTH_ORDER_TAIL) : null;
+  const beamRange = orderRange && smooth ? ([Math.max(orderRange[0], smooth[0]), Math.min(orderRange[1], smooth[1])] as [number, number]) : orderRange;
+  if (grating && !obstructed && orderRange && beamRange && beamRange[1] - beamRange[0] + 1 <= MAX_ORDERS) {
     const [lo, hi] = orderRange;
     let carried = 0;
     for (let m = lo; m <= hi; m++) {
       const dir: [number, number] = [alpha + (m * lam) / grating.period, oneD ? 0 : beta];
-      const p = thinGratingFraction(grating.width, grating.period, m);
+      const p = orderFraction(grating, m);
       // With a tilt along the lines too, an order propagates only while α² + β² < 1.
       const landing = land(dir);
       if (landing) carried += p;
+      if (m < beamRange[0] || m > beamRange[1]) continue;
       beams.push({ order: m, dir, power: p, propagates: landing !== null, landing });
     }
     // The first evanescent order on each side, so that reports can show where the cut-off is.
     for (const m of [lo - 1, hi + 1]) {
-      beams.push({ order: m, dir: [alpha + (m * lam) / grating.period, oneD ? 0 : beta], power: thinGratingFraction(grating.width, grating.period, m), propagates: false, landing: null });
+      beams.push({ order: m, dir: [alpha + (m * lam) / grating.period, oneD ? 0 : beta], power: orderFraction(grating, m), propagates: false, landing: null });
     }
     // Each order is a beam as wide as the grating: its tails come from the grating's outline
     // (two edges in 1-D; the outline's length in 2-D), not from every slit's edges.

@@ -45,6 +45,7 @@ export function runPlannedCase(plan: Plan): CaseRecord {
     const input: GratingInput = {
       period: a.period,
       width: a.width,
+      profile: a.profile,
       count: a.count,
       wavelength: c.wavelength,
       distance: c.distance,
