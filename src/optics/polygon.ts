@@ -320,7 +320,9 @@ export function polygonFacts(v: readonly Vertex[]): PolygonFacts {
  * nothing to the division by w.
  */
 function cellShare(xl: number, xr: number, w: number, a: number, b: number): number {
-  if (w === 0) return Math.min(b - a, Math.max(0, xl - a));
+  if (xl >= b) return b - a;
+  if (xr <= a) return 0;
+  if (w === 0) return xl - a;
   const right = Math.max(0, xr - Math.max(b, xl));
   const lo = Math.max(a, xl);
   const hi = Math.min(b, xr);
@@ -332,7 +334,9 @@ function cellShare(xl: number, xr: number, w: number, a: number, b: number): num
  * Exact open fraction of every cell of the grid xa × ya (row-major, rows along y) for a polygon in
  * either orientation, convex or not. Cell j along an axis is [x_j − step/2, x_j + step/2]. Parts of
  * the polygon outside the grid are cut off. The polygon should pass polygonProblem; a
- * self-intersecting outline gives its winding number clamped to [0, 1], not its union.
+ * self-intersecting outline gives its winding number clamped to [0, 1], not its union. Values are
+ * exact to rounding: a cell beside the outline that it does not reach may hold a few 1e-17 instead
+ * of 0 (never less than 0: values are clamped to [0, 1]); nothing is snapped or thresholded.
  */
 export function polygonCellFractions(v: readonly Vertex[], xa: Axis, ya: Axis, out?: Float64Array): Float64Array {
   const nx = xa.n;

@@ -189,6 +189,21 @@ describe('polygonCellFractions: every cell against a Sutherland–Hodgman clip o
     }
   });
 
+  it('a triangle inside one cell, one over a cell corner, one far off the grid', () => {
+    const xa: Axis = { n: 6, start: 0, step: 2 * um };
+    const ya: Axis = { n: 5, start: 1 * um, step: 3 * um };
+    const inCell: Vertex[] = [[3.1 * um, 4.2 * um], [4.6 * um, 4.4 * um], [3.5 * um, 5.3 * um]];
+    const onCorner: Vertex[] = [[4.2 * um, 1.7 * um], [5.9 * um, 3.3 * um], [4.4 * um, 3.9 * um]];
+    const far: Vertex[] = [[1, 1], [1.1, 1], [1, 1.1]];
+    for (const v of [inCell, onCorner]) {
+      expect(maxAbsDiff(polygonCellFractions(v, xa, ya), referenceFractions(v, xa, ya))).toBeLessThan(1e-13);
+    }
+    // Cells the triangle does not reach hold 0 to rounding (a few 1e-17 at most: nothing is snapped).
+    expect(polygonCellFractions(inCell, xa, ya).filter((f) => f > 1e-15).length).toBe(1);
+    expect(polygonCellFractions(onCorner, xa, ya).filter((f) => f > 1e-15).length).toBe(4);
+    expect(polygonCellFractions(far, xa, ya).every((f) => f === 0)).toBe(true);
+  });
+
   it('reuses an output array (cells the polygon left are zeroed) and refuses one of the wrong size', () => {
     const xa = centredAxis(20, 1 * um);
     const ya = centredAxis(16, 1 * um);
