@@ -94,6 +94,38 @@ function starPolygon(rand: () => number, n: number, R: number, cx: number, cy: n
   });
 }
 
+/** minFeature by brute force over all pairs of non-adjacent edges (the edges of a simple polygon do not cross, so each pair's distance is the least of its four end-to-edge distances). */
+function bruteMinFeature(v: readonly Vertex[]): number {
+  const n = v.length;
+  const d = (p: Vertex, a: Vertex, b: Vertex) => {
+    const ex = b[0] - a[0], ey = b[1] - a[1];
+    const t = Math.min(1, Math.max(0, ((p[0] - a[0]) * ex + (p[1] - a[1]) * ey) / (ex * ex + ey * ey)));
+    return Math.hypot(p[0] - a[0] - t * ex, p[1] - a[1] - t * ey);
+  };
+  let best = Infinity;
+  for (let i = 0; i < n; i++) {
+    const a = v[i]!, b = v[(i + 1) % n]!;
+    best = Math.min(best, Math.hypot(b[0] - a[0], b[1] - a[1]));
+    for (let j = i + 2; j < n; j++) {
+      if (i === 0 && j === n - 1) continue;
+      const c = v[j]!, e = v[(j + 1) % n]!;
+      best = Math.min(best, d(a, c, e), d(b, c, e), d(c, a, b), d(e, a, b));
+    }
+  }
+  return best;
+}
+
+/** A burst of thin spikes converging on a point: edges that crowd together (the quadtree's hard case). */
+function burst(spikes: number, outer: number, inner: number): Vertex[] {
+  const v: Vertex[] = [];
+  for (let k = 0; k < spikes; k++) {
+    const a = (2 * Math.PI * k) / spikes;
+    const b = a + Math.PI / spikes;
+    v.push([outer * Math.cos(a), outer * Math.sin(a)], [inner * Math.cos(b), inner * Math.sin(b)]);
+  }
+  return v;
+}
+
 const L: Vertex[] = [
   [0, 0],
   [30 * um, 0],
@@ -155,6 +187,21 @@ describe('polygonCellFractions: every cell against a Sutherland–Hodgman clip o
       expect(polygonProblem(v)).toBeNull();
       expect(maxAbsDiff(polygonCellFractions(v, xa, ya), referenceFractions(v, xa, ya))).toBeLessThan(1e-12);
     }
+  });
+
+  it('a triangle inside one cell, one over a cell corner, one far off the grid', () => {
+    const xa: Axis = { n: 6, start: 0, step: 2 * um };
+    const ya: Axis = { n: 5, start: 1 * um, step: 3 * um };
+    const inCell: Vertex[] = [[3.1 * um, 4.2 * um], [4.6 * um, 4.4 * um], [3.5 * um, 5.3 * um]];
+    const onCorner: Vertex[] = [[4.2 * um, 1.7 * um], [5.9 * um, 3.3 * um], [4.4 * um, 3.9 * um]];
+    const far: Vertex[] = [[1, 1], [1.1, 1], [1, 1.1]];
+    for (const v of [inCell, onCorner]) {
+      expect(maxAbsDiff(polygonCellFractions(v, xa, ya), referenceFractions(v, xa, ya))).toBeLessThan(1e-13);
+    }
+    // Cells the triangle does not reach hold 0 to rounding (a few 1e-17 at most: nothing is snapped).
+    expect(polygonCellFractions(inCell, xa, ya).filter((f) => f > 1e-15).length).toBe(1);
+    expect(polygonCellFractions(onCorner, xa, ya).filter((f) => f > 1e-15).length).toBe(4);
+    expect(polygonCellFractions(far, xa, ya).every((f) => f === 0)).toBe(true);
   });
 
   it('reuses an output array (cells the polygon left are zeroed) and refuses one of the wrong size', () => {
@@ -241,7 +288,18 @@ describe('polygonProblem (a simple polygon: common practice)', () => {
     expect(polygonProblem(many)).toMatch(/at most 10000 vertices/);
   });
 
-  it('finds a crossing between far-apart edges of a long outline (the sweep does not skip it)', () => {
+  it('a burst of 300 thin spikes is simple; moving one tip across its neighbour is found', () => {
+    const v = burst(300, 1, 0.01);
+    expect(polygonProblem(v)).toBeNull();
+    const w = v.slice();
+    // Vertex 2k+2 is spike k's inner tip: move tip 101 (vertex 202) to halfway out along spike 105,
+    // so that its two edges cut through spikes 101–105.
+    const th = (2 * Math.PI * 105) / 300;
+    w[201] = [0.5 * Math.cos(th), 0.5 * Math.sin(th)];
+    expect(polygonProblem(w)).toMatch(/cross or touch/);
+  });
+
+  it('finds a crossing between far-apart edges of a long outline (the pair search does not skip it)', () => {
     const rand = mulberry32(99);
     const v = starPolygon(rand, 500, 1, 0, 0);
     expect(polygonProblem(v)).toBeNull();
@@ -279,24 +337,19 @@ describe('polygonFacts', () => {
     const rand = mulberry32(3);
     const v = starPolygon(rand, 30, 20 * um, 2 * um, -1 * um);
     const g = polygonFacts(v);
-    // Against brute force over all pairs of non-adjacent edges.
-    let brute = Infinity;
-    const n = v.length;
-    const segDist = (i: number, j: number) => {
-      // Sample-free: min over endpoint-to-segment distances (the edges of a simple polygon do not cross).
-      const d = (p: Vertex, a: Vertex, b: Vertex) => {
-        const ex = b[0] - a[0], ey = b[1] - a[1];
-        const t = Math.min(1, Math.max(0, ((p[0] - a[0]) * ex + (p[1] - a[1]) * ey) / (ex * ex + ey * ey)));
-        return Math.hypot(p[0] - a[0] - t * ex, p[1] - a[1] - t * ey);
-      };
-      const a = v[i]!, b = v[(i + 1) % n]!, c = v[j]!, e = v[(j + 1) % n]!;
-      return Math.min(d(a, c, e), d(b, c, e), d(c, a, b), d(e, a, b));
-    };
-    for (let i = 0; i < n; i++) {
-      brute = Math.min(brute, Math.hypot(v[(i + 1) % n]![0] - v[i]![0], v[(i + 1) % n]![1] - v[i]![1]));
-      for (let j = i + 2; j < n; j++) if (!(i === 0 && j === n - 1)) brute = Math.min(brute, segDist(i, j));
-    }
+    const brute = bruteMinFeature(v);
     expect(Math.abs(g.minFeature - brute) / brute).toBeLessThan(1e-14);
+    // Crowded edges (a burst of spikes), a comb and a smooth many-sided polygon.
+    const comb: Vertex[] = [];
+    for (let k = 0; k < 40; k++) comb.push([0, 2 * k], [1, 2 * k], [1, 2 * k + 0.7], [0, 2 * k + 0.7]);
+    comb.push([-0.05, 79.7], [-0.05, 0]);
+    for (const w of [burst(200, 1, 0.01), burst(37, 3, 0.2), comb, starPolygon(mulberry32(11), 400, 1, 0, 0)]) {
+      expect(polygonProblem(w)).toBeNull();
+      // The two compute each distance by different rounding: agree to rounding of the coordinates.
+      const want = bruteMinFeature(w);
+      const size = Math.max(...w.map((p) => Math.hypot(p[0], p[1])));
+      expect(Math.abs(polygonFacts(w).minFeature - want) / size).toBeLessThan(1e-14);
+    }
   });
 });
 
