@@ -18,6 +18,11 @@ export interface ElementSpec {
   opaque: boolean;
 }
 
+/** What resolving an element may use beyond its own keys. */
+export interface ResolveContext {
+  wavelength: number;
+}
+
 /** Reports a problem with one of the element's keys at load time. */
 export type KeyProblem = (key: string | (string | number)[], message: string) => void;
 
@@ -53,8 +58,12 @@ export interface ElementKind<S extends ElementSpec, Sch extends ElementSchema = 
   counts?: readonly string[];
   /** Checks across keys at load time (the annulus's inner diameter below its outer one). */
   check?(job: J, problem: KeyProblem): void;
-  /** One case's element from the job's mapping; value(key) is the key's value in this case. */
-  resolve(job: J, value: (key: string) => number): S;
+  /**
+   * One case's element from the job's mapping; value(key) is the key's value in this case, and the
+   * context holds what an element may depend on beyond its own keys (the case's wavelength: a
+   * blazed grating's depth given as an optical path is so many waves at each wavelength).
+   */
+  resolve(job: J, value: (key: string) => number, context: ResolveContext): S;
   /** The open part as a geometry the optics and exact methods know. */
   geometry(s: S): ApertureGeometry;
   /** Facts for the planner (default: from the geometry). */

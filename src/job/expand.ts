@@ -2,6 +2,7 @@
 // innermost so that consecutive cases share an aperture and a wavelength.
 import type { Illumination } from '../optics/aperture.js';
 import { elementOf, type Aperture } from '../elements/registry.js';
+import type { ResolveContext } from '../elements/types.js';
 import type { Case } from '../plan/types.js';
 import type { JobSpec, SweepValues } from './schema.js';
 import { lengthToken } from './units.js';
@@ -89,7 +90,7 @@ export function expandJob(job: JobSpec): Case[] {
       id: tokens.join('_'),
       wavelength: value('wavelength'),
       distance: value('distance'),
-      aperture: resolveAperture(job, value),
+      aperture: resolveAperture(job, value, { wavelength: value('wavelength') }),
       illumination: resolveIllumination(job, value),
       ...(job.grid ? { grid: job.grid } : {}),
       ...(job.window ? { window: job.window } : {}),
@@ -108,9 +109,9 @@ export function expandJob(job: JobSpec): Case[] {
   return cases;
 }
 
-function resolveAperture(job: JobSpec, value: (key: string) => number): Aperture {
+function resolveAperture(job: JobSpec, value: (key: string) => number, context: ResolveContext): Aperture {
   const a = job.aperture as unknown as { shape: string; opaque: boolean } & Record<string, unknown>;
-  return elementOf(a).resolve(a, (k: string) => value(`aperture.${k}`)) as Aperture;
+  return elementOf(a).resolve(a, (k: string) => value(`aperture.${k}`), context) as Aperture;
 }
 
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {
