@@ -24,7 +24,7 @@ export function drawZonePlates(seed = ZONE_PLATE_SEED, n = ZONE_PLATE_CASE_COUNT
   for (let index = 0; index < n; index++) {
     const lam = logUniform(rnd, 350e-9, 2e-6);
     const design = rnd() < 0.5 ? lam : lam * logUniform(rnd, 0.8, 1.25);
-    const kind = rnd() < 0.5 ? 'amplitude' : 'phase';
+    const kind: 'amplitude' | 'phase' = rnd() < 0.5 ? 'amplitude' : 'phase';
     const gaussian = rnd() < 0.3;
     // The sampled methods (the phase plate, any plate in a Gaussian beam) cost as the zones squared.
     const zones = 1 + Math.floor(rnd() * (kind === 'phase' || gaussian ? 8 : 40));
