@@ -19,6 +19,7 @@ import { expandJob } from '../../src/job/expand.js';
 import { describe as describeAperture, type Aperture } from '../../src/optics/aperture.js';
 import { apertureMask, apertureTransmittance, isBinary } from '../../src/elements/registry.js';
 import { axisIntensity } from '../reference/rs2d.js';
+import { boundaryRegionsOf, costRsBoundary, rsBoundaryWithStats } from '../../src/optics/rs-boundary.js';
 import { mm, nm, runCase, um } from '../helpers.js';
 
 const lam = 633 * nm;
@@ -215,6 +216,23 @@ describe('the masks and transmittances: exact zone areas per cell', () => {
     expect(partial).toBeGreaterThan(100);
     expect(worst).toBeLessThan(0.03);
   });
+});
+
+describe('the boundary form\'s cost for plates of many zones', () => {
+  // The planner costs the contours of at most 64 of the discs, at fewer output radii when there
+  // are many (rs-boundary.ts costRsBoundary): the estimate must still follow the walk it stands for.
+  for (const [zones, half, n, radial] of [[200, 2 * mm, 21, 'never'], [1000, 20 * um, 101, 'auto']] as const) {
+    it(`${zones} zones, ${radial === 'never' ? 'every output point integrated' : 'the radial table'}: estimated evaluations within 3 % of those made`, () => {
+      const regions = boundaryRegionsOf(plate(A.f, zones, 'amplitude'))!;
+      // r_1 … r_{N−1}: the last zone of an even count is closed, as is everything beyond it.
+      expect(regions.length).toBe(zones - 1);
+      const axis = { n, start: -half, step: (2 * half) / (n - 1) };
+      const est = costRsBoundary(regions, lam, A.f, axis, axis, { radial });
+      const made = rsBoundaryWithStats(regions, lam, A.f, axis, axis, { radial }).stats;
+      expect(made.radial).toBe(radial === 'auto');
+      expect(Math.abs(est.evaluations / made.evaluations - 1)).toBeLessThan(0.03);
+    });
+  }
 });
 
 describe('zone plate jobs: keys and load-time errors', () => {
