@@ -20,7 +20,8 @@ import { describe as describeAperture, type Aperture } from '../../src/optics/ap
 import { apertureMask, apertureTransmittance, isBinary } from '../../src/elements/registry.js';
 import { axisIntensity } from '../reference/rs2d.js';
 import { boundaryRegionsOf, costRsBoundary, rsBoundaryWithStats } from '../../src/optics/rs-boundary.js';
-import { mm, nm, runCase, um } from '../helpers.js';
+import { makeCase, mm, nm, runCase, um } from '../helpers.js';
+import { planCase } from '../../src/plan/planner.js';
 
 const lam = 633 * nm;
 
@@ -110,6 +111,29 @@ describe('binary phase zone plate on the axis at z = f', () => {
     const R = radius(P.N, P.f);
     expect(Math.abs(r.rec.metrics.powerThroughAperture! / (Math.PI * R * R) - 1)).toBeLessThan(1e-9);
   });
+});
+
+describe('the phase plate is never planned with a form that needs a binary aperture', () => {
+  // The boundary form and the exact edge cells take open/closed apertures only; the area-sampled
+  // cells and every sampled method take the complex transmittance (optics/source.ts). Plans only.
+  const lights = [
+    { kind: 'plane', tilt: [0, 0] },
+    { kind: 'plane', tilt: [0.05, 0] },
+    { kind: 'gaussian', waist: 0.4 * mm, tilt: [0, 0] },
+  ] as const;
+  for (const method of ['auto', 'rayleigh-sommerfeld'] as const) {
+    it(`method ${method}: at 0.1 f to 30 f, plane, tilted and Gaussian light`, () => {
+      for (const z of [0.1, 0.5, 1, 3, 30].map((k) => k * P.f)) {
+        for (const illumination of lights) {
+          const plan = planCase(makeCase({ wavelength: lam, distance: z, aperture: plate(P.f, P.N, 'phase'), illumination: { ...illumination, tilt: [...illumination.tilt] }, method, window: [100 * um, 100 * um] }));
+          const where = `z = ${z}, ${illumination.kind} ${illumination.tilt[0]}: ${plan.method} ${plan.form ?? ''}`;
+          expect(plan.form, where).not.toBe('boundary');
+          expect(plan.exact2D, where).toBeUndefined();
+          if (method === 'rayleigh-sommerfeld') expect(plan.form, where).toBe('direct');
+        }
+      }
+    });
+  }
 });
 
 describe('the foci along the axis (amplitude plate)', () => {
