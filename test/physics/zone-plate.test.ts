@@ -138,7 +138,8 @@ describe('the phase plate is never planned with a form that needs a binary apert
 
 describe('the foci along the axis (amplitude plate)', () => {
   const f1 = radius(1, A.f) ** 2 / lam; // the first focus f = r₁²/λ (Hecht §10.3.5), = f + λ/4 here
-  // Attwood's depth of focus ±2(Δr)²/λ, Δr the outermost zone width.
+  // The depth of focus ±2(Δr)²/λ, Δr the outermost zone width (Attwood ch. 9, from memory; the
+  // samples below show it: the intensity is 80 % of the peak at ±DOF).
   const dr = radius(A.N, A.f) - radius(A.N - 1, A.f);
   const dof = (2 * dr * dr) / lam;
   const zs = [-3, -2, -1, 0, 1, 2, 3].map((j) => f1 + j * dof);
@@ -158,7 +159,8 @@ describe('the foci along the axis (amplitude plate)', () => {
     // Each open zone spans three half-period zones as seen from f/3; two of them cancel, so the
     // same N/2 zones add 2 each (the zone construction of Hecht §10.3.5, carried to f/3 here).
     const f3 = f1 / 3;
-    const d3 = dof / 9; // the depth of focus scales with the focal length squared over λ·(f/Δr)²
+    // At f/3 the axial scale is 9× shorter (the depth of focus goes as f²/(λN) at a given N: common practice).
+    const d3 = dof / 9;
     const at = [-1, 0, 1].map((j) => onAxis(plate(A.f, A.N, 'amplitude'), f3 + j * 3 * d3).I);
     expect(at[1]!).toBeGreaterThan(at[0]!);
     expect(at[1]!).toBeGreaterThan(at[2]!);
