@@ -159,7 +159,8 @@ describe('the foci along the axis (amplitude plate)', () => {
     // Each open zone spans three half-period zones as seen from f/3; two of them cancel, so the
     // same N/2 zones add 2 each (the zone construction of Hecht §10.3.5, carried to f/3 here).
     const f3 = f1 / 3;
-    // At f/3 the axial scale is 9× shorter (the depth of focus goes as f²/(λN) at a given N: common practice).
+    // At f/3 the axial scale is 9× shorter (the depth of focus of an aperture of radius R focusing at
+    // F goes as λF²/R²: common practice).
     const d3 = dof / 9;
     const at = [-1, 0, 1].map((j) => onAxis(plate(A.f, A.N, 'amplitude'), f3 + j * 3 * d3).I);
     expect(at[1]!).toBeGreaterThan(at[0]!);
