@@ -14,13 +14,14 @@ import { polygon } from './polygon.js';
 import { rectangle } from './rectangle.js';
 import { slit } from './slit.js';
 import { slits } from './slits.js';
+import { zonePlate } from './zone-plate.js';
 import type { CellTransmittance, ElementKind, ElementSchema, ElementSpec } from './types.js';
 
 /** The binary openings a combination or an array may be built from. */
 const PARTS = [circle, rectangle, slit, annulus, slits, polygon] as const;
 const parts = PARTS as unknown as readonly PartKind[];
 
-export const ELEMENTS = [...PARTS, makeCombined(parts), makeArray(parts), grating] as const;
+export const ELEMENTS = [...PARTS, makeCombined(parts), makeArray(parts), grating, zonePlate] as const;
 
 type SpecOf<E> = E extends ElementKind<infer S, infer _Sch> ? S : never;
 /** One case's element (SI units), whichever kind. */
@@ -58,12 +59,13 @@ export function apertureMask(a: Aperture, xa: Axis, ya: Axis): Float64Array {
 /** The complex transmittance per cell of a non-binary element; null for a binary one (its mask is it). */
 export function apertureTransmittance(a: Aperture, xa: Axis, ya: Axis): CellTransmittance | null {
   const e = elementOf(a);
-  return e.transmittance ? e.transmittance(a, xa, ya) : null;
+  return e.transmittance && !isBinary(a) ? e.transmittance(a, xa, ya) : null;
 }
 
 /** Binary: open or closed everywhere (a mask); Babinet's complement and the exact edge methods apply. */
 export function isBinary(a: Aperture): boolean {
-  return !elementOf(a).transmittance;
+  const e = elementOf(a);
+  return !e.transmittance || (e.binary?.(a) ?? false);
 }
 
 /**

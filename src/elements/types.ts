@@ -77,6 +77,12 @@ export interface ElementKind<S extends ElementSpec, Sch extends ElementSchema = 
    * stop's open fraction). Absent: the element is binary and its mask is the transmittance.
    */
   transmittance?(s: S, xa: Axis, ya: Axis): CellTransmittance;
+  /**
+   * For a kind with a transmittance whose specs are binary for some values of its keys (a zone
+   * plate: amplitude or phase), whether this one is: then its mask is its transmittance, and
+   * `transmittance` is not asked. Absent: every spec of a kind with a transmittance is non-binary.
+   */
+  binary?(s: S): boolean;
   /** The open part as boundary regions for the boundary form of the exact integral (null: none). */
   boundary?(s: S): BoundaryRegion[] | null;
   /** The width a diffraction-limited verdict measures along an axis (null: no verdict there). */

@@ -3,6 +3,7 @@
 // that fits in memory and time, its sampling, the validity checks that can be made before
 // computing, a memory estimate, and the reasons for each choice in words. It never falls back to a
 // method whose own check fails: with nothing valid that fits, the case is refused with the reasons.
+import { isBinary } from '../elements/registry.js';
 import { warning } from '../warnings/catalogue.js';
 import { apertureFacts } from '../optics/aperture.js';
 import { directionCosines } from '../optics/source.js';
@@ -183,7 +184,14 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     const forced = samplings.filter((s) => s.method === c.method);
     chosen = forced.filter(fitsLimits).reduce<Chosen | undefined>((b, s) => (!b || s.work < b.work ? s : b), undefined);
     reasons.push(`${methodWords(c.method)} as requested.`);
-    if (!chosen) {
+    if (forced.length === 0) {
+      // No form of the method takes this element (the exact sums take openings, not complex
+      // transmittances): refused, with the cheapest other plan kept so that `plan` can show one.
+      chosen = samplings.reduce((b, s) => (s.work < b.work ? s : b));
+      error = `${methodWords(c.method)} does not take this element (${facts.description}): ${
+        isBinary(c.aperture) ? 'none of its forms applies here' : 'its sums take openings, open or closed everywhere, not a complex transmittance'
+      }; use method: auto`;
+    } else if (!chosen) {
       chosen = forced.reduce((b, s) => (s.work < b.work ? s : b));
       error = tooBig(chosen, c, maxMemory, maxWork, options);
     }
