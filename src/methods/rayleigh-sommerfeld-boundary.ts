@@ -4,6 +4,7 @@ import { boundaryRegionsOf, costRsBoundary, rsBoundary } from '../optics/rs-boun
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
 import type { MethodDescriptor } from './types.js';
+import { isBinary } from '../elements/registry.js';
 import { exactOutputAxes, uncostedSlits } from './rayleigh-sommerfeld-shared.js';
 import { rayleighSommerfeldValidity } from './validity.js';
 import { apertureFacts } from '../optics/aperture.js';
@@ -18,7 +19,9 @@ export const rayleighSommerfeldBoundary: MethodDescriptor = {
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
-    if (g.oneD || uncostedSlits(g, c)) return null;
+    // Binary elements only: the boundary form integrates a plane wave over an open region (a lens's
+    // phase or a wavefront error has no boundary to integrate along).
+    if (g.oneD || !isBinary(c.aperture) || uncostedSlits(g, c)) return null;
     // (Not when the job gives a grid: it asks for a sampled aperture.)
     const regions = !c.grid && c.illumination.kind === 'plane' && c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0 ? boundaryRegionsOf(c.aperture) : null;
     if (!regions) return null;
