@@ -3,7 +3,7 @@ import type { Axis } from '../optics/field.js';
 import type { MethodRequest } from '../job/schema.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
-export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct';
+export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct' | 'lens-chirp';
 /**
  * The exact integral summed over the aperture's cells, one period's field summed over a grating's
  * periods, or (a plane wave at normal incidence) as an integral along the aperture's boundary.
