@@ -1,0 +1,233 @@
+// A thin lens (src/elements/lens.ts) on planner-chosen grids: the focal plane as a Fourier
+// transform of the pupil, a focused Gaussian beam, a diverging lens far away, and the Strehl ratio
+// of a defocused pupil, against closed forms and a quadrature written here.
+import { describe, expect, it } from 'vitest';
+import besselj1 from '@stdlib/math-base-special-besselj1';
+import type { Aperture } from '../../src/optics/aperture.js';
+import { planCase } from '../../src/plan/planner.js';
+import { makeCase, mm, nm, runCase, um } from '../helpers.js';
+
+const lam = 633 * nm;
+const k = (2 * Math.PI) / lam;
+
+function lens(focal: number, stop: number | null, aberrations: { j: number; rms: number; unit: 'waves' | 'm' }[] = []): Aperture {
+  return { shape: 'lens', focal, stop, aberrations, opaque: false } as Aperture;
+}
+
+/** Intensity at the sample nearest (x, y). */
+function at(c: { intensity: Float64Array | number[]; origin: number[]; pitch: (number | null)[]; cols: number; rows: number }, x: number, y: number): number {
+  const col = Math.round((x - c.origin[0]!) / c.pitch[0]!);
+  const row = Math.round((y - c.origin[1]!) / c.pitch[1]!);
+  return c.intensity[row * c.cols + col]!;
+}
+
+describe('a stop of 25 mm behind a lens of f = 100 mm, the screen at the focus (Airy pattern)', () => {
+  const D = 25 * mm;
+  const R = D / 2;
+  const f = 100 * mm;
+  const spec = { wavelength: lam, distance: f, aperture: lens(f, D) };
+  const { plan, rec, c, x, y } = runCase(spec);
+  // Goodman, Introduction to Fourier Optics, §5.2 (the focal plane as the pupil's Fourier transform,
+  // x = λf·f_x) and §4.4 (the circular pupil's transform): I = (πR²/(λf))²·[2J₁(v)/v]², v = kRρ/f.
+  const I0 = ((Math.PI * R * R) / (lam * f)) ** 2;
+  const airy = (rho: number) => {
+    const v = (k * R * rho) / f;
+    const j = v === 0 ? 1 : (2 * besselj1(v)) / v;
+    return I0 * j * j;
+  };
+  // Born & Wolf, Principles of Optics, §8.5.2: dark rings at v = 3.8317 and 7.0156.
+  const firstZero = (3.8317059702075125 * f) / (k * R);
+  const secondZero = (7.015586669815619 * f) / (k * R);
+
+  it('is planned with the lens folded into the chirp, on a small grid', () => {
+    expect(plan.method).toBe('fresnel');
+    expect(plan.form).toBe('lens-chirp');
+    expect(plan.regime).toBe('far-field');
+    // Sampling the lens phase itself would take R/(λf) = 197 /mm at the rim: some 10⁵ samples a side.
+    expect(plan.x.paddedSamples).toBeLessThanOrEqual(1024);
+    expect(plan.y!.paddedSamples).toBeLessThanOrEqual(1024);
+    expect(plan.memoryBytes).toBeLessThan(256 * 1024 ** 2);
+    // The window holds the Airy pattern's core and rings (several first-zero radii), not the stop.
+    expect(plan.x.output.n * plan.x.output.step).toBeGreaterThan(10 * firstZero);
+    expect(plan.x.output.n * plan.x.output.step).toBeLessThan(100 * firstZero);
+  });
+
+  it('has the peak (πR²/(λf))² within 1 % (Goodman §5.2, §4.4)', () => {
+    expect(Math.abs(rec.metrics.peakIntensity - I0) / I0).toBeLessThan(0.01);
+    expect(Math.abs(at(c, 0, 0) - I0) / I0).toBeLessThan(0.01);
+  });
+
+  it('puts the first dark ring at 1.22 λf/D within 1 % (Born & Wolf §8.5.2)', () => {
+    expect(Math.abs(firstZero - (1.21967 * lam * f) / D) / firstZero).toBeLessThan(1e-4);
+    expect(Math.abs(rec.metrics.firstMinimum[0]! - firstZero) / firstZero).toBeLessThan(0.01);
+    expect(Math.abs(rec.metrics.firstMinimum[1]! - firstZero) / firstZero).toBeLessThan(0.01);
+  });
+
+  it('matches the Airy pattern within 1 % of the peak over the central lobes (out to the second dark ring)', () => {
+    let worst = 0;
+    let n = 0;
+    for (let r = 0; r < c.rows; r++) {
+      for (let col = 0; col < c.cols; col++) {
+        const rho = Math.hypot(x(col), y(r));
+        if (rho > secondZero) continue;
+        n++;
+        worst = Math.max(worst, Math.abs(c.intensity[r * c.cols + col]! - airy(rho)));
+      }
+    }
+    expect(n).toBeGreaterThan(1000);
+    expect(worst / I0).toBeLessThan(0.01);
+  });
+
+  it('passes the power through the stop, πR² at unit irradiance', () => {
+    expect(Math.abs(rec.computed.diagnostics.powerIn - Math.PI * R * R) / (Math.PI * R * R)).toBeLessThan(1e-3);
+  });
+});
+
+describe('a Gaussian beam through an unbounded lens', () => {
+  // A fast beam (NA ≈ 2w/f = 0.06): sampling the lens phase out to 3w would take 1.8 µm samples.
+  const w = 3 * mm;
+  const f = 100 * mm;
+  const { plan, c, x, y } = runCase({ wavelength: lam, distance: f, aperture: lens(f, null), illumination: { kind: 'gaussian', waist: w, tilt: [0, 0] } });
+  // Siegman, Lasers, ch. 17: the focused waist λf/(πw) (z_R = πw²/λ = 45 m ≫ f, so the exact
+  // ABCD radius at z = f differs from it by (f/z_R)²/2 = 3e-6).
+  const w0 = (lam * f) / (Math.PI * w);
+
+  it('is planned with the lens folded into the chirp', () => {
+    expect(plan.form).toBe('lens-chirp');
+    expect(plan.x.paddedSamples).toBeLessThanOrEqual(2048);
+  });
+
+  it('has its 1/e² radius λf/(πw) at the focus within 1 % (second moments: w = 2σ)', () => {
+    let s = 0;
+    let sx = 0;
+    let sy = 0;
+    for (let r = 0; r < c.rows; r++) {
+      for (let col = 0; col < c.cols; col++) {
+        const i = c.intensity[r * c.cols + col]!;
+        s += i;
+        sx += i * x(col) ** 2;
+        sy += i * y(r) ** 2;
+      }
+    }
+    const wx = 2 * Math.sqrt(sx / s);
+    const wy = 2 * Math.sqrt(sy / s);
+    expect(Math.abs(wx - w0) / w0).toBeLessThan(0.01);
+    expect(Math.abs(wy - w0) / w0).toBeLessThan(0.01);
+  });
+
+  it('has the peak (w/w₀)² of unit incident irradiance within 1 % (the power πw²/2 in a spot of radius w₀)', () => {
+    const peak = (w / w0) ** 2;
+    expect(Math.abs(at(c, 0, 0) - peak) / peak).toBeLessThan(0.01);
+  });
+});
+
+describe('a diverging lens far away spreads as geometric optics says', () => {
+  // Far away: z = 20|f|, where holding the spread beam at the lens phase's pitch would take a grid of
+  // 8192 a side; folded into the chirp, 2048.
+  const w = 0.14 * mm;
+  const f = -10 * mm;
+  const z = 200 * mm;
+  const { plan, c, x, y } = runCase({ wavelength: lam, distance: z, aperture: lens(f, null), illumination: { kind: 'gaussian', waist: w, tilt: [0, 0] } });
+  // Geometric optics: rays from the virtual focus |f| before the lens, so the beam's radius grows
+  // as w·(1 + z/|f|) (common practice); Siegman, Lasers, ch. 20 (ABCD law) adds the diffraction,
+  // w(z)² = w²(1 + z/|f|)² + (λz/(πw))² for a waist at the lens with z_R ≫ |f|, z.
+  const m = 1 + z / Math.abs(f);
+  const geometric = w * m;
+  const abcd = Math.sqrt(geometric ** 2 + ((lam * z) / (Math.PI * w)) ** 2);
+
+  it('is planned with the lens folded into the chirp', () => {
+    expect(plan.form).toBe('lens-chirp');
+    expect(plan.x.paddedSamples).toBeLessThanOrEqual(2048);
+  });
+
+  it('has the radius w·(1 + z/|f|) within 1 %, and the ABCD radius within 0.3 %', () => {
+    // Diffraction adds (λz/(πw))² to the square: 0.5 % here beyond the geometric radius.
+    let s = 0;
+    let sx = 0;
+    for (let r = 0; r < c.rows; r++) {
+      for (let col = 0; col < c.cols; col++) {
+        const i = c.intensity[r * c.cols + col]!;
+        s += i;
+        sx += i * x(col) ** 2 + i * y(r) ** 2;
+      }
+    }
+    // Two axes: Σ(x² + y²) = 2σ², w = 2σ.
+    const wz = 2 * Math.sqrt(sx / s / 2);
+    expect(Math.abs(wz - geometric) / geometric).toBeLessThan(0.01);
+    expect(Math.abs(wz - abcd) / abcd).toBeLessThan(0.003);
+  });
+
+  it('has the irradiance on the axis fall as 1/(1 + z/|f|)² (the power spread over the cone, common practice)', () => {
+    const peak = (w / abcd) ** 2;
+    expect(Math.abs(at(c, 0, 0) - peak) / peak).toBeLessThan(0.01);
+  });
+});
+
+describe('defocus Z4 of 0.05 wave RMS on the stop: the Strehl ratio', () => {
+  const D = 10 * mm;
+  const R = D / 2;
+  const f = 250 * mm;
+  const sigma = 0.05;
+  const clean = runCase({ wavelength: lam, distance: f, aperture: lens(f, D) });
+  const blurred = runCase({ wavelength: lam, distance: f, aperture: lens(f, D, [{ j: 4, rms: sigma, unit: 'waves' }]) });
+  // The reference, independent of src: |⟨e^{i2πW}⟩|² over the unit disc with Noll's
+  // Z4 = √3(2ρ² − 1) (Noll, JOSA 66, 207 (1976)), the mean 2∫₀¹ e^{i2πσZ4(ρ)} ρ dρ by the composite
+  // Simpson rule on 20 000 intervals (its error ~1e-15 for this smooth integrand).
+  const exact = (() => {
+    const n = 20000;
+    let re = 0;
+    let im = 0;
+    for (let i = 0; i <= n; i++) {
+      const rho = i / n;
+      const wgt = i === 0 || i === n ? 1 : i % 2 === 1 ? 4 : 2;
+      const phi = 2 * Math.PI * sigma * Math.sqrt(3) * (2 * rho * rho - 1);
+      re += wgt * Math.cos(phi) * rho;
+      im += wgt * Math.sin(phi) * rho;
+    }
+    const h = 1 / n;
+    re *= (2 * h) / 3;
+    im *= (2 * h) / 3;
+    return re * re + im * im;
+  })();
+
+  it('plans both with the lens folded into the chirp', () => {
+    expect(clean.plan.form).toBe('lens-chirp');
+    expect(blurred.plan.form).toBe('lens-chirp');
+  });
+
+  it('has the on-axis peak ratio |⟨e^{i2πW}⟩|² within 1 % (the quadrature above)', () => {
+    const s = at(blurred.c, 0, 0) / at(clean.c, 0, 0);
+    expect(Math.abs(s - exact) / exact).toBeLessThan(0.01);
+  });
+
+  it('is near exp(−(2πσ)²) within 1 % (Mahajan, JOSA 72, 1258 (1982))', () => {
+    const s = at(blurred.c, 0, 0) / at(clean.c, 0, 0);
+    const mahajan = Math.exp(-((2 * Math.PI * sigma) ** 2));
+    expect(Math.abs(s - mahajan) / mahajan).toBeLessThan(0.01);
+  });
+
+  it('the aberration-free peak is (πR²/(λf))² within 1 % (Goodman §5.2)', () => {
+    const I0 = ((Math.PI * R * R) / (lam * f)) ** 2;
+    expect(Math.abs(at(clean.c, 0, 0) - I0) / I0).toBeLessThan(0.01);
+  });
+});
+
+describe('the exact forms and Babinet are never planned for a lens', () => {
+  it('offers neither the boundary form nor exact edge cells', () => {
+    const p = planCase(makeCase({ wavelength: lam, distance: 1, aperture: lens(1, 1 * mm), method: 'rayleigh-sommerfeld' }));
+    expect(p.babinet).toBe(false);
+    expect(p.exact2D).toBeUndefined();
+    expect(p.form).not.toBe('boundary');
+  });
+  it('refuses a Fresnel form beyond the paraxial cone (NA²/2 over 1 %), saying why', () => {
+    const p = planCase(makeCase({ wavelength: lam, distance: 20 * mm, aperture: lens(20 * mm, 10 * mm) }));
+    const fresnel = p.options.filter((o) => o.method === 'fresnel');
+    expect(fresnel.length).toBeGreaterThan(0);
+    for (const o of fresnel) {
+      expect(o.valid).toBe(false);
+      expect(o.why).toMatch(/NA = 0\.25/);
+    }
+  });
+});
+
+void um;
