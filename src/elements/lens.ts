@@ -188,7 +188,8 @@ export const lens: ElementKind<Lens, typeof schema> = {
   focusing: (s): Focusing => ({
     focal: s.focal,
     stopRadius: s.stop === null ? null : s.stop / 2,
-    rmsWaves: (wavelength) => wavefrontRms(lensWaves(s, wavelength)),
+    // Noll's j = 2, 3 are the tilts: they move the focus without lowering its peak.
+    rmsWaves: (wavelength, withoutTilt = false) => wavefrontRms(lensWaves(s, wavelength).filter((t) => !withoutTilt || t.j > 3)),
     pupil: (xa, ya, wavelength) => pupil(s, xa, ya, wavelength),
     pupilFrequency: (wavelength) => pupilFrequency(s, wavelength),
   }),

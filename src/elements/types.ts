@@ -22,8 +22,8 @@ export interface Focusing {
   focal: number;
   /** Radius of the circular stop (m), or null: unbounded (the illumination limits the light). */
   stopRadius: number | null;
-  /** RMS wavefront error over the stop in waves at this wavelength (piston left out). */
-  rmsWaves(wavelength: number): number;
+  /** RMS wavefront error over the stop in waves at this wavelength (piston left out; tilt too if asked). */
+  rmsWaves(wavelength: number, withoutTilt?: boolean): number;
   /** Cell averages of the pupil without the lens phase: stop × exp(i2πW), and the stop's open fraction. */
   pupil(xa: Axis, ya: Axis, wavelength: number): CellTransmittance;
   /** The pupil's largest local spatial frequency (1/m): the wavefront error's steepest slope. */
