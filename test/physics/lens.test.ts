@@ -212,6 +212,26 @@ describe('defocus Z4 of 0.05 wave RMS on the stop: the Strehl ratio', () => {
   });
 });
 
+describe('the angular spectrum samples the lens phase itself (a slow lens: 1 mm stop, f = 50 mm)', () => {
+  const D = 1 * mm;
+  const R = D / 2;
+  const f = 50 * mm;
+  const { plan, rec, c } = runCase({ wavelength: lam, distance: f, aperture: lens(f, D), method: 'angular-spectrum' });
+  const I0 = ((Math.PI * R * R) / (lam * f)) ** 2;
+
+  it("takes its pitch from the lens's local frequency R/(λf) at the rim (4 samples a period)", () => {
+    expect(plan.method).toBe('angular-spectrum');
+    expect(plan.x.inputPitch).toBeLessThanOrEqual((lam * f) / (4 * R) * (1 + 1e-9));
+  });
+
+  it('has the Airy peak (πR²/(λf))² and first zero 1.22λf/D within 1 % (Goodman §5.2; Born & Wolf §8.5.2)', () => {
+    // Exact propagation of the quadratic phase: kR⁴/(8f³) = 6e-4 rad from a spherical wave here.
+    expect(Math.abs(at(c, 0, 0) / I0 - 1)).toBeLessThan(0.01);
+    const zero = (1.21967 * lam * f) / D;
+    expect(Math.abs(rec.metrics.firstMinimum[0]! / zero - 1)).toBeLessThan(0.01);
+  });
+});
+
 describe('the exact forms and Babinet are never planned for a lens', () => {
   it('offers neither the boundary form nor exact edge cells', () => {
     const p = planCase(makeCase({ wavelength: lam, distance: 1, aperture: lens(1, 1 * mm), method: 'rayleigh-sommerfeld' }));
