@@ -230,6 +230,16 @@ describe('the angular spectrum samples the lens phase itself (a slow lens: 1 mm 
     const zero = (1.21967 * lam * f) / D;
     expect(Math.abs(rec.metrics.firstMinimum[0]! / zero - 1)).toBeLessThan(0.01);
   });
+
+  it('with 0.05 wave RMS of Z4 (given as a path, 31.65 nm) has the on-axis ratio |⟨e^{i2πW}⟩|² within 1 %', () => {
+    const blurred = runCase({ wavelength: lam, distance: f, aperture: lens(f, D, [{ j: 4, rms: 0.05 * lam, unit: 'm' }]), method: 'angular-spectrum' });
+    expect(blurred.plan.x.inputPitch).toBe(plan.x.inputPitch);
+    // The pupil integral for Z4 = √3(2ρ² − 1): the closed form sinc²(πW₂₀), W₂₀ = 2√3σ the
+    // peak-to-valley defocus in waves (Born & Wolf §8.8, from memory; the quadrature above agrees).
+    const w20 = 2 * Math.sqrt(3) * 0.05;
+    const ref = (Math.sin(Math.PI * w20) / (Math.PI * w20)) ** 2;
+    expect(Math.abs(at(blurred.c, 0, 0) / at(c, 0, 0) / ref - 1)).toBeLessThan(0.01);
+  });
 });
 
 describe('the exact forms and Babinet are never planned for a lens', () => {
