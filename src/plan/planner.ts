@@ -250,6 +250,13 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   if (chosen.d.checks) Object.assign(checks, chosen.d.checks(chosen.axes, geo));
   reasons.push(...samplingReasons(chosen.d, chosen.axes, oneD));
   warnings.push(...preChecks(c, chosen.d, checks, chosen.axes, geo, options, maxMemory));
+  if (lensCheck && method !== 'fresnel' && lensCheck.lens.phase > LIMITS.paraxialPhase) {
+    // A non-paraxial method takes the thin lens's quadratic phase at its word.
+    warnings.push({
+      code: 'lens-spherical',
+      message: `${methodWords(method, chosen.form)} propagates the thin lens's quadratic phase exactly, and that phase is ${fmt(lensCheck.lens.phase, 2)} rad from a spherical wave about the focus at the rim of the lit pupil (kR⁴/(8f³)): the result shows that much spherical aberration, which an ideal lens would not have; an ideal lens's field is the Fresnel result${validity.fresnel.valid ? ' (valid here)' : ''}`,
+    });
+  }
 
   const plan: Plan = {
     case: c,

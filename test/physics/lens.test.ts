@@ -249,6 +249,14 @@ describe('the exact forms and Babinet are never planned for a lens', () => {
     expect(p.exact2D).toBeUndefined();
     expect(p.form).not.toBe('boundary');
   });
+  it('warns that a non-paraxial method shows the quadratic phase\'s spherical aberration, and not where it is small', () => {
+    const fast = planCase(makeCase({ wavelength: lam, distance: 10 * mm, aperture: lens(10 * mm, 2 * mm), method: 'angular-spectrum' }));
+    // kR⁴/(8f³) = 9.9e6 · 1e-12 / 8e-6 = 1.2 rad.
+    expect(fast.warnings.map((w) => w.code)).toContain('lens-spherical');
+    const slow = planCase(makeCase({ wavelength: lam, distance: 50 * mm, aperture: lens(50 * mm, 1 * mm), method: 'angular-spectrum' }));
+    expect(slow.warnings.map((w) => w.code)).not.toContain('lens-spherical');
+  });
+
   it('refuses a Fresnel form beyond the paraxial cone (NA²/2 over 1 %), saying why', () => {
     const p = planCase(makeCase({ wavelength: lam, distance: 20 * mm, aperture: lens(20 * mm, 10 * mm) }));
     const fresnel = p.options.filter((o) => o.method === 'fresnel');
