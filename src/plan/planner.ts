@@ -92,7 +92,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   reasons.push(
     `Fresnel number N_F = a²/(λz) = ${fmt(nf)}${nfy !== null && Math.abs(nfx - nfy) > 1e-12 * nf ? ` (x ${fmt(nfx)}, y ${fmt(nfy)})` : ''}` +
       (ill.kind === 'gaussian' && nfEff < nf ? `; with the ${len(waist)} beam radius the effective N_F is ${fmt(nfEff)}` : '') +
-      `: ${regimeWords(regime)} (the far-field distance 2D²/λ is ${len(farFieldDistance)}, common practice).`,
+      `: ${lens ? 'behind a lens the regime is the equivalent propagation\'s (below)' : regimeWords(regime)} (the far-field distance 2D²/λ is ${len(farFieldDistance)}, common practice).`,
   );
 
   // Where the light goes, and the window that holds it.
@@ -104,6 +104,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     z,
     model,
     nearField: regime === 'near-field',
+    // (An unbounded lens has no edge to ring: its beam's radius alone sets the window.)
+    ...(lens ? { zoneScale: lens.stopRadius === null ? 0 : Math.abs(1 - z / lens.focal) } : {}),
     ...(beamRadius !== undefined ? { beamRadius } : {}),
     ...(c.window ? { given: c.window } : {}),
   };
