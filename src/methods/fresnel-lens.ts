@@ -9,13 +9,15 @@ import { lensOf } from '../elements/registry.js';
 import { compensateCellResponse, padField } from '../optics/spectral.js';
 import { propagateFresnelSingleFFT } from '../optics/single-fft.js';
 import { transmittanceSource } from '../optics/source.js';
-import { directAxisPlan, singleFftAxisPlan } from '../plan/axis-plans.js';
+import { directAxisPlan, singleFftAxisPlan, windowOn } from '../plan/axis-plans.js';
 import { costSingleFft } from '../plan/costs.js';
 import { oversampling, type Geometry } from '../plan/geometry.js';
 import { LIMITS } from '../plan/limits.js';
 import { fmt } from '../plan/words.js';
 import type { Warning } from '../plan/types.js';
-import { cropTo, multiplyCarrier, sourceAxis } from './grid-steps.js';
+import { cropTo, sourceAxis } from './grid-steps.js';
+import { fftAxis, type Field } from '../optics/field.js';
+import { rotate } from '../optics/phase.js';
 import type { MethodDescriptor, UseCheckInputs } from './types.js';
 import { paraxialValidity } from './validity.js';
 
@@ -27,8 +29,18 @@ import { paraxialValidity } from './validity.js';
  */
 function contentFrequency(g: Geometry, i: number, focal: number): number {
   const residual = (g.aEff[i]! * Math.abs(1 / g.z - 1 / focal)) / g.lam;
-  const window = (Math.abs(g.centre[i]!) + g.windowHalf[i]!) / (g.lam * g.z);
+  // Measured from the tilt's shift: the carrier is not sampled (see tiltShift).
+  const window = (Math.abs(g.centre[i]! - tiltShift(g, i)) + g.windowHalf[i]!) / (g.lam * g.z);
   return Math.max(residual, window);
+}
+
+/**
+ * A tilt's carrier e^{i2π(αξ + βη)/λ} is not multiplied into the source: it shifts the transform's
+ * argument, x/(λz) − α/λ, so the output lattice is moved by z·α (and z·β) instead and the band
+ * needs to hold only the window about that point.
+ */
+function tiltShift(g: Geometry, i: number): number {
+  return g.lam * g.z * g.carrier[i]!;
 }
 
 export const fresnelLens: MethodDescriptor = {
@@ -58,7 +70,11 @@ export const fresnelLens: MethodDescriptor = {
       };
       return directAxisPlan(gp, i, c, content, false, LIMITS.compensationMargin);
     });
-    const single = direct.map((d) => singleFftAxisPlan(gp, d));
+    const single = direct.map((d, i) => {
+      const a = singleFftAxisPlan(gp, d);
+      const lattice = fftAxis(a.paddedSamples, (g.lam * g.z) / (a.paddedSamples * a.inputPitch));
+      return { ...a, output: windowOn({ ...lattice, start: lattice.start + tiltShift(g, i) }, d.windowCentre, d.windowHalf) };
+    });
     if (!single.every((a) => a.paddedSamples <= LIMITS.maxSingleFft)) return null;
     return { axes: single, layout: 'two-d', ...costSingleFft(single, 'two-d') };
   },
@@ -73,11 +89,31 @@ export const fresnelLens: MethodDescriptor = {
     // Cell averages in, point samples for the transform (as the single-FFT form).
     compensateCellResponse(src);
     const grid = padField(src, plan.x.paddedSamples, plan.y!.paddedSamples);
-    multiplyCarrier(grid, run.carrier);
     const out = propagateFresnelSingleFFT(grid, c.distance, lens.focal);
+    shiftByTilt(out, c.distance, [c.wavelength * run.carrier[0], c.wavelength * run.carrier[1]]);
     return { field: cropTo(out, plan.x.output, plan.y!.output), powerIn: power };
   },
 };
+
+/**
+ * Moves a field computed without the tilt's carrier to where the tilted light lands: the transform's
+ * value at x' belongs at x = x' + z·α, and the outer factor e^{iπx²/(λz)}, applied at x', is made
+ * e^{iπ(x' + zα)²/(λz)} (so the field's phase is the tilted one, not only its intensity).
+ */
+function shiftByTilt(f: Field, z: number, dir: [number, number]): void {
+  const [sx, sy] = [z * dir[0], z * dir[1]];
+  if (sx === 0 && sy === 0) return;
+  const k = Math.PI / (f.wavelength * z);
+  for (let r = 0; r < f.ny; r++) {
+    const y = f.y0 + r * f.dy;
+    for (let col = 0; col < f.nx; col++) {
+      const x = f.x0 + col * f.dx;
+      rotate(f.data, 2 * (r * f.nx + col), k * (2 * x * sx + sx * sx + 2 * y * sy + sy * sy));
+    }
+  }
+  f.x0 += sx;
+  f.y0 += sy;
+}
 
 /**
  * The thin lens is paraxial: where its quadratic phase is far from a spherical wave about its focus
