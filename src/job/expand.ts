@@ -58,8 +58,10 @@ export function expandJob(job: JobSpec): Case[] {
   // The loader's bounds keep every swept value a positive finite number; a JobSpec built by a
   // script without the loader is checked here, so no NaN, 0 or infinity reaches a case.
   for (const a of axes) {
+    // An element's signed keys (a diverging lens's focal length) may be negative, never zero.
+    const signed = a.key.startsWith('aperture.') && (elementOf(job.aperture).signed?.includes(a.key.slice('aperture.'.length)) ?? false);
     for (const v of a.values) {
-      if (!(Number.isFinite(v) && v > 0)) throw new Error(`${a.key}: ${v} is not a positive finite number; validate the job with validateJob first`);
+      if (signed ? !(Number.isFinite(v) && v !== 0) : !(Number.isFinite(v) && v > 0)) throw new Error(`${a.key}: ${v} is not a ${signed ? 'non-zero' : 'positive'} finite number; validate the job with validateJob first`);
     }
   }
   const swept = axes.filter((a) => a.values.length > 1);

@@ -203,7 +203,7 @@ describe('the masks and transmittances: exact zone areas per cell', () => {
   it('amplitude: binary, the mask holds the open zones\' exact area, cell by cell as point sampling says', () => {
     const a = plate(f, N, 'amplitude');
     expect(isBinary(a)).toBe(true);
-    expect(apertureTransmittance(a, axis, axis)).toBeNull();
+    expect(apertureTransmittance(a, axis, axis, lam)).toBeNull();
     const mask = apertureMask(a, axis, axis);
     let sum = 0;
     for (const v of mask) sum += v;
@@ -221,7 +221,7 @@ describe('the masks and transmittances: exact zone areas per cell', () => {
   it('phase: not binary, t = odd − even fraction and |t|² = the fraction inside r_N, exactly in sum', () => {
     const a = plate(f, N, 'phase');
     expect(isBinary(a)).toBe(false);
-    const c = apertureTransmittance(a, axis, axis)!;
+    const c = apertureTransmittance(a, axis, axis, lam)!;
     let st = 0;
     let sw = 0;
     let si = 0;
