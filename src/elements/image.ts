@@ -130,7 +130,7 @@ export const image: ElementKind<ImageMask, typeof schema, Job> = {
   tokens: { pitch: 'pitch' },
   check(job, problem) {
     if (job.opaque) {
-      problem('opaque', 'expected false: an image cannot be an obstacle (its grey levels are already the transmission); draw the obstacle black on a white image that covers the light');
+      problem('opaque', 'expected false (an image cannot be an obstacle: its grey levels are already the transmission, so draw the obstacle black on a white image that covers the light)');
     }
     if (job['phase-range'] && !job.phase) problem('phase-range', 'expected a phase image (the phase key) for the range to apply to');
   },
