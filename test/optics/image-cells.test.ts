@@ -147,6 +147,21 @@ describe('area-weighted resampling of an image onto grid cells', () => {
   });
 });
 
+describe('orientation and placement', () => {
+  it("the image's top row lies at the most negative y (row 0 of intensity.npy), its left column at the most negative x", () => {
+    // 2 × 2 pixels of 1 µm, only the top-left one open; a 2 × 2 grid of the same cells.
+    const p: ImagePlanes = { width: 2, height: 2, amplitude: Float32Array.from([1, 0, 0, 0]), phase: null };
+    const axis: Axis = { n: 2, start: -0.5e-6, step: 1e-6 };
+    expect(Array.from(imageCellAverages(p, { pitch: 1e-6, center: [0, 0] }, axis, axis).weight)).toEqual([1, 0, 0, 0]);
+  });
+  it('the centre key moves the image: shifted by one pixel to +x, the open pixel sits in the second column', () => {
+    const p: ImagePlanes = { width: 2, height: 2, amplitude: Float32Array.from([1, 0, 0, 0]), phase: null };
+    const axis: Axis = { n: 2, start: -0.5e-6, step: 1e-6 };
+    const w = Array.from(imageCellAverages(p, { pitch: 1e-6, center: [1e-6, 0] }, axis, axis).weight);
+    expect(w.map((v) => Math.round(v * 1e12) / 1e12)).toEqual([0, 1, 0, 0]);
+  });
+});
+
 describe('pixel statistics for the planner (counted by hand)', () => {
   // 6 × 4 image, rows from the top:
   //   0 0 0 0 0 0
