@@ -28,7 +28,7 @@ export function maskPng(width: number, height: number, value: (i: number, k: num
   }
   const png = new PNG({ width, height, bitDepth, colorType, inputColorType: colorType, inputHasAlpha: colorType >= 4 });
   png.data = Buffer.from(samples.buffer, samples.byteOffset, samples.byteLength);
-  return PNG.sync.write(png, { width, height, bitDepth, colorType, inputColorType: colorType, inputHasAlpha: colorType >= 4 });
+  return PNG.sync.write(png, { bitDepth, colorType, inputColorType: colorType, inputHasAlpha: colorType >= 4 });
 }
 
 export async function writeMaskPng(path: string, width: number, height: number, value: (i: number, k: number) => number[], opts?: MaskPngOptions): Promise<void> {
