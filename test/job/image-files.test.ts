@@ -72,6 +72,20 @@ describe('an image mask loads from a PNG named relative to the job file', () => 
     expect(JSON.stringify(a)).toContain(a.pixels.digest);
   });
 
+  it('the digest follows the files\' contents, so a finished case is computed again when its image changes', async () => {
+    const path = await job('digest', '{shape: image, file: masks/changing.png, pitch: 2 um}');
+    const digest = async () => {
+      const a = expandJob((await loadJobFile(path)).spec)[0]!.aperture;
+      if (a.shape !== 'image') throw new Error('not an image');
+      return a.pixels.digest;
+    };
+    await writeMaskPng(join(dir, 'jobs', 'masks', 'changing.png'), 4, 3, (i) => [i === 1 ? 255 : 0]);
+    const first = await digest();
+    expect(await digest()).toBe(first);
+    await writeMaskPng(join(dir, 'jobs', 'masks', 'changing.png'), 4, 3, (i) => [i === 2 ? 255 : 0]);
+    expect(await digest()).not.toBe(first);
+  });
+
   it('takes paths that leave the job folder, and absolute paths, like any file a person names', async () => {
     const up = await loadJobFile(await job('up', '{shape: image, file: ../shared/bar.png, pitch: 2 um}'));
     const abs = await loadJobFile(await job('abs', `{shape: image, file: '${join(dir, 'shared', 'bar.png')}', pitch: 2 um}`));
