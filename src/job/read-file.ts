@@ -44,14 +44,23 @@ export async function readRegularFile(file: string, limits: ReadLimits): Promise
     throw new FileRefusal(fsReason(e, noun));
   }
   try {
-    const again = notRegular(await handle.stat());
+    const now = await handle.stat();
+    const again = notRegular(now);
     if (again) throw new FileRefusal(again);
-    const buf = Buffer.alloc(maxBytes + 1);
+    // Room for the size the file has now and one byte more (a file that grew since shows it);
+    // grown as needed up to maxBytes + 1, so that a small image does not cost the whole cap.
+    let buf = Buffer.allocUnsafe(Math.min(maxBytes, now.size) + 1);
     let n = 0;
-    while (n < buf.length) {
+    for (;;) {
       const { bytesRead } = await handle.read(buf, n, buf.length - n, n);
       if (bytesRead === 0) break;
       n += bytesRead;
+      if (n === buf.length) {
+        if (buf.length > maxBytes) break;
+        const bigger = Buffer.allocUnsafe(Math.min(maxBytes + 1, 2 * buf.length));
+        buf.copy(bigger, 0, 0, n);
+        buf = bigger;
+      }
     }
     if (n > maxBytes) throw new FileRefusal(tooBig(n, limits, true));
     return buf.subarray(0, n);
