@@ -8,6 +8,7 @@ import { sampleGeometry } from '../optics/mask-cells.js';
 import { annulus } from './annulus.js';
 import { makeArray } from './array.js';
 import { circle } from './circle.js';
+import { image } from './image.js';
 import { makeCombined, type PartKind } from './combined.js';
 import { grating } from './grating.js';
 import { polygon } from './polygon.js';
@@ -22,7 +23,7 @@ import type { CellTransmittance, ElementKind, ElementSchema, ElementSpec, Focusi
 const PARTS = [circle, rectangle, slit, annulus, slits, polygon] as const;
 const parts = PARTS as unknown as readonly PartKind[];
 
-export const ELEMENTS = [...PARTS, makeCombined(parts), makeArray(parts), grating, zonePlate, lens] as const;
+export const ELEMENTS = [...PARTS, makeCombined(parts), makeArray(parts), grating, zonePlate, lens, image] as const;
 
 type SpecOf<E> = E extends ElementKind<infer S, infer _Sch> ? S : never;
 /** One case's element (SI units), whichever kind. */

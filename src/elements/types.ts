@@ -5,6 +5,7 @@ import type { z } from 'zod';
 import type { Axis } from '../optics/field.js';
 import type { ApertureFacts, ApertureGeometry } from '../optics/geometry.js';
 import type { BoundaryRegion } from '../optics/rs-boundary.js';
+import type { ReadLimits } from '../job/read-file.js';
 
 /** Cell averages of a complex transmittance (interleaved re, im) and of its squared modulus. */
 export interface CellTransmittance {
@@ -44,6 +45,27 @@ export interface ResolveContext {
 /** Reports a problem with one of the element's keys at load time. */
 export type KeyProblem = (key: string | (string | number)[], message: string) => void;
 
+/** A file one of an element's keys names (an image), as written in the job. */
+export interface NamedFile {
+  /** The key that names it (under `aperture.`). */
+  key: string;
+  /** The path as written: relative paths are from the job file's folder. */
+  path: string;
+  limits: ReadLimits;
+}
+
+/**
+ * Elements whose keys name files: the loader (src/job/load.ts, loadJobFile) reads them after the
+ * job validates, without blocking and within their limits, and hands their bytes to `attach`,
+ * which returns the mapping with what they hold (decoded, checked) for `resolve`. Expansion and
+ * planning then read nothing; what the files held travels in each case.
+ */
+export interface ElementFiles<J> {
+  named(job: J): NamedFile[];
+  /** bytes: by key. A problem names the key; the mapping returned is not used when there is one. */
+  attach(job: J, bytes: Map<string, Buffer>, problem: KeyProblem): J;
+}
+
 /** The spot-size searches an element supports (the smallest-spot search and the verdict axes). */
 export interface SizeSearch<S, J = unknown> {
   /** The job key the search varies (under `aperture.`). */
@@ -79,6 +101,8 @@ export interface ElementKind<S extends ElementSpec, Sch extends ElementSchema = 
    * the job's illumination kind (an unbounded lens needs a beam of finite extent).
    */
   check?(job: J, problem: KeyProblem, light?: { illumination: string }): void;
+  /** The files its keys name, read by the loader (absent: none). */
+  files?: ElementFiles<J>;
   /** Sweepable length keys whose values may be negative (a diverging lens's focal length); never zero. */
   signed?: readonly string[];
   /**

@@ -6,9 +6,7 @@
 // linear in the text (duplicate keys are found with one set per mapping, not the parser's pairwise
 // check); at most MAX_PROBLEMS problems are described (and the rest counted); every value echoed
 // in a message is escaped and cut (safe-text.ts).
-import { constants } from 'node:fs';
-import { open, stat } from 'node:fs/promises';
-import type { Stats } from 'node:fs';
+import { dirname, resolve as resolvePath } from 'node:path';
 import { LineCounter, parseDocument, isNode, isMap, isSeq, isScalar, type Document } from 'yaml';
 import type { $ZodIssue } from 'zod/v4/core';
 import {
@@ -30,7 +28,10 @@ import {
   quantityKindAt,
   type JobSpec,
 } from './schema.js';
+import { FileRefusal, formatBytes, readRegularFile } from './read-file.js';
 import { closest } from './suggest.js';
+import { elementOf } from '../elements/registry.js';
+import type { ElementKind, ElementSchema, ElementSpec } from '../elements/types.js';
 import { formatLength, isBareNumber } from './units.js';
 import { escapeControl, safeEcho } from '../safe-text.js';
 
@@ -88,94 +89,68 @@ export interface LoadedJob {
   warnings: JobProblem[];
 }
 
+/**
+ * Reads, parses and validates a job file, then reads the files its element names (images),
+ * relative to the job file's folder: parseJobText and validateJob read nothing, so a job whose
+ * element names files loads only through here.
+ */
 export async function loadJobFile(file: string): Promise<LoadedJob> {
-  return parseJobText(await readJobText(file), file);
+  const { loaded, positions } = parseWithPositions(await readJobText(file), file);
+  await readElementFiles(loaded, dirname(file), positions);
+  return loaded;
+}
+
+/**
+ * The files the job's element names (src/elements/types.ts ElementFiles): each read like the job
+ * file (never blocking, special files refused, capped), all at once, then handed to the element,
+ * which decodes and checks them. Every problem names the key, its line and column, and the file.
+ */
+async function readElementFiles(loaded: LoadedJob, folder: string, positions: Positions): Promise<void> {
+  const element = elementOf(loaded.spec.aperture) as unknown as ElementKind<ElementSpec, ElementSchema, Record<string, unknown>>;
+  if (!element.files) return;
+  const job = loaded.spec.aperture as unknown as Record<string, unknown>;
+  const problems = new Problems();
+  const problem = (key: string | (string | number)[], message: string) => {
+    const path = ['aperture', ...(Array.isArray(key) ? key : [key])];
+    problems.add({ path: dotted(path), message, ...positionOf(path, positions, false) });
+  };
+  const named = element.files.named(job);
+  const bytes = new Map<string, Buffer>();
+  await Promise.all(
+    named.map(async (f) => {
+      const full = resolvePath(folder, f.path);
+      try {
+        bytes.set(f.key, await readRegularFile(full, f.limits));
+      } catch (e) {
+        if (!(e instanceof FileRefusal)) throw e;
+        const where = full === f.path ? '' : ` (${safeEcho(full, 300)})`;
+        problem(f.key, `cannot read '${safeEcho(f.path, 120)}'${where}: ${e.reason}`);
+      }
+    }),
+  );
+  if (problems.count === 0) {
+    const attached = element.files.attach(job, bytes, problem);
+    if (problems.count === 0) loaded.spec.aperture = attached as unknown as JobSpec['aperture'];
+  }
+  if (problems.count > 0) throw new JobError(loaded.file, problems.list());
 }
 
 /** The file's text, or a JobError: never blocks, never reads more than MAX_JOB_BYTES + 1 bytes. */
 async function readJobText(file: string): Promise<string> {
-  const refuse = (why: string) => new JobError(file, [{ path: '', message: `cannot read the job file: ${why}` }]);
-  let st: Stats;
   try {
-    // stat follows links, and looks before opening: opening a FIFO for reading would wait for a writer.
-    st = await stat(file);
+    return (await readRegularFile(file, { maxBytes: MAX_JOB_BYTES, noun: 'a job file' })).toString('utf8');
   } catch (e) {
-    throw refuse(fsReason(e));
-  }
-  const notRegular = (s: Stats) => (s.isDirectory() ? 'is a folder, not a job file' : !s.isFile() ? `is ${fileKind(s)}, not a regular file` : undefined);
-  const kind = notRegular(st);
-  if (kind) throw refuse(kind);
-  if (st.size > MAX_JOB_BYTES) throw refuse(tooBig(st.size));
-  let handle;
-  try {
-    // O_NONBLOCK: if the path was swapped for a FIFO since the stat, opening still returns at once.
-    handle = await open(file, constants.O_RDONLY | constants.O_NONBLOCK);
-  } catch (e) {
-    throw refuse(fsReason(e));
-  }
-  try {
-    const again = notRegular(await handle.stat());
-    if (again) throw refuse(again);
-    const buf = Buffer.alloc(MAX_JOB_BYTES + 1);
-    let n = 0;
-    while (n < buf.length) {
-      const { bytesRead } = await handle.read(buf, n, buf.length - n, n);
-      if (bytesRead === 0) break;
-      n += bytesRead;
-    }
-    if (n > MAX_JOB_BYTES) throw refuse(tooBig(n, true));
-    return buf.toString('utf8', 0, n);
-  } catch (e) {
-    if (e instanceof JobError) throw e;
-    throw refuse(fsReason(e));
-  } finally {
-    await handle.close();
+    if (e instanceof FileRefusal) throw new JobError(file, [{ path: '', message: `cannot read the job file: ${e.reason}` }]);
+    throw e;
   }
 }
 
-function fsReason(e: unknown): string {
-  const code = (e as NodeJS.ErrnoException).code;
-  switch (code) {
-    case 'ENOENT':
-      return 'no such file';
-    case 'EISDIR':
-      return 'is a folder, not a job file';
-    case 'ENOTDIR':
-      return 'a part of the path is not a folder';
-    case 'EACCES':
-    case 'EPERM':
-      return 'permission denied';
-    case 'ELOOP':
-      return 'too many levels of symbolic links';
-    case 'ENAMETOOLONG':
-      return 'the path is too long';
-    default:
-      return safeEcho((e as Error)?.message ?? String(e));
-  }
-}
-
-function fileKind(s: Stats): string {
-  if (s.isFIFO()) return 'a FIFO (named pipe)';
-  if (s.isCharacterDevice()) return 'a character device';
-  if (s.isBlockDevice()) return 'a block device';
-  if (s.isSocket()) return 'a socket';
-  return 'not a regular file';
-}
-
-function tooBig(bytes: number, grew = false): string {
-  const cap = `the ${formatBytes(MAX_JOB_BYTES)} a job file may hold`;
-  return grew ? `holds more than ${cap} (it grew while being read)` : `is ${formatBytes(bytes)} (${bytes} bytes), more than ${cap}`;
-}
-
-function formatBytes(n: number): string {
-  if (n < 1024) return `${n} bytes`;
-  if (n < 1024 * 1024) return `${Number((n / 1024).toPrecision(3))} KiB`;
-  if (n < 1024 ** 3) return `${Number((n / 1024 ** 2).toPrecision(3))} MiB`;
-  return `${Number((n / 1024 ** 3).toPrecision(3))} GiB`;
-}
-
-/** Parses job text (YAML, or JSON, which YAML reads too) and validates it. */
+/** Parses job text (YAML, or JSON, which YAML reads too) and validates it. Reads no other file. */
 export function parseJobText(text: string, file = '<job>'): LoadedJob {
+  return parseWithPositions(text, file).loaded;
+}
+
+function parseWithPositions(text: string, file: string): { loaded: LoadedJob; positions: Positions } {
   if (text.length > MAX_JOB_BYTES) {
     throw new JobError(file, [{ path: '', message: `the job text is ${text.length} characters, more than the ${MAX_JOB_BYTES} (${formatBytes(MAX_JOB_BYTES)}) a job may hold` }]);
   }
@@ -207,7 +182,8 @@ export function parseJobText(text: string, file = '<job>'): LoadedJob {
       { path: '', message: 'expected a job: a mapping of keys such as name, wavelength, distance, aperture' },
     ]);
   }
-  return validateJob(given as Record<string, unknown>, file, { doc, lineCounter });
+  const positions = { doc, lineCounter };
+  return { loaded: validateJob(given as Record<string, unknown>, file, positions), positions };
 }
 
 /**
