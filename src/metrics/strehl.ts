@@ -56,7 +56,8 @@ export function idealOnAxisIntensity(lam: number, z: number, focal: number, radi
 }
 
 /**
- * The Strehl ratio of a converging lens's focus, when the screen is within its focal depth (the
+ * The Strehl ratio of a converging lens's focus (the peak here over the aberration-free lens's peak
+ * at its focus), when the screen is within its focal depth (the
  * defocus at the lit rim at most a quarter wave: πR²|1/z − 1/f|/λ ≤ π/2); null otherwise and for
  * every other element. R is the stop's radius, or the beam radius where the beam is the narrower.
  */
@@ -70,7 +71,11 @@ export function lensStrehl(plan: Plan, peakIntensity: number): LensStrehl | null
   const radius = lens.stopRadius ?? Infinity;
   const lit = Math.min(radius, waist);
   if (!(((Math.PI * lit * lit * Math.abs(1 / z - 1 / lens.focal)) / lam) <= Math.PI / 2)) return null;
-  const idealPeak = idealOnAxisIntensity(lam, z, lens.focal, radius, waist);
+  // Against the aberration-free lens at its own focus, not at this plane: the screen's distance from
+  // the focus is a defocus like any other, and against the defocused ideal at the same plane a
+  // compensating defocus in the wavefront would score above 1 (common practice: the Strehl ratio is
+  // the peak over the diffraction-limited peak; Born & Wolf §9.3).
+  const idealPeak = idealOnAxisIntensity(lam, lens.focal, lens.focal, radius, waist);
   const ratio = peakIntensity / idealPeak;
   const rmsWaves = lens.rmsWaves(lam, true);
   return { ratio, estimate: strehlEstimate(rmsWaves), rmsWaves, idealPeak, diffractionLimited: ratio >= MARECHAL_STREHL };
