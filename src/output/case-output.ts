@@ -301,11 +301,7 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
       );
     }
     const picture = {
-      intensity: computed.intensity,
-      rows: computed.ny,
-      cols: computed.nx,
-      pitchX: computed.dx,
-      pitchY: isOneD(computed) ? null : computed.dy,
+      map,
       logDecades: plan.case.output.logDecades,
       title: caseTitle(plan),
     };
