@@ -54,19 +54,18 @@ export function sheetTile(label: string, c: IntensityMap, limit = 400): SheetTil
       out[r * cols + q] = s / (fx * fy);
     }
   }
-  const dx = c.dx * fx;
-  const dy = oneD ? null : c.dy * fy;
-  // The reduced sample (r, q) is centred on the mean position of the samples it averages.
-  return {
-    label,
+  // The reduced sample (r, q) is centred on the mean position of the samples it averages; a 1-D
+  // map stays in the grid's 1-D form.
+  const map: IntensityMap = {
+    nx: cols,
+    ny: rows,
+    dx: c.dx * fx,
+    dy: oneD ? 0 : c.dy * fy,
+    x0: c.x0 + ((fx - 1) / 2) * c.dx,
+    y0: oneD ? 0 : c.y0 + ((fy - 1) / 2) * c.dy,
     intensity: out,
-    rows,
-    cols,
-    pitchX: dx,
-    pitchY: dy,
-    originX: c.x0 + ((fx - 1) / 2) * c.dx,
-    originY: oneD ? 0 : c.y0 + ((fy - 1) / 2) * c.dy,
   };
+  return { label, map };
 }
 
 const LABELS: Record<string, string> = {
