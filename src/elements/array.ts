@@ -113,7 +113,7 @@ export function makeArray(kinds: readonly PartKind[]) {
       for (const q of problems) problem(['of', ...(Array.isArray(q.key) ? q.key : [q.key])], q.message);
       if (problems.length) return;
       if (job.count[0] * job.count[1] > MAX_COPIES) problem('count', `expected at most ${MAX_COPIES} copies in all (these make ${job.count[0] * job.count[1]})`);
-      const placed = resolvePart(byShape, part);
+      const placed = resolvePart(byShape, part, { wavelength: 1 });
       const f = factsOf(byShape.get(part.shape)!, placed.element);
       const hex = job.layout === 'hexagonal';
       for (const p of job.pitch.values) {
@@ -125,9 +125,9 @@ export function makeArray(kinds: readonly PartKind[]) {
         }
       }
     },
-    resolve: (job, v) => ({
+    resolve: (job, v, context) => ({
       shape: 'array',
-      of: resolvePart(byShape, job.of as PartJob),
+      of: resolvePart(byShape, job.of as PartJob, context),
       pitch: v('pitch'),
       count: job.count,
       layout: job.layout,

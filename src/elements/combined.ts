@@ -12,7 +12,7 @@ import type { Axis } from '../optics/field.js';
 import { geometryFacts, sizeWords, type ApertureFacts } from '../optics/geometry.js';
 import { sampleGeometry } from '../optics/mask-cells.js';
 import { forPlacedPart, placedHalfExtent } from './placement.js';
-import type { ElementKind, ElementSchema, ElementSpec } from './types.js';
+import type { ElementKind, ElementSchema, ElementSpec, ResolveContext } from './types.js';
 
 /** A part of a combination (or the element of an array): a binary element and where it sits. */
 export interface Placed {
@@ -45,9 +45,9 @@ export function partSchema(kinds: readonly PartKind[], example = "{shape: rectan
 export type PartJob = { shape: string; opaque: boolean; at: [number, number] } & Record<string, unknown>;
 
 /** Resolve a part's mapping into its element: every value single (checked at load). */
-export function resolvePart(kinds: ReadonlyMap<string, PartKind>, job: PartJob): Placed {
+export function resolvePart(kinds: ReadonlyMap<string, PartKind>, job: PartJob, context: ResolveContext): Placed {
   const kind = kinds.get(job.shape)!;
-  const element = kind.resolve(job, (key) => (job[key] as { values: number[] }).values[0]!) as ElementSpec & Record<string, unknown>;
+  const element = kind.resolve(job, (key) => (job[key] as { values: number[] }).values[0]!, context) as ElementSpec & Record<string, unknown>;
   return { element, at: job.at };
 }
 
@@ -62,7 +62,9 @@ export function partProblems(kinds: ReadonlyMap<string, PartKind>, job: PartJob)
   if (out.length) return out;
   if (job.opaque) out.push({ key: 'opaque', message: 'expected no opaque parts: list what is taken away under cut, or make the whole combination opaque' });
   const kind = kinds.get(job.shape)!;
-  const part = resolvePart(kinds, job);
+  // Facts for the checks: a part's geometry does not depend on the wavelength (only non-binary
+  // elements would, and parts are binary); 1 m stands in for it.
+  const part = resolvePart(kinds, job, { wavelength: 1 });
   kind.check?.(job, (key, message) => out.push({ key, message }));
   if (out.length === 0 && factsOf(kind, part.element).oneD) out.push({ key: 'length', message: 'expected a length: parts are 2-D openings' });
   return out;
@@ -175,10 +177,10 @@ export function makeCombined(kinds: readonly PartKind[]) {
         });
       }
     },
-    resolve: (job) => ({
+    resolve: (job, _v, context) => ({
       shape: 'combined',
-      add: job.add.map((p) => resolvePart(byShape, p as PartJob)),
-      cut: job.cut.map((p) => resolvePart(byShape, p as PartJob)),
+      add: job.add.map((p) => resolvePart(byShape, p as PartJob, context)),
+      cut: job.cut.map((p) => resolvePart(byShape, p as PartJob, context)),
       opaque: job.opaque,
     }),
     geometry: () => ({ kind: 'sampled' }),

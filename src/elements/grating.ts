@@ -40,8 +40,17 @@ const schema = z.strictObject({
   phase: phase.optional(),
   /** Binary phase and binary amplitude: the fraction of each period that is stepped (or open). */
   duty: fraction('a duty cycle').optional(),
-  /** Blazed: the sawtooth's depth in waves (1: all the light into order 1 in thin-grating theory). */
-  depth: z.number({ error: 'expected a depth in waves, such as 1' }).min(-1000, { error: 'expected a depth of at most 1000 waves' }).max(1000, { error: 'expected a depth of at most 1000 waves' }).optional(),
+  /**
+   * Blazed: the sawtooth's depth, in waves (a number: the same at every wavelength of a sweep) or
+   * as an optical path (a length, (n − 1)·height: depth/λ waves at each wavelength, as a real part
+   * behaves). 1 wave sends all the light into order 1 in thin-grating theory.
+   */
+  depth: z
+    .union([
+      z.number().min(-1000).max(1000).transform((w) => ({ waves: w })),
+      quantity('length', { absMax: 1e-3, range: 'an optical path of at most 1 mm' }).transform((p) => ({ path: p })),
+    ], { error: "expected a depth in waves (a number such as 1) or as an optical path (a length such as '633 nm')" })
+    .optional(),
   opaque: z.literal(false, { error: 'expected no opaque gratings (a grating of opaque lines is the slits element)' }).default(false),
 });
 type Job = z.output<typeof schema>;
@@ -55,7 +64,7 @@ const PROFILE_KEYS: Record<(typeof PROFILES)[number], { needs: (keyof Job)[]; ma
   'binary-amplitude': { needs: ['duty'], may: [] },
 };
 
-function profileOf(job: Job): GratingProfile {
+function profileOf(job: Job, wavelength: number): GratingProfile {
   switch (job.profile) {
     case 'sinusoidal-amplitude':
       return { kind: 'sinusoidal-amplitude', modulation: job.contrast! };
@@ -64,7 +73,7 @@ function profileOf(job: Job): GratingProfile {
     case 'binary-phase':
       return { kind: 'binary-phase', duty: job.duty ?? 0.5, step: job.phase ?? Math.PI };
     case 'blazed':
-      return { kind: 'blazed', depth: job.depth! };
+      return { kind: 'blazed', depth: 'waves' in job.depth! ? job.depth.waves : job.depth!.path / wavelength };
     case 'binary-amplitude':
       return { kind: 'binary-amplitude', duty: job.duty! };
   }
@@ -102,9 +111,9 @@ export const grating: ElementKind<Grating, typeof schema> = {
     }
     if (job.profile === 'sinusoidal-phase' && job.phase === 0) problem('phase', 'expected a phase modulation above 0');
   },
-  resolve: (job, v) => ({
+  resolve: (job, v, context) => ({
     shape: 'grating',
-    profile: profileOf(job),
+    profile: profileOf(job, context.wavelength),
     count: v('count'),
     period: v('period'),
     ...(job.length ? { length: v('length') } : {}),

@@ -14,13 +14,15 @@ import { polygon } from './polygon.js';
 import { rectangle } from './rectangle.js';
 import { slit } from './slit.js';
 import { slits } from './slits.js';
-import type { CellTransmittance, ElementKind, ElementSchema, ElementSpec } from './types.js';
+import { zonePlate } from './zone-plate.js';
+import { lens } from './lens.js';
+import type { CellTransmittance, ElementKind, ElementSchema, ElementSpec, Focusing } from './types.js';
 
 /** The binary openings a combination or an array may be built from. */
 const PARTS = [circle, rectangle, slit, annulus, slits, polygon] as const;
 const parts = PARTS as unknown as readonly PartKind[];
 
-export const ELEMENTS = [...PARTS, makeCombined(parts), makeArray(parts), grating] as const;
+export const ELEMENTS = [...PARTS, makeCombined(parts), makeArray(parts), grating, zonePlate, lens] as const;
 
 type SpecOf<E> = E extends ElementKind<infer S, infer _Sch> ? S : never;
 /** One case's element (SI units), whichever kind. */
@@ -56,14 +58,27 @@ export function apertureMask(a: Aperture, xa: Axis, ya: Axis): Float64Array {
 }
 
 /** The complex transmittance per cell of a non-binary element; null for a binary one (its mask is it). */
-export function apertureTransmittance(a: Aperture, xa: Axis, ya: Axis): CellTransmittance | null {
+export function apertureTransmittance(a: Aperture, xa: Axis, ya: Axis, wavelength: number): CellTransmittance | null {
   const e = elementOf(a);
-  return e.transmittance ? e.transmittance(a, xa, ya) : null;
+  return e.transmittance && !isBinary(a) ? e.transmittance(a, xa, ya, wavelength) : null;
+}
+
+/** The largest local spatial frequency of a non-binary element's phase within `reach` of the axis (1/m); 0 for none. */
+export function phaseFrequencyOf(a: Aperture, wavelength: number, reach: number): number {
+  const e = elementOf(a);
+  return e.phaseFrequency ? e.phaseFrequency(a, wavelength, reach) : 0;
+}
+
+/** A thin lens's focal length, stop and pupil, or null for an element that does not focus. */
+export function lensOf(a: Aperture): Focusing | null {
+  const e = elementOf(a);
+  return e.focusing ? e.focusing(a) : null;
 }
 
 /** Binary: open or closed everywhere (a mask); Babinet's complement and the exact edge methods apply. */
 export function isBinary(a: Aperture): boolean {
-  return !elementOf(a).transmittance;
+  const e = elementOf(a);
+  return !e.transmittance || (e.binary?.(a) ?? false);
 }
 
 /**

@@ -12,10 +12,33 @@ export interface CellTransmittance {
   weight: Float64Array;
 }
 
+/**
+ * A thin lens as the planner and the focal-plane form see it: the quadratic phase
+ * exp(−iπr²/(λf)) is known in closed form and folded into a propagator's chirp, so the pupil
+ * (stop × wavefront error) is all that is sampled.
+ */
+export interface Focusing {
+  /** Focal length (m): positive converging, negative diverging. */
+  focal: number;
+  /** Radius of the circular stop (m), or null: unbounded (the illumination limits the light). */
+  stopRadius: number | null;
+  /** RMS wavefront error over the stop in waves at this wavelength (piston left out; tilt too if asked). */
+  rmsWaves(wavelength: number, withoutTilt?: boolean): number;
+  /** Cell averages of the pupil without the lens phase: stop × exp(i2πW), and the stop's open fraction. */
+  pupil(xa: Axis, ya: Axis, wavelength: number): CellTransmittance;
+  /** The pupil's largest local spatial frequency (1/m): the wavefront error's steepest slope. */
+  pupilFrequency(wavelength: number): number;
+}
+
 /** Every element spec: its kind and whether it is an obstacle (the complement) rather than an opening. */
 export interface ElementSpec {
   shape: string;
   opaque: boolean;
+}
+
+/** What resolving an element may use beyond its own keys. */
+export interface ResolveContext {
+  wavelength: number;
 }
 
 /** Reports a problem with one of the element's keys at load time. */
@@ -51,10 +74,19 @@ export interface ElementKind<S extends ElementSpec, Sch extends ElementSchema = 
   /** Folder-name tokens of the sweepable keys (key → token), and which of them are counts, not lengths. */
   tokens: Record<string, string>;
   counts?: readonly string[];
-  /** Checks across keys at load time (the annulus's inner diameter below its outer one). */
-  check?(job: J, problem: KeyProblem): void;
-  /** One case's element from the job's mapping; value(key) is the key's value in this case. */
-  resolve(job: J, value: (key: string) => number): S;
+  /**
+   * Checks across keys at load time (the annulus's inner diameter below its outer one); `light` is
+   * the job's illumination kind (an unbounded lens needs a beam of finite extent).
+   */
+  check?(job: J, problem: KeyProblem, light?: { illumination: string }): void;
+  /** Sweepable length keys whose values may be negative (a diverging lens's focal length); never zero. */
+  signed?: readonly string[];
+  /**
+   * One case's element from the job's mapping; value(key) is the key's value in this case, and the
+   * context holds what an element may depend on beyond its own keys (the case's wavelength: a
+   * blazed grating's depth given as an optical path is so many waves at each wavelength).
+   */
+  resolve(job: J, value: (key: string) => number, context: ResolveContext): S;
   /** The open part as a geometry the optics and exact methods know. */
   geometry(s: S): ApertureGeometry;
   /** Facts for the planner (default: from the geometry). */
@@ -67,7 +99,20 @@ export interface ElementKind<S extends ElementSpec, Sch extends ElementSchema = 
    * average of |t|² over every cell (the power weight: for a pure phase element inside a stop, the
    * stop's open fraction). Absent: the element is binary and its mask is the transmittance.
    */
-  transmittance?(s: S, xa: Axis, ya: Axis): CellTransmittance;
+  transmittance?(s: S, xa: Axis, ya: Axis, wavelength: number): CellTransmittance;
+  /**
+   * For a kind with a transmittance whose specs are binary for some values of its keys (a zone
+   * plate: amplitude or phase), whether this one is: then its mask is its transmittance, and
+   * `transmittance` is not asked. Absent: every spec of a kind with a transmittance is non-binary.
+   */
+  binary?(s: S): boolean;
+  /**
+   * The largest local spatial frequency of the transmittance's phase (1/m) over the part lit out to
+   * `reach` from the axis: what a method that samples the transmittance must resolve. Absent: none.
+   */
+  phaseFrequency?(s: S, wavelength: number, reach: number): number;
+  /** A focusing element (a thin lens): its focal length, stop and pupil, for the lens-aware planning. */
+  focusing?(s: S): Focusing;
   /** The open part as boundary regions for the boundary form of the exact integral (null: none). */
   boundary?(s: S): BoundaryRegion[] | null;
   /** The width a diffraction-limited verdict measures along an axis (null: no verdict there). */

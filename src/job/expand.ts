@@ -2,6 +2,7 @@
 // innermost so that consecutive cases share an aperture and a wavelength.
 import type { Illumination } from '../optics/aperture.js';
 import { elementOf, type Aperture } from '../elements/registry.js';
+import type { ResolveContext } from '../elements/types.js';
 import type { Case } from '../plan/types.js';
 import type { JobSpec, SweepValues } from './schema.js';
 import { lengthToken } from './units.js';
@@ -57,8 +58,10 @@ export function expandJob(job: JobSpec): Case[] {
   // The loader's bounds keep every swept value a positive finite number; a JobSpec built by a
   // script without the loader is checked here, so no NaN, 0 or infinity reaches a case.
   for (const a of axes) {
+    // An element's signed keys (a diverging lens's focal length) may be negative, never zero.
+    const signed = a.key.startsWith('aperture.') && (elementOf(job.aperture).signed?.includes(a.key.slice('aperture.'.length)) ?? false);
     for (const v of a.values) {
-      if (!(Number.isFinite(v) && v > 0)) throw new Error(`${a.key}: ${v} is not a positive finite number; validate the job with validateJob first`);
+      if (signed ? !(Number.isFinite(v) && v !== 0) : !(Number.isFinite(v) && v > 0)) throw new Error(`${a.key}: ${v} is not a ${signed ? 'non-zero' : 'positive'} finite number; validate the job with validateJob first`);
     }
   }
   const swept = axes.filter((a) => a.values.length > 1);
@@ -89,7 +92,7 @@ export function expandJob(job: JobSpec): Case[] {
       id: tokens.join('_'),
       wavelength: value('wavelength'),
       distance: value('distance'),
-      aperture: resolveAperture(job, value),
+      aperture: resolveAperture(job, value, { wavelength: value('wavelength') }),
       illumination: resolveIllumination(job, value),
       ...(job.grid ? { grid: job.grid } : {}),
       ...(job.window ? { window: job.window } : {}),
@@ -108,9 +111,9 @@ export function expandJob(job: JobSpec): Case[] {
   return cases;
 }
 
-function resolveAperture(job: JobSpec, value: (key: string) => number): Aperture {
+function resolveAperture(job: JobSpec, value: (key: string) => number, context: ResolveContext): Aperture {
   const a = job.aperture as unknown as { shape: string; opaque: boolean } & Record<string, unknown>;
-  return elementOf(a).resolve(a, (k: string) => value(`aperture.${k}`)) as Aperture;
+  return elementOf(a).resolve(a, (k: string) => value(`aperture.${k}`), context) as Aperture;
 }
 
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {

@@ -205,7 +205,7 @@ export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
       ctx.addIssue({ code: 'custom', path: ['search', 'smallest-spot', 'between'], message: 'expected [smallest, largest] with smallest < largest' });
     }
   }
-  element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }));
+  element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }), { illumination: job.illumination.kind });
 });
 
 /** "a circle or a (long) slit": the elements the smallest-spot search can vary. */

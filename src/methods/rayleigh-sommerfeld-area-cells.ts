@@ -1,7 +1,6 @@
 // The exact integral for an obstacle in a Gaussian beam, the beam where the obstacle is not:
 // area-sampled cells summed onto the window point by point (src/optics/rayleigh-sommerfeld.ts
 // rsDirect2D); the exact edge cells are built for holes.
-import { isBinary } from '../elements/registry.js';
 import { costRsDirect2D, rsAreaSamplingError, rsDirect2D } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan, pitchFor } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -23,9 +22,8 @@ export const rayleighSommerfeldAreaCells: MethodDescriptor = {
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
-    // The exact sums take openings (cells, intervals, boundaries), not complex transmittances.
-    if (!isBinary(c.aperture)) return null;
-    // For an obstacle in a Gaussian beam, and for elements whose edges only their own masks know.
+    // For an obstacle in a Gaussian beam, and for elements whose edges only their own masks know
+    // (their cells carry the element's complex transmittance averaged over each cell: source.ts).
     if (g.oneD || (!g.obstructed && g.facts.exactEdges) || uncostedSlits(g, c)) return null;
     const cell = exactCell(g, c);
     // Area-sampled edge cells carry their open fraction over the whole cell: the error grows as

@@ -19,9 +19,9 @@ export const rayleighSommerfeldBoundary: MethodDescriptor = {
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
-    // The exact sums take openings (cells, intervals, boundaries), not complex transmittances.
-    if (!isBinary(c.aperture)) return null;
-    if (g.oneD || uncostedSlits(g, c)) return null;
+    // Binary elements only: the boundary form integrates a plane wave over an open region (a lens's
+    // phase or a wavefront error has no boundary to integrate along).
+    if (g.oneD || !isBinary(c.aperture) || uncostedSlits(g, c)) return null;
     // (Not when the job gives a grid: it asks for a sampled aperture.)
     const regions = !c.grid && c.illumination.kind === 'plane' && c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0 ? boundaryRegionsOf(c.aperture) : null;
     if (!regions) return null;

@@ -30,7 +30,8 @@ export const rayleighSommerfeldEdgeCells: MethodDescriptor = {
     if (uncosted) return uncosted;
     // Edge cells are exact for the edges the geometry names (boxes, rings); an element that only
     // samples itself is summed over area-sampled cells instead (rayleigh-sommerfeld-area-cells.ts).
-    if (g.obstructed || !g.facts.exactEdges) return null;
+    // Binary elements only: boxes and edge cells are open or closed, no phase within them.
+    if (g.obstructed || !g.facts.exactEdges || !isBinary(c.aperture)) return null;
     const out = exactOutputAxes(g, c);
     const s2 = rs2DSampling(c.aperture, c.illumination, g.lam, g.z, out[0]!.output, out[1]!.output, LIMITS.rsExactTarget);
     const pitch = c.grid?.pitch ? Math.min(c.grid.pitch, s2.pitch) : s2.pitch;

@@ -5,6 +5,7 @@ import { angularSpectrum } from './angular-spectrum.js';
 import { angularSpectrumShifted } from './angular-spectrum-shifted.js';
 import { farField } from './far-field.js';
 import { fresnelDirect } from './fresnel-direct.js';
+import { fresnelLens } from './fresnel-lens.js';
 import { fresnelSingleFft } from './fresnel-single-fft.js';
 import { fresnelTransfer } from './fresnel-transfer.js';
 import { rayleighSommerfeldAreaCells } from './rayleigh-sommerfeld-area-cells.js';
@@ -19,6 +20,7 @@ export const METHOD_REGISTRY: readonly MethodDescriptor[] = [
   fresnelDirect,
   fresnelTransfer,
   fresnelSingleFft,
+  fresnelLens,
   angularSpectrum,
   angularSpectrumShifted,
   rayleighSommerfeldCells1D,

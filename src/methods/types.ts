@@ -3,6 +3,7 @@
 // costs, how it is put in words, and how it propagates. The registry (registry.ts) lists them.
 import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOption, Plan, Warning } from '../plan/types.js';
 import type { Geometry } from '../plan/geometry.js';
+import type { LensParaxial } from '../plan/paraxial.js';
 import type { Field } from '../optics/field.js';
 import type { SpectralReport } from '../optics/spectral.js';
 
@@ -48,6 +49,8 @@ export interface ValidityInputs {
   farFieldPhase: number;
   /** The far-field formula's estimated relative error at the peak. */
   farFieldError: number;
+  /** A thin lens: the paraxial model's error over its cone (plan/paraxial.ts lensParaxial). */
+  lens?: LensParaxial;
 }
 
 /** What a form's check on its own use needs: the plan's checks, the geometry, and the options for advice. */

@@ -4,6 +4,7 @@
 import { LIMITS } from '../plan/limits.js';
 import { fmt, len, pct } from '../plan/words.js';
 import type { Validity, ValidityInputs } from './types.js';
+import type { LensParaxial } from '../plan/paraxial.js';
 
 export function farFieldValidity(v: ValidityInputs): Validity {
   const ffOk = v.farFieldError <= LIMITS.farFieldPeakError;
@@ -15,6 +16,7 @@ export function farFieldValidity(v: ValidityInputs): Validity {
 }
 
 export function paraxialValidity(v: ValidityInputs): Validity {
+  if (v.lens) return lensParaxialValidity(v.lens);
   const g = v.g;
   const paraxial = v.paraxial;
   const paraxialLimit = g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase;
@@ -33,4 +35,15 @@ export function angularSpectrumValidity(): Validity {
 
 export function rayleighSommerfeldValidity(): Validity {
   return { valid: true, because: 'the Rayleigh–Sommerfeld integral is exact for scalar waves at any distance and angle' };
+}
+
+/** A thin lens: the paraxial lens and kernel together, judged by the cone's steepest ray (plan/paraxial.ts). */
+function lensParaxialValidity(l: LensParaxial): Validity {
+  const ok = l.positionError <= LIMITS.lensParaxialPosition;
+  const cone = `NA = ${fmt(l.na, 3)} over the lit ${len(2 * l.radius)}, positions off by about NA²/2 = ${pct(l.positionError)} (limit ${pct(LIMITS.lensParaxialPosition)})`;
+  return {
+    valid: ok,
+    because: `the thin lens's quadratic phase and the Fresnel kernel are paraxial to the same order, so together they give an ideal lens's field (Goodman §5.2): ${cone}; the quadratic phase is ${fmt(l.phase, 2)} rad from a spherical wave at the rim`,
+    ...(ok ? {} : { why: `the cone behind the lens is too steep for the paraxial model: ${cone}` }),
+  };
 }

@@ -8,6 +8,7 @@ import { encircledMetrics } from './encircled.js';
 import { gratingMetrics } from './grating.js';
 import { peakMetrics } from './peak.js';
 import { smallestSpotMetrics } from './smallest-spot.js';
+import { strehlMetrics } from './strehl.js';
 import type { MetricFamily, MetricScope, Quantity } from './types.js';
 import { verdictMetrics } from './verdicts.js';
 import { widthMetrics } from './widths.js';
@@ -21,6 +22,7 @@ export const METRICS: readonly MetricFamily[] = [
   detectorMetrics,
   gratingMetrics,
   verdictMetrics,
+  strehlMetrics,
   smallestSpotMetrics,
 ];
 

@@ -42,9 +42,13 @@ export function propagateFresnelDirect(
   return out;
 }
 
-/** A copy of the source samples times the Fresnel integral's input chirp e^{iπ(ξ²+η²)/λz}. */
-export function withInputChirp(src: Field, z: number): Float64Array {
-  const chirp = Math.PI / (src.wavelength * z);
+/**
+ * A copy of the source samples times the Fresnel integral's input chirp e^{iπ(ξ²+η²)/λz}. With a
+ * thin lens of focal length `focal` folded in (its phase e^{−iπ(ξ²+η²)/(λf)} left out of the
+ * samples), the residual chirp e^{iπ(ξ²+η²)(1/z − 1/f)/λ}: none at all in the focal plane.
+ */
+export function withInputChirp(src: Field, z: number, focal?: number): Float64Array {
+  const chirp = focal === undefined ? Math.PI / (src.wavelength * z) : (Math.PI * (1 / z - 1 / focal)) / src.wavelength;
   // From the sample allocator: the single-FFT form transforms this copy, which an FFT team can
   // share only in shared memory.
   const u = allocateSamples(src.data.length);

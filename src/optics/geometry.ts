@@ -43,9 +43,13 @@ export function profileFacts(p: Profile): ProfileFacts {
   if (p.kind === 'interval') return { halfExtent: p.width / 2, minFeature: p.width, open: p.width, edges: 2 };
   if (p.kind === 'periodic') {
     // Open length: the power through it per unit irradiance, count·d·mean|t|². Edges: the outline's
-    // two, and every step in the profile (binary steps twice a period, a blazed tooth's once):
-    // they send light to wide angles as a slit's edges do.
-    const steps = p.profile.kind === 'binary-phase' || p.profile.kind === 'binary-amplitude' ? 2 : p.profile.kind === 'blazed' ? 1 : 0;
+    // two, and every step in the profile (binary steps twice a period, a blazed tooth's reset
+    // once), each counted by its jump in amplitude squared, |Δt|², against an opaque edge's 1: they
+    // send light to wide angles as a slit's edges do, a phase step of π four times as much.
+    const jump2 = (phase: number) => 4 * Math.sin(phase / 2) ** 2;
+    const prof = p.profile;
+    const steps =
+      prof.kind === 'binary-amplitude' ? 2 : prof.kind === 'binary-phase' ? 2 * jump2(prof.step) : prof.kind === 'blazed' ? jump2(2 * Math.PI * prof.depth) : 0;
     return {
       halfExtent: (p.count * p.period) / 2,
       minFeature: profileMinFeature(p.profile, p.period),

@@ -653,6 +653,14 @@ function sampleIndices(lo: number, hi: number, count = COST_SAMPLES): number[] {
 
 /** Samples per axis of a first, coarse look at the contours' cost (see costRsBoundary). */
 const COARSE_SAMPLES = 6;
+/**
+ * Many discs (a zone plate's edges, up to thousands): their contours are costed on a spread of at
+ * most this many, scaled to all (the count varies smoothly with the radius), and on fewer output
+ * radii, so that the fine look walks at most about COST_WALKS contours. Walking every disc at 48²
+ * radii held the planner for a minute at 10 000 discs. Cases of up to 8 discs are costed as before.
+ */
+const COST_DISCS = 64;
+const COST_WALKS = 20_000;
 
 /** The work and memory rsBoundary will take, from the geometry and the output grid (no integrals). */
 export function costRsBoundary(
@@ -670,7 +678,10 @@ export function costRsBoundary(
   let readings = 0;
   let interpolated = 0;
   if (p.discs.length > 0) {
-    const perRadius = (d: number) => p.discs.reduce((s, disc) => s + discContourCount(disc.radius, d, z, p.k, p.discRule), 0);
+    const stride = Math.ceil(p.discs.length / COST_DISCS);
+    const costed = p.discs.filter((_, i) => i % stride === 0);
+    const scale = p.discs.length / costed.length;
+    const perRadius = (d: number) => scale * costed.reduce((s, disc) => s + discContourCount(disc.radius, d, z, p.k, p.discRule), 0);
     if (p.radial) {
       const { h, mLo, mHi } = p.radial;
       const ms = sampleIndices(mLo, mHi + 1);
@@ -688,7 +699,8 @@ export function costRsBoundary(
       // far beyond any limit, and 48² of them would keep the planner for a second.
       const coarse = average(COARSE_SAMPLES);
       const huge = coarse > DISC_COUNT_WALK * p.discRule.n * p.discs.length;
-      evaluations += (huge ? coarse : average(COST_SAMPLES)) * p.keptPoints;
+      const fine = Math.max(COARSE_SAMPLES, Math.min(COST_SAMPLES, Math.floor(Math.sqrt(COST_WALKS / costed.length))));
+      evaluations += (huge ? coarse : average(fine)) * p.keptPoints;
     }
   }
   let tableEvaluations = 0;

@@ -18,8 +18,12 @@ export function singleFftAxis(n: number, dx: number, wavelength: number, z: numb
  * (Goodman, Introduction to Fourier Optics, eq. 4-17; Voelz, Computational Fourier Optics, §5.3).
  * src must lie on an FFT grid of n×n (n×1 in 1-D) samples with x = 0 at index n/2, and carry any
  * tilt carrier already. Returns the full lattice; the caller cuts out its window.
+ *
+ * `focal`: the source is a thin lens's pupil without the lens phase e^{−iπξ²/(λf)} (Goodman §5.1),
+ * which is folded into the input chirp analytically: U₀e^{−iπξ²/(λf)}e^{iπξ²/(λz)} =
+ * U₀e^{iπξ²(1/z − 1/f)/λ}. At z = f this is a pure Fourier transform, x = λf·f_x (Goodman §5.2).
  */
-export function propagateFresnelSingleFFT(src: Field, z: number): Field {
+export function propagateFresnelSingleFFT(src: Field, z: number, focal?: number): Field {
   const lam = src.wavelength;
   const oneD = isOneD(src);
   const f = createField(
@@ -29,7 +33,7 @@ export function propagateFresnelSingleFFT(src: Field, z: number): Field {
   );
   // Input chirp, then move the sample at x = 0 to index 0 (and back after the transform) so that the
   // FFT's phase reference is the optical axis.
-  const u = withInputChirp(src, z);
+  const u = withInputChirp(src, z, focal);
   shiftHalf(u, src.nx, src.ny);
   fft2(u, src.nx, src.ny, false);
   shiftHalf(u, src.nx, src.ny);

@@ -80,7 +80,7 @@ export function sourceField2D(
   opts: SourceOptions,
 ): Source {
   const f = createField(xa, ya, wavelength);
-  const complex = apertureTransmittance(a, xa, ya);
+  const complex = apertureTransmittance(a, xa, ya, wavelength);
   if (complex) return complexSource(f, complex, ill, xa, ya, wavelength, opts);
   const mask = sampleMask2D(a, xa, ya);
   if (opts.obstructed) for (let i = 0; i < mask.length; i++) mask[i] = 1 - mask[i]!;
@@ -100,6 +100,14 @@ export function sourceField2D(
     applyCarrier(f, fx0, fy0);
   }
   return { field: f, power: power * xa.step * ya.step };
+}
+
+/**
+ * A source from given cell averages of a transmittance (a lens's pupil without its phase, which the
+ * focal-plane form folds into its chirp): × the illumination's envelope, and its carrier if asked.
+ */
+export function transmittanceSource(c: CellTransmittance, ill: Illumination, xa: Axis, ya: Axis, wavelength: number, opts: SourceOptions): Source {
+  return complexSource(createField(xa, ya, wavelength), c, ill, xa, ya, wavelength, opts);
 }
 
 /**

@@ -20,6 +20,7 @@ import { encodeNpy } from './npy.js';
 import { renderIntensityPng } from './picture.js';
 import { TOOL_NAME, TOOL_VERSION } from '../version.js';
 import { metricDefinitions } from '../metrics/registry.js';
+import type { LensStrehl } from '../metrics/strehl.js';
 
 export interface CaseMetrics extends SpotMetrics {
   /** ∫ irradiance over the open area (null for opaque obstacles). */
@@ -51,6 +52,8 @@ export interface CaseMetrics extends SpotMetrics {
   strayLight?: StrayLight[];
   /** Diffraction-limited verdicts (circles, slits, rectangles in a plane wave). */
   verdicts?: Verdict[];
+  /** A converging lens with the screen within its focal depth: the Strehl ratio and its verdict (metrics/strehl.ts). */
+  strehl?: LensStrehl;
 }
 
 /**

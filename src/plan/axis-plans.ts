@@ -28,12 +28,19 @@ export function axisPlan(g: Geometry, i: number, p: { pitch: number; required: n
   };
 }
 
+/** Samples per period of a phase element's highest local frequency. */
+const PHASE_SAMPLES = 4;
+
 export function pitchFor(g: Geometry, c: Case, contentRule: PitchRule, featureSamples: number) {
   const rules: PitchRule[] = [
     { pitch: g.facts.minFeature / featureSamples, rule: `${featureSamples} samples across the smallest feature (${len(g.facts.minFeature)})` },
     contentRule,
   ];
   if (Number.isFinite(g.waist)) rules.push({ pitch: g.waist / 8, rule: `8 samples per beam radius (${len(g.waist)})` });
+  // A phase element's own finest period (a lens's rim), four samples per period (common practice).
+  if (g.phaseFrequency && g.phaseFrequency > 0) {
+    rules.push({ pitch: 1 / (PHASE_SAMPLES * g.phaseFrequency), rule: `${PHASE_SAMPLES} samples per period of the element's finest phase (local frequency ${fmt(g.phaseFrequency / 1e3, 3)} /mm)` });
+  }
   let best = rules[0]!;
   for (const r of rules) if (r.pitch < best.pitch) best = r;
   const required = best.pitch;

@@ -23,6 +23,13 @@ export interface Geometry {
   carrier: [number, number];
   minOutput: number;
   model: LightModel;
+  /**
+   * The largest local spatial frequency of a non-binary element's phase over the lit part (1/m: a
+   * lens's R/(λ|f|) plus its wavefront error's slope); absent or 0 for binary elements. A method
+   * that samples the transmittance resolves it (pitchFor); one that folds the lens into its
+   * kernel passes only the pupil's.
+   */
+  phaseFrequency?: number;
 }
 
 /** The largest direction cosine from the illuminated aperture to the window. */

@@ -4,7 +4,7 @@
 // window from it and checks every method's validity where the light actually is — a grating's
 // orders at 40° as much as the central lobe.
 import type { Aperture, ApertureFacts, Illumination } from '../optics/aperture.js';
-import { gratingOf } from '../elements/registry.js';
+import { gratingOf, lensOf } from '../elements/registry.js';
 import { directionCosines } from '../optics/source.js';
 import { landingOrders } from '../optics/grating.js';
 import { orderFraction } from '../analysis/grating-shape.js';
@@ -69,6 +69,9 @@ export function lightModel(
   const [alpha, beta] = directionCosines(ill);
   const oneD = f.oneD;
   const waist = ill.kind === 'gaussian' ? ill.waist : Infinity;
+  // A lens's beam converges (or diverges): its footprint on the screen is the cone's, not the aperture's.
+  const focusing = lensOf(a);
+  if (focusing) footprint = lensFootprint(focusing.focal, lam, z, footprint);
   const edgeWeight = illuminatedEdgeWeight(f, waist, oneD);
   // An obstacle in a Gaussian beam passes about the beam's power beyond the obstacle's near edge.
   const beamPower = oneD ? waist * Math.sqrt(Math.PI / 2) : (Math.PI * waist * waist) / 2;
@@ -138,6 +141,37 @@ export function lightModel(
       waist,
     };
   }
+}
+
+/** j₁,₁/π: the Airy core's first dark ring at (j₁,₁/π)·λz/D (Born & Wolf, Principles of Optics, §8.5.2). */
+const AIRY_CORE = 3.8317059702075125 / Math.PI;
+
+/**
+ * The footprint of the cone behind a thin lens of focal length f at distance z, per axis: the
+ * geometric |1 − z/f|·a of the illuminated half width a (converging to the focus for f > 0, spreading
+ * for f < 0), plus the diffraction spread, the Airy core (j₁,₁/π)·λz/(2a) (1.22λf/D at the focus).
+ */
+export function lensFootprint(focal: number, lam: number, z: number, lit: [number, number]): [number, number] {
+  const geo = Math.abs(1 - z / focal);
+  const axis = (a: number) => (a > 0 ? geo * a + (AIRY_CORE * lam * z) / (2 * a) : 0);
+  return [axis(lit[0]), axis(lit[1])];
+}
+
+/**
+ * 1/e² radius at distance z of a Gaussian beam whose waist w₀ is at a thin lens of focal length f
+ * (ABCD law for the complex beam parameter: 1/q₁ = 1/q₀ − 1/f, q = q₁ + z; Siegman, Lasers, ch. 17
+ * and 20): at z = f it is λf/(πw₀)·(1 + (f/z_R)²)^(−1/2), z_R = πw₀²/λ.
+ */
+export function lensBeamRadius(w0: number, focal: number, lam: number, z: number): number {
+  const zr = (Math.PI * w0 * w0) / lam;
+  // 1/q₁ = a + ib with a = −1/f, b = −1/z_R; q₁ = (a − ib)/(a² + b²); q = q₁ + z.
+  const a = -1 / focal;
+  const b = -1 / zr;
+  const m = a * a + b * b;
+  const qr = a / m + z;
+  const qi = -b / m;
+  // Im(1/q) = −qᵢ/|q|², and w² = −λ/(π·Im(1/q)).
+  return Math.sqrt((lam * (qr * qr + qi * qi)) / (Math.PI * qi));
 }
 
 /** Power through the aperture per unit incident irradiance, with a Gaussian beam's own limit. */

@@ -74,6 +74,11 @@ export const LIMITS = {
    * weighted came out 2.4 % off against the exact integral).
    */
   paraxialPhaseBabinet: 0.03,
+  /**
+   * A thin lens under a paraxial form: the largest relative error in positions, about NA²/2 (the
+   * tangent against the sine of the cone's steepest ray), for the form to be valid; a judgement.
+   */
+  lensParaxialPosition: 0.01,
   /** Largest estimated peak error of the far-field formula for it to be chosen. */
   farFieldPeakError: 0.002,
   /** Warn when a forced far-field formula's estimated peak error exceeds this. */

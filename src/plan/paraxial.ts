@@ -107,3 +107,36 @@ export function paraxialEstimate(p: ParaxialInputs): ParaxialEstimate {
   }
   return best;
 }
+
+/** A thin lens's paraxial model against an ideal lens, over the cone that carries its light. */
+export interface LensParaxial {
+  focal: number;
+  /** Radius of the lit pupil that carries the power (the stop, or two beam radii). */
+  radius: number;
+  /** R/|f| plus the tilt's sine: the steepest ray that carries power. */
+  na: number;
+  /**
+   * k(√(f² + R²) − |f| − R²/(2|f|)) ≈ kR⁴/(8|f|³): how far the thin lens's quadratic phase is from a
+   * spherical wave about its focus at the rim (Goodman, Introduction to Fourier Optics, §5.1), rad.
+   */
+  phase: number;
+  /** About NA²/2: the relative error in positions of the paraxial (tangent) mapping against the sine. */
+  positionError: number;
+}
+
+/**
+ * For a lens, the paraxial check is on the cone behind it, not on the aperture seen from the screen:
+ * its quadratic phase and the Fresnel kernel drop the same order (Goodman §5.2), so together they
+ * give an ideal lens's focus, and what is left is the paraxial mapping of the cone's directions
+ * (NA²/2 in positions). The estimate carries the lens's phase kR⁴/(8f³) at the main beam's
+ * landing point, for the checks and the warning.
+ */
+export function lensParaxial(lam: number, focal: number, radius: number, tiltSine: number, at: [number, number]): { lens: LensParaxial; estimate: ParaxialEstimate } {
+  const k = (2 * Math.PI) / lam;
+  const phase = Math.abs(droppedPhase(k, Math.abs(focal), radius));
+  const na = radius / Math.abs(focal) + tiltSine;
+  return {
+    lens: { focal, radius, na, phase, positionError: (na * na) / 2 },
+    estimate: { error: phase, at, phase, weight: 1 },
+  };
+}

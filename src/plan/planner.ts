@@ -3,14 +3,16 @@
 // that fits in memory and time, its sampling, the validity checks that can be made before
 // computing, a memory estimate, and the reasons for each choice in words. It never falls back to a
 // method whose own check fails: with nothing valid that fits, the case is refused with the reasons.
+import { isBinary } from '../elements/registry.js';
 import { warning } from '../warnings/catalogue.js';
 import { apertureFacts } from '../optics/aperture.js';
 import { directionCosines } from '../optics/source.js';
 import { trimNumber } from '../job/units.js';
 import type { AxisPlan, Case, Checks, MethodForm, MethodName, MethodOption, Plan, Regime, Warning } from './types.js';
 import { LIMITS } from './limits.js';
-import { lightModel, type LightModel } from './light.js';
-import { paraxialEstimate } from './paraxial.js';
+import { lensBeamRadius, lightModel, type LightModel } from './light.js';
+import { lensOf, phaseFrequencyOf } from '../elements/registry.js';
+import { lensParaxial, paraxialEstimate } from './paraxial.js';
 import type { Geometry } from './geometry.js';
 import { BASELINE_MEMORY } from './costs.js';
 import { bytes, fmt, len, pct, seconds } from './words.js';
@@ -80,22 +82,29 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const nfEff = Math.max(beamA(facts.characteristic[0]), oneD ? 0 : beamA(facts.characteristic[1])) ** 2 / (lam * z);
   const dMax = 2 * Math.max(facts.halfExtent[0], facts.halfExtent[1]);
   const farFieldDistance = (2 * dMax * dMax) / lam;
-  const regime: Regime = nfEff > 1 ? 'near-field' : nfEff > 1 / 8 ? 'transition' : 'far-field';
+  // Behind a lens the light converges: its regime is the equivalent propagation's, whose Fresnel
+  // number is N_F·|1 − z/f| (the residual chirp a²|1/z − 1/f|/λ): the far field at the focus.
+  const lens = lensOf(c.aperture);
+  const nfRegime = lens ? nfEff * Math.abs(1 - z / lens.focal) : nfEff;
+  const regime: Regime = nfRegime > 1 ? 'near-field' : nfRegime > 1 / 8 ? 'transition' : 'far-field';
   const nf = Math.max(nfx, nfy ?? 0);
   reasons.push(
     `Fresnel number N_F = a²/(λz) = ${fmt(nf)}${nfy !== null && Math.abs(nfx - nfy) > 1e-12 * nf ? ` (x ${fmt(nfx)}, y ${fmt(nfy)})` : ''}` +
       (ill.kind === 'gaussian' && nfEff < nf ? `; with the ${len(waist)} beam radius the effective N_F is ${fmt(nfEff)}` : '') +
-      `: ${regimeWords(regime)} (the far-field distance 2D²/λ is ${len(farFieldDistance)}, common practice).`,
+      `: ${lens ? 'behind a lens the regime is the equivalent propagation\'s (below)' : regimeWords(regime)} (the far-field distance 2D²/λ is ${len(farFieldDistance)}, common practice).`,
   );
 
   // Where the light goes, and the window that holds it.
   const model = lightModel(c.aperture, facts, ill, lam, z, aEff, obstructed);
-  const beamRadius = ill.kind === 'gaussian' ? beamRadiusAt(waist, lam, z) : undefined;
+  // Behind a lens a Gaussian beam converges to (or spreads from) its focus: its radius by the ABCD law.
+  const beamRadius = ill.kind === 'gaussian' ? (lens ? lensBeamRadius(waist, lens.focal, lam, z) : beamRadiusAt(waist, lam, z)) : undefined;
   const winInputs = {
     lam,
     z,
     model,
     nearField: regime === 'near-field',
+    // (An unbounded lens has no edge to ring: its beam's radius alone sets the window.)
+    ...(lens ? { zoneScale: lens.stopRadius === null ? 0 : Math.abs(1 - z / lens.focal) } : {}),
     ...(beamRadius !== undefined ? { beamRadius } : {}),
     ...(c.window ? { given: c.window } : {}),
   };
@@ -140,7 +149,15 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     minOutput: opts.minOutputSamples ?? (oneD ? LIMITS.minOutput1D : LIMITS.minOutput2D),
     model,
   };
-  const paraxial = paraxialEstimate({
+  // A phase element's finest local period, which every method that samples it must resolve.
+  const phaseFrequency = phaseFrequencyOf(c.aperture, lam, Math.max(aEff[0], aEff[1]));
+  if (phaseFrequency > 0) geo.phaseFrequency = phaseFrequency;
+  // A lens: the paraxial check is on the cone behind it (plan/paraxial.ts lensParaxial).
+  const lensCheck = lens
+    ? lensParaxial(lam, lens.focal, Math.min(Math.max(aEff[0], aEff[1]), 2 * waist), Math.hypot(alpha, beta), model.propagating[0]?.landing ?? [0, 0])
+    : null;
+  if (lens) reasons.push(...lensReasons(lens.focal, lens.stopRadius, lam, z, nfRegime));
+  const paraxial = lensCheck ? lensCheck.estimate : paraxialEstimate({
     lam,
     z,
     model,
@@ -162,7 +179,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   }
 
   // Methods: every one is costed; the valid ones compete on cost.
-  const validity = validities({ g: geo, paraxialError: paraxial.error, paraxial, farFieldPhase: farFieldPhaseError, farFieldError: farFieldPeakError });
+  const validity = validities({ g: geo, paraxialError: paraxial.error, paraxial, farFieldPhase: farFieldPhaseError, farFieldError: farFieldPeakError, ...(lensCheck ? { lens: lensCheck.lens } : {}) });
   const options: MethodOption[] = [];
   const samplings: Chosen[] = [];
   const answers = opts.countAnswers === false ? 0 : answersPeak(c, opts.maxMemoryBytes);
@@ -183,7 +200,14 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     const forced = samplings.filter((s) => s.method === c.method);
     chosen = forced.filter(fitsLimits).reduce<Chosen | undefined>((b, s) => (!b || s.work < b.work ? s : b), undefined);
     reasons.push(`${methodWords(c.method)} as requested.`);
-    if (!chosen) {
+    if (forced.length === 0) {
+      // No form of the method takes this element (the exact sums take openings, not complex
+      // transmittances): refused, with the cheapest other plan kept so that `plan` can show one.
+      chosen = samplings.reduce((b, s) => (s.work < b.work ? s : b));
+      error = `${methodWords(c.method)} does not take this element (${facts.description}): ${
+        isBinary(c.aperture) ? 'none of its forms applies here' : 'its sums take openings, open or closed everywhere, not a complex transmittance'
+      }; use method: auto`;
+    } else if (!chosen) {
       chosen = forced.reduce((b, s) => (s.work < b.work ? s : b));
       error = tooBig(chosen, c, maxMemory, maxWork, options);
     }
@@ -227,6 +251,10 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   if (chosen.d.checks) Object.assign(checks, chosen.d.checks(chosen.axes, geo));
   reasons.push(...samplingReasons(chosen.d, chosen.axes, oneD));
   warnings.push(...preChecks(c, chosen.d, checks, chosen.axes, geo, options, maxMemory));
+  if (lensCheck && method !== 'fresnel' && lensCheck.lens.phase > LIMITS.paraxialPhase) {
+    // A non-paraxial method takes the thin lens's quadratic phase at its word.
+    warnings.push(warning('lens-spherical', { method: methodWords(method, chosen.form), phase: lensCheck.lens.phase, fresnelValid: validity.fresnel.valid }));
+  }
 
   const plan: Plan = {
     case: c,
@@ -292,6 +320,18 @@ function lightReasons(m: LightModel, c: Case, z: number): string[] {
     `grating orders m = ${ms[0]}…${ms[ms.length - 1]} propagate (d(sin θ_m − sin θ_i) = mλ); the outermost lands at ${len(outer.landing![0])} = z·tan θ (θ = ${fmt((Math.asin(outer.dir[0]) * 180) / Math.PI, 3)}°)` +
       (m.evanescentFraction > 1e-4 ? `; about ${pct(m.evanescentFraction)} of the transmitted power goes into evanescent orders and never reaches the screen.` : '.'),
   ].concat(c.window ? [] : [`the window holds every propagating order at z = ${len(z)}.`]);
+}
+
+/** Where the screen is for a lens: in its focal plane, near it, or in the cone. */
+function lensReasons(focal: number, stopRadius: number | null, lam: number, z: number, nf: number): string[] {
+  const out: string[] = [`behind the lens the equivalent Fresnel number N_F·|1 − z/f| = ${fmt(nf)} sets the regime (${nf > 1 ? 'near field' : nf > 1 / 8 ? 'transition' : 'far field'}).`];
+  const off = Math.abs(z / focal - 1);
+  if (focal > 0 && off <= 1e-9) out.push(`the screen is in the lens's focal plane (z = f): the field there is the Fourier transform of the pupil, x = λf·f_x (Goodman §5.2).`);
+  else if (focal > 0) {
+    const depth = stopRadius !== null ? 2 * lam * (focal / (2 * stopRadius)) ** 2 : null;
+    out.push(`the screen is ${len(Math.abs(z - focal))} ${z < focal ? 'before' : 'beyond'} the lens's focus (f = ${len(focal)})${depth !== null ? `; the focal depth ±2λ(f/D)² is ±${len(depth)}` : ''}.`);
+  } else out.push(`a diverging lens (f = −${len(-focal)}): the light spreads from its virtual focus ${len(-focal)} before the lens.`);
+  return out;
 }
 
 

@@ -4,7 +4,7 @@ import type { MethodRequest } from '../job/schema.js';
 import type { WarningCode } from '../warnings/catalogue.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
-export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct';
+export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct' | 'lens-chirp';
 /**
  * The exact integral summed over the aperture's cells, one period's field summed over a grating's
  * periods, or (a plane wave at normal incidence) as an integral along the aperture's boundary.

@@ -52,6 +52,11 @@ export interface WindowInputs {
   beamRadius?: number;
   /** The window the job gives (full widths), if any. */
   given?: [number, number];
+  /**
+   * Behind a lens, |1 − z/f|: the equivalent propagation over z/|1 − z/f| magnified by |1 − z/f|
+   * (the Fresnel scaling of a converging beam) makes the Fresnel zones at the screen √(λz·|1 − z/f|).
+   */
+  zoneScale?: number;
 }
 
 /**
@@ -79,7 +84,7 @@ export function planWindow(w: WindowInputs): WindowPlan {
       omitted.push(...beams.filter((b) => axes.some((i) => Math.abs(b.landing![i]! - centre[i]!) > half[i]!)));
     }
   } else {
-    const fresnel = w.nearField ? 2 * Math.sqrt((lam * z) / 2) : 0;
+    const fresnel = w.nearField ? 2 * Math.sqrt((lam * z * (w.zoneScale ?? 1)) / 2) : 0;
     const hull = (list: Beam[], i: number): [number, number] => {
       let lo = Infinity;
       let hi = -Infinity;

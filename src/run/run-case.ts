@@ -7,6 +7,7 @@ import { postChecks, type GratingEvanescence } from '../analysis/validity.js';
 import { readDetectors } from '../metrics/detectors.js';
 import { encircledRadii } from '../metrics/encircled.js';
 import { caseVerdicts } from '../metrics/verdicts.js';
+import { lensStrehl } from '../metrics/strehl.js';
 import { powerAccount } from '../metrics/window.js';
 import { directionCosines } from '../optics/source.js';
 import { gratingOf } from '../elements/registry.js';
@@ -80,6 +81,8 @@ export function runPlannedCase(plan: Plan): CaseRecord {
   }
   const verdicts = caseVerdicts(plan, computed, centre, d.powerIn);
   if (verdicts.length) metrics.verdicts = verdicts;
+  const strehl = lensStrehl(plan, spot.peakIntensity);
+  if (strehl) metrics.strehl = strehl;
   warnings.push(...postChecks(plan, d, grating), ...detectors.warnings);
   return { plan, computed, metrics, energy, warnings, seconds: (performance.now() - t0) / 1000 };
 }

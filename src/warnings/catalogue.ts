@@ -107,6 +107,20 @@ export interface DetectorOutsideDetails {
 
 export const WARNING_CATALOGUE = {
   // ---- before computing (src/plan/planner.ts)
+  'lens-spherical': entry<{ method: string; phase: number; fresnelValid: boolean }>({
+    title: 'The thin lens shows its own spherical aberration',
+    // The computed field is right for the element as given (a quadratic phase): a note on the model.
+    accuracy: false,
+    message: (d) =>
+      `${d.method} propagates the thin lens's quadratic phase exactly, and that phase is ${fmt(d.phase, 2)} rad from a spherical wave about the focus at the rim of the lit pupil (kR⁴/(8f³)): the result shows that much spherical aberration, which an ideal lens would not have; an ideal lens's field is the Fresnel result${d.fresnelValid ? ' (valid here)' : ''}`,
+  }),
+  'paraxial-lens': entry<{ phase: number; limit: number }>({
+    title: 'The thin lens is paraxial',
+    // What the result is (an ideal lens's field, paraxial positions), not a fault of the numbers.
+    accuracy: false,
+    message: (d) =>
+      `the thin lens is paraxial: its quadratic phase is ${fmt(d.phase, 2)} rad from a spherical wave about its focus at the rim of the lit pupil (kR⁴/(8f³), limit ${d.limit} rad); with the Fresnel kernel, which drops the same order, the result is an ideal (aberration-free) lens's field with paraxial positions, not the exact field of the quadratic phase itself (which would show that much spherical aberration)`,
+  }),
   'tilt-y-ignored': entry<NoDetails>({
     title: 'Tilt along the slits ignored',
     accuracy: false,

@@ -187,7 +187,7 @@ describe('a wrong shape or kind names the choices', () => {
     const [p] = problems(HEAD + 'aperture:\n  shape: circel\n  diameter: 50 um\n');
     expect(p).toEqual({
       path: 'aperture.shape',
-      message: "expected one of circle, rectangle, slit, annulus, slits (did you mean 'circle'?), got 'circel'",
+      message: "expected one of circle, rectangle, slit, annulus, slits, polygon, combined, array, grating, zone-plate (did you mean 'circle'?), got 'circel'",
       line: 5,
       column: 10,
     });
@@ -195,19 +195,19 @@ describe('a wrong shape or kind names the choices', () => {
 
   it('a shape that is nothing like one', () => {
     const [p] = problems(HEAD + 'aperture: {shape: hexagon, side: 5 um}\n');
-    expect(p!.message).toBe("expected one of circle, rectangle, slit, annulus, slits, got 'hexagon'");
+    expect(p!.message).toBe("expected one of circle, rectangle, slit, annulus, slits, polygon, combined, array, grating, zone-plate, got 'hexagon'");
   });
 
   it('missing shape', () => {
     const [p] = problems(HEAD + 'aperture: {diameter: 50 um}\n');
-    expect(p).toMatchObject({ path: 'aperture.shape', message: 'missing: expected one of circle, rectangle, slit, annulus, slits' });
+    expect(p).toMatchObject({ path: 'aperture.shape', message: 'missing: expected one of circle, rectangle, slit, annulus, slits, polygon, combined, array, grating, zone-plate' });
   });
 
   it('a shape or kind given as a word instead of a mapping', () => {
     const [a] = problems(HEAD + 'aperture: circle\n');
     expect(a).toMatchObject({
       path: 'aperture',
-      message: "expected a mapping such as {shape: circle, diameter: '50 um'} (shape: one of circle, rectangle, slit, annulus, slits), got 'circle'",
+      message: "expected a mapping such as {shape: circle, diameter: '50 um'} (shape: one of circle, rectangle, slit, annulus, slits, polygon, combined, array, grating, zone-plate), got 'circle'",
       line: 4,
       column: 11,
     });

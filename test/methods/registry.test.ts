@@ -23,6 +23,8 @@ const SPECS: CaseSpec[] = [
   { wavelength: 1 * um, distance: 1 * mm, aperture: { shape: 'annulus', outer: 40 * um, inner: 20 * um, opaque: true } },
   // A grid.size names an FFT grid: Fresnel's transfer-function form.
   { wavelength: 633e-9, distance: 5 * mm, aperture: { shape: 'circle', diameter: 100 * um, opaque: false }, grid: { size: 256 } },
+  // A lens with its screen at the focus: Fresnel's form with the lens folded into the chirp.
+  { wavelength: 633e-9, distance: 100 * mm, aperture: { shape: 'lens', focal: 100 * mm, stop: 25 * mm, aberrations: [], opaque: false } },
 ];
 
 function plans(): Plan[] {

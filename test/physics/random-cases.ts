@@ -216,6 +216,11 @@ export function runRandomCase(d: DrawnCase, onPlanned?: (p: PlanInfo) => void): 
     const perPoint = referenceCost1D(d.spec as RefCase, sample) / sample.length;
     const n = Math.max(MIN_POINTS_1D, Math.min(POINTS_1D, Math.floor(REFERENCE_BUDGET_MICROS / Math.max(perPoint, 1e-9))));
     for (const col of evenIndices(c.nx, n)) idx.push([0, col]);
+    // And the computed peak: the error is relative to the reference's peak, which points spread
+    // over a wide window can miss (a narrow central lobe between them inflates every error).
+    let top = 0;
+    for (let col = 1; col < c.nx; col++) if (c.intensity[col]! > c.intensity[top]!) top = col;
+    if (!idx.some(([, col]) => col === top)) idx.push([0, top]);
   } else {
     const midRow = Math.round(c.center[1]);
     const midCol = Math.round(c.center[0]);

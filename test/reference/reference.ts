@@ -39,7 +39,7 @@ export type RefOutcome =
   | { ok: false; reason: string };
 
 export function isOneD(a: Aperture): boolean {
-  return (a.shape === 'slit' || a.shape === 'slits') && !a.length;
+  return (a.shape === 'slit' || a.shape === 'slits' || a.shape === 'grating') && !a.length;
 }
 
 /** Open intervals along x of a 1-D aperture (or of a separable one's x-profile). */
@@ -204,6 +204,14 @@ function openMeasure(a: Aperture): number {
 
 /** Estimated µs of the exact 1-D reference at these points (for choosing how many to compare). */
 export function referenceCost1D(c: RefCase, pts: [number, number][]): number {
+  const a = c.aperture;
+  if (a.shape === 'grating') {
+    // The extent and the steps (see referenceIntensity): about twice the cost of the steps alone.
+    const w = (a.profile.kind === 'binary-phase' ? a.profile.duty : 0.5) * a.period;
+    const steps = gratingIntervals(a.count, w, a.period);
+    const q: Problem1D = { wavelength: c.wavelength, distance: c.distance, intervals: steps, light: lightOf(c.illumination), opaque: false };
+    return 2 * rs1dCost(q, pts.map(([x]) => x));
+  }
   const p: Problem1D = { wavelength: c.wavelength, distance: c.distance, intervals: xIntervals(c.aperture), light: lightOf(c.illumination), opaque: c.aperture.opaque };
   return rs1dCost(p, pts.map(([x]) => x));
 }
@@ -224,6 +232,36 @@ export function referenceIntensity(c: RefCase, pts: [number, number][], budgetMi
   const rhoMax = Math.max(...pts.map(([x, y]) => Math.hypot(Math.abs(x) + hx, isOneD(a) ? 0 : Math.abs(y) + hy)));
   const k = (2 * Math.PI) / lam;
   const freePhase = a.opaque && ill.kind === 'plane' ? Math.abs(k * z * (Math.cos(ill.tilt[0]) - 1 + Math.sin(ill.tilt[0]) ** 2 / 2)) : 0;
+
+  if (a.shape === 'grating') {
+    // A binary phase grating is piecewise constant: the whole extent open, plus (e^{iφ} − 1) times
+    // its stepped strips, each an exact 1-D problem (linearity of the integral). Other profiles
+    // have no exact reference here.
+    const g = a.profile;
+    if (g.kind !== 'binary-phase' || a.length || ill.tilt[1] !== 0) return { ok: false, reason: `no exact reference for a ${g.kind} grating${a.length ? ' of finite length' : ''}` };
+    const half = (a.count * a.period) / 2;
+    const w = g.duty * a.period;
+    const steps: [number, number][] = [];
+    for (let k = 0; k < a.count; k++) {
+      const c = (k - (a.count - 1) / 2) * a.period;
+      steps.push([c - w / 2, c + w / 2]);
+    }
+    const xs = pts.map(([x]) => x);
+    const whole: Problem1D = { wavelength: lam, distance: z, intervals: [[-half, half]], light, opaque: false };
+    const stepped: Problem1D = { wavelength: lam, distance: z, intervals: steps, light, opaque: false };
+    if (rs1dCost(whole, xs, budgetMicros) + rs1dCost(stepped, xs, budgetMicros) > budgetMicros) return { ok: false, reason: 'exact 1-D reference over budget' };
+    const u1 = rs1d(whole, xs);
+    const u2 = rs1d(stepped, xs);
+    const cr = Math.cos(g.step) - 1;
+    const ci = Math.sin(g.step);
+    const I = new Float64Array(xs.length);
+    for (let i = 0; i < xs.length; i++) {
+      const re = u1.re[i]! + cr * u2.re[i]! - ci * u2.im[i]!;
+      const im = u1.im[i]! + cr * u2.im[i]! + ci * u2.re[i]!;
+      I[i] = re * re + im * im;
+    }
+    return { ok: true, how: 'exact 1-D Rayleigh–Sommerfeld (the extent plus the phase steps, by linearity)', intensity: I, points: pts };
+  }
 
   if (isOneD(a)) {
     const p: Problem1D = { wavelength: lam, distance: z, intervals: xIntervals(a), light, opaque: a.opaque };
