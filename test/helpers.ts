@@ -2,6 +2,7 @@
 // physics given (the planner chooses grids unless a test says otherwise).
 import type { Aperture, Illumination } from '../src/optics/aperture.js';
 import type { Case } from '../src/plan/types.js';
+import { xAt, yAt } from '../src/model/grid.js';
 import { planCase } from '../src/plan/planner.js';
 import { runPlannedCase } from '../src/run/run-case.js';
 import type { RunReporter } from '../src/run/progress.js';
@@ -39,8 +40,8 @@ export function runCase(s: CaseSpec) {
   const plan = planCase(makeCase(s));
   const rec = runPlannedCase(plan);
   const c = rec.computed;
-  const x = (col: number) => c.origin[0] + col * c.pitch[0];
-  const y = (row: number) => (c.pitch[1] === null ? 0 : c.origin[1] + row * c.pitch[1]);
+  const x = (col: number) => xAt(c, col);
+  const y = (row: number) => yAt(c, row);
   return { plan, rec, c, x, y, codes: rec.warnings.map((w) => w.code) };
 }
 

@@ -1,7 +1,8 @@
 // Encircled energy (2-D, about a centre) and its 1-D counterpart, the power within ±x of a centre
 // line, as fractions of a reference power (normally the power through the aperture). Each sample
 // is split into sub-cells so that the curve is smooth at radii of a few samples.
-import type { IntensityMap } from './metrics.js';
+import { isOneD } from '../model/grid.js';
+import type { IntensityMap } from '../model/intensity-map.js';
 
 export interface EnergyCurve {
   /** Radii (2-D) or half-widths (1-D), m, increasing. */
@@ -12,18 +13,18 @@ export interface EnergyCurve {
 
 /** Sub-cells per sample side: 4×4 keeps binning errors near 1e-4 for spots of tens of samples. */
 function subdivision(map: IntensityMap): number {
-  const n = map.rows * map.cols;
+  const n = map.ny * map.nx;
   return n <= 1 << 20 ? 4 : n <= 1 << 22 ? 2 : 1;
 }
 
 export function energyCurve(map: IntensityMap, centre: [number, number], reference: number, points = 400): EnergyCurve {
   const s = subdivision(map);
-  const dx = map.pitch[0];
-  const dy = map.pitch[1];
-  const oneD = dy === null;
+  const dx = map.dx;
+  const oneD = isOneD(map);
+  const dy = map.dy;
   // Farthest distance from the centre to the window's corners sets the curve's range.
-  const xs = [map.origin[0] - dx / 2, map.origin[0] + (map.cols - 0.5) * dx];
-  const ys = oneD ? [0] : [map.origin[1] - dy / 2, map.origin[1] + (map.rows - 0.5) * dy];
+  const xs = [map.x0 - dx / 2, map.x0 + (map.nx - 0.5) * dx];
+  const ys = oneD ? [0] : [map.y0 - dy / 2, map.y0 + (map.ny - 0.5) * dy];
   let rMax = 0;
   for (const x of xs) for (const y of ys) rMax = Math.max(rMax, Math.hypot(x - centre[0], oneD ? 0 : y - centre[1]));
   const bins = Math.max(points, 16);
@@ -34,12 +35,12 @@ export function energyCurve(map: IntensityMap, centre: [number, number], referen
   const offX = Array.from({ length: s }, (_, i) => ((i + 0.5) / s - 0.5) * dx);
   const offY = oneD ? [0] : Array.from({ length: s }, (_, j) => ((j + 0.5) / s - 0.5) * dy);
   const inv = 1 / binWidth;
-  for (let r = 0; r < map.rows; r++) {
-    const y0 = oneD ? 0 : map.origin[1] + r * dy - centre[1];
-    for (let c = 0; c < map.cols; c++) {
-      const v = map.intensity[r * map.cols + c]! * cell;
+  for (let r = 0; r < map.ny; r++) {
+    const y0 = oneD ? 0 : map.y0 + r * dy - centre[1];
+    for (let c = 0; c < map.nx; c++) {
+      const v = map.intensity[r * map.nx + c]! * cell;
       if (v === 0) continue;
-      const x0 = map.origin[0] + c * dx - centre[0];
+      const x0 = map.x0 + c * dx - centre[0];
       for (let i = 0; i < s; i++) {
         const x = x0 + offX[i]!;
         if (oneD) {
@@ -116,48 +117,48 @@ function insideDetector(d: DetectorSpec, x: number, y: number, oneD: boolean): b
  * along y), and the power is per unit length along y.
  */
 export function detectorPower(map: IntensityMap, d: DetectorSpec, centre: [number, number]): number {
-  const dx = map.pitch[0];
-  const dy = map.pitch[1];
-  const oneD = dy === null;
+  const dx = map.dx;
+  const oneD = isOneD(map);
+  const dy = map.dy;
   const half = d.size / 2;
   // Sub-samples: at least DETECTOR_SUBDIVISION per map cell and 64 across the detector, so that its
   // rim is resolved however few map samples it spans; the intensity between samples is bilinear
   // (a detector a few samples wide read cell by cell was off by about 1 % in area and in power).
   const s = Math.max(DETECTOR_SUBDIVISION, Math.ceil((64 * Math.max(dx, dy ?? 0)) / d.size));
   const at = (x: number, y: number): number => {
-    const u = (x - map.origin[0]) / dx;
-    const c = Math.min(Math.max(0, Math.floor(u)), map.cols - 2);
+    const u = (x - map.x0) / dx;
+    const c = Math.min(Math.max(0, Math.floor(u)), map.nx - 2);
     const tx = Math.min(1, Math.max(0, u - c));
-    if (map.cols < 2) return map.intensity[0]!;
+    if (map.nx < 2) return map.intensity[0]!;
     if (oneD) return map.intensity[c]! * (1 - tx) + map.intensity[c + 1]! * tx;
-    const v = (y - map.origin[1]) / dy!;
-    const r = Math.min(Math.max(0, Math.floor(v)), map.rows - 2);
+    const v = (y - map.y0) / dy!;
+    const r = Math.min(Math.max(0, Math.floor(v)), map.ny - 2);
     const ty = Math.min(1, Math.max(0, v - r));
-    if (map.rows < 2) return map.intensity[c]! * (1 - tx) + map.intensity[c + 1]! * tx;
-    const i = r * map.cols + c;
+    if (map.ny < 2) return map.intensity[c]! * (1 - tx) + map.intensity[c + 1]! * tx;
+    const i = r * map.nx + c;
     const a = map.intensity[i]! * (1 - tx) + map.intensity[i + 1]! * tx;
-    const b = map.intensity[i + map.cols]! * (1 - tx) + map.intensity[i + map.cols + 1]! * tx;
+    const b = map.intensity[i + map.nx]! * (1 - tx) + map.intensity[i + map.nx + 1]! * tx;
     return a * (1 - ty) + b * ty;
   };
   const [x0, x1, y0, y1] = mapExtent(map);
   const cell = (oneD ? dx : dx * dy) / (oneD ? s : s * s);
   // Only cells within reach of the detector matter; sub-samples outside the map count nothing.
-  const c0 = Math.max(0, Math.floor((centre[0] - half - map.origin[0]) / dx) - 1);
-  const c1 = Math.min(map.cols - 1, Math.ceil((centre[0] + half - map.origin[0]) / dx) + 1);
-  const r0 = oneD ? 0 : Math.max(0, Math.floor((centre[1] - half - map.origin[1]) / dy) - 1);
-  const r1 = oneD ? 0 : Math.min(map.rows - 1, Math.ceil((centre[1] + half - map.origin[1]) / dy) + 1);
+  const c0 = Math.max(0, Math.floor((centre[0] - half - map.x0) / dx) - 1);
+  const c1 = Math.min(map.nx - 1, Math.ceil((centre[0] + half - map.x0) / dx) + 1);
+  const r0 = oneD ? 0 : Math.max(0, Math.floor((centre[1] - half - map.y0) / dy) - 1);
+  const r1 = oneD ? 0 : Math.min(map.ny - 1, Math.ceil((centre[1] + half - map.y0) / dy) + 1);
   let acc = 0;
   for (let r = r0; r <= r1; r++) {
     for (let c = c0; c <= c1; c++) {
       for (let i = 0; i < s; i++) {
-        const xa = map.origin[0] + (c + (i + 0.5) / s - 0.5) * dx;
+        const xa = map.x0 + (c + (i + 0.5) / s - 0.5) * dx;
         if (xa < x0 || xa > x1) continue;
         if (oneD) {
           if (insideDetector(d, xa - centre[0], 0, true)) acc += at(xa, 0) * cell;
           continue;
         }
         for (let j = 0; j < s; j++) {
-          const ya = map.origin[1] + (r + (j + 0.5) / s - 0.5) * dy;
+          const ya = map.y0 + (r + (j + 0.5) / s - 0.5) * dy;
           if (ya < y0 || ya > y1) continue;
           if (insideDetector(d, xa - centre[0], ya - centre[1], false)) acc += at(xa, ya) * cell;
         }
@@ -174,12 +175,12 @@ export function detectorFraction(map: IntensityMap, d: DetectorSpec, centre: [nu
 
 /** The map's extent: its outer samples' cells included. [x0, x1, y0, y1]; y is unbounded in 1-D. */
 export function mapExtent(map: IntensityMap): [number, number, number, number] {
-  const dx = map.pitch[0];
-  const dy = map.pitch[1];
-  const x0 = map.origin[0] - dx / 2;
-  const x1 = map.origin[0] + (map.cols - 0.5) * dx;
-  if (dy === null) return [x0, x1, -Infinity, Infinity];
-  return [x0, x1, map.origin[1] - dy / 2, map.origin[1] + (map.rows - 0.5) * dy];
+  const dx = map.dx;
+  const dy = map.dy;
+  const x0 = map.x0 - dx / 2;
+  const x1 = map.x0 + (map.nx - 0.5) * dx;
+  if (isOneD(map)) return [x0, x1, -Infinity, Infinity];
+  return [x0, x1, map.y0 - dy / 2, map.y0 + (map.ny - 0.5) * dy];
 }
 
 /**
@@ -192,7 +193,7 @@ export function detectorAreaInWindow(map: IntensityMap, d: DetectorSpec, centre:
   const half = d.size / 2;
   const overlap = (a: number, b: number, lo: number, hi: number) => Math.max(0, Math.min(b, hi) - Math.max(a, lo)) / (b - a);
   const fx = overlap(centre[0] - half, centre[0] + half, x0, x1);
-  if (map.pitch[1] === null) return fx;
+  if (isOneD(map)) return fx;
   const fy = overlap(centre[1] - half, centre[1] + half, y0, y1);
   if (d.kind === 'square') return fx * fy;
   if (fx === 0 || fy === 0) return 0;

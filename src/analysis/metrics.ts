@@ -1,14 +1,10 @@
 // Numbers read off a computed intensity map: peak, on-axis value, centroid, widths, first minima,
 // power in the window. Positions are in metres in the observation plane, relative to the axis.
 
-export interface IntensityMap {
-  intensity: Float64Array;
-  rows: number;
-  cols: number;
-  pitch: [number, number | null];
-  /** Coordinates (m) of sample [0][0]. */
-  origin: [number, number];
-}
+import { cellMeasure, isOneD, xAt, yAt } from '../model/grid.js';
+import { profileCol, profileRow, type IntensityMap } from '../model/intensity-map.js';
+
+export { profileCol, profileRow, type IntensityMap } from '../model/intensity-map.js';
 
 export interface SpotMetrics {
   peakIntensity: number;
@@ -31,28 +27,11 @@ export interface SpotMetrics {
   powerInWindow: number;
 }
 
-function xAt(m: IntensityMap, col: number): number {
-  return m.origin[0] + col * m.pitch[0];
-}
-function yAt(m: IntensityMap, row: number): number {
-  return m.pitch[1] === null ? 0 : m.origin[1] + row * m.pitch[1];
-}
-
 /** Vertex offset of the parabola through three equally spaced samples, in samples (−0.5..0.5). */
 export function parabolicOffset(a: number, b: number, c: number): number {
   const den = a - 2 * b + c;
   if (den === 0) return 0;
   return Math.max(-0.5, Math.min(0.5, (0.5 * (a - c)) / den));
-}
-
-export function profileRow(m: IntensityMap, row: number): Float64Array {
-  return m.intensity.slice(row * m.cols, (row + 1) * m.cols);
-}
-
-export function profileCol(m: IntensityMap, col: number): Float64Array {
-  const out = new Float64Array(m.rows);
-  for (let r = 0; r < m.rows; r++) out[r] = m.intensity[r * m.cols + col]!;
-  return out;
 }
 
 /** Linear interpolation of a profile at a fractional index. */
@@ -134,9 +113,10 @@ export function firstMinimumSamples(p: Float64Array, i0: number): number | null 
 }
 
 export function spotMetrics(m: IntensityMap): SpotMetrics {
-  const { intensity: I, rows, cols } = m;
-  const dx = m.pitch[0];
-  const dy = m.pitch[1];
+  const { intensity: I, ny: rows, nx: cols } = m;
+  const dx = m.dx;
+  // null along y for a 1-D map: no profile, width or centroid there.
+  const dy = isOneD(m) ? null : m.dy;
   let peak = -Infinity;
   let pi = 0;
   let sum = 0;
@@ -163,8 +143,8 @@ export function spotMetrics(m: IntensityMap): SpotMetrics {
   const peakY = colP ? yAt(m, pr + refine(colP, pr)) : null;
 
   // On-axis: bilinear interpolation at x = y = 0.
-  const tc = -m.origin[0] / dx;
-  const tr = dy === null ? 0 : -m.origin[1] / dy;
+  const tc = -m.x0 / dx;
+  const tr = dy === null ? 0 : -m.y0 / dy;
   let onAxis: number | null = null;
   if (tc >= 0 && tc <= cols - 1 && tr >= 0 && tr <= rows - 1) {
     const r0 = Math.min(Math.floor(tr), Math.max(0, rows - 2));
@@ -173,7 +153,7 @@ export function spotMetrics(m: IntensityMap): SpotMetrics {
     const b = rows > 1 ? sampleAt(profileRow(m, r0 + 1), tc) : a;
     onAxis = a + fr * (b - a);
   }
-  const cell = dy === null ? dx : dx * dy;
+  const cell = cellMeasure(m);
   const fw = (p: Float64Array | null, i: number, d: number | null) => {
     if (!p || d === null) return null;
     const s = fwhmSamples(p, i);

@@ -8,7 +8,8 @@ import { formatLength } from '../job/units.js';
 import { gratingOf } from '../elements/registry.js';
 import { METHODS } from '../job/schema.js';
 import type { Plan, Warning } from '../plan/types.js';
-import type { IntensityMap } from './metrics.js';
+import { xAt } from '../model/grid.js';
+import type { IntensityMap } from '../model/intensity-map.js';
 import { warning } from '../warnings/catalogue.js';
 import { erfc } from '../optics/special.js';
 import { columnPower, integrateColumns, landingOrders, type GratingInput, type GratingOrder, type OrderTable } from './orders.js';
@@ -131,7 +132,7 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
   const z = g.distance;
   const W = inp.illuminatedWidth;
   const beta = g.sinIncidenceY ?? 0;
-  const dx = map.pitch[0];
+  const dx = map.dx;
   const colPower = columnPower(map);
   const P = g.powerTransmitted;
   const model = gratingFarFieldModel(g, inp.waist);
@@ -284,11 +285,10 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
     return 2 * Math.max(env, sum);
   };
   const strayPeaks: { i: number; x: number }[] = [];
-  const xAt = (i: number) => map.origin[0] + i * dx;
-  for (let i = 1; i < map.cols - 1; i++) {
+  for (let i = 1; i < map.nx - 1; i++) {
     const v = colPower[i]!;
     if (!(v > colPower[i - 1]! && v >= colPower[i + 1]!)) continue;
-    const x = xAt(i);
+    const x = xAt(map, i);
     // Peak density (per metre) of an order carrying `level` of the power: level/(spot width), the
     // spot being the far-field lobe or, nearer the grating, its own illuminated width.
     const threshold = level / Math.max(lobeAt(x), W);

@@ -11,7 +11,8 @@
 //   flux through the slits is fractionOfTransmitted · γ_m/γ_i = · cos θ_m / cos θ_i (the obliquity
 //   of the scalar thin-element model). Σ_m of it is not exactly the transmitted flux: scalar theory
 //   does not conserve flux at wide angles, which is one reason it loses accuracy there.
-import type { IntensityMap } from './metrics.js';
+import { cellMeasure } from '../model/grid.js';
+import type { IntensityMap } from '../model/intensity-map.js';
 
 /**
  * propagating: lands on the screen inside the window; outside-window: lands, but part or all of
@@ -124,10 +125,9 @@ const KEPT_OUTSIDE = 50;
 
 /** Power per column (integrated over the column's width and over all rows). */
 export function columnPower(map: IntensityMap): Float64Array {
-  const dx = map.pitch[0];
-  const colPower = new Float64Array(map.cols);
-  const cell = map.pitch[1] === null ? dx : dx * map.pitch[1];
-  for (let r = 0; r < map.rows; r++) for (let c = 0; c < map.cols; c++) colPower[c] += map.intensity[r * map.cols + c]! * cell;
+  const colPower = new Float64Array(map.nx);
+  const cell = cellMeasure(map);
+  for (let r = 0; r < map.ny; r++) for (let c = 0; c < map.nx; c++) colPower[c] += map.intensity[r * map.nx + c]! * cell;
   return colPower;
 }
 
@@ -136,13 +136,13 @@ export function columnPower(map: IntensityMap): Float64Array {
  * width dx centred on its sample, counted by the part of it inside [a, b].
  */
 export function integrateColumns(colPower: Float64Array, map: IntensityMap, a: number, b: number): { power: number; moment: number } {
-  const dx = map.pitch[0];
-  const x0 = map.origin[0];
+  const dx = map.dx;
+  const x0 = map.x0;
   const ca = (a - x0) / dx;
   const cb = (b - x0) / dx;
   let power = 0;
   let moment = 0;
-  for (let c = Math.max(0, Math.floor(ca)); c <= Math.min(map.cols - 1, Math.ceil(cb)); c++) {
+  for (let c = Math.max(0, Math.floor(ca)); c <= Math.min(map.nx - 1, Math.ceil(cb)); c++) {
     const lo = Math.max(ca, c - 0.5);
     const hi = Math.min(cb, c + 0.5);
     if (hi > lo) {
@@ -157,8 +157,8 @@ export function integrateColumns(colPower: Float64Array, map: IntensityMap, a: n
 
 /** The window's extent along x: the cells of the outer samples included. */
 export function windowExtent(map: IntensityMap): [number, number] {
-  const dx = map.pitch[0];
-  return [map.origin[0] - dx / 2, map.origin[0] + (map.cols - 0.5) * dx];
+  const dx = map.dx;
+  return [map.x0 - dx / 2, map.x0 + (map.nx - 0.5) * dx];
 }
 
 /** The order table with its evanescent total; see OrderTable. */

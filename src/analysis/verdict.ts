@@ -3,7 +3,8 @@
 import { formatLength, trimNumber } from '../job/units.js';
 import { elementOf, type Aperture } from '../elements/registry.js';
 import { energyCurve, radiusHolding } from './encircled.js';
-import type { IntensityMap } from './metrics.js';
+import { isOneD } from '../model/grid.js';
+import type { IntensityMap } from '../model/intensity-map.js';
 
 /** Si(x) = ∫₀ˣ sin t / t dt by its power series (Abramowitz & Stegun 5.2.14), fine for |x| < 10. */
 export function sineIntegral(x: number): number {
@@ -87,16 +88,16 @@ export function verdictWidth(a: Aperture, axis: 'radial' | 'x' | 'y'): number | 
 
 /** Marginal 1-D distribution along x or y (sum over the other axis), as a 1-D map. */
 export function marginal(map: IntensityMap, axis: 'x' | 'y'): IntensityMap {
-  if (map.pitch[1] === null) return map;
-  const dy = map.pitch[1];
+  if (isOneD(map)) return map;
+  const dy = map.dy;
   if (axis === 'x') {
-    const out = new Float64Array(map.cols);
-    for (let r = 0; r < map.rows; r++) for (let c = 0; c < map.cols; c++) out[c] += map.intensity[r * map.cols + c]! * dy;
-    return { intensity: out, rows: 1, cols: map.cols, pitch: [map.pitch[0], null], origin: [map.origin[0], 0] };
+    const out = new Float64Array(map.nx);
+    for (let r = 0; r < map.ny; r++) for (let c = 0; c < map.nx; c++) out[c] += map.intensity[r * map.nx + c]! * dy;
+    return { intensity: out, nx: map.nx, ny: 1, dx: map.dx, dy: 0, x0: map.x0, y0: 0 };
   }
-  const out = new Float64Array(map.rows);
-  for (let r = 0; r < map.rows; r++) for (let c = 0; c < map.cols; c++) out[r] += map.intensity[r * map.cols + c]! * map.pitch[0];
-  return { intensity: out, rows: 1, cols: map.rows, pitch: [dy, null], origin: [map.origin[1], 0] };
+  const out = new Float64Array(map.ny);
+  for (let r = 0; r < map.ny; r++) for (let c = 0; c < map.nx; c++) out[r] += map.intensity[r * map.nx + c]! * map.dx;
+  return { intensity: out, nx: map.ny, ny: 1, dx: dy, dy: 0, x0: map.y0, y0: 0 };
 }
 
 /**

@@ -2,9 +2,10 @@
 // the power through the aperture or, behind an opaque obstacle, of what it would receive with
 // nothing in the way.
 import { detectorAreaInWindow, detectorPower, type DetectorSpec } from '../analysis/encircled.js';
-import type { IntensityMap } from '../analysis/metrics.js';
+import { isOneD } from '../model/grid.js';
+import type { IntensityMap } from '../model/intensity-map.js';
 import type { Axis } from '../optics/field.js';
-import { intensityOf } from '../optics/field.js';
+import { intensityMapOf } from '../optics/field.js';
 import { freeField } from '../optics/free.js';
 import type { DetectorResult } from '../output/case-output.js';
 import type { Plan, Warning } from '../plan/types.js';
@@ -67,17 +68,11 @@ export function unobstructedDetectorPower(plan: Plan, map: IntensityMap, d: Dete
     const last = Math.ceil((centre + half - origin) / step) + 1;
     return { n: last - first + 1, start: origin + first * step, step };
   };
-  const xs = lattice(map.origin[0], map.pitch[0], at[0]);
-  const ys = map.pitch[1] === null ? null : lattice(map.origin[1], map.pitch[1], at[1]);
+  const xs = lattice(map.x0, map.dx, at[0]);
+  const ys = isOneD(map) ? null : lattice(map.y0, map.dy, at[1]);
   const free = freeField(c.illumination, c.distance, xs, ys, c.wavelength);
-  const local: IntensityMap = {
-    intensity: intensityOf(free),
-    rows: ys ? ys.n : 1,
-    cols: xs.n,
-    pitch: [xs.step, ys ? ys.step : null],
-    origin: [xs.start, ys ? ys.start : 0],
-  };
-  return detectorPower(local, d, at);
+  // freeField's grid is the lattice's (1-D: ny = 1, dy = 0, y0 = 0, the map's convention too).
+  return detectorPower(intensityMapOf(free), d, at);
 }
 
 export const detectorMetrics: MetricFamily = {

@@ -1,15 +1,13 @@
-// The one complex-field type of the program. Samples are interleaved (re, im) in row-major order,
-// index [row][col] = [y][x]; sample (row, col) sits at (x0 + col·dx, y0 + row·dy). A field with
-// ny = 1 is 1-D: invariant along y (a slit or a grating of infinitely long lines), and dy is 0.
+// The one complex-field type of the program: a grid (model/grid.ts: row-major [y][x], sample
+// (row, col) at (x0 + col·dx, y0 + row·dy); 1-D, invariant along y, is ny = 1, dy = 0) with its
+// samples interleaved (re, im).
+import { cellMeasure, isOneD, type Grid } from '../model/grid.js';
+import type { IntensityMap } from '../model/intensity-map.js';
 
-export interface Field {
+export { cellMeasure, isOneD } from '../model/grid.js';
+
+export interface Field extends Grid {
   data: Float64Array;
-  nx: number;
-  ny: number;
-  dx: number;
-  dy: number;
-  x0: number;
-  y0: number;
   wavelength: number;
 }
 
@@ -32,10 +30,6 @@ export function centredAxis(n: number, step: number, centre = 0): Axis {
 /** The sample layout of FFT grids: x = 0 falls on index n/2. */
 export function fftAxis(n: number, step: number): Axis {
   return { n, start: -Math.floor(n / 2) * step, step };
-}
-
-export function isOneD(f: Field): boolean {
-  return f.ny === 1 && f.dy === 0;
 }
 
 /**
@@ -103,11 +97,6 @@ export function yAxisOf(f: Field): Axis | null {
   return isOneD(f) ? null : { n: f.ny, start: f.y0, step: f.dy };
 }
 
-/** Area (2-D) or length (1-D) of one sample cell. */
-export function cellMeasure(f: Field): number {
-  return isOneD(f) ? f.dx : f.dx * f.dy;
-}
-
 /** |U|² per sample: intensity relative to the incident irradiance when the input was scaled so. */
 export function intensityOf(f: Field): Float64Array {
   const n = f.nx * f.ny;
@@ -119,6 +108,11 @@ export function intensityOf(f: Field): Float64Array {
     out[i] = re * re + im * im;
   }
   return out;
+}
+
+/** The field's intensity map: its grid and |U|² (intensityOf). */
+export function intensityMapOf(f: Field): IntensityMap {
+  return { nx: f.nx, ny: f.ny, dx: f.dx, dy: f.dy, x0: f.x0, y0: f.y0, intensity: intensityOf(f) };
 }
 
 /** ∫|U|² over the sampled region (power per unit length for 1-D fields). */

@@ -5,7 +5,9 @@ import { join } from 'node:path';
 import { createHash, randomBytes } from 'node:crypto';
 import { describe } from '../optics/aperture.js';
 import { formatLength } from '../job/units.js';
-import { profileCol, profileRow, type IntensityMap, type SpotMetrics } from '../analysis/metrics.js';
+import type { SpotMetrics } from '../analysis/metrics.js';
+import { isOneD, pitchPair, xAt, yAt } from '../model/grid.js';
+import { profileCol, profileRow, type IntensityMap } from '../model/intensity-map.js';
 import type { GratingOrder, OmittedOrders } from '../analysis/orders.js';
 import type { OrderCheck, StrayLight } from '../analysis/order-checks.js';
 import type { Verdict } from '../analysis/verdict.js';
@@ -166,10 +168,10 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
     index: c.index,
     wavelength: c.wavelength,
     distance: c.distance,
-    pixelPitch: computed.pitch,
+    pixelPitch: pitchPair(computed),
     center: computed.center,
-    shape: [computed.rows, computed.cols],
-    origin: computed.origin,
+    shape: [computed.ny, computed.nx],
+    origin: [computed.x0, computed.y0],
     units: 'SI: lengths in metres, angles in radians, intensity relative to the incident irradiance (1)',
     definitions: METRIC_DEFINITIONS,
     fresnelNumber: Math.max(plan.checks.fresnelNumbers[0], plan.checks.fresnelNumbers[1] ?? 0),
@@ -198,7 +200,7 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
     },
     files: Object.fromEntries(
       Object.entries(CASE_FILES).filter(([k]) =>
-        k === 'profileY' ? computed.pitch[1] !== null : k === 'orders' ? !!metrics.orders : k === 'energy' ? !!rec.energy : k !== 'record',
+        k === 'profileY' ? !isOneD(computed) : k === 'orders' ? !!metrics.orders : k === 'energy' ? !!rec.energy : k !== 'record',
       ),
     ),
     ...(rec.search ? { search: rec.search } : {}),
@@ -229,10 +231,10 @@ function axisJson(a: Plan['x']) {
 function profileCsv(map: IntensityMap, axis: 'x' | 'y', row: number, col: number): string {
   if (axis === 'x') {
     const p = profileRow(map, row);
-    return toCsv(['x_m', 'intensity'], Array.from(p, (v, i) => [map.origin[0] + i * map.pitch[0], v]));
+    return toCsv(['x_m', 'intensity'], Array.from(p, (v, i) => [xAt(map, i), v]));
   }
   const p = profileCol(map, col);
-  return toCsv(['y_m', 'intensity'], Array.from(p, (v, i) => [map.origin[1] + i * map.pitch[1]!, v]));
+  return toCsv(['y_m', 'intensity'], Array.from(p, (v, i) => [yAt(map, i), v]));
 }
 
 /** The summary part of a record: everything but the field. */
@@ -284,29 +286,25 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
   };
   try {
     const map: IntensityMap = computed;
-    const shape = [computed.rows, computed.cols];
+    const shape = [computed.ny, computed.nx];
     await put(CASE_FILES.intensity, encodeNpy(computed.intensity, shape, plan.case.output.npy));
     // Profiles through the optical axis when it is in the window, else through the window centre.
-    const row = clampIndex(Math.round(computed.center[1]), computed.rows);
-    const col = clampIndex(Math.round(computed.center[0]), computed.cols);
+    const row = clampIndex(Math.round(computed.center[1]), computed.ny);
+    const col = clampIndex(Math.round(computed.center[0]), computed.nx);
     await put(CASE_FILES.profileX, profileCsv(map, 'x', row, col));
-    if (computed.pitch[1] !== null) await put(CASE_FILES.profileY, profileCsv(map, 'y', row, col));
+    if (!isOneD(computed)) await put(CASE_FILES.profileY, profileCsv(map, 'y', row, col));
     if (rec.metrics.orders) {
       await put(CASE_FILES.orders, ordersCsv(rec.metrics.orders, rec.metrics.evanescentFraction, rec.metrics.ordersOmitted));
     }
     if (rec.energy) {
-      const head = computed.pitch[1] === null ? 'half_width_m' : 'radius_m';
+      const head = isOneD(computed) ? 'half_width_m' : 'radius_m';
       await put(
         CASE_FILES.energy,
         toCsv([head, 'fraction_of_power_through_aperture'], Array.from(rec.energy.radius, (r, i) => [r, rec.energy!.fraction[i]!])),
       );
     }
     const picture = {
-      intensity: computed.intensity,
-      rows: computed.rows,
-      cols: computed.cols,
-      pitchX: computed.pitch[0],
-      pitchY: computed.pitch[1],
+      map,
       logDecades: plan.case.output.logDecades,
       title: caseTitle(plan),
     };

@@ -5,15 +5,14 @@
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from './font.js';
 import { gray, shoal, type ColourScale } from './colour-scales.js';
 import { buildLut, encodePng, fillRect, frame, putLut, type Rect } from './raster.js';
+import { isOneD } from '../model/grid.js';
+import { mapProblem, type IntensityMap } from '../model/intensity-map.js';
 
 export type ScaleName = 'gray' | 'shoal';
 
 export interface PictureInput {
-  intensity: Float64Array; // row-major, index [row * cols + col]; row = y, col = x; values >= 0
-  rows: number;
-  cols: number;
-  pitchX: number; // metres per column
-  pitchY: number | null; // metres per row; null: a 1-D result invariant along y, drawn as stripes
+  /** What is drawn: values >= 0; a 1-D map (the grid's 1-D form, ny = 1, dy = 0) is drawn as stripes. */
+  map: IntensityMap;
   scale: ScaleName;
   logDecades?: number; // default 5: the log view spans peak·10^-decades .. peak
   title?: string; // one short line drawn at the top
@@ -61,15 +60,16 @@ interface Plan {
 }
 
 function displaySize(p: PictureInput): { w: number; h: number } {
-  if (p.pitchY === null) return { w: fitLength(p.cols), h: STRIPE_HEIGHT };
-  const squarePixels = Math.abs(p.pitchX - p.pitchY) <= 1e-9 * Math.max(p.pitchX, p.pitchY);
-  const n = Math.max(p.rows, p.cols);
+  const m = p.map;
+  if (isOneD(m)) return { w: fitLength(m.nx), h: STRIPE_HEIGHT };
+  const squarePixels = Math.abs(m.dx - m.dy) <= 1e-9 * Math.max(m.dx, m.dy);
+  const n = Math.max(m.ny, m.nx);
   if (squarePixels && n <= LONG_SIDE / 2) {
     // Whole display pixels per data pixel, so enlarged blocks all have one size.
     const cell = Math.floor(LONG_SIDE / n);
-    return { w: p.cols * cell, h: p.rows * cell };
+    return { w: m.nx * cell, h: m.ny * cell };
   }
-  const W = p.cols * p.pitchX, H = p.rows * p.pitchY;
+  const W = m.nx * m.dx, H = m.ny * m.dy;
   const k = LONG_SIDE / Math.max(W, H);
   return { w: Math.max(1, Math.round(W * k)), h: Math.max(1, Math.round(H * k)) };
 }
@@ -115,16 +115,11 @@ function plan(p: PictureInput, disp: { w: number; h: number }): Plan {
 }
 
 function validate(p: PictureInput): void {
-  const posInt = (v: number): boolean => Number.isInteger(v) && v > 0;
-  if (!posInt(p.rows) || !posInt(p.cols)) throw new RangeError(`picture: rows and cols must be positive integers, got ${p.rows}×${p.cols}`);
-  if (p.intensity.length !== p.rows * p.cols) {
-    throw new RangeError(`picture: intensity has ${p.intensity.length} values, expected rows·cols = ${p.rows * p.cols}`);
-  }
-  const okPitch = (v: number): boolean => Number.isFinite(v) && v > 0;
-  if (!okPitch(p.pitchX) || (p.pitchY !== null && !okPitch(p.pitchY))) throw new RangeError('picture: pitches must be finite and > 0');
+  const problem = mapProblem(p.map);
+  if (problem) throw new RangeError(`picture: ${problem}`);
   const d = p.logDecades ?? 5;
   if (!Number.isFinite(d) || d <= 0) throw new RangeError(`picture: logDecades must be > 0, got ${d}`);
-  for (const v of p.intensity) {
+  for (const v of p.map.intensity) {
     if (!Number.isFinite(v) || v < 0) throw new RangeError(`picture: intensity values must be finite and >= 0, found ${v}`);
   }
 }
@@ -144,7 +139,7 @@ export function renderIntensityPng(p: PictureInput): Buffer {
 
   const shown = resampleForDisplay(p, disp.w, disp.h);
   let peak = 0;
-  for (const v of p.intensity) if (v > peak) peak = v;
+  for (const v of p.map.intensity) if (v > peak) peak = v;
   const decades = p.logDecades ?? 5;
   const lut = buildLut(SCALES[p.scale]);
 
@@ -174,7 +169,7 @@ export function renderIntensityPng(p: PictureInput): Buffer {
         putLut(img, panel.x + x, panel.y + y, lut, view.map(shown[y * panel.w + x]!));
       }
     }
-    drawScaleBar(img, panel, p.cols * p.pitchX);
+    drawScaleBar(img, panel, p.map.nx * p.map.dx);
 
     frame(img, cbar, FRAME);
     for (let x = 0; x < cbar.w; x++) {
@@ -221,21 +216,14 @@ function logTicks(decades: number, barW: number): { t: number; text: string }[] 
  * one sample would alias fringes finer than a display pixel into moiré.
  */
 function resampleForDisplay(p: PictureInput, w: number, h: number): Float64Array {
-  let src = p.intensity;
-  let rows = p.rows;
-  if (p.pitchY === null && rows > 1) {
-    // Invariant along y by contract; averaging rows is the honest collapse if it is not quite.
-    const prof = new Float64Array(p.cols);
-    for (let r = 0; r < rows; r++) for (let c = 0; c < p.cols; c++) prof[c]! += src[r * p.cols + c]! / rows;
-    src = prof;
-    rows = 1;
-  }
-  const wx = axisWeights(p.cols, w);
+  // A 1-D map has one row (the grid's 1-D form), stretched to the stripe height below.
+  const { intensity: src, ny: rows, nx: cols } = p.map;
+  const wx = axisWeights(cols, w);
   const tmp = new Float64Array(rows * w);
   for (let r = 0; r < rows; r++) {
     for (let o = 0; o < w; o++) {
       let s = 0;
-      for (const [i, wt] of wx[o]!) s += wt * src[r * p.cols + i]!;
+      for (const [i, wt] of wx[o]!) s += wt * src[r * cols + i]!;
       tmp[r * w + o] = s;
     }
   }

@@ -14,7 +14,8 @@ import type { Plan } from '../plan/types.js';
 import { toCsv } from '../output/csv.js';
 import { metricScope, type SummaryRow } from '../output/summary.js';
 import { reportedMetrics } from '../metrics/registry.js';
-import type { ComputedCase } from '../run/compute.js';
+import { isOneD } from '../model/grid.js';
+import type { IntensityMap } from '../model/intensity-map.js';
 import { TOOL_VERSION } from '../version.js';
 import { renderContactSheet, type SheetTile } from './contact-sheet.js';
 import { renderReportHtml } from './html.js';
@@ -39,32 +40,32 @@ export function sheetIndices(count: number): Set<number> {
 }
 
 /** A case's map reduced (box average) to at most `limit` samples per axis, for the contact sheet. */
-export function sheetTile(label: string, c: ComputedCase, limit = 400): SheetTile {
-  const fx = Math.max(1, Math.ceil(c.cols / limit));
-  const fy = c.pitch[1] === null ? 1 : Math.max(1, Math.ceil(c.rows / limit));
-  const cols = Math.floor(c.cols / fx);
-  const rows = Math.floor(c.rows / fy);
+export function sheetTile(label: string, c: IntensityMap, limit = 400): SheetTile {
+  const oneD = isOneD(c);
+  const fx = Math.max(1, Math.ceil(c.nx / limit));
+  const fy = oneD ? 1 : Math.max(1, Math.ceil(c.ny / limit));
+  const cols = Math.floor(c.nx / fx);
+  const rows = Math.floor(c.ny / fy);
   const out = new Float64Array(rows * cols);
   for (let r = 0; r < rows; r++) {
     for (let q = 0; q < cols; q++) {
       let s = 0;
-      for (let i = 0; i < fy; i++) for (let j = 0; j < fx; j++) s += c.intensity[(r * fy + i) * c.cols + q * fx + j]!;
+      for (let i = 0; i < fy; i++) for (let j = 0; j < fx; j++) s += c.intensity[(r * fy + i) * c.nx + q * fx + j]!;
       out[r * cols + q] = s / (fx * fy);
     }
   }
-  const dx = c.pitch[0] * fx;
-  const dy = c.pitch[1] === null ? null : c.pitch[1] * fy;
-  // The reduced sample (r, q) is centred on the mean position of the samples it averages.
-  return {
-    label,
+  // The reduced sample (r, q) is centred on the mean position of the samples it averages; a 1-D
+  // map stays in the grid's 1-D form.
+  const map: IntensityMap = {
+    nx: cols,
+    ny: rows,
+    dx: c.dx * fx,
+    dy: oneD ? 0 : c.dy * fy,
+    x0: c.x0 + ((fx - 1) / 2) * c.dx,
+    y0: oneD ? 0 : c.y0 + ((fy - 1) / 2) * c.dy,
     intensity: out,
-    rows,
-    cols,
-    pitchX: dx,
-    pitchY: dy,
-    originX: c.origin[0] + ((fx - 1) / 2) * c.pitch[0],
-    originY: c.pitch[1] === null ? 0 : c.origin[1] + ((fy - 1) / 2) * c.pitch[1],
   };
+  return { label, map };
 }
 
 const LABELS: Record<string, string> = {

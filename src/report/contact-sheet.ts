@@ -8,16 +8,13 @@ import { escapeControl, safeEcho } from '../safe-text.js';
 import { shoal } from '../output/colour-scales.js';
 import { buildLut, encodePng, fillRect, frame, putLut, type Rect } from '../output/raster.js';
 import { formatLength } from '../job/units.js';
+import { isOneD } from '../model/grid.js';
+import { mapProblem, type IntensityMap } from '../model/intensity-map.js';
 
+/** One case on the sheet: its map (positions matter: each tile is centred on the optical axis) and its label. */
 export interface SheetTile {
   label: string;
-  intensity: Float64Array;
-  rows: number;
-  cols: number;
-  pitchX: number;
-  pitchY: number | null;
-  originX: number;
-  originY: number;
+  map: IntensityMap;
 }
 
 export interface SheetOptions {
@@ -75,12 +72,9 @@ function validate(tiles: SheetTile[], opts: SheetOptions): void {
   }
   for (const t of tiles) {
     const what = `contact sheet: tile "${safeEcho(t.label)}"`;
-    if (!posInt(t.rows) || !posInt(t.cols)) throw new RangeError(`${what}: rows and cols must be positive integers`);
-    if (t.intensity.length !== t.rows * t.cols) throw new RangeError(`${what}: ${t.intensity.length} values for ${t.rows}×${t.cols}`);
-    const ok = (v: number): boolean => Number.isFinite(v) && v > 0;
-    if (!ok(t.pitchX) || (t.pitchY !== null && !ok(t.pitchY))) throw new RangeError(`${what}: pitches must be finite and > 0`);
-    if (!Number.isFinite(t.originX) || !Number.isFinite(t.originY)) throw new RangeError(`${what}: origin must be finite`);
-    for (const v of t.intensity) if (!Number.isFinite(v) || v < 0) throw new RangeError(`${what}: intensity must be finite and >= 0, found ${v}`);
+    const problem = mapProblem(t.map);
+    if (problem) throw new RangeError(`${what}: ${problem}`);
+    for (const v of t.map.intensity) if (!Number.isFinite(v) || v < 0) throw new RangeError(`${what}: intensity must be finite and >= 0, found ${v}`);
   }
 }
 
@@ -90,8 +84,9 @@ function halfField(tiles: SheetTile[]): number {
   const reach = (origin: number, pitch: number, n: number): number =>
     Math.max(Math.abs(origin - pitch / 2), Math.abs(origin + (n - 0.5) * pitch));
   for (const t of tiles) {
-    h = Math.max(h, reach(t.originX, t.pitchX, t.cols));
-    if (t.pitchY !== null) h = Math.max(h, reach(t.originY, t.pitchY, t.rows));
+    const m = t.map;
+    h = Math.max(h, reach(m.x0, m.dx, m.nx));
+    if (!isOneD(m)) h = Math.max(h, reach(m.y0, m.dy, m.ny));
   }
   return h;
 }
@@ -185,7 +180,7 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
     pl.labelLines[i]!.forEach((line, k) => drawText(img, slotX, r.y - 1 - pl.labelLines[i]!.length * LINE + k * LINE, line, TEXT));
     frame(img, r, FRAME);
     let peak = 0;
-    for (const v of t.intensity) if (v > peak) peak = v;
+    for (const v of t.map.intensity) if (v > peak) peak = v;
     const view = resample(t, H, r.w);
     for (let y = 0; y < r.h; y++) {
       for (let x = 0; x < r.w; x++) {
@@ -247,11 +242,11 @@ function axisWeights(n: number, origin: number, pitch: number, H: number, m: num
 /** The tile on the common m×m display grid; NaN where the tile has no data. */
 function resample(t: SheetTile, H: number, m: number): Float64Array {
   const out = new Float64Array(m * m).fill(NaN);
-  const wx = axisWeights(t.cols, t.originX, t.pitchX, H, m);
-  if (t.pitchY === null) {
-    // Invariant along y by contract: collapse rows by averaging and draw the profile as stripes.
-    const prof = new Float64Array(t.cols);
-    for (let r = 0; r < t.rows; r++) for (let c = 0; c < t.cols; c++) prof[c]! += t.intensity[r * t.cols + c]! / t.rows;
+  const g = t.map;
+  const wx = axisWeights(g.nx, g.x0, g.dx, H, m);
+  if (isOneD(g)) {
+    // Invariant along y: the one row (the grid's 1-D form) drawn as stripes.
+    const prof = g.intensity;
     for (let x = 0; x < m; x++) {
       const { list, cover } = wx[x]!;
       if (cover < MIN_COVER) continue;
@@ -261,12 +256,12 @@ function resample(t: SheetTile, H: number, m: number): Float64Array {
     }
     return out;
   }
-  const wy = axisWeights(t.rows, t.originY, t.pitchY, H, m);
-  const tmp = new Float64Array(t.rows * m);
-  for (let r = 0; r < t.rows; r++) {
+  const wy = axisWeights(g.ny, g.y0, g.dy, H, m);
+  const tmp = new Float64Array(g.ny * m);
+  for (let r = 0; r < g.ny; r++) {
     for (let x = 0; x < m; x++) {
       let s = 0;
-      for (const [i, w] of wx[x]!.list) s += w * t.intensity[r * t.cols + i]!;
+      for (const [i, w] of wx[x]!.list) s += w * g.intensity[r * g.nx + i]!;
       tmp[r * m + x] = s;
     }
   }

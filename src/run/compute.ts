@@ -1,6 +1,7 @@
 // Carries out a plan: the chosen method's descriptor (src/methods/) builds the source and
 // propagates it; here the window's power is measured, an obstacle in a plane wave is taken off the
 // free wave (Babinet), and the numerical diagnostics the validity checks need are gathered.
+import type { IntensityMap } from '../model/intensity-map.js';
 import { intensityOf, powerOf } from '../optics/field.js';
 import { complementInPlace, freeField } from '../optics/free.js';
 import { carrierFrequencies } from '../optics/source.js';
@@ -23,15 +24,8 @@ export interface Diagnostics {
   sourceSpectrum?: 'computed' | 'reused';
 }
 
-export interface ComputedCase {
-  /** |U|² relative to the incident irradiance, row-major [rows][cols]. */
-  intensity: Float64Array;
-  rows: number;
-  cols: number;
-  /** [dx, dy]; dy is null for 1-D results (invariant along y). */
-  pitch: [number, number | null];
-  /** Coordinates of sample [0][0]. */
-  origin: [number, number];
+/** The window's intensity map (the field's grid and |U|²) and what the case adds to it. */
+export interface ComputedCase extends IntensityMap {
   /** [col, row] of the optical axis (x = y = 0), fractional in general. */
   center: [number, number];
   diagnostics: Diagnostics;
@@ -61,12 +55,16 @@ export function computeCase(plan: Plan): ComputedCase {
   }
   if (result.edge !== undefined) diagnostics.edgeEnergy = result.edge;
   if (result.sourceSpectrum) diagnostics.sourceSpectrum = result.sourceSpectrum;
+  // A 1-D window (no y axis) is the grid's 1-D form, ny = 1 and dy = 0, whatever a propagator left in dy.
+  if (!outY && field.ny !== 1) throw new Error(`a 1-D case came back with a field of ${field.ny} rows`);
   return {
+    nx: field.nx,
+    ny: field.ny,
+    dx: field.dx,
+    dy: outY ? field.dy : 0,
+    x0: field.x0,
+    y0: field.y0,
     intensity,
-    rows: field.ny,
-    cols: field.nx,
-    pitch: [field.dx, outY ? field.dy : null],
-    origin: [field.x0, field.y0],
     center: [-field.x0 / field.dx, outY ? -field.y0 / field.dy : 0],
     diagnostics,
   };

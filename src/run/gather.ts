@@ -136,14 +136,15 @@ export async function gatherJob(
         const p = rec.plan;
         const label = axes.map((a) => sweptLabel(a, c.swept[a.key]!)).join(', ') || c.id;
         tiles.push(
+          // The plan's output axes are the map's grid (no y axis: the 1-D form, ny = 1, dy = 0).
           sheetTile(label, {
+            nx: colsN,
+            ny: rowsN,
+            dx: p.x.output.step,
+            dy: p.y ? p.y.output.step : 0,
+            x0: p.x.output.start,
+            y0: p.y ? p.y.output.start : 0,
             intensity: npy.data,
-            rows: rowsN,
-            cols: colsN,
-            pitch: [p.x.output.step, p.y ? p.y.output.step : null],
-            origin: [p.x.output.start, p.y ? p.y.output.start : 0],
-            center: [0, 0],
-            diagnostics: { powerIn: 0, powerInWindow: 0 },
           }),
         );
       }

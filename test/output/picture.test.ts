@@ -18,6 +18,12 @@ import { layoutPicture, renderIntensityPng, type PictureInput, type Rect } from 
 import { gray, shoal, SHOAL_ANCHORS, type ColourScale } from '../../src/output/colour-scales.js';
 import { CELL_H, drawText, hasGlyph, textWidth, type RgbImage } from '../../src/output/font.js';
 import { decode, type Px } from '../png.js';
+import type { IntensityMap } from '../../src/model/intensity-map.js';
+
+/** A map with its sample [0][0] at the origin (the picture does not read positions); dy null: 1-D. */
+function mapOf(intensity: Float64Array, rows: number, cols: number, dx: number, dy: number | null): IntensityMap {
+  return { nx: cols, ny: rows, dx, dy: dy ?? 0, x0: 0, y0: 0, intensity };
+}
 
 
 function render(p: PictureInput) {
@@ -123,11 +129,7 @@ describe('colour scales', () => {
 
 describe('renderIntensityPng', () => {
   const spot: PictureInput = {
-    intensity: gaussian(64, 64, 32, 32, 6),
-    rows: 64,
-    cols: 64,
-    pitchX: 1e-6,
-    pitchY: 1e-6,
+    map: mapOf(gaussian(64, 64, 32, 32, 6), 64, 64, 1e-6, 1e-6),
     scale: 'shoal',
     title: 'circle 50 µm · 633 nm · z = 1 m',
   };
@@ -153,7 +155,7 @@ describe('renderIntensityPng', () => {
 
   it('keeps the physical aspect ratio when the pitches differ', () => {
     // 100 x 100 samples at 1 µm across, 2 µm down: 100 µm wide, 200 µm tall.
-    const p: PictureInput = { ...spot, intensity: gaussian(100, 100, 50, 50, 10), rows: 100, cols: 100, pitchY: 2e-6 };
+    const p: PictureInput = { ...spot, map: mapOf(gaussian(100, 100, 50, 50, 10), 100, 100, 1e-6, 2e-6) };
     const { img, layout } = render(p);
     expect([layout.panels[0].w, layout.panels[0].h]).toEqual([200, 400]);
     expect([img.width, img.height]).toEqual([layout.width, layout.height]);
@@ -175,7 +177,7 @@ describe('renderIntensityPng', () => {
 
   it('keeps the spot centre at full brightness when shrinking a large array', () => {
     // 801 x 801 with a broad spot: box averaging over ~2 x 2 pixels near the top loses < 1e-3.
-    const p: PictureInput = { intensity: gaussian(801, 801, 400, 400, 60), rows: 801, cols: 801, pitchX: 1e-7, pitchY: 1e-7, scale: 'gray' };
+    const p: PictureInput = { map: mapOf(gaussian(801, 801, 400, 400, 60), 801, 801, 1e-7, 1e-7), scale: 'gray' };
     const { img, layout } = render(p);
     const r = layout.panels[0];
     expect([r.w, r.h]).toEqual([400, 400]);
@@ -189,7 +191,7 @@ describe('renderIntensityPng', () => {
     const n = 800;
     const a = new Float64Array(n * n);
     for (let i = 0; i < a.length; i++) a[i] = (i % n) % 2 === 0 ? 1 : 0;
-    const { img, layout } = render({ intensity: a, rows: n, cols: n, pitchX: 1e-6, pitchY: 1e-6, scale: 'gray' });
+    const { img, layout } = render({ map: mapOf(a, n, n, 1e-6, 1e-6), scale: 'gray' });
     const half = gray(0.5);
     const off = panelPixels(img, layout.panels[0]).filter((px) => Math.abs(px[0] - half[0]) > 1.5);
     expect(off).toEqual([]);
@@ -197,13 +199,13 @@ describe('renderIntensityPng', () => {
     const m = 1000;
     const b = new Float64Array(m * 10);
     for (let i = 0; i < b.length; i++) b[i] = (i % m) % 2 === 0 ? 1 : 0;
-    const r2 = render({ intensity: b, rows: 10, cols: m, pitchX: 1e-6, pitchY: 1e-6, scale: 'gray' });
+    const r2 = render({ map: mapOf(b, 10, m, 1e-6, 1e-6), scale: 'gray' });
     const ls = panelPixels(r2.img, r2.layout.panels[0]).map(lightness);
     expect(ls.filter((l) => l <= 39.5 || l >= 60.5)).toEqual([]);
   });
 
   it('renders a constant image as the top of the scale in both panels', () => {
-    const p: PictureInput = { ...spot, intensity: new Float64Array(64 * 64).fill(3.7), title: undefined };
+    const p: PictureInput = { ...spot, map: { ...spot.map, intensity: new Float64Array(64 * 64).fill(3.7) }, title: undefined };
     const { img, layout, texts } = render(p);
     const top = round3(shoal(1));
     for (const r of layout.panels) expect(panelPixels(img, r).filter((px) => px.join() !== top.join())).toEqual([]);
@@ -211,7 +213,7 @@ describe('renderIntensityPng', () => {
   });
 
   it('renders an all-zero result without NaN and says "peak 0"', () => {
-    const p: PictureInput = { ...spot, intensity: new Float64Array(64 * 64) };
+    const p: PictureInput = { ...spot, map: { ...spot.map, intensity: new Float64Array(64 * 64) } };
     const { img, layout, texts } = render(p);
     const bottom = round3(shoal(0));
     for (const r of layout.panels) expect(panelPixels(img, r).filter((px) => px.join() !== bottom.join())).toEqual([]);
@@ -220,7 +222,7 @@ describe('renderIntensityPng', () => {
   });
 
   it('labels the linear colour bar 0 .. peak and the log bar in decades relative to peak', () => {
-    const p: PictureInput = { ...spot, intensity: spot.intensity.map((v) => v * 1234.5) };
+    const p: PictureInput = { ...spot, map: { ...spot.map, intensity: spot.map.intensity.map((v) => v * 1234.5) } };
     const { texts } = render(p);
     expect(texts).toContain('0');
     expect(texts).toContain('1.23e+3');
@@ -238,11 +240,11 @@ describe('renderIntensityPng', () => {
     // 64 × 1 µm = 64 µm; a fifth is 12.8 µm -> 10 µm; panel 384 px -> 10/64·384 = 60 px.
     ['µm, square pixels', spot, '10 µm', 60],
     // 250 × 4 nm = 1000 nm across, 50 × 8 nm = 400 nm down -> panel 400 × 160; a fifth is 200 nm -> 80 px.
-    ['nm, non-square pixels', { ...spot, intensity: new Float64Array(250 * 50).fill(1), rows: 50, cols: 250, pitchX: 4e-9, pitchY: 8e-9 }, '200 nm', 80],
+    ['nm, non-square pixels', { ...spot, map: mapOf(new Float64Array(250 * 50).fill(1), 50, 250, 4e-9, 8e-9) }, '200 nm', 80],
     // 1-D, 300 × 0.5 mm = 150 mm; a fifth is 30 mm -> 20 mm (ratio 1.5 beats 50 mm at 1.67); 20/150·400 = 53.3 px.
-    ['mm, 1-D', { ...spot, intensity: new Float64Array(300).fill(1), rows: 1, cols: 300, pitchX: 5e-4, pitchY: null }, '20 mm', 53.33],
+    ['mm, 1-D', { ...spot, map: mapOf(new Float64Array(300).fill(1), 1, 300, 5e-4, null) }, '20 mm', 53.33],
     // 100 × 0.1 m = 10 m; a fifth is 2 m; panel 400 px -> 80 px.
-    ['m', { ...spot, intensity: new Float64Array(100 * 100).fill(1), rows: 100, cols: 100, pitchX: 0.1, pitchY: 0.1 }, '2 m', 80],
+    ['m', { ...spot, map: mapOf(new Float64Array(100 * 100).fill(1), 100, 100, 0.1, 0.1) }, '2 m', 80],
   ];
   it.each(bars)('draws a scale bar whose length matches its label (%s)', (_n, p, label, px) => {
     const { img, layout, texts } = render(p);
@@ -265,7 +267,7 @@ describe('renderIntensityPng', () => {
     const prof = new Float64Array(n);
     for (let c = 0; c < n; c++) prof[c] = 0.2 + Math.cos((c - 200) * 0.07) ** 2 * Math.exp(-(((c - 200) / 90) ** 2));
     const peak = Math.max(...prof);
-    const { img, layout } = render({ intensity: prof, rows: 1, cols: n, pitchX: 1e-6, pitchY: null, scale: 'gray' });
+    const { img, layout } = render({ map: mapOf(prof, 1, n, 1e-6, null), scale: 'gray' });
     const r = layout.panels[0];
     expect(r.w).toBe(400);
     expect(r.h).toBeGreaterThanOrEqual(60); // stripes, not a one-pixel line
@@ -287,10 +289,12 @@ describe('renderIntensityPng', () => {
   });
 
   it('rejects inconsistent input instead of drawing garbage', () => {
-    expect(() => renderIntensityPng({ ...spot, rows: 63 })).toThrow(RangeError);
-    expect(() => renderIntensityPng({ ...spot, pitchX: 0 })).toThrow(RangeError);
-    expect(() => renderIntensityPng({ ...spot, intensity: new Float64Array(64 * 64).fill(Number.NaN) })).toThrow(RangeError);
+    expect(() => renderIntensityPng({ ...spot, map: { ...spot.map, ny: 63 } })).toThrow(RangeError);
+    expect(() => renderIntensityPng({ ...spot, map: { ...spot.map, dx: 0 } })).toThrow(RangeError);
+    expect(() => renderIntensityPng({ ...spot, map: { ...spot.map, intensity: new Float64Array(64 * 64).fill(Number.NaN) } })).toThrow(RangeError);
     expect(() => renderIntensityPng({ ...spot, logDecades: 0 })).toThrow(RangeError);
+    // The grid's one 1-D form is a single row with dy = 0 (src/model/grid.ts): dy = 0 on more rows is no grid.
+    expect(() => renderIntensityPng({ ...spot, map: { ...spot.map, dy: 0 } })).toThrow(/pitch/);
   });
 });
 
@@ -317,9 +321,9 @@ describe('font', () => {
 
   it('covers every character the picture writer prints', () => {
     const inputs: PictureInput[] = [
-      { intensity: gaussian(64, 64, 32, 32, 6).map((v) => v * 4.56e-7), rows: 64, cols: 64, pitchX: 3e-10, pitchY: 3e-10, scale: 'shoal', title: 'circle 50 µm · 633 nm · z = 1 m', logDecades: 12 },
-      { intensity: new Float64Array(64 * 64), rows: 64, cols: 64, pitchX: 1, pitchY: 1, scale: 'gray', logDecades: 1 },
-      { intensity: new Float64Array(300).fill(0.05), rows: 1, cols: 300, pitchX: 2e-6, pitchY: null, scale: 'gray', logDecades: 2.5, title: 'slit (λ = 0.5 µm), 2×' },
+      { map: mapOf(gaussian(64, 64, 32, 32, 6).map((v) => v * 4.56e-7), 64, 64, 3e-10, 3e-10), scale: 'shoal', title: 'circle 50 µm · 633 nm · z = 1 m', logDecades: 12 },
+      { map: mapOf(new Float64Array(64 * 64), 64, 64, 1, 1), scale: 'gray', logDecades: 1 },
+      { map: mapOf(new Float64Array(300).fill(0.05), 1, 300, 2e-6, null), scale: 'gray', logDecades: 2.5, title: 'slit (λ = 0.5 µm), 2×' },
     ];
     const all = new Set<string>();
     for (const p of inputs) for (const t of render(p).texts) for (const ch of t) all.add(ch);

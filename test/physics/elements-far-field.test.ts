@@ -32,18 +32,18 @@ function farFieldError(aperture: Aperture, z: number, F: (fx: number, fy: number
   const { c, x, y } = run;
   let worst = 0;
   let peak = 0;
-  const ref = new Float64Array(c.rows * c.cols);
-  for (let r = 0; r < c.rows; r++) {
-    for (let col = 0; col < c.cols; col++) {
+  const ref = new Float64Array(c.ny * c.nx);
+  for (let r = 0; r < c.ny; r++) {
+    for (let col = 0; col < c.nx; col++) {
       const rr = Math.hypot(x(col), y(r), z);
       const f = F(x(col) / (lam * rr), y(r) / (lam * rr));
       const v = ((f.re * f.re + f.im * f.im) * (z / rr) ** 2) / (lam * rr) ** 2;
-      ref[r * c.cols + col] = v;
+      ref[r * c.nx + col] = v;
       peak = Math.max(peak, v);
     }
   }
   for (let i = 0; i < ref.length; i++) worst = Math.max(worst, Math.abs(c.intensity[i]! - ref[i]!));
-  if (process.env.SPOTCAST_SHOW) console.log(`${aperture.shape} z=${z}: worst ${(worst / peak).toExponential(2)} of the peak, ${c.rows}×${c.cols}, ${run.plan.method}`);
+  if (process.env.SPOTCAST_SHOW) console.log(`${aperture.shape} z=${z}: worst ${(worst / peak).toExponential(2)} of the peak, ${c.ny}×${c.nx}, ${run.plan.method}`);
   return { ...run, error: worst / peak };
 }
 

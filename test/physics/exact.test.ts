@@ -85,15 +85,15 @@ describe.each(JOBS)('the $name grating: every order where the grating equation p
   it('has the brightest sample of each order within one sample or 1 % of z·tan θ_m, and no light where the paraxial form would put an evanescent order', () => {
     for (const r of runs) {
       const { c, x } = r;
-      const step = c.pitch[0];
-      const at = (xx: number) => Math.round((xx - c.origin[0]) / step);
+      const step = c.dx;
+      const at = (xx: number) => Math.round((xx - c.x0) / step);
       const orders = (r.rec.metrics.orders as GratingOrder[]).filter((o) => o.propagates);
       let strongest = 0;
       for (const o of orders) {
         if (thin(job.width / job.period, o.m) < 1e-3) continue;
         const [lo, hi] = o.interval!;
         let best = Math.max(0, at(lo));
-        for (let i = Math.max(0, at(lo)); i <= Math.min(c.cols - 1, at(hi)); i++) if (c.intensity[i]! > c.intensity[best]!) best = i;
+        for (let i = Math.max(0, at(lo)); i <= Math.min(c.nx - 1, at(hi)); i++) if (c.intensity[i]! > c.intensity[best]!) best = i;
         strongest = Math.max(strongest, c.intensity[best]!);
         // Near grazing an order's diffraction lobe (λ/D in angle) spreads over z·(λ/D)/γ³ of the
         // screen and its intensity peaks on the axis side of z·tan θ (the screen takes in more angle
@@ -109,10 +109,10 @@ describe.each(JOBS)('the $name grating: every order where the grating equation p
         if (Math.abs(s) < 1) continue;
         const xp = job.z * s;
         const i0 = at(xp);
-        if (i0 < 2 || i0 > c.cols - 3) continue;
+        if (i0 < 2 || i0 > c.nx - 3) continue;
         const band = Math.max(2, Math.round((0.002 * job.z) / step));
         let worst = 0;
-        for (let i = Math.max(0, i0 - band); i <= Math.min(c.cols - 1, i0 + band); i++) worst = Math.max(worst, c.intensity[i]!);
+        for (let i = Math.max(0, i0 - band); i <= Math.min(c.nx - 1, i0 + band); i++) worst = Math.max(worst, c.intensity[i]!);
         expect(worst).toBeLessThan(1e-3 * strongest);
       }
     }
@@ -154,7 +154,7 @@ describe('close to the aperture (z of a few wavelengths)', () => {
     const row = Math.round(c.center[1]);
     // The planner's grid puts a sample on the axis.
     expect(Math.abs(col - c.center[0])).toBeLessThan(1e-6);
-    const I = c.intensity[row * c.cols + col]!;
+    const I = c.intensity[row * c.nx + col]!;
     const ref = onAxis(z, 12.5 * um);
     expect(Math.abs(I - ref) / ref).toBeLessThan(0.02);
   });
@@ -174,10 +174,10 @@ describe('close to the aperture (z of a few wavelengths)', () => {
     const tilt = tiltDeg * deg;
     const { c, plan, x } = runCase({ wavelength: lam, distance: z, aperture: { shape: 'slit', width: 20 * um, opaque: false }, illumination: { kind: 'plane', tilt: [tilt, 0] } });
     expect(plan.error).toBeUndefined();
-    const stride = Math.max(1, Math.floor(c.cols / 300));
+    const stride = Math.max(1, Math.floor(c.nx / 300));
     const xs: number[] = [];
     const got: number[] = [];
-    for (let i = 0; i < c.cols; i += stride) {
+    for (let i = 0; i < c.nx; i += stride) {
       xs.push(x(i));
       got.push(c.intensity[i]!);
     }

@@ -6,9 +6,9 @@ import { nm, runCase, um } from '../helpers.js';
 const lam = 633 * nm;
 const d = 20 * um;
 
-function peakNear(c: { intensity: Float64Array; cols: number }, x: (i: number) => number, x0: number, halfSpan: number): number {
+function peakNear(c: { intensity: Float64Array; nx: number }, x: (i: number) => number, x0: number, halfSpan: number): number {
   let best = -1;
-  for (let i = 1; i < c.cols - 1; i++) {
+  for (let i = 1; i < c.nx - 1; i++) {
     if (Math.abs(x(i) - x0) > halfSpan) continue;
     if (best < 0 || c.intensity[i]! > c.intensity[best]!) best = i;
   }

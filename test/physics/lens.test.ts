@@ -6,6 +6,7 @@ import besselj1 from '@stdlib/math-base-special-besselj1';
 import type { Aperture } from '../../src/optics/aperture.js';
 import { planCase } from '../../src/plan/planner.js';
 import { makeCase, mm, nm, runCase, um } from '../helpers.js';
+import type { IntensityMap } from '../../src/model/intensity-map.js';
 
 const lam = 633 * nm;
 const k = (2 * Math.PI) / lam;
@@ -15,10 +16,10 @@ function lens(focal: number, stop: number | null, aberrations: { j: number; rms:
 }
 
 /** Intensity at the sample nearest (x, y). */
-function at(c: { intensity: Float64Array | number[]; origin: number[]; pitch: (number | null)[]; cols: number; rows: number }, x: number, y: number): number {
-  const col = Math.round((x - c.origin[0]!) / c.pitch[0]!);
-  const row = Math.round((y - c.origin[1]!) / c.pitch[1]!);
-  return c.intensity[row * c.cols + col]!;
+function at(c: IntensityMap, x: number, y: number): number {
+  const col = Math.round((x - c.x0) / c.dx);
+  const row = Math.round((y - c.y0) / c.dy);
+  return c.intensity[row * c.nx + col]!;
 }
 
 describe('a stop of 25 mm behind a lens of f = 100 mm, the screen at the focus (Airy pattern)', () => {
@@ -66,12 +67,12 @@ describe('a stop of 25 mm behind a lens of f = 100 mm, the screen at the focus (
   it('matches the Airy pattern within 1 % of the peak over the central lobes (out to the second dark ring)', () => {
     let worst = 0;
     let n = 0;
-    for (let r = 0; r < c.rows; r++) {
-      for (let col = 0; col < c.cols; col++) {
+    for (let r = 0; r < c.ny; r++) {
+      for (let col = 0; col < c.nx; col++) {
         const rho = Math.hypot(x(col), y(r));
         if (rho > secondZero) continue;
         n++;
-        worst = Math.max(worst, Math.abs(c.intensity[r * c.cols + col]! - airy(rho)));
+        worst = Math.max(worst, Math.abs(c.intensity[r * c.nx + col]! - airy(rho)));
       }
     }
     expect(n).toBeGreaterThan(1000);
@@ -107,13 +108,13 @@ describe('the same lens in a plane wave tilted by 0.5°', () => {
 
   it('matches the Airy pattern about f·sin θ within 1 % of the peak out to the second dark ring', () => {
     let worst = 0;
-    for (let r = 0; r < c.rows; r++) {
-      for (let col = 0; col < c.cols; col++) {
+    for (let r = 0; r < c.ny; r++) {
+      for (let col = 0; col < c.nx; col++) {
         const rho = Math.hypot(x(col) - x0, y(r));
         if (rho > secondZero) continue;
         const v = (k * R * rho) / f;
         const j = v === 0 ? 1 : (2 * besselj1(v)) / v;
-        worst = Math.max(worst, Math.abs(c.intensity[r * c.cols + col]! - I0 * j * j));
+        worst = Math.max(worst, Math.abs(c.intensity[r * c.nx + col]! - I0 * j * j));
       }
     }
     expect(worst / I0).toBeLessThan(0.01);
@@ -174,9 +175,9 @@ describe('a Gaussian beam through an unbounded lens', () => {
     let s = 0;
     let sx = 0;
     let sy = 0;
-    for (let r = 0; r < c.rows; r++) {
-      for (let col = 0; col < c.cols; col++) {
-        const i = c.intensity[r * c.cols + col]!;
+    for (let r = 0; r < c.ny; r++) {
+      for (let col = 0; col < c.nx; col++) {
+        const i = c.intensity[r * c.nx + col]!;
         s += i;
         sx += i * x(col) ** 2;
         sy += i * y(r) ** 2;
@@ -217,9 +218,9 @@ describe('a diverging lens far away spreads as geometric optics says', () => {
     // Diffraction adds (λz/(πw))² to the square: 0.5 % here beyond the geometric radius.
     let s = 0;
     let sx = 0;
-    for (let r = 0; r < c.rows; r++) {
-      for (let col = 0; col < c.cols; col++) {
-        const i = c.intensity[r * c.cols + col]!;
+    for (let r = 0; r < c.ny; r++) {
+      for (let col = 0; col < c.nx; col++) {
+        const i = c.intensity[r * c.nx + col]!;
         s += i;
         sx += i * x(col) ** 2 + i * y(r) ** 2;
       }

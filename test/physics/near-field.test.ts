@@ -46,7 +46,7 @@ describe.each([0.5, 2, 10])('slit in the Fresnel regime, N_F = %f', (nf) => {
   it('matches the Fresnel-integral pattern within 0.2 % of the peak', () => {
     let worst = 0;
     let peak = 0;
-    for (let col = 0; col < c.cols; col++) {
+    for (let col = 0; col < c.nx; col++) {
       const ref = slitIntensity(x(col), a, z);
       peak = Math.max(peak, ref);
       worst = Math.max(worst, Math.abs(c.intensity[col]! - ref));
@@ -73,7 +73,7 @@ describe('slit by the angular spectrum, forced, in a paraxial geometry', () => {
   it('agrees with the Fresnel integrals within 0.2 % of the peak', () => {
     expect(plan.method).toBe('angular-spectrum');
     let worst = 0;
-    for (let col = 0; col < c.cols; col++) worst = Math.max(worst, Math.abs(c.intensity[col]! - slitIntensity(x(col), a, z)));
+    for (let col = 0; col < c.nx; col++) worst = Math.max(worst, Math.abs(c.intensity[col]! - slitIntensity(x(col), a, z)));
     expect(worst / rec.metrics.peakIntensity).toBeLessThan(2e-3);
   });
 });
@@ -114,9 +114,9 @@ describe('Gaussian beam through a wide aperture', () => {
     let s = 0;
     let sxx = 0;
     let syy = 0;
-    for (let r = 0; r < c.rows; r++) {
-      for (let col = 0; col < c.cols; col++) {
-        const v = c.intensity[r * c.cols + col]!;
+    for (let r = 0; r < c.ny; r++) {
+      for (let col = 0; col < c.nx; col++) {
+        const v = c.intensity[r * c.nx + col]!;
         s += v;
         sxx += v * x(col) ** 2;
         syy += v * y(r) ** 2;

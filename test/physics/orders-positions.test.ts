@@ -13,9 +13,9 @@ const lam = 633 * nm;
 const deg = Math.PI / 180;
 
 /** Parabolic vertex of the highest sample within ±halfSpan of x0 (m). */
-function peakNear(c: { intensity: Float64Array; cols: number }, x: (i: number) => number, x0: number, halfSpan: number): number {
+function peakNear(c: { intensity: Float64Array; nx: number }, x: (i: number) => number, x0: number, halfSpan: number): number {
   let best = -1;
-  for (let i = 1; i < c.cols - 1; i++) {
+  for (let i = 1; i < c.nx - 1; i++) {
     if (Math.abs(x(i) - x0) > halfSpan) continue;
     if (best < 0 || c.intensity[i]! > c.intensity[best]!) best = i;
   }
@@ -184,11 +184,11 @@ describe('evanescent orders (Goodman §4.4; common practice: |sin θ_m| > 1 does
     // Peak of the map within ± one order spacing of 1.2 z, against the peak of order 1.
     const spot = (z * lam) / d;
     let stray = 0;
-    for (let i = 0; i < c.cols; i++) if (Math.abs(Math.abs(x(i)) - 1.2 * z) < spot / 2) stray = Math.max(stray, c.intensity[i]!);
+    for (let i = 0; i < c.nx; i++) if (Math.abs(Math.abs(x(i)) - 1.2 * z) < spot / 2) stray = Math.max(stray, c.intensity[i]!);
     const x1 = orders.find((o) => o.m === 1)!.position!;
     expect(peakNear(c, x, x1, spot / 4)).toBeCloseTo(x1, 4);
     let main = 0;
-    for (let i = 0; i < c.cols; i++) if (Math.abs(x(i) - x1) < spot / 4) main = Math.max(main, c.intensity[i]!);
+    for (let i = 0; i < c.nx; i++) if (Math.abs(x(i) - x1) < spot / 4) main = Math.max(main, c.intensity[i]!);
     // Order 3 carries 2.25 % of the power in thin-grating theory: drawn, its peak would be about a
     // tenth of order 1's. What is there is the tail of order 2, far below that.
     expect(stray / main).toBeLessThan(0.01);
@@ -215,7 +215,7 @@ describe('an order table of a grating with orders outside the window', () => {
     expect(out.length).toBeGreaterThan(0);
     for (const o of out) {
       const [a, b] = o.interval!;
-      const [w0, w1] = [rec.computed.origin[0] - rec.computed.pitch[0] / 2, rec.computed.origin[0] + (rec.computed.cols - 0.5) * rec.computed.pitch[0]];
+      const [w0, w1] = [rec.computed.x0 - rec.computed.dx / 2, rec.computed.x0 + (rec.computed.nx - 0.5) * rec.computed.dx];
       expect(o.outside).toBe(b < w0 || a > w1 ? 'all' : 'part');
       expect(o.fractionOfTransmitted).toBeNull();
     }

@@ -89,7 +89,7 @@ describe('invariance to the grid once converged', () => {
     expect(base.warnings).toEqual([]);
     const a = runPlannedCase(base);
     const fine = runPlannedCase(planCase(makeCase({ ...spec, grid: { pitch: base.x.inputPitch / 1.5 } })));
-    expect(fine.computed.cols).toBe(a.computed.cols);
+    expect(fine.computed.nx).toBe(a.computed.nx);
     let worst = 0;
     for (let i = 0; i < a.computed.intensity.length; i++) {
       worst = Math.max(worst, Math.abs(a.computed.intensity[i]! - fine.computed.intensity[i]!));

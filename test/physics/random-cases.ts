@@ -7,6 +7,7 @@ import { fork, type ChildProcess } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import type { Plan } from '../../src/plan/types.js';
 import { planCase } from '../../src/plan/planner.js';
+import { isOneD as isOneDGrid, xAt as gridX, yAt as gridY } from '../../src/model/grid.js';
 import { runPlannedCase } from '../../src/run/run-case.js';
 import { ACCURACY_CODES } from '../../src/warnings/catalogue.js';
 import { makeCase, mulberry32, type CaseSpec } from '../helpers.js';
@@ -205,34 +206,34 @@ export function runRandomCase(d: DrawnCase, onPlanned?: (p: PlanInfo) => void): 
   const codes = rec.warnings.map((w) => w.code);
   const warned = codes.some((c) => ACCURACY_WARNINGS.includes(c));
   const c = rec.computed;
-  const xAt = (col: number) => c.origin[0] + col * c.pitch[0];
-  const yAt = (row: number) => (c.pitch[1] === null ? 0 : c.origin[1] + row * c.pitch[1]);
+  const xAt = (col: number) => gridX(c, col);
+  const yAt = (row: number) => gridY(c, row);
   // Points taken from the output grid itself.
   const idx: [number, number][] = []; // [row, col]
-  if (oneD || c.rows === 1) {
+  if (oneD || c.ny === 1) {
     // As many points as the exact reference can afford (its cost per point, from a sample of 5).
-    const sample = evenIndices(c.cols, 5).map((col): [number, number] => [xAt(col), 0]);
+    const sample = evenIndices(c.nx, 5).map((col): [number, number] => [xAt(col), 0]);
     const perPoint = referenceCost1D(d.spec as RefCase, sample) / sample.length;
     const n = Math.max(MIN_POINTS_1D, Math.min(POINTS_1D, Math.floor(REFERENCE_BUDGET_MICROS / Math.max(perPoint, 1e-9))));
-    for (const col of evenIndices(c.cols, n)) idx.push([0, col]);
+    for (const col of evenIndices(c.nx, n)) idx.push([0, col]);
     // And the computed peak: the error is relative to the reference's peak, which points spread
     // over a wide window can miss (a narrow central lobe between them inflates every error).
     let top = 0;
-    for (let col = 1; col < c.cols; col++) if (c.intensity[col]! > c.intensity[top]!) top = col;
+    for (let col = 1; col < c.nx; col++) if (c.intensity[col]! > c.intensity[top]!) top = col;
     if (!idx.some(([, col]) => col === top)) idx.push([0, top]);
   } else {
     const midRow = Math.round(c.center[1]);
     const midCol = Math.round(c.center[0]);
-    const row = midRow >= 0 && midRow < c.rows ? midRow : c.rows >> 1;
-    const col = midCol >= 0 && midCol < c.cols ? midCol : c.cols >> 1;
+    const row = midRow >= 0 && midRow < c.ny ? midRow : c.ny >> 1;
+    const col = midCol >= 0 && midCol < c.nx ? midCol : c.nx >> 1;
     const seen = new Set<string>();
-    for (const cc of evenIndices(c.cols, POINTS_2D_PER_LINE)) seen.add(`${row},${cc}`);
-    for (const rr of evenIndices(c.rows, POINTS_2D_PER_LINE)) seen.add(`${rr},${col}`);
+    for (const cc of evenIndices(c.nx, POINTS_2D_PER_LINE)) seen.add(`${row},${cc}`);
+    for (const rr of evenIndices(c.ny, POINTS_2D_PER_LINE)) seen.add(`${rr},${col}`);
     seen.add(`${row},${col}`);
     for (const s of seen) idx.push(s.split(',').map(Number) as [number, number]);
   }
   const pts = idx.map(([r, cc]): [number, number] => [xAt(cc), yAt(r)]);
-  const axisIndex = pts.findIndex(([x, y]) => Math.abs(x) <= 1e-9 * c.pitch[0] && Math.abs(y) <= 1e-9 * (c.pitch[1] ?? 1));
+  const axisIndex = pts.findIndex(([x, y]) => Math.abs(x) <= 1e-9 * c.dx && Math.abs(y) <= 1e-9 * (isOneDGrid(c) ? 1 : c.dy));
   const ref = referenceIntensity(d.spec as RefCase, pts, REFERENCE_BUDGET_MICROS, axisIndex);
   const done = { ...withPlan, codes, warned };
   if (!ref.ok) return { ...done, status: 'no-reference', note: ref.reason };
@@ -244,7 +245,7 @@ export function runRandomCase(d: DrawnCase, onPlanned?: (p: PlanInfo) => void): 
   for (let i = 0; i < used.length; i++) peak = Math.max(peak, ref.intensity[i]!);
   for (let i = 0; i < used.length; i++) {
     const [r, cc] = used[i]!;
-    const diff = Math.abs(c.intensity[r * c.cols + cc]! - ref.intensity[i]!);
+    const diff = Math.abs(c.intensity[r * c.nx + cc]! - ref.intensity[i]!);
     if (diff > worst) {
       worst = diff;
       worstAt = i;
@@ -258,7 +259,7 @@ export function runRandomCase(d: DrawnCase, onPlanned?: (p: PlanInfo) => void): 
     at: ref.points[worstAt]!,
     compared: used.length,
     how: ref.how,
-    values: { I: c.intensity[wr * c.cols + wc]!, ref: ref.intensity[worstAt]!, peak },
+    values: { I: c.intensity[wr * c.nx + wc]!, ref: ref.intensity[worstAt]!, peak },
   };
 }
 

@@ -49,7 +49,7 @@ function run(d: DrawnZonePlate): Outcome {
   const col = Math.round(c.center[0]);
   const row = Math.round(c.center[1]);
   if (Math.abs(c.center[0] - col) + Math.abs(c.center[1] - row) > 1e-9) throw new Error('the axis is not a sample of the window');
-  const I = c.intensity[row * c.cols + col]!;
+  const I = c.intensity[row * c.nx + col]!;
   const s = d.spec;
   const w = s.illumination!.kind === 'gaussian' ? s.illumination!.waist : Infinity;
   const ds = discs(s.aperture);

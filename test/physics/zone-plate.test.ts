@@ -54,7 +54,7 @@ function onAxis(aperture: Aperture, z: number, window = 40 * um) {
   const row = Math.round(c.center[1]);
   // The axis must be a sample, not between two.
   expect(Math.abs(c.center[0] - col) + Math.abs(c.center[1] - row)).toBeLessThan(1e-9);
-  const I = c.intensity[row * c.cols + col]!;
+  const I = c.intensity[row * c.nx + col]!;
   if (process.env.SPOTCAST_SHOW) console.log(`${describeAperture(aperture)} z=${z}: I=${I} by ${run.plan.method} ${run.plan.form ?? ''} work ${run.plan.work.toExponential(2)} ${run.codes.join(' ')}`);
   return { ...run, I };
 }

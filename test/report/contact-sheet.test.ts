@@ -50,7 +50,7 @@ function gaussianTile(n: number, pitch: number, w: number, label: string): Sheet
       a[r * n + c] = 3.5 * Math.exp((-2 * (x * x + y * y)) / (w * w));
     }
   }
-  return { label, intensity: a, rows: n, cols: n, pitchX: pitch, pitchY: pitch, originX: origin, originY: origin };
+  return { label, map: { nx: n, ny: n, dx: pitch, dy: pitch, x0: origin, y0: origin, intensity: a } };
 }
 
 describe('contact sheet: one physical scale', () => {
@@ -157,7 +157,7 @@ describe('contact sheet: one physical scale', () => {
 });
 
 describe('contact sheet: 1-D tiles and downsampling', () => {
-  it('draws a 1-D result (pitchY null) as stripes: every row alike, bright along the axis', () => {
+  it('draws a 1-D result (one row, dy = 0) as stripes: every row alike, bright along the axis', () => {
     // Far field of a slit, I ∝ sinc²(x/s) (Goodman, Introduction to Fourier Optics, ch. 4).
     const n = 200, p = 1e-6, s = 10e-6;
     const prof = new Float64Array(n);
@@ -165,7 +165,7 @@ describe('contact sheet: 1-D tiles and downsampling', () => {
       const u = ((c - (n - 1) / 2) * p) / s;
       prof[c] = u === 0 ? 1 : (Math.sin(u) / u) ** 2;
     }
-    const tile: SheetTile = { label: 'slit', intensity: prof, rows: 1, cols: n, pitchX: p, pitchY: null, originX: -((n - 1) / 2) * p, originY: 0 };
+    const tile: SheetTile = { label: 'slit', map: { nx: n, ny: 1, dx: p, dy: 0, x0: -((n - 1) / 2) * p, y0: 0, intensity: prof } };
     const { img, layout } = render([tile, gaussianTile(64, 1e-6, 8e-6, 'spot')], { tilePixels: 100 });
     const r = layout.tiles[0]!;
     const row = (y: number) => Array.from({ length: r.w }, (_, x) => img.at(r.x + x, y).join(','));
@@ -185,7 +185,7 @@ describe('contact sheet: 1-D tiles and downsampling', () => {
     const a = new Float64Array(n * n);
     for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) a[r * n + c] = c % 2;
     const origin = -((n - 1) / 2) * p;
-    const tile: SheetTile = { label: 'fringes', intensity: a, rows: n, cols: n, pitchX: p, pitchY: p, originX: origin, originY: origin };
+    const tile: SheetTile = { label: 'fringes', map: { nx: n, ny: n, dx: p, dy: p, x0: origin, y0: origin, intensity: a } };
     const { img, layout } = render([tile], { tilePixels: 100 });
     const r = layout.tiles[0]!;
     const want = lightness(round3(shoal(0.5)));
@@ -197,10 +197,13 @@ describe('contact sheet: 1-D tiles and downsampling', () => {
   it('rejects what it cannot draw', () => {
     expect(() => renderContactSheet([])).toThrow(RangeError);
     const bad = gaussianTile(8, 1e-6, 2e-6, 'x');
-    expect(() => renderContactSheet([{ ...bad, rows: 7 }])).toThrow(/values/);
-    expect(() => renderContactSheet([{ ...bad, pitchX: 0 }])).toThrow(/pitch/);
-    const nan = new Float64Array(bad.intensity);
+    expect(() => renderContactSheet([{ ...bad, map: { ...bad.map, ny: 7 } }])).toThrow(/values/);
+    expect(() => renderContactSheet([{ ...bad, map: { ...bad.map, dx: 0 } }])).toThrow(/pitch/);
+    // dy = 0 is the 1-D form of one row only (src/model/grid.ts).
+    expect(() => renderContactSheet([{ ...bad, map: { ...bad.map, dy: 0 } }])).toThrow(/pitch/);
+    expect(() => renderContactSheet([{ ...bad, map: { ...bad.map, x0: NaN } }])).toThrow(/origin/);
+    const nan = new Float64Array(bad.map.intensity);
     nan[3] = NaN;
-    expect(() => renderContactSheet([{ ...bad, intensity: nan }])).toThrow(/finite/);
+    expect(() => renderContactSheet([{ ...bad, map: { ...bad.map, intensity: nan } }])).toThrow(/finite/);
   });
 });

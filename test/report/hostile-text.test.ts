@@ -174,7 +174,7 @@ describe('report.html with hostile text from the job', () => {
 
 function tile(label: string): SheetTile {
   const n = 8;
-  return { label, intensity: new Float64Array(n * n).fill(1), rows: n, cols: n, pitchX: 1e-6, pitchY: 1e-6, originX: -3.5e-6, originY: -3.5e-6 };
+  return { label, map: { nx: n, ny: n, dx: 1e-6, dy: 1e-6, x0: -3.5e-6, y0: -3.5e-6, intensity: new Float64Array(n * n).fill(1) } };
 }
 
 describe('contact sheet with hostile text', () => {

@@ -68,7 +68,7 @@ describe('shared source spectra across a distance sweep', () => {
       const got = shared.map((p) => computeCase(p));
       releaseKeptSpectrum();
       for (let i = 0; i < distances.length; i++) {
-        expect(got[i]!.rows).toBe(alone[i]!.rows);
+        expect(got[i]!.ny).toBe(alone[i]!.ny);
         expect(Array.from(got[i]!.intensity)).toEqual(Array.from(alone[i]!.intensity));
         const { sourceSpectrum, ...rest } = got[i]!.diagnostics;
         expect(sourceSpectrum).toBe(i === 0 ? 'computed' : 'reused');
