@@ -70,18 +70,18 @@ function against(aperture: Aperture, F: (fx: number, fy: number) => Complex) {
   const { c, x, y } = run;
   let worst = 0;
   let peak = 0;
-  const ref = new Float64Array(c.rows * c.cols);
-  for (let r = 0; r < c.rows; r++) {
-    for (let col = 0; col < c.cols; col++) {
+  const ref = new Float64Array(c.ny * c.nx);
+  for (let r = 0; r < c.ny; r++) {
+    for (let col = 0; col < c.nx; col++) {
       const rr = Math.hypot(x(col), y(r), z);
       const f = F(x(col) / (lam * rr), y(r) / (lam * rr));
       const v = ((f.re * f.re + f.im * f.im) * (z / rr) ** 2) / (lam * rr) ** 2;
-      ref[r * c.cols + col] = v;
+      ref[r * c.nx + col] = v;
       peak = Math.max(peak, v);
     }
   }
   for (let i = 0; i < ref.length; i++) worst = Math.max(worst, Math.abs(c.intensity[i]! - ref[i]!));
-  if (process.env.SPOTCAST_SHOW) console.log(`${aperture.shape}: worst ${(worst / peak).toExponential(2)} of the peak, ${c.rows}×${c.cols}, ${run.plan.method}, pitch ${run.plan.x.inputPitch}`);
+  if (process.env.SPOTCAST_SHOW) console.log(`${aperture.shape}: worst ${(worst / peak).toExponential(2)} of the peak, ${c.ny}×${c.nx}, ${run.plan.method}, pitch ${run.plan.x.inputPitch}`);
   return { ...run, error: worst / peak, peak };
 }
 
@@ -150,10 +150,10 @@ describe('a π phase step across the middle of the square', () => {
     const { c, x, y } = r;
     let at = 0;
     let best = Infinity;
-    for (let row = 0; row < c.rows; row++) {
-      for (let col = 0; col < c.cols; col++) {
+    for (let row = 0; row < c.ny; row++) {
+      for (let col = 0; col < c.nx; col++) {
         const d = Math.hypot(x(col), y(row));
-        if (d < best) [best, at] = [d, row * c.cols + col];
+        if (d < best) [best, at] = [d, row * c.nx + col];
       }
     }
     expect(best).toBeLessThan(1e-9);
@@ -173,15 +173,15 @@ describe('the white square in the near field (N_F = a²/λz ≈ 3.6 and 1.5)', (
     const h = side / 2;
     let peak = 0;
     let worst = 0;
-    const ref = new Float64Array(c.rows * c.cols);
-    for (let r = 0; r < c.rows; r++) {
-      for (let col = 0; col < c.cols; col++) {
-        ref[r * c.cols + col] = fresnelSeparableIntensity(lam, zNear, [[-h, h]], [[-h, h]], 0, x(col), y(r), false);
-        peak = Math.max(peak, ref[r * c.cols + col]!);
+    const ref = new Float64Array(c.ny * c.nx);
+    for (let r = 0; r < c.ny; r++) {
+      for (let col = 0; col < c.nx; col++) {
+        ref[r * c.nx + col] = fresnelSeparableIntensity(lam, zNear, [[-h, h]], [[-h, h]], 0, x(col), y(r), false);
+        peak = Math.max(peak, ref[r * c.nx + col]!);
       }
     }
     for (let i = 0; i < ref.length; i++) worst = Math.max(worst, Math.abs(c.intensity[i]! - ref[i]!));
-    if (process.env.SPOTCAST_SHOW) console.log(`${aperture.shape} near field z=${zNear}: worst ${(worst / peak).toExponential(2)} of the peak, ${run.plan.method}, ${c.rows}×${c.cols}, [${run.codes}]`);
+    if (process.env.SPOTCAST_SHOW) console.log(`${aperture.shape} near field z=${zNear}: worst ${(worst / peak).toExponential(2)} of the peak, ${run.plan.method}, ${c.ny}×${c.nx}, [${run.codes}]`);
     return { error: worst / peak, codes: run.codes };
   }
   for (const [zNear, tol] of [[0.25e-3, 0.03], [0.6e-3, 0.01]] as const) {
