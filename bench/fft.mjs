@@ -11,8 +11,7 @@
 // all of them; each run starts from the same random data, restored outside the timing.
 import { spawnSync } from 'node:child_process';
 import { fft2Reference as fft2 } from '../dist/src/optics/fft.js';
-import { loadFastKernels } from '../dist/src/kernels.js';
-import { fft2 as fft2Program } from '../dist/src/optics/fft.js';
+import { createEngine } from '../dist/src/kernels.js';
 import { fft2Interleaved, fft2Split, useFastFftBackend, fastFftBackend } from '../dist/src/optics/fft-fast.js';
 
 // FFT teams (one transform shared by threads) exist from the build that has src/parallel.
@@ -76,11 +75,12 @@ function relDiff(ref, got) {
   return d / m;
 }
 
-loadFastKernels();
+const engine = createEngine();
 const hasWasm = fastFftBackend() === 'wasm-simd';
 // A team of 2 for the shared variant; the one-thread variants call the kernels directly, and data
 // in ordinary memory never goes to the team anyway.
-const threads = team && hasWasm ? await team.startFftTeam(2) : 1;
+const teamEngine = team && hasWasm ? await team.startFftTeam(2, engine) : engine;
+const threads = teamEngine.threads;
 const rows = [];
 for (const n of sizes) {
   const N = n * n;
@@ -115,7 +115,7 @@ for (const n of sizes) {
         ]
       : []),
     ...(dShared
-      ? [{ name: `wasm, ${threads} threads`, backend: 'wasm-simd', setup: interShared, out: dShared, run: () => fft2Program(dShared, n, n, false) }]
+      ? [{ name: `wasm, ${threads} threads`, backend: 'wasm-simd', setup: interShared, out: dShared, run: () => teamEngine.fft2(dShared, n, n, false) }]
       : []),
     { name: 'ts interleaved', backend: 'js', setup: inter, run: () => fft2Interleaved(d, n, n, false) },
     { name: 'ts split', backend: 'js', setup: split, run: () => fft2Split(re, im, n, n, false) },

@@ -1,5 +1,6 @@
 // Shared helpers for tests: cases built like the job expander builds them, with nothing but the
 // physics given (the planner chooses grids unless a test says otherwise).
+import { testContext } from './engine.js';
 import type { Aperture, Illumination } from '../src/optics/aperture.js';
 import type { Case } from '../src/plan/types.js';
 import { planCase } from '../src/plan/planner.js';
@@ -37,7 +38,7 @@ export function makeCase(s: CaseSpec): Case {
 
 export function runCase(s: CaseSpec) {
   const plan = planCase(makeCase(s));
-  const rec = runPlannedCase(plan);
+  const rec = runPlannedCase(plan, testContext());
   const c = rec.computed;
   const x = (col: number) => c.origin[0] + col * c.pitch[0];
   const y = (row: number) => (c.pitch[1] === null ? 0 : c.origin[1] + row * c.pitch[1]);

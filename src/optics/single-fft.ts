@@ -1,7 +1,7 @@
 // The Fresnel integral's single-transform form evaluated with one FFT: the output falls on the
 // FFT's own lattice, pitch λz/(NΔx), over the alias period λz/Δx. Cheaper than direct sums when
 // both the aperture and the window have many samples.
-import { fft2 } from './fft.js';
+import type { Engine } from './engine.js';
 import { createField, fftAxis, isOneD, type Axis, type Field } from './field.js';
 import { applyFresnelFactor, withInputChirp } from './direct.js';
 
@@ -19,7 +19,7 @@ export function singleFftAxis(n: number, dx: number, wavelength: number, z: numb
  * src must lie on an FFT grid of n×n (n×1 in 1-D) samples with x = 0 at index n/2, and carry any
  * tilt carrier already. Returns the full lattice; the caller cuts out its window.
  */
-export function propagateFresnelSingleFFT(src: Field, z: number): Field {
+export function propagateFresnelSingleFFT(engine: Engine, src: Field, z: number): Field {
   const lam = src.wavelength;
   const oneD = isOneD(src);
   const f = createField(
@@ -29,9 +29,9 @@ export function propagateFresnelSingleFFT(src: Field, z: number): Field {
   );
   // Input chirp, then move the sample at x = 0 to index 0 (and back after the transform) so that the
   // FFT's phase reference is the optical axis.
-  const u = withInputChirp(src, z);
+  const u = withInputChirp(src, z, engine.allocate);
   shiftHalf(u, src.nx, src.ny);
-  fft2(u, src.nx, src.ny, false);
+  engine.fft2(u, src.nx, src.ny, false);
   shiftHalf(u, src.nx, src.ny);
   f.data.set(u);
   applyFresnelFactor(f, z, oneD ? src.dx : src.dx * src.dy);
