@@ -5,7 +5,7 @@
 // import. Without the file the TypeScript kernel is used, with the same results.
 import { readFileSync } from 'node:fs';
 import { singleThreadEngine, type Engine } from './optics/engine.js';
-import { installWasmFft } from './optics/fft-fast.js';
+import { createFftKernel, type FftKernel } from './optics/fft-fast.js';
 
 /** The kernel file's bytes, or why there are none. */
 export function readFftKernel(): { bytes: Uint8Array | null; why: string } {
@@ -21,14 +21,13 @@ export function readFftKernel(): { bytes: Uint8Array | null; why: string } {
   return { bytes: null, why: `fft.wasm not found (run npm run build:wasm); looked at ${places.map((p) => p.pathname).join(', ')}` };
 }
 
-/** Loads the WebAssembly kernel into fft-fast.ts; false when it is missing or cannot be compiled. */
-export function loadFastKernels(): boolean {
+/** A kernel for this thread: the WebAssembly one when it is built and compiles, else the TypeScript one. */
+export function createKernel(): FftKernel {
   const { bytes, why } = readFftKernel();
-  return installWasmFft(bytes, why);
+  return createFftKernel(bytes, why);
 }
 
-/** An engine for this thread: the WebAssembly kernel when it is built, else the TypeScript one. */
+/** An engine for this thread on createKernel()'s kernel. */
 export function createEngine(): Engine {
-  loadFastKernels();
-  return singleThreadEngine();
+  return singleThreadEngine(createKernel());
 }

@@ -1,13 +1,15 @@
 // The engine a propagation runs on: the FFT kernel, the threads that share its transforms, and
 // where its large sample arrays come from. The runner creates one (src/kernels.ts: createEngine;
 // src/parallel/fft-team.ts: a team's engine) and passes it down; nothing in optics keeps one.
-import { fastFftBackend, fft2Interleaved, transformRows } from './fft-fast.js';
+import { fastFftBackend, fft2Interleaved, transformRows, type FftKernel } from './fft-fast.js';
 
 export interface Engine {
   /** The kernel and threads in words, for notes and tests ('wasm-simd', 'js', '… on 2 threads'). */
   readonly name: string;
   /** Threads sharing each large 2-D transform, this one included (1: this thread only). */
   readonly threads: number;
+  /** This thread's kernel and what it keeps (its WebAssembly module and memory, scratch). */
+  readonly kernel: FftKernel;
   /**
    * In-place 2-D FFT of an ny×nx interleaved complex array (ny = 1: 1-D). Forward:
    * X[k] = Σ x[j] e^{-2πi jk/n}; the inverse includes 1/n per axis. Every engine gives the bits
@@ -48,14 +50,19 @@ export function pooledAllocation(fresh: (values: number) => Float64Array): Pick<
   };
 }
 
-/** An engine on fft-fast.ts's kernel in this thread, with ordinary (pooled) arrays. */
-export function singleThreadEngine(): Engine {
+/** An engine on `kernel` (fft-fast.ts createFftKernel) in this thread, with ordinary (pooled) arrays. */
+export function singleThreadEngine(kernel: FftKernel): Engine {
   return {
-    name: fastFftBackend(),
+    get name() {
+      return fastFftBackend(kernel);
+    },
     threads: 1,
-    fft2: fft2Interleaved,
+    kernel,
+    fft2(data, nx, ny, inverse) {
+      fft2Interleaved(kernel, data, nx, ny, inverse);
+    },
     fftRows(src, dst, nx, ny, r0, r1, inverse) {
-      transformRows(src, dst, nx, ny, r0, r1, inverse);
+      transformRows(kernel, src, dst, nx, ny, r0, r1, inverse);
     },
     ...pooledAllocation((values) => new Float64Array(values)),
   };

@@ -504,6 +504,7 @@ for (const p of [4, 6, 8]) {
   INVERSE_DENOMINATORS[p] = inv;
 }
 
+// Scratch for one interpolation (written before it is read in each call): not state between calls.
 const wx = new Float64Array(8);
 const wy = new Float64Array(8);
 const fwd = new Float64Array(9);

@@ -172,8 +172,8 @@ export async function startFftTeam(threads: number, base: Engine, opts: TeamOpti
   const n = Math.floor(threads);
   if (!(n > 1) || !teamsAvailable()) return base;
   const ctl = new Int32Array(new SharedArrayBuffer(4 * CONTROL_CELLS));
-  let memory = createSharedFftMemory();
-  if (memory && !attachSharedFftMemory(memory)) memory = null;
+  let memory = createSharedFftMemory(base.kernel);
+  if (memory && !attachSharedFftMemory(base.kernel, memory)) memory = null;
   const t: Team = {
     base,
     ctl,
@@ -253,6 +253,7 @@ export async function startFftTeam(threads: number, base: Engine, opts: TeamOpti
   return {
     name: `${base.name} on ${size} threads`,
     threads: size,
+    kernel: base.kernel,
     fft2(data, nx, ny, inverse) {
       if (!execute(t, data, nx, ny, inverse)) base.fft2(data, nx, ny, inverse);
     },
@@ -292,7 +293,7 @@ function helperExecArgv(): string[] {
 function halt(t: Team): Promise<unknown> {
   if (!t.stopped) {
     t.stopped = true;
-    if (t.memory) attachSharedFftMemory(null);
+    if (t.memory) attachSharedFftMemory(t.base.kernel, null);
     Atomics.store(t.ctl, STOP, 1);
     Atomics.notify(t.ctl, SEQ);
     t.figures.partsByHelpers = Atomics.load(t.ctl, HELPER_PARTS);
@@ -327,8 +328,8 @@ function execute(t: Team, data: Float64Array, nx: number, ny: number, inverse: b
   if (live.length === 0) return false;
   const threads = t.helpers.length + 1;
   // The shared memory when every helper can work in it (one that cannot yet is not ready yet).
-  let mode: Mode = t.memory && fastFftBackend() === 'wasm-simd' && live.every((h) => h.shared || !h.ready) ? 'shared' : 'parts';
-  const layout = mode === 'shared' ? sharedLayout(nx, ny, threads) : null;
+  let mode: Mode = t.memory && fastFftBackend(t.base.kernel) === 'wasm-simd' && live.every((h) => h.shared || !h.ready) ? 'shared' : 'parts';
+  const layout = mode === 'shared' ? sharedLayout(t.base.kernel, nx, ny, threads) : null;
   if (!layout) mode = 'parts';
   const { rowsPer, colsPer } = partSizes(mode, nx, ny, live.length + 1);
   if (Math.ceil(ny / rowsPer) < 2 || Math.ceil(nx / colsPer) < 2) return false;
@@ -336,7 +337,7 @@ function execute(t: Team, data: Float64Array, nx: number, ny: number, inverse: b
   const values = 2 * nx * ny;
   if (mode === 'parts' && (!t.scratch || t.scratch.byteLength < 8 * values)) t.scratch = new SharedArrayBuffer(8 * values);
   const message: JobMessage = {
-    seq: nextSeq(t.seq), mode, nx, ny, inverse, backend: fastFftBackend(), rowsPer, colsPer,
+    seq: nextSeq(t.seq), mode, nx, ny, inverse, backend: fastFftBackend(t.base.kernel), rowsPer, colsPer,
     data: data.buffer, bufferId: bufferIdOf(data.buffer as SharedArrayBuffer), dataOffset: data.byteOffset,
     ...(mode === 'parts' ? { scratch: t.scratch! } : { layout: layout! }),
   };
@@ -398,13 +399,13 @@ function share(t: Team, job: Job, phase: number): string | null {
     if (t.callerIdle) break;
     const i = Atomics.add(ctl, NEXT + phase, 1);
     if (i >= n) break;
-    if (claimAndDo(ctl, job, phase, i, 0)) t.figures.partsByCaller++;
+    if (claimAndDo(t.base.kernel, ctl, job, phase, i, 0)) t.figures.partsByCaller++;
   }
   // parts whose number a helper still busy with an earlier transform drew from the counter
   const free = (job.seq << 3) | FREE;
   const leftovers = () => {
     for (let i = 0; i < n; i++) {
-      if (Atomics.load(ctl, stateCell(phase, i)) === free && claimAndDo(ctl, job, phase, i, 0)) t.figures.partsByCaller++;
+      if (Atomics.load(ctl, stateCell(phase, i)) === free && claimAndDo(t.base.kernel, ctl, job, phase, i, 0)) t.figures.partsByCaller++;
     }
   };
   // (An idle caller, in tests, leaves the helpers time to draw the parts first.)
@@ -448,7 +449,7 @@ function finishAlone(t: Team, job: Job, phase: number): void {
         continue;
       }
       if (s === (tag | REVOKED) || Atomics.compareExchange(ctl, at, s, tag | REVOKED) === s) {
-        doPart(job, phase, i, 0);
+        doPart(t.base.kernel, job, phase, i, 0);
         t.figures.partsByCaller++;
         break;
       }

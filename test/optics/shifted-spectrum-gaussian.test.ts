@@ -21,16 +21,12 @@
 // 4(θ_d tan θ)² + θ_d², a judgement: 4e-3 at 50°), and of order θ_d·tan θ·w in the centroid (the
 // beam is wider on its far side; 3e-2·w at 50°).
 import { engine } from '../engine.js';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { describe, expect, it } from 'vitest';
 import { fftAxis } from '../../src/optics/field.js';
 import { padField } from '../../src/optics/spectral.js';
 import { sourceField2D } from '../../src/optics/source.js';
 import { gaussianSpectrumTail, landingCentre, propagateShiftedSpectrum, shiftedGridFor } from '../../src/optics/shifted-spectrum.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const deg = (d: number) => (d * Math.PI) / 180;
 

@@ -3,8 +3,7 @@
 // a planned grid against what a propagation on it reports, and the landing formula against the
 // existing band limit.
 import { engine } from '../engine.js';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { describe, expect, it } from 'vitest';
 import { apertureFacts } from '../../src/optics/aperture.js';
 import { fftAxis } from '../../src/optics/field.js';
 import { bandLimitFrequency, padField } from '../../src/optics/spectral.js';
@@ -21,9 +20,6 @@ import { DEFAULT_MAX_MEMORY, planCase } from '../../src/plan/planner.js';
 import { makeCase } from '../helpers.js';
 import { rsSquare } from './square-quadrature.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 describe('the grid a tilted beam needs: 200 µm square, 633 nm, 30°, 100 mm', () => {
   const lam = 633e-9;

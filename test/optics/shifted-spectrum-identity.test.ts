@@ -10,17 +10,13 @@
 // box cuts at least what the per-axis rectangle cuts at normal incidence, inputs are left alone
 // unless asked, impossible carriers are refused.
 import { engine } from '../engine.js';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { describe, expect, it } from 'vitest';
 import { createField, fftAxis } from '../../src/optics/field.js';
 import { padField, propagateAngularSpectrum, toSpectrum, type SourceSpectrum } from '../../src/optics/spectral.js';
 import { sourceField1D, sourceField2D } from '../../src/optics/source.js';
 import { landingCentre, propagateShiftedSpectrum, restoreCarrier } from '../../src/optics/shifted-spectrum.js';
 import { maxRelDiff, randomPhaseSource } from './spectral-reference.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const lam = 633e-9;
 const cases = [

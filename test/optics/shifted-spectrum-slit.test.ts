@@ -14,17 +14,13 @@
 import { engine } from '../engine.js';
 import besselj1 from '@stdlib/math-base-special-besselj1';
 import bessely1 from '@stdlib/math-base-special-bessely1';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { describe, expect, it } from 'vitest';
 import { fftAxis } from '../../src/optics/field.js';
 import { padField } from '../../src/optics/spectral.js';
 import { sourceField1D } from '../../src/optics/source.js';
 import { landingCentre, propagateShiftedSpectrum, shiftedGridFor } from '../../src/optics/shifted-spectrum.js';
 import { gaussLegendre } from '../reference/quadrature.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const deg = (d: number) => (d * Math.PI) / 180;
 

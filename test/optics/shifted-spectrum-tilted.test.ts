@@ -19,8 +19,7 @@
 // Near field: the area-sampled square's own aliasing, (πgΔ)²/3 relative at frequency g (measured
 // 1.1e-3 of the peak at Δ = D/61, 3–5e-4 at D/101), against 2e-3 of the peak.
 import { engine } from '../engine.js';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { describe, expect, it } from 'vitest';
 import { fftAxis, type Axis, type Field } from '../../src/optics/field.js';
 import { binFrequency } from '../../src/optics/fft.js';
 import { padField, type SourceSpectrum } from '../../src/optics/spectral.js';
@@ -30,9 +29,6 @@ import { landingCentre, propagateShiftedSpectrum, shiftedGridFor } from '../../s
 import { boundaryField, quad2dField } from '../reference/rs2d.js';
 import { rsSquare } from './square-quadrature.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const deg = (d: number) => (d * Math.PI) / 180;
 

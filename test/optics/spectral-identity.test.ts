@@ -4,8 +4,7 @@
 // value. A rewrite for speed must not change a result; 1e-12 is the project's identity bound
 // (common practice for rounding-level agreement of double-precision transforms).
 import { engine } from '../engine.js';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { describe, expect, it } from 'vitest';
 import { createField, fftAxis } from '../../src/optics/field.js';
 import {
   padField,
@@ -16,9 +15,6 @@ import {
 } from '../../src/optics/spectral.js';
 import { maxRelDiff, randomPhaseSource, referenceAngularSpectrum, referenceFresnelTransfer } from './spectral-reference.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const lam = 633e-9;
 const cases = [

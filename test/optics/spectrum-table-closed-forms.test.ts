@@ -26,15 +26,11 @@
 // 1.9e-5 for the square at 0° and 30°).
 import { engine } from '../engine.js';
 import besselj1 from '@stdlib/math-base-special-besselj1';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { describe, expect, it } from 'vitest';
 import { axisAt, centredAxis, fftAxis, type Axis, type Field } from '../../src/optics/field.js';
 import { sourceField2D } from '../../src/optics/source.js';
 import { farFieldByTable, interpolateSpectrum2D, tabulateSpectrum2D } from '../../src/optics/spectrum-table.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const lam = 0.5e-6;
 const k = (2 * Math.PI) / lam;

@@ -19,8 +19,7 @@
 // accuracy is 2e-5, so the bound is at most 5e-5 of Σ|U|ΔξΔη, which is |Â| at its peak for a real
 // positive source; the brief's aim is 1e-4 of the peak. Measured: 1e-6 and below.
 import { engine } from '../engine.js';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { describe, expect, it } from 'vitest';
 import type { Aperture, Illumination } from '../../src/optics/aperture.js';
 import { dft2AtPoints } from '../../src/optics/dft.js';
 import { propagateFarField } from '../../src/optics/direct.js';
@@ -42,9 +41,6 @@ import {
   type TableOrder,
 } from '../../src/optics/spectrum-table.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const lam = 0.5e-6;
 const deg = Math.PI / 180;

@@ -23,8 +23,8 @@ beforeAll(async () => {
   const engines = await fromDist<EngineModule>('optics/engine.js');
   fast = await fromDist<FastModule>('optics/fft-fast.js');
   field = await fromDist<FieldModule>('optics/field.js');
-  expect((await fromDist<KernelsModule>('kernels.js')).loadFastKernels()).toBe(true);
-  base = engines.singleThreadEngine();
+  base = engines.singleThreadEngine((await fromDist<KernelsModule>('kernels.js')).createKernel());
+  expect(fast.fastFftBackend(base.kernel)).toBe('wasm-simd');
 });
 
 /** Starts a team from the one-thread engine; resolves to the threads ready. */
@@ -35,13 +35,13 @@ async function start(threads: number, opts: Parameters<TeamModule['startFftTeam'
 
 afterEach(async () => {
   await team.stopFftTeam();
-  fast.useFastFftBackend('wasm-simd');
+  fast.useFastFftBackend(base.kernel, 'wasm-simd');
 });
 
 /** One thread's transform of a copy of x. */
 function serial(x: Float64Array, nx: number, ny: number, inverse: boolean): Float64Array {
   const y = x.slice();
-  fast.fft2Interleaved(y, nx, ny, inverse);
+  fast.fft2Interleaved(base.kernel, y, nx, ny, inverse);
   return y;
 }
 
@@ -66,7 +66,7 @@ describe.each(['wasm-simd', 'js'] as const)('%s kernel: a team of 2 equals one t
   const shapes: [number, number][] = [[64, 128], [256, 256], [512, 256], [128, 32]];
   for (const inverse of [false, true]) {
     it(`${shapes.map(([a, b]) => `${a}×${b}`).join(', ')}, ${inverse ? 'inverse' : 'forward'}`, async () => {
-      fast.useFastFftBackend(backend);
+      fast.useFastFftBackend(base.kernel, backend);
       // Parts by the helper only (this thread draws none: certain however busy the machine is),
       // then shared as they come, which on a busy machine may be all by this thread.
       for (const idle of [true, false]) {
@@ -135,7 +135,7 @@ describe.each(['wasm-simd', 'js'] as const)('%s kernel: a helper that is lost mi
   // writes, which with the shared memory is a part of the last phase, copying the result out).
   const faults = ['exit-after-claim', 'hang-after-claim', 'exit-while-writing', 'throw'] as const;
   it.each(faults)('%s: the caller finishes alone, with the same bits, stops the team and says why', async (fault) => {
-    fast.useFastFftBackend(backend);
+    fast.useFastFftBackend(base.kernel, backend);
     const problems: string[] = [];
     // The caller draws no parts, so the helper's first part (and its fault) comes with the first
     // transform however busy the machine is.
