@@ -11,8 +11,7 @@
 // all of them; each run starts from the same random data, restored outside the timing.
 import { spawnSync } from 'node:child_process';
 import { fft2Reference as fft2 } from '../dist/src/optics/fft.js';
-import { loadFastKernels } from '../dist/src/kernels.js';
-import { fft2 as fft2Program } from '../dist/src/optics/fft.js';
+import { createEngine } from '../dist/src/kernels.js';
 import { fft2Interleaved, fft2Split, useFastFftBackend, fastFftBackend } from '../dist/src/optics/fft-fast.js';
 
 // FFT teams (one transform shared by threads) exist from the build that has src/parallel.
@@ -76,11 +75,12 @@ function relDiff(ref, got) {
   return d / m;
 }
 
-loadFastKernels();
-const hasWasm = fastFftBackend() === 'wasm-simd';
+const engine = createEngine();
+const hasWasm = fastFftBackend(engine.kernel) === 'wasm-simd';
 // A team of 2 for the shared variant; the one-thread variants call the kernels directly, and data
 // in ordinary memory never goes to the team anyway.
-const threads = team && hasWasm ? await team.startFftTeam(2) : 1;
+const teamEngine = team && hasWasm ? await team.startFftTeam(2, engine) : engine;
+const threads = teamEngine.threads;
 const rows = [];
 for (const n of sizes) {
   const N = n * n;
@@ -110,15 +110,15 @@ for (const n of sizes) {
     { name: 'fft.js fft2', setup: inter, run: () => fft2(d, n, n, false) },
     ...(hasWasm
       ? [
-          { name: 'wasm interleaved', backend: 'wasm-simd', setup: inter, run: () => fft2Interleaved(d, n, n, false) },
-          { name: 'wasm split', backend: 'wasm-simd', setup: split, run: () => fft2Split(re, im, n, n, false) },
+          { name: 'wasm interleaved', backend: 'wasm-simd', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false) },
+          { name: 'wasm split', backend: 'wasm-simd', setup: split, run: () => fft2Split(engine.kernel, re, im, n, n, false) },
         ]
       : []),
     ...(dShared
-      ? [{ name: `wasm, ${threads} threads`, backend: 'wasm-simd', setup: interShared, out: dShared, run: () => fft2Program(dShared, n, n, false) }]
+      ? [{ name: `wasm, ${threads} threads`, backend: 'wasm-simd', setup: interShared, out: dShared, run: () => teamEngine.fft2(dShared, n, n, false) }]
       : []),
-    { name: 'ts interleaved', backend: 'js', setup: inter, run: () => fft2Interleaved(d, n, n, false) },
-    { name: 'ts split', backend: 'js', setup: split, run: () => fft2Split(re, im, n, n, false) },
+    { name: 'ts interleaved', backend: 'js', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false) },
+    { name: 'ts split', backend: 'js', setup: split, run: () => fft2Split(engine.kernel, re, im, n, n, false) },
   ];
 
   // Agreement with fft.js, checked on this data before timing.
@@ -126,7 +126,7 @@ for (const n of sizes) {
   fft2(d, n, n, false);
   const ref = d.slice();
   for (const v of variants.slice(1)) {
-    useFastFftBackend(v.backend);
+    useFastFftBackend(engine.kernel, v.backend);
     v.setup();
     v.run();
     let got = v.out ?? d;
@@ -145,7 +145,7 @@ for (const n of sizes) {
   for (let round = 0; round < runs + 2; round++) {
     for (let k = 0; k < variants.length; k++) {
       const v = variants[k];
-      if (v.backend) useFastFftBackend(v.backend);
+      if (v.backend) useFastFftBackend(engine.kernel, v.backend);
       v.setup();
       const t0 = performance.now();
       v.run();

@@ -101,6 +101,7 @@ async function load() {
     ...(await import(new URL('plan/share.js', dist))),
     ...(await import(new URL('run/compute.js', dist))),
     ...(await import(new URL('run/run-case.js', dist))),
+    ...(await import(new URL('run/context.js', dist))),
     ...(await import(new URL('optics/field.js', dist))),
     ...(await import(new URL('optics/spectral.js', dist))),
     ...(await import(new URL('optics/aperture.js', dist)).catch(() => ({}))),
@@ -110,7 +111,7 @@ async function load() {
   } catch {
     m.team = null;
   }
-  m.loadFastKernels();
+  m.engine = m.createEngine();
   return m;
 }
 
@@ -120,8 +121,10 @@ async function measure(kind, threads) {
   const m = await load();
   if (threads > 1) {
     if (!m.team) return { skipped: 'this build has no FFT teams (in-case threads)' };
-    await m.team.startFftTeam(threads);
+    m.engine = await m.team.startFftTeam(threads, m.engine);
   }
+  // One context per measurement, as a run has (its kept spectrum and search cache go with it).
+  let ctx = m.newCaseContext(m.engine);
   const base = rss();
   const out = { threads };
   try {
@@ -132,7 +135,7 @@ async function measure(kind, threads) {
       if (kind === 'asm-case') {
         for (let k = 0; k < runs + 1; k++) {
           const t0 = performance.now();
-          m.computeCase(plan);
+          m.computeCase(plan, ctx);
           if (k > 0) times.push(performance.now() - t0);
         }
       } else {
@@ -148,8 +151,8 @@ async function measure(kind, threads) {
         }
         for (let k = 0; k < runs + 1; k++) {
           const t0 = performance.now();
-          const g = m.padField(src, plan.x.paddedSamples, plan.y.paddedSamples);
-          m.propagateAngularSpectrum(g, plan.case.distance);
+          const g = m.padField(src, plan.x.paddedSamples, plan.y.paddedSamples, m.engine);
+          m.propagateAngularSpectrum(m.engine, g, plan.case.distance);
           const w = plan.x.output.n;
           const c0 = Math.round((plan.x.output.start - g.x0) / g.dx);
           const win = new Float64Array(2 * w * w);
@@ -164,17 +167,16 @@ async function measure(kind, threads) {
       const plans = SWEEP.map((s) => m.planCase(makeCase(s), {}));
       if (kind === 'sweep-shared') m.shareSourceSpectra(plans);
       // one case first, untimed, so that both variants start warm
-      m.releaseKeptSpectrum();
-      m.runPlannedCase(m.planCase(makeCase(SWEEP[0]), {}));
-      m.releaseKeptSpectrum();
+      m.runPlannedCase(m.planCase(makeCase(SWEEP[0]), {}), ctx);
+      ctx = m.newCaseContext(m.engine);
       const t0 = performance.now();
       let reused = 0;
       for (const p of plans) {
-        const rec = m.runPlannedCase(p);
+        const rec = m.runPlannedCase(p, ctx);
         if (rec.computed.diagnostics.sourceSpectrum === 'reused') reused++;
       }
       const s = (performance.now() - t0) / 1000;
-      m.releaseKeptSpectrum();
+      ctx = m.newCaseContext(m.engine);
       Object.assign(out, {
         cases: plans.length,
         seconds: s,
@@ -191,10 +193,10 @@ async function measure(kind, threads) {
         const t = performance.now();
         let k = 0;
         // at least `runs` repetitions and half a second, after one warm-up
-        m.runPlannedCase(plan);
+        m.runPlannedCase(plan, ctx);
         while (k < runs || performance.now() - t < 500) {
           const t0 = performance.now();
-          m.runPlannedCase(plan);
+          m.runPlannedCase(plan, ctx);
           times.push(performance.now() - t0);
           k++;
         }

@@ -201,12 +201,7 @@ function stopOnSignals(): {
 }
 
 async function runCommand(files: string[], flags: RunFlags): Promise<number> {
-  const [{ runJobFile }, { DEFAULT_MAX_MEMORY }, { loadFastKernels }] = await Promise.all([
-    import('./run/run-job.js'),
-    import('./plan/planner.js'),
-    import('./kernels.js'),
-  ]);
-  loadFastKernels();
+  const [{ runJobFile }, { DEFAULT_MAX_MEMORY }] = await Promise.all([import('./run/run-job.js'), import('./plan/planner.js')]);
   const outcomes: JobOutcome[] = [];
   const namesInRun = new Map<string, string>();
   const stop = stopOnSignals();
@@ -286,14 +281,13 @@ async function runCommand(files: string[], flags: RunFlags): Promise<number> {
 }
 
 async function gatherCommand(files: string[], out: string): Promise<number> {
-  const [{ loadJobFile }, { expandJob }, { gatherJob }, { safeJoin }, { loadFastKernels }] = await Promise.all([
+  // Gathering computes nothing: no engine.
+  const [{ loadJobFile }, { expandJob }, { gatherJob }, { safeJoin }] = await Promise.all([
     import('./job/load.js'),
     import('./job/expand.js'),
     import('./run/gather.js'),
     import('./output/atomic.js'),
-    import('./kernels.js'),
   ]);
-  loadFastKernels();
   let status = 0;
   for (const file of files) {
     try {

@@ -1,9 +1,9 @@
 // The library API: the same job schema, planner, propagators and writers the command line uses.
-import { loadFastKernels } from './kernels.js';
-
-// The WebAssembly FFT kernel, when built; the TypeScript one otherwise (same results).
-loadFastKernels();
-export { loadFastKernels };
+// Nothing is loaded or started at import: computing takes an engine (createEngine: the WebAssembly
+// FFT kernel when built, the TypeScript one otherwise, same results) in a CaseContext.
+export { createEngine } from './kernels.js';
+export type { Engine } from './optics/engine.js';
+export { newCaseContext, type CaseContext } from './run/context.js';
 export { parseQuantity, formatLength, formatAngle } from './job/units.js';
 export { jobSchema, type JobSpec, type JobInput, type MethodRequest } from './job/schema.js';
 export { loadJobFile, parseJobText, validateJob, JobError, type LoadedJob, type JobProblem } from './job/load.js';

@@ -1,5 +1,6 @@
 // Shared helpers for tests: cases built like the job expander builds them, with nothing but the
 // physics given (the planner chooses grids unless a test says otherwise).
+import { testContext } from './engine.js';
 import type { Aperture, Illumination } from '../src/optics/aperture.js';
 import type { Case } from '../src/plan/types.js';
 import { xAt, yAt } from '../src/model/grid.js';
@@ -38,7 +39,7 @@ export function makeCase(s: CaseSpec): Case {
 
 export function runCase(s: CaseSpec) {
   const plan = planCase(makeCase(s));
-  const rec = runPlannedCase(plan);
+  const rec = runPlannedCase(plan, testContext());
   const c = rec.computed;
   const x = (col: number) => xAt(c, col);
   const y = (row: number) => yAt(c, row);

@@ -1,6 +1,6 @@
 // The angular spectrum in the frame of a tilted beam (src/optics/shifted-spectrum.ts): the carrier
 // taken out of the source, the grid shifted to where the beam lands.
-import { fftAxis, releaseSamples } from '../optics/field.js';
+import { fftAxis } from '../optics/field.js';
 import { nextPowerOfTwo } from '../optics/fft.js';
 import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor, propagateShiftedSpectrum, restoreCarrier } from '../optics/shifted-spectrum.js';
 import { axisPlan, windowOn } from '../plan/axis-plans.js';
@@ -102,10 +102,10 @@ function propagateShifted(plan: Plan, run: PropagationInputs): Propagated {
     ? sourceField1D(prof, ill, sourceAxis(plan.x, true), lam, 0, { sampleCarrier: false, obstructed })
     : sourceField2D(c.aperture, ill, sourceAxis(plan.x, true), sourceAxis(plan.y!, true), lam, { sampleCarrier: false, obstructed });
   const powerIn = src.power;
-  const grid = padField(src.field, plan.x.paddedSamples, oneD ? 1 : plan.y!.paddedSamples);
-  const res = propagateShiftedSpectrum(grid, z, [carrier[0], oneD ? 0 : carrier[1]], sh.centre, { taper: sh.taper, bandTaper: sh.bandTaper, inPlace: true });
+  const grid = padField(src.field, plan.x.paddedSamples, oneD ? 1 : plan.y!.paddedSamples, run.engine);
+  const res = propagateShiftedSpectrum(run.engine, grid, z, [carrier[0], oneD ? 0 : carrier[1]], sh.centre, { taper: sh.taper, bandTaper: sh.bandTaper, inPlace: true });
   const out = cropTo(res.field, outX, outY);
-  releaseSamples(grid.data);
+  run.engine.release(grid.data);
   if (plan.babinet) restoreCarrier(out, [carrier[0], oneD ? 0 : carrier[1]]);
   return { field: out, report: { bandLimitLoss: res.report.bandLimitLoss, evanescentLoss: res.report.evanescentLoss, bandLimit: [Infinity, Infinity] }, powerIn };
 }

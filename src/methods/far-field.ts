@@ -80,7 +80,7 @@ function costFarField(axes: AxisPlan[], layout: Layout, g: Geometry, c: Case): {
 
 const steps: SampledSteps = {
   fftLattice: false,
-  line: (src, plan, axis, carrier) => ({ field: propagateFarField(src, plan.case.distance, axis.output, null, [carrier, 0]) }),
+  line: (src, plan, axis, carrier, run) => ({ field: propagateFarField(run.engine, src, plan.case.distance, axis.output, null, [carrier, 0]) }),
   separable: (sx, sy, plan, outX, outY, carrier) => propagateFarFieldSeparable(sx, sy, plan.case.distance, outX, outY, carrier),
   plane(plan, run) {
     const c = plan.case;
@@ -88,6 +88,6 @@ const steps: SampledSteps = {
     const { field: src, power } = sampledSource2D(plan, run);
     // A centred round aperture in an untilted beam has a radially symmetric spectrum.
     const radial = isRound(c.aperture) && ill.tilt[0] === 0 && ill.tilt[1] === 0;
-    return { field: propagateFarField(src, c.distance, plan.x.output, plan.y ? plan.y.output : null, run.carrier, { radial }), powerIn: power };
+    return { field: propagateFarField(run.engine, src, c.distance, plan.x.output, plan.y ? plan.y.output : null, run.carrier, { radial }), powerIn: power };
   },
 };

@@ -33,13 +33,13 @@ export const fresnelDirect: MethodDescriptor = {
 
 const steps: SampledSteps = {
   fftLattice: false,
-  line(src, plan, axis, carrier) {
-    compensateCellResponse(src);
+  line(src, plan, axis, carrier, run) {
+    compensateCellResponse(run.engine, src);
     return { field: propagateFresnelDirect(src, plan.case.distance, axis.output, null, [carrier, 0]) };
   },
   plane(plan, run) {
     const { field: src, power } = sampledSource2D(plan, run);
-    compensateCellResponse(src);
+    compensateCellResponse(run.engine, src);
     return { field: propagateFresnelDirect(src, plan.case.distance, plan.x.output, plan.y ? plan.y.output : null, run.carrier), powerIn: power };
   },
 };

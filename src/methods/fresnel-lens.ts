@@ -88,9 +88,9 @@ export const fresnelLens: MethodDescriptor = {
     const ya = sourceAxis(plan.y!, false);
     const { field: src, power } = transmittanceSource(lens.pupil(xa, ya, c.wavelength), c.illumination, xa, ya, c.wavelength, { sampleCarrier: false });
     // Cell averages in, point samples for the transform (as the single-FFT form).
-    compensateCellResponse(src);
-    const grid = padField(src, plan.x.paddedSamples, plan.y!.paddedSamples);
-    const out = propagateFresnelSingleFFT(grid, c.distance, lens.focal);
+    compensateCellResponse(run.engine, src);
+    const grid = padField(src, plan.x.paddedSamples, plan.y!.paddedSamples, run.engine);
+    const out = propagateFresnelSingleFFT(run.engine, grid, c.distance, lens.focal);
     shiftByTilt(out, c.distance, [c.wavelength * run.carrier[0], c.wavelength * run.carrier[1]]);
     return { field: cropTo(out, plan.x.output, plan.y!.output), powerIn: power };
   },

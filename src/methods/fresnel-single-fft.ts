@@ -8,6 +8,7 @@ import { LIMITS } from '../plan/limits.js';
 import type { MethodDescriptor, FieldStep } from './types.js';
 import { paraxialUseWarning } from './use-warnings.js';
 import { paraxialValidity } from './validity.js';
+import type { Engine } from '../optics/engine.js';
 import type { Axis, Field } from '../optics/field.js';
 import { propagateFresnelSingleFFT } from '../optics/single-fft.js';
 import { compensateCellResponse, padField } from '../optics/spectral.js';
@@ -42,20 +43,20 @@ export const fresnelSingleFft: MethodDescriptor = {
  * The (cell-corrected) aperture samples zero-padded onto the FFT grid, the tilt carrier multiplied
  * in, and the window cut out of the output lattice.
  */
-function propagateSingleFft(src: Field, plan: Plan, padded: [number, number], outX: Axis, outY: Axis | null, carrier: [number, number]): FieldStep {
-  compensateCellResponse(src);
-  const grid = padField(src, padded[0], padded[1]);
+function propagateSingleFft(engine: Engine, src: Field, plan: Plan, padded: [number, number], outX: Axis, outY: Axis | null, carrier: [number, number]): FieldStep {
+  compensateCellResponse(engine, src);
+  const grid = padField(src, padded[0], padded[1], engine);
   multiplyCarrier(grid, carrier);
-  const out = propagateFresnelSingleFFT(grid, plan.case.distance);
+  const out = propagateFresnelSingleFFT(engine, grid, plan.case.distance);
   return { field: cropTo(out, outX, outY) };
 }
 
 const steps: SampledSteps = {
   fftLattice: false,
-  line: (src, plan, axis, carrier) => propagateSingleFft(src, plan, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]),
+  line: (src, plan, axis, carrier, run) => propagateSingleFft(run.engine, src, plan, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]),
   plane(plan, run) {
     const { field: src, power } = sampledSource2D(plan, run);
     const padded: [number, number] = [plan.x.paddedSamples, plan.y!.paddedSamples];
-    return { ...propagateSingleFft(src, plan, padded, plan.x.output, plan.y ? plan.y.output : null, run.carrier), powerIn: power };
+    return { ...propagateSingleFft(run.engine, src, plan, padded, plan.x.output, plan.y ? plan.y.output : null, run.carrier), powerIn: power };
   },
 };

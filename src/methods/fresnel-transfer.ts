@@ -50,6 +50,6 @@ const transfer: TransferOf = (grid, z) => ({ kind: 'fresnel', z, wavelength: gri
 
 const steps: SampledSteps = {
   fftLattice: true,
-  line: (src, plan, axis, carrier) => propagateOnGrid(src, plan, transfer, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]),
+  line: (src, plan, axis, carrier, run) => propagateOnGrid(run.engine, src, plan, transfer, [axis.paddedSamples, 1], axis.output, null, [carrier, 0]),
   plane: (plan, run) => transferOnGrid2D(plan, run, transfer),
 };

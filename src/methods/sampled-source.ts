@@ -14,7 +14,7 @@ export interface SampledSteps {
   /** The source is sampled on the FFT lattice, its carrier with it (the transfer forms). */
   fftLattice: boolean;
   /** One line: a 1-D aperture, or one factor of a separable one (carrier: that axis's). */
-  line(src: Field, plan: Plan, axis: AxisPlan, carrier: number): FieldStep;
+  line(src: Field, plan: Plan, axis: AxisPlan, carrier: number, run: PropagationInputs): FieldStep;
   /** Both factors of a separable aperture at once, where the form has a way of its own. */
   separable?(sx: Field, sy: Field, plan: Plan, outX: Axis, outY: Axis, carrier: [number, number]): Field;
   /** A 2-D grid (the source built by the step, or sampledSource2D). */
@@ -41,7 +41,7 @@ export function propagateSampled(plan: Plan, run: PropagationInputs, steps: Samp
     if (!isOneDAperture(c.aperture)) throw new Error('one-d layout for a 2-D aperture');
     const prof = separableProfiles(c.aperture)!.x;
     const src = sourceField1D(prof, ill, sourceAxis(plan.x, fft), lam, carrier[0], opts);
-    return { ...steps.line(src.field, plan, plan.x, carrier[0]), powerIn: src.power };
+    return { ...steps.line(src.field, plan, plan.x, carrier[0], run), powerIn: src.power };
   }
   if (plan.layout === 'separable') {
     const prof = separableProfiles(c.aperture)!;
@@ -51,8 +51,8 @@ export function propagateSampled(plan: Plan, run: PropagationInputs, steps: Samp
     const powerIn = sx.power * sy.power;
     if (steps.separable) return { field: steps.separable(sx.field, sy.field, plan, outX, outY!, carrier), powerIn };
     // Paraxial propagation factorises: U(x,y) = Ux(x)·Uy(y)·e^{−ikz} (each 1-D factor carries e^{ikz}).
-    const px = steps.line(sx.field, plan, plan.x, carrier[0]);
-    const py = steps.line(sy.field, plan, yPlan, carrier[1]);
+    const px = steps.line(sx.field, plan, plan.x, carrier[0], run);
+    const py = steps.line(sy.field, plan, yPlan, carrier[1], run);
     const f = createField(outX, outY, lam);
     const kz = propagationPhase(z, lam);
     for (let r = 0; r < f.ny; r++) {

@@ -5,7 +5,8 @@ import type { AxisPlan, Case, Checks, Layout, MethodForm, MethodName, MethodOpti
 import type { Geometry } from '../plan/geometry.js';
 import type { LensParaxial } from '../plan/paraxial.js';
 import type { Field } from '../optics/field.js';
-import type { SpectralReport } from '../optics/spectral.js';
+import type { Engine } from '../optics/engine.js';
+import type { SourceSpectrum, SpectralReport } from '../optics/spectral.js';
 
 /**
  * How a form computes, as the planner's checks, the source-spectrum sharing and the scheduler
@@ -76,8 +77,29 @@ export interface Propagated extends FieldStep {
   sourceSpectrum?: 'computed' | 'reused';
 }
 
+/**
+ * The spectrum of the last shared source a thread computed (plans with sharedSpectrum), kept for the
+ * sweep's next distance, with the padded grid the next distance writes into. The runner owns the
+ * holder (one per worker thread, or per run in the main thread: src/run/context.ts).
+ */
+export interface KeptSpectrum {
+  key: string;
+  spectrum: SourceSpectrum;
+  powerIn: number;
+  work?: Float64Array;
+}
+
+/** Where a thread's kept source spectrum lives between cases (null: none kept). */
+export interface SpectrumKeeper {
+  kept: KeptSpectrum | null;
+}
+
 /** What every form's propagation is given besides the plan. */
 export interface PropagationInputs {
+  /** The FFT kernel, threads and allocator to propagate with (optics/engine.ts). */
+  engine: Engine;
+  /** The runner's holder of the kept source spectrum (transfer forms with a shared source). */
+  spectra: SpectrumKeeper;
   /** The tilt's carrier frequencies (1/m). */
   carrier: [number, number];
   /** An obstacle in a Gaussian beam: propagated as the beam where the obstacle is not (not Babinet). */

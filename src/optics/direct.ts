@@ -1,7 +1,8 @@
 // Propagators that evaluate the diffraction integral directly onto a chosen output grid:
 // the Fresnel integral (single-transform form, paraxial) and the far-field formula.
 import { dft1, dft2, dft2AtPoints, interpolateSpectrum, tabulateSpectrum } from './dft.js';
-import { allocateSamples, axisAt, createField, isOneD, xAxisOf, yAxisOf, type Axis, type Field } from './field.js';
+import type { Engine } from './engine.js';
+import { axisAt, createField, isOneD, xAxisOf, yAxisOf, type Allocate, type Axis, type Field } from './field.js';
 import { propagationPhase, rotate } from './phase.js';
 import { cellResponse } from './spectral.js';
 import { hankel1Into } from './hankel.js';
@@ -47,11 +48,11 @@ export function propagateFresnelDirect(
  * thin lens of focal length `focal` folded in (its phase e^{−iπ(ξ²+η²)/(λf)} left out of the
  * samples), the residual chirp e^{iπ(ξ²+η²)(1/z − 1/f)/λ}: none at all in the focal plane.
  */
-export function withInputChirp(src: Field, z: number, focal?: number): Float64Array {
+export function withInputChirp(src: Field, z: number, allocate: Allocate = (values) => new Float64Array(values), focal?: number): Float64Array {
   const chirp = focal === undefined ? Math.PI / (src.wavelength * z) : (Math.PI * (1 / z - 1 / focal)) / src.wavelength;
-  // From the sample allocator: the single-FFT form transforms this copy, which an FFT team can
-  // share only in shared memory.
-  const u = allocateSamples(src.data.length);
+  // The single-FFT form transforms this copy, and passes its engine's allocate: an FFT team can
+  // share it only in shared memory.
+  const u = allocate(src.data.length);
   u.set(src.data);
   for (let r = 0; r < src.ny; r++) {
     const y = src.y0 + r * src.dy;
@@ -110,6 +111,7 @@ export interface FarFieldOptions {
  * (π N_F). For 1-D fields the prefactor is (z/r) e^{ikr}/√(iλr).
  */
 export function propagateFarField(
+  engine: Engine,
   src: Field,
   z: number,
   outX: Axis,
@@ -135,7 +137,7 @@ export function propagateFarField(
     else if (opts.pointByPoint || mappingError(sourceHalf(src), z, outX, outY, lam) <= tol) out.data.set(farFieldSpectrum2D(src, z, outX, outY, carrier, tol));
     // Wide windows: the spectrum tabulated once (FFT or chirp-z) and interpolated at each point,
     // within a stated bound of 5e-5 of the peak (spectrum-table.ts), instead of a sum per point.
-    else return farFieldByTable(src, z, outX, outY, carrier);
+    else return farFieldByTable(engine, src, z, outX, outY, carrier);
   }
   applyFarFieldFactor(out, z);
   return out;

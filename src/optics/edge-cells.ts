@@ -30,6 +30,7 @@ export interface GaussRule {
   w: Float64Array;
 }
 
+// Memo of a pure function (by its argument), not state: it never changes a result.
 const rules = new Map<number, GaussRule>();
 
 /**
@@ -93,6 +94,7 @@ interface Basis {
   A: Float64Array;
 }
 
+// Memo of a pure function (by its argument), not state: it never changes a result.
 const bases = new Map<number, Basis>();
 
 function lagrangeBasis(m: number): Basis {

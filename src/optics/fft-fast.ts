@@ -3,7 +3,7 @@
 //
 // - 'wasm-simd': WebAssembly with 128-bit SIMD (source: ./wasm/fft.ts, AssemblyScript, compiled by
 //   `npm run build:wasm` to dist/src/optics/wasm/fft.wasm; the program's entry points read that
-//   file (src/kernels.ts) and hand the bytes to installWasmFft, so this layer does no I/O). The data is
+//   file (src/kernels.ts) and hand the bytes to createFftKernel, so this layer does no I/O). The data is
 //   copied into the module's memory with each row padded by one cache line (a power-of-two row
 //   length would put a whole column in the same few cache sets), the row transforms run as the rows
 //   arrive, then the columns, B adjacent ones at a time, then the result is copied back. The
@@ -24,23 +24,23 @@ export type FastFftBackend = 'wasm-simd' | 'js';
  * In-place 2-D FFT of an ny×nx complex array held as two planes of nx·ny values each (row-major).
  * Same sign and 1/n convention as fft2 in ./fft.ts.
  */
-export function fft2Split(re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): void {
+export function fft2Split(k: FftKernel, re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): void {
   checkShape(nx, ny);
   if (re.length !== nx * ny || im.length !== nx * ny) {
     throw new Error(`fft2Split: planes of ${re.length} and ${im.length} values for a ${nx}×${ny} grid`);
   }
-  if (backend === 'wasm-simd' && wasmSplit(re, im, nx, ny, inverse)) return;
-  jsSplit(re, im, nx, ny, inverse);
+  if (k.backend === 'wasm-simd' && wasmSplit(k, re, im, nx, ny, inverse)) return;
+  jsSplit(k, re, im, nx, ny, inverse);
 }
 
 /** Drop-in for fft2 in ./fft.ts: in-place 2-D FFT of an ny×nx interleaved (re, im, …) array. */
-export function fft2Interleaved(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
+export function fft2Interleaved(k: FftKernel, data: Float64Array, nx: number, ny: number, inverse: boolean): void {
   checkShape(nx, ny);
   if (data.length !== 2 * nx * ny) {
     throw new Error(`fft2Interleaved: ${data.length} values for a ${nx}×${ny} complex grid`);
   }
-  if (backend === 'wasm-simd' && wasmInterleaved(data, nx, ny, inverse)) return;
-  jsInterleaved(data, nx, ny, inverse);
+  if (k.backend === 'wasm-simd' && wasmInterleaved(k, data, nx, ny, inverse)) return;
+  jsInterleaved(k, data, nx, ny, inverse);
 }
 
 /**
@@ -55,15 +55,16 @@ export function fft2Interleaved(data: Float64Array, nx: number, ny: number, inve
  * lets a part that a thread abandoned be done again by another from the untouched `src`.
  */
 export function transformRows(
+  k: FftKernel,
   src: Float64Array, dst: Float64Array, nx: number, ny: number, r0: number, r1: number, inverse: boolean,
   commit?: () => boolean,
 ): boolean {
   checkPiece(src, dst, nx, ny, r0, r1, ny, 'rows');
-  if (backend === 'wasm-simd') {
-    const done = wasmRows(src, dst, nx, r0, r1, inverse, commit);
+  if (k.backend === 'wasm-simd') {
+    const done = wasmRows(k, src, dst, nx, r0, r1, inverse, commit);
     if (done !== null) return done;
   }
-  return jsRows(src, dst, nx, r0, r1, inverse, commit);
+  return jsRows(k, src, dst, nx, r0, r1, inverse, commit);
 }
 
 /**
@@ -71,6 +72,7 @@ export function transformRows(
  * columns of `dst`; see transformRows. `src` must hold the row transforms already.
  */
 export function transformColumns(
+  k: FftKernel,
   src: Float64Array, dst: Float64Array, nx: number, ny: number, c0: number, c1: number, inverse: boolean,
   commit?: () => boolean,
 ): boolean {
@@ -82,11 +84,11 @@ export function transformColumns(
     if (dst !== src) dst.set(src.subarray(2 * c0, 2 * c1), 2 * c0);
     return true;
   }
-  if (backend === 'wasm-simd') {
-    const done = wasmCols(src, dst, nx, ny, c0, c1, inverse, commit);
+  if (k.backend === 'wasm-simd') {
+    const done = wasmCols(k, src, dst, nx, ny, c0, c1, inverse, commit);
     if (done !== null) return done;
   }
-  return jsCols(src, dst, nx, ny, c0, c1, inverse, commit);
+  return jsCols(k, src, dst, nx, ny, c0, c1, inverse, commit);
 }
 
 function checkPiece(
@@ -106,18 +108,18 @@ function blockFor(width: number, max: number): number {
   return Math.min(max, width & -width);
 }
 
-/** The kernel in use: 'wasm-simd' once installed (installWasmFft), else 'js'. */
-export function fastFftBackend(): FastFftBackend {
-  return backend;
+/** The kernel `k` uses: 'wasm-simd' when it was made with the module's bytes, else 'js'. */
+export function fastFftBackend(k: FftKernel): FastFftBackend {
+  return k.backend;
 }
 
 /**
  * Choose the kernel (for tests and benchmarks). Asking for 'wasm-simd' when the module could not
  * be loaded throws, with the reason.
  */
-export function useFastFftBackend(b: FastFftBackend): void {
-  if (b === 'wasm-simd' && !wasm) throw new Error(`WebAssembly FFT unavailable: ${wasmProblem}`);
-  backend = b;
+export function useFastFftBackend(k: FftKernel, b: FastFftBackend): void {
+  if (b === 'wasm-simd' && !k.wasm) throw new Error(`WebAssembly FFT unavailable: ${k.wasmProblem}`);
+  k.backend = b;
 }
 
 function checkShape(nx: number, ny: number): void {
@@ -133,6 +135,8 @@ interface Tables {
   tw: Float64Array; // per radix-4 stage of half-size L ≥ 2: L records (w^k, w^2k, w^3k), w = e^{-2πi/4L}
 }
 
+// Memo of a pure function (the permutation and twiddles of size n), not state: every kernel and
+// thread may read it; the WebAssembly kernels copy it into their own memory (FftKernel.wasmTables).
 const tables = new Map<number, Tables>();
 
 function log2(n: number): number {
@@ -248,18 +252,17 @@ function jsLanes(re: Float64Array, im: Float64Array, off: number, n: number, W: 
 /** Adjacent columns transformed together (JS kernel). */
 const JS_BLOCK = 16;
 
-const jsScratch = new Map<number, { re: Float64Array; im: Float64Array }>();
 
-function jsBuffers(len: number) {
-  let s = jsScratch.get(len);
+function jsBuffers(k: FftKernel, len: number) {
+  let s = k.jsScratch.get(len);
   if (!s) {
     s = { re: new Float64Array(len), im: new Float64Array(len) };
-    jsScratch.set(len, s);
+    k.jsScratch.set(len, s);
   }
   return s;
 }
 
-function jsSplit(re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): void {
+function jsSplit(k: FftKernel, re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): void {
   // The inverse: the forward transform of the exchanged planes.
   const R = inverse ? im : re, I = inverse ? re : im;
   const tx = tablesFor(nx);
@@ -290,7 +293,7 @@ function jsSplit(re: Float64Array, im: Float64Array, nx: number, ny: number, inv
   if (ny === 1) return;
   const ty = tablesFor(ny);
   const B = Math.min(JS_BLOCK, nx);
-  const s = jsBuffers(B * ny);
+  const s = jsBuffers(k, B * ny);
   const sr = s.re, si = s.im, rv = ty.rev;
   const sy = inverse ? 1 / ny : 1;
   for (let c0 = 0; c0 < nx; c0 += B) {
@@ -314,10 +317,10 @@ function jsSplit(re: Float64Array, im: Float64Array, nx: number, ny: number, inv
   }
 }
 
-function jsInterleaved(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
+function jsInterleaved(k: FftKernel, data: Float64Array, nx: number, ny: number, inverse: boolean): void {
   const tx = tablesFor(nx);
   const rev = tx.rev;
-  const s = jsBuffers(Math.max(nx, ny > 1 ? Math.min(JS_BLOCK, nx) * ny : 0));
+  const s = jsBuffers(k, Math.max(nx, ny > 1 ? Math.min(JS_BLOCK, nx) * ny : 0));
   // The inverse: the forward transform with real and imaginary parts exchanged.
   const sr = inverse ? s.im : s.re, si = inverse ? s.re : s.im;
   const sx = inverse ? 1 / nx : 1;
@@ -360,20 +363,19 @@ function jsInterleaved(data: Float64Array, nx: number, ny: number, inverse: bool
   }
 }
 
-// Scratch for the parts (transformRows, transformColumns), grown to the largest part asked for.
-let piece = { re: new Float64Array(0), im: new Float64Array(0) };
 
-function pieceBuffers(len: number) {
-  if (piece.re.length < len) piece = { re: new Float64Array(len), im: new Float64Array(len) };
-  return piece;
+function pieceBuffers(k: FftKernel, len: number) {
+  if (k.piece.re.length < len) k.piece = { re: new Float64Array(len), im: new Float64Array(len) };
+  return k.piece;
 }
 
 function jsRows(
+  k: FftKernel,
   src: Float64Array, dst: Float64Array, nx: number, r0: number, r1: number, inverse: boolean, commit?: () => boolean,
 ): boolean {
   const tx = tablesFor(nx);
   const rev = tx.rev;
-  const s = pieceBuffers((r1 - r0) * nx);
+  const s = pieceBuffers(k, (r1 - r0) * nx);
   const sr = inverse ? s.im : s.re, si = inverse ? s.re : s.im;
   const sx = inverse ? 1 / nx : 1;
   for (let r = r0; r < r1; r++) {
@@ -397,6 +399,7 @@ function jsRows(
 }
 
 function jsCols(
+  k: FftKernel,
   src: Float64Array, dst: Float64Array, nx: number, ny: number, c0: number, c1: number, inverse: boolean,
   commit?: () => boolean,
 ): boolean {
@@ -404,7 +407,7 @@ function jsCols(
   const rv = ty.rev;
   const width = c1 - c0;
   const B = blockFor(width, JS_BLOCK);
-  const s = pieceBuffers(ny * width);
+  const s = pieceBuffers(k, ny * width);
   const sr = inverse ? s.im : s.re, si = inverse ? s.re : s.im;
   const sy = inverse ? 1 / ny : 1;
   for (let b0 = 0; b0 < width; b0 += B) {
@@ -472,28 +475,71 @@ const PAD = 64;
 /** Adjacent columns transformed together (WebAssembly kernel). */
 const WASM_BLOCK = 16;
 
-let wasmProblem = 'the WebAssembly kernel was not installed (installWasmFft)';
-let wasm: WasmFft | null = null;
-let backend: FastFftBackend = 'js';
+/**
+ * One thread's FFT kernel and everything it keeps: the compiled WebAssembly module (if any) and its
+ * memory, the tables written there, the kernel in use, scratch for the TypeScript kernel, and the
+ * shared memory of a team it is attached to. Made by createFftKernel and owned by an engine
+ * (engine.ts); every function here that transforms takes it, so no state is kept by this module
+ * except the per-size tables of tablesFor (a memo of a pure function).
+ */
+export interface FftKernel {
+  backend: FastFftBackend;
+  wasm: WasmFft | null;
+  /** Why the WebAssembly kernel is not there, for useFastFftBackend's error. */
+  wasmProblem: string;
+  wasmTables: Map<number, WasmTables>;
+  /** End of the tables in the module's memory; the data goes after it, per call. */
+  tableTop: number;
+  /** View of the module's memory, renewed when it grows. */
+  heap: Float64Array;
+  /** The compiled module's bytes, kept to instantiate it again on a shared memory. */
+  moduleBytes: Uint8Array | null;
+  shared: SharedKernel | null;
+  jsScratch: Map<number, { re: Float64Array; im: Float64Array }>;
+  /** Scratch for the parts (transformRows, transformColumns), grown to the largest part asked for. */
+  piece: { re: Float64Array; im: Float64Array };
+}
 
 /**
- * Compiles the WebAssembly kernel from its bytes and makes it the default; false (with the reason
- * kept for useFastFftBackend's error) when it cannot be compiled, which leaves the TypeScript kernel.
+ * A kernel: the WebAssembly one compiled from `bytes` when given and compilable (else the
+ * TypeScript one, with `whyMissing` or the compiler's reason kept for useFastFftBackend).
  */
-export function installWasmFft(bytes: Uint8Array | null, whyMissing = 'fft.wasm not found'): boolean {
-  if (wasm) return true;
+export function createFftKernel(bytes: Uint8Array | null, whyMissing = 'no WebAssembly kernel given'): FftKernel {
+  const k: FftKernel = {
+    backend: 'js',
+    wasm: null,
+    wasmProblem: whyMissing,
+    wasmTables: new Map(),
+    tableTop: 0,
+    heap: new Float64Array(0),
+    moduleBytes: null,
+    shared: null,
+    jsScratch: new Map(),
+    piece: { re: new Float64Array(0), im: new Float64Array(0) },
+  };
+  installWasmFft(k, bytes, whyMissing);
+  return k;
+}
+
+
+/**
+ * Compiles the WebAssembly kernel from its bytes into `k` and makes it k's kernel; false (with the
+ * reason kept for useFastFftBackend's error) when it cannot be compiled, which leaves the TypeScript kernel.
+ */
+function installWasmFft(k: FftKernel, bytes: Uint8Array | null, whyMissing = 'fft.wasm not found'): boolean {
+  if (k.wasm) return true;
   if (!bytes) {
-    wasmProblem = whyMissing;
+    k.wasmProblem = whyMissing;
     return false;
   }
   try {
     const instance = new WebAssembly.Instance(new WebAssembly.Module(bytes), {});
-    wasm = instance.exports as unknown as WasmFft;
-    moduleBytes = bytes;
-    backend = 'wasm-simd';
+    k.wasm = instance.exports as unknown as WasmFft;
+    k.moduleBytes = bytes;
+    k.backend = 'wasm-simd';
     return true;
   } catch (e) {
-    wasmProblem = `fft.wasm could not be compiled: ${(e as Error).message}`;
+    k.wasmProblem = `fft.wasm could not be compiled: ${(e as Error).message}`;
     return false;
   }
 }
@@ -503,12 +549,9 @@ interface WasmTables {
   tw: number;
 }
 
-const wasmTables = new Map<number, WasmTables>();
-let tableTop = 0; // end of the tables in the module's memory; the data goes after it, per call
-let heap = new Float64Array(0); // view of the module's memory, renewed when it grows
 
 /** Make the module's memory at least `end` bytes; false when it cannot grow. */
-function reserve(w: WasmFft, end: number): boolean {
+function reserve(k: FftKernel, w: WasmFft, end: number): boolean {
   const have = w.memory.buffer.byteLength;
   if (end > have) {
     try {
@@ -517,7 +560,7 @@ function reserve(w: WasmFft, end: number): boolean {
       return false;
     }
   }
-  if (heap.buffer !== w.memory.buffer) heap = new Float64Array(w.memory.buffer);
+  if (k.heap.buffer !== w.memory.buffer) k.heap = new Float64Array(w.memory.buffer);
   return true;
 }
 
@@ -525,48 +568,48 @@ function align64(n: number): number {
   return Math.ceil(n / 64) * 64;
 }
 
-function wasmTablesFor(w: WasmFft, n: number): WasmTables | null {
-  let t = wasmTables.get(n);
+function wasmTablesFor(k: FftKernel, w: WasmFft, n: number): WasmTables | null {
+  let t = k.wasmTables.get(n);
   if (t) return t;
   const js = tablesFor(n);
-  if (tableTop === 0) tableTop = align64(w.heapBase());
-  const rev = tableTop;
+  if (k.tableTop === 0) k.tableTop = align64(w.heapBase());
+  const rev = k.tableTop;
   const tw = align64(rev + 4 * n);
   const end = align64(tw + 8 * Math.max(1, js.tw.length));
-  if (!reserve(w, end)) return null;
+  if (!reserve(k, w, end)) return null;
   new Uint32Array(w.memory.buffer, rev, n).set(js.rev);
-  heap.set(js.tw, tw / 8);
-  tableTop = end;
+  k.heap.set(js.tw, tw / 8);
+  k.tableTop = end;
   t = { rev, tw };
-  wasmTables.set(n, t);
+  k.wasmTables.set(n, t);
   return t;
 }
 
 /** Lay out a call: tables, then `dataBytes` of data, then two scratch planes. */
-function wasmLayout(w: WasmFft, nx: number, ny: number, R: number, B: number, dataBytes: number) {
-  const tx = wasmTablesFor(w, nx);
-  const ty = ny > 1 ? wasmTablesFor(w, ny) : tx;
+function wasmLayout(k: FftKernel, w: WasmFft, nx: number, ny: number, R: number, B: number, dataBytes: number) {
+  const tx = wasmTablesFor(k, w, nx);
+  const ty = ny > 1 ? wasmTablesFor(k, w, ny) : tx;
   if (!tx || !ty) return null;
-  return wasmArea(w, tx, ty, dataBytes, Math.max(nx * R, ny > 1 ? ny * B : 0));
+  return wasmArea(k, w, tx, ty, dataBytes, Math.max(nx * R, ny > 1 ? ny * B : 0));
 }
 
 /** After the tables: `dataBytes` of data, then two scratch planes of `planeValues` f64 each. */
-function wasmArea(w: WasmFft, tx: WasmTables, ty: WasmTables, dataBytes: number, planeValues: number) {
-  const base = tableTop;
+function wasmArea(k: FftKernel, w: WasmFft, tx: WasmTables, ty: WasmTables, dataBytes: number, planeValues: number) {
+  const base = k.tableTop;
   const plane = align64(8 * planeValues);
   const sre = align64(base + dataBytes);
   const sim = sre + plane;
-  if (!reserve(w, sim + plane)) return null;
+  if (!reserve(k, w, sim + plane)) return null;
   return { tx, ty, base, sre, sim };
 }
 
-function wasmInterleaved(data: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
-  const w = wasm!;
+function wasmInterleaved(k: FftKernel, data: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
+  const w = k.wasm!;
   const R = ny >= 4 ? 4 : 2;
   const B = Math.min(WASM_BLOCK, nx);
   const rowLen = 2 * nx; // values per row
   const stride = ny > 1 ? 16 * nx + PAD : 16 * nx; // bytes per row in the module
-  const L = wasmLayout(w, nx, ny, R, B, stride * ny);
+  const L = wasmLayout(k, w, nx, ny, R, B, stride * ny);
   if (!L) return false;
   const { tx, ty, base, sre, sim } = L;
   const swap = inverse ? 1 : 0;
@@ -575,20 +618,20 @@ function wasmInterleaved(data: Float64Array, nx: number, ny: number, inverse: bo
   // copy R rows in, transform them while they are in cache, go on
   for (let r0 = 0; r0 < ny; r0 += R) {
     const g = Math.min(R, ny - r0);
-    for (let r = r0; r < r0 + g; r++) heap.set(data.subarray(r * rowLen, (r + 1) * rowLen), at + r * step);
+    for (let r = r0; r < r0 + g; r++) k.heap.set(data.subarray(r * rowLen, (r + 1) * rowLen), at + r * step);
     w.rowsInterleaved(base + r0 * stride, nx, g, stride, R, tx.rev, tx.tw, sre, sim, swap, sx);
   }
   if (ny > 1) w.colsInterleaved(base, nx, ny, stride, B, ty.rev, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
-  for (let r = 0; r < ny; r++) data.set(heap.subarray(at + r * step, at + r * step + rowLen), r * rowLen);
+  for (let r = 0; r < ny; r++) data.set(k.heap.subarray(at + r * step, at + r * step + rowLen), r * rowLen);
   return true;
 }
 
-function wasmSplit(re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
-  const w = wasm!;
+function wasmSplit(k: FftKernel, re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
+  const w = k.wasm!;
   const R = ny >= 4 ? 4 : 2;
   const B = Math.min(WASM_BLOCK, nx);
   const stride = ny > 1 ? 8 * nx + PAD : 8 * nx;
-  const L = wasmLayout(w, nx, ny, R, B, 2 * stride * ny);
+  const L = wasmLayout(k, w, nx, ny, R, B, 2 * stride * ny);
   if (!L) return false;
   const { tx, ty, base, sre, sim } = L;
   const pr = base, pi = base + stride * ny;
@@ -598,15 +641,15 @@ function wasmSplit(re: Float64Array, im: Float64Array, nx: number, ny: number, i
   for (let r0 = 0; r0 < ny; r0 += R) {
     const g = Math.min(R, ny - r0);
     for (let r = r0; r < r0 + g; r++) {
-      heap.set(re.subarray(r * nx, (r + 1) * nx), ar + r * step);
-      heap.set(im.subarray(r * nx, (r + 1) * nx), ai + r * step);
+      k.heap.set(re.subarray(r * nx, (r + 1) * nx), ar + r * step);
+      k.heap.set(im.subarray(r * nx, (r + 1) * nx), ai + r * step);
     }
     w.rowsSplit(pr + r0 * stride, pi + r0 * stride, nx, g, stride, R, tx.rev, tx.tw, sre, sim, swap, sx);
   }
   if (ny > 1) w.colsSplit(pr, pi, nx, ny, stride, B, ty.rev, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
   for (let r = 0; r < ny; r++) {
-    re.set(heap.subarray(ar + r * step, ar + r * step + nx), r * nx);
-    im.set(heap.subarray(ai + r * step, ai + r * step + nx), r * nx);
+    re.set(k.heap.subarray(ar + r * step, ar + r * step + nx), r * nx);
+    im.set(k.heap.subarray(ai + r * step, ai + r * step + nx), r * nx);
   }
   return true;
 }
@@ -615,42 +658,44 @@ function wasmSplit(re: Float64Array, im: Float64Array, nx: number, ny: number, i
 // when the module's memory cannot be had (the caller then uses the TypeScript kernel).
 
 function wasmRows(
+  k: FftKernel,
   src: Float64Array, dst: Float64Array, nx: number, r0: number, r1: number, inverse: boolean, commit?: () => boolean,
 ): boolean | null {
-  const w = wasm!;
-  const k = r1 - r0;
-  const R = k >= 4 ? 4 : 2;
-  const tx = wasmTablesFor(w, nx);
+  const w = k.wasm!;
+  const rows = r1 - r0;
+  const R = rows >= 4 ? 4 : 2;
+  const tx = wasmTablesFor(k, w, nx);
   if (!tx) return null;
   // Rows need no padding: they are read whole, not down a column.
-  const L = wasmArea(w, tx, tx, 16 * nx * k, nx * R);
+  const L = wasmArea(k, w, tx, tx, 16 * nx * rows, nx * R);
   if (!L) return null;
   const at = L.base / 8;
-  heap.set(src.subarray(2 * r0 * nx, 2 * r1 * nx), at);
-  w.rowsInterleaved(L.base, nx, k, 16 * nx, R, tx.rev, tx.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / nx : 1);
+  k.heap.set(src.subarray(2 * r0 * nx, 2 * r1 * nx), at);
+  w.rowsInterleaved(L.base, nx, rows, 16 * nx, R, tx.rev, tx.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / nx : 1);
   if (commit && !commit()) return false;
-  dst.set(heap.subarray(at, at + 2 * k * nx), 2 * r0 * nx);
+  dst.set(k.heap.subarray(at, at + 2 * rows * nx), 2 * r0 * nx);
   return true;
 }
 
 function wasmCols(
+  k: FftKernel,
   src: Float64Array, dst: Float64Array, nx: number, ny: number, c0: number, c1: number, inverse: boolean,
   commit?: () => boolean,
 ): boolean | null {
-  const w = wasm!;
+  const w = k.wasm!;
   const width = c1 - c0;
   const B = blockFor(width, WASM_BLOCK);
   // One block of B columns is read row after row, contiguously; wider parts get the padded rows.
   const stride = width > B ? 16 * width + PAD : 16 * width;
-  const ty = wasmTablesFor(w, ny);
+  const ty = wasmTablesFor(k, w, ny);
   if (!ty) return null;
-  const L = wasmArea(w, ty, ty, stride * ny, ny * B);
+  const L = wasmArea(k, w, ty, ty, stride * ny, ny * B);
   if (!L) return null;
   const at = L.base / 8, step = stride / 8, len = 2 * width;
-  for (let r = 0; r < ny; r++) copyValues(src, 2 * (r * nx + c0), heap, at + r * step, len);
+  for (let r = 0; r < ny; r++) copyValues(src, 2 * (r * nx + c0), k.heap, at + r * step, len);
   w.colsInterleaved(L.base, width, ny, stride, B, ty.rev, ty.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / ny : 1);
   if (commit && !commit()) return false;
-  for (let r = 0; r < ny; r++) copyValues(heap, at + r * step, dst, 2 * (r * nx + c0), len);
+  for (let r = 0; r < ny; r++) copyValues(k.heap, at + r * step, dst, 2 * (r * nx + c0), len);
   return true;
 }
 
@@ -675,8 +720,6 @@ function copyValues(src: Float64Array, from: number, dst: Float64Array, to: numb
 // place (sharedColumns), and the result is copied out row by row (sharedRowsOut). Same kernel,
 // same layout (padded rows), same arithmetic: all parts together give fft2Interleaved's result.
 
-/** The compiled module's bytes, kept to instantiate it again on a shared memory. */
-let moduleBytes: Uint8Array | null = null;
 
 /** Pages of the shared memory at most (the 4 GiB of 32-bit WebAssembly). */
 const SHARED_MAX_PAGES = 65536;
@@ -687,7 +730,6 @@ interface SharedKernel {
   heap: Float64Array;
 }
 
-let shared: SharedKernel | null = null;
 
 /**
  * The module rewritten to take its memory from the importer ("env", "memory", shared) instead of
@@ -736,8 +778,8 @@ function importingSharedMemory(bytes: Uint8Array): Uint8Array {
  * A memory for a team's transforms, shared between threads (post it to them); null when the
  * WebAssembly kernel is not installed or shared memory cannot be had.
  */
-export function createSharedFftMemory(): object | null {
-  if (!moduleBytes) return null;
+export function createSharedFftMemory(k: FftKernel): object | null {
+  if (!k.moduleBytes) return null;
   try {
     return new WebAssembly.Memory({ initial: 1, maximum: SHARED_MAX_PAGES, shared: true });
   } catch {
@@ -746,20 +788,20 @@ export function createSharedFftMemory(): object | null {
 }
 
 /** Runs this thread's shared passes on `memory` (from createSharedFftMemory); null detaches. */
-export function attachSharedFftMemory(memory: object | null): boolean {
+export function attachSharedFftMemory(k: FftKernel, memory: object | null): boolean {
   if (memory === null) {
-    shared = null;
+    k.shared = null;
     return true;
   }
-  if (shared && shared.memory === memory) return true;
-  if (!moduleBytes) return false;
+  if (k.shared && k.shared.memory === memory) return true;
+  if (!k.moduleBytes) return false;
   try {
     const m = memory as WasmMemory;
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(importingSharedMemory(moduleBytes)), { env: { memory: m } });
-    shared = { memory: m, w: instance.exports as unknown as WasmFft, heap: new Float64Array(m.buffer) };
+    const instance = new WebAssembly.Instance(new WebAssembly.Module(importingSharedMemory(k.moduleBytes)), { env: { memory: m } });
+    k.shared = { memory: m, w: instance.exports as unknown as WasmFft, heap: new Float64Array(m.buffer) };
     return true;
   } catch {
-    shared = null;
+    k.shared = null;
     return false;
   }
 }
@@ -785,8 +827,8 @@ export interface SharedLayout {
  * there and grows the memory as needed; null when that is not possible. Call it while no thread
  * is transforming in the memory.
  */
-export function sharedLayout(nx: number, ny: number, slots: number): SharedLayout | null {
-  const sh = shared;
+export function sharedLayout(k: FftKernel, nx: number, ny: number, slots: number): SharedLayout | null {
+  const sh = k.shared;
   if (!sh) return null;
   checkShape(nx, ny);
   const tx = tablesFor(nx), ty = tablesFor(ny);
@@ -821,15 +863,15 @@ function sharedHeap(sh: SharedKernel, end: number): Float64Array {
   return sh.heap;
 }
 
-function attached(L: SharedLayout): SharedKernel {
-  if (!shared) throw new Error('no shared FFT memory attached in this thread (attachSharedFftMemory)');
-  if (shared.memory.buffer.byteLength < L.end) throw new Error('the shared FFT memory is smaller than the layout');
-  return shared;
+function attached(k: FftKernel, L: SharedLayout): SharedKernel {
+  if (!k.shared) throw new Error('no shared FFT memory attached in this thread (attachSharedFftMemory)');
+  if (k.shared.memory.buffer.byteLength < L.end) throw new Error('the shared FFT memory is smaller than the layout');
+  return k.shared;
 }
 
 /** Rows [r0, r1) of `data` (ny×nx interleaved) copied into the shared memory and transformed there. */
-export function sharedRowsIn(L: SharedLayout, data: Float64Array, r0: number, r1: number, inverse: boolean, slot: number): void {
-  const sh = attached(L);
+export function sharedRowsIn(k: FftKernel, L: SharedLayout, data: Float64Array, r0: number, r1: number, inverse: boolean, slot: number): void {
+  const sh = attached(k, L);
   const heap = sharedHeap(sh, L.end);
   const { nx, stride } = L;
   const R = 4;
@@ -843,8 +885,8 @@ export function sharedRowsIn(L: SharedLayout, data: Float64Array, r0: number, r1
 }
 
 /** Columns [c0, c1) (even bounds) transformed in place in the shared memory. */
-export function sharedColumns(L: SharedLayout, c0: number, c1: number, inverse: boolean, slot: number): void {
-  const sh = attached(L);
+export function sharedColumns(k: FftKernel, L: SharedLayout, c0: number, c1: number, inverse: boolean, slot: number): void {
+  const sh = attached(k, L);
   const sre = L.scratch + 2 * slot * L.plane, sim = sre + L.plane;
   const width = c1 - c0;
   if (c0 % 2 !== 0 || width % 2 !== 0) throw new Error(`sharedColumns: columns ${c0}..${c1} must start and end on even indices`);
@@ -852,8 +894,8 @@ export function sharedColumns(L: SharedLayout, c0: number, c1: number, inverse: 
 }
 
 /** Rows [r0, r1) of the result copied out to `data`, if `commit` (asked first) allows. */
-export function sharedRowsOut(L: SharedLayout, data: Float64Array, r0: number, r1: number, commit?: () => boolean): boolean {
-  const sh = attached(L);
+export function sharedRowsOut(k: FftKernel, L: SharedLayout, data: Float64Array, r0: number, r1: number, commit?: () => boolean): boolean {
+  const sh = attached(k, L);
   const heap = sharedHeap(sh, L.end);
   if (commit && !commit()) return false;
   const rowLen = 2 * L.nx, step = L.stride / 8, at = L.data / 8;

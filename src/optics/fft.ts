@@ -1,9 +1,9 @@
-// Complex FFTs on interleaved Float64Arrays. fft2 runs the fast kernels of fft-fast.ts (WebAssembly
-// SIMD once installed, else TypeScript); fft2Reference is the straightforward row-then-column use
-// of fft.js that they are tested against (to 1e-12; in practice they agree bit for bit). Plans
-// (twiddle tables) are made once per size and kept, because sweeps transform many fields alike.
+// FFT helpers, and fft2Reference: the straightforward row-then-column use of fft.js that the fast
+// kernels (fft-fast.ts, run through an Engine, engine.ts) are tested against (to 1e-12; in
+// practice they agree bit for bit). Plans (twiddle tables) are made once per size and kept, because
+// sweeps transform many fields alike: the maps below are memos of pure functions (and fft.js's
+// scratch rows), not state that changes a result.
 import FFT from 'fft.js';
-import { fft2Interleaved } from './fft-fast.js';
 
 const plans = new Map<number, FFT>();
 const scratch = new Map<number, { a: Float64Array; b: Float64Array }>();
@@ -34,29 +34,6 @@ export function nextPowerOfTwo(n: number): number {
   let p = 2;
   while (p < n) p *= 2;
   return p;
-}
-
-/**
- * Something that can do an fft2 call another way (threads sharing one transform, installed by
- * src/parallel): it answers false to decline, and fft2 then runs in this thread. Its result must be
- * the one fft2Interleaved gives. Kept here as a plain function so that optics knows no threads.
- */
-export type Fft2Executor = (data: Float64Array, nx: number, ny: number, inverse: boolean) => boolean;
-
-let executor: Fft2Executor | null = null;
-
-/** Route fft2 through `fn` (null: back to this thread only). */
-export function installFft2Executor(fn: Fft2Executor | null): void {
-  executor = fn;
-}
-
-/**
- * In-place 2-D FFT of an ny×nx interleaved complex array (ny = 1 gives a 1-D transform).
- * Forward: X[k] = Σ x[j] e^{-2πi jk/n}; inverse includes the 1/n factor per axis.
- */
-export function fft2(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
-  if (executor !== null && ny > 1 && executor(data, nx, ny, inverse)) return;
-  fft2Interleaved(data, nx, ny, inverse);
 }
 
 /** The same transform by fft.js, row by row then column by column: the reference for the fast kernels. */

@@ -32,53 +32,19 @@ export function fftAxis(n: number, step: number): Axis {
   return { n, start: -Math.floor(n / 2) * step, step };
 }
 
-/**
- * Where large sample arrays come from: while threads share FFTs (src/parallel) they must live in
- * shared memory. The allocator answers null for arrays it leaves to the default.
- */
-export type SampleAllocator = (values: number) => Float64Array | null;
+/** Where a field's samples come from (an engine's allocate); a plain zeroed array by default. */
+export type Allocate = (values: number) => Float64Array;
 
-let sampleAllocator: SampleAllocator | null = null;
-
-export function installSampleAllocator(fn: SampleAllocator | null): void {
-  sampleAllocator = fn;
-  // A kept array came from the allocator before this one; it is not handed out under the new one.
-  pooled = null;
-}
+const plainArray: Allocate = (values) => new Float64Array(values);
 
 /**
- * One large array given back (releaseSamples) and kept for the next allocation of the same size:
- * on this machine class the first write to each page of a fresh array costs more than the whole
- * zeroing of a used one (a 4096² grid: about 250 ms of page faults against 40 ms), and cases of a
- * sweep mostly ask for the same padded grid.
+ * A zeroed field on these axes. Arrays an engine will transform come from its `allocate` (while
+ * threads share transforms they must live in shared memory; sweeps reuse a pooled grid).
  */
-let pooled: Float64Array | null = null;
-
-/** Arrays from this many numbers are worth keeping (4 MB). */
-const POOL_MIN_VALUES = 2 ** 19;
-
-/** A zeroed Float64Array of `values` numbers, from the installed allocator if it takes it. */
-export function allocateSamples(values: number): Float64Array {
-  const p = pooled;
-  if (p && p.length === values) {
-    pooled = null;
-    return p.fill(0);
-  }
-  return sampleAllocator?.(values) ?? new Float64Array(values);
-}
-
-/**
- * Gives back a large array that nothing will read or write again, for allocateSamples to hand out
- * (zeroed) instead of a fresh one; it replaces an array kept before.
- */
-export function releaseSamples(a: Float64Array): void {
-  if (a.length >= POOL_MIN_VALUES) pooled = a;
-}
-
-export function createField(xAxis: Axis, yAxis: Axis | null, wavelength: number): Field {
+export function createField(xAxis: Axis, yAxis: Axis | null, wavelength: number, allocate: Allocate = plainArray): Field {
   const ny = yAxis ? yAxis.n : 1;
   return {
-    data: allocateSamples(2 * xAxis.n * ny),
+    data: allocate(2 * xAxis.n * ny),
     nx: xAxis.n,
     ny,
     dx: xAxis.step,

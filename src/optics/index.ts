@@ -14,7 +14,9 @@ export {
 } from './spectral.js';
 export { propagateFresnelDirect, propagateFarField, propagateFarFieldSeparable } from './direct.js';
 export { freeField, complementInPlace } from './free.js';
-export { fft2, nextPowerOfTwo, isPowerOfTwo, binFrequency } from './fft.js';
+export { nextPowerOfTwo, isPowerOfTwo, binFrequency } from './fft.js';
+export { singleThreadEngine, type Engine } from './engine.js';
+export { createFftKernel, type FftKernel } from './fft-fast.js';
 export { dft1, dft2, dft2AtPoints } from './dft.js';
 export { rsDirect1D, rsPerPeriod1D, periodicAxis, cellsFromIntervals, rsMaxCell, rsAreaSamplingError, rsDirect2D, costRsDirect1D, costRsPerPeriod1D, costRsDirect2D, RS_PHASE_BUDGET, rsCells2DFromAperture, rsSum2D, rs2DSampling, costRsSum2D, type Interval, type Light1D, type RsCells, type PeriodicAperture, type RsCells2D } from './rayleigh-sommerfeld.js';
 export { propagateShiftedSpectrum, restoreCarrier, shiftedGridFor } from './shifted-spectrum.js';

@@ -20,6 +20,7 @@ export function glRule(n: number): GaussRule {
 const OMEGA_SCAN_MAX = 400;
 const OMEGA_SCAN_STEP = 0.01;
 
+// Memo of a pure function (by its argument), not state: it never changes a result.
 const gaussLimits = new Map<string, number>();
 
 /**
@@ -59,6 +60,7 @@ interface Antiderivative {
   M: Float64Array;
 }
 
+// Memo of a pure function (by its argument), not state: it never changes a result.
 const antiderivatives = new Map<number, Antiderivative>();
 
 /** Solves V·X = I (n × n, row-major) by Gaussian elimination with partial pivoting. */
@@ -97,6 +99,7 @@ function invert(V: Float64Array, n: number): Float64Array {
   return inv;
 }
 
+// Memo of a pure function (by its argument), not state: it never changes a result.
 const interpolants = new Map<number, Float64Array>();
 
 /**
@@ -174,6 +177,7 @@ export function clenshaw(a: Float64Array, off: number, deg: number, t: number): 
   return t * b1 - b2 + a[off]!;
 }
 
+// Memo of a pure function (by its argument), not state: it never changes a result.
 const partialLimits = new Map<string, number>();
 
 /**
@@ -221,6 +225,7 @@ export function partialPhaseLimit(n: number, eps: number): number {
 
 // --- Interpolation along a radius -------------------------------------------------------------
 
+// Memo of a pure function (by its argument), not state: it never changes a result.
 const lagrangeLimits = new Map<string, number>();
 
 /**

@@ -49,8 +49,9 @@
 //
 // Pure: typed arrays in and out, no I/O, no module state.
 import { erfc } from './special.js';
-import { binFrequency, fft2, nextPowerOfTwo } from './fft.js';
-import { allocateSamples, isOneD, type Field } from './field.js';
+import type { Engine } from './engine.js';
+import { binFrequency, nextPowerOfTwo } from './fft.js';
+import { isOneD, type Field } from './field.js';
 import { propagationPhase } from './phase.js';
 import { bandLimitFrequency, cellResponse, toSpectrum, type SourceSpectrum } from './spectral.js';
 
@@ -147,6 +148,7 @@ export function frequencyLandingAt(X: number, other: number, wavelength: number,
  * (|f|² = (g + f_cx)² + f_cy², exact); centre[1] is ignored.
  */
 export function propagateShiftedSpectrum(
+  engine: Engine,
   envelope: Field,
   z: number,
   carrier: [number, number],
@@ -166,17 +168,17 @@ export function propagateShiftedSpectrum(
   let total: number;
   let src: Float64Array;
   if (spectrumIn) {
-    data = opts.inPlace ? envelope.data : allocateSamples(envelope.data.length);
+    data = opts.inPlace ? envelope.data : engine.allocate(envelope.data.length);
     src = spectrumIn.data;
     total = spectrumIn.totalPower;
   } else {
     if (opts.inPlace) data = envelope.data;
     else {
-      data = allocateSamples(envelope.data.length);
+      data = engine.allocate(envelope.data.length);
       data.set(envelope.data);
     }
     const work: Field = { ...envelope, data };
-    total = toSpectrum(work);
+    total = toSpectrum(engine, work);
     src = data;
   }
   const mode: ShiftedBandLimit = opts.bandLimit ?? 'landing';
@@ -314,7 +316,7 @@ export function propagateShiftedSpectrum(
       data[i + 1] = re * sn + im * cr;
     }
   }
-  fft2(data, nx, ny, true);
+  engine.fft2(data, nx, ny, true);
   const field: Field = {
     data,
     nx,

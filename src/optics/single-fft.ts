@@ -1,7 +1,7 @@
 // The Fresnel integral's single-transform form evaluated with one FFT: the output falls on the
 // FFT's own lattice, pitch λz/(NΔx), over the alias period λz/Δx. Cheaper than direct sums when
 // both the aperture and the window have many samples.
-import { fft2 } from './fft.js';
+import type { Engine } from './engine.js';
 import { createField, fftAxis, isOneD, type Axis, type Field } from './field.js';
 import { applyFresnelFactor, withInputChirp } from './direct.js';
 
@@ -23,7 +23,7 @@ export function singleFftAxis(n: number, dx: number, wavelength: number, z: numb
  * which is folded into the input chirp analytically: U₀e^{−iπξ²/(λf)}e^{iπξ²/(λz)} =
  * U₀e^{iπξ²(1/z − 1/f)/λ}. At z = f this is a pure Fourier transform, x = λf·f_x (Goodman §5.2).
  */
-export function propagateFresnelSingleFFT(src: Field, z: number, focal?: number): Field {
+export function propagateFresnelSingleFFT(engine: Engine, src: Field, z: number, focal?: number): Field {
   const lam = src.wavelength;
   const oneD = isOneD(src);
   const f = createField(
@@ -33,9 +33,9 @@ export function propagateFresnelSingleFFT(src: Field, z: number, focal?: number)
   );
   // Input chirp, then move the sample at x = 0 to index 0 (and back after the transform) so that the
   // FFT's phase reference is the optical axis.
-  const u = withInputChirp(src, z, focal);
+  const u = withInputChirp(src, z, engine.allocate, focal);
   shiftHalf(u, src.nx, src.ny);
-  fft2(u, src.nx, src.ny, false);
+  engine.fft2(u, src.nx, src.ny, false);
   shiftHalf(u, src.nx, src.ny);
   f.data.set(u);
   applyFresnelFactor(f, z, oneD ? src.dx : src.dx * src.dy);

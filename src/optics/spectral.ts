@@ -1,7 +1,8 @@
 // Propagation by transfer functions on FFT grids: the band-limited angular spectrum (exact scalar
 // propagation) and the Fresnel transfer function (paraxial). Both work in place on a field that the
 // caller has already zero-padded, and report how much of the field's spectrum they had to drop.
-import { binFrequency, fft2, nextPowerOfTwo } from './fft.js';
+import type { Engine } from './engine.js';
+import { binFrequency, nextPowerOfTwo } from './fft.js';
 import { createField, fftAxis, isOneD, type Field } from './field.js';
 import { propagationPhase } from './phase.js';
 
@@ -18,11 +19,12 @@ export interface SpectralReport {
  * Places a field in the centre of a larger zero grid of nx×ny samples (ny ignored for 1-D). The
  * padded grid keeps x = 0 on index n/2, the layout the FFT-based propagators expect.
  */
-export function padField(f: Field, nx: number, ny: number): Field {
+export function padField(f: Field, nx: number, ny: number, engine?: Pick<Engine, 'allocate'>): Field {
   const oneD = isOneD(f);
   const xa = fftAxis(nx, f.dx);
   const ya = oneD ? null : fftAxis(ny, f.dy);
-  const out = createField(xa, ya, f.wavelength);
+  // From the engine when the grid is to be transformed (see createField).
+  const out = createField(xa, ya, f.wavelength, engine?.allocate);
   const cx = Math.round((f.x0 - xa.start) / f.dx);
   const cy = oneD ? 0 : Math.round((f.y0 - ya!.start) / f.dy);
   if (cx < 0 || cy < 0 || cx + f.nx > nx || cy + f.ny > out.ny) {
@@ -86,8 +88,8 @@ export interface SourceSpectrum {
 }
 
 /** Transforms a (padded) field to its spectrum in place and returns Σ|F|². */
-export function toSpectrum(f: Field): number {
-  fft2(f.data, f.nx, f.ny, false);
+export function toSpectrum(engine: Engine, f: Field): number {
+  engine.fft2(f.data, f.nx, f.ny, false);
   const d = f.data;
   let total = 0;
   for (let i = 0; i < d.length; i += 2) total += d[i]! * d[i]! + d[i + 1]! * d[i + 1]!;
@@ -291,15 +293,16 @@ function multiplyRange(
  * kept spectrum is used instead (one inverse transform, no forward one).
  */
 export function propagateByTransfer(
+  engine: Engine,
   f: Field,
   spec: TransferSpec,
   comp?: PixelCompensation,
   cached?: SourceSpectrum,
 ): SpectralReport {
-  const total = cached ? cached.totalPower : toSpectrum(f);
+  const total = cached ? cached.totalPower : toSpectrum(engine, f);
   const globalPhase = spec.kind === 'identity' ? 0 : propagationPhase(spec.z, spec.wavelength);
   const { cut, evan } = multiplyTransfer(f, spec, globalPhase, comp, cached ? cached.data : f.data, total);
-  fft2(f.data, f.nx, f.ny, true);
+  engine.fft2(f.data, f.nx, f.ny, true);
   return {
     bandLimitLoss: total > 0 ? cut / total : 0,
     evanescentLoss: total > 0 ? evan / total : 0,
@@ -308,13 +311,13 @@ export function propagateByTransfer(
 }
 
 /** Band-limited angular spectrum propagation over z, in place. */
-export function propagateAngularSpectrum(f: Field, z: number, comp?: PixelCompensation, cached?: SourceSpectrum): SpectralReport {
-  return propagateByTransfer(f, angularSpectrumTransfer(f, z), comp, cached);
+export function propagateAngularSpectrum(engine: Engine, f: Field, z: number, comp?: PixelCompensation, cached?: SourceSpectrum): SpectralReport {
+  return propagateByTransfer(engine, f, angularSpectrumTransfer(f, z), comp, cached);
 }
 
 /** Fresnel transfer function H = e^{ikz}·exp(−iπλz(fx²+fy²)), in place (paraxial). */
-export function propagateFresnelTransfer(f: Field, z: number, comp?: PixelCompensation, cached?: SourceSpectrum): SpectralReport {
-  return propagateByTransfer(f, { kind: 'fresnel', z, wavelength: f.wavelength }, comp, cached);
+export function propagateFresnelTransfer(engine: Engine, f: Field, z: number, comp?: PixelCompensation, cached?: SourceSpectrum): SpectralReport {
+  return propagateByTransfer(engine, f, { kind: 'fresnel', z, wavelength: f.wavelength }, comp, cached);
 }
 
 /**
@@ -322,11 +325,11 @@ export function propagateFresnelTransfer(f: Field, z: number, comp?: PixelCompen
  * not pass through its spectrum otherwise. The field's grid should leave a few cells of margin
  * around the aperture for the (short) ringing of the correction.
  */
-export function compensateCellResponse(f: Field): void {
+export function compensateCellResponse(engine: Engine, f: Field): void {
   const nx = nextPowerOfTwo(2 * f.nx);
   const ny = isOneD(f) ? 1 : nextPowerOfTwo(2 * f.ny);
-  const padded = padField(f, nx, ny);
-  propagateByTransfer(padded, { kind: 'identity' }, { carrier: [0, 0] });
+  const padded = padField(f, nx, ny, engine);
+  propagateByTransfer(engine, padded, { kind: 'identity' }, { carrier: [0, 0] });
   const c0 = Math.round((f.x0 - padded.x0) / f.dx);
   const r0 = isOneD(f) ? 0 : Math.round((f.y0 - padded.y0) / f.dy);
   for (let r = 0; r < f.ny; r++) {

@@ -29,12 +29,12 @@
 //   for a narrow band (Rabiner, Schafer & Rader, IEEE Trans. Audio Electroacoust. 17, 86 (1969);
 //   the arbitrary-window use of it in diffraction: Hu et al., Light Sci. Appl. 9, 119 (2020)).
 // The mode of each axis is the one with the smaller total work (the planner's units, below).
-// The FFTs are the project's fast kernels (fft-fast.ts: transformRows, the row pass of fft2), run on
+// The FFTs are the engine's row pass (engine.fftRows: fft-fast.ts transformRows, in this thread), run on
 // blocks of rows; rows of the source that are all zero are skipped, and columns of the transform
 // that no table entry needs are never transformed.
 import { axisAt, createField, isOneD, type Axis, type Field } from './field.js';
 import { nextPowerOfTwo } from './fft.js';
-import { transformRows } from './fft-fast.js';
+import type { Engine } from './engine.js';
 import { cellResponse } from './spectral.js';
 import { applyFarFieldFactor } from './direct.js';
 
@@ -274,7 +274,7 @@ interface AxisKit {
   post: Float64Array;
 }
 
-function axisKit(a: AxisTransform): AxisKit {
+function axisKit(engine: Engine, a: AxisTransform): AxisKit {
   const { n, count: K, size, pitch } = a;
   const at = new Int32Array(K);
   const post = new Float64Array(2 * K);
@@ -296,7 +296,7 @@ function axisKit(a: AxisTransform): AxisKit {
   for (let m = 0; m < n; m++) halfTurns(-(phiA * (2 * m - (n - 1)) + theta * m * m), pre, m, 1);
   const kernel = new Float64Array(2 * size);
   for (let j = -(n - 1); j < K; j++) halfTurns(theta * j * j, kernel, (j + size) % size, 1);
-  transformRows(kernel, kernel, size, 1, 0, 1, false);
+  engine.fftRows(kernel, kernel, size, 1, 0, 1, false);
   for (let k = 0; k < K; k++) {
     at[k] = k;
     halfTurns(theta * (k * (n - 1) - k * k), post, k, pitch);
@@ -309,7 +309,7 @@ function axisKit(a: AxisTransform): AxisKit {
  * place: pre-factors, forward FFTs, and for 'chirp' the product with the chirp's spectrum and the
  * inverse FFTs. Entry k of row b is then post[k]·block[b][at[k]].
  */
-function transformBlock(kit: AxisKit, block: Float64Array, rows: number): void {
+function transformBlock(engine: Engine, kit: AxisKit, block: Float64Array, rows: number): void {
   const { a, pre, kernel } = kit;
   const L = a.size;
   if (pre) {
@@ -326,7 +326,7 @@ function transformBlock(kit: AxisKit, block: Float64Array, rows: number): void {
       }
     }
   }
-  transformRows(block, block, L, rows, 0, rows, false);
+  engine.fftRows(block, block, L, rows, 0, rows, false);
   if (!kernel) return;
   for (let b = 0; b < rows; b++) {
     const o = 2 * b * L;
@@ -340,7 +340,7 @@ function transformBlock(kit: AxisKit, block: Float64Array, rows: number): void {
       block[i + 1] = re * ki + im * kr;
     }
   }
-  transformRows(block, block, L, rows, 0, rows, true);
+  engine.fftRows(block, block, L, rows, 0, rows, true);
 }
 
 /** Power-of-two groups of rows from `total`, each at most `most`: the FFT kernels take power-of-two counts. */
@@ -381,10 +381,10 @@ function nonZeroBox(src: Field): [number, number, number, number] {
  * propagateFarField evaluates them), with steps fine enough that interpolateSpectrum2D is within
  * `errorBound`·Σ|U|ΔξΔη of the sum (see the head of this file).
  */
-export function tabulateSpectrum2D(src: Field, band: SpectrumBand, opts: SpectrumTableOptions = {}): SpectrumTable2D {
+export function tabulateSpectrum2D(engine: Engine, src: Field, band: SpectrumBand, opts: SpectrumTableOptions = {}): SpectrumTable2D {
   if (isOneD(src)) throw new Error('tabulateSpectrum2D needs a 2-D source');
   const span = sourceSpan(src);
-  return tabulateWithPlan(src, span, planSpectrumTable(span.shape, band, opts), opts.divideCellResponse ?? true);
+  return tabulateWithPlan(engine, src, span, planSpectrumTable(span.shape, band, opts), opts.divideCellResponse ?? true);
 }
 
 /** The non-zero span of a source, its shape for the plans, and Σ|U|ΔξΔη. */
@@ -405,11 +405,11 @@ function sourceSpan(src: Field): SourceSpan {
   return { box, shape: { nx: c1 - c0 + 1, ny: r1 - r0 + 1, dx: src.dx, dy: src.dy }, sumAbs: sumAbs * src.dx * src.dy };
 }
 
-function tabulateWithPlan(src: Field, span: SourceSpan, plan: TablePlan, divideCell: boolean): SpectrumTable2D {
+function tabulateWithPlan(engine: Engine, src: Field, span: SourceSpan, plan: TablePlan, divideCell: boolean): SpectrumTable2D {
   const [c0, c1, r0, r1] = span.box;
   const shape = span.shape;
-  const kx = axisKit(plan.x);
-  const ky = axisKit(plan.y);
+  const kx = axisKit(engine, plan.x);
+  const ky = axisKit(engine, plan.y);
   const X = plan.x;
   const Y = plan.y;
   const d = src.data;
@@ -426,7 +426,7 @@ function tabulateWithPlan(src: Field, span: SourceSpan, plan: TablePlan, divideC
       const from = 2 * ((r0 + g0 + b) * src.nx + c0);
       block.set(d.subarray(from, from + 2 * shape.nx), 2 * b * X.size);
     }
-    transformBlock(kx, block, g);
+    transformBlock(engine, kx, block, g);
     for (let b = 0; b < g; b++) {
       const o = 2 * b * X.size;
       const w = 2 * (g0 + b) * X.count;
@@ -456,7 +456,7 @@ function tabulateWithPlan(src: Field, span: SourceSpan, plan: TablePlan, divideC
         block[o + 2 * m + 1] = mid[2 * (m * X.count + g0 + b) + 1]!;
       }
     }
-    transformBlock(ky, block, g);
+    transformBlock(engine, ky, block, g);
     for (let b = 0; b < g; b++) {
       const o = 2 * b * Y.size;
       for (let k = 0; k < Y.count; k++) {
@@ -504,6 +504,7 @@ for (const p of [4, 6, 8]) {
   INVERSE_DENOMINATORS[p] = inv;
 }
 
+// Scratch for one interpolation (written before it is read in each call): not state between calls.
 const wx = new Float64Array(8);
 const wy = new Float64Array(8);
 const fwd = new Float64Array(9);
@@ -661,6 +662,7 @@ function pointWork(order: number): number {
  * the window's band instead of a sum per point. carrier = [α/λ, β/λ].
  */
 export function farFieldByTable(
+  engine: Engine,
   src: Field,
   z: number,
   outX: Axis,
@@ -679,7 +681,7 @@ export function farFieldByTable(
   const m = outX.n * outY.n;
   const [bx, by] = tiling.tiles;
   if (bx * by === 1) {
-    const table = tabulateWithPlan(src, span, tiling.plans[0]!, divide);
+    const table = tabulateWithPlan(engine, src, span, tiling.plans[0]!, divide);
     for (let r = 0; r < outY.n; r++) {
       const y = axisAt(outY, r);
       for (let c = 0; c < nx; c++) {
@@ -711,7 +713,7 @@ export function farFieldByTable(
     for (let p = 0; p < m; p++) points[next[tileOf[p]!]!++] = p;
     for (let t = 0; t < bx * by; t++) {
       if (first[t + 1] === first[t]) continue;
-      const table = tabulateWithPlan(src, span, tiling.plans[t]!, divide);
+      const table = tabulateWithPlan(engine, src, span, tiling.plans[t]!, divide);
       for (let q = first[t]!; q < first[t + 1]!; q++) {
         const p = points[q]!;
         const x = axisAt(outX, p % nx);

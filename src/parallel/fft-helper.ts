@@ -7,7 +7,7 @@
 import { setFlagsFromString } from 'node:v8';
 import { runInNewContext } from 'node:vm';
 import { parentPort, receiveMessageOnPort, workerData, type MessagePort } from 'node:worker_threads';
-import { loadFastKernels } from '../kernels.js';
+import { createKernel } from '../kernels.js';
 import { attachSharedFftMemory, fastFftBackend } from '../optics/fft-fast.js';
 import {
   ABORT,
@@ -41,9 +41,10 @@ const { control, port, slot, memory, fault } = workerData as HelperData;
 const ctl = new Int32Array(control);
 const parent = parentPort!;
 
-loadFastKernels();
-const attached = memory !== null && attachSharedFftMemory(memory);
-parent.postMessage({ type: 'ready', backend: fastFftBackend(), shared: attached } satisfies FromHelper);
+// This thread's own kernel (the thread is an entry point: it owns what it makes).
+const kernel = createKernel();
+const attached = memory !== null && attachSharedFftMemory(kernel, memory);
+parent.postMessage({ type: 'ready', backend: fastFftBackend(kernel), shared: attached } satisfies FromHelper);
 
 /** The message of transform `seq`; older ones (transforms this thread missed) are dropped. */
 function take(seq: number): JobMessage | null {
@@ -86,7 +87,7 @@ function work(job: Job): void {
       if (!stillOn(job)) return;
       const i = Atomics.add(ctl, NEXT + phase, 1);
       if (i >= job.parts[phase]!) break;
-      if (claimAndDo(ctl, job, phase, i, slot, hooks)) Atomics.add(ctl, HELPER_PARTS, 1);
+      if (claimAndDo(kernel, ctl, job, phase, i, slot, hooks)) Atomics.add(ctl, HELPER_PARTS, 1);
     }
     if (phase === job.parts.length - 1) return;
     // the next phase reads what every thread wrote in this one

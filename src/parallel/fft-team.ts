@@ -4,9 +4,10 @@
 // the WebAssembly kernel all threads work in one shared WebAssembly memory; the protocol is in
 // fft-work.ts, the helper's side in fft-helper.ts.
 //
-// Only arrays on a SharedArrayBuffer can be shared, so while a team runs, createField allocates
-// its large sample arrays there (optics/field.ts's allocator hook). Everything else — 1-D and small
-// transforms, data in ordinary memory — fft2 keeps doing in this thread.
+// startFftTeam gives an Engine (optics/engine.ts) for the runner to pass to the propagations: its
+// fft2 goes through the team, and its allocate puts large sample arrays on a SharedArrayBuffer
+// (only those can be shared). Everything else — 1-D and small transforms, data in ordinary memory —
+// it leaves to the engine it was made from, in this thread.
 //
 // A helper that fails, or makes no progress for `stallMs`, does not stop the case: this thread
 // takes its parts over, or, before anything is written to the data, transforms the data alone
@@ -20,9 +21,10 @@ import { setFlagsFromString } from 'node:v8';
 import { runInNewContext } from 'node:vm';
 import { fileURLToPath } from 'node:url';
 import { MessageChannel, Worker, type MessagePort } from 'node:worker_threads';
-import { installFft2Executor, isPowerOfTwo } from '../optics/fft.js';
-import { attachSharedFftMemory, createSharedFftMemory, fastFftBackend, fft2Interleaved, sharedLayout } from '../optics/fft-fast.js';
-import { installSampleAllocator } from '../optics/field.js';
+import type { Engine } from '../optics/engine.js';
+import { pooledAllocation } from '../optics/engine.js';
+import { isPowerOfTwo } from '../optics/fft.js';
+import { attachSharedFftMemory, createSharedFftMemory, fastFftBackend, sharedLayout } from '../optics/fft-fast.js';
 import {
   ABORT,
   claimAndDo,
@@ -122,6 +124,8 @@ interface Helper {
 }
 
 interface Team {
+  /** The engine the team was made from: what it declines, and a failed transform, run there. */
+  base: Engine;
   ctl: Int32Array;
   /** The shared WebAssembly memory, attached in this thread too; null: 'parts' mode only. */
   memory: object | null;
@@ -157,19 +161,21 @@ export function fftTeamFigures(): TeamFigures {
 }
 
 /**
- * Starts a team of `threads` threads in all, this one included, and routes fft2 through it at once
- * (parts go to the helpers as they become ready). Resolves to the number of threads ready, which
- * is 1 when no helper could start or the compiled helper module is missing (then nothing changes).
- * A team already running is stopped first.
+ * Starts a team of `threads` threads in all, this one included, and resolves to the engine that
+ * routes fft2 through it (parts go to the helpers as they become ready) and allocates large
+ * sample arrays in shared memory. Its `threads` is the number of threads ready: 1 when no helper
+ * could start or the compiled helper module is missing, and then the engine is `base` itself.
+ * A team already running is stopped first; once stopped, the team's engine does what `base` does.
  */
-export async function startFftTeam(threads: number, opts: TeamOptions = {}): Promise<number> {
+export async function startFftTeam(threads: number, base: Engine, opts: TeamOptions = {}): Promise<Engine> {
   await stopFftTeam();
   const n = Math.floor(threads);
-  if (!(n > 1) || !teamsAvailable()) return 1;
+  if (!(n > 1) || !teamsAvailable()) return base;
   const ctl = new Int32Array(new SharedArrayBuffer(4 * CONTROL_CELLS));
-  let memory = createSharedFftMemory();
-  if (memory && !attachSharedFftMemory(memory)) memory = null;
+  let memory = createSharedFftMemory(base.kernel);
+  if (memory && !attachSharedFftMemory(base.kernel, memory)) memory = null;
   const t: Team = {
+    base,
     ctl,
     memory,
     helpers: [],
@@ -231,11 +237,10 @@ export async function startFftTeam(threads: number, opts: TeamOptions = {}): Pro
     void ready.then(() => worker.unref());
     readies.push(ready);
   }
-  if (t.stopped) return 1;
-  installFft2Executor((d, nx, ny, inverse) => execute(t, d, nx, ny, inverse));
+  if (t.stopped) return base;
   const sharedMin = 2 * (opts.sharedMinValues ?? SHARED_MIN_VALUES);
-  installSampleAllocator((values) => {
-    if (values < sharedMin) return null;
+  const allocation = pooledAllocation((values) => {
+    if (t.stopped || values < sharedMin) return base.allocate(values);
     // Shared buffers do not press this thread's collector the way ordinary ones do, so the grids
     // of finished cases would pile up (measured: 4.6 padded grids at the peak of a 4096² case,
     // against 2.5 in one thread); a full collection before each large one keeps them to what
@@ -244,7 +249,19 @@ export async function startFftTeam(threads: number, opts: TeamOptions = {}): Pro
     return new Float64Array(new SharedArrayBuffer(8 * values));
   });
   await Promise.all(readies);
-  return fftTeamSize();
+  const size = fftTeamSize();
+  return {
+    name: `${base.name} on ${size} threads`,
+    threads: size,
+    kernel: base.kernel,
+    fft2(data, nx, ny, inverse) {
+      if (!execute(t, data, nx, ny, inverse)) base.fft2(data, nx, ny, inverse);
+    },
+    fftRows: base.fftRows,
+    allocate: allocation.allocate,
+    // Arrays of the team's engine stay with it (a shared one must not go to base's pool).
+    release: allocation.release,
+  };
 }
 
 /** Stops the team (fft2 is back to this thread at once); resolves when the helpers have ended. */
@@ -276,9 +293,7 @@ function helperExecArgv(): string[] {
 function halt(t: Team): Promise<unknown> {
   if (!t.stopped) {
     t.stopped = true;
-    installFft2Executor(null);
-    installSampleAllocator(null);
-    if (t.memory) attachSharedFftMemory(null);
+    if (t.memory) attachSharedFftMemory(t.base.kernel, null);
     Atomics.store(t.ctl, STOP, 1);
     Atomics.notify(t.ctl, SEQ);
     t.figures.partsByHelpers = Atomics.load(t.ctl, HELPER_PARTS);
@@ -313,8 +328,8 @@ function execute(t: Team, data: Float64Array, nx: number, ny: number, inverse: b
   if (live.length === 0) return false;
   const threads = t.helpers.length + 1;
   // The shared memory when every helper can work in it (one that cannot yet is not ready yet).
-  let mode: Mode = t.memory && fastFftBackend() === 'wasm-simd' && live.every((h) => h.shared || !h.ready) ? 'shared' : 'parts';
-  const layout = mode === 'shared' ? sharedLayout(nx, ny, threads) : null;
+  let mode: Mode = t.memory && fastFftBackend(t.base.kernel) === 'wasm-simd' && live.every((h) => h.shared || !h.ready) ? 'shared' : 'parts';
+  const layout = mode === 'shared' ? sharedLayout(t.base.kernel, nx, ny, threads) : null;
   if (!layout) mode = 'parts';
   const { rowsPer, colsPer } = partSizes(mode, nx, ny, live.length + 1);
   if (Math.ceil(ny / rowsPer) < 2 || Math.ceil(nx / colsPer) < 2) return false;
@@ -322,7 +337,7 @@ function execute(t: Team, data: Float64Array, nx: number, ny: number, inverse: b
   const values = 2 * nx * ny;
   if (mode === 'parts' && (!t.scratch || t.scratch.byteLength < 8 * values)) t.scratch = new SharedArrayBuffer(8 * values);
   const message: JobMessage = {
-    seq: nextSeq(t.seq), mode, nx, ny, inverse, backend: fastFftBackend(), rowsPer, colsPer,
+    seq: nextSeq(t.seq), mode, nx, ny, inverse, backend: fastFftBackend(t.base.kernel), rowsPer, colsPer,
     data: data.buffer, bufferId: bufferIdOf(data.buffer as SharedArrayBuffer), dataOffset: data.byteOffset,
     ...(mode === 'parts' ? { scratch: t.scratch! } : { layout: layout! }),
   };
@@ -351,7 +366,7 @@ function execute(t: Team, data: Float64Array, nx: number, ny: number, inverse: b
       Atomics.notify(ctl, DONE + phase);
       if (!commits(job, phase)) {
         // Nothing has been written to the data yet: transform it here, as if there were no team.
-        fft2Interleaved(data, nx, ny, inverse);
+        t.base.fft2(data, nx, ny, inverse);
         break;
       }
     }
@@ -384,13 +399,13 @@ function share(t: Team, job: Job, phase: number): string | null {
     if (t.callerIdle) break;
     const i = Atomics.add(ctl, NEXT + phase, 1);
     if (i >= n) break;
-    if (claimAndDo(ctl, job, phase, i, 0)) t.figures.partsByCaller++;
+    if (claimAndDo(t.base.kernel, ctl, job, phase, i, 0)) t.figures.partsByCaller++;
   }
   // parts whose number a helper still busy with an earlier transform drew from the counter
   const free = (job.seq << 3) | FREE;
   const leftovers = () => {
     for (let i = 0; i < n; i++) {
-      if (Atomics.load(ctl, stateCell(phase, i)) === free && claimAndDo(ctl, job, phase, i, 0)) t.figures.partsByCaller++;
+      if (Atomics.load(ctl, stateCell(phase, i)) === free && claimAndDo(t.base.kernel, ctl, job, phase, i, 0)) t.figures.partsByCaller++;
     }
   };
   // (An idle caller, in tests, leaves the helpers time to draw the parts first.)
@@ -434,7 +449,7 @@ function finishAlone(t: Team, job: Job, phase: number): void {
         continue;
       }
       if (s === (tag | REVOKED) || Atomics.compareExchange(ctl, at, s, tag | REVOKED) === s) {
-        doPart(job, phase, i, 0);
+        doPart(t.base.kernel, job, phase, i, 0);
         t.figures.partsByCaller++;
         break;
       }

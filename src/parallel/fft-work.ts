@@ -29,6 +29,7 @@ import {
   transformRows,
   useFastFftBackend,
   type FastFftBackend,
+  type FftKernel,
   type SharedLayout,
 } from '../optics/fft-fast.js';
 
@@ -132,20 +133,21 @@ export function nextSeq(seq: number): number {
  * Does part i of a phase; `slot` is the thread's scratch in the shared memory. Where the phase
  * commits, nothing is written unless `commit` allows it, and the answer says whether it was.
  */
-export function doPart(job: Job, phase: number, i: number, slot: number, commit?: () => boolean): boolean {
+export function doPart(k: FftKernel, job: Job, phase: number, i: number, slot: number, commit?: () => boolean): boolean {
   const { nx, ny, inverse } = job;
   const r0 = i * job.rowsPer, r1 = Math.min(ny, r0 + job.rowsPer);
   const c0 = i * job.colsPer, c1 = Math.min(nx, c0 + job.colsPer);
   if (job.mode === 'shared') {
     const L = job.layout!;
-    if (phase === 0) sharedRowsIn(L, job.data, r0, r1, inverse, slot);
-    else if (phase === 1) sharedColumns(L, c0, c1, inverse, slot);
-    else return sharedRowsOut(L, job.data, r0, r1, commit);
+    if (phase === 0) sharedRowsIn(k, L, job.data, r0, r1, inverse, slot);
+    else if (phase === 1) sharedColumns(k, L, c0, c1, inverse, slot);
+    else return sharedRowsOut(k, L, job.data, r0, r1, commit);
     return true;
   }
-  if (fastFftBackend() !== job.backend) useFastFftBackend(job.backend);
-  if (phase === 0) return transformRows(job.data, job.scratch!, nx, ny, r0, r1, inverse, commit);
-  return transformColumns(job.scratch!, job.data, nx, ny, c0, c1, inverse, commit);
+  // This thread's kernel runs the caller's (the same bits need the same kernel).
+  if (fastFftBackend(k) !== job.backend) useFastFftBackend(k, job.backend);
+  if (phase === 0) return transformRows(k, job.data, job.scratch!, nx, ny, r0, r1, inverse, commit);
+  return transformColumns(k, job.scratch!, job.data, nx, ny, c0, c1, inverse, commit);
 }
 
 /** Test-only faults a helper can be told to show (see fft-helper.ts). */
@@ -159,7 +161,7 @@ export interface PartHooks {
 }
 
 /** Claims part i of the phase if it is free and does it; true when this thread wrote it. */
-export function claimAndDo(ctl: Int32Array, job: Job, phase: number, i: number, slot: number, hooks?: PartHooks): boolean {
+export function claimAndDo(k: FftKernel, ctl: Int32Array, job: Job, phase: number, i: number, slot: number, hooks?: PartHooks): boolean {
   const at = stateCell(phase, i);
   const tag = job.seq << 3;
   if (Atomics.compareExchange(ctl, at, tag | FREE, tag | CLAIMED) !== (tag | FREE)) return false;
@@ -169,7 +171,7 @@ export function claimAndDo(ctl: Int32Array, job: Job, phase: number, i: number, 
     hooks?.writing?.(job, phase, i);
     return true;
   };
-  if (!doPart(job, phase, i, slot, commits(job, phase) ? commit : undefined)) return false;
+  if (!doPart(k, job, phase, i, slot, commits(job, phase) ? commit : undefined)) return false;
   Atomics.store(ctl, at, tag | WRITTEN);
   Atomics.notify(ctl, at);
   Atomics.add(ctl, DONE + phase, 1);

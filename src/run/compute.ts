@@ -7,8 +7,7 @@ import { complementInPlace, freeField } from '../optics/free.js';
 import { carrierFrequencies } from '../optics/source.js';
 import { descriptorOf } from '../methods/registry.js';
 import type { Plan } from '../plan/types.js';
-
-export { releaseKeptSpectrum } from '../methods/transfer-grid.js';
+import type { CaseContext } from './context.js';
 export { complementWithin, profileIntervals } from '../methods/exact-intervals.js';
 
 export interface Diagnostics {
@@ -31,7 +30,8 @@ export interface ComputedCase extends IntensityMap {
   diagnostics: Diagnostics;
 }
 
-export function computeCase(plan: Plan): ComputedCase {
+/** The case's field and diagnostics, propagated on ctx's engine (and its kept spectrum, if shared). */
+export function computeCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'spectra'>): ComputedCase {
   if (plan.error) throw new Error(plan.error);
   const c = plan.case;
   const lam = c.wavelength;
@@ -42,7 +42,7 @@ export function computeCase(plan: Plan): ComputedCase {
   const outY = plan.y ? plan.y.output : null;
   // An obstacle in a Gaussian beam (not Babinet: see the planner) is the beam where it is not.
   const obstructed = c.aperture.opaque && !plan.babinet;
-  const result = descriptorOf(plan).propagate(plan, { carrier, obstructed });
+  const result = descriptorOf(plan).propagate(plan, { carrier, obstructed, engine: ctx.engine, spectra: ctx.spectra });
 
   const field = result.field;
   const powerInWindow = powerOf(field);

@@ -2,7 +2,8 @@
 import { summaryOf, writeCase, type CaseSummary } from '../output/case-output.js';
 import type { Plan } from '../plan/types.js';
 import { runPlannedCase } from './run-case.js';
-import { answerQuestions, type SearchContext } from './searches.js';
+import { answerQuestions } from './searches.js';
+import type { CaseContext } from './context.js';
 
 export interface CaseTask {
   plan: Plan;
@@ -28,10 +29,10 @@ function injectFault(id: string): void {
   if (kind === 'throw') throw new Error(`fault injected for ${id} (SPOTCAST_FAULT)`);
 }
 
-export async function executeCase(task: CaseTask, search: SearchContext): Promise<CaseDone> {
+export async function executeCase(task: CaseTask, ctx: CaseContext): Promise<CaseDone> {
   injectFault(task.plan.case.id);
-  const rec = runPlannedCase(task.plan);
-  answerQuestions(rec, search);
+  const rec = runPlannedCase(task.plan, ctx);
+  answerQuestions(rec, ctx);
   await writeCase(task.jobDir, rec, task.hash);
   return { id: task.plan.case.id, summary: summaryOf(rec) };
 }

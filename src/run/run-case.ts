@@ -15,10 +15,11 @@ import type { CaseMetrics, CaseRecord } from '../output/case-output.js';
 import type { Plan, Warning } from '../plan/types.js';
 import { warning } from '../warnings/catalogue.js';
 import { computeCase } from './compute.js';
+import type { CaseContext } from './context.js';
 
-export function runPlannedCase(plan: Plan): CaseRecord {
+export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'spectra'>): CaseRecord {
   const t0 = performance.now();
-  const computed = computeCase(plan);
+  const computed = computeCase(plan, ctx);
   const spot = spotMetrics(computed);
   const d = computed.diagnostics;
   const c = plan.case;

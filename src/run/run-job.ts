@@ -15,7 +15,8 @@ import { gatherJob } from './gather.js';
 import { caseHash, removeLeftovers, verifyCases, writeManifest, type Manifest } from './records.js';
 import { acquireRunLock, LockBusyError, type HeldLock } from './lock.js';
 import { chooseParallelism, runTasks } from './scheduler.js';
-import { releaseKeptSpectrum } from './compute.js';
+import { createEngine } from '../kernels.js';
+import type { Engine } from '../optics/engine.js';
 import { shareSourceSpectra } from '../plan/share.js';
 import type { CaseTask } from './execute.js';
 import { assignShards, type ShardSpec } from './shard.js';
@@ -44,6 +45,11 @@ export interface RunOptions extends PlannerOptions {
   namesInRun?: Map<string, string>;
   /** Memory the run may use (bytes); default: what the machine has free now. */
   availableMemoryBytes?: number;
+  /**
+   * The engine for cases computed in this thread (default: createEngine(), made when cases are to
+   * be computed). Worker threads make their own.
+   */
+  engine?: Engine;
   /**
    * How long to wait for another run that holds this job folder (or this shard of it) before
    * refusing, in ms (default LOCK_WAIT_MS, 30 s; 0 refuses at once). See run/lock.ts.
@@ -274,7 +280,7 @@ async function runLocked(loaded: LoadedJob, opts: RunOptions, rep: RunReporter, 
   const heapMb = largest ? Math.ceil(largest.memoryBytes / 1024 ** 2) + 512 : undefined;
   const { interrupted } = await runTasks(
     todo,
-    { workers, threadsPerCase: parallel.threadsPerCase, ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}) },
+    { workers, threadsPerCase: parallel.threadsPerCase, engine: opts.engine ?? createEngine(), ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}) },
     {
       start: (id) => rep.caseStart(id),
       done: async (d) => {
@@ -288,7 +294,6 @@ async function runLocked(loaded: LoadedJob, opts: RunOptions, rep: RunReporter, 
       note: (line) => rep.note(line),
     },
   );
-  releaseKeptSpectrum();
   await save();
   outcome.done = Object.keys(manifest.completed).length;
   if (interrupted) outcome.interrupted = true;

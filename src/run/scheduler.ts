@@ -7,7 +7,8 @@ import { fileURLToPath } from 'node:url';
 import type { Worker } from 'node:worker_threads';
 import Pool from 'worker-threads-pool';
 import { executeCase, type CaseDone, type CaseTask } from './execute.js';
-import { newSearchContext } from './searches.js';
+import { newCaseContext } from './context.js';
+import type { Engine } from '../optics/engine.js';
 import type { FromWorker, ToWorker } from './worker.js';
 import type { Plan } from '../plan/types.js';
 import { descriptorOf } from '../methods/registry.js';
@@ -25,6 +26,8 @@ export interface SchedulerEvents {
 
 export interface SchedulerOptions {
   workers: number;
+  /** The engine for cases computed in this thread (a team's engine is made from it). */
+  engine: Engine;
   maxMemoryBytes?: number;
   /** Heap limit per worker (MB), from the largest case's memory estimate. */
   heapMb?: number;
@@ -105,16 +108,17 @@ export async function runTasks(tasks: CaseTask[], opts: SchedulerOptions, ev: Sc
 async function runWithTeam(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
   const asked = Math.min(opts.threadsPerCase!, machineThreads());
   try {
-    const got = await startFftTeam(asked, { onProblem: (m) => ev.note?.(m) });
-    if (got < asked) ev.note?.(`only ${got} of ${asked} threads could be started for the FFTs`);
-    return await runHere(tasks, opts, ev);
+    const engine = await startFftTeam(asked, opts.engine, { onProblem: (m) => ev.note?.(m) });
+    if (engine.threads < asked) ev.note?.(`only ${engine.threads} of ${asked} threads could be started for the FFTs`);
+    return await runHere(tasks, { ...opts, engine }, ev);
   } finally {
     await stopFftTeam();
   }
 }
 
 async function runHere(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
-  const search = newSearchContext(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {});
+  // This run's context: the kept spectrum and the searches' cache go with it when the run ends.
+  const ctx = newCaseContext(opts.engine, opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {});
   for (const t of tasks) {
     if (opts.signal?.aborted) return { interrupted: true };
     ev.start(t.plan.case.id);
@@ -122,7 +126,7 @@ async function runHere(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerE
     await new Promise((r) => setImmediate(r));
     if (opts.signal?.aborted) return { interrupted: true };
     try {
-      await ev.done(await executeCase(t, search));
+      await ev.done(await executeCase(t, ctx));
     } catch (e) {
       await ev.failed(t.plan.case.id, (e as Error).message);
     }

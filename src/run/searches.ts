@@ -1,6 +1,7 @@
 // Questions that need more propagations than the case itself: from which distance on the far-field
 // size can be trusted, and which aperture size gives the smallest spot at a distance. Results that
-// depend only on the aperture and the wavelength are cached across the cases of a job.
+// depend only on the aperture and the wavelength are cached across the cases of a job, in the
+// runner's CaseContext (context.ts), whose engine the extra propagations run on.
 import { spotMetrics } from '../analysis/metrics.js';
 import { makeVerdict, spotSize, verdictWidth, type Verdict } from '../analysis/verdict.js';
 import { elementOf } from '../elements/registry.js';
@@ -10,14 +11,10 @@ import { farFieldSearch, measureVariant, searchLimits as limitsOf, smallestSpotS
 import { planCase, type PlannerOptions } from '../plan/planner.js';
 import type { Case } from '../plan/types.js';
 import { computeCase } from './compute.js';
+import type { CaseContext } from './context.js';
 
-export interface SearchContext extends PlannerOptions {
-  cache: Map<string, unknown>;
-}
-
-export function newSearchContext(opts: PlannerOptions = {}): SearchContext {
-  return { ...opts, cache: new Map() };
-}
+/** The searches' part of a CaseContext: the planner's limits, the cache, the engine. */
+export type SearchContext = CaseContext;
 
 // The variants each search plans, and their limits, are described in plan/answers.ts, where the
 // planner costs them for the case's memory estimate.
@@ -36,7 +33,7 @@ function measureAt(c: Case, axis: Verdict['axis'], ctx: SearchContext): { comput
   const plan = planCase(measureVariant(c, axis), searchLimits(ctx));
   // A variant that would need a huge grid is left out of the search rather than run for minutes.
   if (plan.error) return { computed: null, farField: NaN };
-  const computed = computeCase(plan);
+  const computed = computeCase(plan, ctx);
   const spot = spotMetrics(computed);
   const s = spotSize(computed, axis, width, c.wavelength, c.distance, [spot.centroid[0], spot.centroid[1] ?? 0], computed.diagnostics.powerIn);
   return { computed: s.computed, farField: s.farField };
@@ -100,7 +97,7 @@ export function smallestSpot(c: Case, ctx: SearchContext): SmallestSpot {
     if (spec.measure === 'energy') return measureAt(v, axis, ctx).computed ?? Infinity;
     const plan = planCase({ ...v, window: undefined, grid: undefined, method: 'auto' }, searchLimits(ctx));
     if (plan.error) return Infinity;
-    const m = spotMetrics(computeCase(plan));
+    const m = spotMetrics(computeCase(plan, ctx));
     const w = spec.measure === 'fwhm' ? m.fwhm[0] : m.d4sigma[0];
     return w ?? Infinity;
   };

@@ -26,6 +26,9 @@ if (mode !== '--check' && mode !== '--write') {
 const load = (p) => import(pathToFileURL(join(dist, 'src', p)).href);
 const { planCase } = await load('plan/planner.js');
 const { runPlannedCase } = await load('run/run-case.js');
+const { createEngine } = await load('kernels.js');
+const { newCaseContext } = await load('run/context.js');
+const engine = createEngine();
 const { postChecks } = await load('analysis/validity.js');
 
 const nm = 1e-9;
@@ -107,7 +110,7 @@ for (const [name, how, spec, opts] of CASES) {
     out[name] = { error: plan.error };
     continue;
   }
-  const warnings = how === 'plan' ? plan.warnings : how === 'run' ? runPlannedCase(plan).warnings : postChecks(plan, how);
+  const warnings = how === 'plan' ? plan.warnings : how === 'run' ? runPlannedCase(plan, newCaseContext(engine)).warnings : postChecks(plan, how);
   out[name] = warnings.map((w) => ({ code: w.code, message: w.message }));
 }
 

@@ -3,7 +3,7 @@
 // random data, and the DFT definition summed directly on small sizes.
 import { beforeAll, describe, expect, it } from 'vitest';
 import { fft2Reference as fft2 } from '../../src/optics/fft.js';
-import { loadFastKernels } from '../../src/kernels.js';
+import { createKernel } from '../../src/kernels.js';
 import {
   fastFftBackend,
   fft2Interleaved,
@@ -64,13 +64,13 @@ function viaFftJs(x: Float64Array, nx: number, ny: number, inverse: boolean): Fl
 
 function viaInterleaved(x: Float64Array, nx: number, ny: number, inverse: boolean): Float64Array {
   const y = x.slice();
-  fft2Interleaved(y, nx, ny, inverse);
+  fft2Interleaved(kernel, y, nx, ny, inverse);
   return y;
 }
 
 function viaSplit(x: Float64Array, nx: number, ny: number, inverse: boolean): Float64Array {
   const [re, im] = split(x);
-  fft2Split(re, im, nx, ny, inverse);
+  fft2Split(kernel, re, im, nx, ny, inverse);
   return join(re, im);
 }
 
@@ -108,15 +108,16 @@ const twoD: [number, number][] = [
   [256, 8], [8, 256], [512, 64], [64, 512], [1024, 16], [2, 1024], [1024, 2], [256, 256],
 ];
 
+// This file's kernel: each describe below chooses its backend (the WebAssembly or TypeScript kernel).
+const kernel = createKernel();
+
 it('loads the WebAssembly SIMD kernel (npm run build makes it)', () => {
-  expect(loadFastKernels()).toBe(true);
-  expect(fastFftBackend()).toBe('wasm-simd');
+  expect(fastFftBackend(kernel)).toBe('wasm-simd');
 });
 
 describe.each(['wasm-simd', 'js'] as FastFftBackend[])('%s kernel', (backend) => {
   beforeAll(() => {
-    loadFastKernels();
-    useFastFftBackend(backend);
+    useFastFftBackend(kernel, backend);
   });
 
   describe('equals fft.js to 1e-12 relative', () => {
@@ -154,12 +155,12 @@ describe.each(['wasm-simd', 'js'] as FastFftBackend[])('%s kernel', (backend) =>
     for (const [nx, ny] of [[4096, 1], [2, 2], [64, 64], [256, 128], [16, 512]] as const) {
       const x = randomComplex(nx * ny, 5 * nx + ny);
       const a = x.slice();
-      fft2Interleaved(a, nx, ny, false);
-      fft2Interleaved(a, nx, ny, true);
+      fft2Interleaved(kernel, a, nx, ny, false);
+      fft2Interleaved(kernel, a, nx, ny, true);
       expect(relErr(x, a), `interleaved ${nx}×${ny}`).toBeLessThan(TOL);
       const [re, im] = split(x);
-      fft2Split(re, im, nx, ny, false);
-      fft2Split(re, im, nx, ny, true);
+      fft2Split(kernel, re, im, nx, ny, false);
+      fft2Split(kernel, re, im, nx, ny, true);
       expect(relErr(x, join(re, im)), `split ${nx}×${ny}`).toBeLessThan(TOL);
     }
   });
@@ -196,9 +197,9 @@ describe.each(['wasm-simd', 'js'] as FastFftBackend[])('%s kernel', (backend) =>
   });
 
   it('refuses sizes that are not powers of two and arrays of the wrong length', () => {
-    expect(() => fft2Interleaved(new Float64Array(2 * 12), 12, 1, false)).toThrow(/powers of two/);
-    expect(() => fft2Interleaved(new Float64Array(2 * 8 * 3), 8, 3, false)).toThrow(/powers of two/);
-    expect(() => fft2Interleaved(new Float64Array(2 * 8 * 4 - 2), 8, 4, false)).toThrow(/values for a 8×4/);
-    expect(() => fft2Split(new Float64Array(32), new Float64Array(31), 8, 4, false)).toThrow(/planes/);
+    expect(() => fft2Interleaved(kernel, new Float64Array(2 * 12), 12, 1, false)).toThrow(/powers of two/);
+    expect(() => fft2Interleaved(kernel, new Float64Array(2 * 8 * 3), 8, 3, false)).toThrow(/powers of two/);
+    expect(() => fft2Interleaved(kernel, new Float64Array(2 * 8 * 4 - 2), 8, 4, false)).toThrow(/values for a 8×4/);
+    expect(() => fft2Split(kernel, new Float64Array(32), new Float64Array(31), 8, 4, false)).toThrow(/planes/);
   });
 });

@@ -20,16 +20,13 @@
 // order (θ_d·tan θ)² and θ_d² in the width (θ_d = λ/(πw_p), 0.016–0.025 here; the budget taken is
 // 4(θ_d tan θ)² + θ_d², a judgement: 4e-3 at 50°), and of order θ_d·tan θ·w in the centroid (the
 // beam is wider on its far side; 3e-2·w at 50°).
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { engine } from '../engine.js';
+import { describe, expect, it } from 'vitest';
 import { fftAxis } from '../../src/optics/field.js';
 import { padField } from '../../src/optics/spectral.js';
 import { sourceField2D } from '../../src/optics/source.js';
 import { gaussianSpectrumTail, landingCentre, propagateShiftedSpectrum, shiftedGridFor } from '../../src/optics/shifted-spectrum.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const deg = (d: number) => (d * Math.PI) / 180;
 
@@ -109,7 +106,7 @@ describe('tilted Gaussian beam, w₀ = 20λ in the aperture plane, screen 1 mm a
         { sampleCarrier: false },
       ).field;
       const env = padField(src, grid.samples[0], grid.samples[1]);
-      const { field: psi, report } = propagateShiftedSpectrum(env, z, carrier, centre, {
+      const { field: psi, report } = propagateShiftedSpectrum(engine, env, z, carrier, centre, {
         cellResponse: false,
         taper: grid.taper,
         bandTaper: grid.bandTaper,

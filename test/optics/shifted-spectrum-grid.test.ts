@@ -2,8 +2,8 @@
 // tilted beam needs against the grid the existing angular spectrum needs for it, the band check of
 // a planned grid against what a propagation on it reports, and the landing formula against the
 // existing band limit.
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { engine } from '../engine.js';
+import { describe, expect, it } from 'vitest';
 import { apertureFacts } from '../../src/optics/aperture.js';
 import { fftAxis } from '../../src/optics/field.js';
 import { bandLimitFrequency, padField } from '../../src/optics/spectral.js';
@@ -20,9 +20,6 @@ import { DEFAULT_MAX_MEMORY, planCase } from '../../src/plan/planner.js';
 import { makeCase } from '../helpers.js';
 import { rsSquare } from './square-quadrature.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 describe('the grid a tilted beam needs: 200 µm square, 633 nm, 30°, 100 mm', () => {
   const lam = 633e-9;
@@ -65,7 +62,7 @@ describe('the grid a tilted beam needs: 200 µm square, 633 nm, 30°, 100 mm', (
     // (πgΔ)²/3 at the lobe's frequencies, is about 2e-4).
     const n = 2 * Math.ceil(D / grid.pitch[0] / 2 + 2);
     const src = sourceField2D(aperture, { kind: 'plane', tilt: [0, 0] }, fftAxis(n, grid.pitch[0]), fftAxis(n, grid.pitch[1]), lam, { sampleCarrier: false }).field;
-    const { field, report } = propagateShiftedSpectrum(padField(src, grid.samples[0], grid.samples[1]), z, carrier, grid.centre, {
+    const { field, report } = propagateShiftedSpectrum(engine, padField(src, grid.samples[0], grid.samples[1]), z, carrier, grid.centre, {
       taper: grid.taper,
       bandTaper: grid.bandTaper,
       inPlace: true,
@@ -123,7 +120,7 @@ describe('landing and band checks', () => {
     const tail = edgeSpectrumTail([2 / (2 * a), 0]);
     const band = shiftedBand({ nx, ny: 1, dx: pitch, dy: 0, wavelength: lam }, z, carrier, centre, tail);
     const src = sourceField1D({ kind: 'interval', width: 2 * a }, { kind: 'plane', tilt: [0, 0] }, fftAxis(64, pitch), lam, 0, { sampleCarrier: false }).field;
-    const { report } = propagateShiftedSpectrum(padField(src, nx, 1), z, carrier, centre);
+    const { report } = propagateShiftedSpectrum(engine, padField(src, nx, 1), z, carrier, centre);
     const bin = 1 / (nx * pitch);
     expect(report.passed).not.toBeNull();
     expect(Math.abs(report.passed!.x[0] - band.passed[0][0])).toBeLessThanOrEqual(bin);

@@ -9,17 +9,14 @@
 // and the properties the planner relies on: a kept spectrum gives the same bits, the exact landing
 // box cuts at least what the per-axis rectangle cuts at normal incidence, inputs are left alone
 // unless asked, impossible carriers are refused.
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { engine } from '../engine.js';
+import { describe, expect, it } from 'vitest';
 import { createField, fftAxis } from '../../src/optics/field.js';
 import { padField, propagateAngularSpectrum, toSpectrum, type SourceSpectrum } from '../../src/optics/spectral.js';
 import { sourceField1D, sourceField2D } from '../../src/optics/source.js';
 import { landingCentre, propagateShiftedSpectrum, restoreCarrier } from '../../src/optics/shifted-spectrum.js';
 import { maxRelDiff, randomPhaseSource } from './spectral-reference.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const lam = 633e-9;
 const cases = [
@@ -35,12 +32,12 @@ describe('untilted, centre 0: the existing band-limited angular spectrum', () =>
     it(`${k.name}: equal to 1e-12 of the peak, and the same losses`, () => {
       const src = randomPhaseSource(k.nx / 2, k.ny > 1 ? k.ny / 2 : 1, k.dx, k.a, lam);
       const today = padField(src, k.nx, k.ny);
-      const want = propagateAngularSpectrum(today, k.z, { carrier: [0, 0] });
+      const want = propagateAngularSpectrum(engine, today, k.z, { carrier: [0, 0] });
       // The per-axis rectangle is the existing limit exactly; the exact landing box is the same
       // set of bins unless the grid reaches steep directions (the second case, pitch λ/2.5).
       for (const bandLimit of ['axes', 'landing'] as const) {
         const env = padField(src, k.nx, k.ny);
-        const { field, report } = propagateShiftedSpectrum(env, k.z, [0, 0], [0, 0], { bandLimit });
+        const { field, report } = propagateShiftedSpectrum(engine, env, k.z, [0, 0], [0, 0], { bandLimit });
         expect([field.x0, field.y0, field.nx, field.ny, field.dx, field.dy]).toEqual([today.x0, today.y0, today.nx, today.ny, today.dx, today.dy]);
         expect(Math.abs(report.evanescentLoss - want.evanescentLoss)).toBeLessThan(1e-12);
         if (bandLimit === 'axes' || k.landingSame) {
@@ -62,10 +59,10 @@ describe('untilted, centre 0: the existing band-limited angular spectrum', () =>
     const k = cases[0];
     const env = padField(randomPhaseSource(k.nx / 2, k.ny / 2, k.dx, k.a, lam), k.nx, k.ny);
     const before = env.data.slice();
-    const copy = propagateShiftedSpectrum(env, k.z, [1e4, 0], [3e-6, 0]);
+    const copy = propagateShiftedSpectrum(engine, env, k.z, [1e4, 0], [3e-6, 0]);
     expect(Array.from(env.data)).toEqual(Array.from(before));
     expect(copy.field.data).not.toBe(env.data);
-    const inPlace = propagateShiftedSpectrum(env, k.z, [1e4, 0], [3e-6, 0], { inPlace: true });
+    const inPlace = propagateShiftedSpectrum(engine, env, k.z, [1e4, 0], [3e-6, 0], { inPlace: true });
     expect(inPlace.field.data).toBe(env.data);
     expect(Array.from(inPlace.field.data)).toEqual(Array.from(copy.field.data));
   });
@@ -74,16 +71,16 @@ describe('untilted, centre 0: the existing band-limited angular spectrum', () =>
     const k = cases[2];
     const src = randomPhaseSource(k.nx / 2, k.ny / 2, k.dx, k.a, lam);
     const spectrumField = padField(src, k.nx, k.ny);
-    const kept: SourceSpectrum = { totalPower: toSpectrum(spectrumField), data: spectrumField.data };
+    const kept: SourceSpectrum = { totalPower: toSpectrum(engine, spectrumField), data: spectrumField.data };
     for (const [z, carrier] of [
       [1e-3, [0, 0]],
       [3e-3, [2e5, -1e5]],
       [0.2e-3, [6e5, 0]],
     ] as [number, [number, number]][]) {
       const centre = landingCentre(carrier, lam, z);
-      const fresh = propagateShiftedSpectrum(padField(src, k.nx, k.ny), z, carrier, centre, { taper: 0.3 });
+      const fresh = propagateShiftedSpectrum(engine, padField(src, k.nx, k.ny), z, carrier, centre, { taper: 0.3 });
       const empty = createField(fftAxis(k.nx, k.dx), fftAxis(k.ny, k.dx), lam);
-      const reused = propagateShiftedSpectrum(empty, z, carrier, centre, { taper: 0.3, spectrum: kept });
+      const reused = propagateShiftedSpectrum(engine, empty, z, carrier, centre, { taper: 0.3, spectrum: kept });
       expect(Array.from(reused.field.data)).toEqual(Array.from(fresh.field.data));
       expect(reused.report).toEqual(fresh.report);
     }
@@ -98,11 +95,11 @@ describe('untilted, centre 0: the existing band-limited angular spectrum', () =>
     const carrier: [number, number] = [Math.sin(0.44) / lam, Math.sin(0.35) / lam];
     const centre = landingCentre(carrier, lam, z);
     const line = padField(randomPhaseSource(nx / 2, 1, dx, 40e-6, lam), nx, 1);
-    const one = propagateShiftedSpectrum(line, z, carrier, centre, { taper: 0.3 });
+    const one = propagateShiftedSpectrum(engine, line, z, carrier, centre, { taper: 0.3 });
     const ny = 8;
     const plane = createField(fftAxis(nx, dx), fftAxis(ny, 20e-6), lam);
     for (let r = 0; r < ny; r++) plane.data.set(line.data, 2 * r * nx);
-    const two = propagateShiftedSpectrum(plane, z, carrier, centre, { taper: 0.3 });
+    const two = propagateShiftedSpectrum(engine, plane, z, carrier, centre, { taper: 0.3 });
     expect(one.field.ny).toBe(1);
     expect(one.field.y0).toBe(0);
     for (const r of [0, 3, 7]) {
@@ -113,10 +110,10 @@ describe('untilted, centre 0: the existing band-limited angular spectrum', () =>
 
   it('refuses a carrier at or beyond grazing, a taper outside [0, 0.5] and a kept spectrum of another grid', () => {
     const env = padField(randomPhaseSource(32, 16, 0.5e-6, 3e-6, lam), 64, 32);
-    expect(() => propagateShiftedSpectrum(env, 1e-3, [1 / lam, 0], [0, 0])).toThrow(/not a propagating direction/);
-    expect(() => propagateShiftedSpectrum(env, 1e-3, [0.8 / lam, 0.8 / lam], [0, 0])).toThrow(/not a propagating direction/);
-    expect(() => propagateShiftedSpectrum(env, 1e-3, [0, 0], [0, 0], { taper: 0.6 })).toThrow(/taper/);
-    expect(() => propagateShiftedSpectrum(env, 1e-3, [0, 0], [0, 0], { spectrum: { data: new Float64Array(8), totalPower: 1 } })).toThrow(/kept spectrum/);
+    expect(() => propagateShiftedSpectrum(engine, env, 1e-3, [1 / lam, 0], [0, 0])).toThrow(/not a propagating direction/);
+    expect(() => propagateShiftedSpectrum(engine, env, 1e-3, [0.8 / lam, 0.8 / lam], [0, 0])).toThrow(/not a propagating direction/);
+    expect(() => propagateShiftedSpectrum(engine, env, 1e-3, [0, 0], [0, 0], { taper: 0.6 })).toThrow(/taper/);
+    expect(() => propagateShiftedSpectrum(engine, env, 1e-3, [0, 0], [0, 0], { spectrum: { data: new Float64Array(8), totalPower: 1 } })).toThrow(/kept spectrum/);
   });
 });
 
@@ -143,9 +140,9 @@ describe('tilted, carrier put back: the existing angular spectrum with the carri
     const ax = fftAxis(256, dx);
     const prof = { kind: 'interval' as const, width: 40e-6 };
     const sampled = padField(sourceField1D(prof, ill, ax, lam, carrier[0], { sampleCarrier: true }).field, n, 1);
-    const want = propagateAngularSpectrum(sampled, z, { carrier });
+    const want = propagateAngularSpectrum(engine, sampled, z, { carrier });
     const env = padField(sourceField1D(prof, envIll, ax, lam, 0, { sampleCarrier: false }).field, n / 2, 1);
-    const { field, report } = propagateShiftedSpectrum(env, z, carrier, [xc, 0]);
+    const { field, report } = propagateShiftedSpectrum(engine, env, z, carrier, [xc, 0]);
     expect(want.bandLimitLoss).toBeLessThan(1e-20);
     expect(report.bandLimitLoss).toBeLessThan(1e-20);
     restoreCarrier(field, carrier);
@@ -167,9 +164,9 @@ describe('tilted, carrier put back: the existing angular spectrum with the carri
     const ax = fftAxis(256, dx);
     const square = { shape: 'rectangle' as const, width: 40e-6, height: 40e-6, opaque: false };
     const sampled = padField(sourceField2D(square, ill, ax, ax, lam, { sampleCarrier: true }).field, n, n);
-    const want = propagateAngularSpectrum(sampled, z, { carrier });
+    const want = propagateAngularSpectrum(engine, sampled, z, { carrier });
     const env = padField(sourceField2D(square, envIll, ax, ax, lam, { sampleCarrier: false }).field, n / 2, n / 2);
-    const { field, report } = propagateShiftedSpectrum(env, z, carrier, [xc, 0]);
+    const { field, report } = propagateShiftedSpectrum(engine, env, z, carrier, [xc, 0]);
     expect(want.bandLimitLoss).toBeLessThan(1e-20);
     expect(report.bandLimitLoss).toBeLessThan(1e-20);
     restoreCarrier(field, carrier);

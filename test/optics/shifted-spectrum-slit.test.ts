@@ -11,19 +11,16 @@
 // Error budget: the area-sampled slit's own aliasing, about (πgΔ)²/3 relative at frequency g
 // (1-D grids are cheap: Δ = b/201 keeps it near 1e-5 of the peak), the band limit's taper (a few
 // 1e-5, measured); the quadrature to about 1e-12. Tolerance 2e-4 of the peak.
+import { engine } from '../engine.js';
 import besselj1 from '@stdlib/math-base-special-besselj1';
 import bessely1 from '@stdlib/math-base-special-bessely1';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { describe, expect, it } from 'vitest';
 import { fftAxis } from '../../src/optics/field.js';
 import { padField } from '../../src/optics/spectral.js';
 import { sourceField1D } from '../../src/optics/source.js';
 import { landingCentre, propagateShiftedSpectrum, shiftedGridFor } from '../../src/optics/shifted-spectrum.js';
 import { gaussLegendre } from '../reference/quadrature.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const deg = (d: number) => (d * Math.PI) / 180;
 
@@ -86,7 +83,7 @@ describe('tilted slit, 1-D: the exact integral with the Hankel kernel', () => {
         expect(grid.samples[1]).toBe(1);
         expect(grid.windowClear).toBe(true);
         const src = sourceField1D({ kind: 'interval', width: 2 * a }, { kind: 'plane', tilt: [0, 0] }, fftAxis(2 * (101 + 4), pitch), lam, 0, { sampleCarrier: false }).field;
-        const { field: psi } = propagateShiftedSpectrum(padField(src, grid.samples[0], 1), z, carrier, centre, {
+        const { field: psi } = propagateShiftedSpectrum(engine, padField(src, grid.samples[0], 1), z, carrier, centre, {
           taper: grid.taper,
           bandTaper: grid.bandTaper,
           inPlace: true,

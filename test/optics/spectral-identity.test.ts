@@ -3,8 +3,8 @@
 // (./spectral-reference.ts, fft.js underneath): the same numbers to 1e-12 of the field's largest
 // value. A rewrite for speed must not change a result; 1e-12 is the project's identity bound
 // (common practice for rounding-level agreement of double-precision transforms).
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { engine } from '../engine.js';
+import { describe, expect, it } from 'vitest';
 import { createField, fftAxis } from '../../src/optics/field.js';
 import {
   padField,
@@ -15,9 +15,6 @@ import {
 } from '../../src/optics/spectral.js';
 import { maxRelDiff, randomPhaseSource, referenceAngularSpectrum, referenceFresnelTransfer } from './spectral-reference.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const lam = 633e-9;
 const cases = [
@@ -37,7 +34,7 @@ describe('transfer-function propagation is unchanged by the fast path', () => {
         const comp = { carrier: [k.carrier[0], k.carrier[1]] as [number, number] };
         const run = method === 'angular-spectrum' ? propagateAngularSpectrum : propagateFresnelTransfer;
         const refRun = method === 'angular-spectrum' ? referenceAngularSpectrum : referenceFresnelTransfer;
-        const got = run(fast, k.z, comp);
+        const got = run(engine, fast, k.z, comp);
         const want = refRun(ref, k.z, comp);
         expect(maxRelDiff(ref.data, fast.data)).toBeLessThan(1e-12);
         // The loss fractions are sums in another order (the cut one as total less what passes):
@@ -55,12 +52,12 @@ describe('transfer-function propagation is unchanged by the fast path', () => {
     const k = cases[0];
     const src = randomPhaseSource(k.nx / 2, k.ny / 2, k.dx, k.a, lam);
     const spectrumField = padField(src, k.nx, k.ny);
-    const kept: SourceSpectrum = { totalPower: toSpectrum(spectrumField), data: spectrumField.data };
+    const kept: SourceSpectrum = { totalPower: toSpectrum(engine, spectrumField), data: spectrumField.data };
     for (const z of [100e-6, 300e-6, 2e-3]) {
       const fresh = padField(src, k.nx, k.ny);
-      const a = propagateAngularSpectrum(fresh, z, { carrier: [0, 0] });
+      const a = propagateAngularSpectrum(engine, fresh, z, { carrier: [0, 0] });
       const reused = createField(fftAxis(k.nx, k.dx), fftAxis(k.ny, k.dx), lam);
-      const b = propagateAngularSpectrum(reused, z, { carrier: [0, 0] }, kept);
+      const b = propagateAngularSpectrum(engine, reused, z, { carrier: [0, 0] }, kept);
       // Same arithmetic on the same spectrum: bit for bit.
       expect(Array.from(reused.data)).toEqual(Array.from(fresh.data));
       expect(b).toEqual(a);

@@ -12,12 +12,13 @@ import { tsServer } from '../ts-loader.mjs';
 
 const server = await tsServer();
 try {
-  const { loadFastKernels } = await server.ssrLoadModule('/src/kernels.ts');
+  const { createEngine } = await server.ssrLoadModule('/src/kernels.ts');
   const { centredAxis } = await server.ssrLoadModule('/src/optics/field.ts');
   const { sourceField2D } = await server.ssrLoadModule('/src/optics/source.ts');
   const { propagateFarField } = await server.ssrLoadModule('/src/optics/direct.ts');
   const st = await server.ssrLoadModule('/src/optics/spectrum-table.ts');
-  console.log(`WebAssembly FFT kernel: ${loadFastKernels()}`);
+  const engine = createEngine();
+  console.log(`FFT kernel: ${engine.name}`);
   const every = Number(process.argv[2] ?? 10);
   const deg = Math.PI / 180;
   const half = 1.776 * Math.tan(40 * deg);
@@ -72,7 +73,7 @@ try {
     const subX = { n: Math.floor((outX.n - 1) / k) + 1, start: outX.start, step: k * outX.step };
     const subY = { n: Math.floor((outY.n - 1) / k) + 1, start: outY.start, step: k * outY.step };
     let t = performance.now();
-    const ref = propagateFarField(src, z, subX, subY, carrier);
+    const ref = propagateFarField(engine, src, z, subX, subY, carrier);
     const tRef = performance.now() - t;
     const scaled = (tRef / (subX.n * subY.n)) * points;
     console.log(`\n${c.name}`);
@@ -83,7 +84,7 @@ try {
       const cost = st.costFarFieldTable({ nx, ny, dx, dy }, band, points, opts);
       const rss0 = process.memoryUsage().rss;
       t = performance.now();
-      const full = st.farFieldByTable(src, z, outX, outY, carrier, opts);
+      const full = st.farFieldByTable(engine, src, z, outX, outY, carrier, opts);
       const tFull = performance.now() - t;
       const rss1 = process.memoryUsage().rss;
       let peak = 0;

@@ -18,8 +18,8 @@
 // by at most (π/2)². The FFTs and phase tables add rounding, about 1e-13 of Σ|U|ΔξΔη. The default
 // accuracy is 2e-5, so the bound is at most 5e-5 of Σ|U|ΔξΔη, which is |Â| at its peak for a real
 // positive source; the brief's aim is 1e-4 of the peak. Measured: 1e-6 and below.
-import { beforeAll, describe, expect, it } from 'vitest';
-import { loadFastKernels } from '../../src/kernels.js';
+import { engine } from '../engine.js';
+import { describe, expect, it } from 'vitest';
 import type { Aperture, Illumination } from '../../src/optics/aperture.js';
 import { dft2AtPoints } from '../../src/optics/dft.js';
 import { propagateFarField } from '../../src/optics/direct.js';
@@ -41,9 +41,6 @@ import {
   type TableOrder,
 } from '../../src/optics/spectrum-table.js';
 
-beforeAll(() => {
-  loadFastKernels();
-});
 
 const lam = 0.5e-6;
 const deg = Math.PI / 180;
@@ -119,12 +116,12 @@ describe('the far field by the table = propagateFarField (direct sums) on small 
       const carrier = carrierOf(c.ill);
       const outX = centredAxis(37, (2 * z * Math.tan(35 * deg)) / 36, z * Math.tan(c.ill.tilt[0]));
       const outY = centredAxis(29, (2 * z * Math.tan(25 * deg)) / 28, z * Math.tan(c.ill.tilt[1]));
-      const ref = propagateFarField(src, z, outX, outY, carrier, { mappingTolerance: -1, pointByPoint: true });
-      const got = farFieldByTable(src, z, outX, outY, carrier);
+      const ref = propagateFarField(engine, src, z, outX, outY, carrier, { mappingTolerance: -1, pointByPoint: true });
+      const got = farFieldByTable(engine, src, z, outX, outY, carrier);
       const { diff, peak } = worstDifference(got.data, ref.data);
       expect(diff / peak).toBeLessThan(1e-4);
       // Point by point, the bound in Â times the kernel factor's size (z/r)/(λr)·√(1 + 1/(kr)²).
-      const table = tabulateSpectrum2D(src, farFieldBand(outX, outY, z, lam, carrier));
+      const table = tabulateSpectrum2D(engine, src, farFieldBand(outX, outY, z, lam, carrier));
       const k = (2 * Math.PI) / lam;
       let worstRatio = 0;
       for (let r = 0; r < outY.n; r++) {
@@ -150,10 +147,10 @@ describe('the far field by the table = propagateFarField (direct sums) on small 
     const carrier = carrierOf(c.ill);
     const outX = centredAxis(25, (2 * z * Math.tan(30 * deg)) / 24, z * Math.tan(c.ill.tilt[0]));
     const outY = centredAxis(21, (2 * z * Math.tan(30 * deg)) / 20);
-    const ref = propagateFarField(src, z, outX, outY, carrier, { mappingTolerance: -1, pointByPoint: true });
+    const ref = propagateFarField(engine, src, z, outX, outY, carrier, { mappingTolerance: -1, pointByPoint: true });
     const modes: [AxisMode, AxisMode][] = [['fft', 'fft'], ['fft', 'chirp'], ['chirp', 'fft'], ['chirp', 'chirp']];
     for (const mode of modes) {
-      const got = farFieldByTable(src, z, outX, outY, carrier, { mode });
+      const got = farFieldByTable(engine, src, z, outX, outY, carrier, { mode });
       const { diff, peak } = worstDifference(got.data, ref.data);
       expect(diff / peak, mode.join('/')).toBeLessThan(1e-4);
     }
@@ -165,7 +162,7 @@ describe('the far field by the table = propagateFarField (direct sums) on small 
     const carrier = carrierOf(c.ill);
     const outX = centredAxis(41, (2 * z * Math.tan(35 * deg)) / 40, z * Math.tan(c.ill.tilt[0]));
     const outY = centredAxis(33, (2 * z * Math.tan(35 * deg)) / 32, z * Math.tan(c.ill.tilt[1]));
-    const ref = propagateFarField(src, z, outX, outY, carrier, { mappingTolerance: -1, pointByPoint: true });
+    const ref = propagateFarField(engine, src, z, outX, outY, carrier, { mappingTolerance: -1, pointByPoint: true });
     const band = farFieldBand(outX, outY, z, lam, carrier);
     const [nx, ny] = nonZeroSpan(src);
     const shape = { nx, ny, dx: c.pitch, dy: c.pitch };
@@ -176,7 +173,7 @@ describe('the far field by the table = propagateFarField (direct sums) on small 
       expect(tiling.tiles[0] * tiling.tiles[1]).toBeGreaterThan(1);
       expect(tiling.memory).toBeLessThanOrEqual(maxMemory);
       expect(costFarFieldTable(shape, band, outX.n * outY.n, { maxMemory }).tiles).toEqual(tiling.tiles);
-      const got = farFieldByTable(src, z, outX, outY, carrier, { maxMemory });
+      const got = farFieldByTable(engine, src, z, outX, outY, carrier, { maxMemory });
       const { diff, peak } = worstDifference(got.data, ref.data);
       expect(diff / peak).toBeLessThan(1e-4);
     }
@@ -198,7 +195,7 @@ describe('the interpolation error law (Lagrange remainder, tone by tone)', () =>
         const { field: src } = source(ap, ill, 64, 0.25e-6);
         const R: [number, number] = [(60 / 2) * 0.25e-6, (36 / 2) * 0.25e-6]; // half-widths of the 61 × 37 open cells' centres
         const step: [number, number] = [1 / (c * R[0]), 1 / (c * R[1])];
-        const table = tabulateSpectrum2D(src, band, { order, step, mode: ['chirp', 'chirp'], divideCellResponse: false });
+        const table = tabulateSpectrum2D(engine, src, band, { order, step, mode: ['chirp', 'chirp'], divideCellResponse: false });
         expect(table.halfWidth[0]).toBeCloseTo(R[0], 15);
         expect(table.halfWidth[1]).toBeCloseTo(R[1], 15);
         const [fx, fy] = pointsIn(band, 2000, 7);
@@ -248,7 +245,7 @@ describe('Parseval (Rayleigh) theorem', () => {
     const h = (2 * F) / n;
     const out = new Float64Array(2);
     const powerOf = (divideCellResponse: boolean) => {
-      const table = tabulateSpectrum2D(src, band, { divideCellResponse });
+      const table = tabulateSpectrum2D(engine, src, band, { divideCellResponse });
       let sum = 0;
       for (let j = 0; j < n; j++) {
         for (let i = 0; i < n; i++) {
@@ -279,7 +276,7 @@ describe('Parseval (Rayleigh) theorem', () => {
     const { field: src, power } = source({ shape: 'rectangle', width: 39 * pitch, height: 23 * pitch, opaque: false }, { kind: 'plane', tilt: [0, 0] }, 48, pitch);
     const P = 1 / pitch;
     const band: SpectrumBand = { fx: [-P / 2, P / 2], fy: [-P / 2, P / 2] };
-    const table = tabulateSpectrum2D(src, band, { divideCellResponse: false });
+    const table = tabulateSpectrum2D(engine, src, band, { divideCellResponse: false });
     const n = 61;
     const h = P / n;
     const out = new Float64Array(2);
@@ -335,7 +332,7 @@ describe('the band and the estimates', () => {
     const outX = centredAxis(101, (2 * z * Math.tan(40 * deg)) / 100, z * Math.tan(c.ill.tilt[0]));
     const outY = centredAxis(81, (2 * z * Math.tan(40 * deg)) / 80);
     const band = farFieldBand(outX, outY, z, lam, carrier);
-    const table = tabulateSpectrum2D(src, band);
+    const table = tabulateSpectrum2D(engine, src, band);
     // The rectangle's non-zero span, counted here: its edges fall on cell centres, so 41 × 21 cells.
     const [nx, ny] = nonZeroSpan(src);
     expect([nx, ny]).toEqual([41, 21]);
@@ -350,9 +347,9 @@ describe('the band and the estimates', () => {
 
   it('refuses what it cannot do: a 1-D source, an empty band, an order it has no stencil for', () => {
     const one: Field = { data: new Float64Array(8), nx: 4, ny: 1, dx: 1e-6, dy: 0, x0: 0, y0: 0, wavelength: lam };
-    expect(() => tabulateSpectrum2D(one, { fx: [0, 1], fy: [0, 1] })).toThrow(/2-D/);
+    expect(() => tabulateSpectrum2D(engine, one, { fx: [0, 1], fy: [0, 1] })).toThrow(/2-D/);
     const { field: src } = source(CASES[0]!.ap, CASES[0]!.ill, 48, 0.3e-6);
-    expect(() => tabulateSpectrum2D(src, { fx: [1, 0], fy: [0, 1] })).toThrow(/empty band/);
-    expect(() => tabulateSpectrum2D(src, { fx: [0, 1], fy: [0, 1] }, { order: 5 as TableOrder })).toThrow(/order/);
+    expect(() => tabulateSpectrum2D(engine, src, { fx: [1, 0], fy: [0, 1] })).toThrow(/empty band/);
+    expect(() => tabulateSpectrum2D(engine, src, { fx: [0, 1], fy: [0, 1] }, { order: 5 as TableOrder })).toThrow(/order/);
   });
 });

@@ -17,7 +17,7 @@ export async function fromDist<T>(path: string): Promise<T> {
 }
 
 export type TeamModule = typeof import('../../src/parallel/fft-team.js');
-export type FftModule = typeof import('../../src/optics/fft.js');
+export type EngineModule = typeof import('../../src/optics/engine.js');
 export type FastModule = typeof import('../../src/optics/fft-fast.js');
 export type FieldModule = typeof import('../../src/optics/field.js');
 export type KernelsModule = typeof import('../../src/kernels.js');

@@ -7,38 +7,48 @@
 import { spawnSync } from 'node:child_process';
 import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import * as sourceTeam from '../../src/parallel/fft-team.js';
-import { fromDist, distFile, type FastModule, type FftModule, type FieldModule, type KernelsModule, type TeamModule } from './dist.js';
+import type { Engine } from '../../src/optics/engine.js';
+import { fromDist, distFile, type EngineModule, type FastModule, type FieldModule, type KernelsModule, type TeamModule } from './dist.js';
 import { randomComplex, sameBits, sharedCopy } from './fft-data.js';
 
 let team: TeamModule;
-let fft: FftModule;
+let base: Engine;
+/** The engine of the team started last (startFftTeam). */
+let teamEngine: Engine;
 let fast: FastModule;
 let field: FieldModule;
 
 beforeAll(async () => {
   team = await fromDist<TeamModule>('parallel/fft-team.js');
-  fft = await fromDist<FftModule>('optics/fft.js');
+  const engines = await fromDist<EngineModule>('optics/engine.js');
   fast = await fromDist<FastModule>('optics/fft-fast.js');
   field = await fromDist<FieldModule>('optics/field.js');
-  expect((await fromDist<KernelsModule>('kernels.js')).loadFastKernels()).toBe(true);
+  base = engines.singleThreadEngine((await fromDist<KernelsModule>('kernels.js')).createKernel());
+  expect(fast.fastFftBackend(base.kernel)).toBe('wasm-simd');
 });
+
+/** Starts a team from the one-thread engine; resolves to the threads ready. */
+async function start(threads: number, opts: Parameters<TeamModule['startFftTeam']>[2] = {}): Promise<number> {
+  teamEngine = await team.startFftTeam(threads, base, opts);
+  return teamEngine.threads;
+}
 
 afterEach(async () => {
   await team.stopFftTeam();
-  fast.useFastFftBackend('wasm-simd');
+  fast.useFastFftBackend(base.kernel, 'wasm-simd');
 });
 
 /** One thread's transform of a copy of x. */
 function serial(x: Float64Array, nx: number, ny: number, inverse: boolean): Float64Array {
   const y = x.slice();
-  fast.fft2Interleaved(y, nx, ny, inverse);
+  fast.fft2Interleaved(base.kernel, y, nx, ny, inverse);
   return y;
 }
 
-/** The team's transform (through fft2, as the program calls it) of a shared copy of x. */
+/** The team's transform (through its engine's fft2, as the program calls it) of a shared copy of x. */
 function viaTeam(x: Float64Array, nx: number, ny: number, inverse: boolean): Float64Array {
   const y = sharedCopy(x);
-  fft.fft2(y, nx, ny, inverse);
+  teamEngine.fft2(y, nx, ny, inverse);
   return y;
 }
 
@@ -46,7 +56,8 @@ describe('where teams can start', () => {
   it('from the compiled program, yes; from the TypeScript sources, no team and nothing changes', async () => {
     expect(team.teamsAvailable()).toBe(true);
     expect(sourceTeam.teamsAvailable()).toBe(false);
-    expect(await sourceTeam.startFftTeam(2)).toBe(1);
+    // the engine given back is the one it was to be made from
+    expect(await sourceTeam.startFftTeam(2, base)).toBe(base);
     expect(sourceTeam.fftTeamSize()).toBe(1);
   });
 });
@@ -55,11 +66,11 @@ describe.each(['wasm-simd', 'js'] as const)('%s kernel: a team of 2 equals one t
   const shapes: [number, number][] = [[64, 128], [256, 256], [512, 256], [128, 32]];
   for (const inverse of [false, true]) {
     it(`${shapes.map(([a, b]) => `${a}×${b}`).join(', ')}, ${inverse ? 'inverse' : 'forward'}`, async () => {
-      fast.useFastFftBackend(backend);
+      fast.useFastFftBackend(base.kernel, backend);
       // Parts by the helper only (this thread draws none: certain however busy the machine is),
       // then shared as they come, which on a busy machine may be all by this thread.
       for (const idle of [true, false]) {
-        expect(await team.startFftTeam(2, { minValues: 1024, callerIdleForTests: idle })).toBe(2);
+        expect(await start(2, { minValues: 1024, callerIdleForTests: idle })).toBe(2);
         for (let round = 0; round < 3; round++) {
           for (const [nx, ny] of shapes) {
             const x = randomComplex(nx * ny, 13 * nx + ny + round);
@@ -80,7 +91,7 @@ describe.each(['wasm-simd', 'js'] as const)('%s kernel: a team of 2 equals one t
 
 describe('what the team leaves to one thread', () => {
   it('1-D transforms, transforms below the size threshold, and data not in shared memory', async () => {
-    expect(await team.startFftTeam(2, { minValues: 2 ** 14 })).toBe(2);
+    expect(await start(2, { minValues: 2 ** 14 })).toBe(2);
     const cases: [string, Float64Array, number, number][] = [
       ['1-D', sharedCopy(randomComplex(2 ** 16, 1)), 2 ** 16, 1],
       ['small', sharedCopy(randomComplex(64 * 128, 2)), 64, 128],
@@ -88,7 +99,7 @@ describe('what the team leaves to one thread', () => {
     ];
     for (const [what, x, nx, ny] of cases) {
       const ref = serial(x, nx, ny, false);
-      fft.fft2(x, nx, ny, false);
+      teamEngine.fft2(x, nx, ny, false);
       expect(sameBits(x, ref), what).toBe(true);
     }
     expect(team.fftTeamFigures().transforms).toBe(0);
@@ -99,20 +110,22 @@ describe('what the team leaves to one thread', () => {
   });
 
   it('errors stay those of one thread (sizes not powers of two, wrong lengths)', async () => {
-    await team.startFftTeam(2, { minValues: 16 });
-    expect(() => fft.fft2(new Float64Array(new SharedArrayBuffer(8 * 2 * 12 * 8)), 12, 8, false)).toThrow(/powers of two/);
-    expect(() => fft.fft2(new Float64Array(new SharedArrayBuffer(8 * 30)), 4, 4, false)).toThrow(/values for a 4×4/);
+    await start(2, { minValues: 16 });
+    expect(() => teamEngine.fft2(new Float64Array(new SharedArrayBuffer(8 * 2 * 12 * 8)), 12, 8, false)).toThrow(/powers of two/);
+    expect(() => teamEngine.fft2(new Float64Array(new SharedArrayBuffer(8 * 30)), 4, 4, false)).toThrow(/values for a 4×4/);
   });
 
-  it('large sample arrays are shared while a team runs, small ones and all after it are not', async () => {
-    const big = () => field.createField({ n: 512, start: 0, step: 1 }, { n: 512, start: 0, step: 1 }, 1e-6).data.buffer;
-    const small = () => field.createField({ n: 64, start: 0, step: 1 }, { n: 64, start: 0, step: 1 }, 1e-6).data.buffer;
-    expect(big()).toBeInstanceOf(ArrayBuffer);
-    await team.startFftTeam(2);
-    expect(big()).toBeInstanceOf(SharedArrayBuffer);
-    expect(small()).toBeInstanceOf(ArrayBuffer);
+  it("large sample arrays from a team's engine are shared while the team runs, small ones and all after it are not", async () => {
+    const big = (e: Engine) => field.createField({ n: 512, start: 0, step: 1 }, { n: 512, start: 0, step: 1 }, 1e-6, e.allocate).data.buffer;
+    const small = (e: Engine) => field.createField({ n: 64, start: 0, step: 1 }, { n: 64, start: 0, step: 1 }, 1e-6, e.allocate).data.buffer;
+    expect(big(base)).toBeInstanceOf(ArrayBuffer);
+    await start(2);
+    expect(big(teamEngine)).toBeInstanceOf(SharedArrayBuffer);
+    expect(small(teamEngine)).toBeInstanceOf(ArrayBuffer);
+    // the one-thread engine is not changed by the team
+    expect(big(base)).toBeInstanceOf(ArrayBuffer);
     await team.stopFftTeam();
-    expect(big()).toBeInstanceOf(ArrayBuffer);
+    expect(big(teamEngine)).toBeInstanceOf(ArrayBuffer);
     expect(team.fftTeamSize()).toBe(1);
   });
 });
@@ -122,12 +135,12 @@ describe.each(['wasm-simd', 'js'] as const)('%s kernel: a helper that is lost mi
   // writes, which with the shared memory is a part of the last phase, copying the result out).
   const faults = ['exit-after-claim', 'hang-after-claim', 'exit-while-writing', 'throw'] as const;
   it.each(faults)('%s: the caller finishes alone, with the same bits, stops the team and says why', async (fault) => {
-    fast.useFastFftBackend(backend);
+    fast.useFastFftBackend(base.kernel, backend);
     const problems: string[] = [];
     // The caller draws no parts, so the helper's first part (and its fault) comes with the first
     // transform however busy the machine is.
     expect(
-      await team.startFftTeam(2, { minValues: 1024, stallMs: 200, faultForTests: fault, callerIdleForTests: true, onProblem: (m) => problems.push(m) }),
+      await start(2, { minValues: 1024, stallMs: 200, faultForTests: fault, callerIdleForTests: true, onProblem: (m) => problems.push(m) }),
     ).toBe(2);
     const [nx, ny] = [512, 256];
     let rounds = 0;
@@ -150,14 +163,13 @@ describe.each(['wasm-simd', 'js'] as const)('%s kernel: a helper that is lost mi
 
 it("a library caller's process ends although its team was never stopped", () => {
   const script = `
-    const { loadFastKernels } = await import(${JSON.stringify(distFile('kernels.js'))});
-    const { fft2 } = await import(${JSON.stringify(distFile('optics/fft.js'))});
+    const { createEngine } = await import(${JSON.stringify(distFile('kernels.js'))});
     const { startFftTeam, fftTeamFigures } = await import(${JSON.stringify(distFile('parallel/fft-team.js'))});
-    loadFastKernels();
-    console.log(await startFftTeam(2, { onProblem: (m) => console.error(m) }));
+    const engine = await startFftTeam(2, createEngine(), { onProblem: (m) => console.error(m) });
+    console.log(engine.threads);
     const d = new Float64Array(new SharedArrayBuffer(8 * 2 * 512 * 512));
     d[0] = 1;
-    fft2(d, 512, 512, false);
+    engine.fft2(d, 512, 512, false);
     console.log(fftTeamFigures().transforms, d[2 * 1000 + 1] === 0 && d[2 * 1000] === 1);
   `;
   const r = spawnSync(process.execPath, ['--input-type=module', '-e', script], { encoding: 'utf8', timeout: 20_000 });

@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runJob as runJobFromSources } from '../../src/run/run-job.js';
 import { loadJobFile as loadFromSources } from '../../src/job/load.js';
 import type { RunReporter } from '../../src/run/progress.js';
-import { fromDist, type KernelsModule, type LoadModule, type RunJobModule, type TeamModule } from './dist.js';
+import { fromDist, type LoadModule, type RunJobModule, type TeamModule } from './dist.js';
 
 let dir: string;
 let run: RunJobModule;
@@ -28,7 +28,6 @@ beforeAll(async () => {
   run = await fromDist<RunJobModule>('run/run-job.js');
   load = await fromDist<LoadModule>('job/load.js');
   team = await fromDist<TeamModule>('parallel/fft-team.js');
-  (await fromDist<KernelsModule>('kernels.js')).loadFastKernels();
 });
 afterAll(async () => {
   await rm(dir, { recursive: true, force: true });

@@ -6,7 +6,8 @@ import { AIRY_HALF_POWER_V, SINC_HALF_POWER_U, sineIntegral } from '../../src/an
 import { orderOverlaps, type OrderSet } from '../../src/analysis/overlap.js';
 import { planCase } from '../../src/plan/planner.js';
 import { runPlannedCase } from '../../src/run/run-case.js';
-import { answerQuestions, newSearchContext, smallestSpot } from '../../src/run/searches.js';
+import { answerQuestions, smallestSpot } from '../../src/run/searches.js';
+import { testContext } from '../engine.js';
 import besselj0 from '@stdlib/math-base-special-besselj0';
 import besselj1 from '@stdlib/math-base-special-besselj1';
 import { makeCase, mm, nm, runCase, um, type CaseSpec } from '../helpers.js';
@@ -88,9 +89,9 @@ describe('Gaussian beam widths', () => {
 });
 
 describe('diffraction-limited verdicts', () => {
-  const ctx = newSearchContext();
+  const ctx = testContext();
   const verdict = (s: CaseSpec) => {
-    const rec = runPlannedCase(planCase(makeCase(s)));
+    const rec = runPlannedCase(planCase(makeCase(s)), ctx);
     answerQuestions(rec, ctx);
     return rec.metrics.verdicts!;
   };
@@ -144,7 +145,7 @@ describe('smallest-spot search', () => {
       aperture: { shape: 'circle', diameter: 100 * um, opaque: false },
       analysis: { detectors: [], smallestSpot: { between: [100 * um, 2 * mm], measure: 'energy' } },
     });
-    const ctx = newSearchContext();
+    const ctx = testContext();
     const s = smallestSpot(c, ctx);
     expect(s.textbook).toBeCloseTo(Math.sqrt(2.44 * lam * z), 12);
     // A local minimum: 5 % either side gives a larger spot.

@@ -2,6 +2,7 @@
 // test/helpers.ts runCase does, and compared with the exact references of test/reference/.
 // Used by random-cases.test.ts (the property test) and, with SPOTCAST_RANDOM_REPORT=1, to print
 // every case (see the test file's header).
+import { testContext } from '../engine.js';
 import { apertureFacts, describe as describeAperture, type Aperture, type Illumination } from '../../src/optics/aperture.js';
 import { fork, type ChildProcess } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
@@ -199,7 +200,7 @@ export function runRandomCase(d: DrawnCase, onPlanned?: (p: PlanInfo) => void): 
   if (plan.work > WORK_LIMIT) return { ...withPlan, status: 'too-much-work', note: `work ${plan.work.toExponential(2)}` };
   let rec;
   try {
-    rec = runPlannedCase(plan);
+    rec = runPlannedCase(plan, testContext());
   } catch (e) {
     return { ...withPlan, status: 'threw', note: `runPlannedCase: ${(e as Error).message}` };
   }

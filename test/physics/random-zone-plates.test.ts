@@ -5,6 +5,7 @@
 // or the case carries a warning that the computed values may be off (random-cases.ts
 // ACCURACY_WARNINGS). Cases the planner refuses or that cost more than the bound below are counted,
 // not compared. In process: the cases are small (the axis only, a window of a few focal spots).
+import { testContext } from '../engine.js';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { planCase } from '../../src/plan/planner.js';
 import { runPlannedCase } from '../../src/run/run-case.js';
@@ -44,7 +45,7 @@ function run(d: DrawnZonePlate): Outcome {
   const plan = planCase(makeCase(d.spec));
   if (plan.error) return { d, status: 'refused', how: plan.error };
   if (plan.work > WORK_BOUND) return { d, status: 'too-much-work', how: `${plan.method} ${plan.work.toExponential(1)}` };
-  const rec = runPlannedCase(plan);
+  const rec = runPlannedCase(plan, testContext());
   const c = rec.computed;
   const col = Math.round(c.center[0]);
   const row = Math.round(c.center[1]);

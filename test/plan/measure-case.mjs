@@ -15,10 +15,11 @@ import { join } from 'node:path';
 const dist = new URL('../../dist/src/', import.meta.url);
 const { planCase } = await import(new URL('plan/planner.js', dist).href);
 const { runPlannedCase } = await import(new URL('run/run-case.js', dist).href);
-const { answerQuestions, newSearchContext } = await import(new URL('run/searches.js', dist).href);
+const { answerQuestions } = await import(new URL('run/searches.js', dist).href);
+const { newCaseContext } = await import(new URL('run/context.js', dist).href);
 const { writeCase } = await import(new URL('output/case-output.js', dist).href);
-const { loadFastKernels } = await import(new URL('kernels.js', dist).href);
-loadFastKernels();
+const { createEngine } = await import(new URL('kernels.js', dist).href);
+const engine = createEngine();
 
 const args = process.argv.slice(2);
 const spec = JSON.parse(args[0]);
@@ -65,9 +66,10 @@ if (!planOnly && !plan.error) {
   // The steps of run/execute.ts's executeCase, with the peak after each.
   const peakNow = () => process.resourceUsage().maxRSS * 1024 - baseline;
   try {
-    const rec = runPlannedCase(plan);
+    const ctx = newCaseContext(engine, maxMemoryBytes !== undefined ? { maxMemoryBytes } : {});
+    const rec = runPlannedCase(plan, ctx);
     out.afterCompute = peakNow();
-    answerQuestions(rec, newSearchContext(maxMemoryBytes !== undefined ? { maxMemoryBytes } : {}));
+    answerQuestions(rec, ctx);
     out.afterAnswers = peakNow();
     await writeCase(dir, rec, '');
     out.afterWrite = peakNow();

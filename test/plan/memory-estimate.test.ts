@@ -6,6 +6,7 @@
 // and large enough (tens to hundreds of MB) to stand above the noise of the runtime's own heap.
 // Also: sizes no array can hold are refused before anything is allocated, and hostile sizes are
 // planned promptly. The build runs once in beforeAll; SPOTCAST_TEST_NO_BUILD=1 uses an existing dist/.
+import { testContext } from '../engine.js';
 import { execFile, execFileSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
@@ -116,7 +117,7 @@ describe('sizes no array can hold, and hostile sizes', () => {
     expect(auto.options.find((o) => o.method === 'fraunhofer')!.fits).toBe(false);
     if (!auto.error) {
       expect(auto.warnings.map((w) => w.code)).toContain('coarse-sampling');
-      expect(() => runPlannedCase(auto)).not.toThrow();
+      expect(() => runPlannedCase(auto, testContext())).not.toThrow();
     }
   });
 

@@ -5,7 +5,8 @@
 import { describe, expect, it } from 'vitest';
 import { planCase } from '../../src/plan/planner.js';
 import { shareSourceSpectra, sourceSpectrumKey } from '../../src/plan/share.js';
-import { computeCase, releaseKeptSpectrum } from '../../src/run/compute.js';
+import { computeCase } from '../../src/run/compute.js';
+import { testContext } from '../engine.js';
 import { makeCase } from '../helpers.js';
 
 const um = 1e-6;
@@ -56,17 +57,15 @@ describe('shared source spectra across a distance sweep', () => {
     it(`${method}: every case of the shared sweep equals the case computed alone`, () => {
       const distances = [0.4 * mm, 0.8 * mm, 1.6 * mm, 3.2 * mm];
       const grid = { size: 256, pitch: 0.5 * um };
-      const alone = sweep(distances, grid, method).map((p) => {
-        releaseKeptSpectrum();
-        return computeCase(p);
-      });
+      // Each case alone: a fresh context, nothing kept.
+      const alone = sweep(distances, grid, method).map((p) => computeCase(p, testContext()));
       const shared = sweep(distances, grid, method);
       shareSourceSpectra(shared);
       expect(shared[0]!.sharedSpectrum).toBeDefined();
       if (method === 'fresnel') expect(shared[0]!.form).toBe('transfer-function');
-      releaseKeptSpectrum();
-      const got = shared.map((p) => computeCase(p));
-      releaseKeptSpectrum();
+      // The sweep in one context, as a worker runs it.
+      const ctx = testContext();
+      const got = shared.map((p) => computeCase(p, ctx));
       for (let i = 0; i < distances.length; i++) {
         expect(got[i]!.ny).toBe(alone[i]!.ny);
         expect(Array.from(got[i]!.intensity)).toEqual(Array.from(alone[i]!.intensity));
