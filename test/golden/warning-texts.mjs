@@ -68,6 +68,8 @@ const CASES = [
   ['screen at half a wavelength', 'run', { distance: 0.5 * lam, aperture: slit(20 * um) }],
   ['coarse given pitch', 'run', { distance: 1, aperture: slit(100 * um), grid: { pitch: (100 * um) / 3 } }],
   ['fresnel near a wide slit', 'run', { distance: 2 * mm, aperture: slit(1 * mm), method: 'fresnel' }],
+  ['a 25 mm f/4 lens at its focus (paraxial lens)', 'plan', { distance: 0.1, aperture: { shape: 'lens', focal: 0.1, stop: 25 * mm, aberrations: [], opaque: false } }],
+  ['a fast 1 mm lens by the angular spectrum (its own spherical aberration)', 'plan', { distance: 5 * mm, aperture: { shape: 'lens', focal: 5 * mm, stop: 1 * mm, aberrations: [], opaque: false }, method: 'angular-spectrum' }],
   ['fresnel near a wide square', 'plan', { distance: 2 * mm, aperture: { shape: 'rectangle', width: 1 * mm, height: 1 * mm, opaque: false }, method: 'fresnel' }],
   ['fresnel near an opaque disc', 'plan', { distance: 2 * mm, aperture: circle(1 * mm, true), method: 'fresnel' }],
   ['far-field formula at N_F 2', 'run', { distance: (0.5 * mm) ** 2 / (2 * lam), aperture: slit(1 * mm), method: 'fraunhofer' }],
