@@ -25,6 +25,7 @@ export const angularSpectrumShifted: MethodDescriptor = {
   // Its propagation (propagateShiftedSpectrum) transforms the source each time: no spectrum is kept.
   sharesSourceSpectrum: false,
   apertureCells: false,
+  binaryOnly: false,
   closedForm: false,
   validity: angularSpectrumValidity,
   sample: shiftedSampling,

@@ -19,6 +19,7 @@ export const angularSpectrum: MethodDescriptor = {
   grid: 'transfer',
   sharesSourceSpectrum: true,
   apertureCells: false,
+  binaryOnly: false,
   closedForm: false,
   validity: angularSpectrumValidity,
   sample(g, c) {

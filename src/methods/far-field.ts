@@ -20,6 +20,7 @@ export const farField: MethodDescriptor = {
   grid: 'direct',
   sharesSourceSpectrum: false,
   apertureCells: false,
+  binaryOnly: false,
   closedForm: true,
   validity: farFieldValidity,
   sample(g, c) {

@@ -17,6 +17,7 @@ export const fresnelDirect: MethodDescriptor = {
   grid: 'direct',
   sharesSourceSpectrum: false,
   apertureCells: false,
+  binaryOnly: false,
   closedForm: true,
   validity: paraxialValidity,
   sample(g, c) {

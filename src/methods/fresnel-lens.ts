@@ -51,6 +51,7 @@ export const fresnelLens: MethodDescriptor = {
   grid: 'single-fft',
   sharesSourceSpectrum: false,
   apertureCells: false,
+  binaryOnly: false,
   closedForm: true,
   validity: paraxialValidity,
   sample(g, c) {

@@ -23,6 +23,7 @@ export const fresnelSingleFft: MethodDescriptor = {
   grid: 'single-fft',
   sharesSourceSpectrum: false,
   apertureCells: false,
+  binaryOnly: false,
   closedForm: true,
   validity: paraxialValidity,
   sample(g, c) {

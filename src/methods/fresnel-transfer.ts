@@ -20,6 +20,7 @@ export const fresnelTransfer: MethodDescriptor = {
   grid: 'transfer',
   sharesSourceSpectrum: true,
   apertureCells: false,
+  binaryOnly: false,
   closedForm: true,
   validity: paraxialValidity,
   sample(g, c) {

@@ -19,6 +19,7 @@ export const rayleighSommerfeldAreaCells: MethodDescriptor = {
   grid: 'direct',
   sharesSourceSpectrum: false,
   apertureCells: true,
+  binaryOnly: false,
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {

@@ -1,6 +1,5 @@
 // The exact integral for a plane wave at normal incidence as an integral along the aperture's
 // boundary (src/optics/rs-boundary.ts): exact, and a line integral per output point.
-import { isBinary } from '../elements/registry.js';
 import { boundaryRegionsOf, costRsBoundary, rsBoundary } from '../optics/rs-boundary.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -16,12 +15,11 @@ export const rayleighSommerfeldBoundary: MethodDescriptor = {
   grid: 'direct',
   sharesSourceSpectrum: false,
   apertureCells: true,
+  binaryOnly: true,
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
-    // Binary elements only: the boundary form integrates a plane wave over an open region (a lens's
-    // phase or a wavefront error has no boundary to integrate along).
-    if (g.oneD || !isBinary(c.aperture) || uncostedSlits(g, c)) return null;
+    if (g.oneD || uncostedSlits(g, c)) return null;
     // (Not when the job gives a grid: it asks for a sampled aperture.)
     const regions = !c.grid && c.illumination.kind === 'plane' && c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0 ? boundaryRegionsOf(c.aperture) : null;
     if (!regions) return null;

@@ -1,6 +1,6 @@
 // The exact integral for a 1-D aperture: cells no wider than the kernel's curvature allows over the
 // open intervals, with exact edges, summed onto the window (src/optics/rayleigh-sommerfeld.ts).
-import { gratingOf, isBinary } from '../elements/registry.js';
+import { gratingOf } from '../elements/registry.js';
 import { costRsDirect1D } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -16,11 +16,10 @@ export const rayleighSommerfeldCells1D: MethodDescriptor = {
   grid: 'direct',
   sharesSourceSpectrum: false,
   apertureCells: true,
+  binaryOnly: true,
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
-    // The exact sums take openings (cells, intervals, boundaries), not complex transmittances.
-    if (!isBinary(c.aperture)) return null;
     if (!g.oneD) return null;
     const grating = gratingOf(c.aperture);
     const cell = exactCell(g, c);

@@ -2,7 +2,6 @@
 // exact weights in the cells an edge crosses (src/optics/rs-2d-*.ts); the pitch and node count are
 // the cheapest that keep the error within the target; round and mirror-symmetric sources take the
 // radial or mirror path.
-import { isBinary } from '../elements/registry.js';
 import { rs2DSampling, rsCells2DFromAperture, rsSum2D } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -19,19 +18,17 @@ export const rayleighSommerfeldEdgeCells: MethodDescriptor = {
   grid: 'direct',
   sharesSourceSpectrum: false,
   apertureCells: true,
+  binaryOnly: true,
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
-    // The exact sums take openings (cells, intervals, boundaries), not complex transmittances.
-    if (!isBinary(c.aperture)) return null;
     if (g.oneD) return null;
     // A grating with too many slits to cost gets this form, impossible, in place of every 2-D one.
     const uncosted = uncostedSlits(g, c);
     if (uncosted) return uncosted;
     // Edge cells are exact for the edges the geometry names (boxes, rings); an element that only
     // samples itself is summed over area-sampled cells instead (rayleigh-sommerfeld-area-cells.ts).
-    // Binary elements only: boxes and edge cells are open or closed, no phase within them.
-    if (g.obstructed || !g.facts.exactEdges || !isBinary(c.aperture)) return null;
+    if (g.obstructed || !g.facts.exactEdges) return null;
     const out = exactOutputAxes(g, c);
     const s2 = rs2DSampling(c.aperture, c.illumination, g.lam, g.z, out[0]!.output, out[1]!.output, LIMITS.rsExactTarget);
     const pitch = c.grid?.pitch ? Math.min(c.grid.pitch, s2.pitch) : s2.pitch;

@@ -1,6 +1,6 @@
 // The exact integral for a grating of slits lit by a plane wave: one period's field on a lattice
 // commensurate with the period, summed over the periods (src/optics/rayleigh-sommerfeld.ts).
-import { gratingOf, isBinary } from '../elements/registry.js';
+import { gratingOf } from '../elements/registry.js';
 import { costRsPerPeriod1D, periodicAxis } from '../optics/rayleigh-sommerfeld.js';
 import { axisPlan } from '../plan/axis-plans.js';
 import { BASELINE_MEMORY } from '../plan/costs.js';
@@ -17,11 +17,10 @@ export const rayleighSommerfeldPerPeriod: MethodDescriptor = {
   grid: 'direct',
   sharesSourceSpectrum: false,
   apertureCells: true,
+  binaryOnly: true,
   closedForm: false,
   validity: rayleighSommerfeldValidity,
   sample(g, c) {
-    // The exact sums take openings (cells, intervals, boundaries), not complex transmittances.
-    if (!isBinary(c.aperture)) return null;
     if (!g.oneD) return null;
     const a = gratingOf(c.aperture);
     const cell = exactCell(g, c);

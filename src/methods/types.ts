@@ -121,6 +121,11 @@ export interface MethodDescriptor {
   /** The aperture is divided into cells with exact edges, not sampled: words, and no samples-per-feature check. */
   apertureCells: boolean;
   /**
+   * The form takes openings only (cells, intervals, boundaries: open or closed everywhere), not a
+   * complex transmittance: the planner does not offer it for a non-binary element (isBinary).
+   */
+  binaryOnly: boolean;
+  /**
    * A closed form a practitioner checks by hand (the far-field formula, Fresnel): preferred, in
    * registry order, to the cheapest exact form unless it costs more than 20× that.
    */

@@ -183,7 +183,9 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const options: MethodOption[] = [];
   const samplings: Chosen[] = [];
   const answers = opts.countAnswers === false ? 0 : answersPeak(c, opts.maxMemoryBytes);
+  const binary = isBinary(c.aperture);
   for (const d of METHOD_REGISTRY) {
+    if (d.binaryOnly && !binary) continue;
     const sampled = d.sample(geo, c);
     if (!sampled) continue;
     const s: Chosen = { ...sampled, ...(d.form ? { form: d.form } : {}), method: d.method, d };
