@@ -1,5 +1,6 @@
 // Shared helpers for tests: cases built like the job expander builds them, with nothing but the
 // physics given (the planner chooses grids unless a test says otherwise).
+import { farFieldIntensity, type Complex } from './reference/far-field.js';
 import { testContext } from './engine.js';
 import type { Aperture, Illumination } from '../src/optics/aperture.js';
 import type { Case } from '../src/plan/types.js';
@@ -44,6 +45,22 @@ export function runCase(s: CaseSpec) {
   const x = (col: number) => xAt(c, col);
   const y = (row: number) => yAt(c, row);
   return { plan, rec, c, x, y, codes: rec.warnings.map((w) => w.code) };
+}
+
+/**
+ * Runs a case and compares its whole window with a far-field reference (test/reference/far-field.ts):
+ * the worst |I − I_ref| relative to the reference's peak.
+ */
+export function runAgainstFarField(s: CaseSpec, F: (fx: number, fy: number) => Complex) {
+  const run = runCase(s);
+  const { c, x, y } = run;
+  const ref = new Float64Array(c.ny * c.nx);
+  for (let r = 0; r < c.ny; r++) for (let col = 0; col < c.nx; col++) ref[r * c.nx + col] = farFieldIntensity(F, s.wavelength, s.distance, x(col), y(r));
+  const error = maxDiffOverPeak(c.intensity, ref);
+  if (process.env.SPOTCAST_SHOW) console.log(`${s.aperture.shape} z=${s.distance}: worst ${error.toExponential(2)} of the peak, ${c.ny}×${c.nx}, ${run.plan.method}`);
+  let peak = 0;
+  for (const v of ref) peak = Math.max(peak, v);
+  return { ...run, error, peak };
 }
 
 /** Largest |a_i − b_i| over the largest |b_i|: a difference relative to the reference's peak. */

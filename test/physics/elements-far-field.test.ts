@@ -4,48 +4,17 @@
 // the Airy amplitude (Born & Wolf §8.5.2), arrays as the element's transform times the array factor
 // (Goodman, Introduction to Fourier Optics, §4.4: the convolution theorem). The far-field formula
 // on a flat screen: U = e^{ikr}/(iλr)·(z/r)·F(x/(λr), y/(λr)) (Goodman §4.2), so I = |F|²(z/r)²/(λr)².
-import besselj1 from '@stdlib/math-base-special-besselj1';
 import { describe, expect, it } from 'vitest';
 import type { Aperture } from '../../src/optics/aperture.js';
-import { polygonTransform, type Complex } from '../reference/polygon-transform.js';
-import { nm, runCase, um } from '../helpers.js';
+import { polygonTransform } from '../reference/polygon-transform.js';
+import { discTransform, rectTransform, type Complex } from '../reference/far-field.js';
+import { nm, runAgainstFarField, um } from '../helpers.js';
 
 const lam = 633 * nm;
 
-function rectF(w: number, h: number, at: [number, number], fx: number, fy: number): Complex {
-  const s = (u: number) => (u === 0 ? 1 : Math.sin(Math.PI * u) / (Math.PI * u));
-  const amp = w * h * s(w * fx) * s(h * fy);
-  const ph = -2 * Math.PI * (fx * at[0] + fy * at[1]);
-  return { re: amp * Math.cos(ph), im: amp * Math.sin(ph) };
-}
-function discF(d: number, at: [number, number], fx: number, fy: number): Complex {
-  const a = d / 2;
-  const q = 2 * Math.PI * a * Math.hypot(fx, fy);
-  const amp = Math.PI * a * a * (q === 0 ? 1 : (2 * besselj1(q)) / q);
-  const ph = -2 * Math.PI * (fx * at[0] + fy * at[1]);
-  return { re: amp * Math.cos(ph), im: amp * Math.sin(ph) };
-}
-
-/** Worst |I − I_ref| over the window, relative to the reference's peak, for a transform F. */
-function farFieldError(aperture: Aperture, z: number, F: (fx: number, fy: number) => Complex) {
-  const run = runCase({ wavelength: lam, distance: z, aperture });
-  const { c, x, y } = run;
-  let worst = 0;
-  let peak = 0;
-  const ref = new Float64Array(c.ny * c.nx);
-  for (let r = 0; r < c.ny; r++) {
-    for (let col = 0; col < c.nx; col++) {
-      const rr = Math.hypot(x(col), y(r), z);
-      const f = F(x(col) / (lam * rr), y(r) / (lam * rr));
-      const v = ((f.re * f.re + f.im * f.im) * (z / rr) ** 2) / (lam * rr) ** 2;
-      ref[r * c.nx + col] = v;
-      peak = Math.max(peak, v);
-    }
-  }
-  for (let i = 0; i < ref.length; i++) worst = Math.max(worst, Math.abs(c.intensity[i]! - ref[i]!));
-  if (process.env.SPOTCAST_SHOW) console.log(`${aperture.shape} z=${z}: worst ${(worst / peak).toExponential(2)} of the peak, ${c.ny}×${c.nx}, ${run.plan.method}`);
-  return { ...run, error: worst / peak };
-}
+const rectF = rectTransform;
+const discF = discTransform;
+const farFieldError = (aperture: Aperture, z: number, F: (fx: number, fy: number) => Complex) => runAgainstFarField({ wavelength: lam, distance: z, aperture }, F);
 
 describe('polygon (a triangle), far field', () => {
   const vertices: [number, number][] = [[0, 60 * um], [-52 * um, -30 * um], [52 * um, -30 * um]];

@@ -17,7 +17,8 @@ import { loadJobFile } from '../../src/job/load.js';
 import { expandJob } from '../../src/job/expand.js';
 import type { Aperture } from '../../src/optics/aperture.js';
 import { fresnelSeparableIntensity } from '../reference/fresnel.js';
-import { nm, runCase, um } from '../helpers.js';
+import { rectTransform, type Complex } from '../reference/far-field.js';
+import { nm, runAgainstFarField, runCase, um } from '../helpers.js';
 import { writeMaskPng } from '../mask-png.js';
 
 const lam = 633 * nm;
@@ -28,16 +29,7 @@ const pitch = 1.5 * um;
 const side = 32 * pitch;
 const inSquare = (i: number, k: number) => i >= 8 && i < 40 && k >= 8 && k < 40;
 
-interface Complex {
-  re: number;
-  im: number;
-}
-const sinc = (u: number) => (u === 0 ? 1 : Math.sin(Math.PI * u) / (Math.PI * u));
-function rectF(w: number, h: number, x0: number, fx: number, fy: number): Complex {
-  const amp = w * h * sinc(w * fx) * sinc(h * fy);
-  const ph = -2 * Math.PI * fx * x0;
-  return { re: amp * Math.cos(ph), im: amp * Math.sin(ph) };
-}
+const rectF = (w: number, h: number, x0: number, fx: number, fy: number) => rectTransform(w, h, [x0, 0], fx, fy);
 
 function maxOf(a: ArrayLike<number>): number {
   let m = -Infinity;
@@ -65,25 +57,7 @@ async function imageAperture(aperture: string): Promise<Aperture> {
 }
 
 /** The run and the worst |I − I_ref| over its window relative to the reference's peak. */
-function against(aperture: Aperture, F: (fx: number, fy: number) => Complex) {
-  const run = runCase({ wavelength: lam, distance: z, aperture });
-  const { c, x, y } = run;
-  let worst = 0;
-  let peak = 0;
-  const ref = new Float64Array(c.ny * c.nx);
-  for (let r = 0; r < c.ny; r++) {
-    for (let col = 0; col < c.nx; col++) {
-      const rr = Math.hypot(x(col), y(r), z);
-      const f = F(x(col) / (lam * rr), y(r) / (lam * rr));
-      const v = ((f.re * f.re + f.im * f.im) * (z / rr) ** 2) / (lam * rr) ** 2;
-      ref[r * c.nx + col] = v;
-      peak = Math.max(peak, v);
-    }
-  }
-  for (let i = 0; i < ref.length; i++) worst = Math.max(worst, Math.abs(c.intensity[i]! - ref[i]!));
-  if (process.env.SPOTCAST_SHOW) console.log(`${aperture.shape}: worst ${(worst / peak).toExponential(2)} of the peak, ${c.ny}×${c.nx}, ${run.plan.method}, pitch ${run.plan.x.inputPitch}`);
-  return { ...run, error: worst / peak, peak };
-}
+const against = (aperture: Aperture, F: (fx: number, fy: number) => Complex) => runAgainstFarField({ wavelength: lam, distance: z, aperture }, F);
 
 describe('a white square on black, far field', () => {
   let image: ReturnType<typeof against>;
