@@ -40,6 +40,14 @@ export function sweepAxes(job: JobSpec): SweepAxis[] {
   for (const [k, v] of Object.entries(job.aperture)) {
     if (isSweep(v)) add(`aperture.${k}`, v, element.counts?.includes(k) ? '1' : 'm', element.tokens[k]);
   }
+  (job.planes ?? []).forEach((p, i) => {
+    // Plane numbers in folder names count the aperture as plane 1.
+    add(`planes.${i}.after`, p.after, 'm', `gap${i + 2}`);
+    const e = elementOf(p.element);
+    for (const [k, v] of Object.entries(p.element)) {
+      if (isSweep(v)) add(`planes.${i}.element.${k}`, v, e.counts?.includes(k) ? '1' : 'm', `p${i + 2}${e.tokens[k] ?? k}`);
+    }
+  });
   if (job.illumination.kind === 'gaussian') add('illumination.waist', job.illumination.waist);
   add('distance', job.distance);
   return axes;
@@ -59,7 +67,7 @@ export function expandJob(job: JobSpec): Case[] {
   // script without the loader is checked here, so no NaN, 0 or infinity reaches a case.
   for (const a of axes) {
     // An element's signed keys (a diverging lens's focal length) may be negative, never zero.
-    const signed = a.key.startsWith('aperture.') && (elementOf(job.aperture).signed?.includes(a.key.slice('aperture.'.length)) ?? false);
+    const signed = signedKey(job, a.key);
     for (const v of a.values) {
       if (signed ? !(Number.isFinite(v) && v !== 0) : !(Number.isFinite(v) && v > 0)) throw new Error(`${a.key}: ${v} is not a ${signed ? 'non-zero' : 'positive'} finite number; validate the job with validateJob first`);
     }
@@ -93,6 +101,7 @@ export function expandJob(job: JobSpec): Case[] {
       wavelength: value('wavelength'),
       distance: value('distance'),
       aperture: resolveAperture(job, value, { wavelength: value('wavelength') }),
+      ...(job.planes ? { planes: job.planes.map((p, i) => ({ after: value(`planes.${i}.after`), aperture: resolveElement(p.element, (k) => value(`planes.${i}.element.${k}`), { wavelength: value('wavelength') }) })) } : {}),
       illumination: resolveIllumination(job, value),
       ...(job.grid ? { grid: job.grid } : {}),
       ...(job.window ? { window: job.window } : {}),
@@ -112,8 +121,20 @@ export function expandJob(job: JobSpec): Case[] {
 }
 
 function resolveAperture(job: JobSpec, value: (key: string) => number, context: ResolveContext): Aperture {
-  const a = job.aperture as unknown as { shape: string; opaque: boolean } & Record<string, unknown>;
-  return elementOf(a).resolve(a, (k: string) => value(`aperture.${k}`), context) as Aperture;
+  return resolveElement(job.aperture, (k: string) => value(`aperture.${k}`), context);
+}
+
+function resolveElement(spec: { shape: string }, value: (key: string) => number, context: ResolveContext): Aperture {
+  const a = spec as unknown as { shape: string; opaque: boolean } & Record<string, unknown>;
+  return elementOf(a).resolve(a, value, context) as Aperture;
+}
+
+/** An element's signed key (a diverging lens's focal length), in the first plane or a later one. */
+function signedKey(job: JobSpec, key: string): boolean {
+  const m = /^(?:aperture|planes\.(\d+)\.element)\.(.+)$/.exec(key);
+  if (!m) return false;
+  const spec = m[1] === undefined ? job.aperture : job.planes![Number(m[1])]!.element;
+  return elementOf(spec).signed?.includes(m[2]!) ?? false;
 }
 
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {

@@ -139,6 +139,22 @@ const searchShape = {
 export const SEARCH_KEYS = Object.keys(searchShape);
 
 const ordersShape = { overlap: positiveLength().optional() };
+
+/**
+ * Planes after the first (the job's aperture): each an element at a distance (`after`) behind the
+ * previous plane. The light is propagated plane to plane (src/plan/sequence.ts); `distance` is then
+ * from the last plane to the screen.
+ */
+export const MAX_PLANES = 6;
+const planeShape = { after: sweepLength(), element: aperture };
+export const PLANE_KEYS = Object.keys(planeShape);
+const planeOne = z.strictObject(planeShape, {
+  error: mappingError("expected a mapping such as {after: '100 mm', element: {shape: circle, diameter: '20 um'}}"),
+});
+const planes = z
+  .array(planeOne, { error: "expected a list of planes, each {after: '100 mm', element: {...}}" })
+  .min(1, { error: 'expected at least one plane after the first (or leave planes out)' })
+  .max(MAX_PLANES, { error: `expected at most ${MAX_PLANES} planes after the first` });
 export const ORDERS_KEYS = Object.keys(ordersShape);
 
 const descriptionMsg = `expected a line of text (at most ${DESCRIPTION_MAX} characters, no control characters)`;
@@ -157,6 +173,7 @@ const jobShape = {
   wavelength: sweepLength(WAVELENGTH),
   distance: sweepLength(),
   aperture,
+  planes: planes.optional(),
   illumination: illumination.default({ kind: 'plane', tilt: [0, 0] }),
   grid: z.strictObject(gridShape, { error: gridError }).optional(),
   window: windowSize.optional(),
@@ -206,7 +223,31 @@ export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
     }
   }
   element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }), { illumination: job.illumination.kind });
+  if (job.planes) checkPlanes(job, (path, message) => ctx.addIssue({ code: 'custom', path, message }));
 });
+
+/** What a job with planes in sequence cannot also ask for, and what a later plane cannot hold. */
+interface PlanesJob {
+  planes?: { after: SweepValues; element: { shape: string } }[];
+  grid?: unknown;
+  method: string;
+  search?: { 'smallest-spot'?: unknown };
+}
+function checkPlanes(job: PlanesJob, problem: (path: (string | number)[], message: string) => void): void {
+  const planes = job.planes!;
+  if (job.grid) problem(['grid'], 'expected no grid with planes: the planner samples each plane for the light that reaches it');
+  if (job.method !== 'auto' && job.method !== 'fresnel') problem(['method'], 'expected auto or fresnel with planes: the light is carried from plane to plane by the Fresnel integral');
+  if (job.search?.['smallest-spot']) problem(['search', 'smallest-spot'], 'expected no smallest-spot search with planes: it varies a single aperture');
+  planes.forEach((p, i) => {
+    const e = elementOf(p.element);
+    if (e.files) problem(['planes', i, 'element', 'shape'], `expected an element without files in a later plane: ${p.element.shape} reads a file, which only the first plane (aperture) may`);
+    e.check?.(p.element as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => problem(['planes', i, 'element', ...(Array.isArray(key) ? key : [key])], message), {
+      // A later plane is lit by the light from the one before, not by the job's illumination:
+      // bounded, so an unbounded lens there is fine.
+      illumination: 'gaussian',
+    });
+  });
+}
 
 /** "a circle or a (long) slit": the elements the smallest-spot search can vary. */
 function searchableWords(): string {
@@ -236,6 +277,10 @@ const QUANTITY_KEYS: Record<string, UnitKind> = {
   'detector.at': 'length',
   'search.smallest-spot.between': 'length',
   'orders.overlap': 'length',
+  'planes.after': 'length',
+  ...Object.fromEntries(
+    ELEMENTS.flatMap((e) => Object.keys(e.tokens).filter((k) => !('counts' in e && (e.counts as readonly string[] | undefined)?.includes(k))).map((k) => [`planes.element.${k}`, 'length' as UnitKind])),
+  ),
 };
 
 export type JobSpec = z.output<typeof jobSchema>;

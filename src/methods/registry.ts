@@ -6,6 +6,7 @@ import { angularSpectrumShifted } from './angular-spectrum-shifted.js';
 import { farField } from './far-field.js';
 import { fresnelDirect } from './fresnel-direct.js';
 import { fresnelLens } from './fresnel-lens.js';
+import { fresnelPlanes } from './fresnel-planes.js';
 import { fresnelSingleFft } from './fresnel-single-fft.js';
 import { fresnelTransfer } from './fresnel-transfer.js';
 import { rayleighSommerfeldAreaCells } from './rayleigh-sommerfeld-area-cells.js';
@@ -21,6 +22,7 @@ export const METHOD_REGISTRY: readonly MethodDescriptor[] = [
   fresnelTransfer,
   fresnelSingleFft,
   fresnelLens,
+  fresnelPlanes,
   angularSpectrum,
   angularSpectrumShifted,
   rayleighSommerfeldCells1D,

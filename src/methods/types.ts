@@ -69,10 +69,22 @@ export interface FieldStep {
   edge?: number;
 }
 
+/** Planes in sequence: the power arriving on the region sampled at a plane, and what its element passes. */
+export interface PlanePower {
+  /** 1 for the aperture, 2… for the planes after it. */
+  plane: number;
+  arriving: number;
+  passed: number;
+  /** The region was the planner's estimate of where the light lands (not the element's extent): its loss is checked. */
+  sampledFromLight: boolean;
+}
+
 /** A form's propagation of a case: the field on the window and the power through the aperture. */
 export interface Propagated extends FieldStep {
-  /** Power through the aperture, ∫|U₀|² (per metre of slit length in 1-D). */
+  /** Power through the aperture, ∫|U₀|² (per metre of slit length in 1-D); with planes, through the last. */
   powerIn: number;
+  /** Planes in sequence: each plane's powers, in order. */
+  planes?: PlanePower[];
   /** For a shared source (plan.sharedSpectrum): whether its spectrum was computed here or reused. */
   sourceSpectrum?: 'computed' | 'reused';
 }

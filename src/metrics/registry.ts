@@ -7,6 +7,7 @@ import { detectorMetrics } from './detectors.js';
 import { encircledMetrics } from './encircled.js';
 import { gratingMetrics } from './grating.js';
 import { peakMetrics } from './peak.js';
+import { planeMetrics } from './planes.js';
 import { smallestSpotMetrics } from './smallest-spot.js';
 import { strehlMetrics } from './strehl.js';
 import type { MetricFamily, MetricScope, Quantity } from './types.js';
@@ -23,6 +24,7 @@ export const METRICS: readonly MetricFamily[] = [
   gratingMetrics,
   verdictMetrics,
   strehlMetrics,
+  planeMetrics,
   smallestSpotMetrics,
 ];
 

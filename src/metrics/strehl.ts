@@ -64,7 +64,8 @@ export function idealOnAxisIntensity(lam: number, z: number, focal: number, radi
 export function lensStrehl(plan: Plan, peakIntensity: number): LensStrehl | null {
   const c = plan.case;
   const lens = lensOf(c.aperture);
-  if (!lens || lens.focal <= 0) return null;
+  // (With planes after the lens the screen's distance is not the lens's.)
+  if (!lens || lens.focal <= 0 || c.planes) return null;
   const lam = c.wavelength;
   const z = c.distance;
   const waist = c.illumination.kind === 'gaussian' ? c.illumination.waist : Infinity;

@@ -21,6 +21,7 @@ import { renderIntensityPng } from './picture.js';
 import { TOOL_NAME, TOOL_VERSION } from '../version.js';
 import { metricDefinitions } from '../metrics/registry.js';
 import type { LensStrehl } from '../metrics/strehl.js';
+import type { PlaneResult } from '../metrics/planes.js';
 
 export interface CaseMetrics extends SpotMetrics {
   /** ∫ irradiance over the open area (null for opaque obstacles). */
@@ -54,6 +55,8 @@ export interface CaseMetrics extends SpotMetrics {
   verdicts?: Verdict[];
   /** A converging lens with the screen within its focal depth: the Strehl ratio and its verdict (metrics/strehl.ts). */
   strehl?: LensStrehl;
+  /** Planes in sequence: what each plane passes (metrics/planes.ts). */
+  planes?: PlaneResult[];
 }
 
 /**
@@ -155,7 +158,8 @@ export function digestOf(data: Uint8Array): FileDigest {
 export function caseTitle(plan: Plan): string {
   const c = plan.case;
   const beam = c.illumination.kind === 'gaussian' ? ` · beam w0 ${formatLength(c.illumination.waist, 3)}` : '';
-  return `${describe(c.aperture)}${beam} · ${formatLength(c.wavelength, 4)} · z = ${formatLength(c.distance, 4)}`;
+  const planes = (c.planes ?? []).map((p) => ` → ${formatLength(p.after, 4)} → ${describe(p.aperture)}`).join('');
+  return `${describe(c.aperture)}${planes}${beam} · ${formatLength(c.wavelength, 4)} · z = ${formatLength(c.distance, 4)}${planes ? ' (from the last plane)' : ''}`;
 }
 
 export function resultJson(rec: CaseRecord): Record<string, unknown> {
@@ -192,6 +196,7 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
     },
     parameters: {
       aperture: c.aperture,
+      ...(c.planes ? { planes: c.planes } : {}),
       illumination: c.illumination,
       methodRequested: c.method,
       window: c.window ?? null,

@@ -25,7 +25,8 @@ export function searchLimits(maxMemoryBytes?: number): { maxMemoryBytes: number;
 /** The axes a verdict is given for: radial for circles, x for long slits, x and y for rectangles. */
 export function verdictAxesOf(c: Case): VerdictAxis[] {
   const a = c.aperture;
-  if (a.opaque || c.illumination.kind !== 'plane') return [];
+  // (With planes after the aperture, its size and the screen's distance say nothing of the spot.)
+  if (a.opaque || c.illumination.kind !== 'plane' || c.planes) return [];
   const axes: VerdictAxis[] = ['radial', 'x', 'y'];
   return axes.filter((axis) => verdictWidth(a, axis) !== null);
 }

@@ -17,6 +17,7 @@ import type { Geometry } from './geometry.js';
 import { BASELINE_MEMORY } from './costs.js';
 import { bytes, fmt, len, pct, seconds } from './words.js';
 import { planWindow, windowLoss } from './window.js';
+import { planSequence } from './sequence.js';
 import { answerVariants, searchLimits } from './answers.js';
 import { METHOD_NAMES, METHOD_REGISTRY, methodWords } from '../methods/registry.js';
 import type { MethodDescriptor, Sampling, Validity, ValidityInputs } from '../methods/types.js';
@@ -47,6 +48,8 @@ export const DEFAULT_MAX_WORK = 3600 * LIMITS.workPerSecond;
 export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const maxMemory = opts.maxMemoryBytes ?? DEFAULT_MAX_MEMORY;
   const maxWork = opts.maxWork ?? DEFAULT_MAX_WORK;
+  // Planes in sequence have a planner of their own (one method: the Fresnel integral plane to plane).
+  if (c.planes?.length) return planSequence(c, { maxMemoryBytes: maxMemory, maxWork });
   const lam = c.wavelength;
   const z = c.distance;
   const k = (2 * Math.PI) / lam;

@@ -4,7 +4,7 @@ import type { MethodRequest } from '../job/schema.js';
 import type { WarningCode } from '../warnings/catalogue.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
-export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct' | 'lens-chirp';
+export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct' | 'lens-chirp' | 'planes';
 /**
  * The exact integral summed over the aperture's cells, one period's field summed over a grating's
  * periods, or (a plane wave at normal incidence) as an integral along the aperture's boundary.
@@ -32,6 +32,11 @@ export interface Case {
   wavelength: number;
   distance: number;
   aperture: Aperture;
+  /**
+   * Planes after the first (the aperture), in order: each element `after` metres behind the one
+   * before; `distance` is then from the last plane to the screen (plan/sequence.ts).
+   */
+  planes?: PlaneSpec[];
   illumination: Illumination;
   grid?: { size?: number; pitch?: number };
   window?: [number, number];
@@ -41,6 +46,31 @@ export interface Case {
   output: { npy: 'float64' | 'float32'; logDecades: number };
   /** What to measure beyond the standard metrics (the job's detector, search and orders keys). */
   analysis: CaseAnalysis;
+}
+
+export interface PlaneSpec {
+  /** Distance from the previous plane (m). */
+  after: number;
+  aperture: Aperture;
+}
+
+/**
+ * One leg of a sequence: from plane `from` (0 = the aperture) to the next plane or the screen,
+ * the lit region sampled at the start and the window evaluated at the end (plan/sequence.ts).
+ */
+export interface SequenceLeg {
+  /** Distance (m). */
+  z: number;
+  /** Samples of the start plane's lit region, per axis. */
+  input: [Axis, Axis];
+  /** Where the leg's field is evaluated: the next plane's window, or the screen's. */
+  output: [Axis, Axis];
+  /** The start plane's lens (focal length, m) folded into the leg's chirp, or null. */
+  focal: number | null;
+  /** The Fresnel approximation's phase error over the leg (rad): what it drops, kρ⁴/(8z³), between the lit region and the window. */
+  paraxialPhase: number;
+  /** Whether the end plane's window is narrower than its element (the light's estimate): its loss is then checked. */
+  windowFromLight: boolean;
 }
 
 export interface DetectorRequest {
@@ -182,6 +212,8 @@ export interface Plan {
   shifted?: { centre: [number, number]; taper: number; bandTaper: number };
   /** The exact 2-D sums with exact edge cells: nodes per edge cell (per axis) and the path taken. */
   exact2D?: { edgeNodes: number; path: 'direct' | 'mirror' | 'radial' };
+  /** Planes in sequence (form 'planes'): one leg per gap, the last to the screen. */
+  sequence?: { legs: SequenceLeg[] };
   /** Set when the case cannot be computed as planned (it is then reported, not run). */
   error?: string;
 }

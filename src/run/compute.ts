@@ -8,6 +8,7 @@ import { carrierFrequencies } from '../optics/source.js';
 import { descriptorOf } from '../methods/registry.js';
 import type { Plan } from '../plan/types.js';
 import type { CaseContext } from './context.js';
+import type { PlanePower } from '../methods/types.js';
 export { complementWithin, profileIntervals } from '../methods/exact-intervals.js';
 
 export interface Diagnostics {
@@ -21,6 +22,8 @@ export interface Diagnostics {
   edgeEnergy?: number;
   /** For a shared source (plan.sharedSpectrum): whether its spectrum was computed here or reused. */
   sourceSpectrum?: 'computed' | 'reused';
+  /** Planes in sequence: each plane's powers (powerIn is then what leaves the last). */
+  planes?: PlanePower[];
 }
 
 /** The window's intensity map (the field's grid and |U|²) and what the case adds to it. */
@@ -55,6 +58,7 @@ export function computeCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'spect
   }
   if (result.edge !== undefined) diagnostics.edgeEnergy = result.edge;
   if (result.sourceSpectrum) diagnostics.sourceSpectrum = result.sourceSpectrum;
+  if (result.planes) diagnostics.planes = result.planes;
   // A 1-D window (no y axis) is the grid's 1-D form, ny = 1 and dy = 0, whatever a propagator left in dy.
   if (!outY && field.ny !== 1) throw new Error(`a 1-D case came back with a field of ${field.ny} rows`);
   return {

@@ -9,6 +9,8 @@ import { encircledRadii } from '../metrics/encircled.js';
 import { caseVerdicts } from '../metrics/verdicts.js';
 import { lensStrehl } from '../metrics/strehl.js';
 import { powerAccount } from '../metrics/window.js';
+import { planeResults } from '../metrics/planes.js';
+import { PLANE_LOSS_WARN } from '../plan/sequence.js';
 import { directionCosines } from '../optics/source.js';
 import { gratingOf } from '../elements/registry.js';
 import type { CaseMetrics, CaseRecord } from '../output/case-output.js';
@@ -30,7 +32,8 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   const energy = reference ? energyCurve(computed, centre, reference) : null;
   // Behind an obstacle (in a plane wave or a Gaussian beam) a detector reads a fraction of what it
   // would receive with nothing in the way.
-  const detectors = readDetectors(plan, computed, centre, c.aperture.opaque ? null : reference);
+  // (With planes the light on the screen is what left the last plane, whatever the first one is.)
+  const detectors = readDetectors(plan, computed, centre, c.aperture.opaque && !c.planes ? null : reference);
   // Key order here is result.json's order.
   const metrics: CaseMetrics = {
     ...spot,
@@ -41,7 +44,15 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   const warnings: Warning[] = [...plan.warnings];
   let grating: GratingEvanescence | undefined;
   const a = gratingOf(c.aperture);
-  if (a && !c.aperture.opaque) {
+  if (d.planes) {
+    metrics.planes = planeResults(c, d.planes);
+    for (const [i, p] of d.planes.entries()) {
+      // A region sampled from the planner's estimate of the light: what it missed is lost to every later plane.
+      const before = i > 0 ? d.planes[i - 1]!.passed : 0;
+      const loss = before > 0 ? 1 - p.arriving / before : 0;
+      if (p.sampledFromLight && loss > PLANE_LOSS_WARN) warnings.push(warning('planes-window-loss', { plane: p.plane, loss, limit: PLANE_LOSS_WARN }));
+    }
+  } else if (a && !c.aperture.opaque) {
     const footprint = a.count * a.period * (a.length ?? 1);
     const [alpha, beta] = directionCosines(c.illumination);
     const input: GratingInput = {

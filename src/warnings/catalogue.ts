@@ -121,6 +121,23 @@ export const WARNING_CATALOGUE = {
     message: (d) =>
       `the thin lens is paraxial: its quadratic phase is ${fmt(d.phase, 2)} rad from a spherical wave about its focus at the rim of the lit pupil (kR⁴/(8f³), limit ${d.limit} rad); with the Fresnel kernel, which drops the same order, the result is an ideal (aberration-free) lens's field with paraxial positions, not the exact field of the quadratic phase itself (which would show that much spherical aberration)`,
   }),
+  'planes-paraxial': entry<{ leg: string; phase: number; limit: number }>({
+    title: 'A gap between planes is outside the Fresnel approximation',
+    accuracy: true,
+    message: (d) =>
+      `${d.leg}: the Fresnel integral that carries the light between planes drops ${fmt(d.phase, 2)} rad of phase variation across the lit region where the light lands (kρ⁴/(8z³), limit ${d.limit} rad): the light leaves at angles too steep for the paraxial approximation, so positions and fringes there are off; lengthen the gap or narrow the light, or compute that plane on its own (one element, method auto)`,
+  }),
+  'planes-window-loss': entry<{ plane: number; loss: number; limit: number }>({
+    title: 'Light lost between planes',
+    accuracy: true,
+    message: (d) =>
+      `plane ${d.plane}: ${pct(d.loss)} of the light arriving there fell outside the region the planner sampled (limit ${pct(d.limit)}) and is missing from everything after it; the planner's estimate of where the light goes was too narrow here`,
+  }),
+  'planes-no-light': entry<{ plane: number }>({
+    title: 'No light reaches a plane',
+    accuracy: true,
+    message: (d) => `plane ${d.plane}: the light from the plane before misses the element (by the planner's estimate): little or nothing reaches the screen, and what is computed is the far tail of the light`,
+  }),
   'tilt-y-ignored': entry<NoDetails>({
     title: 'Tilt along the slits ignored',
     accuracy: false,

@@ -1,0 +1,62 @@
+// Planes in sequence (plan/sequence.ts): the Fresnel integral from each plane to the next, each
+// element's transmittance multiplied in on the region the planner sampled there, each lens folded
+// into the integral's curvature (optics/sequence.ts). The planner plans these cases itself, so
+// `sample` offers this form for no single-element case.
+import { apertureMask, apertureTransmittance, lensOf } from '../elements/registry.js';
+import type { Aperture } from '../optics/aperture.js';
+import type { Axis, Field } from '../optics/field.js';
+import { passedPower, propagateLeg, type PlaneCells, type Wave } from '../optics/sequence.js';
+import { envelope } from '../optics/source.js';
+import type { MethodDescriptor, PlanePower } from './types.js';
+import { paraxialValidity } from './validity.js';
+
+export const fresnelPlanes: MethodDescriptor = {
+  id: 'fresnel-planes',
+  method: 'fresnel',
+  form: 'planes',
+  grid: 'direct',
+  sharesSourceSpectrum: false,
+  apertureCells: false,
+  binaryOnly: false,
+  closedForm: true,
+  validity: paraxialValidity,
+  sample: () => null,
+  words: { method: 'Fresnel', form: 'plane to plane, with each curvature in closed form' },
+  propagate(plan) {
+    const c = plan.case;
+    const legs = plan.sequence!.legs;
+    const lam = c.wavelength;
+    const elements = [c.aperture, ...(c.planes ?? []).map((p) => p.aperture)];
+    const [xa, ya] = legs[0]!.input;
+    const ex = envelope(c.illumination, xa);
+    const ey = envelope(c.illumination, ya);
+    const v = new Float64Array(2 * xa.n * ya.n);
+    for (let r = 0; r < ya.n; r++) for (let q = 0; q < xa.n; q++) v[2 * (r * xa.n + q)] = ex[q]! * ey[r]!;
+    const tilt = [Math.sin(c.illumination.tilt[0]) / lam, Math.sin(c.illumination.tilt[1]) / lam] as [number, number];
+    let wave: Wave = { v, x: xa, y: ya, curvature: 0, carrier: tilt, wavelength: lam };
+    const planes: PlanePower[] = [];
+    let passed = 0;
+    for (const [j, leg] of legs.entries()) {
+      const cells = planeCells(elements[j]!, wave.x, wave.y, lam);
+      const arriving = passedPower(wave, null);
+      passed = passedPower(wave, cells);
+      planes.push({ plane: j + 1, arriving, passed, sampledFromLight: j > 0 && legs[j - 1]!.windowFromLight });
+      wave = propagateLeg(wave, cells, leg.focal, leg.z, leg.output);
+    }
+    const field: Field = { data: wave.v, nx: wave.x.n, ny: wave.y.n, dx: wave.x.step, dy: wave.y.step, x0: wave.x.start, y0: wave.y.start, wavelength: lam };
+    return { field, powerIn: passed, planes };
+  },
+};
+
+/** An element's cells on a plane's grid: a lens's pupil (its phase folded elsewhere), a complex transmittance, or a mask. */
+function planeCells(a: Aperture, xa: Axis, ya: Axis, lam: number): PlaneCells {
+  const lens = lensOf(a);
+  if (lens) return lens.pupil(xa, ya, lam);
+  const complex = apertureTransmittance(a, xa, ya, lam);
+  if (complex) return complex;
+  const m = apertureMask(a, xa, ya);
+  if (a.opaque) for (let i = 0; i < m.length; i++) m[i] = 1 - m[i]!;
+  const t = new Float64Array(2 * m.length);
+  for (let i = 0; i < m.length; i++) t[2 * i] = m[i]!;
+  return { t, weight: m };
+}

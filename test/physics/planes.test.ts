@@ -1,0 +1,216 @@
+// Planes in sequence (plan/sequence.ts, methods/fresnel-planes.ts, optics/sequence.ts) on the grids
+// the planner picks, against closed forms written here: a spatial filter (a Gaussian beam focused
+// onto a pinhole), a beam through a telescope of two lenses with a pinhole between them (three
+// planes), and free space split into two gaps. Random cases with a fixed seed check the planner's
+// sampling across the space, and the checks that must warn or refuse do.
+import { describe, expect, it } from 'vitest';
+import type { Aperture } from '../../src/optics/aperture.js';
+import { planCase } from '../../src/plan/planner.js';
+import type { Case, PlaneSpec } from '../../src/plan/types.js';
+import { runPlannedCase } from '../../src/run/run-case.js';
+import { testContext } from '../engine.js';
+import { makeCase, mm, mulberry32, nm, um, type CaseSpec } from '../helpers.js';
+import type { IntensityMap } from '../../src/model/intensity-map.js';
+import { validateJob } from '../../src/job/load.js';
+
+const lens = (focal: number, stop: number | null): Aperture => ({ shape: 'lens', focal, stop, aberrations: [], opaque: false }) as Aperture;
+const circle = (diameter: number): Aperture => ({ shape: 'circle', diameter, opaque: false }) as Aperture;
+const gaussian = (waist: number) => ({ kind: 'gaussian' as const, waist, tilt: [0, 0] as [number, number] });
+
+function run(spec: CaseSpec & { planes: PlaneSpec[] }) {
+  const c: Case = { ...makeCase(spec), planes: spec.planes };
+  const plan = planCase(c);
+  const rec = runPlannedCase(plan, testContext());
+  return { plan, rec, codes: rec.warnings.map((w) => w.code) };
+}
+
+/** Intensity at the sample nearest (x, y). */
+function at(m: IntensityMap, x: number, y: number): number {
+  const col = Math.round((x - m.x0) / m.dx);
+  const row = Math.round((y - m.y0) / m.dy);
+  return m.intensity[row * m.nx + col]!;
+}
+
+/** |a|² of a complex number given as [re, im]. */
+const abs2 = (a: [number, number]) => a[0] * a[0] + a[1] * a[1];
+/** π(1 − e^{−βa²})/β for complex β = br + i·bi: ∫₀^a e^{−βr²} 2πr dr. */
+function discIntegral(br: number, bi: number, a: number): [number, number] {
+  const a2 = a * a;
+  const e = Math.exp(-br * a2);
+  const nr = 1 - e * Math.cos(bi * a2);
+  const ni = e * Math.sin(bi * a2);
+  const m = br * br + bi * bi;
+  return [(Math.PI * (nr * br + ni * bi)) / m, (Math.PI * (ni * br - nr * bi)) / m];
+}
+
+/**
+ * A collimated Gaussian beam of radius w (amplitude e^{−r²/w²}) on a lens of focal length f; a
+ * pinhole of radius a at the focus; the screen z₂ behind it. Goodman, Introduction to Fourier
+ * Optics, §5.2: the focal field is the pupil's transform times e^{iπr²/(λf)},
+ * (πw²/(λf))·e^{−r²/w₀²}·e^{iπr²/(λf)} with w₀ = λf/(πw) (Siegman, Lasers, ch. 17); §4.2: on the axis
+ * of the screen U = (1/(λz₂))·∫₀^a U_f(r)·e^{iπr²/(λz₂)} 2πr dr.
+ */
+function spatialFilter(lam: number, f: number, w: number, a: number, z2: number) {
+  const w0 = (lam * f) / (Math.PI * w);
+  const amp = (Math.PI * w * w) / (lam * f);
+  const I = discIntegral(1 / (w0 * w0), (-Math.PI * (1 / f + 1 / z2)) / lam, a);
+  return {
+    w0,
+    // Siegman ch. 17: the power of a Gaussian of radius w₀ inside radius a.
+    transmission: 1 - Math.exp((-2 * a * a) / (w0 * w0)),
+    onAxis: (amp / (lam * z2)) ** 2 * abs2(I),
+  };
+}
+
+describe('a spatial filter: a Gaussian beam focused onto a pinhole, the screen behind it', () => {
+  const lam = 633 * nm;
+  const f = 50 * mm;
+  const w = 1 * mm;
+  const z2 = 300 * mm;
+  for (const d of [20 * um, 30 * um, 40 * um]) {
+    it(`a ${d / um} µm pinhole passes 1 − exp(−2a²/w₀²) of the beam, and the screen's axis matches the closed form`, () => {
+      const ref = spatialFilter(lam, f, w, d / 2, z2);
+      const { plan, rec, codes } = run({ wavelength: lam, distance: z2, aperture: lens(f, 10 * mm), illumination: gaussian(w), planes: [{ after: f, aperture: circle(d) }] });
+      expect(plan.error).toBeUndefined();
+      expect(plan.form).toBe('planes');
+      const planes = rec.metrics.planes!;
+      expect(planes).toHaveLength(2);
+      expect(planes[0]!.transmission).toBeCloseTo(1, 6);
+      expect(Math.abs(planes[1]!.transmission - ref.transmission)).toBeLessThan(0.002);
+      const I0 = at(rec.computed, 0, 0);
+      expect(Math.abs(I0 - ref.onAxis) / ref.onAxis).toBeLessThan(0.01);
+      // Nothing here is outside the paraxial model's reach (NA 0.06, a 20 µm pinhole at 300 mm).
+      expect(codes.filter((c) => c !== 'paraxial-lens')).toEqual([]);
+    });
+  }
+});
+
+describe('three planes: a focused Gaussian beam, a pinhole at the focus, a lens imaging the pinhole onto the screen', () => {
+  // Goodman, Introduction to Fourier Optics, §5.3: a lens images a plane at z₁ onto z₂ with
+  // 1/z₁ + 1/z₂ = 1/f and magnification −z₂/z₁; at 2f to 2f the image of the focal spot is the spot
+  // itself, inverted: I(x) = I_focus(−x) with I_focus = (πw²/(λf₁))²·e^{−2r²/w₀²}, w₀ = λf₁/(πw) (§5.2;
+  // Siegman ch. 17), while the second lens's stop passes the whole cone.
+  const lam = 1064 * nm;
+  const f1 = 40 * mm;
+  const w = 1.2 * mm;
+  for (const f2 of [60 * mm, 150 * mm]) {
+    it(`f₂ = ${f2 / mm} mm at 2f₂ behind the pinhole: the screen at 2f₂ shows the focal spot`, () => {
+      const w0 = (lam * f1) / (Math.PI * w);
+      const peak = ((Math.PI * w * w) / (lam * f1)) ** 2;
+      // The cone from the focus reaches 3w·2f₂/f₁ at the second lens: its stop is twice that.
+      const stop = 2 * 2 * ((3 * w * 2 * f2) / f1);
+      const { plan, rec, codes } = run({
+        wavelength: lam,
+        distance: 2 * f2,
+        aperture: lens(f1, 12 * mm),
+        illumination: gaussian(w),
+        planes: [
+          { after: f1, aperture: circle(8 * w0) },
+          { after: 2 * f2, aperture: lens(f2, stop) },
+        ],
+      });
+      expect(plan.error).toBeUndefined();
+      expect(rec.metrics.planes).toHaveLength(3);
+      expect(rec.metrics.planes![2]!.ofFirst).toBeGreaterThan(0.999);
+      expect(Math.abs(at(rec.computed, 0, 0) - peak) / peak).toBeLessThan(0.01);
+      const r = w0;
+      const ref = peak * Math.exp(-2);
+      expect(Math.abs(at(rec.computed, r, 0) - ref) / peak).toBeLessThan(0.01);
+      expect(Math.abs(at(rec.computed, 0, -r) - ref) / peak).toBeLessThan(0.01);
+      // The image is no wider than a few spots: the window follows the rays back to a point.
+      expect(plan.x.windowHalf).toBeLessThan(40 * w0);
+      expect(codes.filter((c) => c !== 'paraxial-lens')).toEqual([]);
+    });
+  }
+  it('a collimated beam seen in the near field is refused with why, not computed on a huge grid', () => {
+    const w0 = (lam * f1) / (Math.PI * w);
+    const c: Case = {
+      ...makeCase({ wavelength: lam, distance: 100 * mm, aperture: lens(f1, 12 * mm), illumination: gaussian(w) }),
+      planes: [
+        { after: f1, aperture: circle(8 * w0) },
+        { after: 120 * mm, aperture: lens(120 * mm, 40 * mm) },
+      ],
+    };
+    expect(planCase(c).error).toMatch(/barely spreads/);
+  });
+});
+
+describe('free space split in two: a pinhole, a wide opening, the screen', () => {
+  // Goodman §4.2 / Born & Wolf §8.8: on the axis of a circular opening of radius a in a plane wave,
+  // I = 4 sin²(πa²/(2λz)); with nothing in the way the second plane changes nothing (z = z₁ + z₂).
+  // (Gaps where the light is wide and barely spreads cost this form's direct sums dearly: the
+  // cases here keep the second gap long against the first, and the screen's window to the central
+  // lobes, whose light lost outside is then warned.)
+  const lam = 550 * nm;
+  for (const [a, z1, z2] of [[0.1 * mm, 5 * mm, 200 * mm], [0.2 * mm, 10 * mm, 500 * mm]] as const) {
+    it(`a = ${a / mm} mm, z₁ = ${z1 / mm} mm, z₂ = ${z2 / mm} mm: the on-axis intensity of one gap of ${(z1 + z2) / mm} mm`, () => {
+      const ref = 4 * Math.sin((Math.PI * a * a) / (2 * lam * (z1 + z2))) ** 2;
+      const window: [number, number] = [6 * mm, 6 * mm];
+      const { plan, rec, codes } = run({ wavelength: lam, distance: z2, window, aperture: circle(2 * a), planes: [{ after: z1, aperture: circle(20 * mm) }] });
+      expect(plan.error).toBeUndefined();
+      expect(codes.filter((c) => c !== 'window-loss')).toEqual([]);
+      // The axis is the far-field pattern's peak here.
+      expect(Math.abs(at(rec.computed, 0, 0) - ref) / ref).toBeLessThan(0.01);
+    });
+  }
+});
+
+describe('random spatial filters (fixed seed): matched to the closed forms, or warned', () => {
+  const rnd = mulberry32(20261203);
+  const pick = (lo: number, hi: number) => lo * (hi / lo) ** rnd();
+  const cases = Array.from({ length: 10 }, () => {
+    const lam = pick(350 * nm, 2 * um);
+    const f = pick(5 * mm, 500 * mm);
+    const w = pick(0.2 * mm, 5 * mm);
+    const w0 = (lam * f) / (Math.PI * w);
+    return { lam, f, w, a: pick(0.5, 3) * w0, z2: pick(0.5, 50) * f };
+  });
+  for (const [i, p] of cases.entries()) {
+    it(`case ${i}: λ ${(p.lam / nm).toFixed(0)} nm, f ${(p.f / mm).toFixed(1)} mm, w ${(p.w / mm).toFixed(2)} mm, pinhole ${(2 * p.a / um).toFixed(1)} µm, screen ${(p.z2 / mm).toFixed(0)} mm`, () => {
+      const ref = spatialFilter(p.lam, p.f, p.w, p.a, p.z2);
+      const { plan, rec, codes } = run({ wavelength: p.lam, distance: p.z2, aperture: lens(p.f, 8 * p.w), illumination: gaussian(p.w), planes: [{ after: p.f, aperture: circle(2 * p.a) }] });
+      expect(plan.error).toBeUndefined();
+      const accuracy = codes.filter((c) => c !== 'paraxial-lens');
+      const I0 = at(rec.computed, 0, 0);
+      const off = Math.abs(I0 - ref.onAxis) / ref.onAxis;
+      const tOff = Math.abs(rec.metrics.planes![1]!.transmission - ref.transmission);
+      if (process.env.SPOTCAST_SHOW) console.log(i, off.toExponential(2), tOff.toExponential(2), codes.join(','));
+      if (accuracy.length === 0) {
+        expect(off).toBeLessThan(0.01);
+        expect(tOff).toBeLessThan(0.002);
+      } else expect(accuracy.some((c) => c === 'planes-paraxial' || c === 'near-wavelength')).toBe(true);
+    });
+  }
+});
+
+describe('what planes in sequence warn about or refuse', () => {
+  it('a gap too short for the Fresnel approximation is warned', () => {
+    // A 3 µm pinhole lit by a focused beam sends light out to about 0.2 rad; 0.5 mm on the
+    // paraxial phase varies across it by far more than the 0.1 rad limit.
+    const { codes } = run({ wavelength: 633 * nm, distance: 0.2 * mm, aperture: lens(10 * mm, 4 * mm), illumination: gaussian(1 * mm), planes: [{ after: 10 * mm, aperture: circle(3 * um) }] });
+    expect(codes).toContain('planes-paraxial');
+  });
+  it('a screen window too narrow for the light is warned as light lost', () => {
+    const { codes } = run({ wavelength: 633 * nm, distance: 300 * mm, window: [2 * mm, 2 * mm], aperture: lens(50 * mm, 10 * mm), illumination: gaussian(1 * mm), planes: [{ after: 50 * mm, aperture: circle(30 * um) }] });
+    expect(codes).toContain('window-loss');
+  });
+  it('an infinitely long slit in a sequence is refused with why', () => {
+    const slit = { shape: 'slit', width: 10 * um, opaque: false } as unknown as Aperture;
+    const c: Case = { ...makeCase({ wavelength: 633 * nm, distance: 0.1, aperture: lens(50 * mm, 10 * mm), illumination: gaussian(1 * mm) }), planes: [{ after: 50 * mm, aperture: slit }] };
+    expect(planCase(c).error).toMatch(/infinitely long/);
+  });
+  it('a job with planes refuses a grid, another method and an image in a later plane, naming the key', () => {
+    const base = {
+      name: 'p',
+      wavelength: '633 nm',
+      distance: '100 mm',
+      aperture: { shape: 'lens', focal_length: '50 mm', stop: '10 mm' },
+      planes: [{ after: '50 mm', element: { shape: 'circle', diameter: '20 um' } }],
+    };
+    expect(() => validateJob({ ...base, grid: { size: 256 } })).toThrow(/grid/);
+    expect(() => validateJob({ ...base, method: 'rayleigh-sommerfeld' })).toThrow(/method/);
+    expect(() => validateJob({ ...base, planes: [{ after: '50 mm', element: { shape: 'image', file: 'x.png', pitch: '1 um' } }] })).toThrow(/planes\[0\]\.element/);
+    expect(() => validateJob({ ...base, planes: [{ after: '50 mm' }] })).toThrow(/planes\[0\]\.element/);
+    expect(() => validateJob(base)).not.toThrow();
+  });
+});
