@@ -5,16 +5,32 @@
 //
 // Job keys (ours): focal_length (a signed length, sweepable), stop (the stop's diameter,
 // sweepable), aberrations (a mapping from Noll's index to the term's RMS over the stop: a plain
-// number in waves, or a length with its unit, '30 nm', converted with each case's wavelength).
+// number in waves, or a length with its unit, '30 nm', converted with each case's wavelength), and
+// wavefront_map, a wavefront error given as a greyscale PNG:
+//
+//   wavefront_map: {image: 'lens-error.png', peak_to_valley: 0.25}
+//
+// The image is square and spans the stop's diameter (so it scales with a swept stop); grey 0 is no
+// error and full white is peak_to_valley, in waves (a plain number) or as an optical path with its
+// unit ('150 nm'). The map is defined on the stop only: pixels whose centre lies outside it are not
+// read. Between pixel centres the wavefront is interpolated bilinearly (optics/wavefront-map.ts says
+// why); it adds to the Zernike terms, its steepest slope joins theirs in the sampling, and its RMS
+// over the stop (piston and tilt removed by a least-squares plane) joins theirs in the Strehl
+// estimate. Row 0 of the image (its top row) lies at the most negative y, as for an image mask. The
+// path is relative to the job file's folder; the PNG rules are the image mask's (job/grey-png.ts).
+import { createHash } from 'node:crypto';
 import { z } from 'zod';
 import { SIZE, plainNumber, quantity, sweepLength, MAX_SWEEP_COUNT, type SweepValues } from '../job/quantities.js';
 import { formatLength } from '../job/units.js';
+import { decodeGreyPng, imagePathSchema, MAX_IMAGE_BYTES } from '../job/grey-png.js';
+import { safeEcho } from '../safe-text.js';
 import type { Axis } from '../optics/field.js';
 import type { ApertureFacts } from '../optics/geometry.js';
 import { sizeWords } from '../optics/geometry.js';
 import { sampleMask2D } from '../optics/mask.js';
 import { lensCellAverages, lensLocalFrequency } from '../optics/thin-lens.js';
 import { pupilCellAverages, wavefrontRms, wavefrontSlopeMax, type ZernikeTerm } from '../optics/zernike.js';
+import { mapPupilCellAverages, mapSlopeMax, mapWavefrontRms, prepareWavefrontMap, type PreparedWavefrontMap, type WavefrontMapStats } from '../optics/wavefront-map.js';
 import type { CellTransmittance, ElementKind, Focusing } from './types.js';
 
 /** One Zernike term as given: its RMS in waves, or as an optical path (m). */
@@ -24,6 +40,30 @@ export interface LensTerm {
   unit: 'waves' | 'm';
 }
 
+/** What a wavefront map's image held, read, decoded and prepared once by the loader. */
+export interface MapPixels {
+  /** SHA-256 (hex, 32 digits) of the image file's bytes: it stands for the pixels in JSON. */
+  digest: string;
+  stats: WavefrontMapStats;
+  /**
+   * 'levels': the grey levels 0…1 (row-major from the top row, the pixels outside the stop that
+   * interpolation reaches filled: optics/wavefront-map.ts). In a Map on purpose, as an image mask's
+   * planes: structured clone copies it to the worker threads, JSON writes it as {}, so records and
+   * case hashes carry the digest instead of the pixels.
+   */
+  planes: Map<'levels', Float32Array>;
+}
+
+/** A wavefront error given as an image across the stop. */
+export interface LensWavefrontMap {
+  /** The path as written in the job (for words; the pixels are already read). */
+  file: string;
+  /** What full white stands for: waves, or an optical path (m); grey 0 is no error. */
+  peakToValley: number;
+  unit: 'waves' | 'm';
+  pixels: MapPixels;
+}
+
 export interface Lens {
   shape: 'lens';
   /** Focal length (m): positive converging, negative diverging. */
@@ -31,6 +71,8 @@ export interface Lens {
   /** Diameter of the circular stop (m), or null: unbounded. */
   stop: number | null;
   aberrations: LensTerm[];
+  /** A wavefront error given as an image (absent or null: none). */
+  wavefrontMap?: LensWavefrontMap | null;
   opaque: false;
 }
 
@@ -80,12 +122,33 @@ const aberrations = z
   })
   .optional();
 
+const pvMsg = "expected the wavefront at full white: waves such as 0.25, or an optical path with its unit such as '150 nm'";
+const peakToValley = z.union(
+  [
+    z.number({ error: pvMsg }).refine((v) => Number.isFinite(v) && Math.abs(v) <= MAX_RMS_WAVES, { message: `expected at most ${MAX_RMS_WAVES} waves in size` }),
+    quantity('length', { absMax: MAX_RMS_PATH, range: 'an optical path of at most 100 µm in size', what: "an optical path such as '150 nm'" }).transform((v) => ({ path: v })),
+  ],
+  { error: pvMsg },
+);
+const wavefrontMap = z
+  .strictObject(
+    { image: imagePathSchema('lens-error.png'), peak_to_valley: peakToValley },
+    { error: "expected {image: 'lens-error.png', peak_to_valley: 0.25}: a square greyscale PNG across the stop, and the wavefront at full white" },
+  )
+  .optional();
+
 const schema = z.strictObject({
   shape: z.literal('lens'),
   focal_length: focalLength,
   stop: sweepLength().optional(),
   aberrations,
+  wavefront_map: wavefrontMap,
 });
+
+type Job = z.output<typeof schema> & { mapPixels?: MapPixels };
+
+/** The key under `aperture.` that names the map's image (its problems name it). */
+const MAP_IMAGE: [string, string] = ['wavefront_map', 'image'];
 
 function termsOf(job: z.output<typeof schema>): LensTerm[] {
   return Object.entries(job.aberrations ?? {})
@@ -98,6 +161,25 @@ export function lensWaves(s: Lens, wavelength: number): ZernikeTerm[] {
   return s.aberrations.map((t) => ({ j: t.j, rms: t.unit === 'waves' ? t.rms : t.rms / wavelength }));
 }
 
+/** Waves per grey level at this wavelength (full white is the peak-to-valley). */
+function mapWavesPerLevel(m: LensWavefrontMap, wavelength: number): number {
+  return m.unit === 'waves' ? m.peakToValley : m.peakToValley / wavelength;
+}
+
+function preparedMap(m: LensWavefrontMap): PreparedWavefrontMap {
+  const levels = m.pixels.planes.get('levels');
+  if (!levels) throw new Error(`aperture.wavefront_map.image: the pixels of '${safeEcho(m.file, 80)}' are missing from the case`);
+  return { ...m.pixels.stats, levels };
+}
+
+/** The map and the stop's radius it spans, or null without a map (a map without a stop is refused at load). */
+function mapOf(s: Lens): { map: LensWavefrontMap; radius: number } | null {
+  const map = s.wavefrontMap ?? null;
+  if (!map) return null;
+  if (s.stop === null) throw new Error('aperture.wavefront_map: a wavefront map needs a stop (it spans the stop\'s diameter)');
+  return { map, radius: s.stop / 2 };
+}
+
 function stopMask(s: Lens, xa: Axis, ya: Axis): Float64Array {
   if (s.stop === null) return new Float64Array(xa.n * ya.n).fill(1);
   return sampleMask2D({ shape: 'circle', diameter: s.stop, opaque: false }, xa, ya);
@@ -107,6 +189,8 @@ function stopMask(s: Lens, xa: Axis, ya: Axis): Float64Array {
 function pupil(s: Lens, xa: Axis, ya: Axis, wavelength: number): CellTransmittance {
   const weight = stopMask(s, xa, ya);
   const waves = lensWaves(s, wavelength);
+  const m = mapOf(s);
+  if (m) return { t: mapPupilCellAverages(preparedMap(m.map), mapWavesPerLevel(m.map, wavelength), waves, m.radius, xa, ya), weight };
   if (s.stop !== null && waves.some((t) => t.rms !== 0)) return { t: pupilCellAverages(waves, s.stop / 2, xa, ya), weight };
   const t = new Float64Array(2 * weight.length);
   for (let i = 0; i < weight.length; i++) t[2 * i] = weight[i]!;
@@ -136,7 +220,17 @@ function transmittance(s: Lens, xa: Axis, ya: Axis, wavelength: number): CellTra
 
 function pupilFrequency(s: Lens, wavelength: number): number {
   if (s.stop === null) return 0;
-  return wavefrontSlopeMax(lensWaves(s, wavelength), s.stop / 2);
+  const m = mapOf(s);
+  const map = m ? mapSlopeMax(m.map.pixels.stats, mapWavesPerLevel(m.map, wavelength), m.radius) : 0;
+  return wavefrontSlopeMax(lensWaves(s, wavelength), s.stop / 2) + map;
+}
+
+/** RMS over the stop in waves, piston left out (and the tilts when asked), terms and map together. */
+function rmsWaves(s: Lens, wavelength: number, withoutTilt: boolean): number {
+  const m = mapOf(s);
+  if (m) return mapWavefrontRms(preparedMap(m.map), mapWavesPerLevel(m.map, wavelength), lensWaves(s, wavelength), withoutTilt);
+  // Noll's j = 2, 3 are the tilts: they move the focus without lowering its peak.
+  return wavefrontRms(lensWaves(s, wavelength).filter((t) => !withoutTilt || t.j > 3));
 }
 
 function facts(s: Lens): ApertureFacts {
@@ -162,10 +256,16 @@ function describe(s: Lens): string {
   const error = terms.length
     ? `, wavefront error ${terms.map((t) => `Z${t.j} ${t.unit === 'waves' ? `${plainNumber(t.rms)} wave` : formatLength(t.rms)} RMS`).join(', ')}`
     : '';
-  return `thin lens, focal length ${s.focal < 0 ? '−' : ''}${sizeWords(Math.abs(s.focal))} (${kind}), ${stop}${error}`;
+  const m = s.wavefrontMap;
+  const map = m
+    ? `, wavefront map '${safeEcho(m.file, 60)}' (${m.pixels.stats.size} × ${m.pixels.stats.size} pixels across the stop, white ${m.unit === 'waves' ? `${plainNumber(m.peakToValley)} wave` : formatLength(m.peakToValley)})`
+    : '';
+  return `thin lens, focal length ${s.focal < 0 ? '−' : ''}${sizeWords(Math.abs(s.focal))} (${kind}), ${stop}${error}${map}`;
 }
 
-export const lens: ElementKind<Lens, typeof schema> = {
+const readAs = { maxBytes: MAX_IMAGE_BYTES, noun: 'a PNG image' };
+
+export const lens: ElementKind<Lens, typeof schema, Job> = {
   shape: 'lens',
   schema,
   tokens: { focal_length: 'f', stop: 'stop' },
@@ -174,11 +274,45 @@ export const lens: ElementKind<Lens, typeof schema> = {
     const terms = termsOf(job);
     for (const t of terms) if (t.j > MAX_NOLL) problem(['aberrations', String(t.j)], `expected a Noll index from 1 to ${MAX_NOLL}`);
     if (terms.some((t) => t.rms !== 0) && !job.stop) problem('aberrations', 'expected a stop: the wavefront error is given on the stop (its Zernike terms are defined over it)');
+    if (job.wavefront_map && !job.stop) problem('wavefront_map', "expected a stop: the wavefront map's image spans the stop's diameter");
     if (!job.stop && light?.illumination === 'plane') {
       problem('stop', 'expected a stop diameter: a lens without a stop in a plane wave passes unbounded light (give a stop, or a Gaussian beam)');
     }
   },
-  resolve: (job, v) => ({ shape: 'lens', focal: v('focal_length'), stop: job.stop ? v('stop') : null, aberrations: termsOf(job), opaque: false }),
+  files: {
+    named: (job) => (job.wavefront_map ? [{ key: MAP_IMAGE.join('.'), path: job.wavefront_map.image, limits: readAs }] : []),
+    attach(job, bytes, problem) {
+      if (!job.wavefront_map) return job;
+      const path = job.wavefront_map.image;
+      const buf = bytes.get(MAP_IMAGE.join('.'))!;
+      let img;
+      try {
+        img = decodeGreyPng(buf);
+      } catch (e) {
+        problem(MAP_IMAGE, `'${safeEcho(path, 120)}' ${(e as Error).message}`);
+        return job;
+      }
+      if (img.width !== img.height) {
+        problem(MAP_IMAGE, `'${safeEcho(path, 120)}' is ${img.width} × ${img.height} pixels: expected a square image (it spans the stop's diameter both ways)`);
+        return job;
+      }
+      const { levels, ...stats } = prepareWavefrontMap(img.levels, img.width);
+      const digest = createHash('sha256').update(buf).digest('hex').slice(0, 32);
+      return { ...job, mapPixels: { digest, stats, planes: new Map([['levels', levels]]) } };
+    },
+  },
+  resolve(job, v) {
+    const base = { shape: 'lens' as const, focal: v('focal_length'), stop: job.stop ? v('stop') : null, aberrations: termsOf(job), opaque: false as const };
+    const m = job.wavefront_map;
+    if (!m) return base;
+    if (!job.mapPixels) {
+      throw new Error(`aperture.wavefront_map.image: the image '${safeEcho(m.image, 120)}' has not been read: load the job from its file (loadJobFile), which reads the images it names`);
+    }
+    const pv = m.peak_to_valley;
+    const wavefrontMap: LensWavefrontMap =
+      typeof pv === 'number' ? { file: m.image, peakToValley: pv, unit: 'waves', pixels: job.mapPixels } : { file: m.image, peakToValley: pv.path, unit: 'm', pixels: job.mapPixels };
+    return { ...base, wavefrontMap };
+  },
   geometry: () => ({ kind: 'sampled' }),
   facts,
   mask: stopMask,
@@ -188,8 +322,7 @@ export const lens: ElementKind<Lens, typeof schema> = {
   focusing: (s): Focusing => ({
     focal: s.focal,
     stopRadius: s.stop === null ? null : s.stop / 2,
-    // Noll's j = 2, 3 are the tilts: they move the focus without lowering its peak.
-    rmsWaves: (wavelength, withoutTilt = false) => wavefrontRms(lensWaves(s, wavelength).filter((t) => !withoutTilt || t.j > 3)),
+    rmsWaves: (wavelength, withoutTilt = false) => rmsWaves(s, wavelength, withoutTilt),
     pupil: (xa, ya, wavelength) => pupil(s, xa, ya, wavelength),
     pupilFrequency: (wavelength) => pupilFrequency(s, wavelength),
   }),

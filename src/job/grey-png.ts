@@ -11,7 +11,25 @@
 // interlaced PNGs (their decompression is not bounded by the library: a small file could inflate
 // without end), more than MAX_IMAGE_PIXELS pixels, and anything that is not a whole, valid PNG.
 import { PNG } from 'pngjs';
+import { z } from 'zod';
 import { safeEcho } from '../safe-text.js';
+
+/** Longest path of an image accepted (PATH_MAX on Linux). */
+export const IMAGE_PATH_MAX = 4096;
+
+/**
+ * A job key naming a PNG image (relative to the job file's folder): a non-empty path of at most
+ * IMAGE_PATH_MAX characters, without control characters (NUL cannot be in a path at all; the others
+ * would be echoed in messages). `example` is the path the messages suggest.
+ */
+export function imagePathSchema(example: string) {
+  const msg = `expected the path of a PNG image such as '${example}' (relative to the job file's folder)`;
+  return z
+    .string({ error: msg })
+    .min(1, { error: msg })
+    .max(IMAGE_PATH_MAX, { error: `expected a path of at most ${IMAGE_PATH_MAX} characters` })
+    .refine((t) => !/[\u0000-\u001f\u007f-\u009f]/.test(t), { error: `${msg}, without control characters` });
+}
 
 /**
  * Largest image read: 2^22 pixels (2048 × 2048, or 4096 × 1024...). The decoder holds 8 bytes a

@@ -138,6 +138,18 @@ export function wavefrontWaves(terms: readonly ZernikeTerm[], radius: number, x:
 }
 
 /**
+ * Σ rms_j Z_j as a function of (x, y) for a pupil of radius R, the terms prepared once (for callers
+ * that evaluate it at many points, such as a wavefront map's cell averages), or null when every term
+ * is zero. The polynomial's continuation: not cut at the rim.
+ */
+export function zernikeSum(terms: readonly ZernikeTerm[], radius: number): ((x: number, y: number) => number) | null {
+  checkRadius(radius, 'zernikeSum');
+  const prepared = prepareAll(terms);
+  if (prepared.length === 0) return null;
+  return (x, y) => waveAt(prepared, radius, x, y);
+}
+
+/**
  * RMS of the wavefront over the pupil in waves, piston (j = 1) left out: √Σ rms_j² by
  * orthonormality, after adding up the coefficients of a j given more than once.
  */
