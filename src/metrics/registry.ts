@@ -8,6 +8,7 @@ import { encircledMetrics } from './encircled.js';
 import { gratingMetrics } from './grating.js';
 import { peakMetrics } from './peak.js';
 import { smallestSpotMetrics } from './smallest-spot.js';
+import { spatialFilterMetrics } from './spatial-filter.js';
 import { strehlMetrics } from './strehl.js';
 import type { MetricFamily, MetricScope, Quantity } from './types.js';
 import { verdictMetrics } from './verdicts.js';
@@ -23,6 +24,7 @@ export const METRICS: readonly MetricFamily[] = [
   gratingMetrics,
   verdictMetrics,
   strehlMetrics,
+  spatialFilterMetrics,
   smallestSpotMetrics,
 ];
 

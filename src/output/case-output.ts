@@ -21,6 +21,7 @@ import { renderIntensityPng } from './picture.js';
 import { TOOL_NAME, TOOL_VERSION } from '../version.js';
 import { metricDefinitions } from '../metrics/registry.js';
 import type { LensStrehl } from '../metrics/strehl.js';
+import type { SpatialFilterResult } from '../metrics/spatial-filter.js';
 
 export interface CaseMetrics extends SpotMetrics {
   /** ∫ irradiance over the open area (null for opaque obstacles). */
@@ -54,6 +55,8 @@ export interface CaseMetrics extends SpotMetrics {
   verdicts?: Verdict[];
   /** A converging lens with the screen within its focal depth: the Strehl ratio and its verdict (metrics/strehl.ts). */
   strehl?: LensStrehl;
+  /** A converging lens with the screen within its focal depth: the spot's 1/e² diameter and the pinholes for it (metrics/spatial-filter.ts). */
+  spatialFilter?: SpatialFilterResult;
 }
 
 /**

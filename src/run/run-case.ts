@@ -8,6 +8,7 @@ import { readDetectors } from '../metrics/detectors.js';
 import { encircledRadii } from '../metrics/encircled.js';
 import { caseVerdicts } from '../metrics/verdicts.js';
 import { lensStrehl } from '../metrics/strehl.js';
+import { focalPinholes } from '../metrics/spatial-filter.js';
 import { powerAccount } from '../metrics/window.js';
 import { directionCosines } from '../optics/source.js';
 import { gratingOf } from '../elements/registry.js';
@@ -84,6 +85,8 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   if (verdicts.length) metrics.verdicts = verdicts;
   const strehl = lensStrehl(plan, spot.peakIntensity);
   if (strehl) metrics.strehl = strehl;
+  const pinholes = focalPinholes(plan, computed, centre, d.powerIn);
+  if (pinholes) metrics.spatialFilter = pinholes;
   warnings.push(...postChecks(plan, d, grating), ...detectors.warnings);
   return { plan, computed, metrics, energy, warnings, seconds: (performance.now() - t0) / 1000 };
 }
