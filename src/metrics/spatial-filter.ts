@@ -6,6 +6,7 @@
 // the focal depth; a job that asks for the answers where they do not apply is told why per case.
 import { DEFAULT_PASSING, spatialFilterAnswers, type SpatialFilterAnswers } from '../analysis/spatial-filter.js';
 import { lensOf } from '../elements/registry.js';
+import { isOneD } from '../model/grid.js';
 import type { IntensityMap } from '../model/intensity-map.js';
 import type { CaseSummary } from '../output/case-output.js';
 import type { Case, Plan } from '../plan/types.js';
@@ -40,7 +41,8 @@ export function notAtFocus(c: Case): string | null {
 export function focalPinholes(plan: Plan, map: IntensityMap, centre: [number, number], powerIn: number): SpatialFilterResult | null {
   const c = plan.case;
   const asked = c.analysis.pinholePassing;
-  const why = plan.babinet ? 'the element is an obstacle' : !(powerIn > 0) ? 'no power passes the lens' : notAtFocus(c);
+  // (A lens is always computed in 2-D; the 1-D test keeps the ring average from a zero pitch.)
+  const why = plan.babinet ? 'the element is an obstacle' : isOneD(map) ? 'the result is one-dimensional' : !(powerIn > 0) ? 'no power passes the lens' : notAtFocus(c);
   if (why !== null) return asked ? { answered: false, reason: why } : null;
   const lens = lensOf(c.aperture)!;
   const optics = {
@@ -95,6 +97,6 @@ export const spatialFilterMetrics: MetricFamily = {
   },
   definitions: {
     spatialFilter:
-      "a converging lens with the screen within its focal depth: e2Diameter, where the intensity averaged around the centre falls to 1/e² of that average's maximum; gaussianDiameter 2λf/(πw) for the lens's Gaussian beam of radius w, unclipped (Siegman, Lasers, ch. 17); airyDiameter 2.44λf/D for a uniformly lit stop (Born & Wolf §8.5.2); commonPractice, the fraction of the power through the lens passing centred pinholes of 1.5× and 2× e2Diameter (the usual choices; clipped: the pinhole reaches past the window, a lower bound); passing, the centred pinhole diameter passing each fraction, read off the encircled energy (status upper-bound: the pinhole reaches past the window; window-holds-less: the window holds less than that fraction, no answer); answered false with a reason where the job asked and the case has no focus on the screen",
+      "a converging lens with the screen within its focal depth: e2Diameter, where the intensity averaged around the centre falls to 1/e² of that average's maximum; gaussianDiameter 2λf/(πw) for the lens's Gaussian beam of radius w, unclipped (Siegman, Lasers, ch. 17); airyDiameter 2.44λf/D for a uniformly lit stop (Born & Wolf §8.5.2); commonPractice, the fraction of the power through the lens passing centred pinholes of 1.5× and 2× e2Diameter (the usual choices; clipped: the pinhole reaches past the window, a lower bound); passing, the centred pinhole diameter passing each fraction, read off the encircled energy (status upper-bound: the pinhole reaches past the window; window-holds-less: the window holds less than that fraction, no answer; a wider window, the job's window key, may hold it); answered false with a reason where the job asked and the case has no focus on the screen",
   },
 };
