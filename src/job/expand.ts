@@ -79,6 +79,7 @@ export function expandJob(job: JobSpec): Case[] {
     detectors: (job.detector ?? []).map((d) => ({ kind: d.kind, size: d.size, ...(d.at ? { at: d.at } : {}) })),
     ...(spot ? { smallestSpot: { between: spot.between, measure: spot.measure } } : {}),
     ...(job.orders?.overlap ? { orderOverlap: job.orders.overlap } : {}),
+    ...(job.search?.pinhole ? { pinholePassing: job.search.pinhole.passing } : {}),
   };
   const cases: Case[] = [];
   const idx = new Array<number>(axes.length).fill(0);

@@ -15,6 +15,8 @@ import {
   ORDERS_KEYS,
   SEARCH_KEYS,
   SMALLEST_SPOT_KEYS,
+  PINHOLE_SEARCH_KEYS,
+  PLANE_KEYS,
   GRID_KEYS,
   ILLUMINATION_KEYS,
   JOB_KEYS,
@@ -422,6 +424,14 @@ function knownKeysAt(path: (string | number)[], given: unknown): string[] {
       return SEARCH_KEYS;
     case 'search.smallest-spot':
       return SMALLEST_SPOT_KEYS;
+    case 'search.pinhole':
+      return PINHOLE_SEARCH_KEYS;
+    case 'planes':
+      return PLANE_KEYS;
+    case 'planes.element': {
+      const shape = here?.shape as keyof typeof APERTURE_KEYS;
+      return APERTURE_KEYS[shape] ?? ['shape'];
+    }
     case 'orders':
       return ORDERS_KEYS;
     default:

@@ -131,10 +131,34 @@ const smallestSpotShape = {
     .default('energy'),
 };
 export const SMALLEST_SPOT_KEYS = Object.keys(smallestSpotShape);
+
+// search: {pinhole: {passing: [0.95, 0.995]}}: the pinhole diameters passing these fractions at a
+// converging lens's focus (metrics/spatial-filter.ts); fractions strictly between 0 and 1, sorted,
+// repeats dropped.
+export const PASSING_COUNT_MAX = 16;
+const passingMsg = `expected a fraction between 0 and 1 (not including them) such as 0.95, or a list of at most ${PASSING_COUNT_MAX} of them`;
+const passingFraction = z.number({ error: passingMsg }).gt(0, { error: passingMsg }).lt(1, { error: passingMsg });
+const pinholeShape = {
+  passing: z
+    .union([z.array(passingFraction, { error: passingMsg }).min(1, { error: passingMsg }).max(PASSING_COUNT_MAX, { error: passingMsg }), passingFraction.transform((f) => [f])], { error: passingMsg })
+    .transform((fs) => [...new Set(fs)].sort((a, b) => a - b)),
+};
+export const PINHOLE_SEARCH_KEYS = Object.keys(pinholeShape);
+/** Why the job's element cannot take search.pinhole (it needs a converging lens's focus), or null. */
+function pinholeSearchProblem(a: { shape: string } & Record<string, unknown>): string | null {
+  if (!elementOf(a).focusing) return `expected a lens (shape: lens): the pinhole answers are read at a converging lens's focus, not behind a ${a.shape}`;
+  const focal = a.focal_length as SweepValues | undefined;
+  if (focal && !focal.values.some((f) => f > 0)) return 'expected a converging lens (a positive focal_length): a diverging lens has no focus to put a pinhole in';
+  return null;
+}
+
 const searchShape = {
-  'smallest-spot': z.strictObject(smallestSpotShape, {
-    error: mappingError("expected a mapping such as {between: ['10 um', '300 um']}"),
-  }),
+  'smallest-spot': z
+    .strictObject(smallestSpotShape, {
+      error: mappingError("expected a mapping such as {between: ['10 um', '300 um']}"),
+    })
+    .optional(),
+  pinhole: z.strictObject(pinholeShape, { error: mappingError('expected a mapping such as {passing: [0.95, 0.995]}') }).optional(),
 };
 export const SEARCH_KEYS = Object.keys(searchShape);
 
@@ -222,6 +246,10 @@ export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
       ctx.addIssue({ code: 'custom', path: ['search', 'smallest-spot', 'between'], message: 'expected [smallest, largest] with smallest < largest' });
     }
   }
+  const pinholeProblem = job.search?.pinhole ? pinholeSearchProblem(a as unknown as { shape: string } & Record<string, unknown>) : null;
+  if (pinholeProblem) ctx.addIssue({ code: 'custom', path: ['search', 'pinhole'], message: pinholeProblem });
+  // (Both searches are optional keys, so an empty mapping would ask for nothing.)
+  if (job.search && SEARCH_KEYS.every((k) => !(job.search as Record<string, unknown>)[k])) ctx.addIssue({ code: 'custom', path: ['search'], message: `expected ${SEARCH_KEYS.join(' or ')} in the search mapping` });
   element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }), { illumination: job.illumination.kind });
   if (job.planes) checkPlanes(job, (path, message) => ctx.addIssue({ code: 'custom', path, message }));
 });

@@ -9,6 +9,7 @@ import { gratingMetrics } from './grating.js';
 import { peakMetrics } from './peak.js';
 import { planeMetrics } from './planes.js';
 import { smallestSpotMetrics } from './smallest-spot.js';
+import { spatialFilterMetrics } from './spatial-filter.js';
 import { strehlMetrics } from './strehl.js';
 import type { MetricFamily, MetricScope, Quantity } from './types.js';
 import { verdictMetrics } from './verdicts.js';
@@ -25,6 +26,7 @@ export const METRICS: readonly MetricFamily[] = [
   verdictMetrics,
   strehlMetrics,
   planeMetrics,
+  spatialFilterMetrics,
   smallestSpotMetrics,
 ];
 

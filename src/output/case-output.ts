@@ -22,6 +22,7 @@ import { TOOL_NAME, TOOL_VERSION } from '../version.js';
 import { metricDefinitions } from '../metrics/registry.js';
 import type { LensStrehl } from '../metrics/strehl.js';
 import type { PlaneResult } from '../metrics/planes.js';
+import type { SpatialFilterResult } from '../metrics/spatial-filter.js';
 
 export interface CaseMetrics extends SpotMetrics {
   /** ∫ irradiance over the open area (null for opaque obstacles). */
@@ -57,6 +58,8 @@ export interface CaseMetrics extends SpotMetrics {
   strehl?: LensStrehl;
   /** Planes in sequence: what each plane passes (metrics/planes.ts). */
   planes?: PlaneResult[];
+  /** A converging lens with the screen within its focal depth: the spot's 1/e² diameter and the pinholes for it (metrics/spatial-filter.ts). */
+  spatialFilter?: SpatialFilterResult;
 }
 
 /**

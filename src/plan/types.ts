@@ -85,6 +85,8 @@ export interface CaseAnalysis {
   smallestSpot?: { between: [number, number]; measure: 'energy' | 'fwhm' | 'd4sigma' };
   /** Orders of different wavelengths closer than this on the screen count as overlapping. */
   orderOverlap?: number;
+  /** Fractions whose passing pinhole diameter is wanted at a converging lens's focus (search.pinhole.passing). */
+  pinholePassing?: number[];
 }
 
 export interface AxisPlan {

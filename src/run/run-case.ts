@@ -8,6 +8,7 @@ import { readDetectors } from '../metrics/detectors.js';
 import { encircledRadii } from '../metrics/encircled.js';
 import { caseVerdicts } from '../metrics/verdicts.js';
 import { lensStrehl } from '../metrics/strehl.js';
+import { focalPinholes } from '../metrics/spatial-filter.js';
 import { powerAccount } from '../metrics/window.js';
 import { planeResults } from '../metrics/planes.js';
 import { PLANE_LOSS_WARN } from '../plan/sequence.js';
@@ -95,6 +96,8 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   if (verdicts.length) metrics.verdicts = verdicts;
   const strehl = lensStrehl(plan, spot.peakIntensity);
   if (strehl) metrics.strehl = strehl;
+  const pinholes = focalPinholes(plan, computed, centre, d.powerIn);
+  if (pinholes) metrics.spatialFilter = pinholes;
   warnings.push(...postChecks(plan, d, grating), ...detectors.warnings);
   return { plan, computed, metrics, energy, warnings, seconds: (performance.now() - t0) / 1000 };
 }
