@@ -268,7 +268,9 @@ function checkPlanes(job: PlanesJob, problem: (path: (string | number)[], messag
   if (job.search?.['smallest-spot']) problem(['search', 'smallest-spot'], 'expected no smallest-spot search with planes: it varies a single aperture');
   planes.forEach((p, i) => {
     const e = elementOf(p.element);
-    if (e.files) problem(['planes', i, 'element', 'shape'], `expected an element without files in a later plane: ${p.element.shape} reads a file, which only the first plane (aperture) may`);
+    // (The loader reads the files the first plane's element names; a later plane's are not read.)
+    const files = (e.files as { named(job: unknown): unknown[] } | undefined)?.named(p.element) ?? [];
+    if (files.length) problem(['planes', i, 'element', 'shape'], `expected an element without files in a later plane: this ${p.element.shape} reads a file, which only the first plane (aperture) may`);
     e.check?.(p.element as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => problem(['planes', i, 'element', ...(Array.isArray(key) ? key : [key])], message), {
       // A later plane is lit by the light from the one before, not by the job's illumination:
       // bounded, so an unbounded lens there is fine.

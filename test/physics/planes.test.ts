@@ -212,5 +212,8 @@ describe('what planes in sequence warn about or refuse', () => {
     expect(() => validateJob({ ...base, planes: [{ after: '50 mm', element: { shape: 'image', file: 'x.png', pitch: '1 um' } }] })).toThrow(/planes\[0\]\.element/);
     expect(() => validateJob({ ...base, planes: [{ after: '50 mm' }] })).toThrow(/planes\[0\]\.element/);
     expect(() => validateJob(base)).not.toThrow();
+    // A lens in a later plane (no file named) is taken, with its swept keys.
+    const relay = { ...base, planes: [...base.planes, { after: '200 mm', element: { shape: 'lens', focal_length: ['100 mm', '150 mm'], stop: '25 mm' } }] };
+    expect(validateJob(relay).spec.planes).toHaveLength(2);
   });
 });
