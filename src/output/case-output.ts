@@ -161,7 +161,8 @@ export function digestOf(data: Uint8Array): FileDigest {
 export function caseTitle(plan: Plan): string {
   const c = plan.case;
   const beam = c.illumination.kind === 'gaussian' ? ` · beam w0 ${formatLength(c.illumination.waist, 3)}` : '';
-  const planes = (c.planes ?? []).map((p) => ` → ${formatLength(p.after, 4)} → ${describe(p.aperture)}`).join('');
+  // (Plain text: the pictures' font has no arrows.)
+  const planes = (c.planes ?? []).map((p) => `; ${formatLength(p.after, 4)} on, ${describe(p.aperture)}`).join("");
   return `${describe(c.aperture)}${planes}${beam} · ${formatLength(c.wavelength, 4)} · z = ${formatLength(c.distance, 4)}${planes ? ' (from the last plane)' : ''}`;
 }
 
