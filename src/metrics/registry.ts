@@ -9,6 +9,7 @@ import { gratingMetrics } from './grating.js';
 import { peakMetrics } from './peak.js';
 import { smallestSpotMetrics } from './smallest-spot.js';
 import { strehlMetrics } from './strehl.js';
+import { mtfMetrics } from './mtf.js';
 import type { MetricFamily, MetricScope, Quantity } from './types.js';
 import { verdictMetrics } from './verdicts.js';
 import { widthMetrics } from './widths.js';
@@ -23,6 +24,7 @@ export const METRICS: readonly MetricFamily[] = [
   gratingMetrics,
   verdictMetrics,
   strehlMetrics,
+  mtfMetrics,
   smallestSpotMetrics,
 ];
 

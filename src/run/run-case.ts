@@ -8,6 +8,7 @@ import { readDetectors } from '../metrics/detectors.js';
 import { encircledRadii } from '../metrics/encircled.js';
 import { caseVerdicts } from '../metrics/verdicts.js';
 import { lensStrehl } from '../metrics/strehl.js';
+import { lensMtf } from '../metrics/mtf.js';
 import { powerAccount } from '../metrics/window.js';
 import { directionCosines } from '../optics/source.js';
 import { gratingOf } from '../elements/registry.js';
@@ -84,6 +85,9 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   if (verdicts.length) metrics.verdicts = verdicts;
   const strehl = lensStrehl(plan, spot.peakIntensity);
   if (strehl) metrics.strehl = strehl;
+  // The MTF under the same condition, from the PSF in the window and the whole power through the pupil.
+  const mtf = strehl ? lensMtf(plan, computed, reference, ctx.engine) : null;
+  if (mtf) metrics.mtf = mtf.summary;
   warnings.push(...postChecks(plan, d, grating), ...detectors.warnings);
-  return { plan, computed, metrics, energy, warnings, seconds: (performance.now() - t0) / 1000 };
+  return { plan, computed, metrics, energy, ...(mtf ? { mtf: mtf.curve } : {}), warnings, seconds: (performance.now() - t0) / 1000 };
 }
