@@ -25,6 +25,8 @@ export interface LinePlotInput {
   series: LineSeries[];
   /** A second scale along the top: its value is x × factor (e.g. frequency / cut-off). */
   top?: { label: string; factor: number };
+  /** A caution, written in its own colour at the right end of the y axis title's line. */
+  note?: string;
 }
 
 export interface LinePlotLayout {
@@ -41,6 +43,7 @@ const BACKGROUND: Colour = [30, 30, 34];
 const FRAME: Colour = [150, 150, 160];
 const GRID: Colour = [55, 55, 62];
 const TEXT: Colour = [225, 225, 225];
+const NOTE: Colour = [250, 200, 90];
 const TICK = 4;
 
 /** Where the plot area lands, for callers and tests. */
@@ -86,7 +89,13 @@ export function renderLinePlot(p: LinePlotInput): Buffer {
 
   if (p.title) drawText(img, MARGIN, MARGIN, clip(p.title, width - 2 * MARGIN), TEXT);
   // The y axis title sits above the axis (the font has no rotated form).
-  drawText(img, MARGIN, plot.y - CELL_H - 8 - (p.top ? 2 * CELL_H + 12 : 0), p.yLabel, TEXT);
+  const labelY = plot.y - CELL_H - 8 - (p.top ? 2 * CELL_H + 12 : 0);
+  drawText(img, MARGIN, labelY, p.yLabel, TEXT);
+  if (p.note) {
+    const room = width - 2 * MARGIN - textWidth(p.yLabel) - 12;
+    const text = clip(p.note, room);
+    drawText(img, width - MARGIN - textWidth(text), labelY, text, NOTE);
+  }
 
   const xt = niceTicks(x0, x1, 8);
   const yt = niceTicks(y0, y1, 10);

@@ -1,7 +1,7 @@
 // A lens case's MTF files: mtf.csv (the curve, frequencies in cycles/mm) and mtf.png (the curve
 // against the diffraction-limited one). writeCase (case-output.ts) writes both, atomically with the
 // rest of the case folder.
-import type { MtfCurve, MtfSummary } from '../analysis/mtf.js';
+import { MTF_WINDOW_FRACTION, type MtfCurve, type MtfSummary } from '../analysis/mtf.js';
 import { toCsv, type Cell } from './csv.js';
 import type { Colour } from './font.js';
 import { renderLinePlot, type LineSeries } from './line-plot.js';
@@ -47,12 +47,20 @@ export function renderMtfPng(c: MtfCurve, s: MtfSummary, title: string): Buffer 
   const last = mm[mm.length - 1] ?? 0;
   const topLabel = s.cutoffKind === 'stop' ? 'fraction of the cut-off D/(λz)' : 'fraction of 2w/(λz) (no sharp cut-off)';
   return renderLinePlot({
-    title: `MTF · ${title}${s.approximate ? ' · approximate' : ''}`,
+    title: `MTF · ${title}`,
     xLabel: 'spatial frequency (cycles/mm)',
-    yLabel: 'MTF (modulus of the OTF, 1 at zero frequency)',
+    yLabel: 'MTF (1 at zero frequency)',
     xRange: [0, last > 0 ? last : 1],
     yRange: [0, 1.05],
     series,
     top: { label: topLabel, factor: 1e3 / s.cutoff },
+    ...(s.approximate ? { note: approximateNote(s) } : {}),
   });
+}
+
+function approximateNote(s: MtfSummary): string {
+  if (s.windowFraction !== null && s.windowFraction < MTF_WINDOW_FRACTION) {
+    return `approximate: the window holds ${(100 * s.windowFraction).toFixed(1)} % of the PSF's power`;
+  }
+  return 'approximate: see approximateWhy in result.json';
 }
