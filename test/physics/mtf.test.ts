@@ -5,7 +5,7 @@
 // that aberrations lower the MTF at every frequency (Goodman §6.4), a Gaussian pupil's MTF, and the
 // files mtf.csv and mtf.png.
 import { describe, expect, it } from 'vitest';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PNG } from 'pngjs';
@@ -19,6 +19,7 @@ import type { Aperture } from '../../src/optics/aperture.js';
 import type { Plan } from '../../src/plan/types.js';
 import type { CaseSummary } from '../../src/output/case-output.js';
 import type { MetricScope } from '../../src/metrics/types.js';
+import { runJobFile } from '../../src/run/run-job.js';
 import { engine } from '../engine.js';
 import { makeCase, mm, nm, runCase, um } from '../helpers.js';
 
@@ -295,6 +296,32 @@ describe('the case folder', () => {
       expect(pr.files.mtf).toBeUndefined();
       expect(pr.metrics.mtf).toBeUndefined();
       expect(() => readFileSync(join(pf, 'mtf.csv'))).toThrow();
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});
+
+describe('a lens job', () => {
+  it("puts the MTF columns in summary.csv and each case's mtf.png in the report", async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'spotcast-mtf-job-'));
+    try {
+      // An invented check: a 6 mm f/20 singlet at 532 nm, with a little spherical aberration.
+      writeFileSync(
+        join(dir, 'job.yaml'),
+        'name: singlet-mtf\nwavelength: 532 nm\ndistance: 120 mm\naperture: {shape: lens, focal_length: 120 mm, stop: 6 mm, aberrations: {11: 0.03}}\n',
+      );
+      const o = await runJobFile(join(dir, 'job.yaml'), { outDir: join(dir, 'out') });
+      expect(o.error).toBeUndefined();
+      expect(o.reportError).toBeUndefined();
+      const [head, row] = readFileSync(join(o.folder!, 'summary.csv'), 'utf8').trimEnd().split('\n').map((l) => l.split(','));
+      const col = (h: string) => row![head!.indexOf(h)];
+      expect(Number(col('mtf_half_cutoff'))).toBeGreaterThan(0.3);
+      expect(Number(col('mtf_half_cutoff'))).toBeLessThan(diffractionLimitedMtf(0.5));
+      expect(Number(col('mtf_cutoff_cycles_per_mm'))).toBeCloseTo(6e-3 / (532e-9 * 0.12) / 1e3, 6);
+      const html = readFileSync(join(o.folder!, 'report.html'), 'utf8');
+      expect(html).toMatch(/alt="MTF plot of case [^"]+"/);
+      expect(html).toContain('/mtf.png</code>');
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }
