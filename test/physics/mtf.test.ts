@@ -179,18 +179,21 @@ describe('aberrated lenses: below the diffraction-limited curve at every frequen
       const c = run.rec.mtf!;
       const m = run.rec.metrics.mtf!;
 
-      it('lies below (2/π)(arccos ν − ν√(1 − ν²)) from the window’s resolution to 0.95 ν_c, by at least 0.01 between 0.1 and 0.8', () => {
+      it('lies below (2/π)(arccos ν − ν√(1 − ν²)) at every sampled frequency from the first step to 0.95 ν_c, by at least 0.01 between 0.1 and 0.8', () => {
         let n = 0;
-        for (let k = 0; k < c.frequency.length; k++) {
+        for (let k = 1; k < c.frequency.length; k++) {
           const s = c.normalised[k]!;
-          if (c.frequency[k]! < m.resolvedFrom || s > 0.95) continue;
+          if (s >= 1) continue;
           n++;
           for (const col of ['x', 'y', 'azimuthal'] as const) {
-            expect(c[col][k]!, `${col} at ${s.toFixed(3)}`).toBeLessThan(c.diffractionLimited![k]!);
+            // Past 0.95 ν_c both curves are under 0.01 and the computed one carries a numerical floor
+            // of a few 1e-4 (measured): there it may not exceed the reference by more than 1e-3.
+            if (s > 0.95) expect(c[col][k]!, `${col} at ${s.toFixed(3)}`).toBeLessThan(c.diffractionLimited![k]! + 1e-3);
+            else expect(c[col][k]!, `${col} at ${s.toFixed(3)}`).toBeLessThan(c.diffractionLimited![k]!);
             if (s >= 0.1 && s <= 0.8) expect(c.diffractionLimited![k]! - c[col][k]!).toBeGreaterThan(0.01);
           }
         }
-        expect(n).toBeGreaterThan(100);
+        expect(n).toBeGreaterThan(150);
         expect(m.atHalfCutoff!).toBeLessThan(m.diffractionLimitedAtHalfCutoff! - 0.05);
       });
 
