@@ -11,6 +11,7 @@ import { planeMetrics } from './planes.js';
 import { smallestSpotMetrics } from './smallest-spot.js';
 import { spatialFilterMetrics } from './spatial-filter.js';
 import { strehlMetrics } from './strehl.js';
+import { mtfMetrics } from './mtf.js';
 import type { MetricFamily, MetricScope, Quantity } from './types.js';
 import { verdictMetrics } from './verdicts.js';
 import { widthMetrics } from './widths.js';
@@ -27,6 +28,7 @@ export const METRICS: readonly MetricFamily[] = [
   strehlMetrics,
   planeMetrics,
   spatialFilterMetrics,
+  mtfMetrics,
   smallestSpotMetrics,
 ];
 

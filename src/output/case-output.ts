@@ -23,6 +23,8 @@ import { metricDefinitions } from '../metrics/registry.js';
 import type { LensStrehl } from '../metrics/strehl.js';
 import type { PlaneResult } from '../metrics/planes.js';
 import type { SpatialFilterResult } from '../metrics/spatial-filter.js';
+import type { MtfCurve, MtfSummary } from '../analysis/mtf.js';
+import { mtfCsv, renderMtfPng } from './mtf-files.js';
 
 export interface CaseMetrics extends SpotMetrics {
   /** ∫ irradiance over the open area (null for opaque obstacles). */
@@ -60,6 +62,8 @@ export interface CaseMetrics extends SpotMetrics {
   planes?: PlaneResult[];
   /** A converging lens with the screen within its focal depth: the spot's 1/e² diameter and the pinholes for it (metrics/spatial-filter.ts). */
   spatialFilter?: SpatialFilterResult;
+  /** The same lens cases: the MTF of the computed PSF, in summary (analysis/mtf.ts; the curve is mtf.csv). */
+  mtf?: MtfSummary;
 }
 
 /**
@@ -95,6 +99,8 @@ export interface CaseRecord extends CaseSummary {
   computed: ComputedCase;
   /** The encircled-energy curve behind metrics.encircled (written as a CSV). */
   energy: EnergyCurve | null;
+  /** The MTF curve behind metrics.mtf (written as mtf.csv and mtf.png). */
+  mtf?: MtfCurve;
 }
 
 export interface SmallestSpot {
@@ -118,6 +124,8 @@ export const CASE_FILES = {
   profileY: 'profile-y.csv',
   orders: 'orders.csv',
   energy: 'encircled-energy.csv',
+  mtf: 'mtf.csv',
+  mtfPlot: 'mtf.png',
   /**
    * The case's summary, the hash of what made it, and the size and SHA-256 digest of every other
    * file of the case; written last, it marks a complete case (run/records.ts verifies it).
@@ -209,7 +217,15 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
     },
     files: Object.fromEntries(
       Object.entries(CASE_FILES).filter(([k]) =>
-        k === 'profileY' ? !isOneD(computed) : k === 'orders' ? !!metrics.orders : k === 'energy' ? !!rec.energy : k !== 'record',
+        k === 'profileY'
+          ? !isOneD(computed)
+          : k === 'orders'
+            ? !!metrics.orders
+            : k === 'energy'
+              ? !!rec.energy
+              : k === 'mtf' || k === 'mtfPlot'
+                ? !!(rec.mtf && metrics.mtf)
+                : k !== 'record',
       ),
     ),
     ...(rec.search ? { search: rec.search } : {}),
@@ -311,6 +327,10 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
         CASE_FILES.energy,
         toCsv([head, 'fraction_of_power_through_aperture'], Array.from(rec.energy.radius, (r, i) => [r, rec.energy!.fraction[i]!])),
       );
+    }
+    if (rec.mtf && rec.metrics.mtf) {
+      await put(CASE_FILES.mtf, mtfCsv(rec.mtf));
+      await put(CASE_FILES.mtfPlot, renderMtfPng(rec.mtf, rec.metrics.mtf, caseTitle(plan)));
     }
     const picture = {
       map,

@@ -131,6 +131,7 @@ export function buildJobReport(inp: ReportInputs): JobReport {
       reasons: p?.reasons ?? [],
       ...(verdicts.length ? { verdict: verdicts.map((v) => (v.axis === 'radial' ? v.sentence : `${v.axis}: ${v.sentence}`)).join(' ') } : {}),
       ...(r.record ? { picture: `${c.id}/${CASE_FILES.picture}` } : {}),
+      ...(r.record?.metrics.mtf ? { mtfPlot: `${c.id}/${CASE_FILES.mtfPlot}` } : {}),
     };
   });
   return {

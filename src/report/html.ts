@@ -396,19 +396,23 @@ async function caseSection(
         .join('')}</ul>`,
     );
   }
-  if (c.picture) {
+  for (const [file, what] of [
+    [c.picture, 'intensity picture'],
+    [c.mtfPlot, 'MTF plot'],
+  ] as const) {
+    if (!file) continue;
     if (budget.count < REPORT_LIMITS.casePictures && budget.bytes < REPORT_LIMITS.casePictureBytes) {
-      const e = await embed(assets, c.picture, 'png');
+      const e = await embed(assets, file, 'png');
       if (e.ok) {
         budget.count++;
         budget.bytes += e.image.bytes;
-        out.push(`<figure>${img(e.image, `intensity picture of case ${safeEcho(c.id)}`, 'picture')}<figcaption><code>${path(c.picture)}</code></figcaption></figure>`);
+        out.push(`<figure>${img(e.image, `${what} of case ${safeEcho(c.id)}`, 'picture')}<figcaption><code>${path(file)}</code></figcaption></figure>`);
       } else {
         out.push(missingNote(e.note));
       }
     } else {
       budget.skipped++;
-      out.push(`<p class="note">Picture not included in this page: <code>${path(c.picture)}</code> in the job folder.</p>`);
+      out.push(`<p class="note">Picture not included in this page: <code>${path(file)}</code> in the job folder.</p>`);
     }
   }
   out.push('</section>');

@@ -46,6 +46,8 @@ export interface ReportCase {
   verdict?: string;
   /** Relative path of the case's picture (intensity.png), when the case is done. */
   picture?: string;
+  /** Relative path of the case's MTF plot (mtf.png), when it has one (lens cases at their focus). */
+  mtfPlot?: string;
 }
 
 export interface ReportTable {

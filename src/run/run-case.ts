@@ -9,6 +9,7 @@ import { encircledRadii } from '../metrics/encircled.js';
 import { caseVerdicts } from '../metrics/verdicts.js';
 import { lensStrehl } from '../metrics/strehl.js';
 import { focalPinholes } from '../metrics/spatial-filter.js';
+import { lensMtf } from '../metrics/mtf.js';
 import { powerAccount } from '../metrics/window.js';
 import { planeResults } from '../metrics/planes.js';
 import { PLANE_LOSS_WARN } from '../plan/sequence.js';
@@ -98,6 +99,9 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   if (strehl) metrics.strehl = strehl;
   const pinholes = focalPinholes(plan, computed, centre, d.powerIn);
   if (pinholes) metrics.spatialFilter = pinholes;
+  // The MTF under the same condition, from the PSF in the window and the whole power through the pupil.
+  const mtf = strehl ? lensMtf(plan, computed, reference, ctx.engine) : null;
+  if (mtf) metrics.mtf = mtf.summary;
   warnings.push(...postChecks(plan, d, grating), ...detectors.warnings);
-  return { plan, computed, metrics, energy, warnings, seconds: (performance.now() - t0) / 1000 };
+  return { plan, computed, metrics, energy, ...(mtf ? { mtf: mtf.curve } : {}), warnings, seconds: (performance.now() - t0) / 1000 };
 }
