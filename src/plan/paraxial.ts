@@ -113,30 +113,75 @@ export interface LensParaxial {
   focal: number;
   /** Radius of the lit pupil that carries the power (the stop, or two beam radii). */
   radius: number;
-  /** R/|f| plus the tilt's sine: the steepest ray that carries power. */
+  /**
+   * R/|f| plus the lit pupil's diffraction spread and the tilt's sine: the steepest ray that carries
+   * power.
+   */
   na: number;
   /**
-   * k(√(f² + R²) − |f| − R²/(2|f|)) ≈ kR⁴/(8|f|³): how far the thin lens's quadratic phase is from a
-   * spherical wave about its focus at the rim (Goodman, Introduction to Fourier Optics, §5.1), rad.
+   * How far the thin lens's quadratic phase is from an ideal lens's wavefront over the lit pupil,
+   * rad: on the axis k(√(f² + R²) − |f| − R²/(2|f|)) ≈ kR⁴/(8|f|³) at the rim (Goodman,
+   * Introduction to Fourier Optics, §5.1); for tilted light the variation of the same dropped phase
+   * across the pupil seen from where the tilted light focuses, |f|·tan θ, which adds the off-axis
+   * terms (≈ kR·tan³θ: the focus moved from |f|·sin θ to |f|·tan θ, and blurred).
    */
   phase: number;
   /** About NA²/2: the relative error in positions of the paraxial (tangent) mapping against the sine. */
   positionError: number;
+  /**
+   * kR·|tan θ − sin θ| (rad): the linear phase across the lit pupil between a tilted beam focused by
+   * an ideal (Fourier-transform) lens, at z·sin θ, and by the thin quadratic phase's undeviated
+   * chief ray, at z·tan θ. In units of the spot scale λz/(2R) the shift is this over π, at any z.
+   */
+  tiltPhase: number;
+}
+
+/**
+ * The lit pupil's diffraction spread as a direction: 2λ/(π·radius), which is λ/(πw) for a Gaussian
+ * beam of radius w (radius = 2w; Siegman, Lasers, ch. 17) and 0.64λ/R for a stop, near the Airy
+ * core's 0.61λ/R (Born & Wolf, Principles of Optics, §8.5.2). A pupil of a few wavelengths spreads
+ * its light over wide angles whatever the lens does.
+ */
+export function pupilSpread(lam: number, radius: number): number {
+  return radius > 0 ? (2 * lam) / (Math.PI * radius) : 1;
+}
+
+/**
+ * kR·(tan θ − sin θ) for a tilt of direction sine s (LensParaxial.tiltPhase), written without the
+ * cancellation of tan θ − sin θ = s·(1 − c)/c = s³/(c(1 + c)), c = cos θ.
+ */
+export function lensTiltPhase(lam: number, radius: number, s: number): number {
+  const a = Math.min(Math.abs(s), 1 - 1e-12);
+  const c = Math.sqrt(1 - a * a);
+  return ((2 * Math.PI) / lam) * radius * ((a * a * a) / (c * (1 + c)));
 }
 
 /**
  * For a lens, the paraxial check is on the cone behind it, not on the aperture seen from the screen:
  * its quadratic phase and the Fresnel kernel drop the same order (Goodman §5.2), so together they
  * give an ideal lens's focus, and what is left is the paraxial mapping of the cone's directions
- * (NA²/2 in positions). The estimate carries the lens's phase kR⁴/(8f³) at the main beam's
- * landing point, for the checks and the warning.
+ * (NA²/2 in positions, the NA counting the pupil's own diffraction spread). The estimate carries
+ * the lens's phase against an ideal lens's on the axis, kR⁴/(8f³), at the main beam's landing
+ * point, for the checks and the Fresnel forms' notes; `lens.phase` adds a tilt's off-axis terms for
+ * the methods that propagate the quadratic phase exactly.
  */
 export function lensParaxial(lam: number, focal: number, radius: number, tiltSine: number, at: [number, number]): { lens: LensParaxial; estimate: ParaxialEstimate } {
   const k = (2 * Math.PI) / lam;
-  const phase = Math.abs(droppedPhase(k, Math.abs(focal), radius));
-  const na = radius / Math.abs(focal) + tiltSine;
+  const f = Math.abs(focal);
+  const s = Math.min(Math.abs(tiltSine), 1 - 1e-12);
+  const tan = s / Math.sqrt(1 - s * s);
+  // The dropped phase is monotonic in ρ: over the disc seen from L = |f|·tan θ it spans
+  // [max(0, L − R), L + R]; on the axis (L = 0) that is kR⁴/(8f³).
+  const L = f * tan;
+  const phase = Math.abs(droppedPhase(k, f, L + radius) - droppedPhase(k, f, Math.max(0, L - radius)));
+  const na = radius / f + pupilSpread(lam, radius) + s;
+  const tiltPhase = lensTiltPhase(lam, radius, s);
+  // The Fresnel forms give an ideal lens's field, so what their checks and notes weigh is the axis's
+  // kR⁴/(8f³) (what the result is not: the quadratic phase's own spherical aberration); a tilt's
+  // landing point is warned of apart (tiltPhase).
+  const onAxis = Math.abs(droppedPhase(k, f, radius));
   return {
-    lens: { focal, radius, na, phase, positionError: (na * na) / 2 },
-    estimate: { error: phase, at, phase, weight: 1 },
+    lens: { focal, radius, na, phase, positionError: (na * na) / 2, tiltPhase },
+    estimate: { error: onAxis, at, phase: onAxis, weight: 1 },
   };
 }

@@ -109,10 +109,12 @@ export const WARNING_CATALOGUE = {
   // ---- before computing (src/plan/planner.ts)
   'lens-spherical': entry<{ method: string; phase: number; fresnelValid: boolean }>({
     title: 'The thin lens shows its own spherical aberration',
-    // The computed field is right for the element as given (a quadratic phase): a note on the model.
-    accuracy: false,
+    // The computed field is right for the element as given (a quadratic phase), but not for an ideal
+    // lens, which is what a thin lens is taken for (and what the Fresnel forms compute): the values
+    // may be off against the lens the job means.
+    accuracy: true,
     message: (d) =>
-      `${d.method} propagates the thin lens's quadratic phase exactly, and that phase is ${fmt(d.phase, 2)} rad from a spherical wave about the focus at the rim of the lit pupil (kR⁴/(8f³)): the result shows that much spherical aberration, which an ideal lens would not have; an ideal lens's field is the Fresnel result${d.fresnelValid ? ' (valid here)' : ''}`,
+      `${d.method} propagates the thin lens's quadratic phase exactly, and that phase is ${fmt(d.phase, 2)} rad from a spherical wave about the focus at the rim of the lit pupil (kR⁴/(8f³) on the axis; for tilted light also the off-axis terms, which move the focus from z·sin θ to z·tan θ and blur it): the result shows that much aberration, which an ideal lens would not have; an ideal lens's field is the Fresnel result${d.fresnelValid ? ' (valid here)' : ''}`,
   }),
   'paraxial-lens': entry<{ phase: number; limit: number }>({
     title: 'The thin lens is paraxial',
