@@ -46,6 +46,24 @@ export const STRAY_PEAK_LEVEL = 0.5;
 export const POWER_BUDGET_MARGIN = 2;
 /** The grating's own Fresnel number (W/2)²/(λz) up to which it is in its far field (the planner's far-field regime). */
 export const FAR_FIELD_NF = 1 / 8;
+/**
+ * The order table's measured powers belong to the finite grating: each order is a beam whose side
+ * lobes (sinc² of the N lit periods, about 2/(π²N) of its power beyond its interval in all) spill
+ * into its neighbours' intervals, so the power in an order's interval differs from the infinite
+ * grating's efficiency |c_m|² by up to about 4/(π²N) of the strongest order (1 % at N ≈ 40 for a
+ * blazed grating that sends everything into one order). Order powers are reported to 1 % (of the
+ * incident power, or of the transmitted power without a plane wave); the case says so
+ * (orders-finite) where this finite grating's far-field model puts a measured order more than
+ * FINITE_ORDER_MODEL from the efficiency (the rest of the 1 % is left for the method's own error),
+ * or where the order is measured more than FINITE_ORDER_DEPARTURE from it and the model puts it
+ * at least FINITE_ORDER_SHARE of that away. The map is right; the table's fractions are not the
+ * efficiencies.
+ */
+export const FINITE_ORDER_MODEL = 0.006;
+export const FINITE_ORDER_DEPARTURE = 0.0075;
+export const FINITE_ORDER_SHARE = 1 / 3;
+/** orders-window: a measured order short by more than this (same measure) for the light beyond the window. */
+export const WINDOW_ORDER_SHORTFALL = 0.005;
 /** The budget's floor: the methods' own accuracy (about 0.25 % of a peak, limits.ts), as 0.5 % of the order plus 1e-4 of the transmitted power. */
 export const POWER_FLOOR_RELATIVE = 5e-3;
 export const POWER_FLOOR_ABSOLUTE = 1e-4;
@@ -84,10 +102,22 @@ export interface StrayLight {
   nearestPosition: number;
 }
 
+export interface FiniteOrder {
+  m: number;
+  /** The table's measured fraction (of the incident power with a plane wave, else of the transmitted). */
+  measured: number;
+  /** The infinite grating's efficiency in the same measure. */
+  efficiency: number;
+  /** This finite grating's far-field model over the order's interval, in the same measure. */
+  model: number;
+}
+
 export interface OrderCheckResult {
   checked: OrderCheck[];
   misplaced: OrderCheck[];
   powerOff: OrderCheck[];
+  /** Measured orders whose power, as this finite grating's, departs from the efficiency (see FINITE_ORDER_MODEL). */
+  finite: FiniteOrder[];
   stray: StrayLight[];
   warnings: Warning[];
 }
@@ -222,6 +252,7 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
       powerTolerance,
     });
   }
+  const short = windowShortfall(inp);
   const misplaced = checked.filter((c) => c.centroid === null || Math.abs(c.centroid - c.position) > c.centroidTolerance);
   const powerOff = checked.filter((c) => Math.abs(c.measured - c.predicted) > c.powerTolerance);
 
@@ -368,7 +399,79 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
       }),
     );
   }
-  return { checked, misplaced, powerOff, stray, warnings };
+  // After the other checks: a measured departure they explain (an aliased map) is not this one.
+  const finite = finiteOrders(inp, model, warnings.length > 0);
+  if (finite.length) {
+    warnings.push(
+      warning('orders-finite', {
+        count: g.count,
+        orders: finite,
+        ofIncident: !!g.powerIncident,
+        departure: Math.max(...finite.map((o) => Math.abs(o.model - o.efficiency))),
+      }),
+    );
+  }
+  if (short.orders.length) {
+    warnings.push(warning('orders-window', { shortfall: short.shortfall, orders: short.orders, ofIncident: !!g.powerIncident, twoD: map.ny > 1 }));
+  }
+  return { checked, misplaced, powerOff, finite, stray, warnings };
+}
+
+/**
+ * The share of the light that should be in the window and is not (what passes beyond its edges:
+ * along y for a grating of finite length, or an order's tails past the outer edges), and the
+ * measured orders it could take more than WINDOW_ORDER_SHORTFALL from (each order loses about
+ * that share of its own power: the orders share the grating's outline, so their tails along y
+ * are alike). Orders the table lists as outside the window are not expected in it.
+ */
+function windowShortfall(inp: OrderCheckInput): { shortfall: number; orders: { m: number; measured: number; shortBy: number }[] } {
+  const g = inp.grating;
+  const t = inp.table;
+  const evanescent = t.evanescentFraction;
+  let outside = 0;
+  for (const o of t.orders) if (o.status === 'outside-window') outside += o.predictedFraction;
+  for (const o of t.omitted) outside += o.predictedFraction;
+  const expected = 1 - evanescent - outside;
+  const inWindow = inp.propagatingInWindow * (1 - evanescent);
+  const shortfall = expected > 0 ? Math.max(0, 1 - inWindow / expected) : 0;
+  const scale = g.powerIncident ? g.powerTransmitted / g.powerIncident : 1;
+  const orders: { m: number; measured: number; shortBy: number }[] = [];
+  if (shortfall > 0) {
+    for (const o of t.orders) {
+      if (o.status !== 'propagating' || o.fractionOfTransmitted === null) continue;
+      const shortBy = o.predictedFraction * scale * shortfall;
+      if (shortBy > WINDOW_ORDER_SHORTFALL) orders.push({ m: o.m, measured: o.fractionOfTransmitted * scale, shortBy });
+    }
+  }
+  return { shortfall, orders };
+}
+
+/**
+ * The measured orders this finite grating's far-field model puts more than FINITE_ORDER_MODEL from
+ * the infinite grating's efficiency, or that are measured more than FINITE_ORDER_DEPARTURE from it
+ * while the model puts them at least FINITE_ORDER_SHARE of that away (the finite grating is then a
+ * real part of the reason; `explained`: another check has already said why the map is off, and only
+ * the model counts). Only gratings of few enough lit periods for their side lobes to move that much
+ * (at most about 4/(π²N) for N lit periods; a Gaussian's orders have far less) are integrated.
+ */
+function finiteOrders(inp: OrderCheckInput, model: GratingModel, explained: boolean): FiniteOrder[] {
+  const g = inp.grating;
+  const lit = Number.isFinite(inp.waist) ? Math.min(g.count, Math.max(1, (2 * inp.waist) / g.period)) : g.count;
+  if (4 / (Math.PI ** 2 * lit) <= FINITE_ORDER_SHARE * FINITE_ORDER_DEPARTURE) return [];
+  const scale = g.powerIncident ? g.powerTransmitted / g.powerIncident : 1;
+  const out: FiniteOrder[] = [];
+  for (const o of inp.table.orders) {
+    if (o.status !== 'propagating' || o.fractionOfTransmitted === null || !o.interval) continue;
+    const modelled = model.integrate(o.interval[0], o.interval[1]).power * scale;
+    const efficiency = o.predictedFraction * scale;
+    const measured = o.fractionOfTransmitted * scale;
+    const byModel = Math.abs(modelled - efficiency);
+    const byMap = Math.abs(measured - efficiency);
+    if (byModel > FINITE_ORDER_MODEL || (!explained && byMap > FINITE_ORDER_DEPARTURE && byModel >= FINITE_ORDER_SHARE * FINITE_ORDER_DEPARTURE)) {
+      out.push({ m: o.m, measured, efficiency, model: modelled });
+    }
+  }
+  return out;
 }
 
 /**

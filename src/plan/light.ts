@@ -84,7 +84,10 @@ export function lightModel(
   const beams: Beam[] = [];
   let beamEdgesPerPower: [number, number] = [edgesPerPower, edgesPerPower];
   const grating = gratingOf(a);
-  const orderRange = grating && grating.count >= 2 ? landingOrders(alpha, oneD ? 0 : beta, lam, grating.period) : null;
+  // One period of a profile is still a grating's worth of directions (a blazed tooth sends its light
+  // along its ramp, not along the illumination): its orders, overlapping, are where the light goes.
+  // One slit is a plain aperture.
+  const orderRange = grating && (grating.count >= 2 || grating.profile) ? landingOrders(alpha, oneD ? 0 : beta, lam, grating.period) : null;
   // A grating with more propagating orders than MAX_ORDERS (a sparse one, period ≫ λ) is modelled
   // as one beam with every slit's edges: its orders are packed closer than the slits' own
   // diffraction spreads them, and they separate on the screen only far beyond its far-field

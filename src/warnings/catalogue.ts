@@ -95,6 +95,14 @@ export interface OrderPowerDetails {
   tolerance: number;
 }
 
+/** A measured order whose finite-grating power departs from the efficiency (analysis/order-checks.ts). */
+export interface FiniteOrderDetails {
+  m: number;
+  measured: number;
+  efficiency: number;
+  model: number;
+}
+
 export interface DetectorOutsideDetails {
   kind: string;
   /** 1-based, as the job lists it. */
@@ -342,6 +350,34 @@ export const WARNING_CATALOGUE = {
         `${list.join('; ')}${n > 6 ? `; and ${n - 6} more` : ''}. ` +
         `The allowance is twice this finite grating's own departure from the thin-grating value (its far-field model)${d.farField ? '' : " and from its orders' 1/u tails"}, plus what the window misses and 0.5 % for the method's own accuracy. ` +
         `The computation itself is off here: ${d.advice}`
+      );
+    },
+  }),
+  'orders-finite': entry<{ count: number; orders: readonly FiniteOrderDetails[]; ofIncident: boolean; departure: number }>({
+    title: "Grating order powers are this finite grating's, not the efficiencies",
+    accuracy: true,
+    message: (d) => {
+      const of = d.ofIncident ? 'of the incident power' : 'of the transmitted power';
+      const list = d.orders
+        .slice(0, 6)
+        .map((o) => `order ${o.m}: ${pct(o.measured)} measured, ${pct(o.model)} by this grating's far-field model, efficiency ${pct(o.efficiency)}`);
+      return (
+        `the order table's powers (${of}) are those of this grating of ${d.count} ${d.count === 1 ? 'period' : 'periods'}, not the efficiencies of thin-grating theory (Goodman §4.4, an infinite grating): ` +
+        `each order is a beam whose side lobes spill into its neighbours' intervals, which moves up to ${pct(d.departure)} of the power between orders — ` +
+        `${list.join('; ')}${d.orders.length > 6 ? `; and ${d.orders.length - 6} more` : ''}. ` +
+        `The intensity map is not affected; read the efficiencies from the predicted fractions, or use more periods (the departure falls as 1/N)`
+      );
+    },
+  }),
+  'orders-window': entry<{ shortfall: number; orders: readonly { m: number; measured: number; shortBy: number }[]; ofIncident: boolean; twoD: boolean }>({
+    title: 'Grating order powers short by the light outside the window',
+    accuracy: true,
+    message: (d) => {
+      const list = d.orders.slice(0, 6).map((o) => `order ${o.m}: ${pct(o.measured)} measured, about ${pct(o.shortBy)} of it outside`);
+      return (
+        `${pct(d.shortfall)} of the light that reaches the screen passes beyond the window's edges${d.twoD ? ' (along y as well as x: each order spreads along the lines as the grating\'s length diffracts it)' : ''}, ` +
+        `so every order's power in the order table (${d.ofIncident ? 'of the incident power' : 'of the transmitted power'}) is low by about that share of it — ${list.join('; ')}${d.orders.length > 6 ? `; and ${d.orders.length - 6} more` : ''}. ` +
+        `Give a wider window (window in the job) to measure the orders' powers in full`
       );
     },
   }),
