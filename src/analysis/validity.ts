@@ -2,6 +2,7 @@
 // the light that goes into evanescent waves. Window loss and evanescent light are kept apart: the
 // evanescent part never reaches any screen, so it is physics, not a fault of the window.
 import { LIMITS } from '../plan/limits.js';
+import { PLANE_LOSS_WARN } from '../plan/sequence.js';
 import type { Plan, Warning } from '../plan/types.js';
 import type { Diagnostics } from '../run/compute.js';
 import { warning, type EvanescentSource } from '../warnings/catalogue.js';
@@ -56,6 +57,13 @@ export function postChecks(plan: Plan, d: Diagnostics, grating?: GratingEvanesce
     );
   }
   if (ratio - 1 > LIMITS.powerExcessWarn) w.push(warning('power-excess', { excess: ratio - 1 }));
+  for (const [i, p] of (d.planes ?? []).entries()) {
+    // A plane sampled where the planner expected the light (not over its element): what it missed
+    // is lost to every later plane. (All the light that left the plane before arrives somewhere.)
+    const before = i > 0 ? d.planes![i - 1]!.passed : 0;
+    const loss = before > 0 ? 1 - p.arriving / before : 0;
+    if (p.sampledFromLight && loss > PLANE_LOSS_WARN) w.push(warning('planes-window-loss', { plane: p.plane, loss, limit: PLANE_LOSS_WARN }));
+  }
   const gridGiven = !!c.grid?.size;
   if (d.edgeEnergy !== undefined && d.edgeEnergy > LIMITS.edgeEnergyWarn) {
     w.push(warning('edge-energy', { fraction: d.edgeEnergy, frame: LIMITS.edgeFrame, gridGiven, padded: [plan.x.paddedSamples, plan.y ? plan.y.paddedSamples : null] }));

@@ -12,7 +12,6 @@ import { focalPinholes } from '../metrics/spatial-filter.js';
 import { lensMtf } from '../metrics/mtf.js';
 import { powerAccount } from '../metrics/window.js';
 import { planeResults } from '../metrics/planes.js';
-import { PLANE_LOSS_WARN } from '../plan/sequence.js';
 import { directionCosines } from '../optics/source.js';
 import { gratingOf } from '../elements/registry.js';
 import type { CaseMetrics, CaseRecord } from '../output/case-output.js';
@@ -48,12 +47,6 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   const a = gratingOf(c.aperture);
   if (d.planes) {
     metrics.planes = planeResults(c, d.planes);
-    for (const [i, p] of d.planes.entries()) {
-      // A region sampled from the planner's estimate of the light: what it missed is lost to every later plane.
-      const before = i > 0 ? d.planes[i - 1]!.passed : 0;
-      const loss = before > 0 ? 1 - p.arriving / before : 0;
-      if (p.sampledFromLight && loss > PLANE_LOSS_WARN) warnings.push(warning('planes-window-loss', { plane: p.plane, loss, limit: PLANE_LOSS_WARN }));
-    }
   } else if (a && !c.aperture.opaque) {
     const footprint = a.count * a.period * (a.length ?? 1);
     const [alpha, beta] = directionCosines(c.illumination);
