@@ -177,11 +177,15 @@ export function lensParaxial(lam: number, focal: number, radius: number, tiltSin
   const na = radius / f + pupilSpread(lam, radius) + s;
   const tiltPhase = lensTiltPhase(lam, radius, s);
   // The Fresnel forms give an ideal lens's field, so what their checks and notes weigh is the axis's
-  // kR⁴/(8f³) (what the result is not: the quadratic phase's own spherical aberration); a tilt's
-  // landing point is warned of apart (tiltPhase).
+  // kR⁴/(8f³) (what the result is not: the quadratic phase's own spherical aberration), and for a
+  // tilt the linear part of the phase the Fresnel kernel drops across the lit pupil seen from the
+  // landing point, 2kR·(tan θ − sin θ) from rim to rim: the paraxial kernel puts the spot at z·sin θ,
+  // the exact one (the chief ray) at z·tan θ. (The lens-chirp form warns of the latter from a lower
+  // limit: fresnel-lens.ts LENS_TILT_PHASE.)
   const onAxis = Math.abs(droppedPhase(k, f, radius));
+  const error = Math.max(onAxis, 2 * tiltPhase);
   return {
     lens: { focal, radius, na, phase, positionError: (na * na) / 2, tiltPhase },
-    estimate: { error: onAxis, at, phase: onAxis, weight: 1 },
+    estimate: { error, at, phase: error, weight: 1 },
   };
 }

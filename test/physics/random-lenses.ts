@@ -540,5 +540,6 @@ export function lensCounts(outcomes: LensOutcome[]): string {
     `compared ${n(cmp)} (unwarned ${unwarned.length}, worst ${(worst(unwarned) * 100).toPrecision(3)} %; warned ${warned.length}, worst ${(worst(warned) * 100).toPrecision(3)} %)`,
     `refused ${n((o) => o.status === 'refused')}, too much work ${n((o) => o.status === 'too-much-work')}, no reference ${n((o) => o.status === 'no-reference')}, threw ${n((o) => o.status === 'threw')}`,
     `unwarned over 2 %: ${n((o) => isLensFailure(o, 0.02))}; over 5 %: ${n((o) => isLensFailure(o, 0.05))}`,
+    `tilted and compared ${n((o) => cmp(o) && o.errorTan !== undefined)}; centred at z·tan θ instead, unwarned over 2 %: ${n((o) => cmp(o) && !o.warned && o.errorTan! > 0.02)}`,
   ].join('\n');
 }
