@@ -256,7 +256,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   if (chosen.d.checks) Object.assign(checks, chosen.d.checks(chosen.axes, geo));
   reasons.push(...samplingReasons(chosen.d, chosen.axes, oneD));
   warnings.push(...preChecks(c, chosen.d, checks, chosen.axes, geo, options, maxMemory));
-  if (lensCheck && method !== 'fresnel' && lensCheck.lens.phase > LIMITS.paraxialPhase) {
+  if (lensCheck && method !== 'fresnel' && lensCheck.lens.phase > LIMITS.lensSphericalPhase) {
     // A non-paraxial method takes the thin lens's quadratic phase at its word.
     warnings.push(warning('lens-spherical', { method: methodWords(method, chosen.form), phase: lensCheck.lens.phase, fresnelValid: validity.fresnel.valid }));
   }

@@ -2,6 +2,7 @@
 // which descriptor a plan belongs to, and every form of a method must share what belongs to the
 // method (its validity, its name, its place in the choice rule). Structural checks of the code's
 // own bookkeeping (common practice); the physics of each form is checked in test/physics/.
+import type { Aperture } from '../../src/optics/aperture.js';
 import { describe, expect, it } from 'vitest';
 import { descriptorOf, METHOD_NAMES, METHOD_REGISTRY, methodWords } from '../../src/methods/registry.js';
 import { planCase } from '../../src/plan/planner.js';
@@ -30,6 +31,10 @@ const SPECS: CaseSpec[] = [
 function plans(): Plan[] {
   const out: Plan[] = [];
   for (const s of SPECS) for (const method of ['auto', ...METHOD_NAMES] as const) out.push(planCase(makeCase({ ...s, method }), { maxWork: Infinity }));
+  // Planes in sequence (a lens, a pinhole at its focus): planned by plan/sequence.ts.
+  const lens = { shape: 'lens', focal: 0.05, stop: 0.01, aberrations: [], opaque: false } as unknown as Aperture;
+  const pinhole = { shape: 'circle', diameter: 30e-6, opaque: false } as unknown as Aperture;
+  out.push(planCase({ ...makeCase({ wavelength: 633e-9, distance: 0.3, aperture: lens, illumination: { kind: 'gaussian', waist: 1e-3, tilt: [0, 0] } }), planes: [{ after: 0.05, aperture: pinhole }] }));
   return out;
 }
 
