@@ -17,6 +17,7 @@
 // linear part joins the carrier (h below) and only e^{iπcu²} is sampled.
 import type { Axis } from './field.js';
 import { axisAt } from './field.js';
+import { dft2 } from './dft.js';
 
 /** One plane's field: V on its grid (row-major [y][x], interleaved re, im), and its analytic phases. */
 export interface Wave {
@@ -86,59 +87,15 @@ export function propagateLeg(w: Wave, cells: PlaneCells | null, focal: number | 
       s[2 * i + 1] = re * ki + im * kr;
     }
   }
+  // V'(x, y) = (1/(iλz)) Σ S(u, v) e^{−i2π((x/(λz) − hx)u + (y/(λz) − hy)v)} ΔuΔv: the Fourier sums of
+  // dft.ts at those frequencies, with u, v from the lit region's centre. e^{iπcξc²} (the chirp's
+  // constant part, per axis) is a phase common to the whole plane and left out with e^{ikz}.
   const [mxA, myA] = out;
-  const ex = kernel(mxA, xa, xc[0]!, h[0]!, lam, z);
-  const ey = kernel(myA, ya, xc[1]!, h[1]!, lam, z);
-  const mx = mxA.n;
-  const my = myA.n;
-  // Along x: b[r][m] = Σ_q s[r][q]·ex[m][q].
-  const b = new Float64Array(2 * ny * mx);
-  for (let r = 0; r < ny; r++) {
-    const so = 2 * r * nx;
-    let empty = true;
-    for (let q = 0; q < 2 * nx; q++) {
-      if (s[so + q] !== 0) {
-        empty = false;
-        break;
-      }
-    }
-    if (empty) continue;
-    for (let m = 0; m < mx; m++) {
-      const eo = 2 * m * nx;
-      let re = 0;
-      let im = 0;
-      for (let q = 0; q < nx; q++) {
-        const sr = s[so + 2 * q]!;
-        const si = s[so + 2 * q + 1]!;
-        const er = ex[eo + 2 * q]!;
-        const ei = ex[eo + 2 * q + 1]!;
-        re += sr * er - si * ei;
-        im += sr * ei + si * er;
-      }
-      b[2 * (r * mx + m)] = re;
-      b[2 * (r * mx + m) + 1] = im;
-    }
-  }
-  // Along y: v'[n][m] = Σ_r ey[n][r]·b[r][m], scaled by ΔξΔη/(iλz).
-  const v = new Float64Array(2 * my * mx);
-  for (let n = 0; n < my; n++) {
-    const vo = 2 * n * mx;
-    for (let r = 0; r < ny; r++) {
-      const er = ey[2 * (n * ny + r)]!;
-      const ei = ey[2 * (n * ny + r) + 1]!;
-      const bo = 2 * r * mx;
-      for (let m = 0; m < mx; m++) {
-        const br = b[bo + 2 * m]!;
-        const bi = b[bo + 2 * m + 1]!;
-        v[vo + 2 * m] += er * br - ei * bi;
-        v[vo + 2 * m + 1] += er * bi + ei * br;
-      }
-    }
-  }
-  // 1/(iλz) = −i/(λz); e^{iπcξc²} (the chirp's constant part, per axis) is a phase common to the
-  // whole plane and left out with e^{ikz}.
-  const scale = Math.abs(xa.step * ya.step) / (lam * z);
-  for (let i = 0; i < mx * my; i++) {
+  const freqs = (a: Axis, hh: number) => Float64Array.from({ length: a.n }, (_, m) => axisAt(a, m) / (lam * z) - hh);
+  const v = dft2(s, { ...xa, start: xa.start - xc[0]! }, { ...ya, start: ya.start - xc[1]! }, freqs(mxA, h[0]!), freqs(myA, h[1]!));
+  // × 1/(iλz) = −i/(λz).
+  const scale = 1 / (lam * z);
+  for (let i = 0; i < mxA.n * myA.n; i++) {
     const re = v[2 * i]!;
     v[2 * i] = v[2 * i + 1]! * scale;
     v[2 * i + 1] = -re * scale;
@@ -159,21 +116,8 @@ function chirp(a: Axis, centre: number, c: number): Float64Array {
   return out;
 }
 
-/** e^{−i2π(x/(λz) − h)·u} for every output x (rows) and input u = ξ − ξc (columns). */
-function kernel(outAxis: Axis, inAxis: Axis, centre: number, h: number, lam: number, z: number): Float64Array {
-  const out = new Float64Array(2 * outAxis.n * inAxis.n);
-  for (let m = 0; m < outAxis.n; m++) {
-    const f = axisAt(outAxis, m) / (lam * z) - h;
-    for (let j = 0; j < inAxis.n; j++) {
-      const ph = -2 * Math.PI * f * (axisAt(inAxis, j) - centre);
-      out[2 * (m * inAxis.n + j)] = Math.cos(ph);
-      out[2 * (m * inAxis.n + j) + 1] = Math.sin(ph);
-    }
-  }
-  return out;
-}
-
 /** The work units (8 per complex product, as LIMITS.workPerSecond counts them) of one leg. */
 export function legWork(nx: number, ny: number, mx: number, my: number): number {
-  return 8 * (nx * ny * mx + ny * mx * my + nx * ny + mx * (nx + my * ny / Math.max(1, mx)));
+  // The two matrix products, the chirp over the samples, the two kernels.
+  return 8 * (nx * ny * mx + ny * mx * my + nx * ny + mx * nx + my * ny);
 }
