@@ -406,7 +406,8 @@ function knownKeysAt(path: (string | number)[], given: unknown): string[] {
   switch (key) {
     case '':
       return JOB_KEYS;
-    case 'aperture': {
+    case 'aperture':
+    case 'planes.element': {
       const shape = here?.shape as keyof typeof APERTURE_KEYS;
       return APERTURE_KEYS[shape] ?? ['shape'];
     }
@@ -428,10 +429,6 @@ function knownKeysAt(path: (string | number)[], given: unknown): string[] {
       return PINHOLE_SEARCH_KEYS;
     case 'planes':
       return PLANE_KEYS;
-    case 'planes.element': {
-      const shape = here?.shape as keyof typeof APERTURE_KEYS;
-      return APERTURE_KEYS[shape] ?? ['shape'];
-    }
     case 'orders':
       return ORDERS_KEYS;
     default:

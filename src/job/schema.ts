@@ -295,10 +295,7 @@ export function quantityKindAt(path: readonly (string | number)[]): UnitKind | u
 const QUANTITY_KEYS: Record<string, UnitKind> = {
   wavelength: 'length',
   distance: 'length',
-  // An element's sweepable keys that are not counts are lengths.
-  ...Object.fromEntries(
-    ELEMENTS.flatMap((e) => Object.keys(e.tokens).filter((k) => !('counts' in e && (e.counts as readonly string[] | undefined)?.includes(k))).map((k) => [`aperture.${k}`, 'length' as UnitKind])),
-  ),
+  ...elementLengthKeys('aperture'),
   'illumination.waist': 'length',
   'illumination.tilt': 'angle',
   'grid.pitch': 'length',
@@ -308,10 +305,15 @@ const QUANTITY_KEYS: Record<string, UnitKind> = {
   'search.smallest-spot.between': 'length',
   'orders.overlap': 'length',
   'planes.after': 'length',
-  ...Object.fromEntries(
-    ELEMENTS.flatMap((e) => Object.keys(e.tokens).filter((k) => !('counts' in e && (e.counts as readonly string[] | undefined)?.includes(k))).map((k) => [`planes.element.${k}`, 'length' as UnitKind])),
-  ),
+  ...elementLengthKeys('planes.element'),
 };
+
+/** An element's sweepable keys that are not counts are lengths, under the path that holds the element. */
+function elementLengthKeys(prefix: string): Record<string, UnitKind> {
+  return Object.fromEntries(
+    ELEMENTS.flatMap((e) => Object.keys(e.tokens).filter((k) => !('counts' in e && (e.counts as readonly string[] | undefined)?.includes(k))).map((k) => [`${prefix}.${k}`, 'length' as UnitKind])),
+  );
+}
 
 export type JobSpec = z.output<typeof jobSchema>;
 export type JobInput = z.input<typeof jobSchema>;

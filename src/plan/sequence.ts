@@ -85,7 +85,7 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
   const base: PlanBase = { case: c, babinet: false, beams: [], options: [] };
   const elements = [c.aperture, ...(c.planes ?? []).map((p) => p.aperture)];
   const gaps = [...(c.planes ?? []).map((p) => p.after), c.distance];
-  const refuse = (why: string): Plan => refused(c, base, why, reasons, warnings);
+  const refuse = (why: string): Plan => refused(base, why, reasons, warnings);
   for (const [i, a] of elements.entries()) {
     const f = apertureFacts(a);
     if (f.oneD) return refuse(`plane ${i + 1} (${f.description}) is infinitely long: planes in sequence take elements of finite size in both directions (give the slit or grating a length)`);
@@ -170,8 +170,11 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
       core = full;
     } else {
       full = full.map((r, i) => clipRegion(r, lo[i]!, hi[i]!));
-      core = core.map((r, i) => (core[i]!.length ? clipRegion(r, lo[i]!, hi[i]!) : r));
-      core = core.map((r, i) => (r.length ? r : full[i]!));
+      // (A core the element misses leaves the paraxial check the whole light instead.)
+      core = core.map((r, i) => {
+        const kept = clipRegion(r, lo[i]!, hi[i]!);
+        return kept.length ? kept : full[i]!;
+      });
     }
     const half: [number, number] = [(hi[0]! - lo[0]!) / 2, (hi[1]! - lo[1]!) / 2];
     const fromLight = !bounded || half.some((h, i) => h < f.halfExtent[i]! * (1 - 1e-9));
@@ -223,19 +226,14 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
   // The screen: the intensity's highest frequency is 2R/(λz) for light from a region of half width R.
   const last = planes[planes.length - 1]!;
   const zLast = gaps[gaps.length - 1]!;
+  const nyquist = [0, 1].map((i) => (lam * zLast) / (4 * last.half[i]!));
   const screenAxes = [0, 1].map((i) => {
-    const nyquist = (lam * zLast) / (4 * last.half[i]!);
-    const wanted = Math.max(LIMITS.minOutput2D, Math.ceil((2 * screenWindow.half[i]! * SCREEN_OVERSAMPLING) / (2 * nyquist)) + 1);
+    const wanted = Math.max(LIMITS.minOutput2D, Math.ceil((2 * screenWindow.half[i]! * SCREEN_OVERSAMPLING) / (2 * nyquist[i]!)) + 1);
     const n = Math.min(LIMITS.maxOutput2D, wanted | 1);
     return centredAxis(n, (2 * screenWindow.half[i]!) / (n - 1), screenWindow.centre[i]!);
   }) as [Axis, Axis];
-  for (const i of [0, 1]) {
-    const nyquist = (lam * zLast) / (4 * last.half[i]!);
-    if (screenAxes[i]!.step > nyquist * 1.0000001) {
-      warnings.push(warning('output-undersampled', { pitch: screenAxes[i]!.step, nyquist, window: 2 * screenWindow.half[i]! }));
-      break;
-    }
-  }
+  const coarse = [0, 1].find((i) => screenAxes[i]!.step > nyquist[i]! * 1.0000001);
+  if (coarse !== undefined) warnings.push(warning('output-undersampled', { pitch: screenAxes[coarse]!.step, nyquist: nyquist[coarse]!, window: 2 * screenWindow.half[coarse]! }));
 
   // Legs, their cost and their paraxial error.
   const legs: SequenceLeg[] = [];
@@ -254,8 +252,6 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
     const land = p.landing!;
     const x = Math.max(Math.abs(land[0][0] - p.centre[0]), Math.abs(land[0][1] - p.centre[0]));
     const y = Math.max(Math.abs(land[1][0] - p.centre[1]), Math.abs(land[1][1] - p.centre[1]));
-    const out = j + 1 < planes.length ? planes[j + 1]! : { centre: screenWindow.centre, half: screenWindow.half };
-    void out;
     // Along each axis in turn (a round bundle's edge, not the corner of its box).
     const cx = Math.abs((land[0][0] + land[0][1]) / 2 - p.centre[0]);
     const cy = Math.abs((land[1][0] + land[1][1]) / 2 - p.centre[1]);
@@ -360,7 +356,7 @@ function diffractionOf(a: Aperture, half: [number, number], gaussian: number | n
   return { diffraction, diffractionEdge: gaussian === null };
 }
 
-function refused(c: Case, base: PlanBase, why: string, reasons: string[], warnings: Warning[]): Plan {
+function refused(base: PlanBase, why: string, reasons: string[], warnings: Warning[]): Plan {
   const axis = centredAxis(1, 1, 0);
   const a: AxisPlan = { inputPitch: 1, inputSamples: 1, paddedSamples: 1, output: axis, apertureHalf: 0, windowHalf: 0, windowCentre: 0, requiredPitch: 1, pitchRule: '' };
   const checks: Checks = {
@@ -375,6 +371,5 @@ function refused(c: Case, base: PlanBase, why: string, reasons: string[], warnin
     featureOverWavelength: 0,
     samplesPerFeature: 0,
   };
-  void c;
   return { ...base, regime: 'far-field', method: 'fresnel', form: 'planes', layout: 'two-d', babinet: false, x: a, y: a, checks, reasons, warnings, memoryBytes: 0, work: 0, error: why };
 }
