@@ -3,7 +3,8 @@
 import { farFieldIntensity, type Complex } from './reference/far-field.js';
 import { testContext } from './engine.js';
 import type { Aperture, Illumination } from '../src/optics/aperture.js';
-import type { Case } from '../src/plan/types.js';
+import type { Case, Plan } from '../src/plan/types.js';
+import type { CaseRecord } from '../src/output/case-output.js';
 import { xAt, yAt } from '../src/model/grid.js';
 import { planCase } from '../src/plan/planner.js';
 import { runPlannedCase } from '../src/run/run-case.js';
@@ -51,6 +52,41 @@ export function runCase(s: CaseSpec) {
  * Runs a case and compares its whole window with a far-field reference (test/reference/far-field.ts):
  * the worst |I − I_ref| relative to the reference's peak.
  */
+/**
+ * A property test's case planned and run on the test engine, or where it stopped: planning threw,
+ * the plan was refused, its work is over the test's bound, or running threw; with the warnings so
+ * far and whether one of them is an accuracy warning. `onPlanned` sees every plan that is not refused.
+ */
+export type PlannedRun =
+  | { status: 'threw' | 'refused' | 'too-much-work'; note: string; plan: Plan | null; codes: string[]; warned: boolean }
+  | { status: 'ran'; plan: Plan; rec: CaseRecord; codes: string[]; warned: boolean };
+
+export function planAndRun(
+  s: CaseSpec,
+  o: { workLimit: number; accuracyCodes: readonly string[]; workDigits?: number; onPlanned?: (plan: Plan) => void },
+): PlannedRun {
+  let plan: Plan;
+  try {
+    plan = planCase(makeCase(s));
+  } catch (e) {
+    return { status: 'threw', note: `planCase: ${(e as Error).message}`, plan: null, codes: [], warned: false };
+  }
+  const warnedBy = (codes: string[]) => codes.some((c) => o.accuracyCodes.includes(c));
+  const planCodes = plan.warnings.map((w) => w.code);
+  const planned = { plan, codes: planCodes, warned: warnedBy(planCodes) };
+  if (plan.error) return { ...planned, status: 'refused', note: plan.error };
+  o.onPlanned?.(plan);
+  if (plan.work > o.workLimit) return { ...planned, status: 'too-much-work', note: `work ${plan.work.toExponential(o.workDigits ?? 2)}` };
+  let rec: CaseRecord;
+  try {
+    rec = runPlannedCase(plan, testContext());
+  } catch (e) {
+    return { ...planned, status: 'threw', note: `runPlannedCase: ${(e as Error).message}` };
+  }
+  const codes = rec.warnings.map((w) => w.code);
+  return { status: 'ran', plan, rec, codes, warned: warnedBy(codes) };
+}
+
 export function runAgainstFarField(s: CaseSpec, F: (fx: number, fy: number) => Complex) {
   const run = runCase(s);
   const { c, x, y } = run;

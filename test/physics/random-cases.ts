@@ -2,16 +2,13 @@
 // test/helpers.ts runCase does, and compared with the exact references of test/reference/.
 // Used by random-cases.test.ts (the property test) and, with SPOTCAST_RANDOM_REPORT=1, to print
 // every case (see the test file's header).
-import { testContext } from '../engine.js';
 import { apertureFacts, describe as describeAperture, type Aperture, type Illumination } from '../../src/optics/aperture.js';
 import { fork, type ChildProcess } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import type { Plan } from '../../src/plan/types.js';
-import { planCase } from '../../src/plan/planner.js';
 import { isOneD as isOneDGrid, xAt as gridX, yAt as gridY } from '../../src/model/grid.js';
-import { runPlannedCase } from '../../src/run/run-case.js';
 import { ACCURACY_CODES } from '../../src/warnings/catalogue.js';
-import { makeCase, mulberry32, type CaseSpec } from '../helpers.js';
+import { mulberry32, planAndRun, type CaseSpec } from '../helpers.js';
 import { isOneD, referenceCost1D, referenceIntensity, type RefCase } from '../reference/reference.js';
 
 /** The seed of the draw; change it to see other cases (the counts in the report are for this one). */
@@ -186,26 +183,11 @@ function evenIndices(n: number, m: number): number[] {
 /** Plans, runs and compares one case. */
 export function runRandomCase(d: DrawnCase, onPlanned?: (p: PlanInfo) => void): Outcome {
   const oneD = isOneD(d.spec.aperture);
-  const base = { drawn: d, oneD, codes: [] as string[], warned: false };
-  let plan: Plan;
-  try {
-    plan = planCase(makeCase(d.spec));
-  } catch (e) {
-    return { ...base, status: 'threw', note: `planCase: ${(e as Error).message}` };
-  }
-  const planCodes = plan.warnings.map((w) => w.code);
-  const withPlan = { ...base, plan: planInfo(plan), codes: planCodes, warned: planCodes.some((c) => ACCURACY_WARNINGS.includes(c)) };
-  if (plan.error) return { ...withPlan, status: 'refused', note: plan.error };
-  onPlanned?.(withPlan.plan);
-  if (plan.work > WORK_LIMIT) return { ...withPlan, status: 'too-much-work', note: `work ${plan.work.toExponential(2)}` };
-  let rec;
-  try {
-    rec = runPlannedCase(plan, testContext());
-  } catch (e) {
-    return { ...withPlan, status: 'threw', note: `runPlannedCase: ${(e as Error).message}` };
-  }
-  const codes = rec.warnings.map((w) => w.code);
-  const warned = codes.some((c) => ACCURACY_WARNINGS.includes(c));
+  const base = { drawn: d, oneD };
+  const r = planAndRun(d.spec, { workLimit: WORK_LIMIT, accuracyCodes: ACCURACY_WARNINGS, ...(onPlanned ? { onPlanned: (p: Plan) => onPlanned(planInfo(p)) } : {}) });
+  if (r.status !== 'ran') return { ...base, ...(r.plan ? { plan: planInfo(r.plan) } : {}), codes: r.codes, warned: r.warned, status: r.status, note: r.note };
+  const { plan, rec, codes, warned } = r;
+  const withPlan = { ...base, plan: planInfo(plan) };
   const c = rec.computed;
   const xAt = (col: number) => gridX(c, col);
   const yAt = (row: number) => gridY(c, row);

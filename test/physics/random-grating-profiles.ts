@@ -13,12 +13,8 @@
 // Used by random-grating-profiles.test.ts and random-grating-report.mjs.
 import type { Aperture, Illumination } from '../../src/optics/aperture.js';
 import { isOneD as isOneDGrid, xAt } from '../../src/model/grid.js';
-import { planCase } from '../../src/plan/planner.js';
-import type { Plan } from '../../src/plan/types.js';
-import { runPlannedCase } from '../../src/run/run-case.js';
 import { ACCURACY_CODES } from '../../src/warnings/catalogue.js';
-import { testContext } from '../engine.js';
-import { makeCase, mulberry32, type CaseSpec } from '../helpers.js';
+import { mulberry32, planAndRun, type CaseSpec } from '../helpers.js';
 import { efficiency, gratingFieldCost, gratingIntensity, type GratingRefCase, type Profile } from '../reference/grating-profile-field.js';
 
 export const GRATING_PROFILE_SEED = 0x6a7e0f11;
@@ -140,25 +136,11 @@ export function runGratingCase(d: DrawnGrating): GratingOutcome {
   const a = d.spec.aperture;
   const oneD = !a.length;
   const base = { drawn: d, oneD, codes: [] as string[], warned: false, error: null, ordersMeasured: 0, worstOrder: null, predictionError: 0 };
-  let plan: Plan;
-  try {
-    plan = planCase(makeCase(d.spec));
-  } catch (e) {
-    return { ...base, status: 'threw', note: `planCase: ${(e as Error).message}` };
-  }
-  const method = `${plan.method}${plan.form ? `/${plan.form}` : ''}`;
-  const planCodes = plan.warnings.map((w) => w.code);
-  const withPlan = { ...base, method, codes: planCodes, warned: planCodes.some((c) => ACCURACY_CODES.includes(c)) };
-  if (plan.error) return { ...withPlan, status: 'refused', note: plan.error };
-  if (plan.work > WORK_LIMIT) return { ...withPlan, status: 'too-much-work', note: `work ${plan.work.toExponential(2)}` };
-  let rec;
-  try {
-    rec = runPlannedCase(plan, testContext());
-  } catch (e) {
-    return { ...withPlan, status: 'threw', note: `runPlannedCase: ${(e as Error).message}` };
-  }
-  const codes = rec.warnings.map((w) => w.code);
-  const done = { ...withPlan, codes, warned: codes.some((c) => ACCURACY_CODES.includes(c)) };
+  const r = planAndRun(d.spec, { workLimit: WORK_LIMIT, accuracyCodes: ACCURACY_CODES });
+  const method = r.plan ? `${r.plan.method}${r.plan.form ? `/${r.plan.form}` : ''}` : undefined;
+  if (r.status !== 'ran') return { ...base, ...(method ? { method } : {}), codes: r.codes, warned: r.warned, status: r.status, note: r.note };
+  const { rec, codes, warned } = r;
+  const done = { ...base, method, codes, warned };
 
   // (a) The order table against the closed forms.
   let worstOrder: OrderError | null = null;

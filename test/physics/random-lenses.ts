@@ -28,10 +28,8 @@ import besselj0 from '@stdlib/math-base-special-besselj0';
 import besselj1 from '@stdlib/math-base-special-besselj1';
 import type { Aperture, Illumination } from '../../src/optics/aperture.js';
 import { xAt as gridX, yAt as gridY } from '../../src/model/grid.js';
-import { planCase } from '../../src/plan/planner.js';
-import { runPlannedCase } from '../../src/run/run-case.js';
-import { testContext } from '../engine.js';
-import { makeCase, mulberry32, type CaseSpec } from '../helpers.js';
+import { mulberry32, planAndRun, type CaseSpec } from '../helpers.js';
+import { gaussLegendre } from '../reference/quadrature.js';
 
 export const LENS_SEED = 0x1e45e5;
 export const LENS_CASE_COUNT = 48;
@@ -143,31 +141,7 @@ export function waves(t: Term, lam: number): number {
 
 // --- Quadrature ---------------------------------------------------------------------------------
 
-/** Gauss–Legendre nodes and weights on [−1, 1] by Newton's iteration on P_n (common practice). */
-function gaussLegendre(n: number): { x: Float64Array; w: Float64Array } {
-  const x = new Float64Array(n);
-  const w = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let t = Math.cos((Math.PI * (i + 0.75)) / (n + 0.5));
-    let dp = 0;
-    for (let it = 0; it < 100; it++) {
-      let p0 = 1;
-      let p1 = t;
-      for (let k = 2; k <= n; k++) {
-        const p2 = ((2 * k - 1) * t * p1 - (k - 1) * p0) / k;
-        p0 = p1;
-        p1 = p2;
-      }
-      dp = (n * (t * p1 - p0)) / (t * t - 1);
-      const dt = p1 / dp;
-      t -= dt;
-      if (Math.abs(dt) < 1e-16) break;
-    }
-    x[i] = t;
-    w[i] = 2 / ((1 - t * t) * dp * dp);
-  }
-  return { x, w };
-}
+// Gauss–Legendre nodes and weights: test/reference/quadrature.ts (Abramowitz & Stegun 25.4.29).
 const GL = gaussLegendre(12);
 
 /** The pupil as the reference sees it. */
@@ -403,25 +377,11 @@ function evenIndices(n: number, m: number): number[] {
 export function runLens(d: DrawnLens, accuracyCodes: readonly string[]): LensOutcome {
   const p = pupilOf(d);
   const base = { d, codes: [] as string[], warned: false, tanOverSpot: tanShift(d) / spotScale(p) };
-  let plan;
-  try {
-    plan = planCase(makeCase(d.spec));
-  } catch (e) {
-    return { ...base, status: 'threw', note: `planCase: ${(e as Error).message}` };
-  }
-  const method = `${plan.method}${plan.form ? ` (${plan.form})` : ''}`;
-  const planCodes = plan.warnings.map((w) => w.code);
-  const withPlan = { ...base, method, codes: planCodes, warned: planCodes.some((c) => accuracyCodes.includes(c)) };
-  if (plan.error) return { ...withPlan, status: 'refused', note: plan.error };
-  if (plan.work > LENS_WORK_BOUND) return { ...withPlan, status: 'too-much-work', note: `work ${plan.work.toExponential(1)}` };
-  let rec;
-  try {
-    rec = runPlannedCase(plan, testContext());
-  } catch (e) {
-    return { ...withPlan, status: 'threw', note: `runPlannedCase: ${(e as Error).message}` };
-  }
-  const codes = rec.warnings.map((w) => w.code);
-  const done = { ...withPlan, codes, warned: codes.some((c) => accuracyCodes.includes(c)) };
+  const r = planAndRun(d.spec, { workLimit: LENS_WORK_BOUND, accuracyCodes, workDigits: 1 });
+  const method = r.plan ? `${r.plan.method}${r.plan.form ? ` (${r.plan.form})` : ''}` : undefined;
+  if (r.status !== 'ran') return { ...base, ...(method ? { method } : {}), codes: r.codes, warned: r.warned, status: r.status, note: r.note };
+  const { rec, codes, warned } = r;
+  const done = { ...base, method, codes, warned };
   const c = rec.computed;
   if (lightNA(d) > REFERENCE_NA) return { ...done, status: 'no-reference', note: `the light's NA ${lightNA(d).toPrecision(2)} is beyond the paraxial references (${REFERENCE_NA})` };
   const [lx, ly] = landing(d);
