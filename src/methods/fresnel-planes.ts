@@ -1,11 +1,12 @@
-// Planes in sequence (plan/sequence.ts): the Fresnel integral from each plane to the next, each
-// element's transmittance multiplied in on the region the planner sampled there, each lens folded
-// into the integral's curvature (optics/sequence.ts). The planner plans these cases itself, so
+// Planes in sequence (plan/sequence.ts): the Fresnel integral from each plane to the next (or, where
+// wide light barely spreads, the angular spectrum), each element's transmittance multiplied in on
+// the region the planner sampled there, each lens folded into the integral's curvature
+// (optics/sequence.ts). The planner plans these cases itself, so
 // `sample` offers this form for no single-element case.
 import { apertureMask, apertureTransmittance, lensOf } from '../elements/registry.js';
 import type { Aperture } from '../optics/aperture.js';
 import type { Axis, Field } from '../optics/field.js';
-import { passedPower, propagateLeg, type PlaneCells, type Wave } from '../optics/sequence.js';
+import { passedPower, propagateLeg, propagateLegSpectrum, type PlaneCells, type Wave } from '../optics/sequence.js';
 import { envelope } from '../optics/source.js';
 import type { MethodDescriptor, PlanePower } from './types.js';
 import { paraxialValidity } from './validity.js';
@@ -22,7 +23,7 @@ export const fresnelPlanes: MethodDescriptor = {
   validity: paraxialValidity,
   sample: () => null,
   words: { method: 'Fresnel', form: 'plane to plane, with each curvature in closed form' },
-  propagate(plan) {
+  propagate(plan, run) {
     const c = plan.case;
     const legs = plan.sequence!.legs;
     const lam = c.wavelength;
@@ -41,7 +42,7 @@ export const fresnelPlanes: MethodDescriptor = {
       const arriving = passedPower(wave, null);
       passed = passedPower(wave, cells);
       planes.push({ plane: j + 1, arriving, passed, sampledFromLight: j > 0 && legs[j - 1]!.windowFromLight });
-      wave = propagateLeg(wave, cells, leg.focal, leg.z, leg.output);
+      wave = leg.form === 'spectrum' ? propagateLegSpectrum(wave, cells, leg.focal, leg.z, leg.output, leg.grid!, run.engine, leg.flat) : propagateLeg(wave, cells, leg.focal, leg.z, leg.output);
     }
     const field: Field = { data: wave.v, nx: wave.x.n, ny: wave.y.n, dx: wave.x.step, dy: wave.y.step, x0: wave.x.start, y0: wave.y.start, wavelength: lam };
     return { field, powerIn: passed, planes };

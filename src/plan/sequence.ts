@@ -15,7 +15,8 @@
 import { apertureFacts, lensOf, phaseFrequencyOf } from '../elements/registry.js';
 import { SIZE } from '../job/quantities.js';
 import { centredAxis, type Axis } from '../optics/field.js';
-import { legWork } from '../optics/sequence.js';
+import { nextPowerOfTwo } from '../optics/fft.js';
+import { legWork, spectrumLegWork } from '../optics/sequence.js';
 import { directionCosines } from '../optics/source.js';
 import { warning } from '../warnings/catalogue.js';
 import { BASELINE_MEMORY } from './costs.js';
@@ -42,6 +43,8 @@ const LEG_OVERSAMPLING = 2;
 const SCREEN_OVERSAMPLING = 4;
 /** Largest number of samples per axis of any plane. */
 const MAX_PLANE_SAMPLES = 8192;
+/** Largest FFT grid per axis of a leg carried by the angular spectrum. */
+const MAX_SPECTRUM_SAMPLES = 8192;
 
 export interface SequenceOptions {
   maxMemoryBytes: number;
@@ -185,53 +188,118 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
       half,
       ...next,
       coreHalf: [0, 1].map((i) => Math.max((coreAt[i]![1] - coreAt[i]![0]) / 2, 1e-3 * half[i]!)) as [number, number],
-      // An element wider than the light adds no edges to it, only its features and phase.
-      ...diffractionOf(a, fromLight && bounded ? [Infinity, Infinity] : half, null, lam),
+      // An element wider than the light adds no edges to it, only its features (those narrower
+      // than the light: the outline's size is not one) and phase.
+      ...diffractionOf(a, fromLight && bounded ? [Infinity, Infinity] : half, null, lam, fromLight && bounded ? Math.max(...half) : Infinity),
       fromLight,
       focal: lensOf(a)?.focal ?? null,
     });
   }
 
-  // Pitches: each plane's from the leg that leaves it (optics/sequence.ts: the sum is alias-free
-  // while the sampled integrand's band plus the window's reach stays below 1/Δ).
-  const inputs: [Axis, Axis][] = [];
-  const rules: string[] = [];
-  for (let j = 0; j < planes.length; j++) {
-    const p = planes[j]!;
-    const z = gaps[j]!;
-    const out = j + 1 < planes.length ? planes[j + 1]! : { centre: screenWindow.centre, half: screenWindow.half };
-    const lens = lensOf(p.aperture);
-    const c0 = p.curvature + (1 / z - (p.focal === null ? 0 : 1 / p.focal)) / lam;
-    const phase = lens ? lens.pupilFrequency(lam) : phaseFrequencyOf(p.aperture, lam, Math.max(...p.half));
-    const f = apertureFacts(p.aperture);
-    const axes = [0, 1].map((i) => {
-      const h = p.carrier[i]! + c0 * p.centre[i]!;
-      const reachOut = (Math.abs(out.centre[i]! - lam * z * h) + out.half[i]!) / (lam * z);
-      const content = p.band[i]! + phase + Math.abs(c0) * p.half[i]!;
-      let pitch = 1 / (LEG_OVERSAMPLING * (content + reachOut));
-      let rule = `${LEG_OVERSAMPLING}× the highest frequency the sum must hold (${fmt((content + reachOut) / 1e3, 3)} /mm: the light's detail, the residual curvature and the next window's reach)`;
-      // Every feature the light meets: the element's smallest, where it is no wider than the lit region.
-      const feature = f.minFeature / LIMITS.featureSamples2D;
-      if (feature < pitch && f.minFeature < 2 * Math.max(...p.half) * 1.0001) {
-        pitch = feature;
-        rule = `${LIMITS.featureSamples2D} cells across the smallest feature (${len(f.minFeature)})`;
-      }
-      const n = Math.max(LIMITS.minSamples2D / 2, 2 * Math.ceil(p.half[i]! / pitch) + 1);
-      return { axis: centredAxis(n, (2 * p.half[i]!) / n, p.centre[i]!), rule };
-    });
-    // Cells that tile the region exactly: n cells of width 2R/n, centred on the region.
-    inputs.push([axes[0]!.axis, axes[1]!.axis]);
-    rules.push(`plane ${j + 1}: ${axes[0]!.axis.n} × ${axes[1]!.axis.n} cells of ${len(axes[0]!.axis.step)} over ${len(2 * p.half[0])} × ${len(2 * p.half[1])} (${axes[0]!.rule})`);
-  }
-  // The screen: the intensity's highest frequency is 2R/(λz) for light from a region of half width R.
-  const last = planes[planes.length - 1]!;
+  // Each leg is summed (optics/sequence.ts propagateLeg: the Fresnel integral's two matrix products
+  // onto the next region's own points) or carried by the angular spectrum (propagateLegSpectrum) on
+  // an FFT grid that both ends' samples lie on, whichever costs less. The sum's pitch must hold the
+  // next window's reach (the kernel's frequency between the regions), which in a gap where wide
+  // light barely spreads is huge; the spectrum's need only hold the light's own detail, but its grid
+  // spans both regions and the spread between.
+  const P = planes.length;
+  let sumPitch = planes.map((_, j) => sumPitchOf(j));
+  let spectrumPitch = planes.map((_, j) => spectrumPitchOf(j));
+  // The screen's points for a summed last leg: the intensity's highest frequency is 2R/(λz) for
+  // light from a region of half width R.
+  const last = planes[P - 1]!;
   const zLast = gaps[gaps.length - 1]!;
-  const nyquist = [0, 1].map((i) => (lam * zLast) / (4 * last.half[i]!));
-  const screenAxes = [0, 1].map((i) => {
-    const wanted = Math.max(LIMITS.minOutput2D, Math.ceil((2 * screenWindow.half[i]! * SCREEN_OVERSAMPLING) / (2 * nyquist[i]!)) + 1);
+  const sumNyquist = [0, 1].map((i) => (lam * zLast) / (4 * last.half[i]!));
+  const sumScreen = [0, 1].map((i) => {
+    const wanted = Math.max(LIMITS.minOutput2D, Math.ceil((2 * screenWindow.half[i]! * SCREEN_OVERSAMPLING) / (2 * sumNyquist[i]!)) + 1);
     const n = Math.min(LIMITS.maxOutput2D, wanted | 1);
     return centredAxis(n, (2 * screenWindow.half[i]!) / (n - 1), screenWindow.centre[i]!);
   }) as [Axis, Axis];
+  const regionOf = (j: number, i: number): [number, number] => (j < P ? [planes[j]!.centre[i]! - planes[j]!.half[i]!, planes[j]!.centre[i]! + planes[j]!.half[i]!] : [screenWindow.centre[i]! - screenWindow.half[i]!, screenWindow.centre[i]! + screenWindow.half[i]!]);
+  const cells = (j: number, i: number, pitch: number) => Math.max(LIMITS.minSamples2D / 2, 2 * Math.ceil(planes[j]!.half[i]! / pitch) + 1);
+  // Which form each leg takes, and the step each plane's samples need, from the last leg back: a
+  // spectrum leg puts both its ends on one lattice (the finer need of the two), so choosing it may
+  // refine the planes after it, and what that adds to their legs is part of its cost.
+  const forms: SequenceLeg['form'][] = new Array(P);
+  const need: [number, number][] = new Array(P);
+  const legCost = (j: number, form: SequenceLeg['form'], step: [number, number]): number => {
+    if (form === 'sum') {
+      const nIn = [0, 1].map((i) => cells(j, i, step[i]!));
+      const nOut = [0, 1].map((i) => (j + 1 < P ? cells(j + 1, i, need[j + 1]![i]!) : sumScreen[i]!.n));
+      return Math.max(...nIn) > MAX_PLANE_SAMPLES ? Infinity : legWork(nIn[0]!, nIn[1]!, nOut[0]!, nOut[1]!);
+    }
+    const grid = [0, 1].map((i) => spectrumGridSamples(j, i, step[i]!));
+    return Math.max(...grid) > MAX_SPECTRUM_SAMPLES ? Infinity : spectrumLegWork(grid[0]!, grid[1]!);
+  };
+  /** What refining plane j's step to `step` adds to the legs from it on. */
+  const refineCost = (j: number, step: [number, number]): number => {
+    if (j >= P || step.every((s, i) => s >= need[j]![i]!)) return 0;
+    const finer = [0, 1].map((i) => Math.min(step[i]!, need[j]![i]!)) as [number, number];
+    const extra = legCost(j, forms[j]!, finer) - legCost(j, forms[j]!, need[j]!);
+    return extra + (forms[j] === 'spectrum' ? refineCost(j + 1, finer) : 0);
+  };
+  const decide = () => {
+    for (let j = P - 1; j >= 0; j--) {
+      const sumStep = sumPitch[j]!.pitch;
+      const spectrumStep = [0, 1].map((i) => Math.min(spectrumPitch[j]!.pitch[i]!, j + 1 < P ? need[j + 1]![i]! : Infinity)) as [number, number];
+      const sumWork = legCost(j, 'sum', sumStep);
+      const spectrumWork = legCost(j, 'spectrum', spectrumStep) + refineCost(j + 1, spectrumStep);
+      forms[j] = spectrumWork < sumWork ? 'spectrum' : 'sum';
+      need[j] = forms[j] === 'spectrum' ? spectrumStep : sumStep;
+    }
+  };
+  decide();
+  // A spectrum leg may hand its field on as it computed it (no curvature, its carrier, the light's
+  // own detail) instead of in the sums' form (curvature 1/(λz), detail R/(λz) for light from a
+  // region of half width R): where the light stayed wide that is far smoother (a collimated beam
+  // through several planes). Each such choice changes the planes after it, so decide again.
+  const flat: boolean[] = new Array(P).fill(false);
+  for (let round = 0; round < P; round++) {
+    let changed = false;
+    for (let j = 0; j + 1 < P; j++) {
+      if (forms[j] !== 'spectrum' || flat[j]) continue;
+      const p = planes[j]!;
+      const q = planes[j + 1]!;
+      const cT = p.curvature - (p.focal === null ? 0 : 1 / (lam * p.focal));
+      const detail = [0, 1].map((i) => spectrumContent(j, i, cT, false));
+      if (detail.every((d, i) => d < q.band[i]! + Math.abs(q.curvature) * q.half[i]!)) {
+        flat[j] = true;
+        changed = true;
+        q.band = [detail[0]!, detail[1]!];
+        q.curvature = 0;
+        q.carrier = [p.carrier[0] + cT * p.centre[0], p.carrier[1] + cT * p.centre[1]];
+      }
+    }
+    if (!changed) break;
+    sumPitch = planes.map((_, j) => sumPitchOf(j));
+    spectrumPitch = planes.map((_, j) => spectrumPitchOf(j));
+    decide();
+  }
+  const inputs: [Axis, Axis][] = [];
+  const rules: string[] = [];
+  for (let j = 0; j < P; j++) {
+    const p = planes[j]!;
+    const onLattice = forms[j] === 'spectrum' || (j > 0 && forms[j - 1] === 'spectrum');
+    const axes = [0, 1].map((i) => {
+      if (!onLattice) {
+        // Cells that tile the region exactly: n cells of width 2R/n, centred on the region.
+        const n = cells(j, i, need[j]![i]!);
+        return centredAxis(n, (2 * p.half[i]!) / n, p.centre[i]!);
+      }
+      const step = j > 0 && forms[j - 1] === 'spectrum' ? inputs[j - 1]![i]!.step : need[j]![i]!;
+      return latticeAxis(...regionOf(j, i), step, 1);
+    });
+    inputs.push([axes[0]!, axes[1]!]);
+    const rule = (forms[j] === 'spectrum' ? spectrumPitch : sumPitch)[j]!.rule[0]!;
+    rules.push(`plane ${j + 1}: ${axes[0]!.n} × ${axes[1]!.n} cells of ${len(axes[0]!.step)} over ${len(2 * p.half[0])} × ${len(2 * p.half[1])} (${rule}${onLattice && need[j]![0]! < (forms[j] === 'spectrum' ? spectrumPitch : sumPitch)[j]!.pitch[0]! ? '; finer, shared with a plane joined by the angular spectrum' : ''})`);
+  }
+  // The screen: a summed leg's own points; a spectrum leg's lattice, strided to at most the
+  // largest map (the intensity is then checked against its highest frequency, 2× the light's).
+  const spectrumLast = forms[P - 1] === 'spectrum';
+  const screenAxes = spectrumLast
+    ? ([0, 1].map((i) => latticeAxis(...regionOf(P, i), inputs[P - 1]![i]!.step, LIMITS.maxOutput2D)) as [Axis, Axis])
+    : sumScreen;
+  const nyquist = spectrumLast ? spectrumPitch[P - 1]!.nyquist : sumNyquist;
   const coarse = [0, 1].find((i) => screenAxes[i]!.step > nyquist[i]! * 1.0000001);
   if (coarse !== undefined) warnings.push(warning('output-undersampled', { pitch: screenAxes[coarse]!.step, nyquist: nyquist[coarse]!, window: 2 * screenWindow.half[coarse]! }));
 
@@ -239,11 +307,28 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
   const legs: SequenceLeg[] = [];
   let work = 0;
   let memory = 0;
-  for (let j = 0; j < planes.length; j++) {
+  for (let j = 0; j < P; j++) {
     const p = planes[j]!;
     const z = gaps[j]!;
     const input = inputs[j]!;
-    const output = j + 1 < planes.length ? inputs[j + 1]! : screenAxes;
+    const output = j + 1 < P ? inputs[j + 1]! : screenAxes;
+    const name = j + 1 < P ? `plane ${j + 1} to plane ${j + 2}` : `plane ${j + 1} to the screen`;
+    const lensWords = p.focal !== null ? `; the lens (f = ${len(p.focal)}) ${forms[j] === 'spectrum' ? 'sampled as what is left of its curvature' : 'folded into the integral\'s curvature, not sampled'}.` : '.';
+    if (forms[j] === 'spectrum') {
+      const grid = [0, 1].map((i) => {
+        const lo = Math.min(input[i]!.start, output[i]!.start) - spectrumPad(j, i);
+        const hi = Math.max(input[i]!.start + (input[i]!.n - 1) * input[i]!.step, output[i]!.start + (output[i]!.n - 1) * output[i]!.step) + spectrumPad(j, i);
+        const step = input[i]!.step;
+        const m0 = Math.floor(lo / step + 1e-9);
+        return { n: nextPowerOfTwo(Math.ceil(hi / step - 1e-9) - m0 + 1), start: m0 * step, step };
+      }) as [Axis, Axis];
+      const w = spectrumLegWork(grid[0].n, grid[1].n);
+      work += w;
+      memory = Math.max(memory, 16 * (2 * grid[0].n * grid[1].n + input[0].n * input[1].n + output[0].n * output[1].n));
+      legs.push({ z, input, output, focal: p.focal, paraxialPhase: 0, windowFromLight: j + 1 < P ? planes[j + 1]!.fromLight : !c.window, form: 'spectrum', grid, flat: flat[j]! });
+      reasons.push(`${name}, ${len(z)}: the angular spectrum (exact, no paraxial approximation) on a ${grid[0].n} × ${grid[1].n} grid of ${len(grid[0].step)} holding both ends and the light's spread between (${seconds(w)}): cheaper here than the Fresnel sums, whose pitch must follow the window's reach` + lensWords);
+      continue;
+    }
     const w = legWork(input[0].n, input[1].n, output[0].n, output[1].n);
     work += w;
     memory = Math.max(memory, 16 * (2 * input[0].n * input[1].n + output[0].n * input[0].n + output[1].n * input[1].n + input[1].n * output[0].n + output[0].n * output[1].n));
@@ -260,16 +345,98 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
     // lens's field, as the single-plane lens form says): up to its focus nothing is counted; beyond
     // it the light spreads from the focal spot (half width about λ/(2·NA)), and the kernel's error is
     // counted from there.
+    // Into a lens likewise: the Fresnel chain from any plane through a thin lens onto its focal or
+    // image plane is the ideal lens's transform (Goodman §5.2: a point at the front focal plane
+    // leaves as an exact plane wave), so what the kernel drops on the way in is the ideal lens's
+    // business, not an error of this leg; what leaves the lens is counted as above.
     let paraxialPhase: number;
-    if (p.focal === null) paraxialPhase = along((x, y) => paraxialVariation(k, z, p.coreHalf[0], p.coreHalf[1], x, y));
+    if (j + 1 < P && planes[j + 1]!.focal !== null) paraxialPhase = 0;
+    else if (p.focal === null) paraxialPhase = along((x, y) => paraxialVariation(k, z, p.coreHalf[0], p.coreHalf[1], x, y));
     else if (p.focal > 0 && z > p.focal) {
       const spot = (i: number) => (lam * p.focal!) / (2 * Math.max(p.half[i]!, 1e-300));
       paraxialPhase = along((x, y) => paraxialVariation(k, z - p.focal!, spot(0), spot(1), x, y));
     } else paraxialPhase = 0;
-    legs.push({ z, input, output, focal: p.focal, paraxialPhase, windowFromLight: j + 1 < planes.length ? planes[j + 1]!.fromLight : !c.window });
-    const name = j + 1 < planes.length ? `plane ${j + 1} to plane ${j + 2}` : `plane ${j + 1} to the screen`;
+    legs.push({ z, input, output, focal: p.focal, paraxialPhase, windowFromLight: j + 1 < P ? planes[j + 1]!.fromLight : !c.window, form: 'sum' });
     if (paraxialPhase > LIMITS.paraxialPhase) warnings.push(warning('planes-paraxial', { leg: name, phase: paraxialPhase, limit: LIMITS.paraxialPhase }));
-    reasons.push(`${name}, ${len(z)}: ${input[0].n} × ${input[1].n} samples summed onto ${output[0].n} × ${output[1].n} points (${seconds(w)})` + (p.focal !== null ? `; the lens (f = ${len(p.focal)}) folded into the integral's curvature, not sampled.` : '.'));
+    reasons.push(`${name}, ${len(z)}: ${input[0].n} × ${input[1].n} samples summed onto ${output[0].n} × ${output[1].n} points (${seconds(w)})` + lensWords);
+  }
+
+  /** The Fresnel sums' pitch at plane j (the sum is alias-free while the sampled integrand's band plus the window's reach stays below 1/Δ). */
+  function sumPitchOf(j: number): { pitch: [number, number]; rule: [string, string] } {
+    const p = planes[j]!;
+    const z = gaps[j]!;
+    const out = j + 1 < P ? planes[j + 1]! : screenWindow;
+    const c0 = p.curvature + (1 / z - (p.focal === null ? 0 : 1 / p.focal)) / lam;
+    const res = [0, 1].map((i) => {
+      const h = p.carrier[i]! + c0 * p.centre[i]!;
+      const reachOut = (Math.abs(out.centre[i]! - lam * z * h) + out.half[i]!) / (lam * z);
+      const content = p.band[i]! + phaseOf(j) + Math.abs(c0) * p.half[i]!;
+      return featureRule(j, 1 / (LEG_OVERSAMPLING * (content + reachOut)), `${LEG_OVERSAMPLING}× the highest frequency the sum must hold (${fmt((content + reachOut) / 1e3, 3)} /mm: the light's detail, the residual curvature and the next window's reach)`);
+    });
+    return { pitch: [res[0]!.pitch, res[1]!.pitch], rule: [res[0]!.rule, res[1]!.rule] };
+  }
+
+  /**
+   * The angular spectrum's pitch at plane j: the light's own detail, what is left of the curvature
+   * (κ less the lens's: no propagation chirp), and what the plane's edges send out (the spread the
+   * regions were drawn with); on a leg to the screen, fine enough for the map as well (the
+   * intensity holds twice the light's highest frequency: SCREEN_OVERSAMPLING samples per period).
+   */
+  function spectrumPitchOf(j: number): { pitch: [number, number]; rule: [string, string]; nyquist: [number, number] } {
+    const p = planes[j]!;
+    const toScreen = j === P - 1;
+    const cT = p.curvature - (p.focal === null ? 0 : 1 / (lam * p.focal));
+    const res = [0, 1].map((i) => {
+      const content = spectrumContent(j, i, cT);
+      const per = toScreen ? 2 * SCREEN_OVERSAMPLING : LEG_OVERSAMPLING;
+      let pitch = 1 / (per * content);
+      let rule = `${per}× the highest frequency of the light (${fmt(content / 1e3, 3)} /mm: its detail, the residual curvature and the edges' spread)`;
+      if (toScreen) {
+        const display = (2 * screenWindow.half[i]!) / (LIMITS.minOutput2D - 1);
+        if (display < pitch) {
+          pitch = display;
+          rule = `${LIMITS.minOutput2D} points across the screen's window`;
+        }
+      }
+      return { ...featureRule(j, pitch, rule), nyquist: 1 / (4 * content) };
+    });
+    return { pitch: [res[0]!.pitch, res[1]!.pitch], rule: [res[0]!.rule, res[1]!.rule], nyquist: [res[0]!.nyquist, res[1]!.nyquist] };
+  }
+
+  function spectrumContent(j: number, i: number, cT: number, toScreen = j === P - 1): number {
+    const p = planes[j]!;
+    const multiple = toScreen ? HARD_EDGE_SPREAD.screen : HARD_EDGE_SPREAD.plane;
+    return p.band[i]! + phaseOf(j) + Math.abs(cT) * p.half[i]! + (p.diffractionEdge ? (multiple * p.diffraction[i]!) / lam : 0);
+  }
+
+  /** How far the light's highest frequency carries it across gap j (the spectrum grid's margin against wrap-around). */
+  function spectrumPad(j: number, i: number): number {
+    const p = planes[j]!;
+    const cT = p.curvature - (p.focal === null ? 0 : 1 / (lam * p.focal));
+    const s = Math.min(lam * spectrumContent(j, i, cT), 0.95);
+    return (gaps[j]! * s) / Math.sqrt(1 - s * s);
+  }
+
+  /** FFT samples per axis a spectrum leg from plane j would take at this pitch. */
+  function spectrumGridSamples(j: number, i: number, pitch: number): number {
+    const a = regionOf(j, i);
+    const b = regionOf(j + 1, i);
+    return nextPowerOfTwo(Math.ceil((Math.max(a[1], b[1]) - Math.min(a[0], b[0]) + 2 * spectrumPad(j, i)) / pitch) + 3);
+  }
+
+  function phaseOf(j: number): number {
+    const p = planes[j]!;
+    const lens = lensOf(p.aperture);
+    return lens ? lens.pupilFrequency(lam) : phaseFrequencyOf(p.aperture, lam, Math.max(...p.half));
+  }
+
+  /** Every feature the light meets: the element's smallest, where it is no wider than the lit region. */
+  function featureRule(j: number, pitch: number, rule: string): { pitch: number; rule: string } {
+    const p = planes[j]!;
+    const f = apertureFacts(p.aperture);
+    const feature = f.minFeature / LIMITS.featureSamples2D;
+    if (feature < pitch && f.minFeature < 2 * Math.max(...p.half) * 1.0001) return { pitch: feature, rule: `${LIMITS.featureSamples2D} cells across the smallest feature (${len(f.minFeature)})` };
+    return { pitch, rule };
   }
   reasons.push(...rules);
   const lens0 = planes[0]!.focal;
@@ -282,8 +449,9 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
   const memoryBytes = BASELINE_MEMORY + memory + 8 * screenAxes[0].n * screenAxes[1].n * 3;
   let error: string | undefined;
   const biggest = Math.max(...inputs.flatMap((a) => [a[0].n, a[1].n]));
-  if (biggest > MAX_PLANE_SAMPLES) {
-    error = `a plane needs ${biggest} samples per axis (at most ${MAX_PLANE_SAMPLES}): a gap where wide light barely spreads (a collimated beam, a screen in the near field of the plane before) takes a direct sum this form cannot afford; put the screen where the light comes to a focus (an image plane), or compute that part as a job of its own`;
+  const biggestGrid = Math.max(0, ...legs.flatMap((l) => (l.grid ? [l.grid[0].n, l.grid[1].n] : [])));
+  if (biggest > MAX_PLANE_SAMPLES || biggestGrid > MAX_SPECTRUM_SAMPLES) {
+    error = `a plane needs ${Math.max(biggest, biggestGrid)} samples per axis (at most ${MAX_PLANE_SAMPLES}): the light there is both wide and finely detailed (a collimated beam through a small feature, or a lens whose curvature is sampled over a wide region) for the Fresnel sums and for the angular spectrum alike; put the screen where the light comes to a focus (an image plane), or compute that part as a job of its own`;
   }
   else if (memoryBytes > opts.maxMemoryBytes) error = `the planes need about ${bytes(memoryBytes)}, over the ${bytes(opts.maxMemoryBytes)} limit (--max-memory)`;
   else if (work > opts.maxWork) error = `the planes need about ${seconds(work)} of computing, over the ${seconds(opts.maxWork)} limit (--accept-large)`;
@@ -342,7 +510,7 @@ function lobe(h: number, lam: number): number {
 }
 
 /** A plane's diffraction half-angle per axis: its hard edges (or features) and its phase. */
-function diffractionOf(a: Aperture, half: [number, number], gaussian: number | null, lam: number): { diffraction: [number, number]; diffractionEdge: boolean } {
+function diffractionOf(a: Aperture, half: [number, number], gaussian: number | null, lam: number, litHalf = Infinity): { diffraction: [number, number]; diffractionEdge: boolean } {
   const f = apertureFacts(a);
   const lens = lensOf(a);
   const phase = lens ? lens.pupilFrequency(lam) : phaseFrequencyOf(a, lam, Math.max(...half.filter(Number.isFinite), 0));
@@ -350,10 +518,26 @@ function diffractionOf(a: Aperture, half: [number, number], gaussian: number | n
   // is added to the edges' spread as an angle (divided by the edge multiple it will be scaled by).
   const diffraction = [0, 1].map((i) => {
     if (gaussian !== null) return (LIMITS.gaussianReach * lam) / (Math.PI * gaussian) + lam * phase;
-    const edge = lam / Math.min(2 * half[i]!, lens ? Infinity : f.minFeature, 2 * (f.halfExtent[i] ?? Infinity));
+    const feature = lens || f.minFeature >= 2 * litHalf ? Infinity : f.minFeature;
+    const edge = lam / Math.min(2 * half[i]!, feature, Number.isFinite(litHalf) ? Infinity : 2 * (f.halfExtent[i] ?? Infinity));
     return (Number.isFinite(edge) ? edge : 0) + (lam * phase) / HARD_EDGE_SPREAD.screen;
   }) as [number, number];
   return { diffraction, diffractionEdge: gaussian === null };
+}
+
+/**
+ * Points on the lattice of `step` through the origin covering [lo, hi], every `stride`-th so that
+ * at most `most` remain (planes joined by the angular spectrum share the lattice; the screen takes
+ * a strided part of it).
+ */
+function latticeAxis(lo: number, hi: number, step: number, most: number): Axis {
+  const span = Math.ceil(hi / step - 1e-9) - Math.floor(lo / step + 1e-9);
+  // Strided points stay on multiples of the stride, so the axis itself is among them.
+  const stride = most <= 1 ? 1 : Math.max(1, Math.ceil(span / (most - 2)));
+  const s = stride * step;
+  const m0 = Math.floor(lo / s + 1e-9);
+  const m1 = Math.ceil(hi / s - 1e-9);
+  return { n: m1 - m0 + 1, start: m0 * s, step: s };
 }
 
 function refused(base: PlanBase, why: string, reasons: string[], warnings: Warning[]): Plan {

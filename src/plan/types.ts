@@ -71,6 +71,15 @@ export interface SequenceLeg {
   paraxialPhase: number;
   /** Whether the end plane's window is narrower than its element (the light's estimate): its loss is then checked. */
   windowFromLight: boolean;
+  /**
+   * 'sum': the Fresnel integral's two matrix products onto the end's own points; 'spectrum': the
+   * angular spectrum on `grid`, an FFT grid on the lattice both ends' samples lie on (for gaps where
+   * wide light barely spreads).
+   */
+  form: 'sum' | 'spectrum';
+  grid?: [Axis, Axis];
+  /** A spectrum leg hands its field on as computed (no curvature) rather than in the sums' form. */
+  flat?: boolean;
 }
 
 export interface DetectorRequest {
