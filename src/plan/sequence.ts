@@ -74,6 +74,11 @@ interface PlaneState {
   carrier: [number, number];
   /** The region came from the light's estimate (narrower than the element): its loss is measured. */
   fromLight: boolean;
+  /**
+   * The element's edges or features lie in the light: its area-averaged cells are freed of their
+   * response (spectral.ts compensateCellResponse), on a region widened by a margin for that.
+   */
+  edges: boolean;
   focal: number | null;
 }
 
@@ -121,6 +126,7 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
       curvature: 0,
       carrier: [alpha / lam, beta / lam],
       fromLight: false,
+      edges: !smooth,
       focal: lensOf(first)?.focal ?? null,
     },
   ];
@@ -192,6 +198,7 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
       // than the light: the outline's size is not one) and phase.
       ...diffractionOf(a, fromLight && bounded ? [Infinity, Infinity] : half, null, lam, fromLight && bounded ? Math.max(...half) : Infinity),
       fromLight,
+      edges: !(fromLight && bounded) || f.minFeature < 2 * Math.max(...half),
       focal: lensOf(a)?.focal ?? null,
     });
   }
@@ -280,14 +287,17 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
   for (let j = 0; j < P; j++) {
     const p = planes[j]!;
     const onLattice = forms[j] === 'spectrum' || (j > 0 && forms[j - 1] === 'spectrum');
+    // A margin of cells for the cell response's correction to ring out in (limits.ts).
+    const margin = p.edges ? LIMITS.compensationMargin : 0;
     const axes = [0, 1].map((i) => {
       if (!onLattice) {
         // Cells that tile the region exactly: n cells of width 2R/n, centred on the region.
         const n = cells(j, i, need[j]![i]!);
-        return centredAxis(n, (2 * p.half[i]!) / n, p.centre[i]!);
+        return centredAxis(n + 2 * margin, (2 * p.half[i]!) / n, p.centre[i]!);
       }
       const step = j > 0 && forms[j - 1] === 'spectrum' ? inputs[j - 1]![i]!.step : need[j]![i]!;
-      return latticeAxis(...regionOf(j, i), step, 1);
+      const [lo, hi] = regionOf(j, i);
+      return latticeAxis(lo - margin * step, hi + margin * step, step, 1);
     });
     inputs.push([axes[0]!, axes[1]!]);
     const rule = (forms[j] === 'spectrum' ? spectrumPitch : sumPitch)[j]!.rule[0]!;
@@ -325,7 +335,7 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
       const w = spectrumLegWork(grid[0].n, grid[1].n);
       work += w;
       memory = Math.max(memory, 16 * (2 * grid[0].n * grid[1].n + input[0].n * input[1].n + output[0].n * output[1].n));
-      legs.push({ z, input, output, focal: p.focal, paraxialPhase: 0, windowFromLight: j + 1 < P ? planes[j + 1]!.fromLight : !c.window, form: 'spectrum', grid, flat: flat[j]! });
+      legs.push({ z, input, output, focal: p.focal, paraxialPhase: 0, windowFromLight: j + 1 < P ? planes[j + 1]!.fromLight : !c.window, form: 'spectrum', grid, flat: flat[j]!, cellResponse: p.edges });
       reasons.push(`${name}, ${len(z)}: the angular spectrum (exact, no paraxial approximation) on a ${grid[0].n} × ${grid[1].n} grid of ${len(grid[0].step)} holding both ends and the light's spread between (${seconds(w)}): cheaper here than the Fresnel sums, whose pitch must follow the window's reach` + lensWords);
       continue;
     }
@@ -356,7 +366,7 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
       const spot = (i: number) => (lam * p.focal!) / (2 * Math.max(p.half[i]!, 1e-300));
       paraxialPhase = along((x, y) => paraxialVariation(k, z - p.focal!, spot(0), spot(1), x, y));
     } else paraxialPhase = 0;
-    legs.push({ z, input, output, focal: p.focal, paraxialPhase, windowFromLight: j + 1 < P ? planes[j + 1]!.fromLight : !c.window, form: 'sum' });
+    legs.push({ z, input, output, focal: p.focal, paraxialPhase, windowFromLight: j + 1 < P ? planes[j + 1]!.fromLight : !c.window, form: 'sum', cellResponse: p.edges });
     if (paraxialPhase > LIMITS.paraxialPhase) warnings.push(warning('planes-paraxial', { leg: name, phase: paraxialPhase, limit: LIMITS.paraxialPhase }));
     reasons.push(`${name}, ${len(z)}: ${input[0].n} × ${input[1].n} samples summed onto ${output[0].n} × ${output[1].n} points (${seconds(w)})` + lensWords);
   }

@@ -80,6 +80,8 @@ export interface SequenceLeg {
   grid?: [Axis, Axis];
   /** A spectrum leg hands its field on as computed (no curvature) rather than in the sums' form. */
   flat?: boolean;
+  /** The start plane's element has edges in the light: its cells' response is removed first. */
+  cellResponse: boolean;
 }
 
 export interface DetectorRequest {
