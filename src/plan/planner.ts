@@ -100,7 +100,11 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   // Where the light goes, and the window that holds it.
   const model = lightModel(c.aperture, facts, ill, lam, z, aEff, obstructed);
   // Behind a lens a Gaussian beam converges to (or spreads from) its focus: its radius by the ABCD law.
-  const beamRadius = ill.kind === 'gaussian' ? (lens ? lensBeamRadius(waist, lens.focal, lam, z) : beamRadiusAt(waist, lam, z)) : undefined;
+  // An aperture narrower than the beam leaves light no wider than itself: the beam's spread is then
+  // that of a beam of the aperture's size (its edges' diffraction has the window's margins), not
+  // three radii of the wide beam it was cut from.
+  const spreadWaist = Math.min(waist, Math.max(aEff[0], aEff[1]));
+  const beamRadius = ill.kind === 'gaussian' ? (lens ? lensBeamRadius(waist, lens.focal, lam, z) : beamRadiusAt(spreadWaist, lam, z)) : undefined;
   const winInputs = {
     lam,
     z,
