@@ -251,16 +251,18 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
       const spectrumStep = [0, 1].map((i) => Math.min(spectrumPitch[j]!.pitch[i]!, j + 1 < P ? need[j + 1]![i]! : Infinity)) as [number, number];
       const sumWork = legCost(j, 'sum', sumStep);
       const spectrumWork = legCost(j, 'spectrum', spectrumStep) + refineCost(j + 1, spectrumStep);
-      forms[j] = spectrumWork < sumWork ? 'spectrum' : 'sum';
+      // (A leg already handing its field on flat stays a spectrum leg: the planes after it were
+      // planned for that field.)
+      forms[j] = flat[j] || spectrumWork < sumWork ? 'spectrum' : 'sum';
       need[j] = forms[j] === 'spectrum' ? spectrumStep : sumStep;
     }
   };
+  const flat: boolean[] = new Array(P).fill(false);
   decide();
   // A spectrum leg may hand its field on as it computed it (no curvature, its carrier, the light's
   // own detail) instead of in the sums' form (curvature 1/(λz), detail R/(λz) for light from a
   // region of half width R): where the light stayed wide that is far smoother (a collimated beam
   // through several planes). Each such choice changes the planes after it, so decide again.
-  const flat: boolean[] = new Array(P).fill(false);
   for (let round = 0; round < P; round++) {
     let changed = false;
     for (let j = 0; j + 1 < P; j++) {
