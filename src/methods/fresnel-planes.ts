@@ -9,6 +9,7 @@ import type { Axis, Field } from '../optics/field.js';
 import { passedPower, propagateLeg, propagateLegSpectrum, type PlaneCells, type Wave } from '../optics/sequence.js';
 import { envelope } from '../optics/source.js';
 import { compensateCellResponse } from '../optics/spectral.js';
+import type { Engine } from '../optics/engine.js';
 import type { MethodDescriptor, PlanePower } from './types.js';
 import { paraxialValidity } from './validity.js';
 
@@ -43,7 +44,7 @@ export const fresnelPlanes: MethodDescriptor = {
       // The cells are area averages (the element's exact transmission over each cell): what the sums
       // and the spectrum see is the element blurred by one cell, so that is undone as the other
       // sampled forms undo it (a few percent at the edges' wider angles otherwise).
-      if (leg.cellResponse) compensateCellResponse(run.engine, { data: cells.t, nx: wave.x.n, ny: wave.y.n, dx: wave.x.step, dy: wave.y.step, x0: wave.x.start, y0: wave.y.start, wavelength: lam });
+      if (leg.cellResponse) removeCellResponse(run.engine, cells.t, wave.x, wave.y, lam);
       const arriving = passedPower(wave, null);
       passed = passedPower(wave, cells);
       planes.push({ plane: j + 1, arriving, passed, sampledFromLight: j > 0 && legs[j - 1]!.windowFromLight });
@@ -65,4 +66,25 @@ function planeCells(a: Aperture, xa: Axis, ya: Axis, lam: number): PlaneCells {
   const t = new Float64Array(2 * m.length);
   for (let i = 0; i < m.length; i++) t[2 * i] = m[i]!;
   return { t, weight: m };
+}
+
+/**
+ * compensateCellResponse on an element's cells, about the value the region's border holds: an
+ * obstacle's region is open at its border (t = 1 there), and correcting t itself would treat the
+ * region's edge, where the grid's zero padding begins, as an edge of the element; so t − 1 is
+ * corrected and 1 added back.
+ */
+function removeCellResponse(engine: Engine, t: Float64Array, xa: Axis, ya: Axis, lam: number): void {
+  const nx = xa.n;
+  const ny = ya.n;
+  let open = true;
+  for (let q = 0; q < nx && open; q++) open = isOne(t, q) && isOne(t, (ny - 1) * nx + q);
+  for (let r = 0; r < ny && open; r++) open = isOne(t, r * nx) && isOne(t, r * nx + nx - 1);
+  if (open) for (let i = 0; i < nx * ny; i++) t[2 * i] = t[2 * i]! - 1;
+  compensateCellResponse(engine, { data: t, nx, ny, dx: xa.step, dy: ya.step, x0: xa.start, y0: ya.start, wavelength: lam });
+  if (open) for (let i = 0; i < nx * ny; i++) t[2 * i] = t[2 * i]! + 1;
+}
+
+function isOne(t: Float64Array, i: number): boolean {
+  return Math.abs(t[2 * i]! - 1) < 1e-12 && Math.abs(t[2 * i + 1]!) < 1e-12;
 }

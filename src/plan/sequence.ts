@@ -251,38 +251,41 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
       const spectrumStep = [0, 1].map((i) => Math.min(spectrumPitch[j]!.pitch[i]!, j + 1 < P ? need[j + 1]![i]! : Infinity)) as [number, number];
       const sumWork = legCost(j, 'sum', sumStep);
       const spectrumWork = legCost(j, 'spectrum', spectrumStep) + refineCost(j + 1, spectrumStep);
-      // (A leg already handing its field on flat stays a spectrum leg: the planes after it were
-      // planned for that field.)
-      forms[j] = flat[j] || spectrumWork < sumWork ? 'spectrum' : 'sum';
+      forms[j] = spectrumWork < sumWork ? 'spectrum' : 'sum';
       need[j] = forms[j] === 'spectrum' ? spectrumStep : sumStep;
     }
   };
-  const flat: boolean[] = new Array(P).fill(false);
-  decide();
   // A spectrum leg may hand its field on as it computed it (no curvature, its carrier, the light's
   // own detail) instead of in the sums' form (curvature 1/(λz), detail R/(λz) for light from a
-  // region of half width R): where the light stayed wide that is far smoother (a collimated beam
-  // through several planes). Each such choice changes the planes after it, so decide again.
-  for (let round = 0; round < P; round++) {
-    let changed = false;
+  // region of half width R): where the light stays wide that is far smoother (a collimated beam
+  // through several planes). Every leg where that is smoother is first taken so, which only a
+  // spectrum leg can do; a leg then decided as a sum hands its field on in the sums' form after
+  // all, and the forms are decided again with the planes after it as they then are.
+  const analytic = planes.map((p) => ({ band: p.band, curvature: p.curvature, carrier: p.carrier }));
+  const flat: boolean[] = new Array(P).fill(false);
+  const applyFlat = (choose: boolean) => {
+    for (let j = 0; j < P; j++) Object.assign(planes[j]!, analytic[j]!);
     for (let j = 0; j + 1 < P; j++) {
-      if (forms[j] !== 'spectrum' || flat[j]) continue;
       const p = planes[j]!;
       const q = planes[j + 1]!;
       const cT = p.curvature - (p.focal === null ? 0 : 1 / (lam * p.focal));
       const detail = [0, 1].map((i) => spectrumContent(j, i, cT, false));
-      if (detail.every((d, i) => d < q.band[i]! + Math.abs(q.curvature) * q.half[i]!)) {
-        flat[j] = true;
-        changed = true;
-        q.band = [detail[0]!, detail[1]!];
-        q.curvature = 0;
-        q.carrier = [p.carrier[0] + cT * p.centre[0], p.carrier[1] + cT * p.centre[1]];
-      }
+      if (choose) flat[j] = detail.every((d, i) => d < q.band[i]! + Math.abs(q.curvature) * q.half[i]!);
+      if (!flat[j]) continue;
+      q.band = [detail[0]!, detail[1]!];
+      q.curvature = 0;
+      q.carrier = [p.carrier[0] + cT * p.centre[0], p.carrier[1] + cT * p.centre[1]];
     }
-    if (!changed) break;
+  };
+  applyFlat(true);
+  for (let round = 0; round <= P; round++) {
     sumPitch = planes.map((_, j) => sumPitchOf(j));
     spectrumPitch = planes.map((_, j) => spectrumPitchOf(j));
     decide();
+    const wrong = flat.map((f, j) => f && forms[j] === 'sum');
+    if (!wrong.some(Boolean)) break;
+    wrong.forEach((w, j) => w && (flat[j] = false));
+    applyFlat(false);
   }
   const inputs: [Axis, Axis][] = [];
   const rules: string[] = [];
@@ -400,9 +403,13 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
     const cT = p.curvature - (p.focal === null ? 0 : 1 / (lam * p.focal));
     const res = [0, 1].map((i) => {
       const content = spectrumContent(j, i, cT);
+      // The screen: SCREEN_OVERSAMPLING samples per period of the intensity's frequencies (twice the
+      // light's) for the light's spread, and at least the intensity's Nyquist rate for the edges'
+      // waves meeting behind the element (a narrow bright spot needs no finer picture than that).
+      const spread = toScreen ? spectrumContent(j, i, cT, true, false) : content;
       const per = toScreen ? 2 * SCREEN_OVERSAMPLING : LEG_OVERSAMPLING;
-      let pitch = 1 / (per * content);
-      let rule = `${per}× the highest frequency of the light (${fmt(content / 1e3, 3)} /mm: its detail, the residual curvature and the edges' spread)`;
+      let pitch = toScreen ? Math.min(1 / (per * spread), 1 / (4 * content)) : 1 / (per * content);
+      let rule = `${per}× the highest frequency of the light (${fmt(content / 1e3, 3)} /mm: its detail, the residual curvature and the edges' spread${toScreen && spread < content ? '; 4× the edges\' waves behind the element' : ''})`;
       if (toScreen) {
         const display = (2 * screenWindow.half[i]!) / (LIMITS.minOutput2D - 1);
         if (display < pitch) {
@@ -415,10 +422,15 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
     return { pitch: [res[0]!.pitch, res[1]!.pitch], rule: [res[0]!.rule, res[1]!.rule], nyquist: [res[0]!.nyquist, res[1]!.nyquist] };
   }
 
-  function spectrumContent(j: number, i: number, cT: number, toScreen = j === P - 1): number {
+  function spectrumContent(j: number, i: number, cT: number, toScreen = j === P - 1, behind = true): number {
     const p = planes[j]!;
     const multiple = toScreen ? HARD_EDGE_SPREAD.screen : HARD_EDGE_SPREAD.plane;
-    return p.band[i]! + phaseOf(j) + Math.abs(cT) * p.half[i]! + (p.diffractionEdge ? (multiple * p.diffraction[i]!) / lam : 0);
+    // Edges: the spread that holds all but the loss target of their light, and, close behind, the
+    // frequency at which an edge's wave reaches the far side of the element's own shadow, 2E/(λz)
+    // (in the near field the whole rim's waves meet on the axis in phase: the Fresnel zones'
+    // swings and the bright spot behind a disc are carried by them, however little power that is).
+    const reachBack = p.edges && behind ? (2 * Math.min(p.half[i]!, apertureFacts(p.aperture).halfExtent[i]!)) / (lam * gaps[j]!) : 0;
+    return p.band[i]! + phaseOf(j) + Math.abs(cT) * p.half[i]! + (p.diffractionEdge ? Math.max((multiple * p.diffraction[i]!) / lam, reachBack) : 0);
   }
 
   /** How far the light's highest frequency carries it across gap j (the spectrum grid's margin against wrap-around). */
