@@ -24,12 +24,13 @@ import { SIZE, plainNumber, quantity, sweepLength, MAX_SWEEP_COUNT, type SweepVa
 import { formatLength } from '../job/units.js';
 import { decodeGreyPng, imagePathSchema, MAX_IMAGE_BYTES } from '../job/grey-png.js';
 import { safeEcho } from '../safe-text.js';
-import type { Axis } from '../optics/field.js';
+import { axisAt, type Axis } from '../optics/field.js';
+import { discCellAverage } from '../optics/disc-rim-cells.js';
 import type { ApertureFacts } from '../optics/geometry.js';
 import { sizeWords } from '../optics/geometry.js';
 import { sampleMask2D } from '../optics/mask.js';
 import { lensCellAverages, lensLocalFrequency } from '../optics/thin-lens.js';
-import { pupilCellAverages, wavefrontRms, wavefrontSlopeMax, type ZernikeTerm } from '../optics/zernike.js';
+import { cellRuleFor, pupilCellAverages, wavefrontRms, wavefrontSlopeMax, zernikeSum, type ZernikeTerm } from '../optics/zernike.js';
 import { mapPupilCellAverages, mapSlopeMax, mapWavefrontRms, prepareWavefrontMap, type PreparedWavefrontMap, type WavefrontMapStats } from '../optics/wavefront-map.js';
 import type { CellTransmittance, ElementKind, Focusing } from './types.js';
 
@@ -201,21 +202,60 @@ function pupil(s: Lens, xa: Axis, ya: Axis, wavelength: number): CellTransmittan
  * The lens's cell averages (exact, Fresnel integrals: thin-lens.ts) times the pupil's. The product
  * of two cell averages is the average of the product up to the covariance of the two factors within
  * a cell, second order in the phase steps per cell, which the pitch rule (phaseFrequency) keeps small.
+ *
+ * Rim cells (the stop's open fraction q strictly between 0 and 1) are averaged over their open part
+ * only (optics/disc-rim-cells.ts): over the whole cell the lens's mean would be off by
+ * q(1−q)·(mean over the open part − mean over the closed part), first order in the phase step per
+ * cell, and behind a lens the rim's light is no small part of the field away from the focus (half
+ * of it on the axis of a defocused stop). With Zernike terms only, the lens's phase and the
+ * wavefront error are averaged together; with a wavefront map (whose rim cells are averaged over
+ * their nodes inside the stop, wavefront-map.ts) the lens's open-part mean multiplies the map's.
  */
 function transmittance(s: Lens, xa: Axis, ya: Axis, wavelength: number): CellTransmittance {
   const p = pupil(s, xa, ya, wavelength);
   const lens = lensCellAverages(s.focal, wavelength, null, xa, ya);
   const t = p.t;
+  const rim = s.stop === null ? null : rimCells(s, xa, ya, wavelength);
   for (let i = 0; i < p.weight.length; i++) {
     const ar = t[2 * i]!;
     const ai = t[2 * i + 1]!;
     if (ar === 0 && ai === 0) continue;
+    const q = p.weight[i]!;
+    if (rim && q > 0 && q < 1) {
+      const [cr, ci] = rim(i % xa.n, Math.floor(i / xa.n));
+      if (rim.withPupil) {
+        t[2 * i] = cr;
+        t[2 * i + 1] = ci;
+      } else {
+        // The map's rim value (q × its mean over the open part) times the lens's mean there.
+        t[2 * i] = (ar * cr - ai * ci) / q;
+        t[2 * i + 1] = (ar * ci + ai * cr) / q;
+      }
+      continue;
+    }
     const br = lens[2 * i]!;
     const bi = lens[2 * i + 1]!;
     t[2 * i] = ar * br - ai * bi;
     t[2 * i + 1] = ar * bi + ai * br;
   }
   return { t, weight: p.weight };
+}
+
+/**
+ * A rim cell's mean over the open part of the cell (times its area: the open fraction is in it) of
+ * the lens's phase −π(x² + y²)/(λf), plus 2πW of the Zernike terms when there is no wavefront map
+ * (withPupil true); with a map, of the lens's phase alone.
+ */
+function rimCells(s: Lens, xa: Axis, ya: Axis, wavelength: number): ((c: number, r: number) => [number, number]) & { withPupil: boolean } {
+  const radius = s.stop! / 2;
+  const k = -Math.PI / (wavelength * s.focal);
+  const withPupil = !mapOf(s);
+  const w = withPupil ? zernikeSum(lensWaves(s, wavelength), radius) : null;
+  const phase = w ? (x: number, y: number) => k * (x * x + y * y) + 2 * Math.PI * w(x, y) : (x: number, y: number) => k * (x * x + y * y);
+  const frequency = lensLocalFrequency(s.focal, wavelength, radius) + (withPupil ? wavefrontSlopeMax(lensWaves(s, wavelength), radius) : 0);
+  const rule = cellRuleFor(Math.PI * frequency * Math.max(Math.abs(xa.step), Math.abs(ya.step)));
+  const at = (c: number, r: number) => discCellAverage(phase, radius, axisAt(xa, c), axisAt(ya, r), xa.step, ya.step, rule);
+  return Object.assign(at, { withPupil });
 }
 
 function pupilFrequency(s: Lens, wavelength: number): number {

@@ -7,9 +7,9 @@ import type { UseCheckInputs } from './types.js';
 
 /** Any Fresnel form where the paraxial approximation is off where the light lands. */
 export function paraxialUseWarning({ checks, g, options }: UseCheckInputs): Warning | null {
-  if (!(checks.paraxialPhaseError > (g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase))) return null;
+  if (!(checks.paraxialPhaseError > (g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialWeightedPhase))) return null;
   const at = checks.paraxialWorst!;
-  return warning('paraxial', { at: [at.at[0], g.oneD ? null : at.at[1]], phase: at.phase, weight: at.weight, weighted: checks.paraxialPhaseError, limit: g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase, goodmanRatio: checks.goodmanRatio, instead: advisable(options, 'fresnel')?.method ?? null });
+  return warning('paraxial', { at: [at.at[0], g.oneD ? null : at.at[1]], phase: at.phase, weight: at.weight, weighted: checks.paraxialPhaseError, limit: g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialWeightedPhase, goodmanRatio: checks.goodmanRatio, instead: advisable(options, 'fresnel')?.method ?? null });
 }
 
 /** The far-field formula short of the far field. */

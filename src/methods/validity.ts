@@ -40,7 +40,7 @@ export function paraxialValidity(v: ValidityInputs): Validity {
   if (v.lens) return lensParaxialValidity(v.lens);
   const g = v.g;
   const paraxial = v.paraxial;
-  const paraxialLimit = g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialPhase;
+  const paraxialLimit = g.babinet ? LIMITS.paraxialPhaseBabinet : LIMITS.paraxialWeightedPhase;
   const parOk = v.paraxialError <= paraxialLimit;
   const where = `at (${len(paraxial.at[0])}${g.oneD ? '' : `, ${len(paraxial.at[1])}`}) it drops ${fmt(paraxial.phase, 2)} rad of phase across the aperture where the light is ${pct(paraxial.weight)} of the peak (weighted ${fmt(v.paraxialError, 2)} rad, limit ${paraxialLimit} rad${g.babinet ? ': behind an obstacle the diffracted light interferes with the free beam, so its error shows linearly' : ''})`;
   return {

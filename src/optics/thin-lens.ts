@@ -9,9 +9,11 @@
 // well-kept routine covers the whole axis; against quadrature its values are good to a few 1e-16
 // where the phase πt²/2 is small, and beyond that to the rounding of the phase itself.
 import fresnel from '@stdlib/math-base-special-fresnel';
+import { discCellAverage } from './disc-rim-cells.js';
 import { gaussLegendreRule } from './edge-cells.js';
 import { axisAt, type Axis } from './field.js';
 import { sampleMask2D } from './mask.js';
+import { cellRuleFor } from './zernike.js';
 
 function checkLens(f: number, wavelength: number, who: string): void {
   if (!Number.isFinite(f) || f === 0) throw new Error(`${who}: the focal length must be a finite non-zero length (got ${f})`);
@@ -97,11 +99,11 @@ export function lensAxisAverages(f: number, wavelength: number, axis: Axis): Flo
  * averages — exact, since t(x, y) = t(x)·t(y) and a cell is a product of intervals — times the
  * stop's exact open fraction per cell when a stop of diameter `stop` is given (mask.ts).
  *
- * Away from the rim the fraction is 0 or 1 and the result is exact. At a rim cell it is the lens'
- * average over the whole cell times the open fraction q; the exact average over the open part
- * differs by q(1−q)·(mean of t over the open part − mean over the closed part), so by at most
- * q(1−q) times the lens' phase range across the cell (≤ ¼ of it): first order in the phase step
- * per cell, which sampling the lens at several samples per local period keeps small.
+ * Away from the rim the fraction is 0 or 1 and the result is exact. A rim cell (0 < q < 1) takes
+ * the mean of t over the open part of the cell only, times q (disc-rim-cells.ts): the lens' average
+ * over the whole cell times q would be off by q(1−q)·(mean of t over the open part − mean over the
+ * closed part), first order in the phase step per cell, and the rim's light is half the field on
+ * the axis of a defocused stop.
  */
 export function lensCellAverages(f: number, wavelength: number, stop: number | null, xa: Axis, ya: Axis, out?: Float64Array): Float64Array {
   checkLens(f, wavelength, 'lensCellAverages');
@@ -112,6 +114,9 @@ export function lensCellAverages(f: number, wavelength: number, stop: number | n
   const ax = lensAxisAverages(f, wavelength, xa);
   const ay = lensAxisAverages(f, wavelength, ya);
   const open = stop === null ? null : sampleMask2D({ shape: 'circle', diameter: stop, opaque: false }, xa, ya);
+  const k = -Math.PI / (wavelength * f);
+  const lensPhase = (x: number, y: number) => k * (x * x + y * y);
+  const rule = stop === null ? null : cellRuleFor(Math.PI * lensLocalFrequency(f, wavelength, stop / 2) * Math.max(Math.abs(xa.step), Math.abs(ya.step)));
   for (let r = 0; r < ya.n; r++) {
     const yr = ay[2 * r]!;
     const yi = ay[2 * r + 1]!;
@@ -122,6 +127,12 @@ export function lensCellAverages(f: number, wavelength: number, stop: number | n
         // A plain 0, not the −0 a negative product would give.
         res[2 * i] = 0;
         res[2 * i + 1] = 0;
+        continue;
+      }
+      if (q < 1) {
+        const [re, im] = discCellAverage(lensPhase, stop! / 2, axisAt(xa, c), axisAt(ya, r), xa.step, ya.step, rule!);
+        res[2 * i] = re;
+        res[2 * i + 1] = im;
         continue;
       }
       const xr = ax[2 * c]!;

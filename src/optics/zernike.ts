@@ -8,6 +8,7 @@
 // so that the mean of Z_j·Z_k over the unit disc is δ_jk: a term's coefficient is its RMS.
 // W is an optical path error in waves; the pupil multiplies the field by exp(+i2πW) (a positive W
 // is a longer path, a phase delay under the program's e^{i(kz − ωt)} convention).
+import { discCellAverage } from './disc-rim-cells.js';
 import { gaussLegendreRule } from './edge-cells.js';
 import { axisAt, type Axis } from './field.js';
 import { sampleMask2D } from './mask.js';
@@ -264,10 +265,11 @@ export function cellRuleFor(omega: number): { panels: number; nodes: number } {
  * panels of 8 × 8 nodes. The bound G can exceed the true slope (terms added by the triangle
  * inequality), which only adds nodes.
  *
- * Rim cells: the average of the smooth continuation of exp(i2πW) over the whole cell, times the
- * disc's exact open fraction (mask.ts). The exact average over the open part differs from this by
- * q(1−q)·(mean over the open part − mean over the closed part), q the open fraction, so by at most
- * q(1−q) times the phase range across the cell (≤ ¼ of it): first order in the phase step per cell.
+ * Rim cells (0 < q < 1, q the disc's exact open fraction from mask.ts): the mean of exp(i2πW) over
+ * the open part of the cell only (disc-rim-cells.ts), times q. Averaging the smooth continuation over
+ * the whole cell instead would be off by q(1−q)·(mean over the open part − mean over the closed
+ * part), first order in the phase step per cell, and behind a strongly aberrated pupil the rim's
+ * light is no small part of the field.
  */
 export function pupilCellAverages(terms: readonly ZernikeTerm[], radius: number, xa: Axis, ya: Axis, out?: Float64Array): Float64Array {
   checkRadius(radius, 'pupilCellAverages');
@@ -300,7 +302,14 @@ export function pupilCellAverages(terms: readonly ZernikeTerm[], radius: number,
       let re = 0;
       let im = 0;
       if (prepared.length === 0) re = 1;
-      else {
+      else if (q < 1) {
+        const [ar, ai] = discCellAverage((x, y) => 2 * Math.PI * waveAt(prepared, radius, x, y), radius, xc, yc, xa.step, ya.step, { panels, nodes });
+        // discCellAverage is already over the cell's whole area (it carries q).
+        const at = 2 * (r * xa.n + c);
+        res[at] = ar;
+        res[at + 1] = ai;
+        continue;
+      } else {
         for (let a = 0; a < m; a++) {
           const y = yc + off[a]! * ya.step;
           let rowRe = 0;
