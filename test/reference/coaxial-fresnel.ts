@@ -40,6 +40,8 @@ export interface CoaxialSystem {
   planes: CoaxialPlane[];
   /** gaps[k]: from plane k to plane k+1; the last one from the last plane to the screen. */
   gaps: number[];
+  /** Panels per period of the fastest phase (default 1): more, to check the reference converged. */
+  oversample?: number;
 }
 
 interface Sampled {
@@ -74,7 +76,8 @@ function panelScale(s: CoaxialSystem, k: number, rMax: number): (rho: number) =>
   const R = reach(s, k);
   // At most one period per panel, at most a sixteenth of the radius, and a Gaussian's half waist.
   const cap = Math.min(R / 16, k === 0 && Number.isFinite(s.w) ? s.w / 2 : Infinity);
-  return (rho) => Math.min(cap, 1 / nu(rho));
+  const o = s.oversample ?? 1;
+  return (rho) => Math.min(cap, 1 / nu(rho)) / o;
 }
 
 /** Nodes over plane k (values unset). */
@@ -146,14 +149,34 @@ export function coaxialCost(s: CoaxialSystem, rMax: number, screenPoints: number
   return cost + prevNodes * screenPoints;
 }
 
+/** Power ∫|U|² 2πρ dρ over a plane's nodes. */
+function power(u: Sampled): number {
+  let p = 0;
+  for (let j = 0; j < u.rho.length; j++) p += 2 * Math.PI * u.wt[j]! * (u.re[j]! ** 2 + u.im[j]! ** 2);
+  return p;
+}
+
 /** The complex field at the screen at each radius in `radii` (amplitude 1 on the lit axis). */
 export function fieldAtScreen(s: CoaxialSystem, radii: readonly number[]): [number, number][] {
+  return carry(s, radii).screen;
+}
+
+/**
+ * The power each plane passes (∫|U|² over its opening; the first plane's is the illumination's
+ * inside it): passed[k]/passed[k−1] is plane k's transmission of the light that reaches it.
+ */
+export function passedPowers(s: CoaxialSystem): number[] {
+  return carry(s, []).passed;
+}
+
+function carry(s: CoaxialSystem, radii: readonly number[]): { screen: [number, number][]; passed: number[] } {
   const n = s.planes.length;
   if (s.gaps.length !== n) throw new Error('one gap per plane: the last is to the screen');
   const rMax = Math.max(0, ...radii);
   let u = nodes(s, 0, n > 1 ? s.planes[1]!.radius : rMax);
   for (let j = 0; j < u.rho.length; j++) u.re[j] = Number.isFinite(s.w) ? Math.exp(-((u.rho[j]! / s.w) ** 2)) : 1;
   applyLens(s, 0, u);
+  const passed = [power(u)];
   for (let k = 1; k < n; k++) {
     const next = nodes(s, k, k + 1 < n ? s.planes[k + 1]!.radius : rMax);
     for (let j = 0; j < next.rho.length; j++) {
@@ -162,9 +185,10 @@ export function fieldAtScreen(s: CoaxialSystem, radii: readonly number[]): [numb
       next.im[j] = im;
     }
     applyLens(s, k, next);
+    passed.push(power(next));
     u = next;
   }
-  return radii.map((r) => propagateTo(u, s.lam, s.gaps[n - 1]!, r));
+  return { screen: radii.map((r) => propagateTo(u, s.lam, s.gaps[n - 1]!, r)), passed };
 }
 
 /** |U|² at the screen at each radius. */
