@@ -36,6 +36,29 @@ export function nextPowerOfTwo(n: number): number {
   return p;
 }
 
+/**
+ * Sizes the fast kernels (fft-fast.ts) transform: n ≥ 2 with no prime factor but 2, 3 and 5
+ * ("5-smooth"). Powers of two run as radix-4 (and one radix-2) stages, the factors 3 and 5 as
+ * radix-3 and radix-5 stages after them.
+ */
+export function isFastFftSize(n: number): boolean {
+  if (!Number.isInteger(n) || n < 2) return false;
+  let m = n;
+  for (const p of [2, 3, 5]) while (m % p === 0) m /= p;
+  return m === 1;
+}
+
+/**
+ * The smallest size the fast kernels transform that is at least m (the next 5-smooth number, the
+ * "next fast length" general FFT libraries offer): between two powers of two there are several
+ * (1080 = 2³·3³·5, 1125 = 3²·5³, 1152, 1200, …), so a grid need not double to get room.
+ */
+export function nextFastFftSize(m: number): number {
+  let n = Math.max(2, Math.ceil(m));
+  while (!isFastFftSize(n)) n++;
+  return n;
+}
+
 /** The same transform by fft.js, row by row then column by column: the reference for the fast kernels. */
 export function fft2Reference(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
   if (!isPowerOfTwo(nx) || (ny !== 1 && !isPowerOfTwo(ny))) {
