@@ -20,7 +20,7 @@
 // missing wings still show (up to 1 − η); `resolvedFrom` says where that ends. A window holding less
 // than 99.5 % of the power marks the result approximate all the same.
 import type { Engine } from '../optics/engine.js';
-import { nextPowerOfTwo } from '../optics/fft.js';
+import { nextFastFftSize } from '../optics/fft.js';
 import { isOneD } from '../model/grid.js';
 import type { IntensityMap } from '../model/intensity-map.js';
 
@@ -141,12 +141,9 @@ export function mtfOf(map: IntensityMap, pupil: MtfPupil, fft: MtfTransform): Mt
   const nby = Math.ceil(ny / by);
   // Padded transform sizes: the binned map fits (no wrap), and at least MIN_SAMPLES_TO_CUTOFF steps
   // to the reference frequency (zero-padding interpolates the continuous transform of the window).
-  const side = (n: number, d: number) => {
-    let m = nextPowerOfTwo(n);
-    const wanted = nextPowerOfTwo(Math.ceil(MIN_SAMPLES_TO_CUTOFF / (cutoff * d)));
-    while (m < wanted && m < MAX_PADDED) m *= 2;
-    return m;
-  };
+  // Any FFT size: the cheapest at least both (the wanted steps no more than MAX_PADDED asks).
+  const side = (n: number, d: number) =>
+    nextFastFftSize(Math.max(n, Math.min(MAX_PADDED, Math.ceil(MIN_SAMPLES_TO_CUTOFF / (cutoff * d)))));
   const mx = side(nbx, bx * dx);
   const my = side(nby, by * dy);
   const data = fft.allocate(2 * mx * my);

@@ -59,6 +59,14 @@ export function nextFastFftSize(m: number): number {
   return n;
 }
 
+/**
+ * The smallest even size the fast kernels transform that is at least m: for an algorithm that
+ * swaps the halves of each axis (the single-FFT form puts x = 0 on index n/2 and back).
+ */
+export function nextEvenFastFftSize(m: number): number {
+  return 2 * nextFastFftSize(Math.ceil(m / 2));
+}
+
 /** The same transform by fft.js, row by row then column by column: the reference for the fast kernels. */
 export function fft2Reference(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
   if (!isPowerOfTwo(nx) || (ny !== 1 && !isPowerOfTwo(ny))) {

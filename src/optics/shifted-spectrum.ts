@@ -50,7 +50,7 @@
 // Pure: typed arrays in and out, no I/O, no module state.
 import { erfc } from './special.js';
 import type { Engine } from './engine.js';
-import { binFrequency, nextPowerOfTwo } from './fft.js';
+import { binFrequency, nextFastFftSize } from './fft.js';
 import { isOneD, type Field } from './field.js';
 import { propagationPhase } from './phase.js';
 import { bandLimitFrequency, cellResponse, toSpectrum, type SourceSpectrum } from './spectral.js';
@@ -615,7 +615,7 @@ export function shiftedGridFor(req: ShiftedGridRequest): ShiftedGrid {
     }
     if (!(p > 0 && Number.isFinite(p))) throw new Error(`shiftedGridFor: no finite pitch along ${i === 0 ? 'x' : 'y'} (give maxPitch)`);
     pitch[i] = p;
-    samples[i] = Math.min(maxN, nextPowerOfTwo(Math.ceil((2 * (reach[i]! + 2 * kappa * rho[i]!)) / p)));
+    samples[i] = Math.min(maxN, nextFastFftSize(Math.ceil((2 * (reach[i]! + 2 * kappa * rho[i]!)) / p)));
   }
   // Per axis, the landing taper's least and largest fraction (zone κρ; gap κρ), and the band's.
   const half = (i: number) => (samples[i]! * pitch[i]!) / 2;

@@ -33,7 +33,7 @@
 // blocks of rows; rows of the source that are all zero are skipped, and columns of the transform
 // that no table entry needs are never transformed.
 import { axisAt, createField, isOneD, type Axis, type Field } from './field.js';
-import { nextPowerOfTwo } from './fft.js';
+import { nextFastFftSize } from './fft.js';
 import type { Engine } from './engine.js';
 import { cellResponse } from './spectral.js';
 import { applyFarFieldFactor } from './direct.js';
@@ -172,9 +172,10 @@ export function planAxis(n: number, pitch: number, lo: number, hi: number, order
     const step = targetStep;
     const start = lo - edge * step;
     const count = Math.ceil((hi - lo) / step) + 2 * edge + 1;
-    return { mode, n, pitch, start, step, count, size: nextPowerOfTwo(n + count - 1), first: 0 };
+    return { mode, n, pitch, start, step, count, size: nextFastFftSize(n + count - 1), first: 0 };
   }
-  const size = nextPowerOfTwo(Math.max(n, Math.ceil(1 / (pitch * targetStep))));
+  // Any FFT size: entries are bins (first + k) mod size, at most targetStep apart.
+  const size = nextFastFftSize(Math.max(n, Math.ceil(1 / (pitch * targetStep))));
   const step = 1 / (size * pitch);
   const first = Math.floor(lo / step) - edge;
   const last = Math.ceil(hi / step) + edge;
