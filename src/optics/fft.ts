@@ -54,9 +54,19 @@ export function isFastFftSize(n: number): boolean {
  * (1080 = 2³·3³·5, 1125 = 3²·5³, 1152, 1200, …), so a grid need not double to get room.
  */
 export function nextFastFftSize(m: number): number {
-  let n = Math.max(2, Math.ceil(m));
-  while (!isFastFftSize(n)) n++;
-  return n;
+  const target = Math.max(2, Math.ceil(m));
+  if (!Number.isFinite(target)) return target;
+  // Every 3^b·5^c up to the target, each times the least power of two that reaches it: O(log² m)
+  // products, so that sizes no array holds (which the planner refuses by their count) come promptly.
+  let best = Infinity;
+  for (let f5 = 1; f5 < 2 * target; f5 *= 5) {
+    for (let f35 = f5; f35 < 2 * target; f35 *= 3) {
+      let n = f35;
+      while (n < target) n *= 2;
+      if (n < best) best = n;
+    }
+  }
+  return best;
 }
 
 /**

@@ -4,7 +4,7 @@
 // size rules of src/optics/fft.ts against a brute-force factorisation. Powers of two are checked
 // against fft.js in fft-fast.test.ts.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { isFastFftSize, nextFastFftSize } from '../../src/optics/fft.js';
+import { isFastFftSize, nextEvenFastFftSize, nextFastFftSize } from '../../src/optics/fft.js';
 import { directDft } from '../reference/dft.js';
 import { createKernel } from '../../src/kernels.js';
 import {
@@ -107,7 +107,17 @@ describe('size rules', () => {
       const n = nextFastFftSize(m);
       expect(isFastFftSize(n) && n >= m, `m = ${m}`).toBe(true);
       for (let j = Math.max(2, m); j < n; j++) expect(isFastFftSize(j), `${j} between ${m} and ${n}`).toBe(false);
+      const e = nextEvenFastFftSize(m);
+      expect(isFastFftSize(e) && e % 2 === 0 && e >= m, `even, m = ${m}`).toBe(true);
+      for (let j = Math.max(4, m); j < e; j += 1) if (j % 2 === 0) expect(isFastFftSize(j), `even ${j} between ${m} and ${e}`).toBe(false);
     }
+  });
+
+  it('nextFastFftSize answers promptly for sizes no array holds (the planner then refuses them by their count)', () => {
+    // 2^60 itself is 5-smooth; above 2^53 the doubles are all even, so this is just "no hang".
+    expect(nextFastFftSize(2 ** 60)).toBe(2 ** 60);
+    expect(nextFastFftSize(1e22)).toBeGreaterThanOrEqual(1e22);
+    expect(nextFastFftSize(1e22)).toBeLessThan(1.1e22);
   });
 });
 
