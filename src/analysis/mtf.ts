@@ -30,7 +30,7 @@ export const MTF_WINDOW_FRACTION = 0.995;
 const MIN_SAMPLES_TO_CUTOFF = 100;
 /** Blocks are summed up to this fraction of the size at which aliases would reach the band's top. */
 const BLOCK_MARGIN = 0.8;
-/** The padded transform's side is at most this (or the map's own power of two, if larger): 64 MB. */
+/** The padded transform's side is at most this (or the map's own FFT size, if larger): 64 MB. */
 const MAX_PADDED = 2048;
 
 /** What the MTF needs to know of the pupil besides the PSF. */
