@@ -20,7 +20,7 @@
 // missing wings still show (up to 1 − η); `resolvedFrom` says where that ends. A window holding less
 // than 99.5 % of the power marks the result approximate all the same.
 import type { Engine } from '../optics/engine.js';
-import { nextFastFftSize } from '../optics/fft.js';
+import { nextPowerOfTwo } from '../optics/fft.js';
 import { isOneD } from '../model/grid.js';
 import type { IntensityMap } from '../model/intensity-map.js';
 
@@ -30,7 +30,7 @@ export const MTF_WINDOW_FRACTION = 0.995;
 const MIN_SAMPLES_TO_CUTOFF = 100;
 /** Blocks are summed up to this fraction of the size at which aliases would reach the band's top. */
 const BLOCK_MARGIN = 0.8;
-/** The padded transform's side is at most this (or the map's own FFT size, if larger): 64 MB. */
+/** The padded transform's side is at most this (or the map's own power of two, if larger): 64 MB. */
 const MAX_PADDED = 2048;
 
 /** What the MTF needs to know of the pupil besides the PSF. */
@@ -141,9 +141,15 @@ export function mtfOf(map: IntensityMap, pupil: MtfPupil, fft: MtfTransform): Mt
   const nby = Math.ceil(ny / by);
   // Padded transform sizes: the binned map fits (no wrap), and at least MIN_SAMPLES_TO_CUTOFF steps
   // to the reference frequency (zero-padding interpolates the continuous transform of the window).
-  // Any FFT size: the cheapest at least both (the wanted steps no more than MAX_PADDED asks).
-  const side = (n: number, d: number) =>
-    nextFastFftSize(Math.max(n, Math.min(MAX_PADDED, Math.ceil(MIN_SAMPLES_TO_CUTOFF / (cutoff * d)))));
+  // Powers of two, though the engine's kernels take any 5-smooth size: the transform is passed in
+  // (MtfTransform) and may be fft.js's, the reference the curve is checked against, which takes
+  // powers of two only. The transform is small beside the case's own (at most MAX_PADDED a side).
+  const side = (n: number, d: number) => {
+    let m = nextPowerOfTwo(n);
+    const wanted = nextPowerOfTwo(Math.ceil(MIN_SAMPLES_TO_CUTOFF / (cutoff * d)));
+    while (m < wanted && m < MAX_PADDED) m *= 2;
+    return m;
+  };
   const mx = side(nbx, bx * dx);
   const my = side(nby, by * dy);
   const data = fft.allocate(2 * mx * my);
