@@ -141,6 +141,9 @@ export function mtfOf(map: IntensityMap, pupil: MtfPupil, fft: MtfTransform): Mt
   const nby = Math.ceil(ny / by);
   // Padded transform sizes: the binned map fits (no wrap), and at least MIN_SAMPLES_TO_CUTOFF steps
   // to the reference frequency (zero-padding interpolates the continuous transform of the window).
+  // Powers of two, though the engine's kernels take any 5-smooth size: the transform is passed in
+  // (MtfTransform) and may be fft.js's, the reference the curve is checked against, which takes
+  // powers of two only. The transform is small beside the case's own (at most MAX_PADDED a side).
   const side = (n: number, d: number) => {
     let m = nextPowerOfTwo(n);
     const wanted = nextPowerOfTwo(Math.ceil(MIN_SAMPLES_TO_CUTOFF / (cutoff * d)));

@@ -3,6 +3,7 @@
 // that nothing absurd reaches the planner or an allocation: a refusal names the key and the range
 // expected.
 import { z } from 'zod';
+import { isFastFftSize } from '../optics/fft.js';
 import type { UnitKind } from './units.js';
 import { ELEMENTS, SHAPE_NAMES, elementOf } from '../elements/registry.js';
 import {
@@ -67,16 +68,17 @@ const illumination = z.discriminatedUnion(
   { error: `expected a mapping such as {kind: plane} (kind: one of ${ILLUMINATION_KINDS.join(', ')})` },
 );
 
-// Grid sizes: powers of two from 16 to 2^16 per axis for 2-D grids (2^32 complex samples would be
-// 64 GiB) and 2^24 for 1-D ones (256 MiB); the planner holds a 2-D grid to 2^16 and refuses what
-// its memory estimate cannot hold. The check here keeps the number itself sane.
-const gridSizeMsg = 'expected a whole number of samples, a power of two from 16 to 65536 (2-D) or 2^24 (1-D)';
+// Grid sizes: sizes the FFT kernels take (no prime factor but 2, 3 and 5: 1000, 1080, 1024, …)
+// from 16 to 2^16 per axis for 2-D grids (2^32 complex samples would be 64 GiB) and 2^24 for 1-D
+// ones (256 MiB); the planner holds a 2-D grid to 2^16 and refuses what its memory estimate cannot
+// hold. The check here keeps the number itself sane.
+const gridSizeMsg = 'expected a whole number of samples from 16 to 65536 (2-D) or 2^24 (1-D) with no prime factor but 2, 3 and 5 (such as 1000, 1024 or 1080)';
 const gridSize = z
   .number({ error: gridSizeMsg })
   .int({ error: gridSizeMsg })
   .min(16, { error: gridSizeMsg })
   .max(1 << 24, { error: gridSizeMsg })
-  .refine((n) => (n & (n - 1)) === 0, { error: gridSizeMsg });
+  .refine((n) => isFastFftSize(n), { error: gridSizeMsg });
 
 const gridShape = { size: gridSize.optional(), pitch: positiveLength().optional() };
 const gridError = mappingError("expected a mapping such as {size: 1024, pitch: '1 um'}");

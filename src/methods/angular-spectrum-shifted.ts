@@ -1,7 +1,6 @@
 // The angular spectrum in the frame of a tilted beam (src/optics/shifted-spectrum.ts): the carrier
 // taken out of the source, the grid shifted to where the beam lands.
 import { fftAxis } from '../optics/field.js';
-import { nextPowerOfTwo } from '../optics/fft.js';
 import { edgeSpectrumTail, gaussianSpectrumTail, shiftedGridFor, propagateShiftedSpectrum, restoreCarrier } from '../optics/shifted-spectrum.js';
 import { axisPlan, windowOn } from '../plan/axis-plans.js';
 import { costFft } from '../plan/costs.js';
@@ -73,7 +72,8 @@ function shiftedSampling(g: Geometry, c: Case): Sampling | null {
   const axes = (g.oneD ? [0] : [0, 1]).map((i) => {
     const p = grid.pitch[i]!;
     const padded = grid.samples[i]!;
-    const n = Math.min(padded, nextPowerOfTwo(Math.ceil((2 * g.aEff[i]!) / p) + 2));
+    // The illuminated aperture and two samples to spare (it is padded into the grid, which is what is transformed).
+    const n = Math.min(padded, Math.ceil((2 * g.aEff[i]!) / p) + 2);
     // The output lattice is the grid's own, shifted by the centre.
     const lattice = fftAxis(padded, p);
     const output = windowOn({ n: lattice.n, start: lattice.start + grid.centre[i]!, step: p }, g.centre[i]!, g.windowHalf[i]!);

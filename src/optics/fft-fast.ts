@@ -1,5 +1,5 @@
 // A faster 2-D complex FFT with the conventions of ./fft.ts (same sign, inverse scaled by 1/n per
-// axis, sizes powers of two, ny = 1 for a 1-D transform). Two kernels sit behind one interface:
+// axis, sizes 5-smooth (isFastFftSize: 2^a·3^b·5^c ≥ 2), ny = 1 for a 1-D transform). Two kernels sit behind one interface:
 //
 // - 'wasm-simd': WebAssembly with 128-bit SIMD (source: ./wasm/fft.ts, AssemblyScript, compiled by
 //   `npm run build:wasm` to dist/src/optics/wasm/fft.wasm; the program's entry points read that
@@ -12,11 +12,14 @@
 // - 'js': the same algorithm in TypeScript on split Float64Arrays; used when the WebAssembly file
 //   is not installed or cannot be compiled, or when memory for it cannot be had.
 //
-// Both: radix-4 decimation in time (one radix-2 stage first when log2 n is odd) on split real and
-// imaginary planes, bit-reversal permutation done while gathering (or by swaps in place), twiddles
-// and permutation built once per size and kept; columns are gathered in blocks of adjacent columns so that each cache
-// line read is used whole. The inverse is the forward transform with the planes exchanged.
-import { isPowerOfTwo } from './fft.js';
+// Both: decimation in time on split real and imaginary planes. n = P·Q with P the power of two in
+// n: radix-4 stages (one radix-2 stage first when log2 P is odd) make the Q transforms of length P,
+// then radix-3 stages, then radix-5 stages, combine them. The input permutation (bit reversal for a
+// power of two, mixed-radix digit reversal otherwise) is done while gathering; twiddles and
+// permutation are built once per size and kept; columns are gathered in blocks of adjacent columns
+// so that each cache line read is used whole. The inverse is the forward transform with the planes
+// exchanged. For a power of two the arithmetic is exactly that of the radix-4 kernel alone.
+import { isFastFftSize } from './fft.js';
 
 export type FastFftBackend = 'wasm-simd' | 'js';
 
@@ -77,7 +80,7 @@ export function transformColumns(
   commit?: () => boolean,
 ): boolean {
   checkPiece(src, dst, nx, ny, c0, c1, nx, 'columns');
-  if (c0 % 2 !== 0 || c1 % 2 !== 0) throw new Error(`transformColumns: columns ${c0}..${c1} must start and end on even indices`);
+  if (c0 % 2 !== 0 || (c1 % 2 !== 0 && c1 !== nx)) throw new Error(`transformColumns: columns ${c0}..${c1} must start and end on even indices (or end at ${nx})`);
   if (ny === 1) {
     // A 1-D transform has no column pass; the part is copied so that dst holds the result.
     if (commit && !commit()) return false;
@@ -103,9 +106,13 @@ function checkPiece(
   }
 }
 
-/** Lanes per block for a part `width` columns wide: a power of two dividing it, at most `max`. */
-function blockFor(width: number, max: number): number {
-  return Math.min(max, width & -width);
+/**
+ * Lanes per block of the WebAssembly kernel's column pass over `width` columns: WASM_BLOCK, or the
+ * width made even when narrower (the kernel does two lanes per vector; an odd width's last block
+ * takes one column of the row padding along, whose result lands in the padding again).
+ */
+function wasmBlock(width: number): number {
+  return width >= WASM_BLOCK ? WASM_BLOCK : width + (width & 1);
 }
 
 /** The kernel `k` uses: 'wasm-simd' when it was made with the module's bytes, else 'js'. */
@@ -123,16 +130,24 @@ export function useFastFftBackend(k: FftKernel, b: FastFftBackend): void {
 }
 
 function checkShape(nx: number, ny: number): void {
-  if (!isPowerOfTwo(nx) || (ny !== 1 && !isPowerOfTwo(ny))) {
-    throw new Error(`FFT sizes must be powers of two, got ${nx}×${ny}`);
+  if (!isFastFftSize(nx) || (ny !== 1 && !isFastFftSize(ny))) {
+    throw new Error(`FFT sizes must have no prime factor but 2, 3 and 5, got ${nx}×${ny}`);
   }
 }
 
 // ---- tables (shared by both kernels) ----------------------------------------------------------
 
 interface Tables {
-  rev: Uint32Array; // bit-reversal permutation
-  tw: Float64Array; // per radix-4 stage of half-size L ≥ 2: L records (w^k, w^2k, w^3k), w = e^{-2πi/4L}
+  /** The input permutation: position i of the gathered transform holds input point rev[i]. */
+  rev: Uint32Array;
+  /** Its inverse (input point j goes to position inv[j]); the same array when rev is an involution (powers of two). */
+  inv: Uint32Array;
+  /**
+   * Twiddles: per radix-4 stage of half-size L ≥ 2 (L < P), L records (w^k, w^2k, w^3k),
+   * w = e^{-2πi/4L}; then per radix-p stage (p = 3, then 5) of sub-size L, L records (w^k, …,
+   * w^{(p-1)k}), w = e^{-2πi/pL}; each complex value as (re, im).
+   */
+  tw: Float64Array;
 }
 
 // Memo of a pure function (the permutation and twiddles of size n), not state: every kernel and
@@ -148,43 +163,128 @@ function firstL(n: number): number {
   return log2(n) & 1 ? 2 : 4;
 }
 
+/** The odd radices of n's stages in the order they run: the 3s, then the 5s. */
+function oddRadices(n: number): number[] {
+  const out: number[] = [];
+  let q = n / (n & -n);
+  for (const p of [3, 5]) {
+    while (q % p === 0) {
+      out.push(p);
+      q /= p;
+    }
+  }
+  return out;
+}
+
+/** e^{-2πi j/m} with j reduced mod m first, so that large j lose no accuracy. */
+function unitRoot(j: number, m: number): [number, number] {
+  const a = (-2 * Math.PI * (j % m)) / m;
+  return [Math.cos(a), Math.sin(a)];
+}
+
 function tablesFor(n: number): Tables {
   let t = tables.get(n);
   if (t) return t;
-  const bits = log2(n);
-  const rev = new Uint32Array(n);
-  for (let i = 0; i < n; i++) {
+  const P = n & -n;
+  const bits = log2(P);
+  // Bit reversal over the power-of-two part.
+  let rev = new Uint32Array(P);
+  for (let i = 0; i < P; i++) {
     let r = 0;
     for (let b = 0, x = i; b < bits; b++, x >>= 1) r = (r << 1) | (x & 1);
     rev[i] = r;
   }
+  // Each odd stage of radix p combines p transforms of length L, the m-th of the points m + p·j:
+  // position m·L + i holds point m + p·(the length-L transform's own point at i).
+  const odd = oddRadices(n);
+  let L = P;
+  for (const p of odd) {
+    const next = new Uint32Array(p * L);
+    for (let m = 0; m < p; m++) for (let i = 0; i < L; i++) next[m * L + i] = m + p * rev[i]!;
+    rev = next;
+    L *= p;
+  }
+  let inv = rev;
+  if (odd.length) {
+    inv = new Uint32Array(n);
+    for (let i = 0; i < n; i++) inv[rev[i]!] = i;
+  }
   let len = 0;
-  for (let L = firstL(n); L < n; L *= 4) len += 6 * L;
+  if (P > 1) for (let L4 = firstL(P); L4 < P; L4 *= 4) len += 6 * L4;
+  L = P;
+  for (const p of odd) {
+    len += 2 * (p - 1) * L;
+    L *= p;
+  }
   const tw = new Float64Array(len);
   let o = 0;
-  for (let L = firstL(n); L < n; L *= 4) {
-    for (let k = 0; k < L; k++) {
-      for (let m = 1; m <= 3; m++) {
-        const a = (-2 * Math.PI * m * k) / (4 * L);
-        tw[o++] = Math.cos(a);
-        tw[o++] = Math.sin(a);
+  if (P > 1) {
+    for (let L4 = firstL(P); L4 < P; L4 *= 4) {
+      for (let k = 0; k < L4; k++) {
+        for (let m = 1; m <= 3; m++) {
+          const a = (-2 * Math.PI * m * k) / (4 * L4);
+          tw[o++] = Math.cos(a);
+          tw[o++] = Math.sin(a);
+        }
       }
     }
   }
-  t = { rev, tw };
+  L = P;
+  for (const p of odd) {
+    for (let k = 0; k < L; k++) {
+      for (let m = 1; m < p; m++) {
+        const [c, si] = unitRoot(m * k, p * L);
+        tw[o++] = c;
+        tw[o++] = si;
+      }
+    }
+    L *= p;
+  }
+  t = { rev, inv, tw };
   tables.set(n, t);
   return t;
 }
+
+/** Twiddles of the radix-4 stages of a length-n transform (f64 values): where the odd stages' start. */
+function pow2TwiddleLength(n: number): number {
+  const P = n & -n;
+  let len = 0;
+  if (P > 1) for (let L = firstL(P); L < P; L *= 4) len += 6 * L;
+  return len;
+}
+
+// The radix-3 and radix-5 butterflies' constants: sin(π/3), cos(2π/5), cos(4π/5), sin(2π/5),
+// sin(4π/5) (the WebAssembly kernel has the same values as literals).
+const S3 = Math.sqrt(3) / 2;
+const C51 = Math.cos((2 * Math.PI) / 5), C52 = Math.cos((4 * Math.PI) / 5);
+const S51 = Math.sin((2 * Math.PI) / 5), S52 = Math.sin((4 * Math.PI) / 5);
 
 // ---- the TypeScript kernel ----------------------------------------------------------------------
 
 /**
  * W independent length-n transforms at once, in place on re/im from `off`, point-major (point p of
- * all W transforms is W contiguous values), input in bit-reversed point order.
+ * all W transforms is W contiguous values), input in the permuted order of tablesFor(n).rev.
  */
 function jsLanes(re: Float64Array, im: Float64Array, off: number, n: number, W: number, tw: Float64Array): void {
   const end = off + n * W;
-  if (log2(n) & 1) {
+  const P = n & -n;
+  let t0 = 0;
+  if (P > 1) {
+    jsPow2(re, im, off, end, P, W, tw);
+    t0 = pow2TwiddleLength(n);
+  }
+  let L = P;
+  for (const p of oddRadices(n)) {
+    if (p === 3) jsRadix3(re, im, off, end, L, W, tw, t0);
+    else jsRadix5(re, im, off, end, L, W, tw, t0);
+    t0 += 2 * (p - 1) * L;
+    L *= p;
+  }
+}
+
+/** The radix-4 (and radix-2) stages: the length-P transforms held one after another in [off, end). */
+function jsPow2(re: Float64Array, im: Float64Array, off: number, end: number, P: number, W: number, tw: Float64Array): void {
+  if (log2(P) & 1) {
     for (let o = off; o < end; o += 2 * W) {
       for (let a = o; a < o + W; a++) {
         const b = a + W;
@@ -215,7 +315,7 @@ function jsLanes(re: Float64Array, im: Float64Array, off: number, n: number, W: 
     }
   }
   let t0 = 0;
-  for (let L = firstL(n); L < n; L *= 4) {
+  for (let L = firstL(P); L < P; L *= 4) {
     const q = L * W;
     for (let base = off; base < end; base += 4 * q) {
       for (let k = 0, t = t0; k < L; k++, t += 6) {
@@ -249,6 +349,81 @@ function jsLanes(re: Float64Array, im: Float64Array, off: number, n: number, W: 
   }
 }
 
+/**
+ * One radix-3 stage: groups of three length-L transforms (at base, base + L·W, base + 2L·W) become
+ * one of length 3L: y_q[k + qL] = Σ_m w^{mk} e^{-2πi mq/3} x_m[k], w = e^{-2πi/3L}.
+ */
+function jsRadix3(re: Float64Array, im: Float64Array, off: number, end: number, L: number, W: number, tw: Float64Array, t0: number): void {
+  const q = L * W;
+  for (let base = off; base < end; base += 3 * q) {
+    for (let k = 0, t = t0; k < L; k++, t += 4) {
+      const w1r = tw[t], w1i = tw[t + 1], w2r = tw[t + 2], w2i = tw[t + 3];
+      const p = base + k * W;
+      for (let i0 = p; i0 < p + W; i0++) {
+        const i1 = i0 + q, i2 = i1 + q;
+        const ar = re[i0], ai = im[i0];
+        let xr = re[i1], xi = im[i1];
+        const br = xr * w1r - xi * w1i, bi = xr * w1i + xi * w1r;
+        xr = re[i2];
+        xi = im[i2];
+        const cr = xr * w2r - xi * w2i, ci = xr * w2i + xi * w2r;
+        const sr = br + cr, si = bi + ci, dr = br - cr, di = bi - ci;
+        const mr = ar - 0.5 * sr, mi = ai - 0.5 * si;
+        re[i0] = ar + sr;
+        im[i0] = ai + si;
+        re[i1] = mr + S3 * di;
+        im[i1] = mi - S3 * dr;
+        re[i2] = mr - S3 * di;
+        im[i2] = mi + S3 * dr;
+      }
+    }
+  }
+}
+
+/** One radix-5 stage, as jsRadix3 with five length-L transforms. */
+function jsRadix5(re: Float64Array, im: Float64Array, off: number, end: number, L: number, W: number, tw: Float64Array, t0: number): void {
+  const q = L * W;
+  for (let base = off; base < end; base += 5 * q) {
+    for (let k = 0, t = t0; k < L; k++, t += 8) {
+      const w1r = tw[t], w1i = tw[t + 1], w2r = tw[t + 2], w2i = tw[t + 3];
+      const w3r = tw[t + 4], w3i = tw[t + 5], w4r = tw[t + 6], w4i = tw[t + 7];
+      const p = base + k * W;
+      for (let i0 = p; i0 < p + W; i0++) {
+        const i1 = i0 + q, i2 = i1 + q, i3 = i2 + q, i4 = i3 + q;
+        const ar = re[i0], ai = im[i0];
+        let xr = re[i1], xi = im[i1];
+        const b1r = xr * w1r - xi * w1i, b1i = xr * w1i + xi * w1r;
+        xr = re[i2];
+        xi = im[i2];
+        const b2r = xr * w2r - xi * w2i, b2i = xr * w2i + xi * w2r;
+        xr = re[i3];
+        xi = im[i3];
+        const b3r = xr * w3r - xi * w3i, b3i = xr * w3i + xi * w3r;
+        xr = re[i4];
+        xi = im[i4];
+        const b4r = xr * w4r - xi * w4i, b4i = xr * w4i + xi * w4r;
+        // sums and differences of the conjugate pairs (1, 4) and (2, 3)
+        const s1r = b1r + b4r, s1i = b1i + b4i, d1r = b1r - b4r, d1i = b1i - b4i;
+        const s2r = b2r + b3r, s2i = b2i + b3i, d2r = b2r - b3r, d2i = b2i - b3i;
+        const a1r = ar + C51 * s1r + C52 * s2r, a1i = ai + C51 * s1i + C52 * s2i;
+        const a2r = ar + C52 * s1r + C51 * s2r, a2i = ai + C52 * s1i + C51 * s2i;
+        const u1r = S51 * d1r + S52 * d2r, u1i = S51 * d1i + S52 * d2i;
+        const u2r = S52 * d1r - S51 * d2r, u2i = S52 * d1i - S51 * d2i;
+        re[i0] = ar + s1r + s2r;
+        im[i0] = ai + s1i + s2i;
+        re[i1] = a1r + u1i;
+        im[i1] = a1i - u1r;
+        re[i4] = a1r - u1i;
+        im[i4] = a1i + u1r;
+        re[i2] = a2r + u2i;
+        im[i2] = a2i - u2r;
+        re[i3] = a2r - u2i;
+        im[i3] = a2i + u2r;
+      }
+    }
+  }
+}
+
 /** Adjacent columns transformed together (JS kernel). */
 const JS_BLOCK = 16;
 
@@ -268,7 +443,23 @@ function jsSplit(k: FftKernel, re: Float64Array, im: Float64Array, nx: number, n
   const tx = tablesFor(nx);
   const rev = tx.rev;
   const sx = inverse ? 1 / nx : 1;
-  for (let r = 0; r < ny; r++) {
+  if (tx.inv !== rev) {
+    // A permutation that is not its own inverse: gathered through a scratch row.
+    const row = jsBuffers(k, nx);
+    for (let r = 0; r < ny; r++) {
+      const o = r * nx;
+      for (let i = 0; i < nx; i++) {
+        row.re[i] = R[o + rev[i]];
+        row.im[i] = I[o + rev[i]];
+      }
+      jsLanes(row.re, row.im, 0, nx, 1, tx.tw);
+      for (let i = 0; i < nx; i++) {
+        R[o + i] = row.re[i] * sx;
+        I[o + i] = row.im[i] * sx;
+      }
+    }
+  }
+  for (let r = 0; r < ny && tx.inv === rev; r++) {
     const o = r * nx;
     for (let i = 0; i < nx; i++) {
       const j = rev[i];
@@ -292,11 +483,12 @@ function jsSplit(k: FftKernel, re: Float64Array, im: Float64Array, nx: number, n
   }
   if (ny === 1) return;
   const ty = tablesFor(ny);
-  const B = Math.min(JS_BLOCK, nx);
-  const s = jsBuffers(k, B * ny);
-  const sr = s.re, si = s.im, rv = ty.rev;
+  const B0 = Math.min(JS_BLOCK, nx);
+  const s = jsBuffers(k, B0 * ny);
+  const sr = s.re, si = s.im, rv = ty.inv;
   const sy = inverse ? 1 / ny : 1;
-  for (let c0 = 0; c0 < nx; c0 += B) {
+  for (let c0 = 0; c0 < nx; c0 += B0) {
+    const B = Math.min(B0, nx - c0);
     for (let r = 0; r < ny; r++) {
       let src = r * nx + c0;
       let d = rv[r] * B;
@@ -339,10 +531,11 @@ function jsInterleaved(k: FftKernel, data: Float64Array, nx: number, ny: number,
   }
   if (ny === 1) return;
   const ty = tablesFor(ny);
-  const B = Math.min(JS_BLOCK, nx);
-  const rv = ty.rev;
+  const B0 = Math.min(JS_BLOCK, nx);
+  const rv = ty.inv;
   const sy = inverse ? 1 / ny : 1;
-  for (let c0 = 0; c0 < nx; c0 += B) {
+  for (let c0 = 0; c0 < nx; c0 += B0) {
+    const B = Math.min(B0, nx - c0);
     for (let r = 0; r < ny; r++) {
       let src = 2 * (r * nx + c0);
       let d = rv[r] * B;
@@ -404,13 +597,14 @@ function jsCols(
   commit?: () => boolean,
 ): boolean {
   const ty = tablesFor(ny);
-  const rv = ty.rev;
+  const rv = ty.inv;
   const width = c1 - c0;
-  const B = blockFor(width, JS_BLOCK);
+  const B0 = Math.min(JS_BLOCK, width);
   const s = pieceBuffers(k, ny * width);
   const sr = inverse ? s.im : s.re, si = inverse ? s.re : s.im;
   const sy = inverse ? 1 / ny : 1;
-  for (let b0 = 0; b0 < width; b0 += B) {
+  for (let b0 = 0; b0 < width; b0 += B0) {
+    const B = Math.min(B0, width - b0);
     const off = b0 * ny;
     for (let r = 0; r < ny; r++) {
       let from = 2 * (r * nx + c0 + b0);
@@ -423,7 +617,8 @@ function jsCols(
     jsLanes(sr, si, off, ny, B, ty.tw);
   }
   if (commit && !commit()) return false;
-  for (let b0 = 0; b0 < width; b0 += B) {
+  for (let b0 = 0; b0 < width; b0 += B0) {
+    const B = Math.min(B0, width - b0);
     const off = b0 * ny;
     for (let r = 0; r < ny; r++) {
       let to = 2 * (r * nx + c0 + b0);
@@ -546,6 +741,8 @@ function installWasmFft(k: FftKernel, bytes: Uint8Array | null, whyMissing = 'ff
 
 interface WasmTables {
   rev: number;
+  /** The inverse permutation (the same table for a power of two), for the column pass's scatter. */
+  inv: number;
   tw: number;
 }
 
@@ -574,13 +771,15 @@ function wasmTablesFor(k: FftKernel, w: WasmFft, n: number): WasmTables | null {
   const js = tablesFor(n);
   if (k.tableTop === 0) k.tableTop = align64(w.heapBase());
   const rev = k.tableTop;
-  const tw = align64(rev + 4 * n);
+  const inv = js.inv === js.rev ? rev : align64(rev + 4 * n);
+  const tw = align64(inv + 4 * n);
   const end = align64(tw + 8 * Math.max(1, js.tw.length));
   if (!reserve(k, w, end)) return null;
   new Uint32Array(w.memory.buffer, rev, n).set(js.rev);
+  if (inv !== rev) new Uint32Array(w.memory.buffer, inv, n).set(js.inv);
   k.heap.set(js.tw, tw / 8);
   k.tableTop = end;
-  t = { rev, tw };
+  t = { rev, inv, tw };
   k.wasmTables.set(n, t);
   return t;
 }
@@ -593,10 +792,13 @@ function wasmLayout(k: FftKernel, w: WasmFft, nx: number, ny: number, R: number,
   return wasmArea(k, w, tx, ty, dataBytes, Math.max(nx * R, ny > 1 ? ny * B : 0));
 }
 
-/** After the tables: `dataBytes` of data, then two scratch planes of `planeValues` f64 each. */
+/**
+ * After the tables: `dataBytes` of data, then two scratch planes of `planeValues` f64 each (and a
+ * little more: rowsSplit reads one point past an odd-length row).
+ */
 function wasmArea(k: FftKernel, w: WasmFft, tx: WasmTables, ty: WasmTables, dataBytes: number, planeValues: number) {
   const base = k.tableTop;
-  const plane = align64(8 * planeValues);
+  const plane = align64(8 * planeValues + 64);
   const sre = align64(base + dataBytes);
   const sim = sre + plane;
   if (!reserve(k, w, sim + plane)) return null;
@@ -606,7 +808,7 @@ function wasmArea(k: FftKernel, w: WasmFft, tx: WasmTables, ty: WasmTables, data
 function wasmInterleaved(k: FftKernel, data: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
   const w = k.wasm!;
   const R = ny >= 4 ? 4 : 2;
-  const B = Math.min(WASM_BLOCK, nx);
+  const B = wasmBlock(nx);
   const rowLen = 2 * nx; // values per row
   const stride = ny > 1 ? 16 * nx + PAD : 16 * nx; // bytes per row in the module
   const L = wasmLayout(k, w, nx, ny, R, B, stride * ny);
@@ -621,7 +823,7 @@ function wasmInterleaved(k: FftKernel, data: Float64Array, nx: number, ny: numbe
     for (let r = r0; r < r0 + g; r++) k.heap.set(data.subarray(r * rowLen, (r + 1) * rowLen), at + r * step);
     w.rowsInterleaved(base + r0 * stride, nx, g, stride, R, tx.rev, tx.tw, sre, sim, swap, sx);
   }
-  if (ny > 1) w.colsInterleaved(base, nx, ny, stride, B, ty.rev, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
+  if (ny > 1) wasmColumns(w, base, 0, 16, nx, ny, stride, ty.inv, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
   for (let r = 0; r < ny; r++) data.set(k.heap.subarray(at + r * step, at + r * step + rowLen), r * rowLen);
   return true;
 }
@@ -629,8 +831,10 @@ function wasmInterleaved(k: FftKernel, data: Float64Array, nx: number, ny: numbe
 function wasmSplit(k: FftKernel, re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
   const w = k.wasm!;
   const R = ny >= 4 ? 4 : 2;
-  const B = Math.min(WASM_BLOCK, nx);
-  const stride = ny > 1 ? 8 * nx + PAD : 8 * nx;
+  const B = wasmBlock(nx);
+  // Padded for the columns, and for an odd row length: rowsSplit writes points in pairs, the last
+  // one of an odd row into the padding.
+  const stride = ny > 1 || nx % 2 ? 8 * nx + PAD : 8 * nx;
   const L = wasmLayout(k, w, nx, ny, R, B, 2 * stride * ny);
   if (!L) return false;
   const { tx, ty, base, sre, sim } = L;
@@ -646,12 +850,31 @@ function wasmSplit(k: FftKernel, re: Float64Array, im: Float64Array, nx: number,
     }
     w.rowsSplit(pr + r0 * stride, pi + r0 * stride, nx, g, stride, R, tx.rev, tx.tw, sre, sim, swap, sx);
   }
-  if (ny > 1) w.colsSplit(pr, pi, nx, ny, stride, B, ty.rev, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
+  if (ny > 1) wasmColumns(w, pr, pi, 8, nx, ny, stride, ty.inv, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
   for (let r = 0; r < ny; r++) {
     re.set(k.heap.subarray(ar + r * step, ar + r * step + nx), r * nx);
     im.set(k.heap.subarray(ai + r * step, ai + r * step + nx), r * nx);
   }
   return true;
+}
+
+/**
+ * A column pass over `width` columns at byte `a` (and `b`, the imaginary plane of a split layout;
+ * `colBytes` per column and plane): blocks of WASM_BLOCK, then the rest as one block made even. An
+ * odd width needs one column of padding after each row (the block's extra lane reads and writes it).
+ */
+function wasmColumns(
+  w: WasmFft, a: number, b: number, colBytes: number, width: number, ny: number, stride: number,
+  inv: number, tw: number, sre: number, sim: number, swap: number, scale: number,
+): void {
+  const pass = (at: number, cols: number, B: number) => {
+    if (colBytes === 16) w.colsInterleaved(a + at, cols, ny, stride, B, inv, tw, sre, sim, swap, scale);
+    else w.colsSplit(a + at, b + at, cols, ny, stride, B, inv, tw, sre, sim, swap, scale);
+  };
+  const main = width >= WASM_BLOCK ? width - (width % WASM_BLOCK) : 0;
+  if (main > 0) pass(0, main, WASM_BLOCK);
+  const rest = width - main;
+  if (rest > 0) pass(colBytes * main, rest + (rest & 1), rest + (rest & 1));
 }
 
 // The parts: the data of one part is copied in, transformed, and (if committed) copied out. Null
@@ -684,16 +907,17 @@ function wasmCols(
 ): boolean | null {
   const w = k.wasm!;
   const width = c1 - c0;
-  const B = blockFor(width, WASM_BLOCK);
-  // One block of B columns is read row after row, contiguously; wider parts get the padded rows.
-  const stride = width > B ? 16 * width + PAD : 16 * width;
+  const B = wasmBlock(width);
+  // One block of B columns is read row after row, contiguously; wider parts get the padded rows,
+  // and so do odd widths (the last block reaches one column into the padding).
+  const stride = width > B || width % 2 ? 16 * width + PAD : 16 * width;
   const ty = wasmTablesFor(k, w, ny);
   if (!ty) return null;
   const L = wasmArea(k, w, ty, ty, stride * ny, ny * B);
   if (!L) return null;
   const at = L.base / 8, step = stride / 8, len = 2 * width;
   for (let r = 0; r < ny; r++) copyValues(src, 2 * (r * nx + c0), k.heap, at + r * step, len);
-  w.colsInterleaved(L.base, width, ny, stride, B, ty.rev, ty.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / ny : 1);
+  wasmColumns(w, L.base, 0, 16, width, ny, stride, ty.inv, ty.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / ny : 1);
   if (commit && !commit()) return false;
   for (let r = 0; r < ny; r++) copyValues(k.heap, at + r * step, dst, 2 * (r * nx + c0), len);
   return true;
@@ -812,7 +1036,8 @@ export interface SharedLayout {
   ny: number;
   revX: number;
   twX: number;
-  revY: number;
+  /** The column pass's permutation, as it scatters (tablesFor(ny).inv). */
+  invY: number;
   twY: number;
   data: number;
   stride: number;
@@ -834,11 +1059,11 @@ export function sharedLayout(k: FftKernel, nx: number, ny: number, slots: number
   const tx = tablesFor(nx), ty = tablesFor(ny);
   const revX = align64(sh.w.heapBase());
   const twX = align64(revX + 4 * nx);
-  const revY = align64(twX + 8 * Math.max(1, tx.tw.length));
-  const twY = align64(revY + 4 * ny);
+  const invY = align64(twX + 8 * Math.max(1, tx.tw.length));
+  const twY = align64(invY + 4 * ny);
   const data = align64(twY + 8 * Math.max(1, ty.tw.length));
   const stride = 16 * nx + PAD;
-  const plane = align64(8 * Math.max(nx * 4, ny * Math.min(WASM_BLOCK, nx)));
+  const plane = align64(8 * Math.max(nx * 4, ny * wasmBlock(nx)) + 64);
   const scratch = align64(data + stride * ny);
   const end = scratch + 2 * plane * slots;
   const have = sh.memory.buffer.byteLength;
@@ -852,9 +1077,9 @@ export function sharedLayout(k: FftKernel, nx: number, ny: number, slots: number
   const heap = sharedHeap(sh, end);
   new Uint32Array(heap.buffer, revX, nx).set(tx.rev);
   heap.set(tx.tw, twX / 8);
-  new Uint32Array(heap.buffer, revY, ny).set(ty.rev);
+  new Uint32Array(heap.buffer, invY, ny).set(ty.inv);
   heap.set(ty.tw, twY / 8);
-  return { nx, ny, revX, twX, revY, twY, data, stride, scratch, plane, end };
+  return { nx, ny, revX, twX, invY, twY, data, stride, scratch, plane, end };
 }
 
 /** This thread's view of the shared memory, renewed when another thread has grown it. */
@@ -889,8 +1114,8 @@ export function sharedColumns(k: FftKernel, L: SharedLayout, c0: number, c1: num
   const sh = attached(k, L);
   const sre = L.scratch + 2 * slot * L.plane, sim = sre + L.plane;
   const width = c1 - c0;
-  if (c0 % 2 !== 0 || width % 2 !== 0) throw new Error(`sharedColumns: columns ${c0}..${c1} must start and end on even indices`);
-  sh.w.colsInterleaved(L.data + 16 * c0, width, L.ny, L.stride, blockFor(width, WASM_BLOCK), L.revY, L.twY, sre, sim, inverse ? 1 : 0, inverse ? 1 / L.ny : 1);
+  if (c0 % 2 !== 0 || (c1 % 2 !== 0 && c1 !== L.nx)) throw new Error(`sharedColumns: columns ${c0}..${c1} must start and end on even indices (or end at ${L.nx})`);
+  wasmColumns(sh.w, L.data + 16 * c0, 0, 16, width, L.ny, L.stride, L.invY, L.twY, sre, sim, inverse ? 1 : 0, inverse ? 1 / L.ny : 1);
 }
 
 /** Rows [r0, r1) of the result copied out to `data`, if `commit` (asked first) allows. */

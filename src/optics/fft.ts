@@ -36,6 +36,47 @@ export function nextPowerOfTwo(n: number): number {
   return p;
 }
 
+/**
+ * Sizes the fast kernels (fft-fast.ts) transform: n ≥ 2 with no prime factor but 2, 3 and 5
+ * ("5-smooth"). Powers of two run as radix-4 (and one radix-2) stages, the factors 3 and 5 as
+ * radix-3 and radix-5 stages after them.
+ */
+export function isFastFftSize(n: number): boolean {
+  if (!Number.isInteger(n) || n < 2) return false;
+  let m = n;
+  for (const p of [2, 3, 5]) while (m % p === 0) m /= p;
+  return m === 1;
+}
+
+/**
+ * The smallest size the fast kernels transform that is at least m (the next 5-smooth number, the
+ * "next fast length" general FFT libraries offer): between two powers of two there are several
+ * (1080 = 2³·3³·5, 1125 = 3²·5³, 1152, 1200, …), so a grid need not double to get room.
+ */
+export function nextFastFftSize(m: number): number {
+  const target = Math.max(2, Math.ceil(m));
+  if (!Number.isFinite(target)) return target;
+  // Every 3^b·5^c up to the target, each times the least power of two that reaches it: O(log² m)
+  // products, so that sizes no array holds (which the planner refuses by their count) come promptly.
+  let best = Infinity;
+  for (let f5 = 1; f5 < 2 * target; f5 *= 5) {
+    for (let f35 = f5; f35 < 2 * target; f35 *= 3) {
+      let n = f35;
+      while (n < target) n *= 2;
+      if (n < best) best = n;
+    }
+  }
+  return best;
+}
+
+/**
+ * The smallest even size the fast kernels transform that is at least m: for an algorithm that
+ * swaps the halves of each axis (the single-FFT form puts x = 0 on index n/2 and back).
+ */
+export function nextEvenFastFftSize(m: number): number {
+  return 2 * nextFastFftSize(Math.ceil(m / 2));
+}
+
 /** The same transform by fft.js, row by row then column by column: the reference for the fast kernels. */
 export function fft2Reference(data: Float64Array, nx: number, ny: number, inverse: boolean): void {
   if (!isPowerOfTwo(nx) || (ny !== 1 && !isPowerOfTwo(ny))) {

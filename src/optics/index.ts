@@ -14,7 +14,7 @@ export {
 } from './spectral.js';
 export { propagateFresnelDirect, propagateFarField, propagateFarFieldSeparable } from './direct.js';
 export { freeField, complementInPlace } from './free.js';
-export { nextPowerOfTwo, isPowerOfTwo, binFrequency } from './fft.js';
+export { nextPowerOfTwo, isPowerOfTwo, isFastFftSize, nextFastFftSize, nextEvenFastFftSize, binFrequency } from './fft.js';
 export { singleThreadEngine, type Engine } from './engine.js';
 export { createFftKernel, type FftKernel } from './fft-fast.js';
 export { dft1, dft2, dft2AtPoints } from './dft.js';

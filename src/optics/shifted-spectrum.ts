@@ -50,7 +50,7 @@
 // Pure: typed arrays in and out, no I/O, no module state.
 import { erfc } from './special.js';
 import type { Engine } from './engine.js';
-import { binFrequency, nextPowerOfTwo } from './fft.js';
+import { binFrequency, nextFastFftSize } from './fft.js';
 import { isOneD, type Field } from './field.js';
 import { propagationPhase } from './phase.js';
 import { bandLimitFrequency, cellResponse, toSpectrum, type SourceSpectrum } from './spectral.js';
@@ -515,7 +515,7 @@ export interface ShiftedGridRequest {
 export interface ShiftedGrid {
   /** Pitch per axis (m); dy = 0 for 1-D. */
   pitch: [number, number];
-  /** Padded grid size per axis (powers of two); ny = 1 for 1-D. */
+  /** Padded grid size per axis (FFT sizes: 5-smooth); ny = 1 for 1-D. */
   samples: [number, number];
   centre: [number, number];
   /** Envelope frequencies (1/m) whose light reaches the window from some point of the footprint, per axis [lo, hi]. */
@@ -555,7 +555,7 @@ export interface ShiftedGrid {
  * A taper narrower than that, or starting closer than that to the window, rings into it.
  * Every frequency that reaches the window then lands on the grid at full weight, the light wrapping
  * round (at most a beyond the grid's edge) stays off the window, and the band edges are smooth on
- * the scale that matters. The tapers then take the slack that rounding to powers of two leaves
+ * the scale that matters. The tapers then take the slack that rounding up to an FFT size leaves
  * (up to 0.5). Last, with a target and a tail model, the grid is doubled while the model says the
  * band limit would cut more than the target.
  */
@@ -615,7 +615,7 @@ export function shiftedGridFor(req: ShiftedGridRequest): ShiftedGrid {
     }
     if (!(p > 0 && Number.isFinite(p))) throw new Error(`shiftedGridFor: no finite pitch along ${i === 0 ? 'x' : 'y'} (give maxPitch)`);
     pitch[i] = p;
-    samples[i] = Math.min(maxN, nextPowerOfTwo(Math.ceil((2 * (reach[i]! + 2 * kappa * rho[i]!)) / p)));
+    samples[i] = Math.min(maxN, nextFastFftSize(Math.ceil((2 * (reach[i]! + 2 * kappa * rho[i]!)) / p)));
   }
   // Per axis, the landing taper's least and largest fraction (zone κρ; gap κρ), and the band's.
   const half = (i: number) => (samples[i]! * pitch[i]!) / 2;
@@ -625,6 +625,22 @@ export function shiftedGridFor(req: ShiftedGridRequest): ShiftedGrid {
   const bandNeed = (i: number) => kappa / (rho[i]! * nyq(i));
   const bandRoom = (i: number) => (nyq(i) - G[i]! - kappa / rho[i]!) / nyq(i);
   const fits = (need: (i: number) => number, room: (i: number) => number) => Math.max(...axes.map(need)) <= Math.min(...axes.map(room));
+  // Each axis alone has room for its landing taper at the size above; one fraction for both axes
+  // may need a little more: the axis that needs the wider fraction, or has the least room, goes to
+  // its next FFT size until one fraction fits (the rounding up to powers of two used to leave that
+  // slack by chance).
+  for (let k = 0; k < 200 && !fits(landingNeed, landingRoom); k++) {
+    const needs = axes.map(landingNeed), rooms = axes.map(landingRoom);
+    const tight = new Set([axes[needs.indexOf(Math.max(...needs))]!, axes[rooms.indexOf(Math.min(...rooms))]!]);
+    let grown = false;
+    for (const i of tight) {
+      const next = nextFastFftSize(samples[i]! + 1);
+      if (next > maxN) continue;
+      samples[i] = next;
+      grown = true;
+    }
+    if (!grown) break;
+  }
   if (!req.pitch) {
     // One fraction serves both axes: where one axis's need exceeds another's room, the needing
     // axis gets twice the samples (landing) or half the pitch (band) until they fit.

@@ -2,7 +2,7 @@
 // propagation) and the Fresnel transfer function (paraxial). Both work in place on a field that the
 // caller has already zero-padded, and report how much of the field's spectrum they had to drop.
 import type { Engine } from './engine.js';
-import { binFrequency, nextPowerOfTwo } from './fft.js';
+import { binFrequency, nextFastFftSize } from './fft.js';
 import { createField, fftAxis, isOneD, type Field } from './field.js';
 import { propagationPhase } from './phase.js';
 
@@ -108,7 +108,7 @@ function axisTables(n: number, d: number, carrier: number | null): { f: Float64A
 }
 
 /**
- * The transfer for one row of the spectrum at frequency fy, for columns 0..m (m = nx/2: the other
+ * The transfer for one row of the spectrum at frequency fy, for columns 0..m (m = ⌊nx/2⌋: the other
  * columns mirror these, since binFrequency(nx−k) = −binFrequency(k) exactly), as the rotation
  * cos/sin of the total phase, the amplitude and the kind (0 passed, 1 cut by the band limit,
  * 2 evanescent).
@@ -219,8 +219,9 @@ function multiplyTransfer(
   let passed = 0;
   let anyCut = !passAll;
   for (let q = 0; q <= half; q++) {
-    // Rows q and ny − q see the same transfer (fy² equal); row 0 and row ny/2 have no mirror.
-    const rows = oneD || q === 0 || q === half ? 1 : 2;
+    // Rows q and ny − q see the same transfer (fy² equal); row 0 and, for an even ny, row ny/2
+    // have no mirror (for an odd ny, row ⌊ny/2⌋ has ⌊ny/2⌋ + 1).
+    const rows = oneD || q === 0 || 2 * q === ny ? 1 : 2;
     if (!evanescent && Math.abs(Y.f[q]!) > limY) {
       anyCut = true;
       for (let k = 0; k < rows; k++) {
@@ -326,8 +327,9 @@ export function propagateFresnelTransfer(engine: Engine, f: Field, z: number, co
  * around the aperture for the (short) ringing of the correction.
  */
 export function compensateCellResponse(engine: Engine, f: Field): void {
-  const nx = nextPowerOfTwo(2 * f.nx);
-  const ny = isOneD(f) ? 1 : nextPowerOfTwo(2 * f.ny);
+  // Twice the field (against wrap-around of the correction's ringing), to the next FFT size.
+  const nx = nextFastFftSize(2 * f.nx);
+  const ny = isOneD(f) ? 1 : nextFastFftSize(2 * f.ny);
   const padded = padField(f, nx, ny, engine);
   propagateByTransfer(engine, padded, { kind: 'identity' }, { carrier: [0, 0] });
   const c0 = Math.round((f.x0 - padded.x0) / f.dx);

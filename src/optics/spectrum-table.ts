@@ -20,12 +20,12 @@
 // more for a span off the axis), which is what lets the steps be 1/(c·R) with c of 10–20.
 //
 // How the table is computed: separably, rows then columns. Along each axis either
-// - 'fft': the axis zero-padded to P (a power of two), one FFT giving Â at every k/(PΔ) over the
+// - 'fft': the axis zero-padded to P (an FFT size: 5-smooth), one FFT giving Â at every k/(PΔ) over the
 //   whole period 1/Δ, from which the band's entries are read (wrapping); best when the band covers
 //   much of the period; or
 // - 'chirp': the chirp-z transform by Bluestein's identity kn = (k² + n² − (k − n)²)/2: Â at any K
 //   frequencies fa + k·h as a convolution with the chirp e^{iπθj²} (θ = hΔ), done by FFTs of the
-//   next power of two L ≥ n + K − 1 (two per row, and one for the chirp, shared by all rows); best
+//   next FFT size L ≥ n + K − 1 (two per row, and one for the chirp, shared by all rows); best
 //   for a narrow band (Rabiner, Schafer & Rader, IEEE Trans. Audio Electroacoust. 17, 86 (1969);
 //   the arbitrary-window use of it in diffraction: Hu et al., Light Sci. Appl. 9, 119 (2020)).
 // The mode of each axis is the one with the smaller total work (the planner's units, below).
@@ -33,7 +33,7 @@
 // blocks of rows; rows of the source that are all zero are skipped, and columns of the transform
 // that no table entry needs are never transformed.
 import { axisAt, createField, isOneD, type Axis, type Field } from './field.js';
-import { nextPowerOfTwo } from './fft.js';
+import { nextFastFftSize } from './fft.js';
 import type { Engine } from './engine.js';
 import { cellResponse } from './spectral.js';
 import { applyFarFieldFactor } from './direct.js';
@@ -172,9 +172,10 @@ export function planAxis(n: number, pitch: number, lo: number, hi: number, order
     const step = targetStep;
     const start = lo - edge * step;
     const count = Math.ceil((hi - lo) / step) + 2 * edge + 1;
-    return { mode, n, pitch, start, step, count, size: nextPowerOfTwo(n + count - 1), first: 0 };
+    return { mode, n, pitch, start, step, count, size: nextFastFftSize(n + count - 1), first: 0 };
   }
-  const size = nextPowerOfTwo(Math.max(n, Math.ceil(1 / (pitch * targetStep))));
+  // Any FFT size: entries are bins (first + k) mod size, at most targetStep apart.
+  const size = nextFastFftSize(Math.max(n, Math.ceil(1 / (pitch * targetStep))));
   const step = 1 / (size * pitch);
   const first = Math.floor(lo / step) - edge;
   const last = Math.ceil(hi / step) + edge;
@@ -343,7 +344,7 @@ function transformBlock(engine: Engine, kit: AxisKit, block: Float64Array, rows:
   engine.fftRows(block, block, L, rows, 0, rows, true);
 }
 
-/** Power-of-two groups of rows from `total`, each at most `most`: the FFT kernels take power-of-two counts. */
+/** Power-of-two groups of rows from `total`, each at most `most` (equal blocks while they fit; any count would do). */
 function* rowGroups(total: number, most: number): Generator<[number, number]> {
   let r = 0;
   while (r < total) {

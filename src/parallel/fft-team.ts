@@ -23,7 +23,7 @@ import { fileURLToPath } from 'node:url';
 import { MessageChannel, Worker, type MessagePort } from 'node:worker_threads';
 import type { Engine } from '../optics/engine.js';
 import { pooledAllocation } from '../optics/engine.js';
-import { isPowerOfTwo } from '../optics/fft.js';
+import { isFastFftSize } from '../optics/fft.js';
 import { attachSharedFftMemory, createSharedFftMemory, fastFftBackend, sharedLayout } from '../optics/fft-fast.js';
 import {
   ABORT,
@@ -322,7 +322,7 @@ function bufferIdOf(b: SharedArrayBuffer): number {
 }
 
 function execute(t: Team, data: Float64Array, nx: number, ny: number, inverse: boolean): boolean {
-  if (t.stopped || ny < 2 || !isPowerOfTwo(nx) || !isPowerOfTwo(ny) || data.length !== 2 * nx * ny) return false;
+  if (t.stopped || ny < 2 || !isFastFftSize(nx) || !isFastFftSize(ny) || data.length !== 2 * nx * ny) return false;
   if (nx * ny < t.minValues || !(data.buffer instanceof SharedArrayBuffer)) return false;
   const live = t.helpers.filter((h) => !h.lost);
   if (live.length === 0) return false;

@@ -111,7 +111,9 @@ function floorPow2(x: number): number {
  * between shared memory and the thread's own, and those copies dominate (measured with the
  * WebAssembly kernel in this mode on 2048² and 4096² grids: parts 512 wide took about a third less
  * time than parts 128 wide; wider ones gained nothing).
- * No more than MAX_PARTS. Powers of two, like the grid sizes, so that all parts of a phase are equal.
+ * No more than MAX_PARTS. Powers of two, so that column parts start on even columns (the kernel's
+ * two lanes per vector); on a grid that is not a power of two the last part of a phase is shorter
+ * (and may end on an odd column: the kernels take it, see transformColumns).
  */
 export function partSizes(mode: Mode, nx: number, ny: number, threads: number): { rowsPer: number; colsPer: number } {
   const rowsPer = Math.max(1, Math.ceil(ny / MAX_PARTS), Math.min(floorPow2(2 ** 14 / nx), floorPow2(ny / (4 * threads))));

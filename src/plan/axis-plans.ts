@@ -2,7 +2,7 @@
 // cells), the padded FFT grid and the output window. The methods (src/methods/) pick the rules
 // that apply to them; the arithmetic of grids and windows is here, once.
 import { centredAxis, fftAxis, type Axis } from '../optics/field.js';
-import { nextPowerOfTwo } from '../optics/fft.js';
+import { nextEvenFastFftSize, nextFastFftSize } from '../optics/fft.js';
 import type { Case, AxisPlan } from './types.js';
 import { LIMITS } from './limits.js';
 import { featureSamples, oversampling, type Geometry } from './geometry.js';
@@ -69,8 +69,11 @@ export function fftAxisPlan(g: Geometry, i: number, c: Case, content: PitchRule,
   const p = pitchFor(g, c, contentRule, featureSamples(g, factorises));
   const half = Math.max(g.aEff[i]!, Math.abs(g.centre[i]!) + g.windowHalf[i]!);
   const minN = g.oneD ? LIMITS.minSamples1D : LIMITS.minSamples2D;
-  const n = c.grid?.size ?? Math.max(minN, nextPowerOfTwo(Math.ceil((2 * half) / p.pitch) + 2));
-  const padded = n * padding(n * p.pitch);
+  // The aperture and the window, two samples to spare; the padded grid is the cheapest FFT size
+  // (5-smooth) that gives at least the padding factor over them: padding·n samples, so the band
+  // limit and the wrap-around distance are at least what the factor asks for.
+  const n = c.grid?.size ?? Math.max(minN, Math.ceil((2 * half) / p.pitch) + 2);
+  const padded = nextFastFftSize(n * padding(n * p.pitch));
   const output = windowOn(fftAxis(padded, p.pitch), g.centre[i]!, g.windowHalf[i]!);
   return axisPlan(g, i, p, n, padded, output);
 }
@@ -140,11 +143,13 @@ function farFieldMaxFrequency(g: Geometry, i: number): number {
 
 /**
  * The single-FFT form samples the aperture like the direct form, zero-pads to n and lands on the
- * lattice λz/(nΔx): n is the power of two that makes that pitch at least as fine as the direct form's.
+ * lattice λz/(nΔx): n is the smallest even FFT size (5-smooth) that makes that pitch at least as fine
+ * as the direct form's. Even because the form swaps the halves of each axis to put x = 0 on index 0
+ * (single-fft.ts shiftHalf).
  */
 export function singleFftAxisPlan(g: Geometry, d: AxisPlan): AxisPlan {
   const target = Math.min(d.output.step, (2 * d.windowHalf) / (g.minOutput - 1));
-  const n = nextPowerOfTwo(Math.max(d.inputSamples + 2, Math.ceil((g.lam * g.z) / (d.inputPitch * target))));
+  const n = nextEvenFastFftSize(Math.max(d.inputSamples + 2, Math.ceil((g.lam * g.z) / (d.inputPitch * target))));
   const output = windowOn(fftAxis(n, (g.lam * g.z) / (n * d.inputPitch)), d.windowCentre, d.windowHalf);
   return { ...d, paddedSamples: n, output };
 }

@@ -22,6 +22,9 @@ export function costFft(axes: AxisPlan[], layout: Layout): { memory: number; wor
   // Source, padded grid, the FFT kernel's working copy of it (kept between calls), output arrays.
   // Work: two FFTs and the transfer multiply; the SIMD kernel runs a 4096² case (pad of 2048²) in
   // about 1.1 s, about 3.3·N·log₂N + 10·N at LIMITS.workPerSecond's calibration (npm run bench).
+  // Grids that are not powers of two (5-smooth: radix-3 and radix-5 stages) cost about the same
+  // per N·log₂N: measured one-thread 2-D transforms of 1000², 1080², 1125², 1152² and 1200² took
+  // 0.8–1.2× the time per N·log₂N of 1024² and 2048² (the spread of the shared machine's noise).
   return { memory: BASELINE_MEMORY + 16 * n + 32 * np + tables + 64 * m, work: 3.3 * np * Math.log2(np) + 10 * np };
 }
 

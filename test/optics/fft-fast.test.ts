@@ -196,9 +196,10 @@ describe.each(['wasm-simd', 'js'] as FastFftBackend[])('%s kernel', (backend) =>
     expect(worst).toBeLessThan(1e-14);
   });
 
-  it('refuses sizes that are not powers of two and arrays of the wrong length', () => {
-    expect(() => fft2Interleaved(kernel, new Float64Array(2 * 12), 12, 1, false)).toThrow(/powers of two/);
-    expect(() => fft2Interleaved(kernel, new Float64Array(2 * 8 * 3), 8, 3, false)).toThrow(/powers of two/);
+  it('refuses sizes with a prime factor above 5 and arrays of the wrong length', () => {
+    expect(() => fft2Interleaved(kernel, new Float64Array(2 * 14), 14, 1, false)).toThrow(/no prime factor but 2, 3 and 5/);
+    expect(() => fft2Interleaved(kernel, new Float64Array(2 * 8 * 7), 8, 7, false)).toThrow(/no prime factor but 2, 3 and 5/);
+    expect(() => fft2Interleaved(kernel, new Float64Array(2), 1, 1, false)).toThrow(/no prime factor but 2, 3 and 5/);
     expect(() => fft2Interleaved(kernel, new Float64Array(2 * 8 * 4 - 2), 8, 4, false)).toThrow(/values for a 8×4/);
     expect(() => fft2Split(kernel, new Float64Array(32), new Float64Array(31), 8, 4, false)).toThrow(/planes/);
   });

@@ -10,6 +10,7 @@ import * as sourceTeam from '../../src/parallel/fft-team.js';
 import type { Engine } from '../../src/optics/engine.js';
 import { fromDist, distFile, type EngineModule, type FastModule, type FieldModule, type KernelsModule, type TeamModule } from './dist.js';
 import { randomComplex, sameBits, sharedCopy } from './fft-data.js';
+import { directDft } from '../reference/dft.js';
 
 let team: TeamModule;
 let base: Engine;
@@ -63,7 +64,9 @@ describe('where teams can start', () => {
 });
 
 describe.each(['wasm-simd', 'js'] as const)('%s kernel: a team of 2 equals one thread bit for bit', (backend) => {
-  const shapes: [number, number][] = [[64, 128], [256, 256], [512, 256], [128, 32]];
+  // Powers of two, and 5-smooth sizes, odd and even (the last part of a phase shorter, ending on
+  // an odd column where nx is odd).
+  const shapes: [number, number][] = [[64, 128], [256, 256], [512, 256], [128, 32], [360, 45], [45, 360], [1125, 24], [100, 100]];
   for (const inverse of [false, true]) {
     it(`${shapes.map(([a, b]) => `${a}×${b}`).join(', ')}, ${inverse ? 'inverse' : 'forward'}`, async () => {
       fast.useFastFftBackend(base.kernel, backend);
@@ -89,6 +92,29 @@ describe.each(['wasm-simd', 'js'] as const)('%s kernel: a team of 2 equals one t
   }
 });
 
+describe.each(['wasm-simd', 'js'] as const)('%s kernel: a team of 2 at sizes that are not powers of two', (backend) => {
+  it('equals the DFT definition summed directly (test/reference/dft.ts) to 1e-12 relative, 45×100 and 100×45', async () => {
+    fast.useFastFftBackend(base.kernel, backend);
+    expect(await start(2, { minValues: 1024, callerIdleForTests: true })).toBe(2);
+    for (const [nx, ny] of [[45, 100], [100, 45]] as const) {
+      for (const inverse of [false, true]) {
+        const x = randomComplex(nx * ny, nx + 3 * ny);
+        const ref = directDft(x, nx, ny, inverse);
+        const got = viaTeam(x, nx, ny, inverse);
+        let d = 0, m = 0;
+        for (let i = 0; i < ref.length; i++) {
+          d = Math.max(d, Math.abs(got[i]! - ref[i]!));
+          m = Math.max(m, Math.abs(ref[i]!));
+        }
+        expect(d / m, `${nx}×${ny} ${inverse ? 'inverse' : 'forward'}`).toBeLessThan(1e-12);
+      }
+    }
+    const f = team.fftTeamFigures();
+    expect(f.transforms).toBe(4);
+    expect(f.partsByHelpers).toBeGreaterThan(0);
+  });
+});
+
 describe('what the team leaves to one thread', () => {
   it('1-D transforms, transforms below the size threshold, and data not in shared memory', async () => {
     expect(await start(2, { minValues: 2 ** 14 })).toBe(2);
@@ -109,9 +135,9 @@ describe('what the team leaves to one thread', () => {
     expect(team.fftTeamFigures().transforms).toBe(1);
   });
 
-  it('errors stay those of one thread (sizes not powers of two, wrong lengths)', async () => {
+  it('errors stay those of one thread (sizes with a prime factor above 5, wrong lengths)', async () => {
     await start(2, { minValues: 16 });
-    expect(() => teamEngine.fft2(new Float64Array(new SharedArrayBuffer(8 * 2 * 12 * 8)), 12, 8, false)).toThrow(/powers of two/);
+    expect(() => teamEngine.fft2(new Float64Array(new SharedArrayBuffer(8 * 2 * 14 * 8)), 14, 8, false)).toThrow(/no prime factor but 2, 3 and 5/);
     expect(() => teamEngine.fft2(new Float64Array(new SharedArrayBuffer(8 * 30)), 4, 4, false)).toThrow(/values for a 4×4/);
   });
 

@@ -37,8 +37,10 @@ const CASES: [string, string, CaseSpec][] = [
   ['far-field formula, disc (radial line) and its far-field search', 'fraunhofer two-d', { wavelength: 633 * nm, distance: 1, aperture: { shape: 'circle', diameter: 50 * um, opaque: false }, method: 'fraunhofer' }],
   ['far-field formula, tilted disc (spectrum table)', 'fraunhofer two-d', { wavelength: 633 * nm, distance: 0.05, aperture: { shape: 'circle', diameter: 20 * um, opaque: false }, illumination: plane([0.2, 0]), method: 'fraunhofer' }],
   ['far-field formula on a given coarse grid', 'fraunhofer two-d', { wavelength: 633 * nm, distance: 1, aperture: { shape: 'circle', diameter: 40 * um, opaque: false }, grid: { size: 64, pitch: 2 * um }, method: 'fraunhofer' }],
-  ['Fresnel direct sums, rectangle', 'fresnel/direct separable', { wavelength: 633 * nm, distance: 0.5, aperture: { shape: 'rectangle', width: 1 * mm, height: 0.5 * mm, opaque: false }, method: 'fresnel' }],
-  ['Fresnel transfer function, disc', 'fresnel/transfer-function two-d', { wavelength: 633 * nm, distance: 0.5, aperture: { shape: 'circle', diameter: 1 * mm, opaque: false }, method: 'fresnel' }],
+  // A 1 mm window, where direct sums are cheaper than the single FFT (whose grids need not be powers of two).
+  ['Fresnel direct sums, rectangle', 'fresnel/direct separable', { wavelength: 633 * nm, distance: 0.5, aperture: { shape: 'rectangle', width: 1 * mm, height: 0.5 * mm, opaque: false }, method: 'fresnel', window: [1 * mm, 1 * mm] }],
+  // A grid.size names the transfer-function form (else the single FFT is cheaper here).
+  ['Fresnel transfer function, disc', 'fresnel/transfer-function two-d', { wavelength: 633 * nm, distance: 0.5, aperture: { shape: 'circle', diameter: 1 * mm, opaque: false }, method: 'fresnel', grid: { size: 512 } }],
   ['Fresnel single FFT, annulus', 'fresnel/single-fft two-d', { wavelength: 633 * nm, distance: 0.5, aperture: { shape: 'annulus', outer: 1 * mm, inner: 0.5 * mm, opaque: false } }],
   ['Fresnel single FFT, 1 mm Gaussian beam through a 40 µm × 40 mm rectangle', 'fresnel/single-fft separable', { wavelength: 532 * nm, distance: 2, aperture: { shape: 'rectangle', width: 40 * um, height: 40 * mm, opaque: false }, illumination: gauss(1 * mm) }],
   ['angular spectrum, disc', 'angular-spectrum two-d', { wavelength: 633 * nm, distance: 5 * mm, aperture: { shape: 'circle', diameter: 300 * um, opaque: false }, method: 'angular-spectrum' }],

@@ -3,8 +3,10 @@
 // 128-bit SIMD, two f64 lanes per vector.
 //
 // Every routine works on raw pointers into this module's memory; the JavaScript side lays out the
-// data, the per-size tables (bit-reversal permutation and twiddles, computed there once) and the
-// scratch, and calls in. Complex numbers are split into a real and an imaginary plane.
+// data, the per-size tables (input permutation and twiddles, computed there once: tablesFor in
+// fft-fast.ts) and the scratch, and calls in. Complex numbers are split into a real and an
+// imaginary plane. Sizes n = P·3^b·5^c, P a power of two: radix-4 (and one radix-2) stages make
+// the length-P transforms, then radix-3 stages, then radix-5 stages combine them.
 //
 // The core is `lanes`: W independent transforms of the same length n at once, stored "point-major"
 // (point p of all W transforms is W contiguous f64 at byte p*W*8). Each butterfly loads its
@@ -67,14 +69,13 @@ function firstStage(re: usize, im: usize, n: i32, pb: usize): void {
 }
 
 /**
- * The radix-4 stages of half-size L = from, 4·from, … while 4L ≤ n, over n points. `t` points at
- * the twiddles of stage `from`: for each stage in turn, L records of six f64, w^k, w^2k, w^3k
- * (re, im) with w = e^{-2πi/(4L)}.
+ * The radix-4 stages of half-size L = from, 4·from, … while 4L ≤ P, over the length-P transforms
+ * held one after another in `total` bytes. `t` points at the twiddles of stage `from`: for each
+ * stage in turn, L records of six f64, w^k, w^2k, w^3k (re, im) with w = e^{-2πi/(4L)}.
  */
-function radix4Stages(re: usize, im: usize, n: i32, pb: usize, from: i32, t: usize): void {
-  const total = (<usize>n) * pb;
+function radix4Stages(re: usize, im: usize, total: usize, P: i32, pb: usize, from: i32, t: usize): void {
   let L = from;
-  while (L < n) {
+  while (L < P) {
     const q = (<usize>L) * pb; // bytes from one quarter to the next
     for (let base: usize = 0; base < total; base += q << 2) {
       let tk = t;
@@ -125,32 +126,171 @@ function radix4Stages(re: usize, im: usize, n: i32, pb: usize, from: i32, t: usi
 const CHUNK_BYTES: usize = 16384;
 
 /**
- * W independent length-n transforms at once, in place, input already in bit-reversed point order:
- * radix-4 decimation in time, one radix-2 stage first when log2 n is odd. The early stages run
- * chunk by chunk (a chunk of C points is itself a length-C transform of the same stage pattern, so
- * it stays in L1 through them), the rest over all n points.
+ * W independent length-n transforms at once, in place, input already in the permuted order of the
+ * tables: the power-of-two part P of n by radix-4 decimation in time (one radix-2 stage first when
+ * log2 P is odd), then the radix-3 stages, then the radix-5 ones. The radix-4 stages run chunk by
+ * chunk while they can (a chunk of C points is itself a length-C transform of the same stage
+ * pattern, so it stays in L1 through them), the rest over all n points.
  */
 export function lanes(re: usize, im: usize, n: i32, W: i32, tw: usize): void {
   if (n < 2) return;
   const pb = (<usize>W) << 3;
-  // the largest chunk of the same parity of log2 as n that fits
-  let C = n;
-  while (C > 4 && (<usize>C) * pb * 2 > CHUNK_BYTES) C >>= 2;
-  const first = ctz(n) & 1 ? 2 : 4;
-  const chunkBytes = (<usize>C) * pb;
   const total = (<usize>n) * pb;
-  for (let o: usize = 0; o < total; o += chunkBytes) {
-    firstStage(re + o, im + o, C, pb);
-    radix4Stages(re + o, im + o, C, pb, first, tw);
-  }
-  // twiddles of the stages done so far: 6·(first + 4·first + … ) f64 for stages below C
+  const P = n & -n;
   let t = tw;
-  let L = first;
-  while (L < C) {
-    t += (<usize>L) * 48;
-    L <<= 2;
+  if (P > 1) {
+    // the largest chunk of the same parity of log2 as P that fits
+    let C = P;
+    while (C > 4 && (<usize>C) * pb * 2 > CHUNK_BYTES) C >>= 2;
+    const first = ctz(P) & 1 ? 2 : 4;
+    const chunkBytes = (<usize>C) * pb;
+    for (let o: usize = 0; o < total; o += chunkBytes) {
+      firstStage(re + o, im + o, C, pb);
+      radix4Stages(re + o, im + o, chunkBytes, C, pb, first, tw);
+    }
+    // twiddles of the stages done so far: 6·(first + 4·first + … ) f64 for stages below C
+    let L = first;
+    while (L < C) {
+      t += (<usize>L) * 48;
+      L <<= 2;
+    }
+    radix4Stages(re, im, total, P, pb, L, t);
+    while (L < P) {
+      t += (<usize>L) * 48;
+      L <<= 2;
+    }
   }
-  radix4Stages(re, im, n, pb, L, t);
+  let L = P;
+  let q = n / P;
+  while (q % 3 == 0) {
+    radix3Stage(re, im, total, pb, L, t);
+    t += (<usize>L) * 32;
+    L *= 3;
+    q /= 3;
+  }
+  while (q % 5 == 0) {
+    radix5Stage(re, im, total, pb, L, t);
+    t += (<usize>L) * 64;
+    L *= 5;
+    q /= 5;
+  }
+}
+
+/** sin(π/3), cos(2π/5), cos(4π/5), sin(2π/5), sin(4π/5): the same values as fft-fast.ts computes. */
+const S3: f64 = 0.8660254037844386;
+const C51: f64 = 0.30901699437494745;
+const C52: f64 = -0.8090169943749473;
+const S51: f64 = 0.9510565162951535;
+const S52: f64 = 0.5877852522924732;
+
+/** (xr + i·xi)·(wr + i·wi), real part */
+@inline
+function mulRe(xr: v128, xi: v128, wr: v128, wi: v128): v128 {
+  return f64x2.sub(f64x2.mul(xr, wr), f64x2.mul(xi, wi));
+}
+
+/** (xr + i·xi)·(wr + i·wi), imaginary part */
+@inline
+function mulIm(xr: v128, xi: v128, wr: v128, wi: v128): v128 {
+  return f64x2.add(f64x2.mul(xr, wi), f64x2.mul(xi, wr));
+}
+
+/**
+ * One radix-3 stage over `total` bytes: groups of three length-L transforms become one of length
+ * 3L, y[k + qL] = Σ_m w^{mk} e^{-2πi mq/3} x_m[k], w = e^{-2πi/(3L)}; `t`: L records of (w^k, w^2k).
+ */
+function radix3Stage(re: usize, im: usize, total: usize, pb: usize, L: i32, t: usize): void {
+  const q = (<usize>L) * pb;
+  const s3 = f64x2.splat(S3), half = f64x2.splat(0.5);
+  for (let base: usize = 0; base < total; base += q * 3) {
+    let tk = t;
+    const end = base + q;
+    for (let p = base; p < end; p += pb) {
+      const w1r = f64x2.splat(load<f64>(tk)), w1i = f64x2.splat(load<f64>(tk, 8));
+      const w2r = f64x2.splat(load<f64>(tk, 16)), w2i = f64x2.splat(load<f64>(tk, 24));
+      tk += 32;
+      for (let v: usize = 0; v < pb; v += 16) {
+        const i0 = p + v;
+        const i1 = i0 + q;
+        const i2 = i1 + q;
+        const ar = v128.load(re + i0), ai = v128.load(im + i0);
+        let xr = v128.load(re + i1), xi = v128.load(im + i1);
+        const br = mulRe(xr, xi, w1r, w1i), bi = mulIm(xr, xi, w1r, w1i);
+        xr = v128.load(re + i2);
+        xi = v128.load(im + i2);
+        const cr = mulRe(xr, xi, w2r, w2i), ci = mulIm(xr, xi, w2r, w2i);
+        const sr = f64x2.add(br, cr), si = f64x2.add(bi, ci);
+        const dr = f64x2.sub(br, cr), di = f64x2.sub(bi, ci);
+        const mr = f64x2.sub(ar, f64x2.mul(half, sr)), mi = f64x2.sub(ai, f64x2.mul(half, si));
+        const er = f64x2.mul(s3, dr), ei = f64x2.mul(s3, di);
+        v128.store(re + i0, f64x2.add(ar, sr));
+        v128.store(im + i0, f64x2.add(ai, si));
+        v128.store(re + i1, f64x2.add(mr, ei));
+        v128.store(im + i1, f64x2.sub(mi, er));
+        v128.store(re + i2, f64x2.sub(mr, ei));
+        v128.store(im + i2, f64x2.add(mi, er));
+      }
+    }
+  }
+}
+
+/** One radix-5 stage, as radix3Stage with five length-L transforms; `t`: L records of (w^k … w^4k). */
+function radix5Stage(re: usize, im: usize, total: usize, pb: usize, L: i32, t: usize): void {
+  const q = (<usize>L) * pb;
+  const c1 = f64x2.splat(C51), c2 = f64x2.splat(C52), s1 = f64x2.splat(S51), s2 = f64x2.splat(S52);
+  for (let base: usize = 0; base < total; base += q * 5) {
+    let tk = t;
+    const end = base + q;
+    for (let p = base; p < end; p += pb) {
+      const w1r = f64x2.splat(load<f64>(tk)), w1i = f64x2.splat(load<f64>(tk, 8));
+      const w2r = f64x2.splat(load<f64>(tk, 16)), w2i = f64x2.splat(load<f64>(tk, 24));
+      const w3r = f64x2.splat(load<f64>(tk, 32)), w3i = f64x2.splat(load<f64>(tk, 40));
+      const w4r = f64x2.splat(load<f64>(tk, 48)), w4i = f64x2.splat(load<f64>(tk, 56));
+      tk += 64;
+      for (let v: usize = 0; v < pb; v += 16) {
+        const i0 = p + v;
+        const i1 = i0 + q;
+        const i2 = i1 + q;
+        const i3 = i2 + q;
+        const i4 = i3 + q;
+        const ar = v128.load(re + i0), ai = v128.load(im + i0);
+        let xr = v128.load(re + i1), xi = v128.load(im + i1);
+        const b1r = mulRe(xr, xi, w1r, w1i), b1i = mulIm(xr, xi, w1r, w1i);
+        xr = v128.load(re + i2);
+        xi = v128.load(im + i2);
+        const b2r = mulRe(xr, xi, w2r, w2i), b2i = mulIm(xr, xi, w2r, w2i);
+        xr = v128.load(re + i3);
+        xi = v128.load(im + i3);
+        const b3r = mulRe(xr, xi, w3r, w3i), b3i = mulIm(xr, xi, w3r, w3i);
+        xr = v128.load(re + i4);
+        xi = v128.load(im + i4);
+        const b4r = mulRe(xr, xi, w4r, w4i), b4i = mulIm(xr, xi, w4r, w4i);
+        // sums and differences of the conjugate pairs (1, 4) and (2, 3)
+        const s1r = f64x2.add(b1r, b4r), s1i = f64x2.add(b1i, b4i);
+        const d1r = f64x2.sub(b1r, b4r), d1i = f64x2.sub(b1i, b4i);
+        const s2r = f64x2.add(b2r, b3r), s2i = f64x2.add(b2i, b3i);
+        const d2r = f64x2.sub(b2r, b3r), d2i = f64x2.sub(b2i, b3i);
+        const a1r = f64x2.add(f64x2.add(ar, f64x2.mul(c1, s1r)), f64x2.mul(c2, s2r));
+        const a1i = f64x2.add(f64x2.add(ai, f64x2.mul(c1, s1i)), f64x2.mul(c2, s2i));
+        const a2r = f64x2.add(f64x2.add(ar, f64x2.mul(c2, s1r)), f64x2.mul(c1, s2r));
+        const a2i = f64x2.add(f64x2.add(ai, f64x2.mul(c2, s1i)), f64x2.mul(c1, s2i));
+        const u1r = f64x2.add(f64x2.mul(s1, d1r), f64x2.mul(s2, d2r));
+        const u1i = f64x2.add(f64x2.mul(s1, d1i), f64x2.mul(s2, d2i));
+        const u2r = f64x2.sub(f64x2.mul(s2, d1r), f64x2.mul(s1, d2r));
+        const u2i = f64x2.sub(f64x2.mul(s2, d1i), f64x2.mul(s1, d2i));
+        v128.store(re + i0, f64x2.add(f64x2.add(ar, s1r), s2r));
+        v128.store(im + i0, f64x2.add(f64x2.add(ai, s1i), s2i));
+        v128.store(re + i1, f64x2.add(a1r, u1i));
+        v128.store(im + i1, f64x2.sub(a1i, u1r));
+        v128.store(re + i4, f64x2.sub(a1r, u1i));
+        v128.store(im + i4, f64x2.add(a1i, u1r));
+        v128.store(re + i2, f64x2.add(a2r, u2i));
+        v128.store(im + i2, f64x2.sub(a2i, u2r));
+        v128.store(re + i3, f64x2.sub(a2r, u2i));
+        v128.store(im + i3, f64x2.add(a2i, u2r));
+      }
+    }
+  }
 }
 
 // ---- rows: R rows (R even) at a time, transposed into lanes -------------------------------------
