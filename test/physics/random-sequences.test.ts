@@ -47,33 +47,18 @@ describe(`random planes in sequence against the coaxial Fresnel reference (seed 
   });
 });
 
-describe('cases found silently off by other seeds (kept here, failing, until the planner answers them)', () => {
-  // Both are near-field views of an opening lit by the light of a 'sum' leg whose input lattice
-  // gives about 2 samples per period of that leg's integrand at the lit opening's edge (its chirp
-  // plus the cross term to the far side of the output window); each plane's passed power agrees
-  // with the reference's to 0.2 %, the intensity pattern does not. Moving the screen away shrinks
-  // the error (the fine structure it comes from washes out).
-  const found = [
-    // `random-sequences-report.mjs 30 11`, case 24: a Gaussian beam (w 61.6 µm, λ 1.73 µm) through a
-    // 123 µm opening, 188 mm to a 2.46 mm opening, 1.28 m to a 7.63 mm opening, the screen 624 mm
-    // on (legs sum, sum, spectrum): the axis 2.4 % of the peak above the reference, unwarned.
-    { seed: 11, index: 24 },
-    // `random-sequences-report.mjs 60 20261203`, case 5: a plane wave (λ 390 nm) through a 3.18 mm
-    // opening, 1.33 m to a 1.89 mm opening, the screen 81 mm on (legs sum, spectrum): 5.9 % of the
-    // peak above the reference 20 µm off the axis, unwarned.
-    { seed: 20261203, index: 5 },
-    // `random-sequences-report.mjs 60 777`, case 17: a plane wave (λ 356 nm) through a 571 µm
-    // opening, 114 mm to a 1.75 mm opening, 1.75 m to a 4.52 mm opening, the screen 115 mm on (legs
-    // sum, sum, spectrum): the axis 9.5 % of the peak below the reference, unwarned.
-    { seed: 777, index: 17 },
-  ];
-  for (const f of found) {
-    it.fails(`seed ${f.seed} case ${f.index}: within 2 % of the peak or warned`, () => {
-      const d = drawSequences(f.seed, f.index + 1)[f.index]!;
-      const o = runSequence(d, ACCURACY_CODES);
-      console.log(describeSequenceOutcome(o));
-      expect(o.status).toBe('compared');
-      expect(isSequenceFailure(o, 0.02)).toBe(false);
-    });
-  }
+describe('cases other seeds found silently off, now within 2 % of the peak', () => {
+  // Near-field views of an opening lit by a 'sum' leg that sampled the hard-edged opening before it
+  // at 2 samples per period of its integrand: each plane's passed power agreed with the reference's
+  // to 0.2 %, the pattern was 2.4–9.5 % off. Sums from a plane with edges in the light now take 4
+  // (plan/sequence.ts EDGE_SUM_OVERSAMPLING): measured 0.42 %, 0.45 % and 0.44 % of the peak
+  // (`SPOTCAST_SEQUENCE_WORK=3e10 node test/physics/random-sequences-report.mjs 30 11`, `… 60
+  // 20261203`, `… 60 777`: cases 24, 5 and 17). The last two are over this test's work bound and
+  // are checked by those commands only; the first runs here.
+  it('seed 11 case 24 (a Gaussian beam through 123 µm, 2.46 mm and 7.63 mm openings): within 2 % of the peak or warned', () => {
+    const d = drawSequences(11, 25)[24]!;
+    const o = runSequence(d, ACCURACY_CODES);
+    expect(o.status).toBe('compared');
+    expect(isSequenceFailure(o, 0.02)).toBe(false);
+  });
 });
