@@ -119,8 +119,10 @@ function validate(p: PictureInput): void {
   if (problem) throw new RangeError(`picture: ${problem}`);
   const d = p.logDecades ?? 5;
   if (!Number.isFinite(d) || d <= 0) throw new RangeError(`picture: logDecades must be > 0, got ${d}`);
-  for (const v of p.map.intensity) {
-    if (!Number.isFinite(v) || v < 0) throw new RangeError(`picture: intensity values must be finite and >= 0, found ${v}`);
+  const values = p.map.intensity;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (!(v >= 0 && v < Infinity)) throw new RangeError(`picture: intensity values must be finite and >= 0, found ${v}`);
   }
 }
 
@@ -148,8 +150,7 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   if (title) drawText(base, MARGIN, MARGIN, title, TEXT, titleScale);
 
   const shown = resampleForDisplay(input, disp.w, disp.h);
-  let peak = 0;
-  for (const v of p.map.intensity) if (v > peak) peak = v;
+  const peak = peakOf(p.map.intensity);
   const decades = p.logDecades ?? 5;
 
   // Normalised to the peak of the data, not of the resampled view: the label
@@ -169,12 +170,7 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   ];
 
   // Table levels of every panel pixel, one array per view, shared by all the scales.
-  const levels = views.map((view, k) => {
-    const panel = layout.panels[k]!;
-    const out = new Uint8Array(shown.length);
-    for (let i = 0; i < shown.length; i++) out[i] = lutLevel(view.map(shown[i]!), panel.x + (i % disp.w), panel.y + Math.floor(i / disp.w));
-    return out;
-  });
+  const levels = views.map((view, k) => viewLevels(shown, view.map, layout.panels[k]!));
 
   // Everything around the panels and colour bars is the same in every scale: drawn once. (None of
   // it reaches inside a panel or a colour bar, which are painted per scale below.)
@@ -211,6 +207,19 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
     }
     return encodePng(img);
   });
+}
+
+function peakOf(values: Float64Array): number {
+  let peak = 0;
+  for (let i = 0; i < values.length; i++) if (values[i]! > peak) peak = values[i]!;
+  return peak;
+}
+
+/** Table levels of a panel's display pixels under a view's mapping. */
+function viewLevels(shown: Float64Array, map: (v: number) => number, panel: Rect): Uint8Array {
+  const out = new Uint8Array(shown.length);
+  for (let i = 0; i < shown.length; i++) out[i] = lutLevel(map(shown[i]!), panel.x + (i % panel.w), panel.y + Math.floor(i / panel.w));
+  return out;
 }
 
 /** The colour table's level for t (clamped to [0, 1]), as putLut picks it. */
@@ -265,21 +274,25 @@ function resampleForDisplay(p: PictureInput, w: number, h: number): Float64Array
   const { intensity: src, ny: rows, nx: cols } = p.map;
   const wx = axisWeights(cols, w);
   const tmp = new Float64Array(rows * w);
+  const { start, index, weight } = wx;
   for (let r = 0; r < rows; r++) {
     const row = r * cols;
     for (let o = 0; o < w; o++) {
       let s = 0;
-      for (let q = wx.start[o]!; q < wx.start[o + 1]!; q++) s += wx.weight[q]! * src[row + wx.index[q]!]!;
+      const end = start[o + 1]!;
+      for (let q = start[o]!; q < end; q++) s += weight[q]! * src[row + index[q]!]!;
       tmp[r * w + o] = s;
     }
   }
   const wy = axisWeights(rows, h);
   const out = new Float64Array(h * w);
   for (let o = 0; o < h; o++) {
-    for (let q = wy.start[o]!; q < wy.start[o + 1]!; q++) {
+    const end = wy.start[o + 1]!;
+    const to = o * w;
+    for (let q = wy.start[o]!; q < end; q++) {
       const wt = wy.weight[q]!;
       const from = wy.index[q]! * w;
-      for (let x = 0; x < w; x++) out[o * w + x]! += wt * tmp[from + x]!;
+      for (let x = 0; x < w; x++) out[to + x]! += wt * tmp[from + x]!;
     }
   }
   return out;
