@@ -153,16 +153,10 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   const peak = peakOf(p.map.intensity);
   const decades = p.logDecades ?? 5;
 
-  // Normalised to the peak of the data, not of the resampled view: the label
-  // then states the true peak, and a resampled view shows what a coarser
-  // detector would see relative to it.
-  const toLinear = (v: number): number => (peak > 0 ? v / peak : 0);
-  const toLog = (v: number): number => (peak > 0 && v > 0 ? 1 + Math.log10(v / peak) / decades : 0);
 
   const views = [
-    { map: toLinear, label: 'linear', ticks: [{ t: 0, text: '0' }, { t: 1, text: compact(peak) }], caption: `relative irradiance, peak ${compact(peak)}` },
+    { label: 'linear', ticks: [{ t: 0, text: '0' }, { t: 1, text: compact(peak) }], caption: `relative irradiance, peak ${compact(peak)}` },
     {
-      map: toLog,
       label: 'log10, relative to peak',
       ticks: logTicks(decades, layout.colourBars[1].w),
       caption: peak > 0 ? `spans ${fmtDecades(decades)} below peak` : 'peak 0: nothing to show',
@@ -170,7 +164,7 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   ];
 
   // Table levels of every panel pixel, one array per view, shared by all the scales.
-  const levels = views.map((view, k) => viewLevels(shown, view.map, layout.panels[k]!));
+  const levels = [viewLevels(shown, 'linear', peak, decades, layout.panels[0]), viewLevels(shown, 'log', peak, decades, layout.panels[1])];
 
   // Everything around the panels and colour bars is the same in every scale: drawn once. (None of
   // it reaches inside a panel or a colour bar, which are painted per scale below.)
@@ -215,10 +209,22 @@ function peakOf(values: Float64Array): number {
   return peak;
 }
 
-/** Table levels of a panel's display pixels under a view's mapping. */
-function viewLevels(shown: Float64Array, map: (v: number) => number, panel: Rect): Uint8Array {
+/**
+ * Table levels of a panel's display pixels in the linear view (v / peak) or the log view
+ * (1 + log10(v / peak) / decades, 0 where v is 0). Normalised to the peak of the data, not of the
+ * resampled view: the label then states the true peak, and a resampled view shows what a coarser
+ * detector would see relative to it.
+ */
+function viewLevels(shown: Float64Array, view: 'linear' | 'log', peak: number, decades: number, panel: Rect): Uint8Array {
   const out = new Uint8Array(shown.length);
-  for (let i = 0; i < shown.length; i++) out[i] = lutLevel(map(shown[i]!), panel.x + (i % panel.w), panel.y + Math.floor(i / panel.w));
+  const top = LUT_LEVELS - 1;
+  for (let i = 0; i < shown.length; i++) {
+    const v = shown[i]!;
+    const t = view === 'linear' ? (peak > 0 ? v / peak : 0) : peak > 0 && v > 0 ? 1 + Math.log10(v / peak) / decades : 0;
+    // A NaN here would index past the table and quietly paint black; it is a bug upstream, so say so.
+    if (Number.isNaN(t)) throw new Error(`picture: NaN colour value at (${panel.x + (i % panel.w)}, ${panel.y + Math.floor(i / panel.w)})`);
+    out[i] = Math.round(Math.min(1, Math.max(0, t)) * top);
+  }
   return out;
 }
 
