@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 // spotcast benchmarks (not tests): wall-clock timings, printed as a table, or as JSON with --json.
 // Runs against the built program (npm run build first; `npm run bench` does).
-//   node bench/run.mjs [--json] [--only workers]
+//   node bench/run.mjs [--json] [--only workers|overhead]
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir, availableParallelism, cpus } from 'node:os';
 import { join } from 'node:path';
@@ -34,6 +34,7 @@ function timer() {
       jobEnd() {},
     },
     result: () => ({ cases: n, seconds: (last - first) / 1000 }),
+    lastDone: () => last,
   };
 }
 
@@ -69,7 +70,73 @@ aperture: {shape: circle, diameter: 50 um}
   rows.push({ name: 'speed-up of 2 workers over 1 (cases per second)', median: ratio, unit: '×', extra: 'target ≥ 1.8' });
 }
 
+// What a case costs outside its propagation (targets, issue 12: at most the propagation of a 512²
+// case, and 30 ms for a small far-field case): the case's analysis (runPlannedCase less a
+// computeCase of the same plan) and the writing of its folder (pictures, .npy, CSVs, result.json,
+// record.json). Each repetition is a different distance, so no case repeats another's analysis.
+async function overheadRow() {
+  const { expandJob } = await import('../dist/src/job/expand.js');
+  const { planCase } = await import('../dist/src/plan/planner.js');
+  const { createEngine } = await import('../dist/src/kernels.js');
+  const { newCaseContext } = await import('../dist/src/run/context.js');
+  const { runPlannedCase } = await import('../dist/src/run/run-case.js');
+  const { computeCase } = await import('../dist/src/run/compute.js');
+  const { writeCase } = await import('../dist/src/output/case-output.js');
+  const median = (a) => a.slice().sort((x, y) => x - y)[a.length >> 1];
+  const kinds = [
+    ['small far-field case (50 µm pinhole, 0.5–2 m)', 'distance: {from: 0.5 m, to: 2 m, count: 7}\naperture: {shape: circle, diameter: 50 um}'],
+    ['512² case (1 mm disc, angular spectrum, 20–40 mm)', 'distance: {from: 20 mm, to: 40 mm, count: 7}\naperture: {shape: circle, diameter: 1 mm}\ngrid: {size: 512}'],
+  ];
+  for (const [name, body] of kinds) {
+    const cases = expandJob(parseJobText(`name: bench-overhead\nwavelength: 633 nm\n${body}\n`).spec);
+    const ctx = newCaseContext(createEngine());
+    const dir = await mkdtemp(join(tmpdir(), 'spotcast-bench-'));
+    const prop = [], analysis = [], write = [];
+    let shape = '';
+    for (const c of cases) {
+      const plan = planCase(c);
+      // Once to fill what the context keeps between cases (a sweep's source spectrum), so that the
+      // timed propagation and the one inside runPlannedCase do the same work.
+      computeCase(plan, ctx);
+      let t = performance.now();
+      computeCase(plan, ctx);
+      const tc = performance.now() - t;
+      t = performance.now();
+      const rec = runPlannedCase(plan, ctx);
+      const tr = performance.now() - t;
+      t = performance.now();
+      await writeCase(dir, rec);
+      write.push(performance.now() - t);
+      prop.push(tc);
+      analysis.push(Math.max(0, tr - tc));
+      shape = `${rec.computed.ny}×${rec.computed.nx} ${plan.method}`;
+    }
+    await rm(dir, { recursive: true, force: true });
+    const over = median(analysis) + median(write);
+    rows.push({
+      name: `outside the propagation, ${name}`,
+      median: over / 1000,
+      unit: 's per case',
+      extra: `${shape}: analysis ${median(analysis).toFixed(1)} ms + files ${median(write).toFixed(1)} ms; propagation ${median(prop).toFixed(1)} ms`,
+    });
+  }
+  // The job-level report (summary CSV, plots, contact sheet, report.html) of a 100-case sweep: from
+  // the last case's end to runJob's return.
+  const job = parseJobText(`name: bench-report
+wavelength: 633 nm
+distance: {from: 10 mm, to: 2 m, count: 100, spacing: log}
+aperture: {shape: circle, diameter: 50 um}
+`);
+  const dir = await mkdtemp(join(tmpdir(), 'spotcast-bench-'));
+  const t = timer();
+  await runJob(job, { outDir: dir, workers: 2, reporter: t.reporter });
+  const reportSeconds = (performance.now() - t.lastDone()) / 1000;
+  await rm(dir, { recursive: true, force: true });
+  rows.push({ name: 'job report of a 100-case sweep', median: reportSeconds, unit: 's', extra: 'target < 2 s' });
+}
+
 if (!only || only === 'workers') await workersRow();
+if (!only || only === 'overhead') await overheadRow();
 
 if (json) {
   console.log(JSON.stringify({ node: process.version, cores: availableParallelism(), cpu: cpus()[0]?.model, rows }, null, 2));

@@ -18,6 +18,32 @@ function subdivision(map: IntensityMap): number {
 }
 
 export function energyCurve(map: IntensityMap, centre: [number, number], reference: number, points = 400): EnergyCurve {
+  const key = [map.nx, map.ny, map.dx, map.dy, map.x0, map.y0, centre[0], centre[1], reference, points].join(' ');
+  const hit = lastCurve && lastCurve.key === key && sameValues(lastCurve.values, map.intensity) ? lastCurve.curve : null;
+  const curve = hit ?? computeEnergyCurve(map, centre, reference, points);
+  if (!hit) lastCurve = map.intensity.length <= MEMO_MAX_SAMPLES ? { key, values: map.intensity.slice(), curve } : null;
+  // Copies: a caller may write into what it gets without touching the memo.
+  return { radius: curve.radius.slice(), fraction: curve.fraction.slice() };
+}
+
+/**
+ * The last curve computed, with a copy of the values it came from. A case reads its curve about
+ * the centroid, and its verdicts (analysis/verdict.ts spotSize) then ask for the same curve of the
+ * same map again; the memo answers that second call after comparing every value (a tenth or so of
+ * the cost of the curve, which takes 16 square roots a sample), so an answer is never stale. Maps
+ * above MEMO_MAX_SAMPLES (8 MB of values) are not kept.
+ */
+let lastCurve: { key: string; values: Float64Array; curve: EnergyCurve } | null = null;
+const MEMO_MAX_SAMPLES = 1 << 20;
+
+function sameValues(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  // Value by value (NaN never equals itself, so a map holding one is computed again).
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+function computeEnergyCurve(map: IntensityMap, centre: [number, number], reference: number, points: number): EnergyCurve {
   const s = subdivision(map);
   const dx = map.dx;
   const oneD = isOneD(map);
@@ -29,32 +55,8 @@ export function energyCurve(map: IntensityMap, centre: [number, number], referen
   for (const x of xs) for (const y of ys) rMax = Math.max(rMax, Math.hypot(x - centre[0], oneD ? 0 : y - centre[1]));
   const bins = Math.max(points, 16);
   const binWidth = rMax / bins;
-  const hist = new Float64Array(bins + 1);
   const cell = (oneD ? dx : dx * dy) / (oneD ? s : s * s);
-  // Sub-cell offsets from a sample's centre (Math.sqrt, not Math.hypot: this loop is hot).
-  const offX = Array.from({ length: s }, (_, i) => ((i + 0.5) / s - 0.5) * dx);
-  const offY = oneD ? [0] : Array.from({ length: s }, (_, j) => ((j + 0.5) / s - 0.5) * dy);
-  const inv = 1 / binWidth;
-  for (let r = 0; r < map.ny; r++) {
-    const y0 = oneD ? 0 : map.y0 + r * dy - centre[1];
-    for (let c = 0; c < map.nx; c++) {
-      const v = map.intensity[r * map.nx + c]! * cell;
-      if (v === 0) continue;
-      const x0 = map.x0 + c * dx - centre[0];
-      for (let i = 0; i < s; i++) {
-        const x = x0 + offX[i]!;
-        if (oneD) {
-          hist[Math.min(bins, Math.floor(Math.abs(x) * inv))]! += v;
-          continue;
-        }
-        const x2 = x * x;
-        for (let j = 0; j < s; j++) {
-          const y = y0 + offY[j]!;
-          hist[Math.min(bins, Math.floor(Math.sqrt(x2 + y * y) * inv))]! += v;
-        }
-      }
-    }
-  }
+  const hist = oneD ? lineHistogram(map, centre[0], bins, binWidth, cell, s) : discHistogram(map, centre, bins, binWidth, cell, s);
   const radius = new Float64Array(bins + 1);
   const fraction = new Float64Array(bins + 1);
   let acc = 0;
@@ -66,6 +68,59 @@ export function energyCurve(map: IntensityMap, centre: [number, number], referen
     fraction[k + 1] = acc / reference;
   }
   return { radius, fraction };
+}
+
+/** Sub-cell offsets from a sample's centre, for s sub-cells across a pitch. */
+function subOffsets(s: number, pitch: number): Float64Array {
+  return Float64Array.from({ length: s }, (_, i) => ((i + 0.5) / s - 0.5) * pitch);
+}
+
+/**
+ * The power of the sub-cells by radius bin (the last bin holds everything beyond). Hot: the
+ * sub-cells are visited sample by sample, x then y, and every sum is taken in that order, so the
+ * curve does not depend on how the loop is written; y² is taken once per row.
+ */
+function discHistogram(map: IntensityMap, centre: [number, number], bins: number, binWidth: number, cell: number, s: number): Float64Array {
+  const { nx, ny, dx, dy, intensity } = map;
+  const hist = new Float64Array(bins + 1);
+  const offX = subOffsets(s, dx);
+  const offY = subOffsets(s, dy);
+  const yy = new Float64Array(s);
+  const inv = 1 / binWidth;
+  for (let r = 0; r < ny; r++) {
+    const y0 = map.y0 + r * dy - centre[1];
+    for (let j = 0; j < s; j++) {
+      const y = y0 + offY[j]!;
+      yy[j] = y * y;
+    }
+    const row = r * nx;
+    for (let c = 0; c < nx; c++) {
+      const v = intensity[row + c]! * cell;
+      if (v === 0) continue;
+      const x0 = map.x0 + c * dx - centre[0];
+      for (let i = 0; i < s; i++) {
+        const x = x0 + offX[i]!;
+        const x2 = x * x;
+        for (let j = 0; j < s; j++) hist[Math.min(bins, Math.floor(Math.sqrt(x2 + yy[j]!) * inv))]! += v;
+      }
+    }
+  }
+  return hist;
+}
+
+/** The 1-D counterpart of discHistogram: power by half-width bin about the centre line x = cx. */
+function lineHistogram(map: IntensityMap, cx: number, bins: number, binWidth: number, cell: number, s: number): Float64Array {
+  const { nx, dx, intensity } = map;
+  const hist = new Float64Array(bins + 1);
+  const offX = subOffsets(s, dx);
+  const inv = 1 / binWidth;
+  for (let c = 0; c < nx; c++) {
+    const v = intensity[c]! * cell;
+    if (v === 0) continue;
+    const x0 = map.x0 + c * dx - cx;
+    for (let i = 0; i < s; i++) hist[Math.min(bins, Math.floor(Math.abs(x0 + offX[i]!) * inv))]! += v;
+  }
+  return hist;
 }
 
 /** Smallest radius holding the given fraction (linear interpolation), null if never reached. */

@@ -17,7 +17,7 @@ import type { ComputedCase } from '../run/compute.js';
 import { safeJoin, writeError } from './atomic.js';
 import { toCsv } from './csv.js';
 import { encodeNpy } from './npy.js';
-import { renderIntensityPng } from './picture.js';
+import { renderIntensityPngs } from './picture.js';
 import { TOOL_NAME, TOOL_VERSION } from '../version.js';
 import { metricDefinitions } from '../metrics/registry.js';
 import type { LensStrehl } from '../metrics/strehl.js';
@@ -337,8 +337,9 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
       logDecades: plan.case.output.logDecades,
       title: caseTitle(plan),
     };
-    await put(CASE_FILES.picture, renderIntensityPng({ ...picture, scale: 'shoal' }));
-    await put(CASE_FILES.pictureGray, renderIntensityPng({ ...picture, scale: 'gray' }));
+    const [shoal, gray] = renderIntensityPngs(picture, ['shoal', 'gray']);
+    await put(CASE_FILES.picture, shoal!);
+    await put(CASE_FILES.pictureGray, gray!);
     await put(CASE_FILES.result, JSON.stringify(resultJson(rec), jsonNumbers, 2) + '\n');
     const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION, files };
     await put(CASE_FILES.record, JSON.stringify(stored, jsonNumbers) + '\n');

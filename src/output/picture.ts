@@ -4,7 +4,7 @@
 
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from './font.js';
 import { gray, shoal, type ColourScale } from './colour-scales.js';
-import { buildLut, encodePng, fillRect, frame, putLut, type Rect } from './raster.js';
+import { buildLut, encodePng, fillRect, frame, LUT_LEVELS, type Rect } from './raster.js';
 import { isOneD } from '../model/grid.js';
 import { mapProblem, type IntensityMap } from '../model/intensity-map.js';
 
@@ -119,8 +119,10 @@ function validate(p: PictureInput): void {
   if (problem) throw new RangeError(`picture: ${problem}`);
   const d = p.logDecades ?? 5;
   if (!Number.isFinite(d) || d <= 0) throw new RangeError(`picture: logDecades must be > 0, got ${d}`);
-  for (const v of p.map.intensity) {
-    if (!Number.isFinite(v) || v < 0) throw new RangeError(`picture: intensity values must be finite and >= 0, found ${v}`);
+  const values = p.map.intensity;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (!(v >= 0 && v < Infinity)) throw new RangeError(`picture: intensity values must be finite and >= 0, found ${v}`);
   }
 }
 
@@ -130,64 +132,122 @@ export function layoutPicture(p: PictureInput): PictureLayout {
 }
 
 export function renderIntensityPng(p: PictureInput): Buffer {
-  validate(p);
-  const disp = displaySize(p);
-  const { layout, title, titleScale, slotX, slotW } = plan(p, disp);
-  const img: RgbImage = { width: layout.width, height: layout.height, data: new Uint8Array(layout.width * layout.height * 3) };
-  fillRect(img, { x: 0, y: 0, w: img.width, h: img.height }, BACKGROUND);
-  if (title) drawText(img, MARGIN, MARGIN, title, TEXT, titleScale);
+  return renderIntensityPngs(p, [p.scale])[0]!;
+}
 
-  const shown = resampleForDisplay(p, disp.w, disp.h);
-  let peak = 0;
-  for (const v of p.map.intensity) if (v > peak) peak = v;
+/**
+ * The picture in several colour scales at once (a case writes shoal and gray): the map is
+ * resampled, normalised and drawn around once, and only the panels and colour bars are painted
+ * per scale. Each picture is the one renderIntensityPng draws for that scale.
+ */
+export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: readonly ScaleName[]): Buffer[] {
+  const input: PictureInput = { ...p, scale: scales[0] ?? 'gray' };
+  validate(input);
+  const disp = displaySize(input);
+  const { layout, title, titleScale, slotX, slotW } = plan(input, disp);
+  const base: RgbImage = { width: layout.width, height: layout.height, data: new Uint8Array(layout.width * layout.height * 3) };
+  fillRect(base, { x: 0, y: 0, w: base.width, h: base.height }, BACKGROUND);
+  if (title) drawText(base, MARGIN, MARGIN, title, TEXT, titleScale);
+
+  const shown = resampleForDisplay(input, disp.w, disp.h);
+  const peak = peakOf(p.map.intensity);
   const decades = p.logDecades ?? 5;
-  const lut = buildLut(SCALES[p.scale]);
 
-  // Normalised to the peak of the data, not of the resampled view: the label
-  // then states the true peak, and a resampled view shows what a coarser
-  // detector would see relative to it.
-  const toLinear = (v: number): number => (peak > 0 ? v / peak : 0);
-  const toLog = (v: number): number => (peak > 0 && v > 0 ? 1 + Math.log10(v / peak) / decades : 0);
 
   const views = [
-    { map: toLinear, label: 'linear', ticks: [{ t: 0, text: '0' }, { t: 1, text: compact(peak) }], caption: `relative irradiance, peak ${compact(peak)}` },
+    { label: 'linear', ticks: [{ t: 0, text: '0' }, { t: 1, text: compact(peak) }], caption: `relative irradiance, peak ${compact(peak)}` },
     {
-      map: toLog,
       label: 'log10, relative to peak',
       ticks: logTicks(decades, layout.colourBars[1].w),
       caption: peak > 0 ? `spans ${fmtDecades(decades)} below peak` : 'peak 0: nothing to show',
     },
   ];
 
+  // Table levels of every panel pixel, one array per view, shared by all the scales.
+  const levels = [viewLevels(shown, 'linear', peak, decades, layout.panels[0]), viewLevels(shown, 'log', peak, decades, layout.panels[1])];
+
+  // Everything around the panels and colour bars is the same in every scale: drawn once. (None of
+  // it reaches inside a panel or a colour bar, which are painted per scale below.)
   views.forEach((view, k) => {
     const panel = layout.panels[k]!;
     const cbar = layout.colourBars[k]!;
-    drawText(img, slotX[k]!, panel.y - 1 - LABEL_GAP - CELL_H * LABEL_SCALE, view.label, TEXT, LABEL_SCALE);
-    frame(img, panel, FRAME);
-    for (let y = 0; y < panel.h; y++) {
-      for (let x = 0; x < panel.w; x++) {
-        putLut(img, panel.x + x, panel.y + y, lut, view.map(shown[y * panel.w + x]!));
-      }
-    }
-    drawScaleBar(img, panel, p.map.nx * p.map.dx);
-
-    frame(img, cbar, FRAME);
-    for (let x = 0; x < cbar.w; x++) {
-      const t = cbar.w > 1 ? x / (cbar.w - 1) : 1;
-      for (let y = 0; y < cbar.h; y++) putLut(img, cbar.x + x, cbar.y + y, lut, t);
-    }
+    drawText(base, slotX[k]!, panel.y - 1 - LABEL_GAP - CELL_H * LABEL_SCALE, view.label, TEXT, LABEL_SCALE);
+    frame(base, panel, FRAME);
+    drawScaleBar(base, panel, p.map.nx * p.map.dx);
+    frame(base, cbar, FRAME);
     const labelY = cbar.y + cbar.h + 1 + TICK_LABEL_GAP;
     for (const tick of view.ticks) {
       const tx = cbar.x + Math.round(tick.t * (cbar.w - 1));
-      fillRect(img, { x: tx, y: cbar.y + cbar.h + 1, w: 1, h: 3 }, TEXT);
+      fillRect(base, { x: tx, y: cbar.y + cbar.h + 1, w: 1, h: 3 }, TEXT);
       const w = textWidth(tick.text);
       const lx = Math.min(Math.max(tx - Math.floor(w / 2), slotX[k]!), slotX[k]! + slotW - w);
-      drawText(img, lx, labelY, tick.text, TEXT);
+      drawText(base, lx, labelY, tick.text, TEXT);
     }
-    drawText(img, slotX[k]!, labelY + CELL_H + 6, view.caption, TEXT);
+    drawText(base, slotX[k]!, labelY + CELL_H + 6, view.caption, TEXT);
+  });
+  const barLevels = layout.colourBars.map((cbar) => {
+    const out = new Uint8Array(cbar.w);
+    for (let x = 0; x < cbar.w; x++) out[x] = lutLevel(cbar.w > 1 ? x / (cbar.w - 1) : 1, cbar.x + x, cbar.y);
+    return out;
   });
 
-  return encodePng(img);
+  return scales.map((scale) => {
+    const lut = buildLut(SCALES[scale]);
+    const img: RgbImage = { width: base.width, height: base.height, data: base.data.slice() };
+    for (let k = 0; k < 2; k++) {
+      const panel = layout.panels[k]!;
+      paintLevels(img, panel, levels[k]!, panel.w, lut);
+      paintLevels(img, layout.colourBars[k]!, barLevels[k]!, 0, lut);
+    }
+    return encodePng(img);
+  });
+}
+
+function peakOf(values: Float64Array): number {
+  let peak = 0;
+  for (let i = 0; i < values.length; i++) if (values[i]! > peak) peak = values[i]!;
+  return peak;
+}
+
+/**
+ * Table levels of a panel's display pixels in the linear view (v / peak) or the log view
+ * (1 + log10(v / peak) / decades, 0 where v is 0). Normalised to the peak of the data, not of the
+ * resampled view: the label then states the true peak, and a resampled view shows what a coarser
+ * detector would see relative to it.
+ */
+function viewLevels(shown: Float64Array, view: 'linear' | 'log', peak: number, decades: number, panel: Rect): Uint8Array {
+  const out = new Uint8Array(shown.length);
+  const top = LUT_LEVELS - 1;
+  for (let i = 0; i < shown.length; i++) {
+    const v = shown[i]!;
+    const t = view === 'linear' ? (peak > 0 ? v / peak : 0) : peak > 0 && v > 0 ? 1 + Math.log10(v / peak) / decades : 0;
+    // A NaN here would index past the table and quietly paint black; it is a bug upstream, so say so.
+    if (Number.isNaN(t)) throw new Error(`picture: NaN colour value at (${panel.x + (i % panel.w)}, ${panel.y + Math.floor(i / panel.w)})`);
+    out[i] = Math.round(Math.min(1, Math.max(0, t)) * top);
+  }
+  return out;
+}
+
+/** The colour table's level for t (clamped to [0, 1]), as putLut picks it. */
+function lutLevel(t: number, x: number, y: number): number {
+  // A NaN here would index past the table and quietly paint black; it is a bug upstream, so say so.
+  if (Number.isNaN(t)) throw new Error(`picture: NaN colour value at (${x}, ${y})`);
+  return Math.round(Math.min(1, Math.max(0, t)) * (LUT_LEVELS - 1));
+}
+
+/** Paints rect r from table levels, row y at levels[y·rowStep + x] (rowStep 0: every row alike). */
+function paintLevels(img: RgbImage, r: Rect, levels: Uint8Array, rowStep: number, lut: Uint8Array): void {
+  const d = img.data;
+  for (let y = 0; y < r.h; y++) {
+    let i = ((r.y + y) * img.width + r.x) * 3;
+    const row = y * rowStep;
+    for (let x = 0; x < r.w; x++, i += 3) {
+      const k = levels[row + x]! * 3;
+      d[i] = lut[k]!;
+      d[i + 1] = lut[k + 1]!;
+      d[i + 2] = lut[k + 2]!;
+    }
+  }
 }
 
 /** Peak and tick values: three significant digits, exponent form outside 0.01..1000. */
@@ -220,40 +280,63 @@ function resampleForDisplay(p: PictureInput, w: number, h: number): Float64Array
   const { intensity: src, ny: rows, nx: cols } = p.map;
   const wx = axisWeights(cols, w);
   const tmp = new Float64Array(rows * w);
+  const { start, index, weight } = wx;
   for (let r = 0; r < rows; r++) {
+    const row = r * cols;
     for (let o = 0; o < w; o++) {
       let s = 0;
-      for (const [i, wt] of wx[o]!) s += wt * src[r * cols + i]!;
+      const end = start[o + 1]!;
+      for (let q = start[o]!; q < end; q++) s += weight[q]! * src[row + index[q]!]!;
       tmp[r * w + o] = s;
     }
   }
   const wy = axisWeights(rows, h);
   const out = new Float64Array(h * w);
   for (let o = 0; o < h; o++) {
-    for (const [i, wt] of wy[o]!) {
-      for (let x = 0; x < w; x++) out[o * w + x]! += wt * tmp[i * w + x]!;
+    const end = wy.start[o + 1]!;
+    const to = o * w;
+    for (let q = wy.start[o]!; q < end; q++) {
+      const wt = wy.weight[q]!;
+      const from = wy.index[q]! * w;
+      for (let x = 0; x < w; x++) out[to + x]! += wt * tmp[from + x]!;
     }
   }
   return out;
 }
 
-function axisWeights(n: number, m: number): [number, number][][] {
-  const out: [number, number][][] = [];
+/** Each display pixel o's data pixels index[start[o]..start[o+1]) and their weights. */
+interface AxisWeights {
+  start: Int32Array;
+  index: Int32Array;
+  weight: Float64Array;
+}
+
+function axisWeights(n: number, m: number): AxisWeights {
+  const start = new Int32Array(m + 1);
   const step = n / m;
+  // Shrinking: a display pixel covers at most ceil(step) + 1 data pixels.
+  const cap = m >= n ? m : m * (Math.ceil(step) + 1);
+  const index = new Int32Array(cap);
+  const weight = new Float64Array(cap);
+  let q = 0;
   for (let o = 0; o < m; o++) {
+    start[o] = q;
     if (m >= n) {
-      out.push([[Math.min(n - 1, Math.floor((o + 0.5) * step)), 1]]);
+      index[q] = Math.min(n - 1, Math.floor((o + 0.5) * step));
+      weight[q++] = 1;
       continue;
     }
     const a = o * step, b = (o + 1) * step;
-    const list: [number, number][] = [];
     for (let i = Math.floor(a); i < Math.min(n, Math.ceil(b)); i++) {
       const overlap = Math.min(b, i + 1) - Math.max(a, i);
-      if (overlap > 0) list.push([i, overlap / step]);
+      if (overlap > 0) {
+        index[q] = i;
+        weight[q++] = overlap / step;
+      }
     }
-    out.push(list);
   }
-  return out;
+  start[m] = q;
+  return { start, index, weight };
 }
 
 /** A round length (1, 2 or 5 ×10^k) near a fifth of the panel, drawn under its left edge. */

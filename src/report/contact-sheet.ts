@@ -6,7 +6,7 @@
 import { CELL_H, CELL_W, drawText, textWidth, type Colour, type RgbImage } from '../output/font.js';
 import { escapeControl, safeEcho } from '../safe-text.js';
 import { shoal } from '../output/colour-scales.js';
-import { buildLut, encodePng, fillRect, frame, putLut, type Rect } from '../output/raster.js';
+import { buildLut, encodePng, fillRect, frame, LUT_LEVELS, putLut, type Rect } from '../output/raster.js';
 import { formatLength } from '../job/units.js';
 import { isOneD } from '../model/grid.js';
 import { mapProblem, type IntensityMap } from '../model/intensity-map.js';
@@ -179,16 +179,10 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
     const slotX = r.x - Math.floor((pl.slotW - r.w) / 2);
     pl.labelLines[i]!.forEach((line, k) => drawText(img, slotX, r.y - 1 - pl.labelLines[i]!.length * LINE + k * LINE, line, TEXT));
     frame(img, r, FRAME);
+    const values = t.map.intensity;
     let peak = 0;
-    for (const v of t.map.intensity) if (v > peak) peak = v;
-    const view = resample(t, H, r.w);
-    for (let y = 0; y < r.h; y++) {
-      for (let x = 0; x < r.w; x++) {
-        const v = view[y * r.w + x]!;
-        if (Number.isNaN(v)) continue; // outside the tile's data: leave the background
-        putLut(img, r.x + x, r.y + y, lut, peak > 0 ? v / peak : 0);
-      }
-    }
+    for (let k = 0; k < values.length; k++) if (values[k]! > peak) peak = values[k]!;
+    paintTile(img, r, resample(t, H, r.w), peak, lut);
     drawText(img, slotX, r.y + r.h + 1 + 4, `peak ${compact(peak)}`, TEXT);
   });
 
@@ -213,30 +207,60 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
   return encodePng(img);
 }
 
+/** Paints a tile's display values, as fractions of its peak; NaN (no data) leaves the background. */
+function paintTile(img: RgbImage, r: Rect, view: Float64Array, peak: number, lut: Uint8Array): void {
+  const d = img.data;
+  for (let y = 0; y < r.h; y++) {
+    let o = ((r.y + y) * img.width + r.x) * 3;
+    for (let x = 0; x < r.w; x++, o += 3) {
+      const v = view[y * r.w + x]!;
+      if (Number.isNaN(v)) continue; // outside the tile's data: leave the background
+      // putLut's level (raster.ts), without its per-pixel NaN check: v is a number here.
+      const k = Math.round(Math.min(1, Math.max(0, peak > 0 ? v / peak : 0)) * (LUT_LEVELS - 1)) * 3;
+      d[o] = lut[k]!;
+      d[o + 1] = lut[k + 1]!;
+      d[o + 2] = lut[k + 2]!;
+    }
+  }
+}
+
 /**
- * For each display pixel along one axis (the field [-H, H] cut into m pixels), the data pixels it
- * overlaps and their share of it. Overlap weights are box averaging when shrinking (fringes finer
- * than a display pixel average out instead of aliasing) and plain sampling when enlarging.
+ * For each display pixel j along one axis (the field [-H, H] cut into m pixels), the data pixels
+ * it overlaps, index[start[j]..start[j+1]), their shares of it (weight) and the shares' sum (cover).
+ * Overlap weights are box averaging when shrinking (fringes finer than a display pixel average out
+ * instead of aliasing) and plain sampling when enlarging.
  */
-function axisWeights(n: number, origin: number, pitch: number, H: number, m: number): { list: [number, number][]; cover: number }[] {
+interface AxisWeights {
+  start: Int32Array;
+  index: number[];
+  weight: number[];
+  cover: Float64Array;
+}
+
+function axisWeights(n: number, origin: number, pitch: number, H: number, m: number): AxisWeights {
   const s = (2 * H) / m;
-  const out: { list: [number, number][]; cover: number }[] = [];
+  const start = new Int32Array(m + 1);
+  const cover = new Float64Array(m);
+  const index: number[] = [];
+  const weight: number[] = [];
   for (let j = 0; j < m; j++) {
+    start[j] = index.length;
     // In data-index units, data pixel i spans [i, i + 1].
     const a = (-H + j * s - origin) / pitch + 0.5;
     const b = (-H + (j + 1) * s - origin) / pitch + 0.5;
-    const list: [number, number][] = [];
-    let cover = 0;
+    let c = 0;
     for (let i = Math.max(0, Math.floor(a)); i < Math.min(n, Math.ceil(b)); i++) {
       const w = (Math.min(b, i + 1) - Math.max(a, i)) / (b - a);
       if (w > 0) {
-        list.push([i, w]);
-        cover += w;
+        index.push(i);
+        weight.push(w);
+        c += w;
       }
     }
-    out.push({ list, cover });
+    cover[j] = c;
   }
-  return out;
+  start[m] = index.length;
+  return { start, index, weight, cover };
 }
 
 /** The tile on the common m×m display grid; NaN where the tile has no data. */
@@ -248,31 +272,38 @@ function resample(t: SheetTile, H: number, m: number): Float64Array {
     // Invariant along y: the one row (the grid's 1-D form) drawn as stripes.
     const prof = g.intensity;
     for (let x = 0; x < m; x++) {
-      const { list, cover } = wx[x]!;
+      const cover = wx.cover[x]!;
       if (cover < MIN_COVER) continue;
       let s = 0;
-      for (const [i, w] of list) s += w * prof[i]!;
+      for (let q = wx.start[x]!; q < wx.start[x + 1]!; q++) s += wx.weight[q]! * prof[wx.index[q]!]!;
       for (let y = 0; y < m; y++) out[y * m + x] = s / cover;
     }
     return out;
   }
   const wy = axisWeights(g.ny, g.y0, g.dy, H, m);
+  // Only the data rows some display row uses are resampled along x.
+  const used = new Uint8Array(g.ny);
+  for (let y = 0; y < m; y++) if (wy.cover[y]! >= MIN_COVER) for (let q = wy.start[y]!; q < wy.start[y + 1]!; q++) used[wy.index[q]!] = 1;
   const tmp = new Float64Array(g.ny * m);
   for (let r = 0; r < g.ny; r++) {
+    if (!used[r]) continue;
+    const row = r * g.nx;
     for (let x = 0; x < m; x++) {
       let s = 0;
-      for (const [i, w] of wx[x]!.list) s += w * g.intensity[r * g.nx + i]!;
+      const end = wx.start[x + 1]!;
+      for (let q = wx.start[x]!; q < end; q++) s += wx.weight[q]! * g.intensity[row + wx.index[q]!]!;
       tmp[r * m + x] = s;
     }
   }
   for (let y = 0; y < m; y++) {
-    const { list, cover } = wy[y]!;
+    const cover = wy.cover[y]!;
     if (cover < MIN_COVER) continue;
+    const end = wy.start[y + 1]!;
     for (let x = 0; x < m; x++) {
-      const cx = wx[x]!.cover;
+      const cx = wx.cover[x]!;
       if (cx < MIN_COVER) continue;
       let s = 0;
-      for (const [i, w] of list) s += w * tmp[i * m + x]!;
+      for (let q = wy.start[y]!; q < end; q++) s += wy.weight[q]! * tmp[wy.index[q]! * m + x]!;
       out[y * m + x] = s / (cover * cx);
     }
   }
