@@ -148,7 +148,10 @@ function farFieldMaxFrequency(g: Geometry, i: number): number {
  * (single-fft.ts shiftHalf).
  */
 export function singleFftAxisPlan(g: Geometry, d: AxisPlan): AxisPlan {
-  const target = Math.min(d.output.step, (2 * d.windowHalf) / (g.minOutput - 1));
+  // Also no coarser than the intensity's Nyquist pitch λz/(2D): the lattice is the form's own, not
+  // capped like the direct sums' window (with powers of two it was finer by the rounding).
+  const nyquist = (g.lam * g.z) / (4 * Math.max(d.apertureHalf, 1e-300));
+  const target = Math.min(d.output.step, (2 * d.windowHalf) / (g.minOutput - 1), nyquist);
   const n = nextEvenFastFftSize(Math.max(d.inputSamples + 2, Math.ceil((g.lam * g.z) / (d.inputPitch * target))));
   const output = windowOn(fftAxis(n, (g.lam * g.z) / (n * d.inputPitch)), d.windowCentre, d.windowHalf);
   return { ...d, paddedSamples: n, output };

@@ -418,6 +418,9 @@ const CSV_ROW_BYTES = 400;
  * array can hold, or that are not finite, make the plan impossible: it never fits, whatever the
  * limits, and `impossible` says which size (an estimate that is not a number is Infinity).
  */
+/** What encoding a case's pictures holds besides the map (output/raster.ts encodePng: zlib's deflate state, the filtered rows). */
+const PICTURE_ENCODING_BYTES = 4 * 1024 ** 2;
+
 function wholeCase(s: Sampling, c: Case, answers: number): void {
   const problem = s.impossible ?? impossibleSize(s);
   if (problem) s.impossible = problem;
@@ -431,8 +434,12 @@ function wholeCase(s: Sampling, c: Case, answers: number): void {
   // The profile CSVs are built on the JavaScript heap, which keeps what the propagation left for
   // the collector: they count on top of its peak (they matter for 1-D results of 1e5 samples).
   const csv = CSV_ROW_BYTES * Math.max(rows, cols);
-  const files = (c.output.npy === 'float32' ? 4 : 8) * m + csv + 8 * rows * 400 + 4 * 1024 ** 2;
-  s.memory = Math.max(s.memory + csv, BASELINE_MEMORY + held + files, answers > 0 ? held + answers : 0);
+  // The energy curve keeps a copy of the map it came from for the verdicts to reuse (analysis/encircled.ts, maps up to 2^20 samples).
+  const memo = m <= 2 ** 20 ? 8 * m : 0;
+  const files = (c.output.npy === 'float32' ? 4 : 8) * m + csv + 8 * rows * 400 + 4 * 1024 ** 2 + memo;
+  // The answers' searches run with the case's map held and what its pictures' encoding left
+  // outside the heap (node's zlib: deflate state, rows): a few MB on top of theirs.
+  s.memory = Math.max(s.memory + csv, BASELINE_MEMORY + held + files, answers > 0 ? held + answers + PICTURE_ENCODING_BYTES : 0);
 }
 
 /** Why a sampling cannot be carried out whatever the limits (a size not finite or beyond any array), or null. */
