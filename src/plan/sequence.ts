@@ -2,7 +2,9 @@
 // each plane, the region sampled there, each plane's pitch, the screen's window and pitch, what it
 // costs, and which checks hold. The light is carried plane to plane by the Fresnel integral
 // (optics/sequence.ts), whose curvatures are analytic: only what is left of them over each lit
-// region, the field's own detail and the next window's reach must be sampled.
+// region, the field's own detail and the next window's reach must be sampled; or, in a gap where
+// wide light barely spreads (the next window's reach is then huge), by the exact angular spectrum
+// on an FFT grid holding both ends, whichever costs less (see 'Each leg is summed' below).
 //
 // Where the light goes is tracked per axis as a ray bundle with diffraction: from a lit region of
 // half width R about c, with directions within ±s of the chief direction θ, a lens of focal length f
