@@ -64,30 +64,7 @@ export function propagateLeg(w: Wave, cells: PlaneCells | null, focal: number | 
   const nx = xa.n;
   const ny = ya.n;
   const s = new Float64Array(2 * nx * ny);
-  const chirpX = chirp(xa, xc[0]!, c);
-  const chirpY = chirp(ya, xc[1]!, c);
-  for (let r = 0; r < ny; r++) {
-    const cyr = chirpY[2 * r]!;
-    const cyi = chirpY[2 * r + 1]!;
-    for (let q = 0; q < nx; q++) {
-      const i = r * nx + q;
-      let re = w.v[2 * i]!;
-      let im = w.v[2 * i + 1]!;
-      if (cells) {
-        const tr = cells.t[2 * i]!;
-        const ti = cells.t[2 * i + 1]!;
-        const a = re * tr - im * ti;
-        im = re * ti + im * tr;
-        re = a;
-      }
-      if (re === 0 && im === 0) continue;
-      // × chirpX[q] × chirpY[r]
-      const kr = chirpX[2 * q]! * cyr - chirpX[2 * q + 1]! * cyi;
-      const ki = chirpX[2 * q]! * cyi + chirpX[2 * q + 1]! * cyr;
-      s[2 * i] = re * kr - im * ki;
-      s[2 * i + 1] = re * ki + im * kr;
-    }
-  }
+  writeChirped(w, cells, c, xc, s, nx, 0);
   // V'(x, y) = (1/(iλz)) Σ S(u, v) e^{−i2π((x/(λz) − hx)u + (y/(λz) − hy)v)} ΔuΔv: the Fourier sums of
   // dft.ts at those frequencies, with u, v from the lit region's centre. e^{iπcξc²} (the chirp's
   // constant part, per axis) is a phase common to the whole plane and left out with e^{ikz}.
@@ -103,6 +80,39 @@ export function propagateLeg(w: Wave, cells: PlaneCells | null, focal: number | 
   }
   // The sum's e^{−i2πx·ξc/(λz)} is the new linear phase.
   return { v, x: mxA, y: myA, curvature: 1 / (lam * z), carrier: [-xc[0]! / (lam * z), -xc[1]! / (lam * z)], wavelength: lam };
+}
+
+/**
+ * S = V·t·e^{iπc((x − xc)² + (y − yc)²)} at the wave's samples, written into `into` (interleaved),
+ * row r of the wave at `offset + r·stride` (a grid of its own, or an FFT grid it lies on).
+ */
+function writeChirped(w: Wave, cells: PlaneCells | null, c: number, xc: number[], into: Float64Array, stride: number, offset: number): void {
+  const [xa, ya] = [w.x, w.y];
+  const chirpX = chirp(xa, xc[0]!, c);
+  const chirpY = chirp(ya, xc[1]!, c);
+  for (let r = 0; r < ya.n; r++) {
+    const cyr = chirpY[2 * r]!;
+    const cyi = chirpY[2 * r + 1]!;
+    const row = offset + r * stride;
+    for (let q = 0; q < xa.n; q++) {
+      const i = r * xa.n + q;
+      let re = w.v[2 * i]!;
+      let im = w.v[2 * i + 1]!;
+      if (cells) {
+        const tr = cells.t[2 * i]!;
+        const ti = cells.t[2 * i + 1]!;
+        const a = re * tr - im * ti;
+        im = re * ti + im * tr;
+        re = a;
+      }
+      if (re === 0 && im === 0) continue;
+      // × chirpX[q] × chirpY[r]
+      const kr = chirpX[2 * q]! * cyr - chirpX[2 * q + 1]! * cyi;
+      const ki = chirpX[2 * q]! * cyi + chirpX[2 * q + 1]! * cyr;
+      into[2 * (row + q)] = re * kr - im * ki;
+      into[2 * (row + q) + 1] = re * ki + im * kr;
+    }
+  }
 }
 
 /** e^{iπc(ξ − ξc)²} at an axis's samples. */
@@ -148,29 +158,7 @@ export function propagateLegSpectrum(w: Wave, cells: PlaneCells | null, focal: n
   const data = engine.allocate(2 * nx * ny);
   const ox = latticeOffset(gx, xa.start);
   const oy = latticeOffset(gy, ya.start);
-  const chirpX = chirp(xa, xc[0]!, c);
-  const chirpY = chirp(ya, xc[1]!, c);
-  for (let r = 0; r < ya.n; r++) {
-    const cyr = chirpY[2 * r]!;
-    const cyi = chirpY[2 * r + 1]!;
-    const row = (oy + r) * nx + ox;
-    for (let q = 0; q < xa.n; q++) {
-      const i = r * xa.n + q;
-      let re = w.v[2 * i]!;
-      let im = w.v[2 * i + 1]!;
-      if (cells) {
-        const tr = cells.t[2 * i]!;
-        const ti = cells.t[2 * i + 1]!;
-        const a = re * tr - im * ti;
-        im = re * ti + im * tr;
-        re = a;
-      }
-      const kr = chirpX[2 * q]! * cyr - chirpX[2 * q + 1]! * cyi;
-      const ki = chirpX[2 * q]! * cyi + chirpX[2 * q + 1]! * cyr;
-      data[2 * (row + q)] = re * kr - im * ki;
-      data[2 * (row + q) + 1] = re * ki + im * kr;
-    }
-  }
+  writeChirped(w, cells, c, xc, data, nx, oy * nx + ox);
   engine.fft2(data, nx, ny, false);
   // The transfer function at g + h, less e^{ikz}: exp(i2πz(√(1/λ² − f²) − 1/λ)), the exponent
   // written as −2πz·f²/(√(1/λ² − f²) + 1/λ) so that small f² loses nothing to cancellation; the

@@ -277,7 +277,7 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
     for (let j = 0; j + 1 < P; j++) {
       const p = planes[j]!;
       const q = planes[j + 1]!;
-      const cT = p.curvature - (p.focal === null ? 0 : 1 / (lam * p.focal));
+      const cT = residualCurvature(p);
       const detail = [0, 1].map((i) => spectrumContent(j, i, cT, false));
       if (choose) flat[j] = detail.every((d, i) => d < q.band[i]! + Math.abs(q.curvature) * q.half[i]!);
       if (!flat[j]) continue;
@@ -410,7 +410,7 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
   function spectrumPitchOf(j: number): { pitch: [number, number]; rule: [string, string]; nyquist: [number, number] } {
     const p = planes[j]!;
     const toScreen = j === P - 1;
-    const cT = p.curvature - (p.focal === null ? 0 : 1 / (lam * p.focal));
+    const cT = residualCurvature(p);
     const res = [0, 1].map((i) => {
       const content = spectrumContent(j, i, cT);
       // The screen: SCREEN_OVERSAMPLING samples per period of the intensity's frequencies (twice the
@@ -432,6 +432,11 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
     return { pitch: [res[0]!.pitch, res[1]!.pitch], rule: [res[0]!.rule, res[1]!.rule], nyquist: [res[0]!.nyquist, res[1]!.nyquist] };
   }
 
+  /** κ less the plane's lens's 1/(λf): the curvature the angular spectrum samples there (no propagation chirp). */
+  function residualCurvature(p: PlaneState): number {
+    return p.curvature - (p.focal === null ? 0 : 1 / (lam * p.focal));
+  }
+
   function spectrumContent(j: number, i: number, cT: number, toScreen = j === P - 1, behind = true): number {
     const p = planes[j]!;
     const multiple = toScreen ? HARD_EDGE_SPREAD.screen : HARD_EDGE_SPREAD.plane;
@@ -446,7 +451,7 @@ export function planSequence(c: Case, opts: SequenceOptions): Plan {
   /** How far the light's highest frequency carries it across gap j (the spectrum grid's margin against wrap-around). */
   function spectrumPad(j: number, i: number): number {
     const p = planes[j]!;
-    const cT = p.curvature - (p.focal === null ? 0 : 1 / (lam * p.focal));
+    const cT = residualCurvature(p);
     const s = Math.min(lam * spectrumContent(j, i, cT), 0.95);
     return (gaps[j]! * s) / Math.sqrt(1 - s * s);
   }
