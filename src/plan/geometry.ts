@@ -32,6 +32,14 @@ export interface Geometry {
   phaseFrequency?: number;
 }
 
+/**
+ * How far from a Gaussian beam's axis the light begins to pass: the obstacle's half width for an
+ * obstacle in the beam, the nearest open point otherwise (0 when the opening holds the axis).
+ */
+export function lightFrom(g: Geometry): number {
+  return g.obstructed ? Math.min(g.facts.halfExtent[0], g.oneD ? Infinity : g.facts.halfExtent[1]) : g.facts.nearestOpen;
+}
+
 /** The largest direction cosine from the illuminated aperture to the window. */
 export function steepestDirection(g: Geometry): number {
   let s = 0;

@@ -13,7 +13,7 @@ import { LIMITS } from './limits.js';
 import { lensBeamRadius, lightModel, type LightModel } from './light.js';
 import { lensOf, phaseFrequencyOf } from '../elements/registry.js';
 import { lensParaxial, paraxialEstimate } from './paraxial.js';
-import type { Geometry } from './geometry.js';
+import { lightFrom, type Geometry } from './geometry.js';
 import { BASELINE_MEMORY } from './costs.js';
 import { bytes, fmt, len, pct, seconds } from './words.js';
 import { planWindow, windowLoss } from './window.js';
@@ -524,7 +524,7 @@ function preChecks(
   }
   if (Number.isFinite(g.waist)) {
     // A beam that barely reaches the open part: what passes is its far tail, e^{−2r²/w²} of it.
-    const r = g.obstructed ? Math.min(g.facts.halfExtent[0], g.oneD ? Infinity : g.facts.halfExtent[1]) : g.facts.nearestOpen;
+    const r = lightFrom(g);
     const passing = Math.exp((-2 * r * r) / (g.waist * g.waist));
     if (passing < LIMITS.littleLight) {
       w.push(warning('little-light', { waist: g.waist, passing, openFrom: r }));
