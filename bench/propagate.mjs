@@ -2,7 +2,7 @@
 // Propagation benchmarks (not tests), against the built program (`npm run build` first; `npm run
 // bench` does). Each measurement runs in a fresh child process, so that its peak memory (the
 // process's maximum resident set, less what the process held before the case) is its own.
-//   node bench/propagate.mjs [--json] [--only asm,sweep,one-d] [--runs N] [--no-scipy]
+//   node bench/propagate.mjs [--json] [--only asm,sweep,auto,one-d] [--runs N] [--no-scipy]
 //
 // asm    one band-limited angular-spectrum case with a 2048² source grid, padded as the planner
 //        pads it, end to end (source, padding, transforms, transfer, window), with 1 thread and
@@ -10,6 +10,8 @@
 //        transfer, inverse FFT, window) and the equivalent SciPy script, workers=1 and 2.
 // sweep  a 64-distance sweep of one aperture on one grid: 64 independent cases against the same
 //        64 with the source's spectrum computed once (compute and metrics; no files).
+// auto   a 16-distance sweep of one rectangle with the grids the planner picks: every case on
+//        its own grid against the planner's runs of cases on shared grids (plan/shared-grids.ts).
 // one-d  a long slit (1-D), a rectangle (two 1-D problems) and a 1000-slit grating whose orders
 //        leave at up to 45° (the exact integral, per period), cases per second.
 import { spawnSync } from 'node:child_process';
@@ -18,7 +20,7 @@ import { fileURLToPath } from 'node:url';
 const args = process.argv.slice(2);
 const opt = (name, dflt) => (args.includes(name) ? args[args.indexOf(name) + 1] : dflt);
 const json = args.includes('--json');
-const only = opt('--only', 'asm,sweep,one-d').split(',');
+const only = opt('--only', 'asm,sweep,auto,one-d').split(',');
 const runs = Number(opt('--runs', '5'));
 const withScipy = !args.includes('--no-scipy');
 const child = opt('--child', null);
@@ -73,6 +75,16 @@ const SWEEP = Array.from({ length: 64 }, (_, i) => ({
   window: [0.25 * mm, 0.25 * mm],
 }));
 
+// 16 distances, 1.25 to 2 mm, of a 500 × 300 µm rectangle at 633 nm (N_F 14–36): the planner
+// takes the angular spectrum, on a grid per distance whose pitch follows the steepest ray.
+const AUTO_SWEEP = Array.from({ length: 16 }, (_, i) => ({
+  index: i,
+  id: `z${i}`,
+  wavelength: 633e-9,
+  distance: 1.25 * mm + (0.75 * mm * i) / 15,
+  aperture: { shape: 'rectangle', width: 500 * um, height: 300 * um, opaque: false },
+}));
+
 const ONE_D = [
   { name: 'slit 40 µm, 20 mm (1-D)', wavelength: 633e-9, distance: 20 * mm, aperture: { shape: 'slit', width: 40 * um, opaque: false } },
   {
@@ -99,6 +111,7 @@ async function load() {
     ...(await import(new URL('kernels.js', dist))),
     ...(await import(new URL('plan/planner.js', dist))),
     ...(await import(new URL('plan/share.js', dist))),
+    ...(await import(new URL('plan/shared-grids.js', dist)).catch(() => ({}))),
     ...(await import(new URL('run/compute.js', dist))),
     ...(await import(new URL('run/run-case.js', dist))),
     ...(await import(new URL('run/context.js', dist))),
@@ -185,6 +198,23 @@ async function measure(kind, threads) {
         grid: [plans[0].x.paddedSamples, plans[0].y.paddedSamples],
         memoryBytes: plans[0].memoryBytes,
       });
+    } else if (kind === 'auto-own' || kind === 'auto-shared') {
+      const cases = AUTO_SWEEP.map(makeCase);
+      if (kind === 'auto-shared' && !m.planCases) return { skipped: 'this build has no shared grids' };
+      const plans = kind === 'auto-shared' ? m.planCases(cases, {}) : cases.map((c) => m.planCase(c, {}));
+      m.shareSourceSpectra(plans);
+      m.runPlannedCase(m.planCase(cases[cases.length - 1], {}), ctx);
+      ctx = m.newCaseContext(m.engine);
+      const t0 = performance.now();
+      let reused = 0;
+      for (const p of plans) {
+        const rec = m.runPlannedCase(p, ctx);
+        if (rec.computed.diagnostics.sourceSpectrum === 'reused') reused++;
+      }
+      const s = (performance.now() - t0) / 1000;
+      ctx = m.newCaseContext(m.engine);
+      const grids = new Set(plans.map((p) => `${p.x.paddedSamples}×${p.y?.paddedSamples}`));
+      Object.assign(out, { cases: plans.length, seconds: s, secondsPerDistance: s / plans.length, reused, grids: grids.size, methods: [...new Set(plans.map((p) => p.method))].join(', ') });
     } else if (kind === 'one-d') {
       out.cases = [];
       for (const c of ONE_D) {
@@ -353,6 +383,29 @@ if (only.includes('sweep')) {
   }
   if (!ind.error && !sh.error) {
     rows.push({ section: 'sweep', name: '  fewer seconds per distance, shared vs independent', ratio: ind.secondsPerDistance / sh.secondsPerDistance, note: 'target ≥ 1.8' });
+  }
+}
+
+if (only.includes('auto')) {
+  const own = inChild('auto-own', 1);
+  const sh = inChild('auto-shared', 1);
+  for (const [name, r] of [
+    ['16-distance sweep, automatic grids, one each', own],
+    ['16-distance sweep, automatic grids, shared by runs', sh],
+  ]) {
+    if (r.error || r.skipped) rows.push({ section: 'auto', name, skipped: r.error ?? r.skipped });
+    else
+      rows.push({
+        section: 'auto',
+        name,
+        medianMs: 1000 * r.secondsPerDistance,
+        casesPerSecond: 1 / r.secondsPerDistance,
+        peakBytes: r.peakBytes,
+        note: `${r.cases} cases in ${r.seconds.toFixed(1)} s (${r.methods}) on ${r.grids} grid(s); ${r.reused} reused a spectrum; peak ${MB(r.peakBytes)}`,
+      });
+  }
+  if (!own.error && !sh.error && !sh.skipped) {
+    rows.push({ section: 'auto', name: '  fewer seconds per distance, shared grids vs one each', ratio: own.secondsPerDistance / sh.secondsPerDistance });
   }
 }
 

@@ -101,11 +101,12 @@ function errorLine(file: string, e: unknown): string {
 }
 
 async function planCommand(files: string[], json: boolean, maxMemoryBytes: number | undefined): Promise<number> {
-  const [{ formatWarning, loadJobFile }, { expandJob }, { DEFAULT_MAX_MEMORY, planCase }, { formatPlan }, { shareSourceSpectra }, { jsonNumbers }] =
+  const [{ formatWarning, loadJobFile }, { expandJob }, { DEFAULT_MAX_MEMORY }, { planCases }, { formatPlan }, { shareSourceSpectra }, { jsonNumbers }] =
     await Promise.all([
       import('./job/load.js'),
       import('./job/expand.js'),
       import('./plan/planner.js'),
+      import('./plan/shared-grids.js'),
       import('./plan/format.js'),
       import('./plan/share.js'),
       import('./output/case-output.js'),
@@ -120,7 +121,7 @@ async function planCommand(files: string[], json: boolean, maxMemoryBytes: numbe
       // stderr, so that --json's output stays one JSON document.
       for (const w of warnings) console.error(safeMessage(formatWarning(file, w)));
       const cases = expandJob(spec);
-      const plans = cases.map((c) => planCase(c, { maxMemoryBytes }));
+      const plans = planCases(cases, { maxMemoryBytes });
       shareSourceSpectra(plans);
       if (plans.some((p) => p.error)) status = 1;
       if (json) {

@@ -86,6 +86,13 @@ export function fftAxisPlan(g: Geometry, i: number, c: Case, content: PitchRule,
   // limit and the wrap-around distance are at least what the factor asks for.
   const n = c.grid?.size ?? Math.max(minN, Math.ceil((2 * half) / p.pitch) + 2);
   const padded = nextFastFftSize(n * padding(n * p.pitch));
+  // A sweep's shared grid, where it is as fine, holds as much and is as wide as this case's own
+  // (plan/shared-grids.ts): the same source on the same grid for every case that shares it.
+  const sg = g.sharedGrid;
+  if (sg && !c.grid && sg.pitch[i]! <= p.pitch && sg.samples[i]! * sg.pitch[i]! >= n * p.pitch && sg.padded[i]! * sg.pitch[i]! >= padded * p.pitch && sg.padded[i]! >= sg.samples[i]!) {
+    const shared = { ...p, pitch: sg.pitch[i]!, rule: `${p.rule}; finer, on the grid the sweep's cases share` };
+    return axisPlan(g, i, shared, sg.samples[i]!, sg.padded[i]!, windowOn(fftAxis(sg.padded[i]!, sg.pitch[i]!), g.centre[i]!, g.windowHalf[i]!));
+  }
   const output = windowOn(fftAxis(padded, p.pitch), g.centre[i]!, g.windowHalf[i]!);
   return axisPlan(g, i, p, n, padded, output);
 }

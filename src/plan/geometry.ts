@@ -3,7 +3,7 @@
 import type { ApertureFacts } from '../optics/aperture.js';
 import { LIMITS } from './limits.js';
 import type { LightModel } from './light.js';
-import type { Layout } from './types.js';
+import type { Layout, SharedGrid } from './types.js';
 
 export interface Geometry {
   lam: number;
@@ -30,6 +30,8 @@ export interface Geometry {
    * kernel passes only the pupil's.
    */
   phaseFrequency?: number;
+  /** A sweep's shared FFT grid, taken by fftAxisPlan where it meets the case's own rules. */
+  sharedGrid?: SharedGrid;
 }
 
 /**

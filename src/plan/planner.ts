@@ -14,6 +14,7 @@ import { lensBeamRadius, lightModel, type LightModel } from './light.js';
 import { lensOf, phaseFrequencyOf } from '../elements/registry.js';
 import { lensParaxial, paraxialEstimate } from './paraxial.js';
 import { lightFrom, type Geometry } from './geometry.js';
+import type { SharedGrid } from './types.js';
 import { BASELINE_MEMORY } from './costs.js';
 import { bytes, fmt, len, pct, seconds } from './words.js';
 import { planWindow, windowLoss } from './window.js';
@@ -39,6 +40,11 @@ export interface PlannerOptions {
    * The searches plan their own variants without it: a variant's answers are never asked.
    */
   countAnswers?: boolean;
+  /**
+   * One FFT grid a sweep's cases share (plan/shared-grids.ts): the angular spectrum is planned on
+   * it where it meets the case's own accuracy rules.
+   */
+  sharedGrid?: SharedGrid;
 }
 
 export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
@@ -157,6 +163,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     model,
   };
   // A phase element's finest local period, which every method that samples it must resolve.
+  if (opts.sharedGrid) geo.sharedGrid = opts.sharedGrid;
   const phaseFrequency = phaseFrequencyOf(c.aperture, lam, Math.max(aEff[0], aEff[1]));
   if (phaseFrequency > 0) geo.phaseFrequency = phaseFrequency;
   // A lens: the paraxial check is on the cone behind it (plan/paraxial.ts lensParaxial).
@@ -222,12 +229,21 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     }
   } else {
     const valid = samplings.filter((s) => validity[s.method].valid);
-    chosen = preferred(valid.filter(fitsLimits));
+    // A sweep's shared grid: the angular spectrum on it, where it is valid, fits and took the grid.
+    const sg = opts.sharedGrid;
+    const onShared = sg ? valid.find((s) => s.d.id === 'angular-spectrum' && s.layout === 'two-d' && fitsLimits(s) && onSharedGrid(s.axes, sg)) : undefined;
+    chosen = onShared ?? preferred(valid.filter(fitsLimits));
     for (const m of METHOD_NAMES) if (!validity[m].valid) reasons.push(`${methodWords(m)} not valid here: ${validity[m].why}.`);
     for (const s of valid) {
       if (!fitsLimits(s)) reasons.push(`${methodWords(s.method, s.form)} would need ${limitWords(s, maxMemory, maxWork)}.`);
     }
-    if (chosen) {
+    if (onShared && sg) {
+      chosen = onShared;
+      reasons.push(
+        `angular spectrum chosen on a grid shared by ${sg.cases} cases of the sweep (same aperture and light): ${validity[onShared.method].because}; the source's spectrum is computed once, ` +
+          `about ${seconds(sg.sharedWork)} for them all against ${seconds(sg.soloWork)} with a grid each; the grid is at least as fine and as wide as this case's own.`,
+      );
+    } else if (chosen) {
       reasons.push(`${methodWords(chosen.method, chosen.form)} chosen: ${validity[chosen.method].because}; of the valid methods that fit, the simplest for its work (about ${seconds(chosen.work)}).`);
     } else {
       // Nothing valid fits: the cheapest valid plan is kept, so that `plan` can show it, and the
@@ -287,6 +303,11 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     ...(error ? { error } : {}),
   };
   return plan;
+}
+
+/** Whether a sampling's axes are the shared grid (fftAxisPlan takes it only where it meets the case's rules). */
+function onSharedGrid(axes: AxisPlan[], sg: SharedGrid): boolean {
+  return axes.every((a, i) => a.inputPitch === sg.pitch[i] && a.inputSamples === sg.samples[i] && a.paddedSamples === sg.padded[i]);
 }
 
 /** A sampling of a form, with its method and the descriptor that made it. */

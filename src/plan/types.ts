@@ -48,6 +48,20 @@ export interface Case {
   analysis: CaseAnalysis;
 }
 
+/**
+ * One padded FFT grid for a group of a sweep's cases (plan/shared-grids.ts): per axis the pitch,
+ * the source samples and the padded size; how many cases share it and the work estimates that
+ * made the planner share (all the cases together, and the sum of each on its own grid).
+ */
+export interface SharedGrid {
+  pitch: [number, number];
+  samples: [number, number];
+  padded: [number, number];
+  cases: number;
+  sharedWork: number;
+  soloWork: number;
+}
+
 export interface PlaneSpec {
   /** Distance from the previous plane (m). */
   after: number;

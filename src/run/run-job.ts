@@ -5,7 +5,7 @@ import { availableParallelism, freemem } from 'node:os';
 import { trimNumber } from '../job/units.js';
 import { JobError, formatWarning, loadJobFile, type LoadedJob } from '../job/load.js';
 import { expandJob } from '../job/expand.js';
-import { bytes, methodWords, planCase, type PlannerOptions } from '../plan/planner.js';
+import { bytes, methodWords, type PlannerOptions } from '../plan/planner.js';
 import { LIMITS } from '../plan/limits.js';
 import type { Plan } from '../plan/types.js';
 import type { CaseSummary } from '../output/case-output.js';
@@ -18,6 +18,7 @@ import { chooseParallelism, runTasks } from './scheduler.js';
 import { createEngine } from '../kernels.js';
 import type { Engine } from '../optics/engine.js';
 import { shareSourceSpectra } from '../plan/share.js';
+import { planCases } from '../plan/shared-grids.js';
 import type { CaseTask } from './execute.js';
 import { assignShards, type ShardSpec } from './shard.js';
 import { lineReporter, silentReporter, type RunReporter } from './progress.js';
@@ -142,7 +143,8 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
     outcome.cases = cases.length;
     // --accept-large lifts the per-case time limit as it lifts the sweep's.
     const planOpts: PlannerOptions = opts.acceptLarge ? { ...opts, maxWork: Infinity } : opts;
-    plans = cases.map((c) => planCase(c, planOpts));
+    // Each case's plan; runs of a sweep's cases on one grid where sharing it is cheaper (plan/shared-grids.ts).
+    plans = planCases(cases, planOpts);
     const seconds = plans.reduce((s, p) => s + p.work, 0) / LIMITS.workPerSecond;
     if (!opts.acceptLarge && (cases.length > LARGE_SWEEP.cases || seconds > LARGE_SWEEP.seconds)) {
       return refuse(
