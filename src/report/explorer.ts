@@ -354,11 +354,12 @@ const SCRIPT = String.raw`
     g.stroke();
     document.getElementById('profileNote').textContent = c.label + ': ' + pts.length + ' samples from (' + len(pts[0].x) + ', ' + len(pts[0].y) + ') to (' + len(pts[pts.length - 1].x) + ', ' + len(pts[pts.length - 1].y) + ')' + (state.log ? '; log scale, ' + D.logDecades + ' decades below the case peak' : '; linear, relative to the incident irradiance');
   }
-  function nth(k) { return k === 1 ? '' : k + (k % 10 === 2 && k % 100 !== 12 ? 'nd' : k % 10 === 3 && k % 100 !== 13 ? 'rd' : k % 10 === 1 && k % 100 !== 11 ? 'st' : 'th'); }
+  function every(k, what) { return 'every ' + (k === 1 ? '' : nth(k) + ' ') + what; }
+  function nth(k) { return k + (k % 10 === 2 && k % 100 !== 12 ? 'nd' : k % 10 === 3 && k % 100 !== 13 ? 'rd' : k % 10 === 1 && k % 100 !== 11 ? 'st' : 'th'); }
   function label(idx, which) {
     var c = D.cases[idx];
     document.getElementById('title' + which).textContent = c.label;
-    document.getElementById('file' + which).textContent = 'full resolution: ' + c.file + ' (' + (c.oneD ? c.full[1] + ' samples' : c.full[0] + ' rows × ' + c.full[1] + ' columns') + '; ' + (c.kx === 1 && c.ky === 1 ? 'every sample' : c.oneD ? 'every ' + nth(c.kx) + ' sample' : 'every ' + nth(c.ky) + ' row and ' + nth(c.kx) + ' column') + ' shown); peak ' + fmtI(c.peak);
+    document.getElementById('file' + which).textContent = 'full resolution: ' + c.file + ' (' + (c.oneD ? c.full[1] + ' samples' : c.full[0] + ' rows × ' + c.full[1] + ' columns') + '; ' + (c.kx === 1 && c.ky === 1 ? 'every sample' : c.oneD ? every(c.kx, 'sample') : every(c.ky, 'row') + ' and ' + every(c.kx, 'column')) + ' shown); peak ' + fmtI(c.peak);
     var n = document.getElementById('note' + which);
     n.textContent = c.note + (c.warnings.length ? ' — warnings: ' + c.warnings.join('; ') : '');
     n.className = c.warnings.length ? 'note warn' : 'note';
