@@ -36,11 +36,11 @@ describe('the registry', () => {
     for (const f of fixed) expect(headers).not.toContain(f);
   });
 
-  it('orders the columns as summary.csv had them before the registry (the recorded header of a rectangle job with two detectors)', () => {
+  it('orders the columns as summary.csv had them before the registry (the recorded header of a rectangle job with two detectors), with the D4σ window check after D4σ', () => {
     const scope = fullScope();
     scope.records = scope.records.slice(1, 2).map((r) => ({ ...r, search: undefined }) as unknown as CaseSummary);
     expect(metricQuantities(scope).map((q) => q.header).join(',')).toBe(
-      'peak_intensity,on_axis_intensity,peak_x_m,peak_y_m,centroid_x_m,centroid_y_m,fwhm_x_m,fwhm_y_m,e2_width_x_m,e2_width_y_m,d4sigma_x_m,d4sigma_y_m,first_min_x_m,first_min_y_m,ee50_radius_m,ee84_radius_m,ee90_radius_m,power_through_aperture,power_in_window,window_fraction,detector1_fraction,detector1_area_in_window,detector2_fraction,detector2_area_in_window,verdict_x,spot_over_far_field_x,spot_over_shadow_x,far_field_from_x_m,verdict_y,spot_over_far_field_y,spot_over_shadow_y,far_field_from_y_m',
+      'peak_intensity,on_axis_intensity,peak_x_m,peak_y_m,centroid_x_m,centroid_y_m,fwhm_x_m,fwhm_y_m,e2_width_x_m,e2_width_y_m,d4sigma_x_m,d4sigma_y_m,d4sigma_window_change_x,d4sigma_window_change_y,first_min_x_m,first_min_y_m,ee50_radius_m,ee84_radius_m,ee90_radius_m,power_through_aperture,power_in_window,window_fraction,detector1_fraction,detector1_area_in_window,detector2_fraction,detector2_area_in_window,verdict_x,spot_over_far_field_x,spot_over_shadow_x,far_field_from_x_m,verdict_y,spot_over_far_field_y,spot_over_shadow_y,far_field_from_y_m',
     );
   });
 
@@ -72,7 +72,7 @@ describe('the registry', () => {
   });
 
   it("gives result.json's definitions in the order they were written, and refuses a field defined twice", () => {
-    expect(Object.keys(metricDefinitions())).toEqual(['fwhm', 'e2Width', 'd4sigma', 'detectors', 'orders', 'evanescentFraction', 'planes', 'spatialFilter', 'mtf']);
+    expect(Object.keys(metricDefinitions())).toEqual(['fwhm', 'e2Width', 'd4sigma', 'd4sigmaWindowChange', 'detectors', 'orders', 'evanescentFraction', 'planes', 'spatialFilter', 'mtf']);
     const again: MetricFamily = { key: 'again', quantities: () => [], definitions: { fwhm: 'another width' } };
     expect(() => metricDefinitions([...METRICS, again])).toThrow(/fwhm given twice/);
   });

@@ -83,3 +83,28 @@ describe('far-field widths are unchanged', () => {
     expect(Math.abs(rec.metrics.fwhm[0]! - ref) / ref).toBeLessThan(2e-3);
   });
 });
+
+// D4σ of a hard-edged aperture depends on the window: the sinc² far field of a slit has wings
+// whose average is 1/(2π²u²) (the mean of sin² is ½; Hecht §10.2 for sinc²), so ∫x²I dx over a
+// window of half-width W grows as W and D4σ as √W: cutting the window to 80 % lowers D4σ by
+// 1 − √0.8 = 10.6 % once the window holds many lobes. A Gaussian beam well inside its window has
+// no such wings (ISO 11146's second moments are meant for it): its D4σ does not move.
+describe('D4σ says when it depends on the window', () => {
+  it('a slit in the far field: D4σ falls by about 1 − √0.8 = 10.6 % with the window cut to 80 %', () => {
+    const { rec } = runCase({ wavelength: lam, distance: 1, aperture: { shape: 'slit', width: 100 * um, opaque: false }, window: [0.2, 0] });
+    const change = rec.metrics.d4sigmaWindowChange[0]!;
+    expect(Math.abs(change - (1 - Math.sqrt(0.8)))).toBeLessThan(0.02);
+    expect(rec.metrics.d4sigmaWindowChange[1]).toBeNull();
+  });
+  it('a Gaussian beam (w = 0.3 mm) through a 3 mm pinhole: D4σ = 2w(z) and does not move (under 0.5 %)', () => {
+    const w0 = 0.3e-3;
+    const z = 0.2;
+    const { rec } = runCase({ wavelength: lam, distance: z, aperture: { shape: 'circle', diameter: 3e-3, opaque: false }, illumination: { kind: 'gaussian', waist: w0, tilt: [0, 0] } });
+    // w(z) = w0·√(1 + (z/zR)²), zR = πw0²/λ (Siegman, Lasers, ch. 17); D4σ of a Gaussian is 2w.
+    const zR = (Math.PI * w0 * w0) / lam;
+    const wz = w0 * Math.sqrt(1 + (z / zR) ** 2);
+    expect(Math.abs(rec.metrics.d4sigma[0]! - 2 * wz) / (2 * wz)).toBeLessThan(0.01);
+    expect(Math.abs(rec.metrics.d4sigmaWindowChange[0]!)).toBeLessThan(0.005);
+    expect(Math.abs(rec.metrics.d4sigmaWindowChange[1]!)).toBeLessThan(0.005);
+  });
+});
