@@ -104,7 +104,19 @@ const accuracyCodes = (p: Plan) => new Set(p.warnings.map((w) => w.code));
  * valid, no new warning, within the limits). The returned plans are in the cases' order.
  */
 export function planCases(cases: Case[], opts: PlannerOptions = {}): Plan[] {
-  const plans = cases.map((c) => planCase(c, opts));
+  return shareGrids(
+    cases,
+    cases.map((c) => planCase(c, opts)),
+    opts,
+  );
+}
+
+/**
+ * shareGrids of planCases, from plans already made (each case's own, in the cases' order, with
+ * the same options): the plans with runs of cases put on shared grids (a new array).
+ */
+export function shareGrids(cases: Case[], own: Plan[], opts: PlannerOptions = {}): Plan[] {
+  const plans = [...own];
   const groups = new Map<string, number[]>();
   cases.forEach((c, i) => {
     const k = groupKey(c);
