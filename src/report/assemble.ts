@@ -65,7 +65,10 @@ export function sheetTile(label: string, c: IntensityMap, limit = 400): SheetTil
     y0: oneD ? 0 : c.y0 + ((fy - 1) / 2) * c.dy,
     intensity: out,
   };
-  return { label, map };
+  // The case's peak from the full map: the reduced one's box averages are lower.
+  let peak = 0;
+  for (let i = 0; i < c.intensity.length; i++) if (c.intensity[i]! > peak) peak = c.intensity[i]!;
+  return { label, map, peak };
 }
 
 const LABELS: Record<string, string> = {

@@ -1,7 +1,11 @@
-// Contact sheet: the spot images of a sweep side by side at one physical scale, so that spot
-// sizes can be compared by eye. Every tile shows the same field of view around its optical axis
-// with the same metres per display pixel; brightness is per tile (each to its own peak), because
-// peaks along a sweep can differ by decades and one common brightness would blank most tiles.
+// Contact sheet: the spot images of a sweep side by side. Where the windows are alike every tile
+// shows the same field of view around its optical axis at the same metres per display pixel, so
+// spot sizes compare by eye; where they differ by more than FIELD_RATIO (a log sweep from the near
+// field, where the spot is the aperture's size, to the far field, where it is λz/D) one field
+// would shrink the near spots to dots, so each tile shows its own window with a scale bar of its
+// own. Brightness is per tile (each to its own peak, linear or over decades of it), because peaks
+// along a sweep can differ by decades and one common brightness would blank most tiles; the peak
+// printed is the case's own, from its full map, not from the reduced tile.
 
 import { CELL_H, CELL_W, drawText, textWidth, type Colour, type RgbImage } from '../output/font.js';
 import { escapeControl, safeEcho } from '../safe-text.js';
@@ -15,13 +19,26 @@ import { mapProblem, type IntensityMap } from '../model/intensity-map.js';
 export interface SheetTile {
   label: string;
   map: IntensityMap;
+  /** The case's peak intensity from its full map, where `map` is reduced (the tile's own max otherwise). */
+  peak?: number;
 }
 
 export interface SheetOptions {
   columns?: number;
   tilePixels?: number;
   title?: string;
+  /**
+   * 'common': every tile the same field of view; 'own': each tile its own window, with its own
+   * scale bar; default: 'own' where the windows' sizes differ by more than FIELD_RATIO.
+   */
+  field?: 'common' | 'own';
+  /** Brightness per tile: linear to its peak (default), or log over `logDecades` decades below it. */
+  scale?: 'linear' | 'log';
+  logDecades?: number;
 }
+
+/** Windows differing by more than this in size get a field of view each. */
+export const FIELD_RATIO = 4;
 
 export type { Rect } from '../output/raster.js';
 
@@ -31,8 +48,12 @@ export interface SheetLayout {
   height: number;
   /** Image areas of the tiles (inside their frames), in input order. */
   tiles: Rect[];
-  /** Physical width (= height) of every tile's field of view, metres. */
+  /** Physical width (= height) of the largest tile's field of view (every tile's, with one field), metres. */
   fieldOfView: number;
+  /** Each tile's field of view (m): all equal with one field. */
+  fields: number[];
+  /** Whether each tile shows its own window. */
+  own: boolean;
   metresPerPixel: number;
 }
 
@@ -121,9 +142,15 @@ function plan(tiles: SheetTile[], opts: SheetOptions): Plan {
   const rowsOfTiles = Math.ceil(tiles.length / columns);
   const slotW = Math.max(T + 2, MIN_SLOT);
   const gridW = columns * slotW + (columns - 1) * GAP_X;
-  const H = halfField(tiles);
+  const halves = tiles.map((t) => halfField([t]));
+  const H = Math.max(...halves);
+  const own = opts.field ? opts.field === 'own' : H > FIELD_RATIO * Math.min(...halves);
   const fov = formatLength(2 * H, 3);
-  const captions = ['each tile scaled to its own peak (linear)', `one scale: every tile ${fov} × ${fov}, centred on the axis`];
+  const decades = opts.logDecades ?? 4;
+  const captions = [
+    opts.scale === 'log' ? `each tile to its own peak, log scale over ${decades} decades` : 'each tile scaled to its own peak (linear)',
+    own ? 'each tile its own window, centred on the axis, with its own scale bar' : `one scale: every tile ${fov} × ${fov}, centred on the axis`,
+  ];
   const width = Math.max(2 * MARGIN + gridW, 2 * MARGIN + Math.max(...captions.map((c) => textWidth(c))));
   const left = Math.floor((width - gridW) / 2);
 
@@ -137,7 +164,7 @@ function plan(tiles: SheetTile[], opts: SheetOptions): Plan {
 
   const labelLines = tiles.map((t) => wrapLabel(escapeControl(t.label), slotW));
   const nLines = Math.max(1, ...labelLines.map((l) => l.length));
-  const cellH = nLines * LINE + 2 + T + 2 + 4 + LINE; // labels, frame, image, frame, peak line
+  const cellH = nLines * LINE + 2 + T + 2 + 4 + LINE + (own ? LINE : 0); // labels, frame, image, frame, peak line (and the tile's scale bar)
 
   const rects = tiles.map((_, i) => {
     const c = i % columns, r = Math.floor(i / columns);
@@ -148,7 +175,7 @@ function plan(tiles: SheetTile[], opts: SheetOptions): Plan {
   // Footer: scale bar, colour bar with its two ends, two caption lines.
   const height = footerY + LINE + 6 + CBAR_H + 4 + LINE + 4 + 2 * LINE + MARGIN;
   return {
-    layout: { width, height, tiles: rects, fieldOfView: 2 * H, metresPerPixel: (2 * H) / T },
+    layout: { width, height, tiles: rects, fieldOfView: 2 * H, fields: own ? halves.map((h) => 2 * h) : halves.map(() => 2 * H), own, metresPerPixel: (2 * H) / T },
     columns,
     slotW,
     labelLines,
@@ -172,7 +199,7 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
   fillRect(img, { x: 0, y: 0, w: img.width, h: img.height }, BACKGROUND);
   if (pl.title) drawText(img, MARGIN, MARGIN, pl.title, TEXT, pl.titleScale);
   const lut = buildLut(shoal);
-  const H = layout.fieldOfView / 2;
+  const log = opts.scale === 'log' ? (opts.logDecades ?? 4) : 0;
 
   tiles.forEach((t, i) => {
     const r = layout.tiles[i]!;
@@ -180,25 +207,37 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
     pl.labelLines[i]!.forEach((line, k) => drawText(img, slotX, r.y - 1 - pl.labelLines[i]!.length * LINE + k * LINE, line, TEXT));
     frame(img, r, FRAME);
     const values = t.map.intensity;
-    let peak = 0;
-    for (let k = 0; k < values.length; k++) if (values[k]! > peak) peak = values[k]!;
-    paintTile(img, r, resample(t, H, r.w), peak, lut);
-    drawText(img, slotX, r.y + r.h + 1 + 4, `peak ${compact(peak)}`, TEXT);
+    let shown = 0;
+    for (let k = 0; k < values.length; k++) if (values[k]! > shown) shown = values[k]!;
+    // Brightness to the tile's own maximum (what it can show); the label gives the case's peak.
+    paintTile(img, r, resample(t, layout.fields[i]! / 2, r.w), shown, lut, log);
+    drawText(img, slotX, r.y + r.h + 1 + 4, `peak ${compact(t.peak ?? shown)}`, TEXT);
+    if (layout.own) {
+      const bar = roundLength(layout.fields[i]! / 4);
+      const barPx = Math.max(1, Math.round((bar / layout.fields[i]!) * r.w));
+      const y = r.y + r.h + 1 + 4 + LINE;
+      fillRect(img, { x: slotX, y: y + 3, w: barPx, h: BAR_THICK }, TEXT);
+      drawText(img, slotX + barPx + 6, y, formatLength(bar, 3), TEXT);
+    }
   });
 
-  // One scale bar for the whole sheet: a round length near a quarter of the field of view.
-  const bar = roundLength(layout.fieldOfView / 4);
-  const barPx = Math.max(1, Math.round(bar / layout.metresPerPixel));
+  // One scale bar for the whole sheet (a round length near a quarter of the field of view), where
+  // the tiles share one field.
   const fy = pl.footerY;
-  fillRect(img, { x: MARGIN, y: fy + 3, w: barPx, h: BAR_THICK }, TEXT);
-  drawText(img, MARGIN + barPx + 6, fy, formatLength(bar, 3), TEXT);
+  if (!layout.own) {
+    const bar = roundLength(layout.fieldOfView / 4);
+    const barPx = Math.max(1, Math.round(bar / layout.metresPerPixel));
+    fillRect(img, { x: MARGIN, y: fy + 3, w: barPx, h: BAR_THICK }, TEXT);
+    drawText(img, MARGIN + barPx + 6, fy, formatLength(bar, 3), TEXT);
+  }
 
   const cbY = fy + LINE + 6;
   const cbW = Math.min(layout.width - 2 * MARGIN, 200);
   const cb: Rect = { x: MARGIN + 1, y: cbY, w: cbW, h: CBAR_H };
   frame(img, cb, FRAME);
   for (let x = 0; x < cb.w; x++) for (let y = 0; y < cb.h; y++) putLut(img, cb.x + x, cb.y + y, lut, cb.w > 1 ? x / (cb.w - 1) : 1);
-  drawText(img, cb.x, cbY + CBAR_H + 4, '0', TEXT);
+  const low = log ? `1e-${log} peak` : '0';
+  drawText(img, cb.x, cbY + CBAR_H + 4, low, TEXT);
   drawText(img, cb.x + cb.w - textWidth('peak'), cbY + CBAR_H + 4, 'peak', TEXT);
 
   const capY = cbY + CBAR_H + 4 + LINE + 4;
@@ -207,8 +246,11 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
   return encodePng(img);
 }
 
-/** Paints a tile's display values, as fractions of its peak; NaN (no data) leaves the background. */
-function paintTile(img: RgbImage, r: Rect, view: Float64Array, peak: number, lut: Uint8Array): void {
+/**
+ * Paints a tile's display values, as fractions of its peak (or, with `decades` > 0, their log over
+ * that many decades below it); NaN (no data) leaves the background.
+ */
+function paintTile(img: RgbImage, r: Rect, view: Float64Array, peak: number, lut: Uint8Array, decades = 0): void {
   const d = img.data;
   for (let y = 0; y < r.h; y++) {
     let o = ((r.y + y) * img.width + r.x) * 3;
@@ -216,7 +258,9 @@ function paintTile(img: RgbImage, r: Rect, view: Float64Array, peak: number, lut
       const v = view[y * r.w + x]!;
       if (Number.isNaN(v)) continue; // outside the tile's data: leave the background
       // putLut's level (raster.ts), without its per-pixel NaN check: v is a number here.
-      const k = Math.round(Math.min(1, Math.max(0, peak > 0 ? v / peak : 0)) * (LUT_LEVELS - 1)) * 3;
+      const f = peak > 0 ? v / peak : 0;
+      const t = decades > 0 ? (f > 0 ? 1 + Math.log10(f) / decades : 0) : f;
+      const k = Math.round(Math.min(1, Math.max(0, t)) * (LUT_LEVELS - 1)) * 3;
       d[o] = lut[k]!;
       d[o + 1] = lut[k + 1]!;
       d[o + 2] = lut[k + 2]!;

@@ -207,3 +207,42 @@ describe('contact sheet: 1-D tiles and downsampling', () => {
     expect(() => renderContactSheet([{ ...bad, map: { ...bad.map, intensity: nan } }])).toThrow(/finite/);
   });
 });
+
+describe('contact sheet: windows of very different sizes, log scale, true peaks', () => {
+  // A near-field spot in a 64 µm window beside a far-field one in a 2.56 mm window (40×): on one
+  // field the first would be 4 display pixels wide.
+  const near = gaussianTile(64, 1e-6, 8e-6, 'z 1 mm');
+  const far = gaussianTile(64, 40e-6, 320e-6, 'z 1 m');
+
+  it('gives each tile its own window, with a scale bar of its own, where the windows differ by more than 4×', () => {
+    const { img, layout, texts } = render([near, far], { tilePixels: 100 });
+    expect(layout.own).toBe(true);
+    expect(layout.fields[0]).toBeCloseTo(64e-6, 12);
+    expect(layout.fields[1]).toBeCloseTo(64 * 40e-6, 12);
+    // Both spots fill their tiles alike: the bright (above half the peak) share of each is the same.
+    const bright = (i: number) => {
+      const r = layout.tiles[i]!;
+      let n = 0;
+      for (let y = 0; y < r.h; y++) for (let x = 0; x < r.w; x++) if (lightness(img.at(r.x + x, r.y + y)) > lightness(round3(shoal(0.5)))) n++;
+      return n;
+    };
+    expect(bright(0)).toBeGreaterThan(50);
+    expect(Math.abs(bright(0) - bright(1))).toBeLessThanOrEqual(0.05 * bright(0));
+    // One bar label per tile (round lengths nearest a quarter of each window: 16 µm → 20, 640 µm → 500), and the caption says so.
+    expect(texts.map((t) => t.text)).toEqual(expect.arrayContaining(['20 µm', '500 µm']));
+    expect(texts.some((t) => /its own window/.test(t.text))).toBe(true);
+    // One field when asked.
+    expect(layoutContactSheet([near, far], { tilePixels: 100, field: 'common' }).own).toBe(false);
+  });
+
+  it('draws log brightness over the decades asked, and prints the case peak given with the tile', () => {
+    const { img, layout, texts } = render([{ ...near, peak: 0.031 }, far], { tilePixels: 100, scale: 'log', logDecades: 4 });
+    const r = layout.tiles[0]!;
+    // At 2w from the centre I/peak = e^{−8} = 3.4e-4: on a 4-decade log scale, 1 + log10(3.4e-4)/4 = 0.13 of the scale.
+    const x = Math.round(r.w / 2 - 0.5 + (2 * 8e-6) / (64e-6 / r.w));
+    const want = lightness(round3(shoal(1 + Math.log10(Math.exp(-8)) / 4)));
+    expect(Math.abs(lightness(img.at(r.x + x, r.y + Math.round(r.h / 2 - 0.5))) - want)).toBeLessThan(4);
+    expect(texts.map((t) => t.text)).toEqual(expect.arrayContaining(['peak 0.0310', 'peak 3.45']));
+    expect(texts.some((t) => /log scale over 4 decades/.test(t.text))).toBe(true);
+  });
+});
