@@ -2,8 +2,12 @@
 // 2-D complex FFT benchmark (not a test): one thread, n×n forward transforms, median wall-clock time
 // of several runs after warm-up. Runs against the built program (`npm run build` first; `npm run
 // bench` does), and, when python3 with SciPy is on the machine, times scipy.fft.fft2(a,
-// workers=1) on the same sizes in the same run as an outside yardstick.
-//   node bench/fft.mjs [--sizes 512,1024,1080,2048,2160,4096] [--runs N] [--no-scipy] [--json]
+// workers=1) on the same sizes in the same run as an outside yardstick; likewise FFTW 3 (double
+// precision, in place, planned with FFTW_MEASURE, on one thread and on two), when a C compiler and
+// FFTW's development headers are on the machine (Debian: libfftw3-dev): bench/fftw/fft2.c is
+// compiled here into a temporary directory. FFTW is a yardstick only, never a dependency of the
+// program or its tests; without it the rows are skipped with a note.
+//   node bench/fft.mjs [--sizes 512,1024,1080,2048,2160,4096] [--runs N] [--no-scipy] [--no-fftw] [--json]
 //
 // Compared: fft2Reference of src/optics/fft.ts (fft.js rows and gathered columns), and fft2Interleaved /
 // fft2Split of src/optics/fft-fast.ts with each of its kernels (WebAssembly SIMD, TypeScript). Sizes
@@ -12,6 +16,10 @@
 // variants of one size run in turn, round after round, so that a slow spell of the machine falls on
 // all of them; each run starts from the same random data, restored outside the timing.
 import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { fft2Reference as fft2 } from '../dist/src/optics/fft.js';
 import { createEngine } from '../dist/src/kernels.js';
 import { fft2Interleaved, fft2Split, useFastFftBackend, fastFftBackend } from '../dist/src/optics/fft-fast.js';
@@ -30,6 +38,7 @@ const json = args.includes('--json');
 const sizes = opt('--sizes', '512,1024,1080,2048,2160,4096').split(',').map(Number);
 const runsArg = opt('--runs', null);
 const withScipy = !args.includes('--no-scipy');
+const withFftw = !args.includes('--no-fftw');
 
 const runsFor = (n) => (runsArg ? Number(runsArg) : n <= 1024 ? 15 : n <= 2048 ? 9 : 5);
 const median = (xs) => {
@@ -62,6 +71,42 @@ function scipyTime(n, runs, workers = 1) {
   const r = spawnSync('python3', ['-c', scipyScript, String(n), String(runs), String(workers)], { env, encoding: 'utf8' });
   if (r.status !== 0) {
     scipyNote = `SciPy not timed: ${(r.stderr || r.error?.message || 'python3 failed').trim().split('\n').pop()}`;
+    return null;
+  }
+  return JSON.parse(r.stdout.trim().split('\n').pop());
+}
+
+// FFTW: bench/fftw/fft2.c compiled once per bench run into a temporary directory.
+let fftwNote = null;
+let fftwDir = null;
+let fftwExe = null;
+function fftwBuild() {
+  if (fftwExe || fftwNote) return fftwExe;
+  if (!withFftw) {
+    fftwNote = 'FFTW not timed: --no-fftw';
+    return null;
+  }
+  if (!existsSync('/usr/include/fftw3.h')) {
+    fftwNote = 'FFTW not timed: /usr/include/fftw3.h missing (Debian: libfftw3-dev)';
+    return null;
+  }
+  fftwDir = mkdtempSync(join(tmpdir(), 'spotcast-fftw-'));
+  const exe = join(fftwDir, 'fft2');
+  const src = fileURLToPath(new URL('./fftw/fft2.c', import.meta.url));
+  const r = spawnSync('cc', ['-O3', src, '-o', exe, '-lfftw3_threads', '-lfftw3', '-lm'], { encoding: 'utf8' });
+  if (r.error || r.status !== 0) {
+    fftwNote = `FFTW not timed: ${r.error ? 'no C compiler (cc)' : `cc failed: ${(r.stderr || '').trim().split('\n').pop()}`}`;
+    return null;
+  }
+  fftwExe = exe;
+  return exe;
+}
+function fftwTime(n, runs, threads) {
+  const exe = fftwBuild();
+  if (!exe) return null;
+  const r = spawnSync(exe, [String(n), String(runs), String(threads)], { encoding: 'utf8' });
+  if (r.status !== 0) {
+    fftwNote = `FFTW not timed: fft2 ${n} exited with ${r.status ?? r.signal}`;
     return null;
   }
   return JSON.parse(r.stdout.trim().split('\n').pop());
@@ -162,15 +207,27 @@ for (const n of sizes) {
   }
   const sp = scipyTime(n, runs);
   const sp2 = threads > 1 ? scipyTime(n, runs, 2) : null;
+  const fw = fftwTime(n, runs, 1);
+  const fw2 = fw ? fftwTime(n, runs, 2) : null;
+  // FFTW's X[0, 1] against ours: the same transform of the same data (a check that it is, not of accuracy).
+  const fftwX1 = (f) => (f ? Math.hypot(f.x1[0] - ref[2], f.x1[1] - ref[3]) / Math.hypot(ref[2], ref[3]) : null);
+  const fftwRow = (f) => (f ? { medianMs: f.median, minMs: f.min, planMs: f.planMs, version: f.version, x1RelDiff: fftwX1(f) } : null);
   const row = {
     n,
     runs,
+    fftw: fftwRow(fw),
+    fftw2: fftwRow(fw2),
     scipy: sp ? { medianMs: sp.median, minMs: sp.min, version: sp.version } : null,
     scipy2: sp2 ? { medianMs: sp2.median, minMs: sp2.min, version: sp2.version } : null,
     variants: {},
   };
   variants.forEach((v, k) => {
-    row.variants[v.name] = { medianMs: median(times[k]), minMs: Math.min(...times[k]), [pow2 ? 'maxRelDiffVsFftJs' : 'maxRelDiffVsTs']: v.diff ?? 0 };
+    const m = median(times[k]);
+    const yard = v.name.includes('threads') ? row.fftw2 : row.fftw;
+    row.variants[v.name] = {
+      medianMs: m, minMs: Math.min(...times[k]), [pow2 ? 'maxRelDiffVsFftJs' : 'maxRelDiffVsTs']: v.diff ?? 0,
+      ...(yard ? { vsFftw: m / yard.medianMs } : {}),
+    };
   });
   rows.push(row);
   if (!json) printRow(row);
@@ -185,14 +242,22 @@ function printRow(row) {
   for (const [name, v] of Object.entries(row.variants)) {
     const yard = name.includes('threads') ? row.scipy2 : row.scipy;
     const ratio = yard ? `  ${(v.medianMs / yard.medianMs).toFixed(2)}× SciPy${name.includes('threads') ? ' workers=2' : ''}` : '';
+    const fr = v.vsFftw !== undefined ? `  ${v.vsFftw.toFixed(2)}× FFTW${name.includes('threads') ? ' 2 threads' : ''}` : '';
     const vs = v.maxRelDiffVsFftJs ?? v.maxRelDiffVsTs;
     const diff = name === 'fft.js fft2' ? '' : `  Δ ${vs.toExponential(1)}${v.maxRelDiffVsTs !== undefined ? ' vs ts' : ''}`;
-    console.log(`  ${name.padEnd(18)}${f(v.medianMs)} (${v.minMs.toFixed(1)})${ratio}${diff}`);
+    console.log(`  ${name.padEnd(18)}${f(v.medianMs)} (${v.minMs.toFixed(1)})${fr}${ratio}${diff}`);
   }
+  const fx = (r) => (r.x1RelDiff !== null && r.x1RelDiff < 1e-12 ? 'X[0,1] agrees' : `X[0,1] differs by ${r.x1RelDiff?.toExponential(1)}`);
+  if (row.fftw) console.log(`  ${'FFTW 1 thread'.padEnd(18)}${f(row.fftw.medianMs)} (${row.fftw.minMs.toFixed(1)})  ${row.fftw.version}, FFTW_MEASURE, in place; ${fx(row.fftw)}`);
+  if (row.fftw2) console.log(`  ${'FFTW 2 threads'.padEnd(18)}${f(row.fftw2.medianMs)} (${row.fftw2.minMs.toFixed(1)})  the same, fftw_plan_with_nthreads(2)`);
   if (row.scipy) console.log(`  ${`SciPy ${row.scipy.version}`.padEnd(18)}${f(row.scipy.medianMs)} (${row.scipy.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=1)`);
   if (row.scipy2) console.log(`  ${`SciPy ${row.scipy2.version}`.padEnd(18)}${f(row.scipy2.medianMs)} (${row.scipy2.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=2)`);
 }
 
 if (threads > 1) await team.stopFftTeam();
-if (json) console.log(JSON.stringify({ rows, scipyNote, threads }, null, 2));
-else if (scipyNote) console.log(`\n${scipyNote}`);
+if (fftwDir) rmSync(fftwDir, { recursive: true, force: true });
+if (json) console.log(JSON.stringify({ rows, scipyNote, fftwNote, threads }, null, 2));
+else {
+  if (scipyNote) console.log(`\n${scipyNote}`);
+  if (fftwNote) console.log(`\n${fftwNote}`);
+}
