@@ -314,8 +314,31 @@ export function rowsInterleaved(
   const rowLen = (<usize>nx) << 4;
   const pb = (<usize>R) << 3;
   const s = f64x2.splat(scale);
+  const pow2 = nx > 1 && (nx & (nx - 1)) == 0;
+  const halfBytes = (<usize>nx) << 3; // bytes of half a row
   for (let g = 0; g * R < ny; g++) {
-    for (let b = 0; b < R; b += 2) {
+    if (pow2) {
+      // Bit reversal read in source order, two points at a time: for j < n/2, point j goes to
+      // position k = rev(j) (even) and point j + n/2 to k + 1, so each row is read as two
+      // sequential streams and the R lanes of positions k and k + 1 are written together. (Read
+      // in destination order, successive points lie n/2, n/4, … apart and share a few cache sets.)
+      for (let j: usize = 0; j < halfBytes; j += 16) {
+        const d = (<usize>load<u32>(rev + (j >> 2))) * pb;
+        for (let b = 0; b < R; b += 2) {
+          const ra = data + rowOf(g, b, R, ny) * rowBytes + j;
+          const rb = data + rowOf(g, b + 1, R, ny) * rowBytes + j;
+          const e = d + ((<usize>b) << 3);
+          let va = v128.load(ra), vb = v128.load(rb);
+          v128.store(sre + e, v128.shuffle<f64>(va, vb, 0, 2));
+          v128.store(sim + e, v128.shuffle<f64>(va, vb, 1, 3));
+          va = v128.load(ra + halfBytes);
+          vb = v128.load(rb + halfBytes);
+          v128.store(sre + e + pb, v128.shuffle<f64>(va, vb, 0, 2));
+          v128.store(sim + e + pb, v128.shuffle<f64>(va, vb, 1, 3));
+        }
+      }
+    }
+    for (let b = 0; b < R && !pow2; b += 2) {
       const ra = data + rowOf(g, b, R, ny) * rowBytes;
       const rb = data + rowOf(g, b + 1, R, ny) * rowBytes;
       let d = (<usize>b) << 3;
