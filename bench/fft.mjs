@@ -14,8 +14,10 @@
 // that are not powers of two (5-smooth: 1080 = 2³·3³·5, 2160, …, radix-3 and radix-5 stages) have
 // no fft.js row; their agreement is given against the TypeScript kernel instead. The
 // variants of one size run in turn, round after round, so that a slow spell of the machine falls on
-// all of them; each run starts from the same random data, restored outside the timing.
-import { spawnSync } from 'node:child_process';
+// all of them (FFTW too: its planned transforms wait in child processes and run one per round,
+// after the variants); each run starts from the same random data, restored outside the timing.
+// SciPy runs after the rounds, in its own process.
+import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -101,15 +103,58 @@ function fftwBuild() {
   fftwExe = exe;
   return exe;
 }
-function fftwTime(n, runs, threads) {
+/**
+ * FFTW planned for one size and thread count in a child process (bench/fftw/fft2.c), timed one
+ * transform per request so that its runs fall in the same rounds as the variants here. Null when
+ * FFTW is not there.
+ */
+async function fftwStart(n, threads) {
   const exe = fftwBuild();
   if (!exe) return null;
-  const r = spawnSync(exe, [String(n), String(runs), String(threads)], { encoding: 'utf8' });
-  if (r.status !== 0) {
-    fftwNote = `FFTW not timed: fft2 ${n} exited with ${r.status ?? r.signal}`;
+  const child = spawn(exe, [String(n), String(threads)], { stdio: ['pipe', 'pipe', 'inherit'] });
+  let buf = '';
+  const waiting = [];
+  const lines = [];
+  child.stdout.setEncoding('utf8');
+  child.stdout.on('data', (chunk) => {
+    buf += chunk;
+    let i;
+    while ((i = buf.indexOf('\n')) >= 0) {
+      const line = buf.slice(0, i);
+      buf = buf.slice(i + 1);
+      if (waiting.length) waiting.shift()(line);
+      else lines.push(line);
+    }
+  });
+  let failed = null;
+  const ended = new Promise((resolve) => child.on('close', (code, signal) => {
+    failed = `fft2 ${n} ${threads} ended (${code ?? signal})`;
+    while (waiting.length) waiting.shift()(null);
+    resolve();
+  }));
+  child.on('error', (e) => {
+    failed = e.message;
+  });
+  const next = () => (lines.length ? Promise.resolve(lines.shift()) : failed ? Promise.resolve(null) : new Promise((r) => waiting.push(r)));
+  const head = await next();
+  if (head === null) {
+    fftwNote = `FFTW not timed: ${failed}`;
     return null;
   }
-  return JSON.parse(r.stdout.trim().split('\n').pop());
+  const info = JSON.parse(head);
+  return {
+    info,
+    async run() {
+      child.stdin.write('r\n');
+      const line = await next();
+      if (line === null) throw new Error(`FFTW: ${failed}`);
+      return Number(line);
+    },
+    async stop() {
+      child.stdin.end();
+      await ended;
+    },
+  };
 }
 
 function relDiff(ref, got) {
@@ -194,6 +239,13 @@ for (const n of sizes) {
 
   const runs = runsFor(n);
   const times = variants.map(() => []);
+  // FFTW on one thread and on two, planned before the rounds, run in each round after the variants.
+  const fftws = [];
+  for (const th of [1, threads > 1 ? 2 : 0]) {
+    if (!th) continue;
+    const f = await fftwStart(n, th);
+    if (f) fftws.push({ threads: th, f, times: [] });
+  }
   for (let round = 0; round < runs + 2; round++) {
     for (let k = 0; k < variants.length; k++) {
       const v = variants[k];
@@ -204,14 +256,20 @@ for (const n of sizes) {
       const t = performance.now() - t0;
       if (round >= 2) times[k].push(t); // the first two rounds warm up
     }
+    for (const x of fftws) {
+      const t = await x.f.run();
+      if (round >= 2) x.times.push(t);
+    }
   }
+  for (const x of fftws) await x.f.stop();
   const sp = scipyTime(n, runs);
   const sp2 = threads > 1 ? scipyTime(n, runs, 2) : null;
-  const fw = fftwTime(n, runs, 1);
-  const fw2 = fw ? fftwTime(n, runs, 2) : null;
+  const fw = fftws.find((x) => x.threads === 1) ?? null;
+  const fw2 = fftws.find((x) => x.threads === 2) ?? null;
   // FFTW's X[0, 1] against ours: the same transform of the same data (a check that it is, not of accuracy).
-  const fftwX1 = (f) => (f ? Math.hypot(f.x1[0] - ref[2], f.x1[1] - ref[3]) / Math.hypot(ref[2], ref[3]) : null);
-  const fftwRow = (f) => (f ? { medianMs: f.median, minMs: f.min, planMs: f.planMs, version: f.version, x1RelDiff: fftwX1(f) } : null);
+  const fftwX1 = (i) => Math.hypot(i.x1[0] - ref[2], i.x1[1] - ref[3]) / Math.hypot(ref[2], ref[3]);
+  const fftwRow = (x) =>
+    x ? { medianMs: median(x.times), minMs: Math.min(...x.times), planMs: x.f.info.planMs, version: x.f.info.version, x1RelDiff: fftwX1(x.f.info) } : null;
   const row = {
     n,
     runs,
