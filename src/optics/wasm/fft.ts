@@ -416,6 +416,12 @@ export function rowsSplit(
 }
 
 // ---- columns: B adjacent columns (B even, B ≤ nx) at a time --------------------------------------
+//
+// Gathered in destination order: position k of the lanes takes row rev[k], so the scattered
+// accesses are reads of whole blocks of a row (B columns, several cache lines) and the writes into
+// the lanes run in order. (Taken in row order, each row's block was written to position inv[r]:
+// scattered writes, each a miss that holds up the stores behind it; measured on blocks of 16
+// columns with the rows in cache, the pass took 1.2× as long at 2048 and 4096 rows.)
 
 /** Column transforms of an ny×nx interleaved array at `data`, in place. */
 export function colsInterleaved(
@@ -427,15 +433,15 @@ export function colsInterleaved(
   const s = f64x2.splat(scale);
   for (let c0 = 0; c0 < nx; c0 += B) {
     const col = data + ((<usize>c0) << 4);
-    let src = col;
-    for (let r = 0; r < ny; r++) {
-      const d = (<usize>load<u32>(rev + ((<usize>r) << 2))) * pb;
+    let d: usize = 0;
+    for (let k = 0; k < ny; k++) {
+      const src = col + (<usize>load<u32>(rev + ((<usize>k) << 2))) * rowBytes;
       for (let v: usize = 0; v < pb; v += 16) {
         const a = v128.load(src + (v << 1)), b = v128.load(src + (v << 1) + 16);
         v128.store(sre + d + v, v128.shuffle<f64>(a, b, 0, 2));
         v128.store(sim + d + v, v128.shuffle<f64>(a, b, 1, 3));
       }
-      src += rowBytes;
+      d += pb;
     }
     if (swap) lanes(sim, sre, ny, B, tw);
     else lanes(sre, sim, ny, B, tw);
@@ -462,14 +468,14 @@ export function colsSplit(
   const pb = (<usize>B) << 3;
   const s = f64x2.splat(scale);
   for (let c0 = 0; c0 < nx; c0 += B) {
-    let src = (<usize>c0) << 3;
-    for (let r = 0; r < ny; r++) {
-      const d = (<usize>load<u32>(rev + ((<usize>r) << 2))) * pb;
+    let d: usize = 0;
+    for (let k = 0; k < ny; k++) {
+      const src = ((<usize>c0) << 3) + (<usize>load<u32>(rev + ((<usize>k) << 2))) * rowBytes;
       for (let v: usize = 0; v < pb; v += 16) {
         v128.store(sre + d + v, v128.load(re + src + v));
         v128.store(sim + d + v, v128.load(im + src + v));
       }
-      src += rowBytes;
+      d += pb;
     }
     if (swap) lanes(sim, sre, ny, B, tw);
     else lanes(sre, sim, ny, B, tw);
