@@ -69,6 +69,33 @@ function firstStage(re: usize, im: usize, n: i32, pb: usize): void {
 }
 
 /**
+ * A radix-4 butterfly without twiddles at byte i0, the inputs q bytes apart in bit-reversed order
+ * (offsets 0, 2, 1, 3 hold residues 0, 1, 2, 3), the outputs in natural order.
+ */
+@inline
+function butterfly4(re: usize, im: usize, i0: usize, q: usize): void {
+  const i2 = i0 + q;
+  const i1 = i2 + q;
+  const i3 = i1 + q;
+  const b0r = v128.load(re + i0), b0i = v128.load(im + i0);
+  const b2r = v128.load(re + i2), b2i = v128.load(im + i2);
+  const b1r = v128.load(re + i1), b1i = v128.load(im + i1);
+  const b3r = v128.load(re + i3), b3i = v128.load(im + i3);
+  const t0r = f64x2.add(b0r, b2r), t0i = f64x2.add(b0i, b2i);
+  const t1r = f64x2.sub(b0r, b2r), t1i = f64x2.sub(b0i, b2i);
+  const t2r = f64x2.add(b1r, b3r), t2i = f64x2.add(b1i, b3i);
+  const t3r = f64x2.sub(b1r, b3r), t3i = f64x2.sub(b1i, b3i);
+  v128.store(re + i0, f64x2.add(t0r, t2r));
+  v128.store(im + i0, f64x2.add(t0i, t2i));
+  v128.store(re + i1, f64x2.sub(t0r, t2r));
+  v128.store(im + i1, f64x2.sub(t0i, t2i));
+  v128.store(re + i2, f64x2.add(t1r, t3i));
+  v128.store(im + i2, f64x2.sub(t1i, t3r));
+  v128.store(re + i3, f64x2.sub(t1r, t3i));
+  v128.store(im + i3, f64x2.add(t1i, t3r));
+}
+
+/**
  * The radix-4 stages of half-size L = from, 4·from, … while 4L ≤ P, over the length-P transforms
  * held one after another in `total` bytes. `t` points at the twiddles of stage `from`: for each
  * stage in turn, L records of six f64, w^k, w^2k, w^3k (re, im) with w = e^{-2πi/(4L)}.
@@ -78,9 +105,11 @@ function radix4Stages(re: usize, im: usize, total: usize, P: i32, pb: usize, fro
   while (L < P) {
     const q = (<usize>L) * pb; // bytes from one quarter to the next
     for (let base: usize = 0; base < total; base += q << 2) {
-      let tk = t;
+      // k = 0: the twiddles are 1
+      for (let v: usize = 0; v < pb; v += 16) butterfly4(re, im, base + v, q);
+      let tk = t + 48;
       const end = base + q;
-      for (let p = base; p < end; p += pb) {
+      for (let p = base + pb; p < end; p += pb) {
         const w1r = f64x2.splat(load<f64>(tk)), w1i = f64x2.splat(load<f64>(tk, 8));
         const w2r = f64x2.splat(load<f64>(tk, 16)), w2i = f64x2.splat(load<f64>(tk, 24));
         const w3r = f64x2.splat(load<f64>(tk, 32)), w3i = f64x2.splat(load<f64>(tk, 40));
