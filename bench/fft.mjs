@@ -2,16 +2,26 @@
 // 2-D complex FFT benchmark (not a test): one thread, n×n forward transforms, median wall-clock time
 // of several runs after warm-up. Runs against the built program (`npm run build` first; `npm run
 // bench` does), and, when python3 with SciPy is on the machine, times scipy.fft.fft2(a,
-// workers=1) on the same sizes in the same run as an outside yardstick.
-//   node bench/fft.mjs [--sizes 512,1024,1080,2048,2160,4096] [--runs N] [--no-scipy] [--json]
+// workers=1) on the same sizes in the same run as an outside yardstick; likewise FFTW 3 (double
+// precision, in place, planned with FFTW_MEASURE, on one thread and on two), when a C compiler and
+// FFTW's development headers are on the machine (Debian: libfftw3-dev): bench/fftw/fft2.c is
+// compiled here into a temporary directory. FFTW is a yardstick only, never a dependency of the
+// program or its tests; without it the rows are skipped with a note.
+//   node bench/fft.mjs [--sizes 512,1024,1080,2048,2160,4096] [--runs N] [--no-scipy] [--no-fftw] [--json]
 //
 // Compared: fft2Reference of src/optics/fft.ts (fft.js rows and gathered columns), and fft2Interleaved /
 // fft2Split of src/optics/fft-fast.ts with each of its kernels (WebAssembly SIMD, TypeScript). Sizes
 // that are not powers of two (5-smooth: 1080 = 2³·3³·5, 2160, …, radix-3 and radix-5 stages) have
 // no fft.js row; their agreement is given against the TypeScript kernel instead. The
 // variants of one size run in turn, round after round, so that a slow spell of the machine falls on
-// all of them; each run starts from the same random data, restored outside the timing.
-import { spawnSync } from 'node:child_process';
+// all of them (FFTW too: its planned transforms wait in child processes and run one per round,
+// after the variants); each run starts from the same random data, restored outside the timing.
+// SciPy runs after the rounds, in its own process.
+import { spawn, spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { fft2Reference as fft2 } from '../dist/src/optics/fft.js';
 import { createEngine } from '../dist/src/kernels.js';
 import { fft2Interleaved, fft2Split, useFastFftBackend, fastFftBackend } from '../dist/src/optics/fft-fast.js';
@@ -30,6 +40,7 @@ const json = args.includes('--json');
 const sizes = opt('--sizes', '512,1024,1080,2048,2160,4096').split(',').map(Number);
 const runsArg = opt('--runs', null);
 const withScipy = !args.includes('--no-scipy');
+const withFftw = !args.includes('--no-fftw');
 
 const runsFor = (n) => (runsArg ? Number(runsArg) : n <= 1024 ? 15 : n <= 2048 ? 9 : 5);
 const median = (xs) => {
@@ -65,6 +76,85 @@ function scipyTime(n, runs, workers = 1) {
     return null;
   }
   return JSON.parse(r.stdout.trim().split('\n').pop());
+}
+
+// FFTW: bench/fftw/fft2.c compiled once per bench run into a temporary directory.
+let fftwNote = null;
+let fftwDir = null;
+let fftwExe = null;
+function fftwBuild() {
+  if (fftwExe || fftwNote) return fftwExe;
+  if (!withFftw) {
+    fftwNote = 'FFTW not timed: --no-fftw';
+    return null;
+  }
+  if (!existsSync('/usr/include/fftw3.h')) {
+    fftwNote = 'FFTW not timed: /usr/include/fftw3.h missing (Debian: libfftw3-dev)';
+    return null;
+  }
+  fftwDir = mkdtempSync(join(tmpdir(), 'spotcast-fftw-'));
+  const exe = join(fftwDir, 'fft2');
+  const src = fileURLToPath(new URL('./fftw/fft2.c', import.meta.url));
+  const r = spawnSync('cc', ['-O3', src, '-o', exe, '-lfftw3_threads', '-lfftw3', '-lm'], { encoding: 'utf8' });
+  if (r.error || r.status !== 0) {
+    fftwNote = `FFTW not timed: ${r.error ? 'no C compiler (cc)' : `cc failed: ${(r.stderr || '').trim().split('\n').pop()}`}`;
+    return null;
+  }
+  fftwExe = exe;
+  return exe;
+}
+/**
+ * FFTW planned for one size and thread count in a child process (bench/fftw/fft2.c), timed one
+ * transform per request so that its runs fall in the same rounds as the variants here. Null when
+ * FFTW is not there.
+ */
+async function fftwStart(n, threads) {
+  const exe = fftwBuild();
+  if (!exe) return null;
+  const child = spawn(exe, [String(n), String(threads)], { stdio: ['pipe', 'pipe', 'inherit'] });
+  let buf = '';
+  const waiting = [];
+  const lines = [];
+  child.stdout.setEncoding('utf8');
+  child.stdout.on('data', (chunk) => {
+    buf += chunk;
+    let i;
+    while ((i = buf.indexOf('\n')) >= 0) {
+      const line = buf.slice(0, i);
+      buf = buf.slice(i + 1);
+      if (waiting.length) waiting.shift()(line);
+      else lines.push(line);
+    }
+  });
+  let failed = null;
+  const ended = new Promise((resolve) => child.on('close', (code, signal) => {
+    failed = `fft2 ${n} ${threads} ended (${code ?? signal})`;
+    while (waiting.length) waiting.shift()(null);
+    resolve();
+  }));
+  child.on('error', (e) => {
+    failed = e.message;
+  });
+  const next = () => (lines.length ? Promise.resolve(lines.shift()) : failed ? Promise.resolve(null) : new Promise((r) => waiting.push(r)));
+  const head = await next();
+  if (head === null) {
+    fftwNote = `FFTW not timed: ${failed}`;
+    return null;
+  }
+  const info = JSON.parse(head);
+  return {
+    info,
+    async run() {
+      child.stdin.write('r\n');
+      const line = await next();
+      if (line === null) throw new Error(`FFTW: ${failed}`);
+      return Number(line);
+    },
+    async stop() {
+      child.stdin.end();
+      await ended;
+    },
+  };
 }
 
 function relDiff(ref, got) {
@@ -149,6 +239,13 @@ for (const n of sizes) {
 
   const runs = runsFor(n);
   const times = variants.map(() => []);
+  // FFTW on one thread and on two, planned before the rounds, run in each round after the variants.
+  const fftws = [];
+  for (const th of [1, threads > 1 ? 2 : 0]) {
+    if (!th) continue;
+    const f = await fftwStart(n, th);
+    if (f) fftws.push({ threads: th, f, times: [] });
+  }
   for (let round = 0; round < runs + 2; round++) {
     for (let k = 0; k < variants.length; k++) {
       const v = variants[k];
@@ -159,18 +256,36 @@ for (const n of sizes) {
       const t = performance.now() - t0;
       if (round >= 2) times[k].push(t); // the first two rounds warm up
     }
+    for (const x of fftws) {
+      const t = await x.f.run();
+      if (round >= 2) x.times.push(t);
+    }
   }
+  for (const x of fftws) await x.f.stop();
   const sp = scipyTime(n, runs);
   const sp2 = threads > 1 ? scipyTime(n, runs, 2) : null;
+  const fw = fftws.find((x) => x.threads === 1) ?? null;
+  const fw2 = fftws.find((x) => x.threads === 2) ?? null;
+  // FFTW's X[0, 1] against ours: the same transform of the same data (a check that it is, not of accuracy).
+  const fftwX1 = (i) => Math.hypot(i.x1[0] - ref[2], i.x1[1] - ref[3]) / Math.hypot(ref[2], ref[3]);
+  const fftwRow = (x) =>
+    x ? { medianMs: median(x.times), minMs: Math.min(...x.times), planMs: x.f.info.planMs, version: x.f.info.version, x1RelDiff: fftwX1(x.f.info) } : null;
   const row = {
     n,
     runs,
+    fftw: fftwRow(fw),
+    fftw2: fftwRow(fw2),
     scipy: sp ? { medianMs: sp.median, minMs: sp.min, version: sp.version } : null,
     scipy2: sp2 ? { medianMs: sp2.median, minMs: sp2.min, version: sp2.version } : null,
     variants: {},
   };
   variants.forEach((v, k) => {
-    row.variants[v.name] = { medianMs: median(times[k]), minMs: Math.min(...times[k]), [pow2 ? 'maxRelDiffVsFftJs' : 'maxRelDiffVsTs']: v.diff ?? 0 };
+    const m = median(times[k]);
+    const yard = v.name.includes('threads') ? row.fftw2 : row.fftw;
+    row.variants[v.name] = {
+      medianMs: m, minMs: Math.min(...times[k]), [pow2 ? 'maxRelDiffVsFftJs' : 'maxRelDiffVsTs']: v.diff ?? 0,
+      ...(yard ? { vsFftw: m / yard.medianMs } : {}),
+    };
   });
   rows.push(row);
   if (!json) printRow(row);
@@ -185,14 +300,22 @@ function printRow(row) {
   for (const [name, v] of Object.entries(row.variants)) {
     const yard = name.includes('threads') ? row.scipy2 : row.scipy;
     const ratio = yard ? `  ${(v.medianMs / yard.medianMs).toFixed(2)}× SciPy${name.includes('threads') ? ' workers=2' : ''}` : '';
+    const fr = v.vsFftw !== undefined ? `  ${v.vsFftw.toFixed(2)}× FFTW${name.includes('threads') ? ' 2 threads' : ''}` : '';
     const vs = v.maxRelDiffVsFftJs ?? v.maxRelDiffVsTs;
     const diff = name === 'fft.js fft2' ? '' : `  Δ ${vs.toExponential(1)}${v.maxRelDiffVsTs !== undefined ? ' vs ts' : ''}`;
-    console.log(`  ${name.padEnd(18)}${f(v.medianMs)} (${v.minMs.toFixed(1)})${ratio}${diff}`);
+    console.log(`  ${name.padEnd(18)}${f(v.medianMs)} (${v.minMs.toFixed(1)})${fr}${ratio}${diff}`);
   }
+  const fx = (r) => (r.x1RelDiff !== null && r.x1RelDiff < 1e-12 ? 'X[0,1] agrees' : `X[0,1] differs by ${r.x1RelDiff?.toExponential(1)}`);
+  if (row.fftw) console.log(`  ${'FFTW 1 thread'.padEnd(18)}${f(row.fftw.medianMs)} (${row.fftw.minMs.toFixed(1)})  ${row.fftw.version}, FFTW_MEASURE, in place; ${fx(row.fftw)}`);
+  if (row.fftw2) console.log(`  ${'FFTW 2 threads'.padEnd(18)}${f(row.fftw2.medianMs)} (${row.fftw2.minMs.toFixed(1)})  the same, fftw_plan_with_nthreads(2)`);
   if (row.scipy) console.log(`  ${`SciPy ${row.scipy.version}`.padEnd(18)}${f(row.scipy.medianMs)} (${row.scipy.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=1)`);
   if (row.scipy2) console.log(`  ${`SciPy ${row.scipy2.version}`.padEnd(18)}${f(row.scipy2.medianMs)} (${row.scipy2.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=2)`);
 }
 
 if (threads > 1) await team.stopFftTeam();
-if (json) console.log(JSON.stringify({ rows, scipyNote, threads }, null, 2));
-else if (scipyNote) console.log(`\n${scipyNote}`);
+if (fftwDir) rmSync(fftwDir, { recursive: true, force: true });
+if (json) console.log(JSON.stringify({ rows, scipyNote, fftwNote, threads }, null, 2));
+else {
+  if (scipyNote) console.log(`\n${scipyNote}`);
+  if (fftwNote) console.log(`\n${fftwNote}`);
+}

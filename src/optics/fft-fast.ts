@@ -140,7 +140,7 @@ function checkShape(nx: number, ny: number): void {
 interface Tables {
   /** The input permutation: position i of the gathered transform holds input point rev[i]. */
   rev: Uint32Array;
-  /** Its inverse (input point j goes to position inv[j]); the same array when rev is an involution (powers of two). */
+  /** Its inverse (input point j goes to position inv[j]; the TypeScript kernel scatters columns through it); the same array when rev is an involution (powers of two). */
   inv: Uint32Array;
   /**
    * Twiddles: per radix-4 stage of half-size L ≥ 2 (L < P), L records (w^k, w^2k, w^3k),
@@ -740,9 +740,8 @@ function installWasmFft(k: FftKernel, bytes: Uint8Array | null, whyMissing = 'ff
 }
 
 interface WasmTables {
+  /** The input permutation (tablesFor(n).rev): both passes gather through it. */
   rev: number;
-  /** The inverse permutation (the same table for a power of two), for the column pass's scatter. */
-  inv: number;
   tw: number;
 }
 
@@ -771,15 +770,13 @@ function wasmTablesFor(k: FftKernel, w: WasmFft, n: number): WasmTables | null {
   const js = tablesFor(n);
   if (k.tableTop === 0) k.tableTop = align64(w.heapBase());
   const rev = k.tableTop;
-  const inv = js.inv === js.rev ? rev : align64(rev + 4 * n);
-  const tw = align64(inv + 4 * n);
+  const tw = align64(rev + 4 * n);
   const end = align64(tw + 8 * Math.max(1, js.tw.length));
   if (!reserve(k, w, end)) return null;
   new Uint32Array(w.memory.buffer, rev, n).set(js.rev);
-  if (inv !== rev) new Uint32Array(w.memory.buffer, inv, n).set(js.inv);
   k.heap.set(js.tw, tw / 8);
   k.tableTop = end;
-  t = { rev, inv, tw };
+  t = { rev, tw };
   k.wasmTables.set(n, t);
   return t;
 }
@@ -823,7 +820,7 @@ function wasmInterleaved(k: FftKernel, data: Float64Array, nx: number, ny: numbe
     for (let r = r0; r < r0 + g; r++) k.heap.set(data.subarray(r * rowLen, (r + 1) * rowLen), at + r * step);
     w.rowsInterleaved(base + r0 * stride, nx, g, stride, R, tx.rev, tx.tw, sre, sim, swap, sx);
   }
-  if (ny > 1) wasmColumns(w, base, 0, 16, nx, ny, stride, ty.inv, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
+  if (ny > 1) wasmColumns(w, base, 0, 16, nx, ny, stride, ty.rev, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
   for (let r = 0; r < ny; r++) data.set(k.heap.subarray(at + r * step, at + r * step + rowLen), r * rowLen);
   return true;
 }
@@ -850,7 +847,7 @@ function wasmSplit(k: FftKernel, re: Float64Array, im: Float64Array, nx: number,
     }
     w.rowsSplit(pr + r0 * stride, pi + r0 * stride, nx, g, stride, R, tx.rev, tx.tw, sre, sim, swap, sx);
   }
-  if (ny > 1) wasmColumns(w, pr, pi, 8, nx, ny, stride, ty.inv, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
+  if (ny > 1) wasmColumns(w, pr, pi, 8, nx, ny, stride, ty.rev, ty.tw, sre, sim, swap, inverse ? 1 / ny : 1);
   for (let r = 0; r < ny; r++) {
     re.set(k.heap.subarray(ar + r * step, ar + r * step + nx), r * nx);
     im.set(k.heap.subarray(ai + r * step, ai + r * step + nx), r * nx);
@@ -865,11 +862,11 @@ function wasmSplit(k: FftKernel, re: Float64Array, im: Float64Array, nx: number,
  */
 function wasmColumns(
   w: WasmFft, a: number, b: number, colBytes: number, width: number, ny: number, stride: number,
-  inv: number, tw: number, sre: number, sim: number, swap: number, scale: number,
+  rev: number, tw: number, sre: number, sim: number, swap: number, scale: number,
 ): void {
   const pass = (at: number, cols: number, B: number) => {
-    if (colBytes === 16) w.colsInterleaved(a + at, cols, ny, stride, B, inv, tw, sre, sim, swap, scale);
-    else w.colsSplit(a + at, b + at, cols, ny, stride, B, inv, tw, sre, sim, swap, scale);
+    if (colBytes === 16) w.colsInterleaved(a + at, cols, ny, stride, B, rev, tw, sre, sim, swap, scale);
+    else w.colsSplit(a + at, b + at, cols, ny, stride, B, rev, tw, sre, sim, swap, scale);
   };
   const main = width >= WASM_BLOCK ? width - (width % WASM_BLOCK) : 0;
   if (main > 0) pass(0, main, WASM_BLOCK);
@@ -917,7 +914,7 @@ function wasmCols(
   if (!L) return null;
   const at = L.base / 8, step = stride / 8, len = 2 * width;
   for (let r = 0; r < ny; r++) copyValues(src, 2 * (r * nx + c0), k.heap, at + r * step, len);
-  wasmColumns(w, L.base, 0, 16, width, ny, stride, ty.inv, ty.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / ny : 1);
+  wasmColumns(w, L.base, 0, 16, width, ny, stride, ty.rev, ty.tw, L.sre, L.sim, inverse ? 1 : 0, inverse ? 1 / ny : 1);
   if (commit && !commit()) return false;
   for (let r = 0; r < ny; r++) copyValues(k.heap, at + r * step, dst, 2 * (r * nx + c0), len);
   return true;
@@ -1036,8 +1033,8 @@ export interface SharedLayout {
   ny: number;
   revX: number;
   twX: number;
-  /** The column pass's permutation, as it scatters (tablesFor(ny).inv). */
-  invY: number;
+  /** The column pass's permutation, as it gathers (tablesFor(ny).rev). */
+  revY: number;
   twY: number;
   data: number;
   stride: number;
@@ -1059,8 +1056,8 @@ export function sharedLayout(k: FftKernel, nx: number, ny: number, slots: number
   const tx = tablesFor(nx), ty = tablesFor(ny);
   const revX = align64(sh.w.heapBase());
   const twX = align64(revX + 4 * nx);
-  const invY = align64(twX + 8 * Math.max(1, tx.tw.length));
-  const twY = align64(invY + 4 * ny);
+  const revY = align64(twX + 8 * Math.max(1, tx.tw.length));
+  const twY = align64(revY + 4 * ny);
   const data = align64(twY + 8 * Math.max(1, ty.tw.length));
   const stride = 16 * nx + PAD;
   const plane = align64(8 * Math.max(nx * 4, ny * wasmBlock(nx)) + 64);
@@ -1077,9 +1074,9 @@ export function sharedLayout(k: FftKernel, nx: number, ny: number, slots: number
   const heap = sharedHeap(sh, end);
   new Uint32Array(heap.buffer, revX, nx).set(tx.rev);
   heap.set(tx.tw, twX / 8);
-  new Uint32Array(heap.buffer, invY, ny).set(ty.inv);
+  new Uint32Array(heap.buffer, revY, ny).set(ty.rev);
   heap.set(ty.tw, twY / 8);
-  return { nx, ny, revX, twX, invY, twY, data, stride, scratch, plane, end };
+  return { nx, ny, revX, twX, revY, twY, data, stride, scratch, plane, end };
 }
 
 /** This thread's view of the shared memory, renewed when another thread has grown it. */
@@ -1115,7 +1112,7 @@ export function sharedColumns(k: FftKernel, L: SharedLayout, c0: number, c1: num
   const sre = L.scratch + 2 * slot * L.plane, sim = sre + L.plane;
   const width = c1 - c0;
   if (c0 % 2 !== 0 || (c1 % 2 !== 0 && c1 !== L.nx)) throw new Error(`sharedColumns: columns ${c0}..${c1} must start and end on even indices (or end at ${L.nx})`);
-  wasmColumns(sh.w, L.data + 16 * c0, 0, 16, width, L.ny, L.stride, L.invY, L.twY, sre, sim, inverse ? 1 : 0, inverse ? 1 / L.ny : 1);
+  wasmColumns(sh.w, L.data + 16 * c0, 0, 16, width, L.ny, L.stride, L.revY, L.twY, sre, sim, inverse ? 1 : 0, inverse ? 1 / L.ny : 1);
 }
 
 /** Rows [r0, r1) of the result copied out to `data`, if `commit` (asked first) allows. */

@@ -69,6 +69,33 @@ function firstStage(re: usize, im: usize, n: i32, pb: usize): void {
 }
 
 /**
+ * A radix-4 butterfly without twiddles at byte i0, the inputs q bytes apart in bit-reversed order
+ * (offsets 0, 2, 1, 3 hold residues 0, 1, 2, 3), the outputs in natural order.
+ */
+@inline
+function butterfly4(re: usize, im: usize, i0: usize, q: usize): void {
+  const i2 = i0 + q;
+  const i1 = i2 + q;
+  const i3 = i1 + q;
+  const b0r = v128.load(re + i0), b0i = v128.load(im + i0);
+  const b2r = v128.load(re + i2), b2i = v128.load(im + i2);
+  const b1r = v128.load(re + i1), b1i = v128.load(im + i1);
+  const b3r = v128.load(re + i3), b3i = v128.load(im + i3);
+  const t0r = f64x2.add(b0r, b2r), t0i = f64x2.add(b0i, b2i);
+  const t1r = f64x2.sub(b0r, b2r), t1i = f64x2.sub(b0i, b2i);
+  const t2r = f64x2.add(b1r, b3r), t2i = f64x2.add(b1i, b3i);
+  const t3r = f64x2.sub(b1r, b3r), t3i = f64x2.sub(b1i, b3i);
+  v128.store(re + i0, f64x2.add(t0r, t2r));
+  v128.store(im + i0, f64x2.add(t0i, t2i));
+  v128.store(re + i1, f64x2.sub(t0r, t2r));
+  v128.store(im + i1, f64x2.sub(t0i, t2i));
+  v128.store(re + i2, f64x2.add(t1r, t3i));
+  v128.store(im + i2, f64x2.sub(t1i, t3r));
+  v128.store(re + i3, f64x2.sub(t1r, t3i));
+  v128.store(im + i3, f64x2.add(t1i, t3r));
+}
+
+/**
  * The radix-4 stages of half-size L = from, 4·from, … while 4L ≤ P, over the length-P transforms
  * held one after another in `total` bytes. `t` points at the twiddles of stage `from`: for each
  * stage in turn, L records of six f64, w^k, w^2k, w^3k (re, im) with w = e^{-2πi/(4L)}.
@@ -78,9 +105,11 @@ function radix4Stages(re: usize, im: usize, total: usize, P: i32, pb: usize, fro
   while (L < P) {
     const q = (<usize>L) * pb; // bytes from one quarter to the next
     for (let base: usize = 0; base < total; base += q << 2) {
-      let tk = t;
+      // k = 0: the twiddles are 1
+      for (let v: usize = 0; v < pb; v += 16) butterfly4(re, im, base + v, q);
+      let tk = t + 48;
       const end = base + q;
-      for (let p = base; p < end; p += pb) {
+      for (let p = base + pb; p < end; p += pb) {
         const w1r = f64x2.splat(load<f64>(tk)), w1i = f64x2.splat(load<f64>(tk, 8));
         const w2r = f64x2.splat(load<f64>(tk, 16)), w2i = f64x2.splat(load<f64>(tk, 24));
         const w3r = f64x2.splat(load<f64>(tk, 32)), w3i = f64x2.splat(load<f64>(tk, 40));
@@ -314,8 +343,31 @@ export function rowsInterleaved(
   const rowLen = (<usize>nx) << 4;
   const pb = (<usize>R) << 3;
   const s = f64x2.splat(scale);
+  const pow2 = nx > 1 && (nx & (nx - 1)) == 0;
+  const halfBytes = (<usize>nx) << 3; // bytes of half a row
   for (let g = 0; g * R < ny; g++) {
-    for (let b = 0; b < R; b += 2) {
+    if (pow2) {
+      // Bit reversal read in source order, two points at a time: for j < n/2, point j goes to
+      // position k = rev(j) (even) and point j + n/2 to k + 1, so each row is read as two
+      // sequential streams and the R lanes of positions k and k + 1 are written together. (Read
+      // in destination order, successive points lie n/2, n/4, … apart and share a few cache sets.)
+      for (let j: usize = 0; j < halfBytes; j += 16) {
+        const d = (<usize>load<u32>(rev + (j >> 2))) * pb;
+        for (let b = 0; b < R; b += 2) {
+          const ra = data + rowOf(g, b, R, ny) * rowBytes + j;
+          const rb = data + rowOf(g, b + 1, R, ny) * rowBytes + j;
+          const e = d + ((<usize>b) << 3);
+          let va = v128.load(ra), vb = v128.load(rb);
+          v128.store(sre + e, v128.shuffle<f64>(va, vb, 0, 2));
+          v128.store(sim + e, v128.shuffle<f64>(va, vb, 1, 3));
+          va = v128.load(ra + halfBytes);
+          vb = v128.load(rb + halfBytes);
+          v128.store(sre + e + pb, v128.shuffle<f64>(va, vb, 0, 2));
+          v128.store(sim + e + pb, v128.shuffle<f64>(va, vb, 1, 3));
+        }
+      }
+    }
+    for (let b = 0; b < R && !pow2; b += 2) {
       const ra = data + rowOf(g, b, R, ny) * rowBytes;
       const rb = data + rowOf(g, b + 1, R, ny) * rowBytes;
       let d = (<usize>b) << 3;
@@ -393,6 +445,12 @@ export function rowsSplit(
 }
 
 // ---- columns: B adjacent columns (B even, B ≤ nx) at a time --------------------------------------
+//
+// Gathered in destination order: position k of the lanes takes row rev[k], so the scattered
+// accesses are reads of whole blocks of a row (B columns, several cache lines) and the writes into
+// the lanes run in order. (Taken in row order, each row's block was written to position inv[r]:
+// scattered writes, each a miss that holds up the stores behind it; measured on blocks of 16
+// columns with the rows in cache, the pass took 1.2× as long at 2048 and 4096 rows.)
 
 /** Column transforms of an ny×nx interleaved array at `data`, in place. */
 export function colsInterleaved(
@@ -404,15 +462,15 @@ export function colsInterleaved(
   const s = f64x2.splat(scale);
   for (let c0 = 0; c0 < nx; c0 += B) {
     const col = data + ((<usize>c0) << 4);
-    let src = col;
-    for (let r = 0; r < ny; r++) {
-      const d = (<usize>load<u32>(rev + ((<usize>r) << 2))) * pb;
+    let d: usize = 0;
+    for (let k = 0; k < ny; k++) {
+      const src = col + (<usize>load<u32>(rev + ((<usize>k) << 2))) * rowBytes;
       for (let v: usize = 0; v < pb; v += 16) {
         const a = v128.load(src + (v << 1)), b = v128.load(src + (v << 1) + 16);
         v128.store(sre + d + v, v128.shuffle<f64>(a, b, 0, 2));
         v128.store(sim + d + v, v128.shuffle<f64>(a, b, 1, 3));
       }
-      src += rowBytes;
+      d += pb;
     }
     if (swap) lanes(sim, sre, ny, B, tw);
     else lanes(sre, sim, ny, B, tw);
@@ -439,14 +497,14 @@ export function colsSplit(
   const pb = (<usize>B) << 3;
   const s = f64x2.splat(scale);
   for (let c0 = 0; c0 < nx; c0 += B) {
-    let src = (<usize>c0) << 3;
-    for (let r = 0; r < ny; r++) {
-      const d = (<usize>load<u32>(rev + ((<usize>r) << 2))) * pb;
+    let d: usize = 0;
+    for (let k = 0; k < ny; k++) {
+      const src = ((<usize>c0) << 3) + (<usize>load<u32>(rev + ((<usize>k) << 2))) * rowBytes;
       for (let v: usize = 0; v < pb; v += 16) {
         v128.store(sre + d + v, v128.load(re + src + v));
         v128.store(sim + d + v, v128.load(im + src + v));
       }
-      src += rowBytes;
+      d += pb;
     }
     if (swap) lanes(sim, sre, ny, B, tw);
     else lanes(sre, sim, ny, B, tw);
