@@ -1,8 +1,9 @@
 #!/usr/bin/env node
 // `npm run bench`: every benchmark section, one after another, each in its own process (not
 // tests; wall-clock on this machine, so run them on an otherwise idle one).
-//   npm run bench [-- --json] [-- --no-scipy]
-// Sections: bench/fft.mjs (2-D FFT sizes 512²–4096², against fft.js and SciPy),
+//   npm run bench [-- --json] [-- --no-scipy] [-- --no-fftw]
+// Sections: bench/fft.mjs (2-D FFT sizes 512²–4096², against fft.js, SciPy and, where a C compiler
+// and libfftw3-dev are present, FFTW 3 compiled at bench time: never a dependency),
 // bench/propagate.mjs (a 2048² angular-spectrum case on 1 and 2 threads against SciPy, the
 // 64-distance sweep, slit and rectangle cases, peak memory), bench/run.mjs (a 100-case sweep on 1
 // and 2 worker threads). With --json, one JSON document with every section's results.
@@ -12,7 +13,7 @@ import { fileURLToPath } from 'node:url';
 
 const args = process.argv.slice(2);
 const json = args.includes('--json');
-const pass = args.filter((a) => a === '--no-scipy');
+const pass = args.filter((a) => a === '--no-scipy' || a === '--no-fftw');
 const sections = ['fft.mjs', 'propagate.mjs', 'run.mjs'];
 const here = (f) => fileURLToPath(new URL(f, import.meta.url));
 
