@@ -76,18 +76,43 @@ function tickText(v: number, ticks: number[]): string {
 }
 
 export function renderLinePlot(p: LinePlotInput): Buffer {
+  return encodePng(drawLinePlots([p]));
+}
+
+/** Several plots one above the other in one picture (a profile's linear and log views). */
+export function renderLinePlots(plots: LinePlotInput[]): Buffer {
+  return encodePng(drawLinePlots(plots));
+}
+
+function drawLinePlots(plots: LinePlotInput[]): RgbImage {
+  const layouts = plots.map(layoutLinePlot);
+  const width = Math.max(...layouts.map((l) => l.width));
+  const height = layouts.reduce((s, l) => s + l.height, 0);
+  const img: RgbImage = { width, height, data: new Uint8Array(width * height * 3) };
+  fillRect(img, { x: 0, y: 0, w: width, h: height }, BACKGROUND);
+  let top = 0;
+  plots.forEach((p, i) => {
+    drawLinePlot(img, top, p);
+    top += layouts[i]!.height;
+  });
+  return img;
+}
+
+/** One plot into img, its layout shifted down by `top` pixels. */
+function drawLinePlot(img: RgbImage, top: number, p: LinePlotInput): void {
   for (const r of [p.xRange, p.yRange]) {
     if (!(Number.isFinite(r[0]) && Number.isFinite(r[1]) && r[1] > r[0])) throw new RangeError(`line plot: bad range [${r[0]}, ${r[1]}]`);
   }
-  const { width, height, plot } = layoutLinePlot(p);
-  const img: RgbImage = { width, height, data: new Uint8Array(width * height * 3) };
-  fillRect(img, { x: 0, y: 0, w: width, h: height }, BACKGROUND);
+  const base = layoutLinePlot(p);
+  const width = base.width;
+  const plot = { ...base.plot, y: base.plot.y + top };
+  const MARGIN_TOP = MARGIN + top;
   const [x0, x1] = p.xRange;
   const [y0, y1] = p.yRange;
   const px = (x: number) => plot.x + ((x - x0) / (x1 - x0)) * (plot.w - 1);
   const py = (y: number) => plot.y + plot.h - 1 - ((y - y0) / (y1 - y0)) * (plot.h - 1);
 
-  if (p.title) drawText(img, MARGIN, MARGIN, clip(p.title, width - 2 * MARGIN), TEXT);
+  if (p.title) drawText(img, MARGIN, MARGIN_TOP, clip(p.title, width - 2 * MARGIN), TEXT);
   // The y axis title sits above the axis (the font has no rotated form).
   const labelY = plot.y - CELL_H - 8 - (p.top ? 2 * CELL_H + 12 : 0);
   drawText(img, MARGIN, labelY, p.yLabel, TEXT);
@@ -131,17 +156,19 @@ export function renderLinePlot(p: LinePlotInput): Buffer {
 
   // Legend: top right inside the plot, a short line sample and the label per series.
   const sample = 18;
-  const lw = Math.max(...p.series.map((s) => textWidth(s.label))) + sample + 14;
+  // Series without a label (a second marker of one kind) have no line of their own.
+  const legend = p.series.filter((s) => s.label !== '');
+  if (legend.length === 0) return;
+  const lw = Math.max(...legend.map((s) => textWidth(s.label))) + sample + 14;
   const lx = plot.x + plot.w - lw - 6;
   let ly = plot.y + 6;
-  fillRect(img, { x: lx - 4, y: ly - 4, w: lw + 4, h: p.series.length * (CELL_H + 4) + 6 }, BACKGROUND);
-  for (const s of p.series) {
+  fillRect(img, { x: lx - 4, y: ly - 4, w: lw + 4, h: legend.length * (CELL_H + 4) + 6 }, BACKGROUND);
+  for (const s of legend) {
     const yMid = ly + Math.floor(CELL_H / 2);
     for (let i = 0; i < sample; i++) if (!s.dashed || Math.floor(i / 4) % 2 === 0) fillRect(img, { x: lx + i, y: yMid - 1, w: 1, h: 2 }, s.colour);
     drawText(img, lx + sample + 6, ly, s.label, TEXT);
     ly += CELL_H + 4;
   }
-  return encodePng(img);
 }
 
 /** A line through the series' points (NaN and infinite values break it), `width` px wide, clipped to the plot. */
