@@ -183,7 +183,7 @@ function reportTables(inp: ReportInputs): ReportTable[] {
     note: 'Intensities relative to the incident irradiance; FWHM between the outermost half-maximum crossings of the profile through the peak (the spot\'s envelope); radii of encircled energy about the centroid, as fractions of the power through the aperture.',
   });
   const verdictRows = done.flatMap((r) => (r.record!.metrics.verdicts ?? []).map((v) => [r.record!.plan.case.id, v.axis, v.kind, v.sentence]));
-  if (verdictRows.length) tables.push({ title: 'Diffraction-limited?', header: ['case', 'axis', 'verdict', 'in words'], rows: verdictRows });
+  if (verdictRows.length) tables.push({ title: 'Diffraction-limited?', header: ['case', 'axis', 'verdict', 'in words'], rows: verdictRows, fold: [3] });
   const searchRows = done.filter((r) => r.record!.search).map((r) => {
     const s = r.record!.search!;
     const c = r.record!.plan.case;

@@ -274,6 +274,16 @@ function warningsSection(r: JobReport): string {
   return out.join('\n');
 }
 
+/**
+ * A long sentence as its headline (the clause before the first colon, where there is one within
+ * the first 120 characters) and the rest folded under it; short sentences stay as they are.
+ */
+function folded(text: string): string {
+  const at = text.indexOf(': ');
+  if (text.length <= 140 || at < 0 || at > 120) return lines(text);
+  return `<details class="fold"><summary>${lines(text.slice(0, at))}</summary><div class="more">${lines(text.slice(at + 2))}</div></details>`;
+}
+
 function table(t: ReportTable, index: number): string {
   const rows = t.rows.slice(0, REPORT_LIMITS.tableRows);
   // A column is right-aligned when its cells are numbers, so digits line up.
@@ -287,6 +297,7 @@ function table(t: ReportTable, index: number): string {
       `<tr>${t.header
         .map((_, j) => {
           const { text, numeric } = formatCell(row[j] ?? null);
+          if (t.fold?.includes(j) && typeof row[j] === 'string') return `<td>${folded(text)}</td>`;
           return `<td${numeric || numericCol[j] ? ' class="num"' : ''}>${lines(text)}</td>`;
         })
         .join('')}</tr>`,
@@ -326,7 +337,7 @@ async function plotsSection(r: JobReport, assets: ReportAssets): Promise<string>
   }
   const figures: string[] = [];
   for (const p of r.plots) figures.push(await plotFigure(p, assets));
-  return `<section id="plots"><h2>Plots</h2>\n${figures.join('\n')}\n</section>`;
+  return `<section id="plots"><h2>Plots</h2>\n<div class="plots">${figures.join('\n')}</div>\n</section>`;
 }
 
 async function contactSheetSection(r: JobReport, assets: ReportAssets): Promise<string> {
@@ -360,7 +371,7 @@ async function caseSection(
       c.warnings.length > 0 ? ` <span class="badge">${plural(c.warnings.length, 'warning')}</span>` : ''
     }</h3>`,
   );
-  if (c.verdict) out.push(`<p class="verdict">${lines(c.verdict)}</p>`);
+  if (c.verdict) out.push(`<div class="verdict">${folded(c.verdict)}</div>`);
   if (c.status === 'failed') out.push(`<pre class="error">${lines(c.error ?? 'no error message was recorded')}</pre>`);
 
   const facts: [string, string][] = [];
@@ -513,7 +524,7 @@ const STYLE = `
 :root { --ink: #1e2126; --muted: #5d636e; --rule: #d6d9df; --faint: #f4f5f7; --accent: #2d5b78; }
 * { box-sizing: border-box; }
 html { font-size: 15px; }
-body { margin: 0 auto; max-width: 62rem; padding: 1.5rem 1.25rem 3rem; color: var(--ink); background: #fff;
+body { margin: 0 auto; max-width: 78rem; padding: 1.5rem 1.25rem 3rem; color: var(--ink); background: #fff;
   font-family: system-ui, sans-serif; line-height: 1.45; }
 h1 { font-size: 1.8rem; margin: 0.1rem 0 0.4rem; }
 h2 { font-size: 1.3rem; margin: 2.2rem 0 0.6rem; padding-bottom: 0.2rem; border-bottom: 1px solid var(--rule); }
@@ -540,7 +551,9 @@ nav.contents ul { list-style: none; padding: 0; margin: 0.5rem 0; display: flex;
 table { border-collapse: collapse; margin: 0.4rem 0 0.8rem; font-size: 0.9rem; }
 caption { text-align: left; font-weight: 600; padding: 0.2rem 0; }
 th, td { padding: 0.22rem 0.6rem; border-bottom: 1px solid var(--rule); text-align: left; vertical-align: top; }
-thead th { border-bottom: 2px solid #b9bec7; white-space: nowrap; }
+thead th { border-bottom: 2px solid #b9bec7; }
+.scroll { max-width: 100%; }
+table.data td:first-child { white-space: nowrap; }
 td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 table.data tbody tr:nth-child(even) { background: #fafbfc; }
 table.kv th { font-weight: normal; color: var(--muted); white-space: nowrap; }
@@ -553,7 +566,12 @@ table.kv caption { font-size: 0.8rem; color: var(--muted); font-weight: normal; 
 .status.failed { background: #f7e4e4; color: #9b2c2c; }
 .status.missing { background: #f1eee2; color: #6b5a1e; }
 .badge { font-size: 0.75rem; padding: 0.05rem 0.4rem; border-radius: 3px; background: #fbf1db; color: #7a5410; vertical-align: middle; }
-.verdict { font-weight: 600; margin: 0.3rem 0 0.5rem; }
+.verdict { margin: 0.3rem 0 0.5rem; font-weight: 600; }
+.verdict .more { font-weight: normal; }
+details.fold > summary { cursor: pointer; }
+details.fold[open] > summary { margin-bottom: 0.2rem; }
+.plots { display: grid; grid-template-columns: repeat(auto-fill, minmax(min(100%, 30rem), 1fr)); gap: 0 1.2rem; }
+.plots figure { margin: 0.6rem 0; min-width: 0; }
 pre.error { border-color: #e2bcbc; background: #fbf3f3; }
 ul.reasons, ul.case-warnings { margin: 0.2rem 0 0.6rem; padding-left: 1.3rem; }
 ul.case-warnings code { color: #7a5410; }

@@ -55,6 +55,11 @@ export interface ReportTable {
   header: string[];
   rows: (string | number | null)[][];
   note?: string;
+  /**
+   * Columns of long sentences: each cell shows its first clause (up to the first colon) and folds
+   * the rest under it, so that the table reads at a glance.
+   */
+  fold?: number[];
 }
 
 export interface ReportPlot {

@@ -24,7 +24,9 @@ declare const document: {
   querySelectorAll(selector: string): ArrayLike<Box>;
   querySelector(selector: string): { textContent: string | null } | null;
   getElementById(id: string): Box | null;
+  documentElement: { scrollWidth: number };
 };
+declare const innerWidth: number;
 
 export interface PageFindings {
   consoleErrors: string[];
@@ -36,6 +38,8 @@ export interface PageFindings {
   description: string | null;
   safety: { w: number; h: number };
   title: string;
+  /** How far the page reaches past the window's width (px; 0 or less: no sideways scrolling), at 1280 and 800 px. */
+  overflow: { width: number; over: number }[];
 }
 
 export async function openOffline(file: string): Promise<PageFindings> {
@@ -95,7 +99,12 @@ export async function openOffline(file: string): Promise<PageFindings> {
         title: document.title,
       };
     });
-    return { consoleErrors, pageErrors, foreign, ...seen };
+    const overflow: { width: number; over: number }[] = [];
+    for (const width of [1280, 800]) {
+      await page.setViewportSize({ width, height: 900 });
+      overflow.push({ width, over: await page.evaluate(() => document.documentElement.scrollWidth - innerWidth) });
+    }
+    return { consoleErrors, pageErrors, foreign, ...seen, overflow };
   } finally {
     await browser.close();
   }

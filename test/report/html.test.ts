@@ -345,3 +345,21 @@ describe('job report in headless Chromium', () => {
     90_000,
   );
 });
+
+describe('job report: long sentences folded under their headline', () => {
+  it('folds a table column marked fold and a long case verdict, keeping the words; short ones stay as they are', async () => {
+    const { report, files } = demoReport();
+    const long = 'Geometric (near field): the half-width along x holding half the power is 5.23 µm, 0.836× the geometric shadow of 6.25 µm; the far-field value 1.15 µm would be only 0.184× the shadow.';
+    report.tables.push({ title: 'verdicts', header: ['case', 'in words'], rows: [['c1', long], ['c2', 'far-field: short']], fold: [1] });
+    report.cases[0]!.verdict = long;
+    const html = await renderReportHtml(report, assetsOf(files));
+    const folds = [...html.matchAll(/<details class="fold"><summary>([^<]*)<\/summary><div class="more">([^<]*)<\/div><\/details>/g)];
+    expect(folds.length).toBe(2);
+    for (const f of folds) {
+      expect(decode(f[1]!)).toBe('Geometric (near field)');
+      expect(decode(f[2]!)).toBe(long.slice(long.indexOf(': ') + 2));
+    }
+    expect(html).toContain('<td>far-field: short</td>');
+  });
+});
+

@@ -57,5 +57,7 @@ describe('job report of a distance sweep', () => {
       expect(i.w * i.h, i.alt).toBeGreaterThan(0);
     }
     expect(seen.safety.w * seen.safety.h).toBeGreaterThan(0);
+    // Nothing reaches past the window at 1280 or 800 px (wide tables scroll inside their box).
+    for (const o of seen.overflow) expect(o.over, `${o.width} px`).toBeLessThanOrEqual(0);
   }, 90_000);
 });
