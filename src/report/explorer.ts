@@ -129,7 +129,7 @@ export function renderExplorerHtml(job: string, cases: ExplorerCase[], opts: { l
 <body>
 <header>
 <h1>${escapeHtml(title)}</h1>
-<p class="hint">Pick a case; hover over the map to read position and intensity; drag across it to plot the profile along the line. Intensities are relative to the incident irradiance. The maps here keep every k-th sample of each case's <code>intensity.npy</code> (named under the map), so every value read here is a value of that file.</p>
+<p class="hint">Pick a case; hover over the map to read position and intensity; drag across it to plot the profile along the line. Intensities are relative to the incident irradiance. y grows downwards, as the rows of the .npy files and the case pictures do. The maps here keep every k-th sample of each case's <code>intensity.npy</code> (named under the map), so every value read here is a value of that file.</p>
 <div class="controls">
 <label>case <select id="pickA"></select></label>
 <label>beside it <select id="pickB"><option value="">(none)</option></select></label>
@@ -242,15 +242,15 @@ const SCRIPT = String.raw`
     var uy = unitOf(Math.max(Math.abs(yLo), Math.abs(yHi)));
     var sy = niceStep(yHi - yLo, 6);
     for (var ty = Math.ceil(yLo / sy) * sy; ty <= yHi; ty += sy) {
-      // Rows go up the picture: y grows upwards.
-      var py2 = L.y + L.h - (ty - yLo) / (yHi - yLo) * L.h;
+      // Rows go down the picture, as in intensity.npy and the case pictures: y grows downwards.
+      var py2 = L.y + (ty - yLo) / (yHi - yLo) * L.h;
       g.beginPath(); g.moveTo(L.x - 5, py2); g.lineTo(L.x, py2); g.stroke();
       g.fillText(+(ty * uy[1]).toPrecision(6) + '', L.x - 7, py2);
     }
     g.save(); g.translate(14, L.y + L.h / 2); g.rotate(-Math.PI / 2); g.textAlign = 'center'; g.fillText('y (' + uy[0] + ')', 0, 0); g.restore();
     // The optical axis, where the window holds it.
     if (xLo < 0 && xHi > 0 && yLo < 0 && yHi > 0) {
-      var ax = L.x + (0 - xLo) / (xHi - xLo) * L.w, ay = L.y + L.h - (0 - yLo) / (yHi - yLo) * L.h;
+      var ax = L.x + (0 - xLo) / (xHi - xLo) * L.w, ay = L.y + (0 - yLo) / (yHi - yLo) * L.h;
       g.strokeStyle = 'rgba(255,255,255,0.8)'; g.beginPath(); g.moveTo(ax - 6, ay); g.lineTo(ax + 6, ay); g.moveTo(ax, ay - 6); g.lineTo(ax, ay + 6); g.stroke();
     }
   }
@@ -269,7 +269,7 @@ const SCRIPT = String.raw`
     } else {
       var img = g.createImageData(L.w, L.h);
       for (var j = 0; j < L.h; j++) {
-        var r = Math.min(c.ny - 1, Math.floor((L.h - 1 - j) / L.h * c.ny));
+        var r = Math.min(c.ny - 1, Math.floor(j / L.h * c.ny));
         for (var i = 0; i < L.w; i++) {
           var q2 = Math.min(c.nx - 1, Math.floor(i / L.w * c.nx));
           var col = LUT[Math.round(255 * scaled(c, c.v[r * c.nx + q2]))], o = 4 * (j * L.w + i);
@@ -289,7 +289,7 @@ const SCRIPT = String.raw`
     var L = layout(canvas, c);
     if (px < L.x || px >= L.x + L.w || py < L.y || py >= L.y + L.h) return null;
     var q = Math.min(c.nx - 1, Math.floor((px - L.x) / L.w * c.nx));
-    var r = c.oneD ? 0 : Math.min(c.ny - 1, Math.floor((L.y + L.h - 1 - py) / L.h * c.ny));
+    var r = c.oneD ? 0 : Math.min(c.ny - 1, Math.floor((py - L.y) / L.h * c.ny));
     return { r: r, q: q };
   }
   function caseOf(canvas) { return D.cases[canvas.id === 'mapA' ? state.a : state.b]; }

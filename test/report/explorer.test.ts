@@ -146,7 +146,7 @@ describe.skipIf(!haveChromium)(`explorer page in Chromium (needs ${CHROMIUM})`, 
             expect(Math.abs(last!.intensity - v)).toBeLessThanOrEqual(1e-6 * Math.abs(v) + 1e-300);
             expect(last!.x).toBeCloseTo(src.grid.x0 + last!.col * src.grid.dx, 12);
             // And it is the sample under the pointer: within one shown sample of where the pixel
-            // falls on the axes (x grows to the right, y upwards).
+            // falls on the axes (x grows to the right, y downwards as the .npy rows).
             const kx = (await page.evaluate((i) => {
               const c = (window as unknown as { __explorer: { data: { cases: { kx: number; ky: number; nx: number; ny: number }[] } } }).__explorer.data.cases[i]!;
               return { kx: c.kx, ky: c.ky, nx: c.nx, ny: c.ny };
@@ -158,7 +158,7 @@ describe.skipIf(!haveChromium)(`explorer page in Chromium (needs ${CHROMIUM})`, 
             expect(Math.abs(last!.x - xPix), `${name} ${src.id} at ${px}`).toBeLessThanOrEqual(Math.max(kx.kx * src.grid.dx, 1.5 * perPixelX));
             if (src.grid.ny > 1) {
               const yLo = src.grid.y0 - 0.5 * kx.ky * src.grid.dy;
-              const yPix = yLo + ((box.L.y + box.L.h - py) / box.L.h) * kx.ny * kx.ky * src.grid.dy;
+              const yPix = yLo + ((py - box.L.y) / box.L.h) * kx.ny * kx.ky * src.grid.dy;
               const perPixelY = (kx.ny * kx.ky * src.grid.dy) / box.L.h;
               expect(Math.abs(last!.y - yPix)).toBeLessThanOrEqual(Math.max(kx.ky * src.grid.dy, 1.5 * perPixelY));
             }
