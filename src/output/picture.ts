@@ -1,12 +1,15 @@
 // Intensity picture writer: one PNG with a linear and a log panel side by side,
-// each with a colour bar and a physical scale bar. Plain raster drawing on
-// purpose — this writes a picture of a result, it is not a plotting library.
+// each with axes in µm or mm (ticks below and, for 2-D maps, left; the optical
+// axis marked on both), a colour bar and a physical scale bar. Plain raster
+// drawing on purpose — this writes a picture of a result, it is not a plotting
+// library. Rows go down the picture as they go down intensity.npy: y grows downwards.
 
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from './font.js';
 import { gray, shoal, type ColourScale } from './colour-scales.js';
 import { buildLut, encodePng, fillRect, frame, LUT_LEVELS, type Rect } from './raster.js';
 import { isOneD } from '../model/grid.js';
 import { mapProblem, type IntensityMap } from '../model/intensity-map.js';
+import { niceTicks } from './line-plot.js';
 
 export type ScaleName = 'gray' | 'shoal';
 
@@ -39,6 +42,7 @@ const GUTTER = 28;
 const BACKGROUND: Colour = [30, 30, 34];
 const FRAME: Colour = [96, 96, 108];
 const TEXT: Colour = [225, 225, 225];
+const AXIS_MARK: Colour = [250, 200, 90];
 
 const SCALES: Record<ScaleName, ColourScale> = { gray, shoal };
 
@@ -50,6 +54,9 @@ const BAR_THICK = 3;
 const CBAR_GAP = 14; // scale bar -> colour bar
 const CBAR_H = 12;
 const TICK_LABEL_GAP = 6; // colour bar bottom -> tick labels (ticks are 3 px of it)
+const AXIS_TICK = 3; // length of a position tick outside the panel
+const X_AXIS_H = AXIS_TICK + 2 + CELL_H + 2 + CELL_H; // ticks, their labels, the axis title
+const AXIS_ROOM = 6; // tick labels <-> the panel's left edge
 
 interface Plan {
   layout: PictureLayout;
@@ -78,8 +85,16 @@ function fitLength(n: number): number {
   return n <= LONG_SIDE / 2 ? n * Math.floor(LONG_SIDE / n) : LONG_SIDE;
 }
 
+/** Room left of a 2-D panel for its y tick labels (none for a 1-D map). */
+function yAxisRoom(p: PictureInput): number {
+  if (isOneD(p.map)) return 0;
+  const t = positionTicks(p.map.y0 - p.map.dy / 2, p.map.ny * p.map.dy);
+  return Math.max(...t.ticks.map((v) => textWidth(t.text(v)))) + AXIS_TICK + AXIS_ROOM;
+}
+
 function plan(p: PictureInput, disp: { w: number; h: number }): Plan {
-  const slotW = Math.max(disp.w, MIN_SLOT);
+  const yRoom = yAxisRoom(p);
+  const slotW = Math.max(disp.w + yRoom, MIN_SLOT);
   const width = 2 * MARGIN + 2 * slotW + GUTTER;
   // Large if it fits, small if not, cut short with "..." as a last resort:
   // the title is one line by design.
@@ -93,12 +108,13 @@ function plan(p: PictureInput, disp: { w: number; h: number }): Plan {
   }
   const top = MARGIN + (title ? CELL_H * titleScale + 12 : 0);
 
-  const imgY = top + CELL_H * LABEL_SCALE + LABEL_GAP + 1;
-  const barY = imgY + disp.h + 1 + BAR_GAP;
+  // A 2-D map's y axis title sits above its tick labels, below the panel's name.
+  const imgY = top + CELL_H * LABEL_SCALE + LABEL_GAP + 1 + (yRoom > 0 ? CELL_H + 4 : 0);
+  const barY = imgY + disp.h + 1 + X_AXIS_H + BAR_GAP;
   const cbY = barY + BAR_THICK + CBAR_GAP + 1;
   const bottom = cbY + CBAR_H + 1 + TICK_LABEL_GAP + CELL_H + 6 + CELL_H;
   const slotX: [number, number] = [MARGIN, MARGIN + slotW + GUTTER];
-  const panel = (sx: number): Rect => ({ x: sx + Math.floor((slotW - disp.w) / 2), y: imgY, w: disp.w, h: disp.h });
+  const panel = (sx: number): Rect => ({ x: sx + yRoom + Math.floor((slotW - yRoom - disp.w) / 2), y: imgY, w: disp.w, h: disp.h });
   const bar = (sx: number): Rect => ({ x: sx + 1, y: cbY, w: slotW - 2, h: CBAR_H });
   return {
     layout: {
@@ -171,8 +187,10 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   views.forEach((view, k) => {
     const panel = layout.panels[k]!;
     const cbar = layout.colourBars[k]!;
-    drawText(base, slotX[k]!, panel.y - 1 - LABEL_GAP - CELL_H * LABEL_SCALE, view.label, TEXT, LABEL_SCALE);
+    const yTitle = isOneD(p.map) ? 0 : CELL_H + 4;
+    drawText(base, slotX[k]!, panel.y - 1 - LABEL_GAP - yTitle - CELL_H * LABEL_SCALE, view.label, TEXT, LABEL_SCALE);
     frame(base, panel, FRAME);
+    drawPositionAxes(base, panel, p.map);
     drawScaleBar(base, panel, p.map.nx * p.map.dx);
     frame(base, cbar, FRAME);
     const labelY = cbar.y + cbar.h + 1 + TICK_LABEL_GAP;
@@ -339,6 +357,55 @@ function axisWeights(n: number, m: number): AxisWeights {
   return { start, index, weight };
 }
 
+/** Ticks over [lo, lo + span] (m) in the unit that reads best, with their labels. */
+function positionTicks(lo: number, span: number): { ticks: number[]; unit: string; text: (v: number) => string } {
+  const reach = Math.max(Math.abs(lo), Math.abs(lo + span));
+  const [f, unit] = reach >= 1e-3 ? [1e3, 'mm'] : reach >= 1e-6 ? [1e6, 'µm'] : [1e9, 'nm'];
+  const ticks = niceTicks(lo * f, (lo + span) * f, 5);
+  const step = ticks.length > 1 ? ticks[1]! - ticks[0]! : 1;
+  const decimals = Math.max(0, Math.min(6, -Math.floor(Math.log10(step) + 1e-9)));
+  return { ticks: ticks.map((v) => v / f), unit, text: (v: number) => (v * f).toFixed(decimals) };
+}
+
+/**
+ * Position ticks below the panel (x) and left of it (y, 2-D maps), with the axis titles, and the
+ * optical axis (x = 0, y = 0) marked by longer ticks in their own colour where the window holds it.
+ * A display pixel j spans data from x0 − dx/2 + j·(nx·dx)/w (resampleForDisplay's grid).
+ */
+function drawPositionAxes(img: RgbImage, panel: Rect, m: IntensityMap): void {
+  const xLo = m.x0 - m.dx / 2;
+  const xSpan = m.nx * m.dx;
+  const xt = positionTicks(xLo, xSpan);
+  const xPix = (v: number) => panel.x + Math.round(((v - xLo) / xSpan) * panel.w - 0.5);
+  const below = panel.y + panel.h + 1;
+  for (const v of xt.ticks) {
+    const x = xPix(v);
+    if (x < panel.x || x >= panel.x + panel.w) continue;
+    fillRect(img, { x, y: below, w: 1, h: AXIS_TICK }, TEXT);
+    const s = xt.text(v);
+    drawText(img, x - Math.floor(textWidth(s) / 2), below + AXIS_TICK + 2, s, TEXT);
+  }
+  const xTitle = `x (${xt.unit})`;
+  drawText(img, panel.x + Math.floor((panel.w - textWidth(xTitle)) / 2), below + AXIS_TICK + 2 + CELL_H + 2, xTitle, TEXT);
+  if (xLo < 0 && xLo + xSpan > 0) fillRect(img, { x: xPix(0), y: below, w: 1, h: AXIS_TICK + 2 }, AXIS_MARK);
+  if (isOneD(m)) return;
+  const yLo = m.y0 - m.dy / 2;
+  const ySpan = m.ny * m.dy;
+  const yt = positionTicks(yLo, ySpan);
+  const yPix = (v: number) => panel.y + Math.round(((v - yLo) / ySpan) * panel.h - 0.5);
+  const left = panel.x - 1;
+  for (const v of yt.ticks) {
+    const y = yPix(v);
+    if (y < panel.y || y >= panel.y + panel.h) continue;
+    fillRect(img, { x: left - AXIS_TICK, y, w: AXIS_TICK, h: 1 }, TEXT);
+    const s = yt.text(v);
+    drawText(img, left - AXIS_TICK - 2 - textWidth(s), y - Math.floor(CELL_H / 2) + 1, s, TEXT);
+  }
+  const yTitle = `y (${yt.unit})`;
+  drawText(img, Math.max(0, panel.x - textWidth(yTitle) - 2), panel.y - CELL_H - 3, yTitle, TEXT);
+  if (yLo < 0 && yLo + ySpan > 0) fillRect(img, { x: left - AXIS_TICK - 1, y: yPix(0), w: AXIS_TICK + 2, h: 1 }, AXIS_MARK);
+}
+
 /** A round length (1, 2 or 5 ×10^k) near a fifth of the panel, drawn under its left edge. */
 function drawScaleBar(img: RgbImage, panel: Rect, physWidth: number): void {
   const target = physWidth / 5;
@@ -352,7 +419,7 @@ function drawScaleBar(img: RgbImage, panel: Rect, physWidth: number): void {
   }
   const length = best.m * 10 ** best.k;
   const px = Math.round((length / physWidth) * panel.w);
-  const y = panel.y + panel.h + 1 + BAR_GAP;
+  const y = panel.y + panel.h + 1 + X_AXIS_H + BAR_GAP;
   fillRect(img, { x: panel.x, y, w: px, h: BAR_THICK }, TEXT);
   drawText(img, panel.x + px + 6, y + Math.floor(BAR_THICK / 2) - 4, formatLength(best.m, best.k), TEXT);
 }

@@ -338,3 +338,26 @@ describe('font', () => {
     expect(textWidth('ab', 2)).toBe(2 * (2 * 6 - 1));
   });
 });
+
+describe('picture axes', () => {
+  it('puts position ticks where the grid puts those positions, and marks the optical axis', () => {
+    // A 2-D map from −60 µm to +60 µm (121 samples of 1 µm) and a 1-D one from −0.3 mm to 0.3 mm.
+    const n = 121;
+    const map = { nx: n, ny: n, dx: 1e-6, dy: 1e-6, x0: -60e-6, y0: -60e-6, intensity: new Float64Array(n * n).fill(1) };
+    const { img, layout, texts } = render({ map, scale: 'gray' });
+    expect(texts).toEqual(expect.arrayContaining(['-50', '0', '50', 'x (µm)', 'y (µm)']));
+    const r = layout.panels[0];
+    // The tick for x = 0 sits under display pixel (0 − (x0 − dx/2))/(nx·dx)·w, in the axis-mark colour.
+    const x0px = r.x + Math.round((60.5e-6 / 121e-6) * r.w - 0.5);
+    expect(img.at(x0px, r.y + r.h + 2)).toEqual([250, 200, 90]);
+    // And the x = 50 µm tick in the text colour.
+    const x50 = r.x + Math.round((110.5e-6 / 121e-6) * r.w - 0.5);
+    expect(img.at(x50, r.y + r.h + 2)).toEqual([225, 225, 225]);
+    // y: the same along the left edge (rows go down the picture).
+    const y0px = r.y + Math.round((60.5e-6 / 121e-6) * r.h - 0.5);
+    expect(img.at(r.x - 3, y0px)).toEqual([250, 200, 90]);
+    const line = render({ map: { nx: 601, ny: 1, dx: 1e-6, dy: 0, x0: -300e-6, y0: 0, intensity: new Float64Array(601).fill(1) }, scale: 'gray' });
+    expect(line.texts).toEqual(expect.arrayContaining(['x (µm)', '0']));
+    expect(line.texts).not.toContain('y (µm)');
+  });
+});
