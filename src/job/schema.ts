@@ -102,6 +102,17 @@ const outputShape = {
     .min(1, { error: 'expected a number of decades from 1 to 12' })
     .max(12, { error: 'expected a number of decades from 1 to 12' })
     .default(5),
+  // The region of the zoomed picture (intensity-zoom.png): by default the box holding 99 % of the
+  // power where the spot is small in its window.
+  zoom: z
+    .strictObject(
+      {
+        centre: z.tuple([position, position], { error: "expected a position [x, y] such as ['0 mm', '1.5 mm']" }),
+        width: positiveLength(),
+      },
+      { error: mappingError("expected a mapping such as {centre: ['0 mm', '0 mm'], width: '200 um'}") },
+    )
+    .optional(),
 };
 export const OUTPUT_KEYS = Object.keys(outputShape);
 
@@ -306,6 +317,8 @@ const QUANTITY_KEYS: Record<string, UnitKind> = {
   'detector.at': 'length',
   'search.smallest-spot.between': 'length',
   'orders.overlap': 'length',
+  'output.zoom.centre': 'length',
+  'output.zoom.width': 'length',
   'planes.after': 'length',
   ...elementLengthKeys('planes.element'),
 };

@@ -44,6 +44,7 @@ const LENGTH_KEYS: { path: string; job: string }[] = [
   { path: 'detector[1].size', job: HEAD + CIRCLE + 'detector: [{kind: square, size: 5 um}, {kind: pinhole, size: X}]\n' },
   { path: 'search.smallest-spot.between[0]', job: HEAD + CIRCLE + "search: {smallest-spot: {between: [X, '1e4 m']}}\n" },
   { path: 'orders.overlap', job: HEAD + CIRCLE + 'orders: {overlap: X}\n' },
+  { path: 'output.zoom.width', job: HEAD + CIRCLE + "output: {zoom: {centre: ['0 mm', '0 mm'], width: X}}\n" },
   { path: 'distance.from', job: 'name: pin\nwavelength: 633 nm\ndistance: {from: X, to: 1 m, count: 3}\n' + CIRCLE },
   { path: 'distance[1]', job: 'name: pin\nwavelength: 633 nm\ndistance: [1 m, X]\n' + CIRCLE },
   { path: 'aperture.diameter.to', job: HEAD + 'aperture: {shape: circle, diameter: {from: 1 um, to: X, count: 3, spacing: log}}\n' },
@@ -327,5 +328,20 @@ describe('bounded work and bounded messages', () => {
     expect(named.message).toContain('…(100001 characters)');
     const unit = refusal(`name: pin\nwavelength: 633 nm\ndistance: '${'9'.repeat(100_000)} m'\n${CIRCLE}`);
     expect(unit.message).toMatch(/distance: .*got '9{80}…\(100002 characters\)': 100002 characters is too long for a number with a unit$/);
+  });
+});
+
+describe('the zoomed picture\'s region (output.zoom)', () => {
+  it('takes a centre and a width, and says what it expected where either is missing or wrong', () => {
+    const cases = expandJob(parseJobText(HEAD + CIRCLE + "output: {zoom: {centre: ['-1 mm', '0.5 mm'], width: '200 um'}}\n").spec);
+    const zoom = cases[0]!.output.zoom!;
+    expect(zoom.centre[0]).toBeCloseTo(-1e-3, 15);
+    expect(zoom.centre[1]).toBeCloseTo(0.5e-3, 15);
+    expect(zoom.width).toBeCloseTo(200e-6, 15);
+    const p = problems(HEAD + CIRCLE + "output: {zoom: {width: '200 um'}}\n");
+    expect(p.map((x) => x.path)).toEqual(['output.zoom.centre']);
+    const q = problems(HEAD + CIRCLE + "output: {zoom: '200 um'}\n");
+    expect(q[0]!.path).toBe('output.zoom');
+    expect(q[0]!.message).toMatch(/centre: \['0 mm', '0 mm'\], width: '200 um'/);
   });
 });
