@@ -51,6 +51,34 @@ export function onAxisCurve(aperture: Aperture, light: Illumination, wavelength:
     }
     return { z: distances, intensity, how: 'exact 1-D Rayleigh–Sommerfeld sums on the axis' };
   }
+  // Discs and annuli centred on the axis: the closed form, U = e^{ikz}·[1 if open] − Σ ±(z/R)e^{ikR}
+  // (what the boundary integral gives on the axis, Heurtley 1973), at no cost.
+  const rings = aperture.shape === 'circle' ? [aperture.diameter / 2] : aperture.shape === 'annulus' ? [aperture.outer / 2, aperture.inner / 2] : null;
+  if (rings) {
+    const k = (2 * Math.PI) / wavelength;
+    for (let i = 0; i < distances.length; i++) {
+      const z = distances[i]!;
+      // Open circle: e^{ikz} − (z/R)e^{ikR}; annulus: (z/R_in)e^{ikR_in} − (z/R_out)e^{ikR_out}; opaque: the free wave less these.
+      let re = 0;
+      let im = 0;
+      rings.forEach((a, j) => {
+        const R = Math.hypot(z, a);
+        const sign = j === 0 ? -1 : 1;
+        re += (sign * z * Math.cos(k * R)) / R;
+        im += (sign * z * Math.sin(k * R)) / R;
+      });
+      if (rings.length === 1) {
+        re += Math.cos(k * z);
+        im += Math.sin(k * z);
+      }
+      if (aperture.opaque) {
+        re = Math.cos(k * z) - re;
+        im = Math.sin(k * z) - im;
+      }
+      intensity[i] = re * re + im * im;
+    }
+    return { z: distances, intensity, how: 'exact Rayleigh–Sommerfeld field on the axis (closed form for a centred disc or annulus)' };
+  }
   const regions = boundaryRegionsOf(aperture);
   if (!regions) return null;
   for (let i = 0; i < distances.length; i++) {

@@ -49,7 +49,7 @@ export function reportedMetrics(scope: MetricScope, families: readonly MetricFam
     .filter((q) => q.display?.plot)
     .map((q) => {
       const d = q.display!;
-      return { info: { key: q.header, label: d.label, unit: d.unit, ...(d.log ? { log: true } : {}) }, quantity: q };
+      return { info: { key: q.header, label: d.label, unit: d.unit, ...(d.log ? { log: true } : {}), ...(d.chart ? { chart: d.chart } : {}) }, quantity: q };
     });
 }
 

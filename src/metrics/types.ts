@@ -22,6 +22,11 @@ export interface QuantityDisplay {
   log?: boolean;
   /** The report plots it against the swept keys and lists it per case. */
   plot: boolean;
+  /**
+   * Quantities of one chart are drawn together, as its series, instead of each on its own (a spot
+   * size beside its geometric and far-field references); `reference` series are drawn as lines.
+   */
+  chart?: { name: string; reference?: boolean };
 }
 
 /**
@@ -53,9 +58,9 @@ export function metric(
   label: string,
   unit: 'm' | '1',
   read: (s: CaseSummary) => number | null | undefined,
-  opts: { log?: boolean; plot?: boolean } = {},
+  opts: { log?: boolean; plot?: boolean; chart?: { name: string; reference?: boolean } } = {},
 ): Quantity {
-  return { header, read, display: { label, unit, ...(opts.log ? { log: true } : {}), plot: opts.plot ?? false } };
+  return { header, read, display: { label, unit, ...(opts.log ? { log: true } : {}), plot: opts.plot ?? false, ...(opts.chart ? { chart: opts.chart } : {}) } };
 }
 
 /** A column of summary.csv only. */

@@ -40,10 +40,16 @@ export const verdictMetrics: MetricFamily = {
       const tag = axis === 'radial' ? '' : `_${axis}`;
       const on = tag ? ` (${axis})` : '';
       const verdict = (s: CaseSummary) => s.metrics.verdicts?.find((v) => v.axis === axis);
+      // The spot and both references in one chart (log–log: the shadow flat, the far field ∝ z);
+      // the ratios are columns.
+      const chart = `spot size${on}: radius or half-width holding half the power`;
       return [
         column(`verdict${tag}`, (s) => verdict(s)?.kind),
-        metric(`spot_over_far_field${tag}`, `spot / far-field size${on}`, '1', (s) => verdict(s)?.spotOverFarField, { plot: true }),
-        metric(`spot_over_shadow${tag}`, `spot / geometric shadow${on}`, '1', (s) => verdict(s)?.spotOverShadow, { log: true, plot: true }),
+        metric(`spot${tag}_m`, `computed${on}`, 'm', (s) => verdict(s)?.size.computed, { log: true, plot: true, chart: { name: chart } }),
+        metric(`shadow${tag}_m`, `geometric shadow${on}`, 'm', (s) => verdict(s)?.size.geometric, { log: true, plot: true, chart: { name: chart, reference: true } }),
+        metric(`far_field_size${tag}_m`, `far field${on}`, 'm', (s) => verdict(s)?.size.farField, { log: true, plot: true, chart: { name: chart, reference: true } }),
+        metric(`spot_over_far_field${tag}`, `spot / far-field size${on}`, '1', (s) => verdict(s)?.spotOverFarField),
+        metric(`spot_over_shadow${tag}`, `spot / geometric shadow${on}`, '1', (s) => verdict(s)?.spotOverShadow, { log: true }),
         // The same for every distance of one aperture: a column, not a plot.
         metric(`far_field_from${tag}_m`, `far field (1 %) from${on}`, 'm', (s) => verdict(s)?.farFieldFrom),
       ];

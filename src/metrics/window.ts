@@ -24,6 +24,7 @@ export const windowMetrics: MetricFamily = {
   quantities: () => [
     metric('power_through_aperture', 'power through the aperture', '1', (s) => s.metrics.powerThroughAperture, { log: true }),
     metric('power_in_window', 'power in the window', '1', (s) => s.metrics.powerInWindow, { log: true }),
-    metric('window_fraction', 'fraction of the power in the window', '1', (s) => s.metrics.windowFraction, { plot: true }),
+    // A diagnostic: in the cases table, not plotted.
+    metric('window_fraction', 'fraction of the power in the window', '1', (s) => s.metrics.windowFraction),
   ],
 };

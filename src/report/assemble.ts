@@ -17,6 +17,7 @@ import { reportedMetrics } from '../metrics/registry.js';
 import { isOneD } from '../model/grid.js';
 import type { IntensityMap } from '../model/intensity-map.js';
 import { TOOL_VERSION } from '../version.js';
+import { logDistances, onAxisCurve } from '../analysis/on-axis.js';
 import { renderContactSheet, type SheetTile } from './contact-sheet.js';
 import { renderReportHtml } from './html.js';
 import { renderPlot, sweepPlots } from './plots.js';
@@ -150,7 +151,28 @@ export function buildJobReport(inp: ReportInputs): JobReport {
     tables: reportTables(inp),
     plots: [],
     plans: inp.plans,
+    ...onAxisOf(inp, sweeps),
   };
+}
+
+/** Distances of the dense axial curve. */
+const ON_AXIS_POINTS = 240;
+
+/**
+ * The dense axial curve for a distance sweep of one aperture and light (every case alike but its
+ * distance, no planes), where analysis/on-axis.ts has an exact form for them.
+ */
+function onAxisOf(inp: ReportInputs, sweeps: SweepKey[]): { onAxis?: NonNullable<JobReport['onAxis']> } {
+  const d = sweeps.find((s) => s.key === 'distance');
+  if (!d || d.values.length < 2 || sweeps.some((s) => s.key !== 'distance' && s.values.length > 1)) return {};
+  const c = (inp.rows.find((r) => r.record)?.record?.plan.case ?? null);
+  if (!c || c.planes?.length) return {};
+  const lo = Math.min(...d.values);
+  const hi = Math.max(...d.values);
+  if (!(lo > 0 && hi > lo)) return {};
+  const z = d.spacing === 'log' || hi > 10 * lo ? logDistances(lo, hi, ON_AXIS_POINTS) : Float64Array.from({ length: ON_AXIS_POINTS }, (_, i) => lo + ((hi - lo) * i) / (ON_AXIS_POINTS - 1));
+  const curve = onAxisCurve(c.aperture, c.illumination, c.wavelength, z);
+  return curve ? { onAxis: { z: [...curve.z], intensity: [...curve.intensity], how: curve.how } } : {};
 }
 
 const fmtLen = (x: number | null | undefined) => (x === null || x === undefined ? null : formatLength(x, 4));

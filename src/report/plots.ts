@@ -17,6 +17,8 @@ export interface PlotInput {
   points: { x: number; y: number | null; series?: string }[];
   /** x value where N_F = 1, drawn as a labelled vertical rule, when it lies inside the x range. */
   nfBoundary?: number | null;
+  /** Series drawn as lines only (references, dense curves): no point marks. */
+  lineOnly?: string[];
 }
 
 export const PLOT_WIDTH = 640;
@@ -114,6 +116,7 @@ export function plotSpec(p: PlotInput): object {
       encoding: { x, y, detail: { field: 'run', type: 'nominal' }, ...colour },
     },
     {
+      ...(p.lineOnly?.length ? { transform: [{ filter: { not: { field: 'series', oneOf: p.lineOnly } } }] } : {}),
       mark: { type: 'point', filled: true, size: 26, opacity: 1, ...(several ? {} : { color: PALETTE[0] }) },
       encoding: { x, y, ...colour },
     },
@@ -242,19 +245,54 @@ export function sweepPlots(report: JobReport): PlotInput[] {
       if (nfBoundary !== null) break;
     }
 
+    const charted = new Set<string>();
     for (const m of report.metrics) {
+      if (m.chart) {
+        // The metrics of one chart together, as its series (once, at the chart's first metric).
+        if (charted.has(m.chart.name)) continue;
+        charted.add(m.chart.name);
+        const members = report.metrics.filter((q) => q.chart?.name === m.chart!.name);
+        const named = (q: MetricInfo, c: ReportCase) => [plotLabel(q.label), series(c)].filter((t) => t).join(', ');
+        const points = members.flatMap((q) => here.map((c) => ({ x: c.swept[key.key]!, y: metricValue(c, q), series: named(q, c) })));
+        const computed = members.filter((q) => !q.chart!.reference);
+        if (here.filter((c) => computed.some((q) => (metricValue(c, q) ?? 0) > 0)).length < 2) continue;
+        const lineOnly = [...new Set(members.filter((q) => q.chart!.reference).flatMap((q) => here.map((c) => named(q, c))))];
+        plots.push({
+          title: `${plotLabel(m.chart.name)} against ${plotLabel(key.label)}`,
+          x: { label: plotLabel(key.label), unit: key.unit, log: true },
+          y: { label: 'size', unit: 'm', log: true },
+          points,
+          nfBoundary,
+          lineOnly,
+        });
+        continue;
+      }
       const points = here.map((c) => ({ x: c.swept[key.key]!, y: metricValue(c, m), series: series(c) }));
       if (points.filter((q) => q.y !== null && (!m.log || q.y > 0)).length < 2) continue;
+      // The axial intensity against distance: the cases' points with the exact axial curve drawn
+      // densely through them (a few cases cannot show its oscillations).
+      const dense = m.key === 'on_axis_intensity' && key.key === 'distance' && report.onAxis && others.length === 0 ? report.onAxis : null;
+      const curve = dense ? 'exact (dense)' : null;
       plots.push({
         title: `${plotLabel(m.label)} against ${plotLabel(key.label)}`,
         x: { label: plotLabel(key.label), unit: key.unit, log },
         y: { label: plotLabel(m.label), unit: m.unit, log: m.log ?? false },
-        points,
+        points: dense ? [...points.map((q) => ({ ...q, series: 'cases' })), ...denseCurve(dense, m.log ?? false, curve!)] : points,
         nfBoundary,
+        ...(curve ? { lineOnly: [curve] } : {}),
       });
     }
   }
   return plots;
+}
+
+/** A dense curve's points; on a log axis its zeros (and values 1e-4 of its maximum or less) are gaps, not decades of nothing. */
+function denseCurve(d: NonNullable<JobReport['onAxis']>, log: boolean, series: string): PlotInput['points'] {
+  const top = Math.max(...d.intensity);
+  return d.z.map((z, i) => {
+    const v = d.intensity[i]!;
+    return { x: z, y: log && !(v > 1e-4 * top) ? null : v, series };
+  });
 }
 
 function metricValue(c: ReportCase, m: MetricInfo): number | null {

@@ -22,6 +22,8 @@ export interface MetricInfo {
   unit: 'm' | '1';
   /** Plot on a log axis by default (e.g. intensities that span decades). */
   log?: boolean;
+  /** Drawn with the other metrics of this chart, as one of its series (a reference as a line only). */
+  chart?: { name: string; reference?: boolean };
 }
 
 export interface ReportCase {
@@ -82,6 +84,11 @@ export interface JobReport {
   cases: ReportCase[];
   tables: ReportTable[];
   plots: ReportPlot[];
+  /**
+   * The axial intensity against distance, densely (analysis/on-axis.ts), where the job sweeps the
+   * distance of one aperture and light that have an exact axial form.
+   */
+  onAxis?: { z: number[]; intensity: number[]; how: string };
   /** Relative path of the contact sheet PNG, when there is more than one done case. */
   contactSheet?: string;
   /** Plans in words, one block per case (as `spotcast plan` prints them). */

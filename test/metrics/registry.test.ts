@@ -36,16 +36,18 @@ describe('the registry', () => {
     for (const f of fixed) expect(headers).not.toContain(f);
   });
 
-  it('orders the columns as summary.csv had them before the registry (the recorded header of a rectangle job with two detectors), with the D4σ window check after D4σ', () => {
+  it('orders the columns as summary.csv had them before the registry (the recorded header of a rectangle job with two detectors), with the D4σ window check after D4σ and the verdicts\' spot, shadow and far-field sizes before their ratios', () => {
     const scope = fullScope();
     scope.records = scope.records.slice(1, 2).map((r) => ({ ...r, search: undefined }) as unknown as CaseSummary);
     expect(metricQuantities(scope).map((q) => q.header).join(',')).toBe(
-      'peak_intensity,on_axis_intensity,peak_x_m,peak_y_m,centroid_x_m,centroid_y_m,fwhm_x_m,fwhm_y_m,e2_width_x_m,e2_width_y_m,d4sigma_x_m,d4sigma_y_m,d4sigma_window_change_x,d4sigma_window_change_y,first_min_x_m,first_min_y_m,ee50_radius_m,ee84_radius_m,ee90_radius_m,power_through_aperture,power_in_window,window_fraction,detector1_fraction,detector1_area_in_window,detector2_fraction,detector2_area_in_window,verdict_x,spot_over_far_field_x,spot_over_shadow_x,far_field_from_x_m,verdict_y,spot_over_far_field_y,spot_over_shadow_y,far_field_from_y_m',
+      'peak_intensity,on_axis_intensity,peak_x_m,peak_y_m,centroid_x_m,centroid_y_m,fwhm_x_m,fwhm_y_m,e2_width_x_m,e2_width_y_m,d4sigma_x_m,d4sigma_y_m,d4sigma_window_change_x,d4sigma_window_change_y,first_min_x_m,first_min_y_m,ee50_radius_m,ee84_radius_m,ee90_radius_m,power_through_aperture,power_in_window,window_fraction,detector1_fraction,detector1_area_in_window,detector2_fraction,detector2_area_in_window,verdict_x,spot_x_m,shadow_x_m,far_field_size_x_m,spot_over_far_field_x,spot_over_shadow_x,far_field_from_x_m,verdict_y,spot_y_m,shadow_y_m,far_field_size_y_m,spot_over_far_field_y,spot_over_shadow_y,far_field_from_y_m',
     );
   });
 
-  it('flags for the report the answers it plotted before: intensities, FWHM, D4σ, 50 and 84 % radii, window and detector fractions, spot ratios, smallest spot', () => {
-    const keys = reportedMetrics(fullScope()).map((m) => m.info.key);
+  it('flags for the report the answers it plots: intensities, FWHM, D4σ, 50 and 84 % radii, detector fractions, the spot-size chart (spot, shadow, far field), smallest spot; not the window fraction (a diagnostic in the cases table)', () => {
+    const reported = reportedMetrics(fullScope());
+    const keys = reported.map((m) => m.info.key);
+    const spot = (t: string) => [`spot${t}_m`, `shadow${t}_m`, `far_field_size${t}_m`];
     expect(keys).toEqual([
       'peak_intensity',
       'on_axis_intensity',
@@ -55,20 +57,18 @@ describe('the registry', () => {
       'd4sigma_y_m',
       'ee50_radius_m',
       'ee84_radius_m',
-      'window_fraction',
       'detector1_fraction',
       'detector2_fraction',
-      'spot_over_far_field',
-      'spot_over_shadow',
-      'spot_over_far_field_x',
-      'spot_over_shadow_x',
-      'spot_over_far_field_y',
-      'spot_over_shadow_y',
+      ...spot(''),
+      ...spot('_x'),
+      ...spot('_y'),
       'smallest_spot_size_m',
       'smallest_spot_m',
     ]);
-    const log = reportedMetrics(fullScope()).filter((m) => m.info.log).map((m) => m.info.key);
-    expect(log).toEqual(['peak_intensity', 'on_axis_intensity', 'spot_over_shadow', 'spot_over_shadow_x', 'spot_over_shadow_y']);
+    // The chart's references are drawn as lines; the spot as points joined.
+    expect(reported.filter((m) => m.info.chart?.reference).map((m) => m.info.key)).toEqual(['shadow_m', 'far_field_size_m', 'shadow_x_m', 'far_field_size_x_m', 'shadow_y_m', 'far_field_size_y_m']);
+    const log = reported.filter((m) => m.info.log).map((m) => m.info.key);
+    expect(log).toEqual(['peak_intensity', 'on_axis_intensity', ...spot(''), ...spot('_x'), ...spot('_y')]);
   });
 
   it("gives result.json's definitions in the order they were written, and refuses a field defined twice", () => {

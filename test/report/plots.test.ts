@@ -282,3 +282,48 @@ describe('sweepPlots', () => {
     expect(Math.abs(wl / 625e-9 - 1)).toBeLessThan(2e-2);
   });
 });
+
+describe('sweepPlots: the spot-size chart and the dense axial curve', () => {
+  // Invented demo values of a 50 µm slit at 633 nm over four distances: the far-field half-width
+  // holding half the power is proportional to z (λz/w times a constant), the shadow w/2 throughout.
+  const zs = [1e-3, 1e-2, 1e-1, 1];
+  const info = (key: string, label: string, reference?: boolean): MetricInfo => ({ key, label, unit: 'm', log: true, chart: { name: 'spot size (x)', ...(reference ? { reference: true } : {}) } });
+  const metrics: MetricInfo[] = [
+    info('spot_x_m', 'computed (x)'),
+    info('shadow_x_m', 'geometric shadow (x)', true),
+    info('far_field_size_x_m', 'far field (x)', true),
+    { key: 'on_axis_intensity', label: 'on-axis intensity (relative)', unit: '1', log: true },
+  ];
+  const cases: ReportCase[] = zs.map((z, i) => ({
+    id: `c${i}`, folder: `c${i}`, status: 'done', swept: { distance: z }, wavelength: 633e-9, distance: z, fresnelNumber: 25e-6 ** 2 / (633e-9 * z),
+    regime: null, method: null, warnings: [], reasons: [],
+    metrics: { spot_x_m: Math.max(25e-6, 0.44 * 633e-9 * z / 50e-6), shadow_x_m: 12.5e-6, far_field_size_x_m: (0.44 * 633e-9 * z) / 50e-6, on_axis_intensity: 1 / (1 + z) },
+  }));
+  const z = Array.from({ length: 240 }, (_, i) => 1e-3 * 1000 ** (i / 239));
+  const report: JobReport = {
+    job: 'slit', file: 'slit.yaml', given: {}, toolVersion: '0', createdAt: '', cases, tables: [], plots: [], plans: [], metrics,
+    sweeps: [{ key: 'distance', label: 'distance', unit: 'm', spacing: 'log', values: zs }],
+    onAxis: { z, intensity: z.map((v) => (v < 0.5 ? 0 : 1 / (1 + v))), how: 'test' },
+  };
+  const plots = sweepPlots(report);
+
+  it('draws the spot and its two references in one log–log chart, the references as lines only', () => {
+    const chart = plots.find((p) => p.title.startsWith('spot size (x)'))!;
+    expect(plots.filter((p) => p.title.includes('shadow') || p.title.includes('far field'))).toEqual([]);
+    expect([chart.x.log, chart.y.log]).toEqual([true, true]);
+    expect(new Set(chart.points.map((q) => q.series))).toEqual(new Set(['computed (x)', 'geometric shadow (x)', 'far field (x)']));
+    expect(chart.lineOnly).toEqual(['geometric shadow (x)', 'far field (x)']);
+    // The point marks leave the references out; the line marks draw all three.
+    const pointLayer = layersOf(plotSpec(chart)).find((l) => l.mark.type === 'point') as unknown as { transform: { filter: { not: { oneOf: string[] } } }[] };
+    expect(pointLayer.transform[0]!.filter.not.oneOf).toEqual(['geometric shadow (x)', 'far field (x)']);
+  });
+
+  it('draws the axial intensity densely through the cases, its zeros as gaps on the log axis', () => {
+    const p = plots.find((q) => q.title.startsWith('on-axis intensity'))!;
+    const dense = p.points.filter((q) => q.series === 'exact (dense)');
+    expect(dense).toHaveLength(240);
+    expect(p.points.filter((q) => q.series === 'cases')).toHaveLength(4);
+    expect(p.lineOnly).toEqual(['exact (dense)']);
+    expect(dense.filter((q) => q.y === null).length).toBe(z.filter((v) => v < 0.5).length);
+  });
+});
