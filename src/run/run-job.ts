@@ -14,7 +14,9 @@ import { searchSentence } from './searches.js';
 import { gatherJob } from './gather.js';
 import { caseHash, removeLeftovers, verifyCases, writeManifest, type Manifest } from './records.js';
 import { acquireRunLock, LockBusyError, type HeldLock } from './lock.js';
-import { chooseParallelism, runTasks } from './scheduler.js';
+import { chooseParallelism, runTasks, workersAvailable } from './scheduler.js';
+import { startCrew, type Crew } from './crew.js';
+import { machineThreads } from './threads.js';
 import { createEngine } from '../kernels.js';
 import type { Engine } from '../optics/engine.js';
 import { shareSourceSpectra } from '../plan/share.js';
@@ -121,6 +123,26 @@ export function caseLines(s: CaseSummary): string[] {
 }
 
 export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOutcome> {
+  const held: { crew: Crew | null } = { crew: null };
+  try {
+    return await runJobWith(loaded, opts, held);
+  } finally {
+    // Workers started for the planning and not taken over by the cases (a refused job, an FFT team).
+    await held.crew?.stop();
+  }
+}
+
+/**
+ * Whether to start the case workers before planning (run/crew.ts): when more than one worker is
+ * asked for, the built worker module is there, and there are at least as many cases as workers
+ * (with fewer, the cases may get an FFT team instead). Shards plan every case too, so they use one.
+ */
+function crewSize(opts: RunOptions, cases: number): number {
+  const n = Math.min(Math.max(1, Math.floor(opts.workers ?? 1)), machineThreads());
+  return n > 1 && cases >= n && workersAvailable() ? n : 0;
+}
+
+async function runJobWith(loaded: LoadedJob, opts: RunOptions, held: { crew: Crew | null }): Promise<JobOutcome> {
   const rep = reporterOf(opts);
   const { spec, file } = loaded;
   const outcome: JobOutcome = { file, job: spec.name, cases: 0, done: 0, skipped: 0, failed: [], warnings: 0 };
@@ -142,7 +164,9 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
     outcome.cases = cases.length;
     // --accept-large lifts the per-case time limit as it lifts the sweep's.
     const planOpts: PlannerOptions = opts.acceptLarge ? { ...opts, maxWork: Infinity } : opts;
-    plans = cases.map((c) => planCase(c, planOpts));
+    const size = crewSize(opts, cases.length);
+    if (size) held.crew = startCrew(size, opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {});
+    plans = held.crew ? await held.crew.plan(cases, planOpts) : cases.map((c) => planCase(c, planOpts));
     const seconds = plans.reduce((s, p) => s + p.work, 0) / LIMITS.workPerSecond;
     if (!opts.acceptLarge && (cases.length > LARGE_SWEEP.cases || seconds > LARGE_SWEEP.seconds)) {
       return refuse(
@@ -174,7 +198,7 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
       return refuse((e as Error).message);
     }
     outcome.folder = jobDir;
-    return await runLocked(loaded, opts, rep, outcome, jobDir, plans);
+    return await runLocked(loaded, opts, rep, outcome, jobDir, plans, held.crew);
   } finally {
     await lock.release();
   }
@@ -184,7 +208,15 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
 const DAMAGE_NOTES = 20;
 
 /** The cases of a job whose folder this run holds (the lock): skip what is done and verified, compute the rest. */
-async function runLocked(loaded: LoadedJob, opts: RunOptions, rep: RunReporter, outcome: JobOutcome, jobDir: string, plans: Plan[]): Promise<JobOutcome> {
+async function runLocked(
+  loaded: LoadedJob,
+  opts: RunOptions,
+  rep: RunReporter,
+  outcome: JobOutcome,
+  jobDir: string,
+  plans: Plan[],
+  crew: Crew | null,
+): Promise<JobOutcome> {
   const { spec, file } = loaded;
   const refuse = (msg: string): JobOutcome => {
     outcome.error = `${file}: ${msg}`;
@@ -280,7 +312,7 @@ async function runLocked(loaded: LoadedJob, opts: RunOptions, rep: RunReporter, 
   const heapMb = largest ? Math.ceil(largest.memoryBytes / 1024 ** 2) + 512 : undefined;
   const { interrupted } = await runTasks(
     todo,
-    { workers, threadsPerCase: parallel.threadsPerCase, engine: opts.engine ?? createEngine(), ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}) },
+    { workers, threadsPerCase: parallel.threadsPerCase, engine: opts.engine ?? createEngine(), ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}), ...(crew ? { crew } : {}) },
     {
       start: (id) => rep.caseStart(id),
       done: async (d) => {

@@ -14,6 +14,7 @@ import type { Plan } from '../plan/types.js';
 import { descriptorOf } from '../methods/registry.js';
 import { startFftTeam, stopFftTeam, teamsAvailable, TEAM_MIN_VALUES } from '../parallel/fft-team.js';
 import { machineThreads } from './threads.js';
+import type { Crew } from './crew.js';
 
 export { machineThreads };
 
@@ -37,6 +38,11 @@ export interface SchedulerOptions {
    * other in this thread (workers is not used). Worker threads never start teams of their own.
    */
   threadsPerCase?: number;
+  /**
+   * Workers started before the planning (run/crew.ts): taken over as case workers when their heap
+   * limit covers heapMb, else stopped. Stopped in every case by the time runTasks returns.
+   */
+  crew?: Crew;
 }
 
 const WORKER_FILE = new URL('./worker.js', import.meta.url);
@@ -96,12 +102,18 @@ function chooseFor(plans: Plan[], requested: number, atOnce: number): Parallelis
 }
 
 export async function runTasks(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
+  const onWorkers = !((opts.threadsPerCase ?? 1) > 1 && tasks.length > 0) && opts.workers > 1 && tasks.length > 1 && workersAvailable();
+  // A crew the cases will not use is stopped before they start (its threads would share the cores).
+  const crew = onWorkers && opts.crew && opts.crew.heapMb >= (opts.heapMb ?? 0) ? opts.crew : null;
+  if (opts.crew && !crew) await opts.crew.stop();
   if ((opts.threadsPerCase ?? 1) > 1 && tasks.length > 0) return runWithTeam(tasks, opts, ev);
-  if (opts.workers <= 1 || tasks.length <= 1 || !workersAvailable()) {
+  if (!onWorkers) {
     if (opts.workers > 1 && !workersAvailable()) ev.note?.('worker threads need the built program (npm run build); running the cases in this thread');
     return runHere(tasks, opts, ev);
   }
-  return runOnWorkers(tasks, opts, ev);
+  const n = Math.min(opts.workers, tasks.length, machineThreads());
+  const ready = crew ? await crew.take(n) : [];
+  return runOnWorkers(tasks, opts, ev, ready);
 }
 
 /** The cases in this thread with an FFT team, which ends with the run, however the run ends. */
@@ -134,7 +146,8 @@ async function runHere(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerE
   return { interrupted: !!opts.signal?.aborted };
 }
 
-function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
+/** The cases on n worker threads: `ready` ones (a crew's, already started) first, the rest started here. */
+function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents, ready: Worker[]): Promise<{ interrupted: boolean }> {
   const queue = [...tasks];
   const n = Math.min(opts.workers, tasks.length, machineThreads());
   const pool = new Pool({ max: n });
@@ -188,28 +201,38 @@ function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEv
           while (outstanding > 0) settle();
           return;
         }
-        w.on('message', (m: FromWorker) => {
-          if (m.type === 'ready') return feed(w);
-          const t = busy.get(w);
-          busy.set(w, null);
-          if (m.type === 'done') report(() => ev.done(m.done));
-          else report(() => ev.failed(m.id, m.error));
-          if (t) settle();
-          if (!stopped) feed(w);
-        });
-        const lost = (why: string) => {
-          const t = busy.get(w);
-          busy.delete(w);
-          if (t && !stopped) {
-            report(() => ev.failed(t.plan.case.id, `the worker computing it stopped: ${why}`));
-            settle();
-            spawn();
-          }
-        };
-        w.on('error', (e) => lost(e.message));
-        w.on('exit', (code) => lost(`exit code ${code}`));
+        attach(w);
       });
     };
-    for (let i = 0; i < n; i++) spawn();
+
+    const attach = (w: Worker) => {
+      w.on('message', (m: FromWorker) => {
+        if (m.type === 'ready') return feed(w);
+        if (m.type !== 'done' && m.type !== 'failed') return;
+        const t = busy.get(w);
+        busy.set(w, null);
+        if (m.type === 'done') report(() => ev.done(m.done));
+        else report(() => ev.failed(m.id, m.error));
+        if (t) settle();
+        if (!stopped) feed(w);
+      });
+      const lost = (why: string) => {
+        const t = busy.get(w);
+        busy.delete(w);
+        if (t && !stopped) {
+          report(() => ev.failed(t.plan.case.id, `the worker computing it stopped: ${why}`));
+          settle();
+          spawn();
+        }
+      };
+      w.on('error', (e) => lost(e.message));
+      w.on('exit', (code) => lost(`exit code ${code}`));
+    };
+    // A crew's workers have said they are ready already: they get their first case now.
+    for (const w of ready.slice(0, n)) {
+      attach(w);
+      feed(w);
+    }
+    for (let i = ready.length; i < n; i++) spawn();
   });
 }
