@@ -16,6 +16,8 @@ import { caseHash, removeLeftovers, verifyCases, writeManifest, type Manifest } 
 import { acquireRunLock, LockBusyError, type HeldLock } from './lock.js';
 import { chooseParallelism, runTasks, workersAvailable } from './scheduler.js';
 import { startCrew, type Crew } from './crew.js';
+import { plotsOn, stopKept } from './helpers.js';
+import type { Worker } from 'node:worker_threads';
 import { machineThreads } from './threads.js';
 import { createEngine } from '../kernels.js';
 import type { Engine } from '../optics/engine.js';
@@ -310,9 +312,10 @@ async function runLocked(
   for (const p of tooBig) await fail(p.case.id, caseHash(p.case), p.error!);
   const hashes = new Map(todo.map((t) => [t.plan.case.id, t.hash]));
   const heapMb = largest ? Math.ceil(largest.memoryBytes / 1024 ** 2) + 512 : undefined;
-  const { interrupted } = await runTasks(
+  // Case workers stay for the report's plots (not for a shard, which makes no report).
+  const { interrupted, kept } = await runTasks(
     todo,
-    { workers, threadsPerCase: parallel.threadsPerCase, engine: opts.engine ?? createEngine(), ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}), ...(crew ? { crew } : {}) },
+    { workers, threadsPerCase: parallel.threadsPerCase, engine: opts.engine ?? createEngine(), ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}), ...(crew ? { crew } : {}), keep: !opts.shard },
     {
       start: (id) => rep.caseStart(id),
       done: async (d) => {
@@ -326,6 +329,28 @@ async function runLocked(
       note: (line) => rep.note(line),
     },
   );
+  try {
+    return await finishRun(loaded, opts, rep, outcome, jobDir, plans, manifest, save, mine.length, interrupted, kept);
+  } finally {
+    await stopKept(kept);
+  }
+}
+
+/** After the cases: the manifest, and the job-level files (or, for a shard, what to do next). */
+async function finishRun(
+  loaded: LoadedJob,
+  opts: RunOptions,
+  rep: RunReporter,
+  outcome: JobOutcome,
+  jobDir: string,
+  plans: Plan[],
+  manifest: Manifest,
+  save: () => Promise<void>,
+  mineCount: number,
+  interrupted: boolean,
+  kept: Worker[],
+): Promise<JobOutcome> {
+  const { spec, file } = loaded;
   await save();
   outcome.done = Object.keys(manifest.completed).length;
   if (interrupted) outcome.interrupted = true;
@@ -333,13 +358,13 @@ async function runLocked(
   const cases = plans.map((p) => p.case);
   if (opts.shard) {
     rep.jobEnd(
-      `job ${spec.name}, shard ${opts.shard.k}/${opts.shard.n}: ${outcome.done} of ${mine.length} cases done, ${outcome.failed.length} failed` +
+      `job ${spec.name}, shard ${opts.shard.k}/${opts.shard.n}: ${outcome.done} of ${mineCount} cases done, ${outcome.failed.length} failed` +
         `${interrupted ? ' (interrupted)' : ''}; gather the shards with: spotcast gather ${file} --out ${opts.outDir}`,
     );
     return outcome;
   }
   // The cases verified or written by this run (which holds the folder) need not be read again.
-  const g = await gatherJob(loaded, jobDir, cases, opts, new Set(Object.keys(manifest.completed)));
+  const g = await gatherJob(loaded, jobDir, cases, opts, new Set(Object.keys(manifest.completed)), kept.length ? plotsOn(kept) : undefined);
   if (g.reportError) {
     outcome.reportError = g.reportError;
     rep.note(`job ${spec.name}: the report could not be written: ${g.reportError}`);

@@ -43,6 +43,18 @@ export interface SchedulerOptions {
    * limit covers heapMb, else stopped. Stopped in every case by the time runTasks returns.
    */
   crew?: Crew;
+  /**
+   * Keep the case workers when the cases are done (not on an interruption): they are returned in
+   * `kept`, told to load the report's plotting libraries as they run out of cases, for the job
+   * report's plots (run/helpers.ts). The caller stops them.
+   */
+  keep?: boolean;
+}
+
+export interface TasksOutcome {
+  interrupted: boolean;
+  /** The workers kept (SchedulerOptions.keep), alive and idle; empty when the cases ran in this thread. */
+  kept: Worker[];
 }
 
 const WORKER_FILE = new URL('./worker.js', import.meta.url);
@@ -101,15 +113,15 @@ function chooseFor(plans: Plan[], requested: number, atOnce: number): Parallelis
   return { workers: 1, threadsPerCase: requested, note: `${why}: one case at a time, its FFTs split across ${requested} threads` };
 }
 
-export async function runTasks(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
+export async function runTasks(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<TasksOutcome> {
   const onWorkers = !((opts.threadsPerCase ?? 1) > 1 && tasks.length > 0) && opts.workers > 1 && tasks.length > 1 && workersAvailable();
   // A crew the cases will not use is stopped before they start (its threads would share the cores).
   const crew = onWorkers && opts.crew && opts.crew.heapMb >= (opts.heapMb ?? 0) ? opts.crew : null;
   if (opts.crew && !crew) await opts.crew.stop();
-  if ((opts.threadsPerCase ?? 1) > 1 && tasks.length > 0) return runWithTeam(tasks, opts, ev);
+  if ((opts.threadsPerCase ?? 1) > 1 && tasks.length > 0) return { ...(await runWithTeam(tasks, opts, ev)), kept: [] };
   if (!onWorkers) {
     if (opts.workers > 1 && !workersAvailable()) ev.note?.('worker threads need the built program (npm run build); running the cases in this thread');
-    return runHere(tasks, opts, ev);
+    return { ...(await runHere(tasks, opts, ev)), kept: [] };
   }
   const n = Math.min(opts.workers, tasks.length, machineThreads());
   const ready = crew ? await crew.take(n) : [];
@@ -147,7 +159,7 @@ async function runHere(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerE
 }
 
 /** The cases on n worker threads: `ready` ones (a crew's, already started) first, the rest started here. */
-function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents, ready: Worker[]): Promise<{ interrupted: boolean }> {
+function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents, ready: Worker[]): Promise<TasksOutcome> {
   const queue = [...tasks];
   const n = Math.min(opts.workers, tasks.length, machineThreads());
   const pool = new Pool({ max: n });
@@ -164,12 +176,13 @@ function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEv
     const finish = (interrupted: boolean) => {
       if (stopped) return;
       stopped = true;
-      // Idle workers are told to stop; on an interruption the busy ones are abandoned.
+      // Idle workers are told to stop (or kept, when asked); on an interruption the busy ones are abandoned.
+      const kept = opts.keep && !interrupted ? [...busy.keys()] : [];
       for (const [w, t] of busy) {
         if (interrupted && t) void w.terminate();
-        else w.postMessage({ type: 'stop' } satisfies ToWorker);
+        else if (!kept.includes(w)) w.postMessage({ type: 'stop' } satisfies ToWorker);
       }
-      chain.then(() => resolve({ interrupted }));
+      chain.then(() => resolve({ interrupted, kept }));
     };
     opts.signal?.addEventListener('abort', () => finish(true), { once: true });
 
@@ -182,7 +195,8 @@ function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEv
       const t = queue.shift();
       if (!t) {
         busy.set(w, null);
-        w.postMessage({ type: 'stop' } satisfies ToWorker);
+        // No case left for it: stop, or (kept for the report) load the plotting libraries meanwhile.
+        w.postMessage((opts.keep ? { type: 'preload' } : { type: 'stop' }) satisfies ToWorker);
         return;
       }
       busy.set(w, t);

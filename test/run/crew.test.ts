@@ -1,7 +1,7 @@
-// The workers a run starts before planning (src/run/crew.ts), on the built program (worker threads
-// need dist/src/run/worker.js; the build runs in beforeAll unless SPOTCAST_TEST_NO_BUILD=1): the
-// plans they make are the plans this thread makes, a worker handed over computes a case, and the
-// ones not handed over are stopped.
+// The workers a run starts before planning (src/run/crew.ts) and keeps for the report's plots
+// (src/run/helpers.ts), on the built program (worker threads need dist/src/run/worker.js; the build
+// runs in beforeAll unless SPOTCAST_TEST_NO_BUILD=1): the plans they make are the plans this thread
+// makes, a worker handed over computes a case, and the plots they draw are the bytes this thread draws.
 import { execFileSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
@@ -81,5 +81,31 @@ describe('a crew of worker threads', () => {
     expect(exits).toEqual([]);
     w.postMessage({ type: 'stop' });
     await new Promise((r) => w.once('exit', r));
+  }, 120_000);
+
+  it('draws report plots byte for byte as this thread draws them', async () => {
+    const { startCrew } = await modules();
+    const { plotsOn, stopKept } = (await import(dist('run/helpers.js'))) as typeof import('../../src/run/helpers.js');
+    const { renderPlot } = (await import(dist('report/plots.js'))) as typeof import('../../src/report/plots.js');
+    const plot = (k: number) => ({
+      title: `invented quantity ${k} against distance`,
+      x: { label: 'distance', unit: 'm' as const, log: true },
+      y: { label: `quantity ${k}`, unit: '1' as const, log: k % 2 === 1 },
+      points: Array.from({ length: 30 }, (_, i) => ({ x: 0.01 * 1.2 ** i, y: (k + 1) / (1 + i) })),
+      nfBoundary: k === 0 ? 0.05 : null,
+    });
+    const inputs = [0, 1, 2].map(plot);
+    const crew = startCrew(2);
+    const workers = await crew.take(2);
+    try {
+      const drawn = await plotsOn(workers)(inputs);
+      for (const [i, p] of inputs.entries()) {
+        const here = await renderPlot(p);
+        expect(drawn[i]!.svg).toBe(here.svg);
+        expect(Buffer.compare(Buffer.from(drawn[i]!.png), here.png)).toBe(0);
+      }
+    } finally {
+      await stopKept(workers);
+    }
   }, 120_000);
 });
