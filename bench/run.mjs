@@ -45,9 +45,11 @@ aperture: {shape: circle, diameter: 50 um}
 `;
 
 /**
- * One run of the command line as a child process: seconds from spawn to exit, and its peak RSS
- * (KiB), read by a preloaded module from process.resourceUsage() as the process exits (getrusage of
- * the whole process: the worker threads' memory is in it).
+ * One run of the command line as a child process: seconds from spawn to exit, its peak RSS (KiB)
+ * and its CPU time (user + system, all threads), read by a preloaded module from
+ * process.resourceUsage() as the process exits (getrusage of the whole process: the worker threads
+ * are in it). The CPU time says how much work a run was, whatever the machine's load did to its
+ * wall time.
  */
 async function runCli(jobFile, outDir, workers, preload, rssFile) {
   const t0 = performance.now();
@@ -61,8 +63,8 @@ async function runCli(jobFile, outDir, workers, preload, rssFile) {
   });
   const seconds = (performance.now() - t0) / 1000;
   if (code !== 0) throw new Error(`spotcast run --workers ${workers} exited with ${code}`);
-  const maxRssKb = Number(await readFile(rssFile, 'utf8'));
-  return { seconds, maxRssKb };
+  const usage = JSON.parse(await readFile(rssFile, 'utf8'));
+  return { seconds, maxRssKb: usage.maxRSS, cpuSeconds: usage.cpu };
 }
 
 async function processRow() {
@@ -73,7 +75,7 @@ async function processRow() {
     const preload = join(dir, 'peak-rss.mjs');
     await writeFile(
       preload,
-      "import { writeFileSync } from 'node:fs';\nprocess.on('exit', () => writeFileSync(process.env.SPOTCAST_BENCH_RSS, String(process.resourceUsage().maxRSS)));\n",
+      "import { writeFileSync } from 'node:fs';\nprocess.on('exit', () => { const u = process.resourceUsage(); writeFileSync(process.env.SPOTCAST_BENCH_RSS, JSON.stringify({ maxRSS: u.maxRSS, cpu: (u.userCPUTime + u.systemCPUTime) / 1e6 })); });\n",
     );
     const runs = { 1: [], 2: [] };
     noteLoad('process row start');
@@ -93,7 +95,10 @@ async function processRow() {
         name: `100-case far-field sweep, whole process, --workers ${w}`,
         median: med(w),
         unit: 's',
-        extra: `${(cases / med(w)).toFixed(2)} cases/s start to exit (report included); runs ${runs[w].map((x) => x.seconds.toFixed(2)).join(', ')} s; peak RSS ${mib(Math.max(...runs[w].map((x) => x.maxRssKb)))}`,
+        extra:
+          `${(cases / med(w)).toFixed(2)} cases/s start to exit (report included); runs ${runs[w].map((x) => x.seconds.toFixed(2)).join(', ')} s; ` +
+          `CPU ${median(runs[w].map((x) => x.cpuSeconds)).toFixed(1)} s; peak RSS ${mib(Math.max(...runs[w].map((x) => x.maxRssKb)))}`,
+        cpuSeconds: median(runs[w].map((x) => x.cpuSeconds)),
         peakRssKb: Math.max(...runs[w].map((x) => x.maxRssKb)),
       });
     }
@@ -186,61 +191,82 @@ async function overheadRow() {
   const { encodeNpy } = await import('../dist/src/output/npy.js');
   const kinds = [
     ['small far-field case (50 µm pinhole, 0.5–2 m)', 'distance: {from: 0.5 m, to: 2 m, count: 9}\naperture: {shape: circle, diameter: 50 um}'],
-    ['512² case (1 mm disc, grid.size 512, 20–40 mm)', 'distance: {from: 20 mm, to: 40 mm, count: 7}\naperture: {shape: circle, diameter: 1 mm}\ngrid: {size: 512}'],
+    // grid.size 512 by the angular spectrum (asked for: the planner picks direct sums at some of these
+    // distances), its FFTs on the padded 2048² grid, a 481² window.
+    [
+      '512² case (1 mm disc, grid.size 512, angular spectrum, 20–40 mm)',
+      'distance: {from: 20 mm, to: 40 mm, count: 5}\naperture: {shape: circle, diameter: 1 mm}\ngrid: {size: 512}\nmethod: angular-spectrum',
+    ],
   ];
   noteLoad('overhead row start');
   for (const [name, body] of kinds) {
     const cases = expandJob(parseJobText(`name: bench-overhead\nwavelength: 633 nm\n${body}\n`).spec);
     const ctx = newCaseContext(createEngine());
     const dir = await mkdtemp(join(tmpdir(), 'spotcast-bench-'));
+    // Each part in wall-clock ms and in CPU ms of this process (user + system: what the part cost,
+    // whatever else the machine ran meanwhile; on an idle machine the two agree for these
+    // one-thread parts, the CPU time then also counting the file writes' thread-pool work).
     const part = { prop: [], analysis: [], curve: [], write: [], pictures: [], npy: [], digests: [] };
+    const cpuPart = { prop: [], analysis: [], curve: [], write: [], pictures: [], npy: [], digests: [] };
+    const clock = () => ({ wall: performance.now(), cpu: process.cpuUsage() });
+    const since = (t) => {
+      const c = process.cpuUsage(t.cpu);
+      return { wall: performance.now() - t.wall, cpu: (c.user + c.system) / 1000 };
+    };
+    const keep = (key, d) => {
+      part[key].push(d.wall);
+      cpuPart[key].push(d.cpu);
+    };
     let shape = '';
     for (const c of cases) {
       const plan = planCase(c);
       // Once to fill what the context keeps between cases (a sweep's source spectrum), so that the
       // timed propagation and the one inside runPlannedCase do the same work.
       computeCase(plan, ctx);
-      let t = performance.now();
+      let t = clock();
       computeCase(plan, ctx);
-      const tc = performance.now() - t;
-      t = performance.now();
+      const tc = since(t);
+      t = clock();
       const rec = runPlannedCase(plan, ctx);
-      const tr = performance.now() - t;
-      t = performance.now();
+      const tr = since(t);
+      t = clock();
       await writeCase(dir, rec);
-      part.write.push(performance.now() - t);
+      keep('write', since(t));
       // The parts, each again on its own.
       const centre = rec.metrics.encircled?.centre ?? [0, 0];
-      t = performance.now();
+      t = clock();
       energyCurve(rec.computed, centre, rec.computed.diagnostics.powerIn);
-      const tcurve = performance.now() - t;
-      t = performance.now();
+      keep('curve', since(t));
+      t = clock();
       const pngs = renderIntensityPngs({ map: rec.computed, logDecades: plan.case.output.logDecades, title: caseTitle(plan) }, ['shoal', 'gray']);
-      part.pictures.push(performance.now() - t);
-      t = performance.now();
+      keep('pictures', since(t));
+      t = clock();
       const npy = encodeNpy(rec.computed.intensity, [rec.computed.ny, rec.computed.nx], plan.case.output.npy);
-      part.npy.push(performance.now() - t);
-      t = performance.now();
+      keep('npy', since(t));
+      t = clock();
       for (const b of [npy, ...pngs]) digestOf(b);
-      part.digests.push(performance.now() - t);
-      part.prop.push(tc);
-      part.curve.push(tcurve);
-      part.analysis.push(Math.max(0, tr - tc));
+      keep('digests', since(t));
+      keep('prop', tc);
+      keep('analysis', { wall: Math.max(0, tr.wall - tc.wall), cpu: Math.max(0, tr.cpu - tc.cpu) });
       shape = `${rec.computed.ny}×${rec.computed.nx} window, ${methodWords(plan.method, plan.form)}, padded ${plan.x.paddedSamples}×${plan.y?.paddedSamples ?? 1}`;
     }
     await rm(dir, { recursive: true, force: true });
     const m = Object.fromEntries(Object.entries(part).map(([k, v]) => [k, median(v)]));
+    const mc = Object.fromEntries(Object.entries(cpuPart).map(([k, v]) => [k, median(v)]));
     const over = m.analysis + m.write;
-    const rest = Math.max(0, m.write - m.pictures - m.npy - m.digests);
+    const parts = (x) =>
+      `analysis ${x.analysis.toFixed(1)} (energy curve ${x.curve.toFixed(1)}) + files ${x.write.toFixed(1)} ` +
+      `(pictures ${x.pictures.toFixed(1)}, .npy ${x.npy.toFixed(1)}, digests ${x.digests.toFixed(1)}, the rest ${Math.max(0, x.write - x.pictures - x.npy - x.digests).toFixed(1)}); ` +
+      `propagation ${x.prop.toFixed(1)}`;
     rows.push({
       name: `outside the propagation, ${name}`,
       median: over / 1000,
       unit: 's per case',
       extra:
-        `${shape}: analysis ${m.analysis.toFixed(1)} ms (energy curve ${m.curve.toFixed(1)}) + files ${m.write.toFixed(1)} ms ` +
-        `(pictures ${m.pictures.toFixed(1)}, .npy ${m.npy.toFixed(1)}, digests ${m.digests.toFixed(1)}, the rest ${rest.toFixed(1)}); ` +
-        `propagation ${m.prop.toFixed(1)} ms; bench process peak RSS so far ${mib(selfPeakKb())}`,
+        `${shape}. Wall ms: ${parts(m)}. CPU ms: ${parts(mc)}, outside the propagation ${(mc.analysis + mc.write).toFixed(1)}. ` +
+        `Bench process peak RSS so far ${mib(selfPeakKb())}`,
       parts: m,
+      cpuParts: mc,
       peakRssKb: selfPeakKb(),
     });
   }

@@ -191,9 +191,11 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
     return out;
   });
 
+  // One image for every scale: each scale paints over the same panels and colour bars, every pixel
+  // of them (paintLevels), and nothing else differs between the scales.
+  const img = base;
   return scales.map((scale) => {
     const lut = buildLut(SCALES[scale]);
-    const img: RgbImage = { width: base.width, height: base.height, data: base.data.slice() };
     for (let k = 0; k < 2; k++) {
       const panel = layout.panels[k]!;
       paintLevels(img, panel, levels[k]!, panel.w, lut);
@@ -241,6 +243,8 @@ function viewLevels(shown: Float64Array, view: 'linear' | 'log', peak: number, d
   }
   const bounds = logBounds(decades, level);
   const below = bounds[1]!, full = bounds[top]!;
+  // Levels per unit of log2(x): top / (decades · log2 10).
+  const perLog2 = top / (decades * Math.log2(10));
   for (let i = 0; i < shown.length; i++) {
     const v = shown[i]!;
     // v ≤ 0 (and NaN, which no comparison passes) is level 0: the log view has nothing to show there.
@@ -251,11 +255,11 @@ function viewLevels(shown: Float64Array, view: 'linear' | 'log', peak: number, d
       out[i] = top;
       continue;
     }
-    // A first guess from the binary exponent and mantissa (log2 to within 0.09), then the bounds.
+    // A first guess from the binary exponent and mantissa (log2 to within 0.09; on a big-endian
+    // machine BITS_U[1] is the low word and the guess is poor, the walk below longer), then the bounds.
     BITS_F[0] = x;
     const hi = BITS_U[1]!;
-    const log2 = (hi >>> 20) - 1023 + (hi & 0xfffff) / 1048576;
-    let k = Math.round((1 + (log2 * Math.LOG10E) / Math.LOG2E / decades) * top);
+    let k = (top + ((hi >>> 20) - 1023 + (hi & 0xfffff) * 2 ** -20) * perLog2) | 0;
     k = k < 1 ? 1 : k > top - 1 ? top - 1 : k;
     while (x >= bounds[k + 1]!) k++;
     while (x < bounds[k]!) k--;

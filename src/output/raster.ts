@@ -68,7 +68,12 @@ export function frame(img: RgbImage, r: Rect, c: Colour): void {
 export function encodePng(img: RgbImage): Buffer {
   const { width, height, data } = img;
   const stride = width * 3;
-  const raw = Buffer.allocUnsafe((stride + 1) * height);
+  // The filtered rows are deflated at once (deflateSync) and not kept: one scratch buffer serves
+  // every picture (a case's two pictures allocated 3 MB for them, and the collector came round more).
+  // (Up to RAW_KEPT bytes; a larger image, such as a big contact sheet, gets a buffer of its own.)
+  const size = (stride + 1) * height;
+  if (RAW.length < size && size <= RAW_KEPT) RAW = Buffer.allocUnsafe(size);
+  const raw = size <= RAW.length ? RAW.subarray(0, size) : Buffer.allocUnsafe(size);
   for (let y = 0; y < height; y++) {
     const o = y * (stride + 1);
     raw[o] = 0; // filter type 0: none
@@ -84,6 +89,8 @@ export function encodePng(img: RgbImage): Buffer {
 }
 
 const DEFLATE_LEVEL = 1;
+let RAW = Buffer.alloc(0);
+const RAW_KEPT = 8 * 1024 ** 2;
 const PNG_SIGNATURE = Buffer.from([137, 80, 78, 71, 13, 10, 26, 10]);
 
 function chunk(type: string, body: Uint8Array): Buffer {
