@@ -17,33 +17,12 @@ function subdivision(map: IntensityMap): number {
   return n <= 1 << 20 ? 4 : n <= 1 << 22 ? 2 : 1;
 }
 
-export function energyCurve(map: IntensityMap, centre: [number, number], reference: number, points = 400): EnergyCurve {
-  const key = [map.nx, map.ny, map.dx, map.dy, map.x0, map.y0, centre[0], centre[1], reference, points].join(' ');
-  const hit = lastCurve && lastCurve.key === key && sameValues(lastCurve.values, map.intensity) ? lastCurve.curve : null;
-  const curve = hit ?? computeEnergyCurve(map, centre, reference, points);
-  if (!hit) lastCurve = map.intensity.length <= MEMO_MAX_SAMPLES ? { key, values: map.intensity.slice(), curve } : null;
-  // Copies: a caller may write into what it gets without touching the memo.
-  return { radius: curve.radius.slice(), fraction: curve.fraction.slice() };
-}
-
 /**
- * The last curve computed, with a copy of the values it came from. A case reads its curve about
- * the centroid, and its verdicts (analysis/verdict.ts spotSize) then ask for the same curve of the
- * same map again; the memo answers that second call after comparing every value (a tenth or so of
- * the cost of the curve, which takes 16 square roots a sample), so an answer is never stale. Maps
- * above MEMO_MAX_SAMPLES (8 MB of values) are not kept.
+ * The curve about `centre`, as fractions of `reference`, on `points` bins out to the farthest corner
+ * of the window. It takes 16 square roots a sample: a caller that needs it twice (a case's
+ * metrics and its verdicts) computes it once and passes it on (see analysis/verdict.ts spotSize).
  */
-let lastCurve: { key: string; values: Float64Array; curve: EnergyCurve } | null = null;
-const MEMO_MAX_SAMPLES = 1 << 20;
-
-function sameValues(a: Float64Array, b: Float64Array): boolean {
-  if (a.length !== b.length) return false;
-  // Value by value (NaN never equals itself, so a map holding one is computed again).
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
-}
-
-function computeEnergyCurve(map: IntensityMap, centre: [number, number], reference: number, points: number): EnergyCurve {
+export function energyCurve(map: IntensityMap, centre: [number, number], reference: number, points = 400): EnergyCurve {
   const s = subdivision(map);
   const dx = map.dx;
   const oneD = isOneD(map);

@@ -2,7 +2,7 @@
 // the aperture's geometric shadow and with the far-field pattern, and the answer is put in words.
 import { formatLength, trimNumber } from '../job/units.js';
 import { elementOf, type Aperture } from '../elements/registry.js';
-import { energyCurve, radiusHolding } from './encircled.js';
+import { energyCurve, radiusHolding, type EnergyCurve } from './encircled.js';
 import { isOneD } from '../model/grid.js';
 import type { IntensityMap } from '../model/intensity-map.js';
 
@@ -103,6 +103,9 @@ export function marginal(map: IntensityMap, axis: 'x' | 'y'): IntensityMap {
 /**
  * The spot size along an axis, with its geometric and far-field counterparts. centre: the spot's
  * centre along x and y (the centroid). power: the power through the aperture (the 100 % mark).
+ * curve: the map's radial energy curve about centre as fractions of power (energyCurve's default
+ * bins), when the caller has it already: the radial verdict then reads it instead of computing it
+ * again.
  */
 export function spotSize(
   map: IntensityMap,
@@ -112,14 +115,14 @@ export function spotSize(
   z: number,
   centre: [number, number],
   power: number,
+  curve?: EnergyCurve | null,
 ): SpotSize {
   const onScreen = (sinTheta: number) => z * Math.tan(Math.asin(Math.min(1, sinTheta)));
   if (axis === 'radial') {
-    const curve = energyCurve(map, centre, power);
     const k = (2 * Math.PI) / wavelength;
     return {
       measure: 'radius-50%',
-      computed: radiusHolding(curve, 0.5),
+      computed: radiusHolding(curve ?? energyCurve(map, centre, power), 0.5),
       geometric: width / (2 * Math.SQRT2),
       farField: onScreen(AIRY_HALF_POWER_V / (k * (width / 2))),
       farFieldFirstZero: onScreen((1.21967 * wavelength) / width),
@@ -127,10 +130,9 @@ export function spotSize(
   }
   const line = marginal(map, axis);
   const c = axis === 'x' ? centre[0] : centre[1];
-  const curve = energyCurve(line, [c, 0], power);
   return {
     measure: 'half-width-50%',
-    computed: radiusHolding(curve, 0.5),
+    computed: radiusHolding(energyCurve(line, [c, 0], power), 0.5),
     geometric: width / 4,
     farField: onScreen((SINC_HALF_POWER_U * wavelength) / width),
     farFieldFirstZero: onScreen(wavelength / width),

@@ -2,6 +2,7 @@
 // against the far-field pattern's and the geometric shadow's, and from which distance the far-field
 // size holds (added by run/searches.ts, which propagates again to find it).
 import type { IntensityMap } from '../analysis/metrics.js';
+import type { EnergyCurve } from '../analysis/encircled.js';
 import { makeVerdict, spotSize, verdictWidth, type Verdict } from '../analysis/verdict.js';
 import type { CaseSummary } from '../output/case-output.js';
 import { verdictAxesOf } from '../plan/answers.js';
@@ -19,13 +20,20 @@ export function verdictAxes(plan: Plan): ('radial' | 'x' | 'y')[] {
  * a sharp reference, so none is given). The far-field agreement distance is added by the job
  * runner, which can afford (and cache) the extra propagations it needs.
  */
-export function caseVerdicts(plan: Plan, map: IntensityMap, centre: [number, number], powerThroughAperture: number): Verdict[] {
+export function caseVerdicts(
+  plan: Plan,
+  map: IntensityMap,
+  centre: [number, number],
+  powerThroughAperture: number,
+  /** The map's energy curve about centre as fractions of powerThroughAperture, if the caller has it. */
+  curve?: EnergyCurve | null,
+): Verdict[] {
   const c = plan.case;
   const out: Verdict[] = [];
   for (const axis of verdictAxes(plan)) {
     const width = verdictWidth(c.aperture, axis)!;
     const nf = (width / 2) ** 2 / (c.wavelength * c.distance);
-    const size = spotSize(map, axis, width, c.wavelength, c.distance, centre, powerThroughAperture);
+    const size = spotSize(map, axis, width, c.wavelength, c.distance, centre, powerThroughAperture, axis === 'radial' ? curve : null);
     out.push(makeVerdict(axis, size, nf));
   }
   return out;

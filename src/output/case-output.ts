@@ -300,37 +300,47 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
     throw writeError(e, final, jobDir);
   }
   const files: Record<string, FileDigest> = {};
-  const put = async (name: string, content: string | Uint8Array) => {
+  // Each file's write goes out at once and the next file is made while it is under way (the pictures
+  // take tens of milliseconds to draw); all are awaited before record.json, which is written last.
+  const writes: Promise<void>[] = [];
+  const put = (name: string, content: string | Uint8Array) => {
     const data = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
-    try {
-      await writeFile(join(tmp, name), data, { flag: 'wx' });
-    } catch (e) {
-      throw writeError(e, join(final, name), jobDir);
-    }
     if (name !== CASE_FILES.record) files[name] = digestOf(data);
+    const w = writeFile(join(tmp, name), data, { flag: 'wx' }).catch((e: unknown) => {
+      throw writeError(e, join(final, name), jobDir);
+    });
+    // Awaited with the others (allWritten); this keeps an early failure from counting as unhandled.
+    w.catch(() => undefined);
+    writes.push(w);
+  };
+  /** Every write so far, settled; the first failure (in file order) thrown. */
+  const allWritten = async () => {
+    const settled = await Promise.allSettled(writes.splice(0));
+    const failed = settled.find((r): r is PromiseRejectedResult => r.status === 'rejected');
+    if (failed) throw failed.reason;
   };
   try {
     const map: IntensityMap = computed;
     const shape = [computed.ny, computed.nx];
-    await put(CASE_FILES.intensity, encodeNpy(computed.intensity, shape, plan.case.output.npy));
+    put(CASE_FILES.intensity, encodeNpy(computed.intensity, shape, plan.case.output.npy));
     // Profiles through the optical axis when it is in the window, else through the window centre.
     const row = clampIndex(Math.round(computed.center[1]), computed.ny);
     const col = clampIndex(Math.round(computed.center[0]), computed.nx);
-    await put(CASE_FILES.profileX, profileCsv(map, 'x', row, col));
-    if (!isOneD(computed)) await put(CASE_FILES.profileY, profileCsv(map, 'y', row, col));
+    put(CASE_FILES.profileX, profileCsv(map, 'x', row, col));
+    if (!isOneD(computed)) put(CASE_FILES.profileY, profileCsv(map, 'y', row, col));
     if (rec.metrics.orders) {
-      await put(CASE_FILES.orders, ordersCsv(rec.metrics.orders, rec.metrics.evanescentFraction, rec.metrics.ordersOmitted));
+      put(CASE_FILES.orders, ordersCsv(rec.metrics.orders, rec.metrics.evanescentFraction, rec.metrics.ordersOmitted));
     }
     if (rec.energy) {
       const head = isOneD(computed) ? 'half_width_m' : 'radius_m';
-      await put(
+      put(
         CASE_FILES.energy,
         toCsv([head, 'fraction_of_power_through_aperture'], Array.from(rec.energy.radius, (r, i) => [r, rec.energy!.fraction[i]!])),
       );
     }
     if (rec.mtf && rec.metrics.mtf) {
-      await put(CASE_FILES.mtf, mtfCsv(rec.mtf));
-      await put(CASE_FILES.mtfPlot, renderMtfPng(rec.mtf, rec.metrics.mtf, caseTitle(plan)));
+      put(CASE_FILES.mtf, mtfCsv(rec.mtf));
+      put(CASE_FILES.mtfPlot, renderMtfPng(rec.mtf, rec.metrics.mtf, caseTitle(plan)));
     }
     const picture = {
       map,
@@ -338,13 +348,17 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
       title: caseTitle(plan),
     };
     const [shoal, gray] = renderIntensityPngs(picture, ['shoal', 'gray']);
-    await put(CASE_FILES.picture, shoal!);
-    await put(CASE_FILES.pictureGray, gray!);
-    await put(CASE_FILES.result, JSON.stringify(resultJson(rec), jsonNumbers, 2) + '\n');
+    put(CASE_FILES.picture, shoal!);
+    put(CASE_FILES.pictureGray, gray!);
+    put(CASE_FILES.result, JSON.stringify(resultJson(rec), jsonNumbers, 2) + '\n');
     const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION, files };
-    await put(CASE_FILES.record, JSON.stringify(stored, jsonNumbers) + '\n');
+    await allWritten();
+    put(CASE_FILES.record, JSON.stringify(stored, jsonNumbers) + '\n');
+    await allWritten();
     await replaceDir(tmp, final);
   } catch (e) {
+    // No write of this case may still be under way when its folder is removed.
+    await Promise.allSettled(writes);
     await rm(tmp, { recursive: true, force: true });
     throw e;
   }

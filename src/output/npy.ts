@@ -4,6 +4,8 @@
 
 export type NpyDtype = 'float64' | 'float32';
 
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
 export function encodeNpy(data: Float64Array, shape: number[], dtype: NpyDtype = 'float64'): Uint8Array {
   const descr = dtype === 'float64' ? '<f8' : '<f4';
   const shapeText = shape.length === 1 ? `(${shape[0]},)` : `(${shape.join(', ')})`;
@@ -17,6 +19,13 @@ export function encodeNpy(data: Float64Array, shape: number[], dtype: NpyDtype =
   const view = new DataView(out.buffer);
   view.setUint16(8, header.length, true);
   for (let i = 0; i < header.length; i++) out[prefix + i] = header.charCodeAt(i);
+  if (LITTLE_ENDIAN) {
+    // The machine's own order is the file's: the values' bytes as they are (float32: rounded to
+    // nearest by the typed array, as DataView's setFloat32 rounds). A copy, not a loop of setters.
+    const values = dtype === 'float64' ? data : Float32Array.from(data);
+    out.set(new Uint8Array(values.buffer, values.byteOffset, values.byteLength), total);
+    return out;
+  }
   for (let i = 0; i < data.length; i++) {
     if (dtype === 'float64') view.setFloat64(total + 8 * i, data[i]!, true);
     else view.setFloat32(total + 4 * i, data[i]!, true);

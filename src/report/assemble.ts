@@ -20,7 +20,7 @@ import { TOOL_VERSION } from '../version.js';
 import { logDistances, onAxisCurve } from '../analysis/on-axis.js';
 import { renderContactSheet, type SheetTile } from './contact-sheet.js';
 import { renderReportHtml } from './html.js';
-import { renderPlot, sweepPlots } from './plots.js';
+import { renderPlot, sweepPlots, type PlotInput } from './plots.js';
 import type { JobReport, ReportCase, ReportTable, SweepKey } from './types.js';
 
 export const JOB_FILES = {
@@ -359,23 +359,38 @@ export function overlapCsv(overlaps: Overlap[]): string {
   );
 }
 
-/** Renders plots and the contact sheet into the job folder, then the report page; returns the report. */
-export async function writeJobReport(jobDir: string, report: JobReport, tiles: SheetTile[], overlaps: Overlap[]): Promise<JobReport> {
+/**
+ * Renders plots and the contact sheet into the job folder, then the report page; returns the report.
+ * drawPlots: draws the plots elsewhere (a run's worker threads, run/helpers.ts) while this thread
+ * draws the contact sheet; without it they are drawn here, one after the other. The files are the same.
+ */
+export async function writeJobReport(
+  jobDir: string,
+  report: JobReport,
+  tiles: SheetTile[],
+  overlaps: Overlap[],
+  drawPlots?: (inputs: PlotInput[]) => Promise<{ svg: string; png: Uint8Array }[]>,
+): Promise<JobReport> {
   if (overlaps.length) await writeFileAtomic(join(jobDir, JOB_FILES.overlap), overlapCsv(overlaps));
   const plots = sweepPlots(report);
+  const drawn = drawPlots && plots.length ? drawPlots(plots) : null;
+  // (Awaited below; this only keeps a failure there from counting as unhandled while the sheet is drawn.)
+  drawn?.catch(() => undefined);
+  const sheet = tiles.length > 1 ? renderContactSheet(tiles, { title: `${report.job}: spots along the sweep` }) : null;
+  const images = drawn ? await drawn : null;
   const used = new Set<string>();
-  for (const p of plots) {
+  for (const [i, p] of plots.entries()) {
     let base = p.title.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 80) || 'plot';
     for (let k = 2; used.has(base); k++) base = `${base.replace(/-\d+$/, '')}-${k}`;
     used.add(base);
-    const { svg, png } = await renderPlot(p);
+    const { svg, png } = images ? images[i]! : await renderPlot(p);
     const dir = await safeJoin(jobDir, JOB_FILES.plots);
     await writeFileAtomic(join(dir, `${base}.svg`), svg);
     await writeFileAtomic(join(dir, `${base}.png`), png);
     report.plots.push({ title: p.title, svg: `${JOB_FILES.plots}/${base}.svg`, png: `${JOB_FILES.plots}/${base}.png` });
   }
-  if (tiles.length > 1) {
-    await writeFileAtomic(join(jobDir, JOB_FILES.contactSheet), renderContactSheet(tiles, { title: `${report.job}: spots along the sweep` }));
+  if (sheet) {
+    await writeFileAtomic(join(jobDir, JOB_FILES.contactSheet), sheet);
     report.contactSheet = JOB_FILES.contactSheet;
   }
   const html = await renderReportHtml(report, {

@@ -1,10 +1,8 @@
 // Plots of swept metrics: a vega-lite spec built from plain data, compiled by vega to SVG and
 // rasterised by resvg. The spec is kept pure so tests can read what will be drawn; only
-// renderPlot touches the libraries.
+// renderPlot touches the libraries, and loads them (plotting()).
 
-import { compile, type TopLevelSpec } from 'vega-lite';
-import * as vega from 'vega';
-import { Resvg } from '@resvg/resvg-js';
+import type { TopLevelSpec } from 'vega-lite';
 import type { JobReport, MetricInfo, ReportCase, SweepKey } from './types.js';
 import { formatLength } from '../job/units.js';
 import { safeEcho } from '../safe-text.js';
@@ -168,7 +166,27 @@ export function plotSpec(p: PlotInput): object {
   };
 }
 
+/**
+ * The plotting libraries, loaded by the first plot: vega-lite and vega take about 0.2 s to load,
+ * which every process paid at start-up (a worker thread, `spotcast plan`, a run's first case) when
+ * they were imported with this module.
+ */
+function plotting() {
+  return (LIBRARIES ??= Promise.all([import('vega-lite'), import('vega'), import('@resvg/resvg-js')]).then(([vl, vega, rs]) => ({
+    compile: vl.compile,
+    vega,
+    Resvg: rs.Resvg,
+  })));
+}
+let LIBRARIES: Promise<{ compile: typeof import('vega-lite').compile; vega: typeof import('vega'); Resvg: typeof import('@resvg/resvg-js').Resvg }> | null = null;
+
+/** Loads the plotting libraries ahead of the first plot (a worker does while others finish their cases). */
+export async function loadPlotting(): Promise<void> {
+  await plotting();
+}
+
 export async function renderPlot(p: PlotInput): Promise<{ svg: string; png: Buffer }> {
+  const { compile, vega, Resvg } = await plotting();
   const compiled = compile(plotSpec(p) as TopLevelSpec).spec;
   const view = new vega.View(vega.parse(compiled), { renderer: 'none', logLevel: vega.Error });
   const svg = await view.toSVG();

@@ -20,6 +20,7 @@ import { buildJobReport, sheetIndices, sheetTile, sweptLabel, writeJobReport } f
 import type { SheetTile } from '../report/contact-sheet.js';
 import { caseHash, readRecord, verifyCases, type CaseState, type Manifest } from './records.js';
 import type { StoredRecord } from '../output/case-output.js';
+import type { PlotDrawer } from './helpers.js';
 
 export interface GatherResult {
   total: number;
@@ -66,6 +67,8 @@ export async function gatherJob(
   cases: Case[],
   opts: PlannerOptions = {},
   trusted: ReadonlySet<string> = new Set(),
+  /** Draws the report's plots elsewhere (the run's kept workers: run/helpers.ts). */
+  drawPlots?: PlotDrawer,
 ): Promise<GatherResult> {
   const axes = sweepAxes(loaded.spec).filter((a) => a.values.length > 1);
   const failures = await recordedFailures(jobDir);
@@ -166,7 +169,7 @@ export async function gatherJob(
     if (rows.length > plans.length) plans.push(`(plans of the other ${rows.length - plans.length} cases: spotcast plan ${loaded.file})`);
     const overlaps = orderOverlaps(orderSets, loaded.spec.orders?.overlap);
     const report = buildJobReport({ loaded, axes, rows, plans, overlaps });
-    await writeJobReport(jobDir, report, tiles, overlaps);
+    await writeJobReport(jobDir, report, tiles, overlaps, drawPlots);
   } catch (e) {
     // The case results are on disk; a report that cannot be made is said, not hidden.
     result.reportError = (e as Error).message;

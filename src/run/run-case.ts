@@ -86,7 +86,8 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
       );
     }
   }
-  const verdicts = caseVerdicts(plan, computed, centre, d.powerIn);
+  // The radial verdict reads the case's own curve when it is about the same power (not Babinet).
+  const verdicts = caseVerdicts(plan, computed, centre, d.powerIn, reference === d.powerIn ? energy : null);
   if (verdicts.length) metrics.verdicts = verdicts;
   const strehl = lensStrehl(plan, spot.peakIntensity);
   if (strehl) metrics.strehl = strehl;

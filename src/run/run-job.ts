@@ -5,7 +5,7 @@ import { availableParallelism, freemem } from 'node:os';
 import { trimNumber } from '../job/units.js';
 import { JobError, formatWarning, loadJobFile, type LoadedJob } from '../job/load.js';
 import { expandJob } from '../job/expand.js';
-import { bytes, methodWords, type PlannerOptions } from '../plan/planner.js';
+import { bytes, methodWords, planCase, type PlannerOptions } from '../plan/planner.js';
 import { LIMITS } from '../plan/limits.js';
 import type { Plan } from '../plan/types.js';
 import type { CaseSummary } from '../output/case-output.js';
@@ -14,11 +14,15 @@ import { searchSentence } from './searches.js';
 import { gatherJob } from './gather.js';
 import { caseHash, removeLeftovers, verifyCases, writeManifest, type Manifest } from './records.js';
 import { acquireRunLock, LockBusyError, type HeldLock } from './lock.js';
-import { chooseParallelism, runTasks } from './scheduler.js';
+import { chooseParallelism, runTasks, workersAvailable } from './scheduler.js';
+import { startCrew, type Crew } from './crew.js';
+import { plotsOn, stopKept } from './helpers.js';
+import type { Worker } from 'node:worker_threads';
+import { machineThreads } from './threads.js';
 import { createEngine } from '../kernels.js';
 import type { Engine } from '../optics/engine.js';
 import { shareSourceSpectra } from '../plan/share.js';
-import { planCases } from '../plan/shared-grids.js';
+import { shareGrids } from '../plan/shared-grids.js';
 import type { CaseTask } from './execute.js';
 import { assignShards, type ShardSpec } from './shard.js';
 import { lineReporter, silentReporter, type RunReporter } from './progress.js';
@@ -122,6 +126,26 @@ export function caseLines(s: CaseSummary): string[] {
 }
 
 export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOutcome> {
+  const held: { crew: Crew | null } = { crew: null };
+  try {
+    return await runJobWith(loaded, opts, held);
+  } finally {
+    // Workers started for the planning and not taken over by the cases (a refused job, an FFT team).
+    await held.crew?.stop();
+  }
+}
+
+/**
+ * Whether to start the case workers before planning (run/crew.ts): when more than one worker is
+ * asked for, the built worker module is there, and there are at least as many cases as workers
+ * (with fewer, the cases may get an FFT team instead). Shards plan every case too, so they use one.
+ */
+function crewSize(opts: RunOptions, cases: number): number {
+  const n = Math.min(Math.max(1, Math.floor(opts.workers ?? 1)), machineThreads());
+  return n > 1 && cases >= n && workersAvailable() ? n : 0;
+}
+
+async function runJobWith(loaded: LoadedJob, opts: RunOptions, held: { crew: Crew | null }): Promise<JobOutcome> {
   const rep = reporterOf(opts);
   const { spec, file } = loaded;
   const outcome: JobOutcome = { file, job: spec.name, cases: 0, done: 0, skipped: 0, failed: [], warnings: 0 };
@@ -143,8 +167,11 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
     outcome.cases = cases.length;
     // --accept-large lifts the per-case time limit as it lifts the sweep's.
     const planOpts: PlannerOptions = opts.acceptLarge ? { ...opts, maxWork: Infinity } : opts;
-    // Each case's plan; runs of a sweep's cases on one grid where sharing it is cheaper (plan/shared-grids.ts).
-    plans = planCases(cases, planOpts);
+    const size = crewSize(opts, cases.length);
+    if (size) held.crew = startCrew(size, opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {});
+    const own = held.crew ? await held.crew.plan(cases, planOpts) : cases.map((c) => planCase(c, planOpts));
+    // Runs of a sweep's cases on one grid where sharing it is cheaper (plan/shared-grids.ts).
+    plans = shareGrids(cases, own, planOpts);
     const seconds = plans.reduce((s, p) => s + p.work, 0) / LIMITS.workPerSecond;
     if (!opts.acceptLarge && (cases.length > LARGE_SWEEP.cases || seconds > LARGE_SWEEP.seconds)) {
       return refuse(
@@ -176,7 +203,7 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
       return refuse((e as Error).message);
     }
     outcome.folder = jobDir;
-    return await runLocked(loaded, opts, rep, outcome, jobDir, plans);
+    return await runLocked(loaded, opts, rep, outcome, jobDir, plans, held.crew);
   } finally {
     await lock.release();
   }
@@ -186,7 +213,15 @@ export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOu
 const DAMAGE_NOTES = 20;
 
 /** The cases of a job whose folder this run holds (the lock): skip what is done and verified, compute the rest. */
-async function runLocked(loaded: LoadedJob, opts: RunOptions, rep: RunReporter, outcome: JobOutcome, jobDir: string, plans: Plan[]): Promise<JobOutcome> {
+async function runLocked(
+  loaded: LoadedJob,
+  opts: RunOptions,
+  rep: RunReporter,
+  outcome: JobOutcome,
+  jobDir: string,
+  plans: Plan[],
+  crew: Crew | null,
+): Promise<JobOutcome> {
   const { spec, file } = loaded;
   const refuse = (msg: string): JobOutcome => {
     outcome.error = `${file}: ${msg}`;
@@ -280,9 +315,10 @@ async function runLocked(loaded: LoadedJob, opts: RunOptions, rep: RunReporter, 
   for (const p of tooBig) await fail(p.case.id, caseHash(p.case), p.error!);
   const hashes = new Map(todo.map((t) => [t.plan.case.id, t.hash]));
   const heapMb = largest ? Math.ceil(largest.memoryBytes / 1024 ** 2) + 512 : undefined;
-  const { interrupted } = await runTasks(
+  // Case workers stay for the report's plots (not for a shard, which makes no report).
+  const { interrupted, kept } = await runTasks(
     todo,
-    { workers, threadsPerCase: parallel.threadsPerCase, engine: opts.engine ?? createEngine(), ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}) },
+    { workers, threadsPerCase: parallel.threadsPerCase, engine: opts.engine ?? createEngine(), ...(opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {}), ...(heapMb ? { heapMb } : {}), ...(opts.signal ? { signal: opts.signal } : {}), ...(crew ? { crew } : {}), keep: !opts.shard },
     {
       start: (id) => rep.caseStart(id),
       done: async (d) => {
@@ -296,6 +332,28 @@ async function runLocked(loaded: LoadedJob, opts: RunOptions, rep: RunReporter, 
       note: (line) => rep.note(line),
     },
   );
+  try {
+    return await finishRun(loaded, opts, rep, outcome, jobDir, plans, manifest, save, mine.length, interrupted, kept);
+  } finally {
+    await stopKept(kept);
+  }
+}
+
+/** After the cases: the manifest, and the job-level files (or, for a shard, what to do next). */
+async function finishRun(
+  loaded: LoadedJob,
+  opts: RunOptions,
+  rep: RunReporter,
+  outcome: JobOutcome,
+  jobDir: string,
+  plans: Plan[],
+  manifest: Manifest,
+  save: () => Promise<void>,
+  mineCount: number,
+  interrupted: boolean,
+  kept: Worker[],
+): Promise<JobOutcome> {
+  const { spec, file } = loaded;
   await save();
   outcome.done = Object.keys(manifest.completed).length;
   if (interrupted) outcome.interrupted = true;
@@ -303,13 +361,13 @@ async function runLocked(loaded: LoadedJob, opts: RunOptions, rep: RunReporter, 
   const cases = plans.map((p) => p.case);
   if (opts.shard) {
     rep.jobEnd(
-      `job ${spec.name}, shard ${opts.shard.k}/${opts.shard.n}: ${outcome.done} of ${mine.length} cases done, ${outcome.failed.length} failed` +
+      `job ${spec.name}, shard ${opts.shard.k}/${opts.shard.n}: ${outcome.done} of ${mineCount} cases done, ${outcome.failed.length} failed` +
         `${interrupted ? ' (interrupted)' : ''}; gather the shards with: spotcast gather ${file} --out ${opts.outDir}`,
     );
     return outcome;
   }
   // The cases verified or written by this run (which holds the folder) need not be read again.
-  const g = await gatherJob(loaded, jobDir, cases, opts, new Set(Object.keys(manifest.completed)));
+  const g = await gatherJob(loaded, jobDir, cases, opts, new Set(Object.keys(manifest.completed)), kept.length ? plotsOn(kept) : undefined);
   if (g.reportError) {
     outcome.reportError = g.reportError;
     rep.note(`job ${spec.name}: the report could not be written: ${g.reportError}`);

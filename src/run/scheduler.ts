@@ -14,6 +14,7 @@ import type { Plan } from '../plan/types.js';
 import { descriptorOf } from '../methods/registry.js';
 import { startFftTeam, stopFftTeam, teamsAvailable, TEAM_MIN_VALUES } from '../parallel/fft-team.js';
 import { machineThreads } from './threads.js';
+import type { Crew } from './crew.js';
 
 export { machineThreads };
 
@@ -37,6 +38,23 @@ export interface SchedulerOptions {
    * other in this thread (workers is not used). Worker threads never start teams of their own.
    */
   threadsPerCase?: number;
+  /**
+   * Workers started before the planning (run/crew.ts): taken over as case workers when their heap
+   * limit covers heapMb, else stopped. Stopped in every case by the time runTasks returns.
+   */
+  crew?: Crew;
+  /**
+   * Keep the case workers when the cases are done (not on an interruption): they are returned in
+   * `kept`, told to load the report's plotting libraries as they run out of cases, for the job
+   * report's plots (run/helpers.ts). The caller stops them.
+   */
+  keep?: boolean;
+}
+
+export interface TasksOutcome {
+  interrupted: boolean;
+  /** The workers kept (SchedulerOptions.keep), alive and idle; empty when the cases ran in this thread. */
+  kept: Worker[];
 }
 
 const WORKER_FILE = new URL('./worker.js', import.meta.url);
@@ -95,13 +113,19 @@ function chooseFor(plans: Plan[], requested: number, atOnce: number): Parallelis
   return { workers: 1, threadsPerCase: requested, note: `${why}: one case at a time, its FFTs split across ${requested} threads` };
 }
 
-export async function runTasks(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
-  if ((opts.threadsPerCase ?? 1) > 1 && tasks.length > 0) return runWithTeam(tasks, opts, ev);
-  if (opts.workers <= 1 || tasks.length <= 1 || !workersAvailable()) {
+export async function runTasks(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<TasksOutcome> {
+  const onWorkers = !((opts.threadsPerCase ?? 1) > 1 && tasks.length > 0) && opts.workers > 1 && tasks.length > 1 && workersAvailable();
+  // A crew the cases will not use is stopped before they start (its threads would share the cores).
+  const crew = onWorkers && opts.crew && opts.crew.heapMb >= (opts.heapMb ?? 0) ? opts.crew : null;
+  if (opts.crew && !crew) await opts.crew.stop();
+  if ((opts.threadsPerCase ?? 1) > 1 && tasks.length > 0) return { ...(await runWithTeam(tasks, opts, ev)), kept: [] };
+  if (!onWorkers) {
     if (opts.workers > 1 && !workersAvailable()) ev.note?.('worker threads need the built program (npm run build); running the cases in this thread');
-    return runHere(tasks, opts, ev);
+    return { ...(await runHere(tasks, opts, ev)), kept: [] };
   }
-  return runOnWorkers(tasks, opts, ev);
+  const n = Math.min(opts.workers, tasks.length, machineThreads());
+  const ready = crew ? await crew.take(n) : [];
+  return runOnWorkers(tasks, opts, ev, ready);
 }
 
 /** The cases in this thread with an FFT team, which ends with the run, however the run ends. */
@@ -134,7 +158,8 @@ async function runHere(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerE
   return { interrupted: !!opts.signal?.aborted };
 }
 
-function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents): Promise<{ interrupted: boolean }> {
+/** The cases on n worker threads: `ready` ones (a crew's, already started) first, the rest started here. */
+function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEvents, ready: Worker[]): Promise<TasksOutcome> {
   const queue = [...tasks];
   const n = Math.min(opts.workers, tasks.length, machineThreads());
   const pool = new Pool({ max: n });
@@ -151,12 +176,13 @@ function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEv
     const finish = (interrupted: boolean) => {
       if (stopped) return;
       stopped = true;
-      // Idle workers are told to stop; on an interruption the busy ones are abandoned.
+      // Idle workers are told to stop (or kept, when asked); on an interruption the busy ones are abandoned.
+      const kept = opts.keep && !interrupted ? [...busy.keys()] : [];
       for (const [w, t] of busy) {
         if (interrupted && t) void w.terminate();
-        else w.postMessage({ type: 'stop' } satisfies ToWorker);
+        else if (!kept.includes(w)) w.postMessage({ type: 'stop' } satisfies ToWorker);
       }
-      chain.then(() => resolve({ interrupted }));
+      chain.then(() => resolve({ interrupted, kept }));
     };
     opts.signal?.addEventListener('abort', () => finish(true), { once: true });
 
@@ -169,7 +195,8 @@ function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEv
       const t = queue.shift();
       if (!t) {
         busy.set(w, null);
-        w.postMessage({ type: 'stop' } satisfies ToWorker);
+        // No case left for it: stop, or (kept for the report) load the plotting libraries meanwhile.
+        w.postMessage((opts.keep ? { type: 'preload' } : { type: 'stop' }) satisfies ToWorker);
         return;
       }
       busy.set(w, t);
@@ -188,28 +215,38 @@ function runOnWorkers(tasks: CaseTask[], opts: SchedulerOptions, ev: SchedulerEv
           while (outstanding > 0) settle();
           return;
         }
-        w.on('message', (m: FromWorker) => {
-          if (m.type === 'ready') return feed(w);
-          const t = busy.get(w);
-          busy.set(w, null);
-          if (m.type === 'done') report(() => ev.done(m.done));
-          else report(() => ev.failed(m.id, m.error));
-          if (t) settle();
-          if (!stopped) feed(w);
-        });
-        const lost = (why: string) => {
-          const t = busy.get(w);
-          busy.delete(w);
-          if (t && !stopped) {
-            report(() => ev.failed(t.plan.case.id, `the worker computing it stopped: ${why}`));
-            settle();
-            spawn();
-          }
-        };
-        w.on('error', (e) => lost(e.message));
-        w.on('exit', (code) => lost(`exit code ${code}`));
+        attach(w);
       });
     };
-    for (let i = 0; i < n; i++) spawn();
+
+    const attach = (w: Worker) => {
+      w.on('message', (m: FromWorker) => {
+        if (m.type === 'ready') return feed(w);
+        if (m.type !== 'done' && m.type !== 'failed') return;
+        const t = busy.get(w);
+        busy.set(w, null);
+        if (m.type === 'done') report(() => ev.done(m.done));
+        else report(() => ev.failed(m.id, m.error));
+        if (t) settle();
+        if (!stopped) feed(w);
+      });
+      const lost = (why: string) => {
+        const t = busy.get(w);
+        busy.delete(w);
+        if (t && !stopped) {
+          report(() => ev.failed(t.plan.case.id, `the worker computing it stopped: ${why}`));
+          settle();
+          spawn();
+        }
+      };
+      w.on('error', (e) => lost(e.message));
+      w.on('exit', (code) => lost(`exit code ${code}`));
+    };
+    // A crew's workers have said they are ready already: they get their first case now.
+    for (const w of ready.slice(0, n)) {
+      attach(w);
+      feed(w);
+    }
+    for (let i = ready.length; i < n; i++) spawn();
   });
 }

@@ -234,6 +234,40 @@ describe('renderIntensityPng', () => {
     expect(t3).not.toContain('1e-4');
   });
 
+  it.each([1, 2.5, 5, 12])('paints every log-panel pixel at the level its value defines (%s decades)', (decades) => {
+    // The log view's level of a value v is round(clamp(1 + log10(v/peak)/decades)·255), 0 for v = 0
+    // (the view's definition, common practice for a log display relative to the peak): computed here
+    // per pixel and compared with what the picture writer paints (it finds levels by bounds). A
+    // 200 × 200 map is drawn 2× enlarged, each display pixel one sample's value. Values: random over
+    // decades + 1 decades below the peak, and values a hair either side of each level's step.
+    const n = 200;
+    const v = new Float64Array(n * n);
+    let seed = 12345;
+    const rnd = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31);
+    for (let i = 0; i < v.length; i++) v[i] = 10 ** (-rnd() * (decades + 1));
+    let i = 0;
+    for (let k = 1; k <= 255 && i + 6 < v.length; k++) {
+      const step = 10 ** (decades * ((k - 0.5) / 255 - 1));
+      for (const f of [1 - 1e-15, 1 - 2e-16, 1, 1 + 2e-16, 1 + 1e-15, 1 + 1e-12]) v[i++] = step * f;
+    }
+    v[i++] = 0;
+    v[v.length - 1] = 1; // the peak
+    const p: PictureInput = { map: mapOf(v, n, n, 1e-6, 1e-6), scale: 'gray', logDecades: decades };
+    const { img, layout } = render(p);
+    const r = layout.panels[1];
+    expect([r.w, r.h]).toEqual([2 * n, 2 * n]);
+    const lut = Array.from({ length: 256 }, (_, k) => round3(gray(k / 255)).join());
+    const wrong: string[] = [];
+    for (let row = 0; row < n; row++) {
+      for (let col = 0; col < n; col++) {
+        const x = v[row * n + col]!;
+        const level = x > 0 ? Math.round(Math.min(1, Math.max(0, 1 + Math.log10(x) / decades)) * 255) : 0;
+        if (img.at(r.x + 2 * col, r.y + 2 * row).join() !== lut[level]) wrong.push(`${x} (level ${level})`);
+      }
+    }
+    expect(wrong.slice(0, 5)).toEqual([]);
+  });
+
   // Scale bars: expected lengths worked out by hand from the pitch, the panel
   // width and the rule "1, 2 or 5 ×10^k nearest (in ratio) to a fifth of the width".
   const bars: [string, PictureInput, string, number][] = [
