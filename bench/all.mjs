@@ -5,8 +5,9 @@
 // Sections: bench/fft.mjs (2-D FFT sizes 512²–4096², against fft.js, SciPy and, where a C compiler
 // and libfftw3-dev are present, FFTW 3 compiled at bench time: never a dependency),
 // bench/propagate.mjs (a 2048² angular-spectrum case on 1 and 2 threads against SciPy, the
-// 64-distance sweep, slit and rectangle cases, peak memory), bench/run.mjs (a 100-case sweep on 1
-// and 2 worker threads). With --json, one JSON document with every section's results.
+// 64-distance sweep, the automatic-grid sweep shared or not, slit and rectangle cases, peak memory),
+// bench/run.mjs (a 100-case sweep as whole processes with --workers 1 and 2, worker scaling inside
+// the run loop, the per-case cost outside the propagation). With --json, one JSON document with every section's results.
 import { spawnSync } from 'node:child_process';
 import { availableParallelism, cpus } from 'node:os';
 import { fileURLToPath } from 'node:url';

@@ -25,6 +25,7 @@ import type { PlaneResult } from '../metrics/planes.js';
 import type { SpatialFilterResult } from '../metrics/spatial-filter.js';
 import type { MtfCurve, MtfSummary } from '../analysis/mtf.js';
 import { mtfCsv, renderMtfPng } from './mtf-files.js';
+import { hasSearchPicture, profilePicture, searchPicture, zoomBoxOf, zoomPicture } from './extra-pictures.js';
 
 export interface CaseMetrics extends SpotMetrics {
   /** ∫ irradiance over the open area (null for opaque obstacles). */
@@ -113,6 +114,8 @@ export interface SmallestSpot {
   textbookMeasure: number | null;
   method: string;
   evaluations: number;
+  /** Every size evaluated and its spot, in order of size ([size, spot] in metres). */
+  samples?: [number, number][];
 }
 
 export const CASE_FILES = {
@@ -126,6 +129,12 @@ export const CASE_FILES = {
   energy: 'encircled-energy.csv',
   mtf: 'mtf.csv',
   mtfPlot: 'mtf.png',
+  /** A 1-D result's profile as a line plot (output/extra-pictures.ts). */
+  profilePlot: 'profile.png',
+  /** A 2-D result's spot (or the region output.zoom asks for) at its own scale. */
+  zoom: 'intensity-zoom.png',
+  /** The smallest-spot search: spot against size, the optimum and the textbook size marked. */
+  searchPlot: 'smallest-spot.png',
   /**
    * The case's summary, the hash of what made it, and the size and SHA-256 digest of every other
    * file of the case; written last, it marks a complete case (run/records.ts verifies it).
@@ -225,7 +234,13 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
               ? !!rec.energy
               : k === 'mtf' || k === 'mtfPlot'
                 ? !!(rec.mtf && metrics.mtf)
-                : k !== 'record',
+                : k === 'profilePlot'
+                  ? isOneD(computed)
+                  : k === 'zoom'
+                    ? zoomBoxOf(plan, computed) !== null
+                    : k === 'searchPlot'
+                      ? hasSearchPicture(rec.search)
+                      : k !== 'record',
       ),
     ),
     ...(rec.search ? { search: rec.search } : {}),
@@ -350,6 +365,12 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
     const [shoal, gray] = renderIntensityPngs(picture, ['shoal', 'gray']);
     put(CASE_FILES.picture, shoal!);
     put(CASE_FILES.pictureGray, gray!);
+    const profile = profilePicture(plan, map, picture.title);
+    if (profile) put(CASE_FILES.profilePlot, profile);
+    const zoom = zoomPicture(plan, map, picture.title);
+    if (zoom) put(CASE_FILES.zoom, zoom);
+    const search = rec.search ? searchPicture(rec.search, picture.title) : null;
+    if (search) put(CASE_FILES.searchPlot, search);
     put(CASE_FILES.result, JSON.stringify(resultJson(rec), jsonNumbers, 2) + '\n');
     const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION, files };
     await allWritten();

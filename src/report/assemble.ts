@@ -26,6 +26,7 @@ import type { JobReport, ReportCase, ReportTable, SweepKey } from './types.js';
 export const JOB_FILES = {
   report: 'report.html',
   contactSheet: 'contact-sheet.png',
+  explorer: 'explorer.html',
   overlap: 'order-overlap.csv',
   plots: 'plots',
 } as const;
@@ -36,9 +37,17 @@ export const SHEET_MAX_TILES = 36;
 /** Indices of the cases that go on the contact sheet. */
 export function sheetIndices(count: number): Set<number> {
   if (count < 2) return new Set();
-  const n = Math.min(count, SHEET_MAX_TILES);
+  return evenIndices(count, SHEET_MAX_TILES);
+}
+
+/** At most `most` indices of `count`, evenly along them, the first and last included. */
+export function evenIndices(count: number, most: number): Set<number> {
+  const n = Math.min(count, most);
   return new Set(Array.from({ length: n }, (_, i) => Math.round((i * (count - 1)) / Math.max(1, n - 1))));
 }
+
+/** How many cases the explorer page carries at most (chosen evenly along the sweep). */
+export const EXPLORER_MAX_CASES = 48;
 
 /** A case's map reduced (box average) to at most `limit` samples per axis, for the contact sheet. */
 export function sheetTile(label: string, c: IntensityMap, limit = 400): SheetTile {
@@ -119,6 +128,7 @@ export function buildJobReport(inp: ReportInputs): JobReport {
       metrics[info.key] = typeof v === 'number' && Number.isFinite(v) ? v : null;
     }
     const verdicts = r.record?.metrics.verdicts ?? [];
+    const notes = d4sigmaNotes(r.record?.metrics.d4sigmaWindowChange);
     return {
       id: c.id,
       folder: c.id,
@@ -133,9 +143,13 @@ export function buildJobReport(inp: ReportInputs): JobReport {
       metrics,
       warnings: r.record?.warnings ?? p?.warnings ?? [],
       reasons: p?.reasons ?? [],
+      ...(notes.length ? { notes } : {}),
       ...(verdicts.length ? { verdict: verdicts.map((v) => (v.axis === 'radial' ? v.sentence : `${v.axis}: ${v.sentence}`)).join(' ') } : {}),
       ...(r.record ? { picture: `${c.id}/${CASE_FILES.picture}` } : {}),
       ...(r.record?.metrics.mtf ? { mtfPlot: `${c.id}/${CASE_FILES.mtfPlot}` } : {}),
+      ...(written(r.record, CASE_FILES.profilePlot) ? { profilePlot: `${c.id}/${CASE_FILES.profilePlot}` } : {}),
+      ...(written(r.record, CASE_FILES.zoom) ? { zoom: `${c.id}/${CASE_FILES.zoom}` } : {}),
+      ...(written(r.record, CASE_FILES.searchPlot) ? { searchPlot: `${c.id}/${CASE_FILES.searchPlot}` } : {}),
     };
   });
   return {
@@ -153,6 +167,24 @@ export function buildJobReport(inp: ReportInputs): JobReport {
     plans: inp.plans,
     ...onAxisOf(inp, sweeps),
   };
+}
+
+/** Above this fall of D4σ with the window cut to 80 %, the report says D4σ describes the window. */
+export const D4SIGMA_WINDOW_NOTE = 0.05;
+
+function d4sigmaNotes(change: [number | null, number | null] | undefined): string[] {
+  if (!change) return [];
+  const axes = (['x', 'y'] as const).filter((_, i) => (change[i] ?? 0) > D4SIGMA_WINDOW_NOTE);
+  if (!axes.length) return [];
+  const by = axes.map((a) => `${a} by ${Math.round(100 * change[a === 'x' ? 0 : 1]!)} %`).join(', ');
+  return [
+    `D4σ depends on the window here: it falls ${by} with the window cut to 80 % (the wings of a hard-edged aperture carry a second moment that grows with the window); read the FWHM or the encircled-energy widths for the spot.`,
+  ];
+}
+
+/** Whether a case's record lists the file (records read from disk list every file of the case). */
+function written(rec: SummaryRow['record'], name: string): boolean {
+  return !!rec && 'files' in rec && !!(rec as { files?: Record<string, unknown> }).files?.[name];
 }
 
 /** Distances of the dense axial curve. */

@@ -217,9 +217,13 @@ function contents(r: JobReport): string {
   ];
   if (r.contactSheet) items.push(['contact-sheet', 'Contact sheet']);
   items.push(['cases', 'Cases'], ['plans', 'Plans'], ['given', 'The job as given']);
+  // The page links nothing outside itself: the explorer is named, to be opened from the folder.
+  const explorer = r.explorer
+    ? `<p class="note">To read positions and intensities off the maps, draw profiles and compare cases side by side, open <code>${path(r.explorer)}</code> in this folder (one page, offline).</p>`
+    : '';
   return `<nav class="contents" aria-label="Contents"><ul>${items
     .map(([id, t]) => `<li><a href="#${id}">${t}</a></li>`)
-    .join('')}</ul></nav>`;
+    .join('')}</ul></nav>${explorer}`;
 }
 
 function caseRef(r: JobReport, index: number): string {
@@ -373,6 +377,7 @@ async function caseSection(
   );
   if (c.verdict) out.push(`<div class="verdict">${folded(c.verdict)}</div>`);
   if (c.status === 'failed') out.push(`<pre class="error">${lines(c.error ?? 'no error message was recorded')}</pre>`);
+  for (const n of c.notes ?? []) out.push(`<p class="note">${lines(n)}</p>`);
 
   const facts: [string, string][] = [];
   for (const [key, v] of Object.entries(c.swept)) {
@@ -409,6 +414,9 @@ async function caseSection(
   }
   for (const [file, what] of [
     [c.picture, 'intensity picture'],
+    [c.profilePlot, 'profile plot'],
+    [c.zoom, 'zoomed picture'],
+    [c.searchPlot, 'smallest-spot search'],
     [c.mtfPlot, 'MTF plot'],
   ] as const) {
     if (!file) continue;

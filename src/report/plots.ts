@@ -291,8 +291,10 @@ export function sweepPlots(report: JobReport): PlotInput[] {
       // densely through them (a few cases cannot show its oscillations).
       const dense = m.key === 'on_axis_intensity' && key.key === 'distance' && report.onAxis && others.length === 0 ? report.onAxis : null;
       const curve = dense ? 'exact (dense)' : null;
+      // D4σ of hard-edged apertures is a property of the window as much as of the spot (the cases say which).
+      const caution = m.key.startsWith('d4sigma') && here.some((c) => c.notes?.some((n) => n.startsWith('D4σ'))) ? ' (depends on the window: see the cases)' : '';
       plots.push({
-        title: `${plotLabel(m.label)} against ${plotLabel(key.label)}`,
+        title: `${plotLabel(m.label)} against ${plotLabel(key.label)}${caution}`,
         x: { label: plotLabel(key.label), unit: key.unit, log },
         y: { label: plotLabel(m.label), unit: m.unit, log: m.log ?? false },
         points: dense ? [...points.map((q) => ({ ...q, series: 'cases' })), ...denseCurve(dense, m.log ?? false, curve!)] : points,

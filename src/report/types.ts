@@ -46,10 +46,17 @@ export interface ReportCase {
   reasons: string[];
   /** One-sentence verdict (diffraction-limited or not, by what factor), when one applies. */
   verdict?: string;
+  /** Cautions on reading the case's numbers (a D4σ that depends on the window). */
+  notes?: string[];
   /** Relative path of the case's picture (intensity.png), when the case is done. */
   picture?: string;
   /** Relative path of the case's MTF plot (mtf.png), when it has one (lens cases at their focus). */
   mtfPlot?: string;
+  /** A 1-D result's profile plot (profile.png) and a 2-D result's zoomed picture (intensity-zoom.png), where written. */
+  profilePlot?: string;
+  zoom?: string;
+  /** The smallest-spot search's plot (smallest-spot.png), where the job asked for the search. */
+  searchPlot?: string;
 }
 
 export interface ReportTable {
@@ -91,6 +98,8 @@ export interface JobReport {
   onAxis?: { z: number[]; intensity: number[]; how: string };
   /** Relative path of the contact sheet PNG, when there is more than one done case. */
   contactSheet?: string;
+  /** The explorer page beside the report (report/explorer.ts), relative to the job folder. */
+  explorer?: string;
   /** Plans in words, one block per case (as `spotcast plan` prints them). */
   plans: string[];
 }

@@ -16,7 +16,8 @@ import { summaryCsv, type SummaryRow } from '../output/summary.js';
 import { formatPlan } from '../plan/format.js';
 import { planCase, type PlannerOptions } from '../plan/planner.js';
 import type { Case } from '../plan/types.js';
-import { buildJobReport, sheetIndices, sheetTile, sweptLabel, writeJobReport } from '../report/assemble.js';
+import { buildJobReport, evenIndices, EXPLORER_MAX_CASES, JOB_FILES, sheetIndices, sheetTile, sweptLabel, writeJobReport } from '../report/assemble.js';
+import { explorerSourceOf, writeExplorer } from '../report/explorer.js';
 import type { SheetTile } from '../report/contact-sheet.js';
 import { caseHash, readRecord, verifyCases, type CaseState, type Manifest } from './records.js';
 import type { StoredRecord } from '../output/case-output.js';
@@ -169,6 +170,13 @@ export async function gatherJob(
     if (rows.length > plans.length) plans.push(`(plans of the other ${rows.length - plans.length} cases: spotcast plan ${loaded.file})`);
     const overlaps = orderOverlaps(orderSets, loaded.spec.orders?.overlap);
     const report = buildJobReport({ loaded, axes, rows, plans, overlaps });
+    // The explorer page: the done cases (evenly chosen along the sweep past EXPLORER_MAX_CASES).
+    if (done.length) {
+      const picked = done.length <= EXPLORER_MAX_CASES ? done : [...evenIndices(done.length, EXPLORER_MAX_CASES)].map((i) => done[i]!);
+      const sources = picked.map((r) => explorerSourceOf(r.record!, axes.map((a) => sweptLabel(a, r.record!.plan.case.swept[a.key]!)).join(', ') || r.record!.plan.case.id));
+      await writeExplorer(jobDir, JOB_FILES.explorer, loaded.spec.name, sources, loaded.spec.output.logDecades);
+      report.explorer = JOB_FILES.explorer;
+    }
     await writeJobReport(jobDir, report, tiles, overlaps, drawPlots);
   } catch (e) {
     // The case results are on disk; a report that cannot be made is said, not hidden.

@@ -91,7 +91,8 @@ export function smallestSpot(c: Case, ctx: SearchContext): SmallestSpot {
   const lam = c.wavelength;
   const z = c.distance;
   let evaluations = 0;
-  const measure = (size: number): number => {
+  const samples: [number, number][] = [];
+  const spotOf = (size: number): number => {
     evaluations++;
     const v = smallestSpotVariant(c, size);
     if (spec.measure === 'energy') return measureAt(v, axis, ctx).computed ?? Infinity;
@@ -100,6 +101,11 @@ export function smallestSpot(c: Case, ctx: SearchContext): SmallestSpot {
     const m = spotMetrics(computeCase(plan, ctx));
     const w = spec.measure === 'fwhm' ? m.fwhm[0] : m.d4sigma[0];
     return w ?? Infinity;
+  };
+  const measure = (size: number): number => {
+    const v = spotOf(size);
+    if (Number.isFinite(v)) samples.push([size, v]);
+    return v;
   };
   const [lo, hi] = spec.between;
   const sizes = smallestSpotSizes(spec.between);
@@ -142,6 +148,7 @@ export function smallestSpot(c: Case, ctx: SearchContext): SmallestSpot {
     textbookMeasure: inRange ? measure(textbook) : null,
     method: 'scan of 9 log-spaced sizes, then golden-section search in log size to 0.5 %; each size fully planned and propagated',
     evaluations,
+    samples: samples.sort((p, q) => p[0] - q[0]),
   };
 }
 

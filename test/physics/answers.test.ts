@@ -7,6 +7,7 @@ import { orderOverlaps, type OrderSet } from '../../src/analysis/overlap.js';
 import { planCase } from '../../src/plan/planner.js';
 import { runPlannedCase } from '../../src/run/run-case.js';
 import { answerQuestions, smallestSpot } from '../../src/run/searches.js';
+import { searchPicture } from '../../src/output/extra-pictures.js';
 import { testContext } from '../engine.js';
 import besselj0 from '@stdlib/math-base-special-besselj0';
 import besselj1 from '@stdlib/math-base-special-besselj1';
@@ -157,6 +158,12 @@ describe('smallest-spot search', () => {
     expect(s.best / s.textbook).toBeGreaterThan(0.5);
     expect(s.best / s.textbook).toBeLessThan(2);
     expect(s.textbookMeasure!).toBeGreaterThanOrEqual(s.bestMeasure * 0.999);
+    // Every evaluation is kept for the search's plot, in order of size, the optimum among them.
+    expect(s.samples!.length).toBe(s.evaluations);
+    for (let i = 1; i < s.samples!.length; i++) expect(s.samples![i]![0]).toBeGreaterThanOrEqual(s.samples![i - 1]![0]);
+    expect(Math.min(...s.samples!.map((p) => p[1]))).toBe(s.bestMeasure);
+    const png = searchPicture(s, 'pinhole');
+    expect(png).not.toBeNull();
   });
 });
 

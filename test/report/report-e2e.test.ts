@@ -1,5 +1,5 @@
 // A real job end to end: its report page, plots and contact sheet, opened in the browser.
-import { mkdtemp, readdir, rm, writeFile } from 'node:fs/promises';
+import { mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -41,6 +41,21 @@ describe('job report of a distance sweep', () => {
     expect(plots.filter((p) => p.endsWith('.png')).length).toBe(svg.length);
     expect(svg.some((p) => p.startsWith('fwhm-x'))).toBe(true);
     expect(svg.some((p) => p.includes('fraction-on-square'))).toBe(true);
+  });
+
+  it('writes the explorer page, each 1-D case\'s profile plot, and says where D4σ depends on the window', async () => {
+    expect(existsSync(join(jobDir, 'explorer.html'))).toBe(true);
+    const folders = (await readdir(jobDir, { withFileTypes: true })).filter((d) => d.isDirectory() && d.name !== 'plots');
+    expect(folders.length).toBe(5);
+    for (const f of folders) expect(existsSync(join(jobDir, f.name, 'profile.png')), f.name).toBe(true);
+    const html = await readFile(join(jobDir, 'report.html'), 'utf8');
+    expect(html).toContain('explorer.html');
+    // The far-field slit's sinc² wings: D4σ falls by about 10 % with the window cut to 80 %.
+    expect(html).toMatch(/D4σ depends on the window here: it falls x by \d+ %/);
+    // The spot with its two references in one chart, and the axial intensity drawn densely.
+    const plots = await readdir(join(jobDir, 'plots'));
+    expect(plots.some((p) => p.startsWith('spot-size-x'))).toBe(true);
+    expect(plots.some((p) => p.startsWith('spot-geometric-shadow'))).toBe(false);
   });
 
   it.skipIf(!haveChromium)(`opens in the browser with every plot and picture drawn (needs ${CHROMIUM})`, async () => {
