@@ -183,7 +183,8 @@ export function caseTitle(plan: Plan): string {
   return `${describe(c.aperture)}${planes}${beam} · ${formatLength(c.wavelength, 4)} · z = ${formatLength(c.distance, 4)}${planes ? ' (from the last plane)' : ''}`;
 }
 
-export function resultJson(rec: CaseRecord): Record<string, unknown> {
+/** result.json; `zoomed`: whether the case writes intensity-zoom.png (computed here when not given). */
+export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, unknown> {
   const { plan, computed, metrics } = rec;
   const c = plan.case;
   return {
@@ -237,7 +238,7 @@ export function resultJson(rec: CaseRecord): Record<string, unknown> {
                 : k === 'profilePlot'
                   ? isOneD(computed)
                   : k === 'zoom'
-                    ? zoomBoxOf(plan, computed) !== null
+                    ? (zoomed ?? zoomBoxOf(plan, computed) !== null)
                     : k === 'searchPlot'
                       ? hasSearchPicture(rec.search)
                       : k !== 'record',
@@ -371,7 +372,7 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
     if (zoom) put(CASE_FILES.zoom, zoom);
     const search = rec.search ? searchPicture(rec.search, picture.title) : null;
     if (search) put(CASE_FILES.searchPlot, search);
-    put(CASE_FILES.result, JSON.stringify(resultJson(rec), jsonNumbers, 2) + '\n');
+    put(CASE_FILES.result, JSON.stringify(resultJson(rec, zoom !== null), jsonNumbers, 2) + '\n');
     const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION, files };
     await allWritten();
     put(CASE_FILES.record, JSON.stringify(stored, jsonNumbers) + '\n');

@@ -26,6 +26,7 @@ import type { JobReport, ReportCase, ReportTable, SweepKey } from './types.js';
 export const JOB_FILES = {
   report: 'report.html',
   contactSheet: 'contact-sheet.png',
+  contactSheetLog: 'contact-sheet-log.png',
   explorer: 'explorer.html',
   overlap: 'order-overlap.csv',
   plots: 'plots',
@@ -409,6 +410,8 @@ export async function writeJobReport(
   // (Awaited below; this only keeps a failure there from counting as unhandled while the sheet is drawn.)
   drawn?.catch(() => undefined);
   const sheet = tiles.length > 1 ? renderContactSheet(tiles, { title: `${report.job}: spots along the sweep` }) : null;
+  // The same tiles in decades below each one's peak: where the light goes beyond the bright spot.
+  const sheetLog = tiles.length > 1 ? renderContactSheet(tiles, { title: `${report.job}: spots along the sweep, log`, scale: 'log', logDecades: 4 }) : null;
   const images = drawn ? await drawn : null;
   const used = new Set<string>();
   for (const [i, p] of plots.entries()) {
@@ -424,6 +427,10 @@ export async function writeJobReport(
   if (sheet) {
     await writeFileAtomic(join(jobDir, JOB_FILES.contactSheet), sheet);
     report.contactSheet = JOB_FILES.contactSheet;
+  }
+  if (sheetLog) {
+    await writeFileAtomic(join(jobDir, JOB_FILES.contactSheetLog), sheetLog);
+    report.contactSheetLog = JOB_FILES.contactSheetLog;
   }
   const html = await renderReportHtml(report, {
     readFile: async (rel) => {

@@ -348,8 +348,14 @@ async function contactSheetSection(r: JobReport, assets: ReportAssets): Promise<
   if (!r.contactSheet) return '';
   const e = await embed(assets, r.contactSheet, 'png');
   const body = e.ok ? img(e.image, 'contact sheet of the case pictures', 'sheet') : missingNote(e.note);
+  let log = '';
+  if (r.contactSheetLog) {
+    const l = await embed(assets, r.contactSheetLog, 'png');
+    const lb = l.ok ? img(l.image, 'contact sheet of the case pictures, log brightness', 'sheet') : missingNote(l.note);
+    log = `\n<figure>${lb}<figcaption>The same, each tile in decades below its peak <span class="muted">(${path(r.contactSheetLog)})</span></figcaption></figure>`;
+  }
   return `<section id="contact-sheet"><h2>Contact sheet</h2>
-<figure>${body}<figcaption>Every done case at a glance <span class="muted">(${path(r.contactSheet)})</span></figcaption></figure>
+<figure>${body}<figcaption>Every done case at a glance <span class="muted">(${path(r.contactSheet)})</span></figcaption></figure>${log}
 </section>`;
 }
 

@@ -98,6 +98,8 @@ export interface JobReport {
   onAxis?: { z: number[]; intensity: number[]; how: string };
   /** Relative path of the contact sheet PNG, when there is more than one done case. */
   contactSheet?: string;
+  /** The same sheet with each tile's brightness in decades below its peak. */
+  contactSheetLog?: string;
   /** The explorer page beside the report (report/explorer.ts), relative to the job folder. */
   explorer?: string;
   /** Plans in words, one block per case (as `spotcast plan` prints them). */

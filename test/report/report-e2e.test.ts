@@ -35,6 +35,7 @@ describe('job report of a distance sweep', () => {
   it('writes the report, the contact sheet and plots of the swept metrics (SVG and PNG)', async () => {
     expect(existsSync(join(jobDir, 'report.html'))).toBe(true);
     expect(existsSync(join(jobDir, 'contact-sheet.png'))).toBe(true);
+    expect(existsSync(join(jobDir, 'contact-sheet-log.png'))).toBe(true);
     const plots = await readdir(join(jobDir, 'plots'));
     const svg = plots.filter((p) => p.endsWith('.svg'));
     expect(svg.length).toBeGreaterThanOrEqual(5);
