@@ -25,7 +25,7 @@ import type { PlaneResult } from '../metrics/planes.js';
 import type { SpatialFilterResult } from '../metrics/spatial-filter.js';
 import type { MtfCurve, MtfSummary } from '../analysis/mtf.js';
 import { mtfCsv, renderMtfPng } from './mtf-files.js';
-import { hasSearchPicture, profilePicture, searchPicture, zoomBoxOf, zoomPicture } from './extra-pictures.js';
+import { energyPicture, hasSearchPicture, profilePicture, searchPicture, zoomBoxOf, zoomPicture } from './extra-pictures.js';
 
 export interface CaseMetrics extends SpotMetrics {
   /** ∫ irradiance over the open area (null for opaque obstacles). */
@@ -129,12 +129,14 @@ export const CASE_FILES = {
   energy: 'encircled-energy.csv',
   mtf: 'mtf.csv',
   mtfPlot: 'mtf.png',
-  /** A 1-D result's profile as a line plot (output/extra-pictures.ts). */
+  /** The profile as a line plot (a 2-D result's row through its peak; output/extra-pictures.ts). */
   profilePlot: 'profile.png',
   /** A 2-D result's spot (or the region output.zoom asks for) at its own scale. */
   zoom: 'intensity-zoom.png',
   /** The smallest-spot search: spot against size, the optimum and the textbook size marked. */
   searchPlot: 'smallest-spot.png',
+  /** 2-D results: the encircled-energy curve, with the Airy pattern's for a plainly lit circle. */
+  energyPlot: 'encircled-energy.png',
   /**
    * The case's summary, the hash of what made it, and the size and SHA-256 digest of every other
    * file of the case; written last, it marks a complete case (run/records.ts verifies it).
@@ -235,12 +237,12 @@ export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, un
               ? !!rec.energy
               : k === 'mtf' || k === 'mtfPlot'
                 ? !!(rec.mtf && metrics.mtf)
-                : k === 'profilePlot'
-                  ? isOneD(computed)
-                  : k === 'zoom'
+                : k === 'zoom'
                     ? (zoomed ?? zoomBoxOf(plan, computed) !== null)
                     : k === 'searchPlot'
                       ? hasSearchPicture(rec.search)
+                      : k === 'energyPlot'
+                        ? !!rec.energy && !isOneD(computed) && rec.energy.radius.length >= 2
                       : k !== 'record',
       ),
     ),
@@ -372,6 +374,8 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
     if (zoom) put(CASE_FILES.zoom, zoom);
     const search = rec.search ? searchPicture(rec.search, picture.title) : null;
     if (search) put(CASE_FILES.searchPlot, search);
+    const energy = energyPicture(plan, rec.energy, isOneD(computed), picture.title);
+    if (energy) put(CASE_FILES.energyPlot, energy);
     put(CASE_FILES.result, JSON.stringify(resultJson(rec, zoom !== null), jsonNumbers, 2) + '\n');
     const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION, files };
     await allWritten();

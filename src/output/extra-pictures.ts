@@ -1,13 +1,16 @@
-// The pictures a case writes beside intensity.png where they help: for a 1-D result the profile as
-// a line plot (linear and in decades) with the geometric shadow's edges and the textbook far-field
-// curve (profile.png); for a 2-D result whose spot is small in its window, or where the job asks
+// The pictures a case writes beside intensity.png where they help: the profile as a line plot
+// (linear and in decades; a 2-D result's row through its peak) with the geometric shadow's edges
+// and the textbook far-field curve (profile.png); for a 2-D result whose spot is small in its window, or where the job asks
 // for a region (output.zoom), the region drawn again at its own scale (intensity-zoom.png); for a
 // smallest-spot search, the spot against the size searched with the optimum and the textbook
 // estimate marked (smallest-spot.png).
 import { isOneDAperture, separableProfiles } from '../optics/aperture.js';
 import { profileIntervals } from '../methods/exact-intervals.js';
 import { textbookFarField } from '../analysis/textbook.js';
-import { isOneD, xAt } from '../model/grid.js';
+import { isOneD, xAt, yAt } from '../model/grid.js';
+import { apertureFacts } from '../optics/aperture.js';
+import { lensOf } from '../elements/registry.js';
+import { formatLength } from '../job/units.js';
 import type { IntensityMap } from '../model/intensity-map.js';
 import type { Plan } from '../plan/types.js';
 import { renderProfilePng } from './profile-plot.js';
@@ -15,6 +18,8 @@ import { renderIntensityPngs } from './picture.js';
 import { cropMap, regionBox, spotBox, ZOOM_FRACTION, type ZoomBox } from './zoom.js';
 import { renderLinePlot, type LineSeries } from './line-plot.js';
 import type { SmallestSpot } from './case-output.js';
+import type { EnergyCurve } from '../analysis/encircled.js';
+import { besselJn } from '../optics/bessel-jn.js';
 
 /** Shadow edges drawn one by one up to this many; past it only the outermost two. */
 const MAX_EDGES = 16;
@@ -34,19 +39,33 @@ export function shadowEdges(plan: Plan): number[] {
   return edges.length <= MAX_EDGES ? edges : [edges[0]!, edges[edges.length - 1]!];
 }
 
-/** profile.png of a 1-D result, or null for a 2-D one. */
+/**
+ * profile.png: a 1-D result's profile, or a 2-D result's row through its brightest sample, with the
+ * geometric shadow's edges along x and the textbook far-field curve along the same row.
+ */
 export function profilePicture(plan: Plan, map: IntensityMap, title: string): Buffer | null {
-  if (!isOneD(map)) return null;
   const c = plan.case;
+  let row = 0;
+  if (!isOneD(map)) {
+    let top = -1;
+    for (let i = 0; i < map.intensity.length; i++) if (map.intensity[i]! > top) (top = map.intensity[i]!), (row = Math.floor(i / map.nx));
+  }
+  const y = yAt(map, row);
   const x = Float64Array.from({ length: map.nx }, (_, i) => xAt(map, i));
   const tb = textbookFarField(c.aperture, c.illumination, c.wavelength, c.distance);
+  let edges = shadowEdges(plan);
+  if (!isOneD(map) && !c.planes?.length && !lensOf(c.aperture)) {
+    const h = apertureFacts(c.aperture).halfExtent[0];
+    const shift = c.distance * Math.tan(c.illumination.tilt[0]);
+    edges = [shift - h, shift + h];
+  }
   return renderProfilePng({
-    title,
+    title: isOneD(map) ? title : `${title} · row y = ${formatLength(y, 3)}`,
     x,
-    intensity: map.intensity,
+    intensity: map.intensity.subarray(row * map.nx, (row + 1) * map.nx),
     axis: 'x',
-    edges: shadowEdges(plan),
-    ...(tb ? { reference: { label: tb.label, intensity: x.map((v) => tb.at(v, 0)) } } : {}),
+    edges,
+    ...(tb ? { reference: { label: tb.label, intensity: x.map((v) => tb.at(v, y)) } } : {}),
     decades: c.output.logDecades,
   });
 }
@@ -99,5 +118,41 @@ export function searchPicture(sp: SmallestSpot, title: string): Buffer | null {
       marker(sp.textbook, `textbook ${sp.key === 'aperture.diameter' ? 'sqrt(2.44 λz)' : 'sqrt(2 λz)'} ${+(sp.textbook * f).toPrecision(4)} ${unit}`, [110, 190, 240], true),
       { label: 'computed spot', x: pts.map((p) => p[0] * f), y: pts.map((p) => p[1] * g), colour: [240, 160, 80], width: 2 },
     ],
+  });
+}
+
+/**
+ * The Airy pattern's encircled energy, the fraction of its power within radius r on the screen:
+ * 1 − J₀²(v) − J₁²(v), v = k·a·sin θ, sin θ = r/√(r² + z²) (Rayleigh's formula; Born & Wolf,
+ * Principles of Optics, §8.5.2), for a disc of radius a in plane light at normal incidence.
+ */
+export function airyEncircled(a: number, wavelength: number, z: number, r: number): number {
+  const v = ((2 * Math.PI) / wavelength) * a * (r / Math.hypot(r, z));
+  const j0 = besselJn(0, v);
+  const j1 = besselJn(1, v);
+  return 1 - j0 * j0 - j1 * j1;
+}
+
+/** encircled-energy.png: the curve, with the Airy pattern's beside it for a plainly lit circle; null for a 1-D result or no curve. */
+export function energyPicture(plan: Plan, energy: EnergyCurve | null, oneD: boolean, title: string): Buffer | null {
+  if (!energy || oneD || energy.radius.length < 2) return null;
+  const c = plan.case;
+  const rMax = energy.radius[energy.radius.length - 1]!;
+  const [f, unit] = rMax >= 1e-3 ? [1e3, 'mm'] : [1e6, 'µm'];
+  const r = Array.from(energy.radius, (v) => v * f);
+  const series: LineSeries[] = [];
+  const plainCircle = c.aperture.shape === 'circle' && !c.aperture.opaque && c.illumination.kind === 'plane' && c.illumination.tilt[0] === 0 && c.illumination.tilt[1] === 0;
+  if (plainCircle && c.aperture.shape === 'circle') {
+    const a = c.aperture.diameter / 2;
+    series.push({ label: 'Airy pattern (far field)', x: r, y: Array.from(energy.radius, (v) => airyEncircled(a, c.wavelength, c.distance, v)), colour: [110, 190, 240], dashed: true, width: 4 });
+  }
+  series.push({ label: 'computed', x: r, y: Array.from(energy.fraction), colour: [240, 160, 80], width: 2 });
+  return renderLinePlot({
+    title: `encircled energy · ${title}`,
+    xLabel: `radius about the centroid (${unit})`,
+    yLabel: 'fraction of the power through the aperture',
+    xRange: [0, rMax * f],
+    yRange: [0, 1.05],
+    series,
   });
 }

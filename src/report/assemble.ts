@@ -151,6 +151,7 @@ export function buildJobReport(inp: ReportInputs): JobReport {
       ...(written(r.record, CASE_FILES.profilePlot) ? { profilePlot: `${c.id}/${CASE_FILES.profilePlot}` } : {}),
       ...(written(r.record, CASE_FILES.zoom) ? { zoom: `${c.id}/${CASE_FILES.zoom}` } : {}),
       ...(written(r.record, CASE_FILES.searchPlot) ? { searchPlot: `${c.id}/${CASE_FILES.searchPlot}` } : {}),
+      ...(written(r.record, CASE_FILES.energyPlot) ? { energyPlot: `${c.id}/${CASE_FILES.energyPlot}` } : {}),
     };
   });
   return {

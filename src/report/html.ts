@@ -423,6 +423,7 @@ async function caseSection(
     [c.profilePlot, 'profile plot'],
     [c.zoom, 'zoomed picture'],
     [c.searchPlot, 'smallest-spot search'],
+    [c.energyPlot, 'encircled-energy plot'],
     [c.mtfPlot, 'MTF plot'],
   ] as const) {
     if (!file) continue;

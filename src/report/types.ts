@@ -57,6 +57,8 @@ export interface ReportCase {
   zoom?: string;
   /** The smallest-spot search's plot (smallest-spot.png), where the job asked for the search. */
   searchPlot?: string;
+  /** The encircled-energy plot (encircled-energy.png) of a 2-D result. */
+  energyPlot?: string;
 }
 
 export interface ReportTable {
