@@ -90,7 +90,7 @@ export function fftAxisPlan(g: Geometry, i: number, c: Case, content: PitchRule,
   // (plan/shared-grids.ts): the same source on the same grid for every case that shares it.
   const sg = g.sharedGrid;
   if (sg && !c.grid && sg.pitch[i]! <= p.pitch && sg.samples[i]! * sg.pitch[i]! >= n * p.pitch && sg.padded[i]! * sg.pitch[i]! >= padded * p.pitch && sg.padded[i]! >= sg.samples[i]!) {
-    const shared = { ...p, pitch: sg.pitch[i]!, rule: `${p.rule}; finer, on the grid the sweep's cases share` };
+    const shared = { ...p, pitch: sg.pitch[i]!, rule: `${p.rule}; ${sg.pitch[i]! < p.pitch ? 'finer, ' : ''}on the grid the sweep's cases share` };
     return axisPlan(g, i, shared, sg.samples[i]!, sg.padded[i]!, windowOn(fftAxis(sg.padded[i]!, sg.pitch[i]!), g.centre[i]!, g.windowHalf[i]!));
   }
   const output = windowOn(fftAxis(padded, p.pitch), g.centre[i]!, g.windowHalf[i]!);

@@ -162,8 +162,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     minOutput: opts.minOutputSamples ?? (oneD ? LIMITS.minOutput1D : LIMITS.minOutput2D),
     model,
   };
-  // A phase element's finest local period, which every method that samples it must resolve.
   if (opts.sharedGrid) geo.sharedGrid = opts.sharedGrid;
+  // A phase element's finest local period, which every method that samples it must resolve.
   const phaseFrequency = phaseFrequencyOf(c.aperture, lam, Math.max(aEff[0], aEff[1]));
   if (phaseFrequency > 0) geo.phaseFrequency = phaseFrequency;
   // A lens: the paraxial check is on the cone behind it (plan/paraxial.ts lensParaxial).
