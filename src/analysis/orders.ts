@@ -63,6 +63,15 @@ export interface GratingOrder {
   separated: boolean;
   /** Resolving power λ/Δλ = |m|·N of the order (Born & Wolf §8.6.3), null for m = 0 and for orders that do not land. */
   resolvingPower: number | null;
+  /**
+   * Angular dispersion dθ/dλ = m/(d·cos θ_m) (rad per metre of wavelength; from the grating
+   * equation, Born & Wolf §8.6.1), null for m = 0 and for orders that do not land.
+   */
+  angularDispersion?: number | null;
+  /** Linear dispersion on the flat screen, dx/dλ = z·m/(d·cos³θ_m) (metres per metre of wavelength), from x = z·tan θ_m. */
+  linearDispersion?: number | null;
+  /** Free spectral range λ/|m| (m): the wavelength span before order m + 1 of a shorter line lands on it (Hecht §10.2.8). */
+  freeSpectralRange?: number | null;
 }
 
 /** Propagating orders that are left out of the list (only for gratings with thousands of orders). */
@@ -226,6 +235,7 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
       centroid,
       separated,
       resolvingPower: m === 0 ? null : Math.abs(m) * g.count,
+      ...dispersionOf(m, Math.asin(sinOf(m)), g),
     });
   }
 
@@ -310,4 +320,16 @@ export function gratingOrderTable(map: IntensityMap, g: GratingInput): OrderTabl
 /** The orders alone (see gratingOrderTable). */
 export function gratingOrders(map: IntensityMap, g: GratingInput): GratingOrder[] {
   return gratingOrderTable(map, g).orders;
+}
+
+/**
+ * What a spectroscopist reads off an order that lands: dθ/dλ = m/(d cos θ_m) by differentiating the
+ * grating equation d(sin θ_m − sin θ_i) = mλ at fixed incidence; on a flat screen x = z·tan θ_m, so
+ * dx/dλ = z·sec²θ_m·dθ/dλ; the free spectral range λ/|m|. Zero order: none (it does not disperse).
+ */
+function dispersionOf(m: number, angle: number, g: { period: number; distance: number; wavelength: number }): Pick<GratingOrder, 'angularDispersion' | 'linearDispersion' | 'freeSpectralRange'> {
+  if (m === 0) return { angularDispersion: null, linearDispersion: null, freeSpectralRange: null };
+  const c = Math.cos(angle);
+  const dTheta = m / (g.period * c);
+  return { angularDispersion: dTheta, linearDispersion: (g.distance * dTheta) / (c * c), freeSpectralRange: g.wavelength / Math.abs(m) };
 }

@@ -186,6 +186,9 @@ export function caseTitle(plan: Plan): string {
 }
 
 /** result.json; `zoomed`: whether the case writes intensity-zoom.png (computed here when not given). */
+/** A per-metre-of-wavelength rate per nanometre (null stays null). */
+const perNm = (v: number | null | undefined) => (v === null || v === undefined ? null : v * 1e-9);
+
 export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, unknown> {
   const { plan, computed, metrics } = rec;
   const c = plan.case;
@@ -432,6 +435,9 @@ export function ordersCsv(orders: GratingOrder[], evanescentFraction?: number, o
     'predicted_flux',
     'resolving_power',
     'separated',
+    'angular_dispersion_rad_per_nm',
+    'linear_dispersion_mm_per_nm',
+    'free_spectral_range_m',
   ];
   const rows: (string | number | boolean | null)[][] = orders.map((o) => [
     o.m,
@@ -450,12 +456,15 @@ export function ordersCsv(orders: GratingOrder[], evanescentFraction?: number, o
     o.predictedFlux,
     o.resolvingPower,
     o.propagates ? o.separated : null,
+    perNm(o.angularDispersion),
+    o.linearDispersion === null || o.linearDispersion === undefined ? null : o.linearDispersion * 1e-9 * 1e3,
+    o.freeSpectralRange ?? null,
   ]);
   for (const r of omitted) {
-    rows.push([`${r.from}..${r.to}`, r.status, r.outside, null, null, null, null, null, null, null, null, r.predictedFraction, null, null, null, null]);
+    rows.push([`${r.from}..${r.to}`, r.status, r.outside, null, null, null, null, null, null, null, null, r.predictedFraction, null, null, null, null, null, null, null]);
   }
   if (evanescentFraction !== undefined) {
-    rows.push([null, 'all-evanescent', null, null, null, null, null, null, null, 0, null, evanescentFraction, 0, 0, null, null]);
+    rows.push([null, 'all-evanescent', null, null, null, null, null, null, null, 0, null, evanescentFraction, 0, 0, null, null, null, null, null]);
   }
   return toCsv(header, rows);
 }

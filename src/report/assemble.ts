@@ -308,6 +308,8 @@ export function orderTable(rec: CaseSummary): ReportTable {
     pctCell(o.fluxFraction),
     pctCell(o.fractionOfIncident),
     o.resolvingPower,
+    o.linearDispersion === null || o.linearDispersion === undefined ? null : `${trimNumber(o.linearDispersion * 1e-6, 4)} mm/nm`,
+    o.freeSpectralRange === null || o.freeSpectralRange === undefined ? null : fmtLen(o.freeSpectralRange),
   ];
   const rangeRow = (from: number, to: number, predicted: number) => [
     `${from} … ${to}`,
@@ -316,6 +318,8 @@ export function orderTable(rec: CaseSummary): ReportTable {
     null,
     null,
     pctCell(predicted),
+    null,
+    null,
     null,
     null,
     null,
@@ -340,16 +344,17 @@ export function orderTable(rec: CaseSummary): ReportTable {
   }
   for (const r of high) rows.push(rangeRow(r.from, r.to, r.predictedFraction));
   if (m.evanescentFraction !== undefined) {
-    rows.push(['all evanescent orders', 'evanescent (together)', null, null, '0 %', pctCell(m.evanescentFraction), '0 %', null, null]);
+    rows.push(['all evanescent orders', 'evanescent (together)', null, null, '0 %', pctCell(m.evanescentFraction), '0 %', null, null, null, null]);
   }
   return {
     title: `Grating orders, ${rec.plan.case.id}`,
-    header: ['m', 'status', 'angle', 'position', 'measured, of transmitted', 'thin-grating theory', 'flux, of transmitted', 'of incident', 'resolving power mN'],
+    header: ['m', 'status', 'angle', 'position', 'measured, of transmitted', 'thin-grating theory', 'flux, of transmitted', 'of incident', 'resolving power mN', 'on the screen, per nm', 'free spectral range λ/m'],
     rows,
     note:
       'Grating equation d(sin θ_m − sin θ_i) = mλ, angles from the axis; position z·tan θ_m. Measured: ∫|U|² over the interval between the midpoints to the neighbouring orders, over the power through the slits (blank where part of the interval lies outside the window). ' +
       'Thin-grating theory: (w/d)·sinc²(m·w/d) of the same power (Goodman, Introduction to Fourier Optics, §4.4). Flux: the measured value times cos θ_m/cos θ_i, the power crossing the screen plane rather than ∫|U|². ' +
-      'Evanescent orders (|sin θ| > 1) carry no power to any screen; the last row is what thin-grating theory sends into all of them together.',
+      'Evanescent orders (|sin θ| > 1) carry no power to any screen; the last row is what thin-grating theory sends into all of them together. ' +
+      'Per nm: the linear dispersion on this screen, z·m/(d·cos³θ_m), from dθ/dλ = m/(d·cos θ_m) (Born & Wolf §8.6.1); free spectral range λ/|m| (Hecht §10.2.8).',
   };
 }
 

@@ -66,6 +66,22 @@ describe.each([0, 15, 30])('order positions at %i° incidence (Hecht §10.2.8, B
       expect(order(m).position!).toBeCloseTo(xm, 9);
     }
   });
+  it('gives each order its dispersion: dθ/dλ = m/(d cos θ_m), dx/dλ = z·m/(d cos³θ_m), free spectral range λ/|m|', () => {
+    for (const m of [-2, -1, 1, 2]) {
+      const s = sinI + (m * lam) / d;
+      const cos = Math.sqrt(1 - s * s);
+      // Checked by differencing the grating equation's landing point x(λ) = z·tan θ_m(λ) over ±1 pm.
+      const xAtLam = (l: number) => {
+        const sl = sinI + (m * l) / d;
+        return (z * sl) / Math.sqrt(1 - sl * sl);
+      };
+      const numeric = (xAtLam(lam + 1e-12) - xAtLam(lam - 1e-12)) / 2e-12;
+      expect(order(m).angularDispersion!).toBeCloseTo(m / (d * cos), 6);
+      expect(order(m).linearDispersion! / numeric).toBeCloseTo(1, 6);
+      expect(order(m).freeSpectralRange!).toBeCloseTo(lam / Math.abs(m), 18);
+    }
+    expect(order(0).angularDispersion).toBeNull();
+  });
   it('finds the computed peak of each order there, within 0.1 % of z·λ/d', () => {
     // Budget: the far-field formula places peaks exactly in direction cosines; the envelope's shift
     // is 6e-5 of the spacing (above) and the parabolic vertex of peaks sampled at λz/(8D) is good
