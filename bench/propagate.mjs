@@ -130,6 +130,23 @@ async function load() {
 
 const rss = () => process.resourceUsage().maxRSS * 1024;
 
+/**
+ * A sweep's plans run one after another in one fresh context (as one worker runs them, keeping a
+ * shared spectrum), after an untimed warm-up case in a context of its own: seconds and how many
+ * cases reused a kept spectrum.
+ */
+function timeSweep(m, plans, warmUp) {
+  m.runPlannedCase(warmUp, m.newCaseContext(m.engine));
+  const ctx = m.newCaseContext(m.engine);
+  const t0 = performance.now();
+  let reused = 0;
+  for (const p of plans) {
+    const rec = m.runPlannedCase(p, ctx);
+    if (rec.computed.diagnostics.sourceSpectrum === 'reused') reused++;
+  }
+  return { s: (performance.now() - t0) / 1000, reused };
+}
+
 async function measure(kind, threads) {
   const m = await load();
   if (threads > 1) {
@@ -180,16 +197,7 @@ async function measure(kind, threads) {
       const plans = SWEEP.map((s) => m.planCase(makeCase(s), {}));
       if (kind === 'sweep-shared') m.shareSourceSpectra(plans);
       // one case first, untimed, so that both variants start warm
-      m.runPlannedCase(m.planCase(makeCase(SWEEP[0]), {}), ctx);
-      ctx = m.newCaseContext(m.engine);
-      const t0 = performance.now();
-      let reused = 0;
-      for (const p of plans) {
-        const rec = m.runPlannedCase(p, ctx);
-        if (rec.computed.diagnostics.sourceSpectrum === 'reused') reused++;
-      }
-      const s = (performance.now() - t0) / 1000;
-      ctx = m.newCaseContext(m.engine);
+      const { s, reused } = timeSweep(m, plans, m.planCase(makeCase(SWEEP[0]), {}));
       Object.assign(out, {
         cases: plans.length,
         seconds: s,
@@ -203,16 +211,7 @@ async function measure(kind, threads) {
       if (kind === 'auto-shared' && !m.planCases) return { skipped: 'this build has no shared grids' };
       const plans = kind === 'auto-shared' ? m.planCases(cases, {}) : cases.map((c) => m.planCase(c, {}));
       m.shareSourceSpectra(plans);
-      m.runPlannedCase(m.planCase(cases[cases.length - 1], {}), ctx);
-      ctx = m.newCaseContext(m.engine);
-      const t0 = performance.now();
-      let reused = 0;
-      for (const p of plans) {
-        const rec = m.runPlannedCase(p, ctx);
-        if (rec.computed.diagnostics.sourceSpectrum === 'reused') reused++;
-      }
-      const s = (performance.now() - t0) / 1000;
-      ctx = m.newCaseContext(m.engine);
+      const { s, reused } = timeSweep(m, plans, m.planCase(cases[cases.length - 1], {}));
       const grids = new Set(plans.map((p) => `${p.x.paddedSamples}×${p.y?.paddedSamples}`));
       Object.assign(out, { cases: plans.length, seconds: s, secondsPerDistance: s / plans.length, reused, grids: grids.size, methods: [...new Set(plans.map((p) => p.method))].join(', ') });
     } else if (kind === 'one-d') {

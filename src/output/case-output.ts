@@ -25,7 +25,7 @@ import type { PlaneResult } from '../metrics/planes.js';
 import type { SpatialFilterResult } from '../metrics/spatial-filter.js';
 import type { MtfCurve, MtfSummary } from '../analysis/mtf.js';
 import { mtfCsv, renderMtfPng } from './mtf-files.js';
-import { energyPicture, hasSearchPicture, profilePicture, searchPicture, zoomBoxOf, zoomPicture } from './extra-pictures.js';
+import { energyPicture, hasEnergyPicture, hasSearchPicture, profilePicture, searchPicture, zoomBoxOf, zoomPicture } from './extra-pictures.js';
 
 export interface CaseMetrics extends SpotMetrics {
   /** ∫ irradiance over the open area (null for opaque obstacles). */
@@ -245,7 +245,7 @@ export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, un
                     : k === 'searchPlot'
                       ? hasSearchPicture(rec.search)
                       : k === 'energyPlot'
-                        ? !!rec.energy && !isOneD(computed) && rec.energy.radius.length >= 2
+                        ? hasEnergyPicture(rec.energy, isOneD(computed))
                       : k !== 'record',
       ),
     ),

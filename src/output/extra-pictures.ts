@@ -133,9 +133,14 @@ export function airyEncircled(a: number, wavelength: number, z: number, r: numbe
   return 1 - j0 * j0 - j1 * j1;
 }
 
+/** Whether a case has an encircled-energy plot: a 2-D result with a curve of two points or more. */
+export function hasEnergyPicture(energy: EnergyCurve | null, oneD: boolean): energy is EnergyCurve {
+  return !!energy && !oneD && energy.radius.length >= 2;
+}
+
 /** encircled-energy.png: the curve, with the Airy pattern's beside it for a plainly lit circle; null for a 1-D result or no curve. */
 export function energyPicture(plan: Plan, energy: EnergyCurve | null, oneD: boolean, title: string): Buffer | null {
-  if (!energy || oneD || energy.radius.length < 2) return null;
+  if (!hasEnergyPicture(energy, oneD)) return null;
   const c = plan.case;
   const rMax = energy.radius[energy.radius.length - 1]!;
   const [f, unit] = rMax >= 1e-3 ? [1e3, 'mm'] : [1e6, 'µm'];

@@ -13,22 +13,16 @@ import { decodeNpy } from '../output/npy.js';
 import { shoal } from '../output/colour-scales.js';
 import { escapeHtml } from './html.js';
 import { formatLength } from '../job/units.js';
+import type { Grid } from '../model/grid.js';
 
-/** One case as the page shows it. */
-export interface ExplorerCase {
+/** One case as the page shows it: its map (the plan's output grid and |U|² row-major) and words. */
+export interface ExplorerCase extends Grid {
   id: string;
   /** What varies along the sweep, in words ("z = 2 mm"), or the id. */
   label: string;
   /** One line on how it was computed (method, regime). */
   note: string;
   warnings: string[];
-  /** The case's map: its grid (the plan's output axes) and |U|² row-major. */
-  nx: number;
-  ny: number;
-  dx: number;
-  dy: number;
-  x0: number;
-  y0: number;
   intensity: ArrayLike<number>;
 }
 
@@ -406,7 +400,7 @@ export interface ExplorerSource {
   note: string;
   warnings: string[];
   /** The plan's output axes: the map's grid (no y axis: the 1-D form). */
-  grid: { nx: number; ny: number; dx: number; dy: number; x0: number; y0: number };
+  grid: Grid;
 }
 
 /** Reads each case's intensity.npy from the job folder and writes the explorer page (atomically). */

@@ -12,6 +12,7 @@ import { testContext } from '../engine.js';
 import { makeCase, mm, mulberry32, nm, um, type CaseSpec } from '../helpers.js';
 import type { IntensityMap } from '../../src/model/intensity-map.js';
 import { validateJob } from '../../src/job/load.js';
+import { gaussianThrough } from '../reference/gaussian-beam.js';
 
 const lens = (focal: number, stop: number | null): Aperture => ({ shape: 'lens', focal, stop, aberrations: [], opaque: false }) as Aperture;
 const circle = (diameter: number): Aperture => ({ shape: 'circle', diameter, opaque: false }) as Aperture;
@@ -124,28 +125,7 @@ describe('three planes: a focused Gaussian beam, a pinhole at the focus, a lens 
   }
 });
 
-/**
- * A Gaussian beam's on-axis intensity and radius after a paraxial system, from its complex beam
- * parameter q (Kogelnik & Li, Appl. Opt. 5, 1550 (1966); Siegman, Lasers, ch. 20): a gap z adds z
- * to q, a thin lens of focal length f maps 1/q to 1/q − 1/f, and 1/q = 1/R − iλ/(πw²). A beam of
- * radius w₁ and unit amplitude at a waist carries P = πw₁²/2, so its axis holds 2P/(πw²) = (w₁/w)².
- */
-function gaussianThrough(lam: number, w1: number, steps: ({ gap: number } | { lens: number })[]): { onAxis: number; radius: number } {
-  // q as [re, im]; at the waist q = i·πw₁²/λ.
-  let q: [number, number] = [0, (Math.PI * w1 * w1) / lam];
-  for (const s of steps) {
-    if ('gap' in s) q = [q[0] + s.gap, q[1]];
-    else {
-      const m = q[0] * q[0] + q[1] * q[1];
-      const inv: [number, number] = [q[0] / m - 1 / s.lens, -q[1] / m];
-      const mi = inv[0] * inv[0] + inv[1] * inv[1];
-      q = [inv[0] / mi, -inv[1] / mi];
-    }
-  }
-  const m = q[0] * q[0] + q[1] * q[1];
-  const w2 = -lam / (Math.PI * (-q[1] / m));
-  return { onAxis: (w1 * w1) / w2, radius: Math.sqrt(w2) };
-}
+// The Gaussian beam's q parameter through gaps and lenses: test/reference/gaussian-beam.ts.
 
 describe('a beam expander (lens, pinhole, lens) seen in the near field of its output', () => {
   // Where the expanded beam barely spreads, the last gap is carried by the angular spectrum (the

@@ -1,6 +1,7 @@
 // The coaxial Fresnel reference (coaxial-fresnel.ts) against closed forms written here.
 import { describe, expect, it } from 'vitest';
 import { coaxialCost, intensityAtScreen, type CoaxialSystem } from './coaxial-fresnel.js';
+import { gaussianThrough, type BeamStep } from './gaussian-beam.js';
 
 /** π(1 − e^{−βa²})/β for complex β = br + i·bi: ∫₀^a e^{−βr²} 2πr dr (elementary). */
 function discIntegral(br: number, bi: number, a: number): [number, number] {
@@ -12,25 +13,10 @@ function discIntegral(br: number, bi: number, a: number): [number, number] {
   return [(Math.PI * (nr * br + ni * bi)) / m, (Math.PI * (ni * br - nr * bi)) / m];
 }
 
-/**
- * A Gaussian beam (waist w₁ at the start, amplitude 1) through gaps and thin lenses by its complex
- * parameter q (Kogelnik & Li, Appl. Opt. 5, 1550 (1966); Siegman, Lasers, ch. 17 and 20):
- * I(r) = (w₁/w)²·e^{−2r²/w²}.
- */
-function gaussianThrough(lam: number, w1: number, steps: ({ gap: number } | { lens: number })[], r: number): number {
-  let q: [number, number] = [0, (Math.PI * w1 * w1) / lam];
-  for (const s of steps) {
-    if ('gap' in s) q = [q[0] + s.gap, q[1]];
-    else {
-      const m = q[0] * q[0] + q[1] * q[1];
-      const inv: [number, number] = [q[0] / m - 1 / s.lens, -q[1] / m];
-      const mi = inv[0] * inv[0] + inv[1] * inv[1];
-      q = [inv[0] / mi, -inv[1] / mi];
-    }
-  }
-  const m = q[0] * q[0] + q[1] * q[1];
-  const w2 = -lam / (Math.PI * (-q[1] / m));
-  return ((w1 * w1) / w2) * Math.exp((-2 * r * r) / w2);
+/** The beam's intensity at radius r after the steps: (w₁/w)²·e^{−2r²/w²} (test/reference/gaussian-beam.ts). */
+function gaussianAt(lam: number, w1: number, steps: BeamStep[], r: number): number {
+  const { onAxis, radius } = gaussianThrough(lam, w1, steps);
+  return onAxis * Math.exp((-2 * r * r) / (radius * radius));
 }
 
 describe('the coaxial Fresnel reference against closed forms', () => {
@@ -63,17 +49,17 @@ describe('the coaxial Fresnel reference against closed forms', () => {
     const w = 0.5e-3;
     // Openings of 8 beam radii (w = 0.54 mm at 0.3 mm) are empty (e^{−128} of the intensity clipped).
     const free: CoaxialSystem = { lam, w, planes: [{ radius: 8 * w }, { radius: 5e-3 }], gaps: [0.3, 0.5] };
-    const peak = gaussianThrough(lam, w, [{ gap: 0.8 }], 0);
+    const peak = gaussianAt(lam, w, [{ gap: 0.8 }], 0);
     const rs = [0, 0.2e-3, 0.7e-3, 1.5e-3];
     const got = intensityAtScreen(free, rs);
-    rs.forEach((r, i) => expect(Math.abs(got[i]! - gaussianThrough(lam, w, [{ gap: 0.8 }], r)) / peak).toBeLessThan(1e-8));
+    rs.forEach((r, i) => expect(Math.abs(got[i]! - gaussianAt(lam, w, [{ gap: 0.8 }], r)) / peak).toBeLessThan(1e-8));
     // A lens focusing onto a wide opening near the focus, a second lens, the screen.
     const steps = [{ lens: 0.1 }, { gap: 0.1 }, { gap: 0.25 }, { lens: 0.2 }, { gap: 0.4 }];
     const relay: CoaxialSystem = { lam, w, planes: [{ radius: 8 * w, focal: 0.1 }, { radius: 0.4e-3 }, { radius: 8e-3, focal: 0.2 }], gaps: [0.1, 0.25, 0.4] };
-    const top = gaussianThrough(lam, w, steps, 0);
+    const top = gaussianAt(lam, w, steps, 0);
     const radii = [0, 0.3e-3, 1e-3];
     const out = intensityAtScreen(relay, radii);
-    radii.forEach((r, i) => expect(Math.abs(out[i]! - gaussianThrough(lam, w, steps, r)) / top).toBeLessThan(1e-8));
+    radii.forEach((r, i) => expect(Math.abs(out[i]! - gaussianAt(lam, w, steps, r)) / top).toBeLessThan(1e-8));
   });
 
   it('a Gaussian beam carried through an empty plane onto a disc: the disc integral on the axis (Goodman §4.2), to 1e-8', () => {
