@@ -79,6 +79,14 @@ function profileOf(job: Job, wavelength: number): GratingProfile {
   }
 }
 
+/** The profile with its phase multiplied by f (amplitude profiles as they are). */
+function phaseScaled(p: GratingProfile, f: number): GratingProfile {
+  if (p.kind === 'sinusoidal-phase') return { ...p, modulation: p.modulation * f };
+  if (p.kind === 'binary-phase') return { ...p, step: p.step * f };
+  if (p.kind === 'blazed') return { ...p, depth: p.depth * f };
+  return p;
+}
+
 function transmittance(s: Grating, xa: Axis, ya: Axis): CellTransmittance {
   const tx = gratingCellAverages(s.profile, s.period, s.count, xa);
   const wx = gratingPowerAverages(s.profile, s.period, s.count, xa, tx);
@@ -119,6 +127,9 @@ export const grating: ElementKind<Grating, typeof schema> = {
     ...(job.length ? { length: v('length') } : {}),
     opaque: false,
   }),
+  // A phase profile is a fixed optical path (a relief or an index step, its dispersion neglected):
+  // met by another wavelength its phase goes as 1/λ. Amplitude profiles are the same at every one.
+  atWavelength: (s, from, to) => ({ ...s, profile: phaseScaled(s.profile, from / to) }),
   geometry: (s) => ({
     kind: 'separable',
     x: { kind: 'periodic', count: s.count, period: s.period, profile: s.profile },

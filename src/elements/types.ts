@@ -111,6 +111,12 @@ export interface ElementKind<S extends ElementSpec, Sch extends ElementSchema = 
    * blazed grating's depth given as an optical path is so many waves at each wavelength).
    */
   resolve(job: J, value: (key: string) => number, context: ResolveContext): S;
+  /**
+   * The same physical element met by light of another wavelength (a spectrum's lines): resolved at
+   * `from`, seen at `to`. Absent: the element's transmittance is taken as it is at every wavelength
+   * (exact for openings; the planner says so for others).
+   */
+  atWavelength?(s: S, from: number, to: number): S;
   /** The open part as a geometry the optics and exact methods know. */
   geometry(s: S): ApertureGeometry;
   /** Facts for the planner (default: from the geometry). */

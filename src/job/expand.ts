@@ -6,6 +6,7 @@ import type { ResolveContext } from '../elements/types.js';
 import type { Case } from '../plan/types.js';
 import type { JobSpec, SweepValues } from './schema.js';
 import { lengthToken } from './units.js';
+import { DEFAULT_BAND_SAMPLES, meanWavelength, spectrumLines, type SpectrumSource } from '../analysis/spectrum.js';
 
 export const MAX_CASES = 1_000_000;
 
@@ -35,7 +36,8 @@ export function sweepAxes(job: JobSpec): SweepAxis[] {
   const axes: SweepAxis[] = [];
   const add = (key: string, v: SweepValues, unit: 'm' | '1' = 'm', token = TOKENS[key]) =>
     axes.push({ key, token: token ?? key.replace(/\W/g, '-'), values: v.values, spacing: v.spacing, unit });
-  add('wavelength', job.wavelength);
+  // A spectrum is one case's light, not a sweep: its mean wavelength stands for it where one is asked.
+  add('wavelength', job.wavelength ?? { values: [meanWavelength(spectrumLines(spectrumOf(job)!))], spacing: 'single' });
   const element = elementOf(job.aperture);
   for (const [k, v] of Object.entries(job.aperture)) {
     if (isSweep(v)) add(`aperture.${k}`, v, element.counts?.includes(k) ? '1' : 'm', element.tokens[k]);
@@ -81,6 +83,7 @@ export function expandJob(job: JobSpec): Case[] {
     ...(job.orders?.overlap ? { orderOverlap: job.orders.overlap } : {}),
     ...(job.search?.pinhole ? { pinholePassing: job.search.pinhole.passing } : {}),
   };
+  const spectrum = spectrumOf(job);
   const cases: Case[] = [];
   const idx = new Array<number>(axes.length).fill(0);
   for (let n = 0; n < total; n++) {
@@ -104,6 +107,7 @@ export function expandJob(job: JobSpec): Case[] {
       aperture: resolveAperture(job, value, { wavelength: value('wavelength') }),
       ...(job.planes ? { planes: job.planes.map((p, i) => ({ after: value(`planes.${i}.after`), aperture: resolveElement(p.element, (k) => value(`planes.${i}.element.${k}`), { wavelength: value('wavelength') }) })) } : {}),
       illumination: resolveIllumination(job, value),
+      ...(spectrum ? { spectrum } : {}),
       ...(job.grid ? { grid: job.grid } : {}),
       ...(job.window ? { window: job.window } : {}),
       method: job.method,
@@ -136,6 +140,17 @@ function signedKey(job: JobSpec, key: string): boolean {
   if (!m) return false;
   const spec = m[1] === undefined ? job.aperture : job.planes![Number(m[1])]!.element;
   return elementOf(spec).signed?.includes(m[2]!) ?? false;
+}
+
+/** The job's spectrum in SI, or null for one wavelength. A file's rows come from the loader. */
+export function spectrumOf(job: JobSpec): SpectrumSource | null {
+  const s = job.spectrum;
+  if (!s) return null;
+  if (s.lines) return { kind: 'lines', lines: s.lines.map((l) => ({ wavelength: l.wavelength, power: l.power })) };
+  if (s.band) return { kind: 'band', from: s.band.from, to: s.band.to, samples: s.samples ?? DEFAULT_BAND_SAMPLES };
+  if (s.blackbody) return { kind: 'blackbody', temperature: s.blackbody.temperature, from: s.blackbody.from, to: s.blackbody.to, samples: s.samples ?? DEFAULT_BAND_SAMPLES };
+  if (!s.table) throw new Error(`spectrum.file: ${s.file} has not been read (load the job with loadJobFile, which reads the files a job names)`);
+  return { kind: 'table', file: s.file!, wavelengths: s.table.wavelengths, density: s.table.density };
 }
 
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {

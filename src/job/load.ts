@@ -31,6 +31,7 @@ import {
   type JobSpec,
 } from './schema.js';
 import { FileRefusal, formatBytes, readRegularFile } from './read-file.js';
+import { parseSpectrumCsv, SPECTRUM_FILE_MAX_BYTES } from './spectrum-file.js';
 import { closest } from './suggest.js';
 import { elementOf } from '../elements/registry.js';
 import type { ElementKind, ElementSchema, ElementSpec } from '../elements/types.js';
@@ -99,6 +100,7 @@ export interface LoadedJob {
 export async function loadJobFile(file: string): Promise<LoadedJob> {
   const { loaded, positions } = parseWithPositions(await readJobText(file), file);
   await readElementFiles(loaded, dirname(file), positions);
+  await readSpectrumFile(loaded, dirname(file), positions);
   return loaded;
 }
 
@@ -135,6 +137,27 @@ async function readElementFiles(loaded: LoadedJob, folder: string, positions: Po
     if (problems.count === 0) loaded.spec.aperture = attached as unknown as JobSpec['aperture'];
   }
   if (problems.count > 0) throw new JobError(loaded.file, problems.list());
+}
+
+/** The spectrum's CSV file (spectrum.file), read like the job file and attached as its table. */
+async function readSpectrumFile(loaded: LoadedJob, folder: string, positions: Positions): Promise<void> {
+  const s = loaded.spec.spectrum;
+  if (!s?.file) return;
+  const path = ['spectrum', 'file'];
+  const full = resolvePath(folder, s.file);
+  const fail = (message: string) => {
+    throw new JobError(loaded.file, [{ path: dotted(path), message, ...positionOf(path, positions, false) }]);
+  };
+  let text: string;
+  try {
+    text = (await readRegularFile(full, { maxBytes: SPECTRUM_FILE_MAX_BYTES, noun: 'a spectrum file' })).toString('utf8');
+  } catch (e) {
+    if (!(e instanceof FileRefusal)) throw e;
+    return fail(`cannot read '${safeEcho(s.file, 120)}'${full === s.file ? '' : ` (${safeEcho(full, 300)})`}: ${e.reason}`);
+  }
+  const table = parseSpectrumCsv(text);
+  if ('problem' in table) return fail(`${safeEcho(s.file, 120)}: ${table.problem}`);
+  s.table = table;
 }
 
 /** The file's text, or a JobError: never blocks, never reads more than MAX_JOB_BYTES + 1 bytes. */
@@ -388,7 +411,7 @@ function loadWarnings(spec: JobSpec, given: Record<string, unknown>, positions?:
     }
   };
   walk(given, []);
-  const unusual = spec.wavelength.values.filter((w) => w < WAVELENGTH_USUAL_MIN || w > WAVELENGTH_USUAL_MAX);
+  const unusual = (spec.wavelength?.values ?? []).filter((w) => w < WAVELENGTH_USUAL_MIN || w > WAVELENGTH_USUAL_MAX);
   if (unusual.length > 0) {
     const which = unusual.length === 1 ? formatLength(unusual[0]!) : `${unusual.length} of the wavelengths (${formatLength(unusual[0]!)}, ...)`;
     out.add({

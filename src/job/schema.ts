@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import { isFastFftSize } from '../optics/fft.js';
 import type { UnitKind } from './units.js';
+import { spectrumSchema } from './spectrum-schema.js';
 import { ELEMENTS, SHAPE_NAMES, elementOf } from '../elements/registry.js';
 import {
   DESCRIPTION_MAX,
@@ -207,7 +208,9 @@ const jobShape = {
     // terminal that shows it; tabs and line breaks are text.
     .refine((t) => !/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f]/.test(t), { error: descriptionMsg })
     .optional(),
-  wavelength: sweepLength(WAVELENGTH),
+  // One wavelength (or a sweep of them, a case each), or a spectrum: several at once in one case.
+  wavelength: sweepLength(WAVELENGTH).optional(),
+  spectrum: spectrumSchema.optional(),
   distance: sweepLength(),
   aperture,
   planes: planes.optional(),
@@ -224,8 +227,21 @@ const jobShape = {
 };
 export const JOB_KEYS = Object.keys(jobShape);
 
-export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
+export const jobSchema = z.strictObject(jobShape)
+  // One of wavelength and spectrum, said even where other keys are wrong too (when: always).
+  .superRefine(
+    (job, ctx) => {
+      const has = (k: string) => (job as Record<string, unknown>)[k] !== undefined;
+      if (has('wavelength') && has('spectrum')) ctx.addIssue({ code: 'custom', path: ['spectrum'], message: 'expected either wavelength or spectrum, not both: a spectrum gives its own wavelengths' });
+      else if (!has('wavelength') && !has('spectrum')) ctx.addIssue({ code: 'custom', path: ['wavelength'], message: "missing: expected a positive length such as '50 um' (or, for light of several wavelengths, a spectrum: lines, a band, a blackbody or a file)" });
+    },
+    { when: (p) => typeof p.value === 'object' && p.value !== null && !Array.isArray(p.value) },
+  )
+  .superRefine((job, ctx) => {
   const a = job.aperture;
+  if (job.spectrum && job.search?.['smallest-spot']) ctx.addIssue({ code: 'custom', path: ['search', 'smallest-spot'], message: 'expected no smallest-spot search with a spectrum: the search is made at one wavelength' });
+  if (job.spectrum && job.search?.pinhole) ctx.addIssue({ code: 'custom', path: ['search', 'pinhole'], message: 'expected no pinhole search with a spectrum: the answers are made at one wavelength' });
+  if (job.spectrum && job.planes) ctx.addIssue({ code: 'custom', path: ['spectrum'], message: 'expected a single wavelength with planes in sequence: a spectrum is not yet carried from plane to plane' });
   // The tilts are the incident direction's cosines α = sin θx, β = sin θy (optics/source.ts): both
   // under 90° is not enough, the direction must exist (α² + β² < 1), or no light reaches the screen.
   const [tx, ty] = job.illumination.tilt;
@@ -307,6 +323,9 @@ export function quantityKindAt(path: readonly (string | number)[]): UnitKind | u
 }
 const QUANTITY_KEYS: Record<string, UnitKind> = {
   wavelength: 'length',
+  'spectrum.lines.wavelength': 'length',
+  'spectrum.band': 'length',
+  'spectrum.blackbody': 'length',
   distance: 'length',
   ...elementLengthKeys('aperture'),
   'illumination.waist': 'length',
@@ -330,5 +349,10 @@ function elementLengthKeys(prefix: string): Record<string, UnitKind> {
   );
 }
 
-export type JobSpec = z.output<typeof jobSchema>;
+/** A spectrum file's rows, attached by the loader (load.ts) after validation. */
+export interface SpectrumTable {
+  wavelengths: number[];
+  density: number[];
+}
+export type JobSpec = z.output<typeof jobSchema> & { spectrum?: { table?: SpectrumTable } };
 export type JobInput = z.input<typeof jobSchema>;

@@ -10,14 +10,27 @@ export function sourceAxis(a: AxisPlan, fft: boolean): Axis {
   return fft ? fftAxis(a.inputSamples, a.inputPitch) : centredAxis(a.inputSamples, a.inputPitch);
 }
 
-/** Copies the samples of f that fall on the output axes (which lie on f's lattice). */
+/**
+ * Copies the samples of f that fall on the output axes (which lie on f's lattice, every k-th
+ * sample where an output step is k lattice steps: a spectrum's common grid).
+ */
 export function cropTo(f: Field, outX: Axis, outY: Axis | null): Field {
   const out = createField(outX, outY, f.wavelength);
   const c0 = Math.round((outX.start - f.x0) / f.dx);
   const r0 = outY ? Math.round((outY.start - f.y0) / f.dy) : 0;
+  const kx = Math.max(1, Math.round(outX.step / f.dx));
+  const ky = outY && f.ny > 1 ? Math.max(1, Math.round(outY.step / f.dy)) : 1;
   for (let r = 0; r < out.ny; r++) {
-    const src = 2 * ((r + r0) * f.nx + c0);
-    out.data.set(f.data.subarray(src, src + 2 * out.nx), 2 * r * out.nx);
+    const src = 2 * ((r0 + r * ky) * f.nx + c0);
+    if (kx === 1) {
+      out.data.set(f.data.subarray(src, src + 2 * out.nx), 2 * r * out.nx);
+      continue;
+    }
+    const dst = 2 * r * out.nx;
+    for (let c = 0; c < out.nx; c++) {
+      out.data[dst + 2 * c] = f.data[src + 2 * c * kx]!;
+      out.data[dst + 2 * c + 1] = f.data[src + 2 * c * kx + 1]!;
+    }
   }
   return out;
 }

@@ -24,7 +24,10 @@ import type { LensStrehl } from '../metrics/strehl.js';
 import type { PlaneResult } from '../metrics/planes.js';
 import type { SpatialFilterResult } from '../metrics/spatial-filter.js';
 import type { MtfCurve, MtfSummary } from '../analysis/mtf.js';
+import type { LineOrders, LinePair } from '../analysis/line-pairs.js';
+import type { ColourMaps } from '../run/spectrum-case.js';
 import { mtfCsv, renderMtfPng } from './mtf-files.js';
+import { spectrumFileEntries, spectrumFiles } from './spectrum-files.js';
 import { energyPicture, hasEnergyPicture, hasSearchPicture, profilePicture, searchPicture, zoomBoxOf, zoomPicture } from './extra-pictures.js';
 
 export interface CaseMetrics extends SpotMetrics {
@@ -65,6 +68,19 @@ export interface CaseMetrics extends SpotMetrics {
   spatialFilter?: SpatialFilterResult;
   /** The same lens cases: the MTF of the computed PSF, in summary (analysis/mtf.ts; the curve is mtf.csv). */
   mtf?: MtfSummary;
+  /** Light of several wavelengths (the job's spectrum): the lines computed and how they were added. */
+  spectrum?: SpectrumMetrics;
+  /** A grating in light of several wavelengths: each line's order table (line-orders.csv). */
+  lineOrders?: LineOrders[];
+  /** Close pairs of lines in each order: resolved or not on the computed pattern (analysis/line-pairs.ts). */
+  linePairs?: LinePair[];
+}
+
+export interface SpectrumMetrics {
+  light: string;
+  normalisation: string;
+  samples: { own: number; needed: number | null; used: number };
+  lines: { wavelength: number; weight: number; method: string; form?: string }[];
 }
 
 /**
@@ -98,6 +114,8 @@ export interface CaseSummary {
 
 export interface CaseRecord extends CaseSummary {
   computed: ComputedCase;
+  /** Several wavelengths: the CIE 1931 tristimulus maps behind colour.png. */
+  colour?: ColourMaps;
   /** The encircled-energy curve behind metrics.encircled (written as a CSV). */
   energy: EnergyCurve | null;
   /** The MTF curve behind metrics.mtf (written as mtf.csv and mtf.png). */
@@ -230,8 +248,8 @@ export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, un
       grid: c.grid ?? null,
       swept: c.swept,
     },
-    files: Object.fromEntries(
-      Object.entries(CASE_FILES).filter(([k]) =>
+    files: Object.fromEntries([
+      ...Object.entries(CASE_FILES).filter(([k]) =>
         k === 'profileY'
           ? !isOneD(computed)
           : k === 'orders'
@@ -248,7 +266,8 @@ export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, un
                         ? hasEnergyPicture(rec.energy, isOneD(computed))
                       : k !== 'record',
       ),
-    ),
+      ...spectrumFileEntries(!!rec.colour, !!metrics.lineOrders?.length, !!metrics.linePairs),
+    ]),
     ...(rec.search ? { search: rec.search } : {}),
     seconds: rec.seconds,
     note: 'Scalar-diffraction model of an idealised part; not a laser-hazard assessment (see the README).',
@@ -379,6 +398,7 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
     if (search) put(CASE_FILES.searchPlot, search);
     const energy = energyPicture(plan, rec.energy, isOneD(computed), picture.title);
     if (energy) put(CASE_FILES.energyPlot, energy);
+    for (const [name, content] of spectrumFiles(map, rec.colour, rec.metrics.lineOrders, rec.metrics.linePairs, picture.title, picture.logDecades)) put(name, content);
     put(CASE_FILES.result, JSON.stringify(resultJson(rec, zoom !== null), jsonNumbers, 2) + '\n');
     const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION, files };
     await allWritten();

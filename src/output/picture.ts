@@ -66,7 +66,7 @@ interface Plan {
   slotW: number;
 }
 
-function displaySize(p: PictureInput): { w: number; h: number } {
+export function displaySize(p: PictureInput): { w: number; h: number } {
   const m = p.map;
   if (isOneD(m)) return { w: fitLength(m.nx), h: STRIPE_HEIGHT };
   const squarePixels = Math.abs(m.dx - m.dy) <= 1e-9 * Math.max(m.dx, m.dy);
@@ -86,7 +86,7 @@ function fitLength(n: number): number {
 }
 
 /** Room left of a 2-D panel for its y tick labels (none for a 1-D map). */
-function yAxisRoom(p: PictureInput): number {
+export function yAxisRoom(p: PictureInput): number {
   if (isOneD(p.map)) return 0;
   const t = positionTicks(p.map.y0 - p.map.dy / 2, p.map.ny * p.map.dy);
   return Math.max(...t.ticks.map((v) => textWidth(t.text(v)))) + AXIS_TICK + AXIS_ROOM;
@@ -386,7 +386,7 @@ function logTicks(decades: number, barW: number): { t: number; text: string }[] 
  * data pixel the display pixel covers, weighted by overlap, because picking
  * one sample would alias fringes finer than a display pixel into moiré.
  */
-function resampleForDisplay(p: PictureInput, w: number, h: number): Float64Array {
+export function resampleForDisplay(p: PictureInput, w: number, h: number): Float64Array {
   // A 1-D map has one row (the grid's 1-D form), stretched to the stripe height below.
   const { intensity: src, ny: rows, nx: cols } = p.map;
   const wx = axisWeights(cols, w);
@@ -465,7 +465,7 @@ function positionTicks(lo: number, span: number): { ticks: number[]; unit: strin
  * optical axis (x = 0, y = 0) marked by longer ticks in their own colour where the window holds it.
  * A display pixel j spans data from x0 − dx/2 + j·(nx·dx)/w (resampleForDisplay's grid).
  */
-function drawPositionAxes(img: RgbImage, panel: Rect, m: IntensityMap): void {
+export function drawPositionAxes(img: RgbImage, panel: Rect, m: IntensityMap): void {
   const xLo = m.x0 - m.dx / 2;
   const xSpan = m.nx * m.dx;
   const xt = positionTicks(xLo, xSpan);
@@ -500,7 +500,7 @@ function drawPositionAxes(img: RgbImage, panel: Rect, m: IntensityMap): void {
 }
 
 /** A round length (1, 2 or 5 ×10^k) near a fifth of the panel, drawn under its left edge. */
-function drawScaleBar(img: RgbImage, panel: Rect, physWidth: number): void {
+export function drawScaleBar(img: RgbImage, panel: Rect, physWidth: number): void {
   const target = physWidth / 5;
   const k = Math.floor(Math.log10(target));
   let best = { m: 1, k, ratio: Infinity };

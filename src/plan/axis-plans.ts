@@ -88,6 +88,22 @@ export function fftAxisPlan(g: Geometry, i: number, c: Case, content: PitchRule,
   const padded = nextFastFftSize(n * padding(n * p.pitch));
   // A sweep's shared grid, where it is as fine, holds as much and is as wide as this case's own
   // (plan/shared-grids.ts): the same source on the same grid for every case that shares it.
+  const forced = g.outputGrid?.[i];
+  if (forced && !c.grid) {
+    // A spectrum's common output grid: the lattice pitch is the grid's pitch over a whole number
+    // k, as fine as this case's rules ask, so that every output point is a lattice point (taken
+    // every k-th sample: exact values there, nothing interpolated).
+    const k = Math.max(1, Math.ceil(forced.step / p.pitch - 1e-9));
+    const pitch = forced.step / k;
+    const reach = Math.max(g.aEff[i]!, Math.abs(forced.start), Math.abs(forced.start + (forced.n - 1) * forced.step));
+    const nf = Math.max(minN, Math.ceil((2 * reach) / pitch) + 2);
+    const paddedF = nextFastFftSize(nf * padding(nf * pitch));
+    const onLattice = Math.abs(forced.start / pitch - Math.round(forced.start / pitch)) < 1e-6;
+    if (onLattice) {
+      const rule = { ...p, pitch, rule: `${p.rule}; ${k > 1 ? `1/${k} of` : 'on'} the spectrum's common output grid (${len(forced.step)})` };
+      return axisPlan(g, i, rule, nf, paddedF, forced);
+    }
+  }
   const sg = g.sharedGrid;
   if (sg && !c.grid && sg.pitch[i]! <= p.pitch && sg.samples[i]! * sg.pitch[i]! >= n * p.pitch && sg.padded[i]! * sg.pitch[i]! >= padded * p.pitch && sg.padded[i]! >= sg.samples[i]!) {
     const shared = { ...p, pitch: sg.pitch[i]!, rule: `${p.rule}; ${sg.pitch[i]! < p.pitch ? 'finer, ' : ''}on the grid the sweep's cases share` };
@@ -117,7 +133,8 @@ export function directAxisPlan(g: Geometry, i: number, c: Case, content: PitchRu
   let m = Math.ceil((2 * g.windowHalf[i]!) / wanted) + 1;
   m = Math.min(maxM, Math.max(minM, m));
   if (m % 2 === 0) m += 1;
-  const output = centredAxis(m, (2 * g.windowHalf[i]!) / (m - 1), g.centre[i]!);
+  // A spectrum's common output grid: the sums are evaluated at its points.
+  const output = g.outputGrid?.[i] ?? centredAxis(m, (2 * g.windowHalf[i]!) / (m - 1), g.centre[i]!);
   return axisPlan(g, i, p, nIn, nIn, output);
 }
 

@@ -1,6 +1,7 @@
 // What the planner knows of a case before it samples it (the aperture's facts, the light model,
 // the window), and the sampling rules every method reads from it.
 import type { ApertureFacts } from '../optics/aperture.js';
+import type { Axis } from '../optics/field.js';
 import { LIMITS } from './limits.js';
 import type { LightModel } from './light.js';
 import type { Layout, SharedGrid } from './types.js';
@@ -32,7 +33,19 @@ export interface Geometry {
   phaseFrequency?: number;
   /** A sweep's shared FFT grid, taken by fftAxisPlan where it meets the case's own rules. */
   sharedGrid?: SharedGrid;
+  /**
+   * The output grid every line of a spectrum is delivered onto (plan/spectrum.ts): direct sums
+   * evaluate at its points, FFT lattices are planned so that its points are lattice points; a
+   * method whose output cannot be put there is not offered.
+   */
+  outputGrid?: OutputGrid;
 }
+
+/** Output axes imposed on a case: x, and y (null for a 1-D case). */
+export type OutputGrid = [Axis, Axis | null];
+
+/** No method of a case can deliver its field onto the output grid imposed on it. */
+export class OffGridError extends Error {}
 
 /**
  * How far from a Gaussian beam's axis the light begins to pass: the obstacle's half width for an

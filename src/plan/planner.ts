@@ -13,7 +13,9 @@ import { LIMITS } from './limits.js';
 import { lensBeamRadius, lightModel, type LightModel } from './light.js';
 import { lensOf, phaseFrequencyOf } from '../elements/registry.js';
 import { lensParaxial, paraxialEstimate } from './paraxial.js';
-import { lightFrom, type Geometry } from './geometry.js';
+import { lightFrom, OffGridError, type Geometry, type OutputGrid } from './geometry.js';
+import { planSpectrum } from './spectrum.js';
+import type { Axis } from '../optics/field.js';
 import type { SharedGrid } from './types.js';
 import { BASELINE_MEMORY } from './costs.js';
 import { bytes, fmt, len, pct, seconds } from './words.js';
@@ -45,6 +47,11 @@ export interface PlannerOptions {
    * it where it meets the case's own accuracy rules.
    */
   sharedGrid?: SharedGrid;
+  /**
+   * The output grid a spectrum's lines are all delivered onto (plan/spectrum.ts): the window is its
+   * extent, and only methods whose output can be put on its points are offered.
+   */
+  outputGrid?: OutputGrid;
 }
 
 export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
@@ -56,6 +63,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const maxWork = opts.maxWork ?? DEFAULT_MAX_WORK;
   // Planes in sequence have a planner of their own (one method: the Fresnel integral plane to plane).
   if (c.planes?.length) return planSequence(c, { maxMemoryBytes: maxMemory, maxWork });
+  // Several wavelengths at once: each planned as its own case onto one output grid (plan/spectrum.ts).
+  if (c.spectrum) return planSpectrum(c, { plan: planCase, opts });
   const lam = c.wavelength;
   const z = c.distance;
   const k = (2 * Math.PI) / lam;
@@ -124,7 +133,15 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const win = planWindow(winInputs);
   const centre = win.centre;
   const windowHalf = win.half;
-  if (!c.window && !oneD && !facts.separable) {
+  const forced = opts.outputGrid;
+  if (forced) {
+    // A spectrum's common grid: the window is the grid's extent.
+    forced.forEach((a, i) => {
+      if (!a) return;
+      centre[i] = a.start + ((a.n - 1) / 2) * a.step;
+      windowHalf[i] = ((a.n - 1) / 2) * a.step;
+    });
+  } else if (!c.window && !oneD && !facts.separable) {
     // Round spots get a square window.
     const w = Math.max(windowHalf[0], windowHalf[1]);
     windowHalf[0] = w;
@@ -163,6 +180,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     model,
   };
   if (opts.sharedGrid) geo.sharedGrid = opts.sharedGrid;
+  if (forced) geo.outputGrid = forced;
   // A phase element's finest local period, which every method that samples it must resolve.
   const phaseFrequency = phaseFrequencyOf(c.aperture, lam, Math.max(aEff[0], aEff[1]));
   if (phaseFrequency > 0) geo.phaseFrequency = phaseFrequency;
@@ -202,6 +220,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     if (d.binaryOnly && !binary) continue;
     const sampled = d.sample(geo, c);
     if (!sampled) continue;
+    // On a spectrum's common grid only the forms whose output is exactly its points take part.
+    if (forced && !sampled.axes.every((a, i) => sameAxis(a.output, forced[i]))) continue;
     const s: Chosen = { ...sampled, ...(d.form ? { form: d.form } : {}), method: d.method, d };
     const v = validity[d.method];
     wholeCase(s, c, answers);
@@ -209,6 +229,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     options.push({ method: d.method, ...(s.form ? { form: s.form } : {}), valid: v.valid, ...(v.why ? { why: v.why } : {}), memoryBytes: s.memory, work: s.work, fits });
     samplings.push(s);
   }
+  // (The spectrum's planner catches this and says which line could not be put on the grid.)
+  if (forced && samplings.length === 0) throw new OffGridError('no method takes this case onto the common output grid');
   let chosen: Chosen | undefined;
   let error: string | undefined;
   const fitsLimits = (s: Sampling) => !s.impossible && s.memory <= maxMemory && s.work <= maxWork;
@@ -303,6 +325,13 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     ...(error ? { error } : {}),
   };
   return plan;
+}
+
+/** Whether two axes are the same points (to rounding). */
+function sameAxis(a: Axis, b: Axis | null | undefined): boolean {
+  if (!b) return false;
+  const tol = 1e-9 * Math.max(Math.abs(a.step), Math.abs(b.step));
+  return a.n === b.n && Math.abs(a.start - b.start) <= tol * Math.max(1, a.n) && Math.abs(a.step - b.step) <= tol;
 }
 
 /** Whether a sampling's axes are the shared grid (fftAxisPlan takes it only where it meets the case's rules). */

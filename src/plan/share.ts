@@ -12,7 +12,7 @@ import { descriptorOf } from '../methods/registry.js';
  * grid, Fresnel's transfer function). Null for plans that do not use one.
  */
 export function sourceSpectrumKey(p: Plan): string | null {
-  if (p.error || p.layout !== 'two-d' || !p.y || !descriptorOf(p).sharesSourceSpectrum) return null;
+  if (p.error || p.spectrum || p.layout !== 'two-d' || !p.y || !descriptorOf(p).sharesSourceSpectrum) return null;
   const c = p.case;
   const axis = (a: Plan['x']) => [a.inputPitch, a.inputSamples, a.paddedSamples];
   return JSON.stringify([c.aperture, c.illumination, c.wavelength, axis(p.x), axis(p.y)]);

@@ -19,7 +19,7 @@ const LEAST_SAVING = 0.1;
 
 /** What must be equal for two cases to share a source: everything but the distance and the window. */
 function groupKey(c: Case): string | null {
-  if (c.planes?.length || c.grid?.size || c.grid?.pitch) return null;
+  if (c.planes?.length || c.spectrum || c.grid?.size || c.grid?.pitch) return null;
   if (c.method !== 'auto' && c.method !== 'angular-spectrum') return null;
   return JSON.stringify([c.aperture, c.illumination, c.wavelength, c.method]);
 }

@@ -2,6 +2,8 @@ import type { Aperture, Illumination } from '../optics/aperture.js';
 import type { Axis } from '../optics/field.js';
 import type { MethodRequest } from '../job/schema.js';
 import type { WarningCode } from '../warnings/catalogue.js';
+import type { SpectrumSource } from '../analysis/spectrum.js';
+import type { SpectrumPlan } from './spectrum.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
 export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct' | 'lens-chirp' | 'planes';
@@ -38,6 +40,12 @@ export interface Case {
    */
   planes?: PlaneSpec[];
   illumination: Illumination;
+  /**
+   * Light of several wavelengths at once (the job's spectrum): the case's intensity is the
+   * power-weighted sum of its lines' intensities on one output grid (plan/spectrum.ts); `wavelength`
+   * is then the spectrum's mean.
+   */
+  spectrum?: SpectrumSource;
   grid?: { size?: number; pitch?: number };
   window?: [number, number];
   method: MethodRequest;
@@ -241,6 +249,8 @@ export interface Plan {
   exact2D?: { edgeNodes: number; path: 'direct' | 'mirror' | 'radial' };
   /** Planes in sequence (form 'planes'): one leg per gap, the last to the screen. */
   sequence?: { legs: SequenceLeg[] };
+  /** Several wavelengths (case.spectrum): the lines and their plans on the case's output grid. */
+  spectrum?: SpectrumPlan;
   /** Set when the case cannot be computed as planned (it is then reported, not run). */
   error?: string;
 }

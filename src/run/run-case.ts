@@ -17,10 +17,12 @@ import { gratingOf } from '../elements/registry.js';
 import type { CaseMetrics, CaseRecord } from '../output/case-output.js';
 import type { Plan, Warning } from '../plan/types.js';
 import { warning } from '../warnings/catalogue.js';
-import { computeCase } from './compute.js';
+import { computeCase, type ComputedCase } from './compute.js';
+import { runSpectrumCase } from './spectrum-case.js';
 import type { CaseContext } from './context.js';
 
 export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'spectra'>): CaseRecord {
+  if (plan.spectrum) return runSpectrumCase(plan, ctx);
   const t0 = performance.now();
   const computed = computeCase(plan, ctx);
   const spot = spotMetrics(computed);
@@ -44,46 +46,14 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   };
   const warnings: Warning[] = [...plan.warnings];
   let grating: GratingEvanescence | undefined;
-  const a = gratingOf(c.aperture);
   if (d.planes) {
     metrics.planes = planeResults(c, d.planes);
-  } else if (a && !c.aperture.opaque) {
-    const footprint = a.count * a.period * (a.length ?? 1);
-    const [alpha, beta] = directionCosines(c.illumination);
-    const input: GratingInput = {
-      period: a.period,
-      width: a.width,
-      profile: a.profile,
-      count: a.count,
-      wavelength: c.wavelength,
-      distance: c.distance,
-      sinIncidence: alpha,
-      // A 1-D grating is computed in the x–z plane only (the planner warns that a tilt along y is ignored).
-      sinIncidenceY: plan.y ? beta : 0,
-      powerTransmitted: d.powerIn,
-      powerIncident: c.illumination.kind === 'plane' ? footprint : null,
-    };
-    const table = gratingOrderTable(computed, input);
-    metrics.orders = table.orders;
-    if (table.omitted.length) metrics.ordersOmitted = table.omitted;
-    metrics.evanescentFraction = table.evanescentFraction;
-    const evanescent = table.orders.filter((o) => o.status === 'evanescent');
-    const below = evanescent.filter((o) => o.sinAngle < 0).map((o) => o.m);
-    const above = evanescent.filter((o) => o.sinAngle > 0).map((o) => o.m);
-    grating = {
-      evanescentFraction: table.evanescentFraction,
-      ...(below.length && above.length ? { cutoff: [Math.max(...below), Math.min(...above)] as [number, number] } : {}),
-    };
-    // The consistency checks run on every grating case, whatever method computed it.
-    const checks = checkOrders(computed, orderCheckInput(plan, input, table, d.powerInWindow));
-    metrics.orderChecks = checks.checked;
-    if (checks.stray.length) metrics.strayLight = checks.stray;
-    warnings.push(...checks.warnings);
-    if (table.unresolved) {
-      const u = table.unresolved;
-      warnings.push(
-        warning('orders-unresolved', { distance: c.distance, orders: u.orders, gratingWidth: input.count * input.period, separateBeyond: u.separateBeyond }),
-      );
+  } else {
+    const g = gratingPart(plan, computed);
+    if (g) {
+      Object.assign(metrics, g.metrics);
+      warnings.push(...g.warnings);
+      grating = g.evanescence;
     }
   }
   // The radial verdict reads the case's own curve when it is about the same power (not Babinet).
@@ -98,4 +68,56 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   if (mtf) metrics.mtf = mtf.summary;
   warnings.push(...postChecks(plan, d, grating), ...detectors.warnings);
   return { plan, computed, metrics, energy, ...(mtf ? { mtf: mtf.curve } : {}), warnings, seconds: (performance.now() - t0) / 1000 };
+}
+
+/** A grating's part of the metrics (its order table and checks), or null for other elements. */
+export interface GratingPart {
+  metrics: Pick<CaseMetrics, 'orders' | 'ordersOmitted' | 'evanescentFraction' | 'orderChecks' | 'strayLight'>;
+  warnings: Warning[];
+  evanescence: GratingEvanescence;
+}
+
+/** The order table of a grating case and its consistency checks (every grating, every method). */
+export function gratingPart(plan: Plan, computed: ComputedCase): GratingPart | null {
+  const c = plan.case;
+  const d = computed.diagnostics;
+  const a = gratingOf(c.aperture);
+  if (!a || c.aperture.opaque) return null;
+  const footprint = a.count * a.period * (a.length ?? 1);
+  const [alpha, beta] = directionCosines(c.illumination);
+  const input: GratingInput = {
+    period: a.period,
+    width: a.width,
+    profile: a.profile,
+    count: a.count,
+    wavelength: c.wavelength,
+    distance: c.distance,
+    sinIncidence: alpha,
+    // A 1-D grating is computed in the x–z plane only (the planner warns that a tilt along y is ignored).
+    sinIncidenceY: plan.y ? beta : 0,
+    powerTransmitted: d.powerIn,
+    powerIncident: c.illumination.kind === 'plane' ? footprint : null,
+  };
+  const warnings: Warning[] = [];
+  const metrics: GratingPart['metrics'] = {};
+  const table = gratingOrderTable(computed, input);
+  metrics.orders = table.orders;
+  if (table.omitted.length) metrics.ordersOmitted = table.omitted;
+  metrics.evanescentFraction = table.evanescentFraction;
+  const evanescent = table.orders.filter((o) => o.status === 'evanescent');
+  const below = evanescent.filter((o) => o.sinAngle < 0).map((o) => o.m);
+  const above = evanescent.filter((o) => o.sinAngle > 0).map((o) => o.m);
+  const evanescence: GratingEvanescence = {
+    evanescentFraction: table.evanescentFraction,
+    ...(below.length && above.length ? { cutoff: [Math.max(...below), Math.min(...above)] as [number, number] } : {}),
+  };
+  const checks = checkOrders(computed, orderCheckInput(plan, input, table, d.powerInWindow));
+  metrics.orderChecks = checks.checked;
+  if (checks.stray.length) metrics.strayLight = checks.stray;
+  warnings.push(...checks.warnings);
+  if (table.unresolved) {
+    const u = table.unresolved;
+    warnings.push(warning('orders-unresolved', { distance: c.distance, orders: u.orders, gratingWidth: input.count * input.period, separateBeyond: u.separateBeyond }));
+  }
+  return { metrics, warnings, evanescence };
 }

@@ -162,6 +162,12 @@ export const WARNING_CATALOGUE = {
         ? ' the job gives; they are listed in the order table as outside; widen the window to see them'
         : `: holding them at a pitch that resolves each order would take more output samples than the ${d.maxOutput} per axis allowed; they are listed in the order table as outside; give a window around the orders of interest`),
   }),
+  'spectrum-sampled-coarsely': entry<{ samples: number; needed: number; step: number }>({
+    title: 'A band sampled coarser than its pattern moves',
+    accuracy: true,
+    message: (d) =>
+      `the band is computed at ${d.samples} wavelengths ${nmStep(d.step)} apart; for the pattern to move by no more than a quarter of its finest structure between them it would take ${d.needed}: where the light is dispersed the map shows the samples as separate lines rather than a continuous spread, and its values there are off; narrow the band or give more samples (spectrum.samples)`,
+  }),
   'near-wavelength': entry<{ cause: 'feature'; feature: number; ratio: number } | { cause: 'screen'; ratio: number }>({
     title: 'Feature or screen within a few wavelengths: scalar theory unreliable',
     accuracy: false,
@@ -412,6 +418,11 @@ export const WARNING_CATALOGUE = {
     },
   }),
 };
+
+/** A wavelength step in nm. */
+function nmStep(m: number): string {
+  return `${Number((m * 1e9).toPrecision(3))} nm`;
+}
 
 export type WarningCode = keyof typeof WARNING_CATALOGUE;
 export type WarningDetails<C extends WarningCode> = (typeof WARNING_CATALOGUE)[C] extends WarningEntry<infer D> ? D : never;

@@ -239,7 +239,7 @@ describe('missing required keys', () => {
     const ps = problems('name: pin\n');
     const byPath = Object.fromEntries(ps.map((p) => [p.path, p.message]));
     expect(byPath).toMatchObject({
-      wavelength: "missing: expected a positive length such as '50 um'",
+      wavelength: "missing: expected a positive length such as '50 um' (or, for light of several wavelengths, a spectrum: lines, a band, a blackbody or a file)",
       distance: "missing: expected a positive length such as '50 um'",
     });
     expect(byPath.aperture).toMatch(/^(missing: )?expected /);
