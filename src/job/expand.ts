@@ -6,6 +6,7 @@ import type { ResolveContext } from '../elements/types.js';
 import type { Case } from '../plan/types.js';
 import type { JobSpec, SweepValues } from './schema.js';
 import { lengthToken } from './units.js';
+import { flatIllumination, type CaseSource } from '../plan/curved-light.js';
 
 export const MAX_CASES = 1_000_000;
 
@@ -24,6 +25,8 @@ const TOKENS: Record<string, string> = {
   wavelength: 'wl',
   distance: 'z',
   'illumination.waist': 'waist',
+  'illumination.waist_distance': 'waist-at',
+  'illumination.distance': 'source',
 };
 
 function isSweep(v: unknown): v is SweepValues {
@@ -49,6 +52,8 @@ export function sweepAxes(job: JobSpec): SweepAxis[] {
     }
   });
   if (job.illumination.kind === 'gaussian') add('illumination.waist', job.illumination.waist);
+  if (job.illumination.kind === 'gaussian' && job.illumination.waist_distance) add('illumination.waist_distance', job.illumination.waist_distance);
+  if (job.illumination.kind === 'point' || job.illumination.kind === 'extended') add('illumination.distance', job.illumination.distance);
   add('distance', job.distance);
   return axes;
 }
@@ -103,7 +108,7 @@ export function expandJob(job: JobSpec): Case[] {
       distance: value('distance'),
       aperture: resolveAperture(job, value, { wavelength: value('wavelength') }),
       ...(job.planes ? { planes: job.planes.map((p, i) => ({ after: value(`planes.${i}.after`), aperture: resolveElement(p.element, (k) => value(`planes.${i}.element.${k}`), { wavelength: value('wavelength') }) })) } : {}),
-      illumination: resolveIllumination(job, value),
+      ...curvedLight(job, value),
       ...(job.grid ? { grid: job.grid } : {}),
       ...(job.window ? { window: job.window } : {}),
       method: job.method,
@@ -138,8 +143,20 @@ function signedKey(job: JobSpec, key: string): boolean {
   return elementOf(spec).signed?.includes(m[2]!) ?? false;
 }
 
+/** The case's light: flat light as given, or curved light (a source) with the flat light that stands in for it. */
+function curvedLight(job: JobSpec, value: (key: string) => number): { illumination: Illumination; source?: CaseSource } {
+  const ill = job.illumination;
+  let source: CaseSource | null = null;
+  if (ill.kind === 'point') source = { kind: 'point', distance: value('illumination.distance'), at: ill.at };
+  if (ill.kind === 'extended') source = { kind: 'extended', shape: ill.shape, size: ill.size, distance: value('illumination.distance'), at: ill.at };
+  if (ill.kind === 'gaussian' && ill.waist_distance) source = { kind: 'gaussian', waist: value('illumination.waist'), waistDistance: value('illumination.waist_distance'), tilt: ill.tilt };
+  if (!source) return { illumination: resolveIllumination(job, value) };
+  return { illumination: flatIllumination(source, value('wavelength')), source };
+}
+
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {
   const ill = job.illumination;
+  if (ill.kind === 'point' || ill.kind === 'extended') throw new Error('a source is resolved by curvedLight');
   if (ill.kind === 'plane') return { kind: 'plane', tilt: ill.tilt };
   return { kind: 'gaussian', waist: value('illumination.waist'), tilt: ill.tilt };
 }

@@ -52,9 +52,23 @@ const tilt = z
   .tuple([angle, angle], { error: "expected two angles [x, y] such as ['2 deg', 0]" })
   .default([0, 0]);
 
+// Curved light (plan/curved-light.ts): a point or an extended source `distance` before the aperture,
+// at [ξ, η] across the axis (its direction to the aperture's centre replaces a tilt).
+const sourceAt = z
+  .tuple([position, position], { error: "expected the source's position across the axis [x, y] such as ['1 mm', 0]" })
+  .default([0, 0]);
+const SOURCE_SHAPES = ['disc', 'slit', 'rectangle'] as const;
+const sourceSizeMsg = "expected the source's size: a diameter or width such as '0.5 mm', or [width, height] for a rectangle";
+const sourceSize = z.union([
+  z.tuple([positiveLength(), positiveLength()], { error: sourceSizeMsg }).transform(([w, h]): [number, number] => [w, h]),
+  positiveLength().transform((w): [number, number] => [w, w]),
+], { error: sourceSizeMsg });
+
 const illuminationKinds = {
   plane: { kind: z.literal('plane'), tilt },
-  gaussian: { kind: z.literal('gaussian'), waist: sweepLength(), tilt },
+  gaussian: { kind: z.literal('gaussian'), waist: sweepLength(), tilt, waist_distance: sweepLength().optional() },
+  point: { kind: z.literal('point'), distance: sweepLength(), at: sourceAt },
+  extended: { kind: z.literal('extended'), shape: z.enum(SOURCE_SHAPES, { error: `expected one of ${SOURCE_SHAPES.join(', ')}` }), size: sourceSize, distance: sweepLength(), at: sourceAt },
 } as const;
 export type IlluminationKind = keyof typeof illuminationKinds;
 export const ILLUMINATION_KINDS = Object.keys(illuminationKinds) as IlluminationKind[];
@@ -64,7 +78,7 @@ export const ILLUMINATION_KEYS: Record<IlluminationKind, string[]> = Object.from
 
 const illumination = z.discriminatedUnion(
   'kind',
-  [z.strictObject(illuminationKinds.plane), z.strictObject(illuminationKinds.gaussian)],
+  [z.strictObject(illuminationKinds.plane), z.strictObject(illuminationKinds.gaussian), z.strictObject(illuminationKinds.point), z.strictObject(illuminationKinds.extended)],
   { error: `expected a mapping such as {kind: plane} (kind: one of ${ILLUMINATION_KINDS.join(', ')})` },
 );
 
@@ -228,7 +242,7 @@ export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
   const a = job.aperture;
   // The tilts are the incident direction's cosines α = sin θx, β = sin θy (optics/source.ts): both
   // under 90° is not enough, the direction must exist (α² + β² < 1), or no light reaches the screen.
-  const [tx, ty] = job.illumination.tilt;
+  const [tx, ty] = 'tilt' in job.illumination ? job.illumination.tilt : [0, 0];
   const s2 = Math.sin(tx) ** 2 + Math.sin(ty) ** 2;
   if (!(s2 < 1)) {
     ctx.addIssue({
@@ -263,9 +277,21 @@ export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
   if (pinholeProblem) ctx.addIssue({ code: 'custom', path: ['search', 'pinhole'], message: pinholeProblem });
   // (Both searches are optional keys, so an empty mapping would ask for nothing.)
   if (job.search && SEARCH_KEYS.every((k) => !(job.search as Record<string, unknown>)[k])) ctx.addIssue({ code: 'custom', path: ['search'], message: `expected ${SEARCH_KEYS.join(' or ')} in the search mapping` });
-  element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }), { illumination: job.illumination.kind });
+  element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }), { illumination: job.illumination.kind === 'gaussian' ? 'gaussian' : 'plane' });
   if (job.planes) checkPlanes(job, (path, message) => ctx.addIssue({ code: 'custom', path, message }));
+  checkCurvedLight(job, (path, message) => ctx.addIssue({ code: 'custom', path, message }));
 });
+
+/** What curved light (a source at a distance, a waist before the aperture) cannot be combined with. */
+function checkCurvedLight(job: { illumination: { kind: string; waist_distance?: unknown }; planes?: unknown; search?: { 'smallest-spot'?: unknown; pinhole?: unknown } }, problem: (path: (string | number)[], message: string) => void): void {
+  const ill = job.illumination;
+  const curved = ill.kind === 'point' || ill.kind === 'extended' || (ill.kind === 'gaussian' && ill.waist_distance !== undefined);
+  if (!curved) return;
+  const what = ill.kind === 'gaussian' ? 'a waist before the aperture (waist_distance)' : `a ${ill.kind} source`;
+  if (job.planes) problem(['planes'], `expected no planes with ${what}: planes in sequence take a plane wave or a Gaussian beam with its waist at the first plane`);
+  if (job.search?.['smallest-spot']) problem(['search', 'smallest-spot'], `expected no smallest-spot search with ${what}: the search compares spots under flat light`);
+  if (job.search?.pinhole) problem(['search', 'pinhole'], `expected no pinhole search with ${what}: the pinhole answers are read at a lens's focus under flat light`);
+}
 
 /** What a job with planes in sequence cannot also ask for, and what a later plane cannot hold. */
 interface PlanesJob {
@@ -311,6 +337,10 @@ const QUANTITY_KEYS: Record<string, UnitKind> = {
   ...elementLengthKeys('aperture'),
   'illumination.waist': 'length',
   'illumination.tilt': 'angle',
+  'illumination.waist_distance': 'length',
+  'illumination.distance': 'length',
+  'illumination.at': 'length',
+  'illumination.size': 'length',
   'grid.pitch': 'length',
   window: 'length',
   'detector.size': 'length',

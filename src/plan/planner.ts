@@ -19,6 +19,7 @@ import { BASELINE_MEMORY } from './costs.js';
 import { bytes, fmt, len, pct, seconds } from './words.js';
 import { planWindow, windowLoss } from './window.js';
 import { planSequence } from './sequence.js';
+import { planCurvedLight } from './curved-light.js';
 import { answerVariants, searchLimits } from './answers.js';
 import { METHOD_NAMES, METHOD_REGISTRY, methodWords } from '../methods/registry.js';
 import type { MethodDescriptor, Sampling, Validity, ValidityInputs } from '../methods/types.js';
@@ -56,6 +57,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   const maxWork = opts.maxWork ?? DEFAULT_MAX_WORK;
   // Planes in sequence have a planner of their own (one method: the Fresnel integral plane to plane).
   if (c.planes?.length) return planSequence(c, { maxMemoryBytes: maxMemory, maxWork });
+  // Curved light (a source at a distance): planned as the equivalent flat-light case (plan/curved-light.ts).
+  if (c.source) return planCurvedLight(c as Case & { source: NonNullable<Case['source']> }, (flat) => planCase(flat, { ...opts, countAnswers: false }));
   const lam = c.wavelength;
   const z = c.distance;
   const k = (2 * Math.PI) / lam;

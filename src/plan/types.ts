@@ -2,6 +2,7 @@ import type { Aperture, Illumination } from '../optics/aperture.js';
 import type { Axis } from '../optics/field.js';
 import type { MethodRequest } from '../job/schema.js';
 import type { WarningCode } from '../warnings/catalogue.js';
+import type { CaseSource, FlatLight } from './curved-light.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
 export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct' | 'lens-chirp' | 'planes';
@@ -38,6 +39,11 @@ export interface Case {
    */
   planes?: PlaneSpec[];
   illumination: Illumination;
+  /**
+   * Light curved at the aperture (a point source, a Gaussian waist before it, an extended source):
+   * `illumination` is then the flat light that stands in for it (plan/curved-light.ts).
+   */
+  source?: CaseSource;
   grid?: { size?: number; pitch?: number };
   window?: [number, number];
   method: MethodRequest;
@@ -243,4 +249,6 @@ export interface Plan {
   sequence?: { legs: SequenceLeg[] };
   /** Set when the case cannot be computed as planned (it is then reported, not run). */
   error?: string;
+  /** Curved light (case.source): the flat-light plan computed in its place, and how its result maps back. */
+  flatLight?: FlatLight;
 }

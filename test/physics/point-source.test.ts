@@ -1,0 +1,99 @@
+// A point source at a distance before the aperture (plan/curved-light.ts: the Fresnel scaling
+// theorem), against published results and an independent quadrature of the exact integral.
+import { describe, expect, it } from 'vitest';
+import { planCase } from '../../src/plan/planner.js';
+import { mm, nm, um } from '../helpers.js';
+import { run, sourceCase, valueAt } from './curved-light-helpers.js';
+
+const lam = 633 * nm;
+
+/**
+ * The exact on-axis intensity behind a disc of radius a lit by a point source at s on the axis: the
+ * Rayleigh–Sommerfeld integral of the first kind, U = ∫₀^a U₀(r)·(z/ρ)(1/ρ − ik)e^{ikρ}/ρ · r dr
+ * (Goodman §3.5, the azimuth done), with U₀ = (s/R)·e^{ik(R − s)}, R = √(r² + s²), the spherical
+ * wave of unit amplitude at the aperture's centre; composite Simpson rule on 40 000 panels (the
+ * phase turns through under 100 rad here). Test code only, sharing nothing with src/.
+ */
+function exactOnAxis(a: number, s: number, z: number): number {
+  const k = (2 * Math.PI) / lam;
+  const n = 40000;
+  const h = a / n;
+  let re = 0;
+  let im = 0;
+  for (let j = 0; j <= n; j++) {
+    const r = j * h;
+    const R = Math.hypot(r, s);
+    const rho = Math.hypot(r, z);
+    const amp0 = s / R;
+    const ph = k * (R - s) + k * rho;
+    // (z/ρ)(1/ρ − ik)/ρ · r
+    const fr = ((z / rho) * r) / (rho * rho);
+    const fi = (-(z / rho) * k * r) / rho;
+    const c = Math.cos(ph) * amp0;
+    const si = Math.sin(ph) * amp0;
+    const wgt = j === 0 || j === n ? 1 : j % 2 ? 4 : 2;
+    re += wgt * (fr * c - fi * si);
+    im += wgt * (fr * si + fi * c);
+  }
+  re *= h / 3;
+  im *= h / 3;
+  return re * re + im * im;
+}
+
+describe('point source', () => {
+  // Born & Wolf, Principles of Optics §8.8 (and Goodman, Introduction to Fourier Optics): behind a
+  // circular opening of radius a lit by a point source at s, the on-axis field is the free wave
+  // times 1 − e^{iπN_F}, N_F = a²(1/s + 1/z)/λ, so I = I_geometric·4 sin²(πN_F/2) with
+  // I_geometric = (s/(s + z))² (the point's irradiance at the screen, 1 at the aperture's centre;
+  // inverse square law). Checked at Fresnel numbers from 0.5 to 3.5, through maxima and minima.
+  const a = 0.5 * mm;
+  const s = 1;
+  for (const nf of [0.5, 1, 1.5, 2.5, 3.5]) {
+    it(`on the axis behind a 1 mm hole, source 1 m before it, N_F = ${nf}: (s/(s+z))²·4sin²(πN_F/2) (Born & Wolf §8.8)`, () => {
+      const z = 1 / (((nf * lam) / (a * a)) - 1 / s);
+      const { rec, codes } = run(sourceCase({ shape: 'circle', diameter: 2 * a, opaque: false }, z, { kind: 'point', distance: s, at: [0, 0] }));
+      const geometric = (s / (s + z)) ** 2;
+      const expected = geometric * 4 * Math.sin((Math.PI * nf) / 2) ** 2;
+      const got = valueAt(rec.computed, 0, 0);
+      // Error budget: the planner's grids hold 0.25 % of the peak (limits.ts oversampling2D) and the
+      // paraxial scaling drops ka⁴/(8s³) + ka⁴/(8z³) ≲ 2e-3 rad here: 1 % of the free wave's 4·I_geometric.
+      expect(Math.abs(got - expected)).toBeLessThan(0.01 * 4 * geometric);
+      // The independent exact integral agrees to the same budget.
+      expect(Math.abs(exactOnAxis(a, s, z) - expected)).toBeLessThan(0.01 * 4 * geometric);
+      expect(codes).not.toContain('curved-light-paraxial');
+    });
+  }
+
+  it('the plan says what it did: flat light at z_eff = zs/(s+z), magnified (s+z)/s', () => {
+    const z = 300 * mm;
+    const plan = planCase(sourceCase({ shape: 'circle', diameter: 1 * mm, opaque: false }, z, { kind: 'point', distance: 120 * mm, at: [0, 0] }));
+    expect(plan.flatLight!.plan.case.distance).toBeCloseTo((z * 0.12) / (z + 0.12), 12);
+    expect(plan.flatLight!.magnification).toBeCloseTo((0.12 + z) / 0.12, 12);
+    expect(plan.reasons[0]).toMatch(/point source 120 mm before the aperture, on the axis/);
+    expect(plan.reasons[0]).toMatch(/z_eff = zR\/\(R \+ z\) = 85\.7\d* mm and magnified ×3\.5/);
+    // The window is on the real screen: the geometric shadow is 1 mm × 3.5 wide.
+    expect(2 * plan.x.windowHalf).toBeGreaterThan(3.5 * mm);
+  });
+
+  it('a pinhole images an off-axis point to a spot centred at −ξ·z/s (the pinhole camera; common practice)', () => {
+    const s = 100 * mm;
+    const z = 150 * mm;
+    for (const at of [[2 * mm, 0], [-1 * mm, 1.5 * mm]] as [number, number][]) {
+      const { rec, codes } = run(sourceCase({ shape: 'circle', diameter: 60 * um, opaque: false }, z, { kind: 'point', distance: s, at }));
+      const [cx, cy] = rec.metrics.centroid;
+      // The spot (about 2λz_eff/D·M ≈ 5 mm⁄… wide) is symmetric about its centre: the centroid within
+      // 0.5 % of the shift (the window's 2 % loss target may clip its tails unevenly).
+      expect(Math.abs(cx - (-at[0] * z) / s)).toBeLessThan(0.005 * Math.hypot(...at) * (z / s));
+      expect(Math.abs(cy! - (-at[1] * z) / s)).toBeLessThan(0.005 * Math.hypot(...at) * (z / s));
+      expect(codes).not.toContain('curved-light-paraxial');
+    }
+  });
+
+  it('warns (accuracy) where the spherical wave is not paraxial across the aperture, and stays quiet where it is', () => {
+    // A 4 mm hole 5 mm from the source: ka⁴/(8s³) ≈ 200 rad.
+    const near = planCase(sourceCase({ shape: 'circle', diameter: 4 * mm, opaque: false }, 100 * mm, { kind: 'point', distance: 5 * mm, at: [0, 0] }));
+    expect(near.warnings.map((w) => w.code)).toContain('curved-light-paraxial');
+    const far = planCase(sourceCase({ shape: 'circle', diameter: 1 * mm, opaque: false }, 100 * mm, { kind: 'point', distance: 500 * mm, at: [0, 0] }));
+    expect(far.warnings.map((w) => w.code)).not.toContain('curved-light-paraxial');
+  });
+});
