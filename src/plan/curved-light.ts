@@ -14,6 +14,7 @@ import type { Illumination } from '../optics/aperture.js';
 import { apertureFacts } from '../optics/aperture.js';
 import { warning } from '../warnings/catalogue.js';
 import { LIMITS } from './limits.js';
+import { nextFastFftSize } from '../optics/fft.js';
 import { droppedPhase, paraxialVariation } from './paraxial.js';
 import { fmt, len } from './words.js';
 import type { AxisPlan, Case, Plan } from './types.js';
@@ -213,11 +214,24 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
     const p = sourcePad(half, a.output.step);
     return p === 0 ? a : { ...a, output: { n: a.output.n + 2 * p, start: a.output.start - p * a.output.step, step: a.output.step }, windowHalf: a.windowHalf + p * a.output.step };
   };
+  const x = widen(mapAxis(inner.x), hx);
+  const y = inner.y ? widen(mapAxis(inner.y), hy) : null;
+  // The convolution's cost (run/source-blur.ts): one complex FFT grid over the widened window,
+  // forward and back, and the widened map beside the computed one.
+  let { memoryBytes, work } = inner;
+  if (s.kind === 'extended') {
+    const cells = x.output.n * (y ? y.output.n : 1);
+    const grid = nextFastFftSize(x.output.n) * (y ? nextFastFftSize(y.output.n) : 1);
+    memoryBytes += 16 * grid + 16 * cells;
+    work += 2 * 5 * grid * Math.log2(Math.max(2, grid));
+  }
   return {
     ...inner,
     case: c,
-    x: widen(mapAxis(inner.x), hx),
-    y: inner.y ? widen(mapAxis(inner.y), hy) : null,
+    x,
+    y,
+    memoryBytes,
+    work,
     beams,
     ...(inner.beamRadius !== undefined ? { beamRadius: inner.beamRadius * M } : {}),
     reasons: [...reasons, ...inner.reasons],
