@@ -54,6 +54,7 @@ export function sweepAxes(job: JobSpec): SweepAxis[] {
   if (job.illumination.kind === 'gaussian') add('illumination.waist', job.illumination.waist);
   if (job.illumination.kind === 'gaussian' && job.illumination.waist_distance) add('illumination.waist_distance', job.illumination.waist_distance);
   if (job.illumination.kind === 'point' || job.illumination.kind === 'extended') add('illumination.distance', job.illumination.distance);
+  if (job.illumination.kind === 'points' && job.illumination.distance) add('illumination.distance', job.illumination.distance);
   add('distance', job.distance);
   return axes;
 }
@@ -148,6 +149,10 @@ function curvedLight(job: JobSpec, value: (key: string) => number): { illuminati
   const ill = job.illumination;
   let source: CaseSource | null = null;
   if (ill.kind === 'point') source = { kind: 'point', distance: value('illumination.distance'), at: ill.at };
+  if (ill.kind === 'points') {
+    const far = ill.distance === undefined;
+    source = { kind: 'points', distance: far ? null : value('illumination.distance'), points: ill.points.map((p) => ({ at: (far ? p.angle : p.at) ?? [0, 0], power: p.power })) };
+  }
   if (ill.kind === 'extended') source = { kind: 'extended', shape: ill.shape, size: ill.size, distance: value('illumination.distance'), at: ill.at };
   if (ill.kind === 'gaussian' && ill.waist_distance) source = { kind: 'gaussian', waist: value('illumination.waist'), waistDistance: value('illumination.waist_distance'), tilt: ill.tilt };
   if (!source) return { illumination: resolveIllumination(job, value) };
@@ -156,7 +161,7 @@ function curvedLight(job: JobSpec, value: (key: string) => number): { illuminati
 
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {
   const ill = job.illumination;
-  if (ill.kind === 'point' || ill.kind === 'extended') throw new Error('a source is resolved by curvedLight');
+  if (ill.kind === 'point' || ill.kind === 'points' || ill.kind === 'extended') throw new Error('a source is resolved by curvedLight');
   if (ill.kind === 'plane') return { kind: 'plane', tilt: ill.tilt };
   return { kind: 'gaussian', waist: value('illumination.waist'), tilt: ill.tilt };
 }

@@ -64,10 +64,28 @@ const sourceSize = z.union([
   positiveLength().transform((w): [number, number] => [w, w]),
 ], { error: sourceSizeMsg });
 
+// Mutually incoherent points (two-point resolution): at a distance, each point's position; at
+// infinity (no distance), each point's direction as two angles. Powers are relative.
+export const POINT_COUNT_MAX = 16;
+const powerMsg = 'expected a relative power, a number above 0 and at most 1e6, such as 1 or 0.5';
+const pointOne = z.strictObject(
+  {
+    at: z.tuple([position, position], { error: "expected a position [x, y] across the axis such as ['0.1 mm', 0]" }).optional(),
+    angle: z.tuple([angle, angle], { error: "expected the point's direction as angles [x, y] such as ['0.5 mrad', 0]" }).optional(),
+    power: z.number({ error: powerMsg }).gt(0, { error: powerMsg }).max(1e6, { error: powerMsg }).default(1),
+  },
+  { error: mappingError("expected a point such as {at: ['0.1 mm', 0], power: 1} (or {angle: ['0.5 mrad', 0]} without a distance)") },
+);
+const pointList = z
+  .array(pointOne, { error: `expected a list of 2 to ${POINT_COUNT_MAX} points` })
+  .min(2, { error: `expected a list of 2 to ${POINT_COUNT_MAX} points` })
+  .max(POINT_COUNT_MAX, { error: `expected a list of 2 to ${POINT_COUNT_MAX} points` });
+
 const illuminationKinds = {
   plane: { kind: z.literal('plane'), tilt },
   gaussian: { kind: z.literal('gaussian'), waist: sweepLength(), tilt, waist_distance: sweepLength().optional() },
   point: { kind: z.literal('point'), distance: sweepLength(), at: sourceAt },
+  points: { kind: z.literal('points'), distance: sweepLength().optional(), points: pointList },
   extended: { kind: z.literal('extended'), shape: z.enum(SOURCE_SHAPES, { error: `expected one of ${SOURCE_SHAPES.join(', ')}` }), size: sourceSize, distance: sweepLength(), at: sourceAt },
 } as const;
 export type IlluminationKind = keyof typeof illuminationKinds;
@@ -78,7 +96,7 @@ export const ILLUMINATION_KEYS: Record<IlluminationKind, string[]> = Object.from
 
 const illumination = z.discriminatedUnion(
   'kind',
-  [z.strictObject(illuminationKinds.plane), z.strictObject(illuminationKinds.gaussian), z.strictObject(illuminationKinds.point), z.strictObject(illuminationKinds.extended)],
+  [z.strictObject(illuminationKinds.plane), z.strictObject(illuminationKinds.gaussian), z.strictObject(illuminationKinds.point), z.strictObject(illuminationKinds.points), z.strictObject(illuminationKinds.extended)],
   { error: `expected a mapping such as {kind: plane} (kind: one of ${ILLUMINATION_KINDS.join(', ')})` },
 );
 
@@ -283,11 +301,16 @@ export const jobSchema = z.strictObject(jobShape).superRefine((job, ctx) => {
 });
 
 /** What curved light (a source at a distance, a waist before the aperture) cannot be combined with. */
-function checkCurvedLight(job: { illumination: { kind: string; waist_distance?: unknown }; planes?: unknown; search?: { 'smallest-spot'?: unknown; pinhole?: unknown } }, problem: (path: (string | number)[], message: string) => void): void {
+function checkCurvedLight(job: { illumination: { kind: string; waist_distance?: unknown; distance?: unknown; points?: { at?: unknown; angle?: unknown }[] }; planes?: unknown; search?: { 'smallest-spot'?: unknown; pinhole?: unknown } }, problem: (path: (string | number)[], message: string) => void): void {
   const ill = job.illumination;
-  const curved = ill.kind === 'point' || ill.kind === 'extended' || (ill.kind === 'gaussian' && ill.waist_distance !== undefined);
+  const curved = ill.kind === 'point' || ill.kind === 'points' || ill.kind === 'extended' || (ill.kind === 'gaussian' && ill.waist_distance !== undefined);
+  // Points at a distance have positions; points at infinity, directions.
+  (ill.points ?? []).forEach((p, i) => {
+    if (ill.distance !== undefined && (p.at === undefined || p.angle !== undefined)) problem(['illumination', 'points', i], 'expected a position (at) and no angle: the points are at the distance given');
+    if (ill.distance === undefined && (p.angle === undefined || p.at !== undefined)) problem(['illumination', 'points', i], 'expected a direction (angle) and no position: without a distance the points are at infinity (give a distance for points at positions)');
+  });
   if (!curved) return;
-  const what = ill.kind === 'gaussian' ? 'a waist before the aperture (waist_distance)' : `a ${ill.kind} source`;
+  const what = ill.kind === 'gaussian' ? 'a waist before the aperture (waist_distance)' : ill.kind === 'points' ? 'several points' : `a ${ill.kind} source`;
   if (job.planes) problem(['planes'], `expected no planes with ${what}: planes in sequence take a plane wave or a Gaussian beam with its waist at the first plane`);
   if (job.search?.['smallest-spot']) problem(['search', 'smallest-spot'], `expected no smallest-spot search with ${what}: the search compares spots under flat light`);
   if (job.search?.pinhole) problem(['search', 'pinhole'], `expected no pinhole search with ${what}: the pinhole answers are read at a lens's focus under flat light`);
@@ -341,6 +364,8 @@ const QUANTITY_KEYS: Record<string, UnitKind> = {
   'illumination.distance': 'length',
   'illumination.at': 'length',
   'illumination.size': 'length',
+  'illumination.points.at': 'length',
+  'illumination.points.angle': 'angle',
   'grid.pitch': 'length',
   window: 'length',
   'detector.size': 'length',

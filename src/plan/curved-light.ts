@@ -29,7 +29,41 @@ export type CaseSource =
    * A uniform, incoherent source at `distance`, centred at [ξ, η]: a disc (size[0] its diameter), a
    * slit (size[0] its width along x, long along y) or a rectangle (size: [width, height]).
    */
-  | { kind: 'extended'; shape: 'disc' | 'slit' | 'rectangle'; size: [number, number]; distance: number; at: [number, number] };
+  | { kind: 'extended'; shape: 'disc' | 'slit' | 'rectangle'; size: [number, number]; distance: number; at: [number, number] }
+  /**
+   * Mutually incoherent points, each with its irradiance at the aperture's centre (`power`, any
+   * unit: only the ratios count): at `distance`, each `at` a position [ξ, η] across the axis; at
+   * infinity (distance null), each `at` the direction of its light, angles [θx, θy].
+   */
+  | { kind: 'points'; distance: number | null; points: { at: [number, number]; power: number }[] };
+
+/** The points' power-weighted centre (positions, or angles at infinity): the flat case's point. */
+export function pointsCentre(source: Extract<CaseSource, { kind: 'points' }>): [number, number] {
+  const total = source.points.reduce((t, p) => t + p.power, 0);
+  const c: [number, number] = [0, 0];
+  for (const p of source.points) {
+    c[0] += (p.power / total) * p.at[0];
+    c[1] += (p.power / total) * p.at[1];
+  }
+  return c;
+}
+
+/**
+ * Each point's pattern is the centre point's moved on the screen by a shift, with a weight (its
+ * share of the power): at a distance s by −(ξ − ξ_c)·z/s (the paraxial shift theorem), at infinity
+ * by z·(tan θ − tan θ_c) (where a tilted plane wave lands; paraxial likewise).
+ */
+export function pointShifts(source: Extract<CaseSource, { kind: 'points' }>, z: number): { shift: [number, number]; weight: number }[] {
+  const total = source.points.reduce((t, p) => t + p.power, 0);
+  const c = pointsCentre(source);
+  return source.points.map((p) => ({
+    weight: p.power / total,
+    shift:
+      source.distance === null
+        ? [z * (Math.tan(p.at[0]) - Math.tan(c[0])), z * (Math.tan(p.at[1]) - Math.tan(c[1]))]
+        : [(-(p.at[0] - c[0]) * z) / source.distance, (-(p.at[1] - c[1]) * z) / source.distance],
+  }));
+}
 
 /** The Gaussian beam's Rayleigh range πw₀²/λ (Siegman, Lasers, ch. 17). */
 export function rayleighRange(waist: number, lam: number): number {
@@ -52,6 +86,8 @@ export function curvatureRadius(source: CaseSource, lam: number): number {
     const zr = rayleighRange(source.waist, lam);
     return d + (zr * zr) / d;
   }
+  // (Points at infinity: flat light, R = ∞.)
+  if (source.kind === 'points') return source.distance ?? Infinity;
   return source.distance;
 }
 
@@ -63,8 +99,10 @@ export function curvatureRadius(source: CaseSource, lam: number): number {
  */
 export function flatIllumination(source: CaseSource, lam: number): Illumination {
   if (source.kind === 'gaussian') return { kind: 'gaussian', waist: beamRadiusAfter(source.waist, lam, source.waistDistance), tilt: source.tilt };
-  const [xi, eta] = source.at;
-  const r = Math.hypot(xi, eta, source.distance);
+  if (source.kind === 'points' && source.distance === null) return { kind: 'plane', tilt: pointsCentre(source) };
+  const [xi, eta] = source.kind === 'points' ? pointsCentre(source) : source.at;
+  const distance = source.kind === 'points' ? source.distance! : source.distance;
+  const r = Math.hypot(xi, eta, distance);
   // (`|| 0`: a source on the axis gives tilts of 0, not −0.)
   return { kind: 'plane', tilt: [Math.asin(-xi / r) || 0, Math.asin(-eta / r) || 0] };
 }
@@ -86,7 +124,8 @@ export interface FlatEquivalent {
 export function flatEquivalent(c: Case & { source: CaseSource }, oneD: boolean): FlatEquivalent {
   const R = curvatureRadius(c.source, c.wavelength);
   const z = c.distance;
-  const M = (R + z) / R;
+  // (R = ∞, points at infinity: the flat case is the case itself, M = 1.)
+  const M = Number.isFinite(R) ? (R + z) / R : 1;
   const zEff = z / M;
   const { source: _source, ...rest } = c;
   const flat: Case = {
@@ -115,6 +154,10 @@ export interface FlatLight {
 export function sourcePhase(source: CaseSource, lam: number, ax: number, ay: number): number {
   if (source.kind === 'gaussian') return 0;
   const k = (2 * Math.PI) / lam;
+  if (source.kind === 'points') {
+    const s = source.distance;
+    return s === null ? 0 : Math.max(...source.points.map((p) => paraxialVariation(k, s, ax, ay, Math.abs(p.at[0]), Math.abs(p.at[1]))));
+  }
   // An extended source's farthest point from the aperture's centre is the worst.
   const [hx, hy] = source.kind === 'extended' ? [source.size[0] / 2, source.shape === 'slit' ? 0 : source.size[1] / 2] : [0, 0];
   return paraxialVariation(k, source.distance, ax, ay, Math.abs(source.at[0]) + hx, Math.abs(source.at[1]) + hy);
@@ -155,6 +198,11 @@ export function sourceWords(source: CaseSource, lam: number): string {
     const zr = rayleighRange(source.waist, lam);
     return `Gaussian beam of waist radius ${len(source.waist)} ${len(source.waistDistance)} before the aperture (Rayleigh range ${len(zr)}): at the aperture its radius is ${len(beamRadiusAfter(source.waist, lam, source.waistDistance))}`;
   }
+  if (source.kind === 'points') {
+    const where = source.distance === null ? 'at infinity (directions' : `${len(source.distance)} before the aperture (positions`;
+    const list = source.points.map((p) => (source.distance === null ? `[${fmt(p.at[0], 4)}, ${fmt(p.at[1], 4)}] rad` : `[${len(p.at[0])}, ${len(p.at[1])}]`) + ` × ${fmt(p.power, 4)}`).join(', ');
+    return `${source.points.length} mutually incoherent points ${where} × power: ${list})`;
+  }
   const size = source.shape === 'rectangle' ? `${len(source.size[0])} × ${len(source.size[1])}` : len(source.size[0]);
   return `uniform incoherent ${source.shape} source ${size} wide, ${len(source.distance)} before the aperture, centred ${off(source.at)}`;
 }
@@ -190,10 +238,17 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
   const words = sourceWords(s, lam);
   const scaleWords = facts.oneD ? `divided by M = ${fmt(M, 4)} (a 1-D problem)` : `divided by M² = ${fmt(M * M, 4)}`;
   const reasons = [
-    `${words}: its wavefront at the aperture is a sphere of radius R = ${len(eq.radius)}, taken paraxially (the Fresnel scaling theorem, Goodman §4.2): computed as flat light at z_eff = zR/(R + z) = ${len(eq.zEff)} and magnified ×${fmt(M, 4)} (M = (R + z)/R), intensities ${scaleWords}; intensities are relative to the incident irradiance at the aperture's centre (1), and the Fresnel number below is a²/(λ·z_eff) = a²(1/R + 1/z)/λ.`,
+    !Number.isFinite(eq.radius)
+    ? `${words}: their light is flat at the aperture, computed at z = ${len(c.distance)} for the centre direction; intensities are relative to the incident irradiance at the aperture's centre (1).`
+    : `${words}: its wavefront at the aperture is a sphere of radius R = ${len(eq.radius)}, taken paraxially (the Fresnel scaling theorem, Goodman §4.2): computed as flat light at z_eff = zR/(R + z) = ${len(eq.zEff)} and magnified ×${fmt(M, 4)} (M = (R + z)/R), intensities ${scaleWords}; intensities are relative to the incident irradiance at the aperture's centre (1), and the Fresnel number below is a²/(λ·z_eff) = a²(1/R + 1/z)/λ.`,
     `The flat case's own reasons and warnings below speak of its distance z_eff and its window: lengths across the screen there are M times smaller than on the real screen (this plan's window and result are the real screen's).`,
     `The paraxial phase the scaling drops: ${fmt(fromSource, 2)} rad from the source to the lit aperture (kρ⁴/(8s³) across it, ρ from the source point's foot) and ${fmt(toScreen, 2)} rad from the aperture to where the light lands on the screen (limit ${LIMITS.paraxialWeightedPhase} rad each).`,
   ];
+  if (s.kind === 'points') {
+    reasons.push(
+      `The points are mutually incoherent: their intensities are summed with their shares of the power, each the centre point's pattern moved by ${s.distance === null ? 'z·(tan θ − tan θ_c)' : '−(ξ − ξ_c)·z/s'} (the paraxial shift theorem), the window widened by the largest move; intensities are relative to the points' total irradiance at the aperture's centre.`,
+    );
+  }
   if (s.kind === 'extended') {
     const b = Math.max(s.size[0], s.shape === 'rectangle' ? s.size[1] : 0);
     reasons.push(
@@ -209,7 +264,7 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
     error = `a slit source (long along y) smears a 2-D pattern along y without end: use it with a 1-D aperture (slits, a grating of lines), or give a disc or a rectangle source`;
   }
   // An extended source widens the window by its projection's reach (run/source-blur.ts).
-  const [hx, hy] = s.kind === 'extended' ? projectedHalfWidths(s, c.distance) : [0, 0];
+  const [hx, hy] = s.kind === 'extended' || s.kind === 'points' ? projectedHalfWidths(s, c.distance) : [0, 0];
   const widen = (a: AxisPlan, half: number): AxisPlan => {
     const p = sourcePad(half, a.output.step);
     return p === 0 ? a : { ...a, output: { n: a.output.n + 2 * p, start: a.output.start - p * a.output.step, step: a.output.step }, windowHalf: a.windowHalf + p * a.output.step };
@@ -219,7 +274,7 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
   // The convolution's cost (run/source-blur.ts): one complex FFT grid over the widened window,
   // forward and back, and the widened map beside the computed one.
   let { memoryBytes, work } = inner;
-  if (s.kind === 'extended') {
+  if (s.kind === 'extended' || s.kind === 'points') {
     const cells = x.output.n * (y ? y.output.n : 1);
     const grid = nextFastFftSize(x.output.n) * (y ? nextFastFftSize(y.output.n) : 1);
     memoryBytes += 16 * grid + 16 * cells;
@@ -242,7 +297,12 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
 }
 
 /** An extended source's outline projected onto the screen: half widths along x and y (m), scaled by z/s. */
-export function projectedHalfWidths(source: Extract<CaseSource, { kind: 'extended' }>, z: number): [number, number] {
+export function projectedHalfWidths(source: Extract<CaseSource, { kind: 'extended' | 'points' }>, z: number): [number, number] {
+  // Points: the largest move along each axis.
+  if (source.kind === 'points') {
+    const shifts = pointShifts(source, z);
+    return [Math.max(...shifts.map((p) => Math.abs(p.shift[0]))), Math.max(...shifts.map((p) => Math.abs(p.shift[1])))];
+  }
   const scale = z / source.distance;
   const hx = (source.size[0] / 2) * scale;
   const hy = source.shape === 'slit' ? 0 : (source.shape === 'disc' ? source.size[0] : source.size[1]) / 2 * scale;

@@ -22,5 +22,5 @@ export function curvedLightResult(plan: Plan, flat: ComputedCase, engine: Engine
     intensity,
   };
   const s = plan.case.source;
-  return s?.kind === 'extended' ? blurBySource(mapped, s, plan.case.distance, engine) : mapped;
+  return s?.kind === 'extended' || s?.kind === 'points' ? blurBySource(mapped, s, plan.case.distance, engine) : mapped;
 }

@@ -16,10 +16,10 @@ import besselj1 from '@stdlib/math-base-special-besselj1';
 import { isOneD } from '../model/grid.js';
 import { nextFastFftSize } from '../optics/fft.js';
 import type { Engine } from '../optics/engine.js';
-import { projectedHalfWidths, sourcePad, type CaseSource } from '../plan/curved-light.js';
+import { pointShifts, projectedHalfWidths, sourcePad, type CaseSource } from '../plan/curved-light.js';
 import type { ComputedCase } from './compute.js';
 
-type Extended = Extract<CaseSource, { kind: 'extended' }>;
+type Extended = Extract<CaseSource, { kind: 'extended' | 'points' }>;
 
 /** A box of half width h, unit area: its transform sin(2πhf)/(2πhf). */
 export function boxTransform(h: number, f: number): number {
@@ -40,7 +40,11 @@ function frequencies(n: number, d: number): Float64Array {
   return f;
 }
 
-/** The map convolved with the source's projection, on a window widened by its reach (sourcePad cells a side). */
+/**
+ * The map convolved with the source's projection, on a window widened by its reach (sourcePad cells
+ * a side). Mutually incoherent points are a kernel of weighted shifts, Σ wⱼ·δ(x − Δⱼ), whose
+ * transform Σ wⱼ·e^{−2πi f·Δⱼ} moves the band-limited map by any fraction of a cell exactly.
+ */
 export function blurBySource(map: ComputedCase, source: Extended, z: number, engine: Engine): ComputedCase {
   const oneD = isOneD(map);
   const [hx, hy] = projectedHalfWidths(source, z);
@@ -61,12 +65,31 @@ export function blurBySource(map: ComputedCase, source: Extended, z: number, eng
   const fy = oneD ? new Float64Array(1) : frequencies(Ny, map.dy);
   const bx = new Float64Array(Nx);
   const by = new Float64Array(Ny);
-  if (source.shape !== 'disc' || oneD) {
+  if (source.kind === 'points') {
+    const shifts = pointShifts(source, z);
+    for (let r = 0; r < Ny; r++) {
+      for (let c = 0; c < Nx; c++) {
+        let kr = 0;
+        let ki = 0;
+        for (const p of shifts) {
+          // The forward transform is Σ a·e^{−2πi kn/N} (fft.ts), so a move by Δ multiplies bin f by e^{−2πi f·Δ}.
+          const ph = -2 * Math.PI * (fx[c]! * p.shift[0] + (oneD ? 0 : fy[r]! * p.shift[1]));
+          kr += p.weight * Math.cos(ph);
+          ki += p.weight * Math.sin(ph);
+        }
+        const i = 2 * (r * Nx + c);
+        const re = a[i]!;
+        const im = a[i + 1]!;
+        a[i] = re * kr - im * ki;
+        a[i + 1] = re * ki + im * kr;
+      }
+    }
+  } else if (source.shape !== 'disc' || oneD) {
     // A disc's marginal along x (a 1-D map) has the disc's transform on the fx axis.
     for (let k = 0; k < Nx; k++) bx[k] = source.shape === 'disc' ? discTransform(hx, fx[k]!) : boxTransform(hx, fx[k]!);
     for (let k = 0; k < Ny; k++) by[k] = oneD ? 1 : boxTransform(hy, fy[k]!);
   }
-  for (let r = 0; r < Ny; r++) {
+  if (source.kind === 'extended') for (let r = 0; r < Ny; r++) {
     for (let c = 0; c < Nx; c++) {
       const k = source.shape === 'disc' && !oneD ? discTransform(hx, Math.hypot(fx[c]!, fy[r]!)) : bx[c]! * by[r]!;
       const i = 2 * (r * Nx + c);

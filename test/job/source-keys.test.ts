@@ -46,6 +46,22 @@ describe('curved-light keys', () => {
     expect(one("{kind: extended, shape: rectangle, size: ['1 mm', '2 mm'], distance: '1 m', at: [0, '1 mm']}")).toEqual({ kind: 'extended', shape: 'rectangle', size: [0.001, 0.002], distance: 1, at: [0, 0.001] });
   });
 
+  it('points: at a distance with positions, at infinity with directions; powers default to 1', () => {
+    const near = expandJob(parseJobText(HEAD + "illumination: {kind: points, distance: '1 m', points: [{at: ['0.1 mm', 0], power: 2}, {at: ['-0.1 mm', 0]}]}\n").spec)[0]!;
+    expect(near.source).toEqual({ kind: 'points', distance: 1, points: [{ at: [0.0001, 0], power: 2 }, { at: [-0.0001, 0], power: 1 }] });
+    const far = expandJob(parseJobText(HEAD + "illumination: {kind: points, points: [{angle: ['1 mrad', 0]}, {angle: ['-1 mrad', 0]}]}\n").spec)[0]!;
+    expect(far.source).toEqual({ kind: 'points', distance: null, points: [{ at: [0.001, 0], power: 1 }, { at: [-0.001, 0], power: 1 }] });
+    // The flat light is the power-weighted centre's: here on the axis.
+    expect(far.illumination).toEqual({ kind: 'plane', tilt: [0, 0] });
+  });
+
+  it('points: refusals name the point', () => {
+    expect(problems(HEAD + "illumination: {kind: points, distance: '1 m', points: [{angle: ['1 mrad', 0]}, {at: [0, 0]}]}\n")[0]).toMatchObject({ path: 'illumination.points[0]' });
+    expect(problems(HEAD + "illumination: {kind: points, points: [{angle: ['1 mrad', 0]}, {at: [0, 0]}]}\n")[0]).toMatchObject({ path: 'illumination.points[1]' });
+    expect(problems(HEAD + "illumination: {kind: points, points: [{angle: ['1 mrad', 0]}]}\n")[0]!.path).toMatch(/^illumination\.points/);
+    expect(problems(HEAD + "illumination: {kind: points, points: [{angle: [0, 0], power: 0}, {angle: [0, 0]}]}\n")[0]!.path).toMatch(/^illumination\.points\[0\]\.power/);
+  });
+
   it('refuses bad input with the key path', () => {
     expect(problems(HEAD + "illumination: {kind: point}\n")[0]).toMatchObject({ path: 'illumination.distance' });
     expect(problems(HEAD + "illumination: {kind: point, distance: '-5 mm'}\n")[0]!.path).toMatch(/^illumination\.distance/);
