@@ -36,3 +36,37 @@ export function valueAt(m: { nx: number; ny: number; dx: number; dy: number; x0:
   return (1 - tr) * ((1 - tc) * at(r0, c0) + tc * at(r0, c0 + 1)) + tr * ((1 - tc) * at(r0 + 1, c0) + tc * at(r0 + 1, c0 + 1));
 }
 
+
+/**
+ * The exact on-axis intensity behind a disc of radius a lit by a point source at s on the axis: the
+ * Rayleigh–Sommerfeld integral of the first kind, U = ∫₀^a U₀(r)·(z/ρ)(1/ρ − ik)e^{ikρ}/ρ · r dr
+ * (Goodman §3.5, the azimuth done), with U₀ = (s/R)·e^{ik(R − s)}, R = √(r² + s²), the spherical
+ * wave of unit amplitude at the aperture's centre; composite Simpson rule on `panels` panels (even;
+ * enough for the phase, which turns through about πN_F, to change little across one). Test code only, sharing nothing with src/.
+ */
+export function exactOnAxis(lam: number, a: number, s: number, z: number, panels = 40000): number {
+  const k = (2 * Math.PI) / lam;
+  const n = panels;
+  const h = a / n;
+  let re = 0;
+  let im = 0;
+  for (let j = 0; j <= n; j++) {
+    const r = j * h;
+    const R = Math.hypot(r, s);
+    const rho = Math.hypot(r, z);
+    const amp0 = s / R;
+    const ph = k * (R - s) + k * rho;
+    // (z/ρ)(1/ρ − ik)/ρ · r
+    const fr = ((z / rho) * r) / (rho * rho);
+    const fi = (-(z / rho) * k * r) / rho;
+    const c = Math.cos(ph) * amp0;
+    const si = Math.sin(ph) * amp0;
+    const wgt = j === 0 || j === n ? 1 : j % 2 ? 4 : 2;
+    re += wgt * (fr * c - fi * si);
+    im += wgt * (fr * si + fi * c);
+  }
+  re *= h / 3;
+  im *= h / 3;
+  return re * re + im * im;
+}
+
