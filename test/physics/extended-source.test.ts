@@ -1,5 +1,6 @@
 // An extended incoherent source (plan/curved-light.ts, run/source-blur.ts): the intensities of its
 // points summed, as the centre point's pattern convolved with the source's projection.
+import besselj1 from '@stdlib/math-base-special-besselj1';
 import { describe, expect, it } from 'vitest';
 import { isOneD, xAt } from '../../src/model/grid.js';
 import { mm, nm, um } from '../helpers.js';
@@ -67,6 +68,36 @@ describe('extended incoherent source', () => {
       expect(cos > 0).toBe(sinc(u) > 0);
     });
   }
+
+  // Van Cittert–Zernike for a uniform circular source of diameter b (Born & Wolf §10.4.2): the
+  // degree of coherence of two points d apart is 2J₁(v)/v, v = πbd/(λs) (J₁ by @stdlib), first zero at
+  // v = 3.83; the fringes behind the two slits have that visibility (the disc's extent along the
+  // slits changes nothing in a pattern invariant along them).
+  for (const u of [0.4, 0.9]) {
+    it(`two slits lit by a disc source with b·d/(λs) = ${u}: visibility |2J₁(πu)/(πu)| (Born & Wolf §10.4.2)`, () => {
+      const b = (u * lam * s) / d;
+      const { rec } = run(sourceCase(twoSlits, z, { kind: 'extended', shape: 'disc', size: [b, b], distance: s, at: [0, 0] }));
+      const { mean, cos } = fringeFit(rec.computed, (lam * z) / d, 1.5 * (lam * z) / d);
+      const x = Math.PI * u;
+      expect(Math.abs(Math.abs(cos) / mean - Math.abs((2 * besselj1(x)) / x))).toBeLessThan(0.01);
+    });
+  }
+
+  it('a rectangular source far larger than the spot: a uniform rectangle b·z/s, its irradiance the power through the pinhole over its area (common practice)', () => {
+    const D = 0.5 * mm;
+    const [bw, bh] = [30 * mm, 12 * mm];
+    const { rec, plan } = run(sourceCase({ shape: 'circle', diameter: D, opaque: false }, 0.5, { kind: 'extended', shape: 'rectangle', size: [bw, bh], distance: 0.5, at: [0, 0] }));
+    const expected = (Math.PI * (D / 2) ** 2) / (bw * bh);
+    expect(2 * plan.x.windowHalf).toBeGreaterThan(bw);
+    expect(2 * plan.y!.windowHalf).toBeGreaterThan(bh);
+    // Error budget as for the disc: 3 %.
+    expect(Math.abs(valueAt(rec.computed, 0, 0) / expected - 1)).toBeLessThan(0.03);
+    expect(Math.abs(valueAt(rec.computed, 0.2 * bw, -0.15 * bh) / expected - 1)).toBeLessThan(0.03);
+    // Outside along y (4 mm past the edge, where the spot's tails have faded) but within the
+    // width: dark (the kernel is the rectangle, not a square).
+    expect(valueAt(rec.computed, 0, bh / 2 + 4 * mm) / expected).toBeLessThan(0.01);
+    expect(valueAt(rec.computed, 0.45 * bw, 0) / expected).toBeGreaterThan(0.3);
+  });
 
   it('the convolution equals an explicit sum over 41 off-axis point sources computed as separate cases (the paraxial shift theorem)', () => {
     const b = 1.5 * mm;
