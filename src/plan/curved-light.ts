@@ -114,7 +114,10 @@ export interface FlatEquivalent {
   zEff: number;
   /** M = (R + z)/R: the real screen's coordinates are M times the flat case's. */
   magnification: number;
-  /** The real intensity over the flat case's at corresponding points: 1/M² (2-D) or 1/M (1-D). */
+  /**
+   * The real intensity over the flat case's at corresponding points: 1/M², or 1/M for a slit source
+   * on a 1-D aperture (a line source along the slits: nothing spreads along y).
+   */
   intensityScale: number;
   /** The flat case: distance z_eff, a given window divided by M, no source, no answers asked. */
   case: Case;
@@ -136,7 +139,12 @@ export function flatEquivalent(c: Case & { source: CaseSource }, oneD: boolean):
     // The answers (detectors, searches) are read on the real screen, off the mapped result.
     analysis: { detectors: [] },
   };
-  return { radius: R, zEff, magnification: M, intensityScale: oneD ? 1 / M : 1 / (M * M), case: flat };
+  // In a 1-D problem (invariant along y) the Fresnel kernel carries 1/√(λz) per axis: the x-problem
+  // scales the intensity by 1/M. A source of points also spreads its light along the slits, its
+  // free wave falling by 1/M along y too, uniformly near the axis (paraxial): 1/M² in all. Only a
+  // slit source, a line along y, does not spread along y: 1/M.
+  const line = oneD && c.source.kind === 'extended' && c.source.shape === 'slit';
+  return { radius: R, zEff, magnification: M, intensityScale: line ? 1 / M : 1 / (M * M), case: flat };
 }
 
 /** What the flat plan carries for computeCase to map its result back (Plan.flatLight). */
@@ -236,7 +244,10 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
   const fromSource = sourcePhase(s, lam, ax, ay);
   const toScreen = screenPhase(lam, c.distance, ax, ay, beams.filter((b) => b.propagates), footprint);
   const words = sourceWords(s, lam);
-  const scaleWords = facts.oneD ? `divided by M = ${fmt(M, 4)} (a 1-D problem)` : `divided by M² = ${fmt(M * M, 4)}`;
+  const scaleWords =
+    eq.intensityScale * M > 1 - 1e-12
+      ? `divided by M = ${fmt(M, 4)} (a line source along the slits: it does not spread along them)`
+      : `divided by M² = ${fmt(M * M, 4)}${facts.oneD ? ' (along the slits the light spreads freely, by M, the same at every y near the axis)' : ''}`;
   const reasons = [
     !Number.isFinite(eq.radius)
     ? `${words}: their light is flat at the aperture, computed at z = ${len(c.distance)} for the centre direction; intensities are relative to the incident irradiance at the aperture's centre (1).`
@@ -260,6 +271,9 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
     warnings.push(warning('curved-light-paraxial', { source: words, fromSource, toScreen, limit: LIMITS.paraxialWeightedPhase }));
   }
   let error = inner.error;
+  if (!error && s.kind === 'gaussian' && facts.oneD) {
+    error = `a Gaussian beam with its waist before a 1-D aperture (slits, a grating of lines) spreads along the slits too, which a 1-D computation does not follow: give the aperture as a 2-D one (a rectangle as long as the slit), or put the waist at the aperture`;
+  }
   if (!error && s.kind === 'extended' && s.shape === 'slit' && !facts.oneD) {
     error = `a slit source (long along y) smears a 2-D pattern along y without end: use it with a 1-D aperture (slits, a grating of lines), or give a disc or a rectangle source`;
   }

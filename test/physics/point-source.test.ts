@@ -82,6 +82,20 @@ describe('point source', () => {
     }
   });
 
+  it('a point source and a slit (1-D) give the intensity of a point source and a long rectangle near the axis: 1/M² (separable Fresnel integrals; Goodman §4.2)', () => {
+    const s = 0.3;
+    const z = 0.4;
+    const w = 0.4 * mm;
+    const src = { kind: 'point' as const, distance: s, at: [0, 0] as [number, number] };
+    const slit = run(sourceCase({ shape: 'slit', width: w, opaque: false }, z, src)).rec.computed;
+    // The rectangle 100 mm long: along y its edges are 50 mm out, where their fringes on the axis
+    // are about 0.15 % (twice the Fresnel integrals' tail amplitude 1/(π·u·√2), u = 50 mm·√(2/(λz_eff)) ≈ 215).
+    const rect = run(sourceCase({ shape: 'rectangle', width: w, height: 100 * mm, opaque: false }, z, src, { window: [3 * mm, 1 * mm] })).rec.computed;
+    for (const x of [0, 0.1 * mm, 0.25 * mm, 0.4 * mm]) {
+      expect(Math.abs(valueAt(slit, x, 0) / valueAt(rect, x, 0) - 1)).toBeLessThan(0.01);
+    }
+  });
+
   it('warns (accuracy) where the spherical wave is not paraxial across the aperture, and stays quiet where it is', () => {
     // A 4 mm hole 5 mm from the source: ka⁴/(8s³) ≈ 200 rad.
     const near = planCase(sourceCase({ shape: 'circle', diameter: 4 * mm, opaque: false }, 100 * mm, { kind: 'point', distance: 5 * mm, at: [0, 0] }));

@@ -23,7 +23,11 @@ describe('curved light: the transform', () => {
     expect(eq.zEff).toBeCloseTo((0.3 * 0.12) / 0.42, 14);
     expect(eq.magnification).toBeCloseTo(0.42 / 0.12, 14);
     expect(eq.intensityScale).toBeCloseTo((0.12 / 0.42) ** 2, 14);
-    expect(flatEquivalent(c, true).intensityScale).toBeCloseTo(0.12 / 0.42, 14);
+    // A 1-D aperture: a point's light spreads along the slits as well (1/M²), a slit source's does not (1/M).
+    expect(flatEquivalent(c, true).intensityScale).toBeCloseTo((0.12 / 0.42) ** 2, 14);
+    const line = { ...c, source: { kind: 'extended' as const, shape: 'slit' as const, size: [1e-3, 1e-3] as [number, number], distance: 0.12, at: [0, 0] as [number, number] } };
+    expect(flatEquivalent(line, true).intensityScale).toBeCloseTo(0.12 / 0.42, 14);
+    expect(flatEquivalent(line, false).intensityScale).toBeCloseTo((0.12 / 0.42) ** 2, 14);
     // The window asked for is on the real screen; the flat case's is M times smaller.
     expect(eq.case.window![0]).toBeCloseTo(6e-3 / 3.5, 15);
     expect(eq.case.window![1]).toBeCloseTo(4e-3 / 3.5, 15);
