@@ -157,11 +157,20 @@ export interface FlatLight {
 /**
  * The source leg's paraxial error: the spherical wave's phase beyond its quadratic expansion,
  * −kρ⁴/(8s³) with ρ measured from the source point's foot on the aperture plane, peak to peak over
- * the lit aperture (half widths ax, ay). A Gaussian beam is itself a paraxial solution: none.
+ * the lit aperture (half widths ax, ay); for a tilted Gaussian beam, its sphere's terms along the tilt.
  */
 export function sourcePhase(source: CaseSource, lam: number, ax: number, ay: number): number {
-  if (source.kind === 'gaussian') return 0;
   const k = (2 * Math.PI) / lam;
+  if (source.kind === 'gaussian') {
+    // The beam is itself a paraxial solution; but tilted by θ, its sphere of radius R is centred on
+    // its own axis, and the flat tilt times a sphere about the normal misses the sphere's
+    // expansion along the tilt, √(R² − 2Rx·sin θ + x²) = R − x·sin θ + x²cos²θ/(2R) + x³sin θ·cos²θ/(2R²) + …:
+    // kx²sin²θ/(2R) + kx³|sin θ|/(2R²) at the lit edge x.
+    const R = curvatureRadius(source, lam);
+    const sin = Math.hypot(Math.sin(source.tilt[0]), Math.sin(source.tilt[1]));
+    const x = Math.max(ax, ay);
+    return (k * x * x * sin * sin) / (2 * R) + (k * x * x * x * sin) / (2 * R * R);
+  }
   if (source.kind === 'points') {
     const s = source.distance;
     return s === null ? 0 : Math.max(...source.points.map((p) => paraxialVariation(k, s, ax, ay, Math.abs(p.at[0]), Math.abs(p.at[1]))));

@@ -68,7 +68,14 @@ describe('curved light: the transform', () => {
     const rho = a * Math.SQRT2;
     expect(p / ((k * rho ** 4) / (8 * s ** 3))).toBeGreaterThan(0.99);
     expect(p / ((k * rho ** 4) / (8 * s ** 3))).toBeLessThan(1.0);
-    expect(sourcePhase({ kind: 'gaussian', waist: 1e-3, waistDistance: 0.1, tilt: [0, 0] }, lam, a, a)).toBe(0);
+    // A Gaussian beam is paraxial by itself: nothing dropped along its axis; tilted by θ, its sphere
+    // about its own axis differs from tilt × sphere about the normal by kx²sin²θ/(2R) (+ the cubic).
+    const g = { kind: 'gaussian' as const, waist: 1e-3, waistDistance: 0.1, tilt: [0, 0] as [number, number] };
+    expect(sourcePhase(g, lam, a, a)).toBe(0);
+    const R = curvatureRadius(g, lam);
+    const tilted = sourcePhase({ ...g, tilt: [0.1, 0] }, lam, a, a);
+    expect(tilted).toBeGreaterThan((k * a * a * Math.sin(0.1) ** 2) / (2 * R));
+    expect(tilted).toBeLessThan(1.1 * ((k * a * a * Math.sin(0.1) ** 2) / (2 * R)));
   });
 
   it("an extended source's projection is its size times z/s, and the window widens by whole cells that reach it", () => {
