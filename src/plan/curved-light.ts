@@ -12,11 +12,12 @@
 // This module is pure: the planner calls planCurvedLight with itself as the flat planner.
 import type { Illumination } from '../optics/aperture.js';
 import { apertureFacts } from '../optics/aperture.js';
+import { lensOf } from '../elements/registry.js';
 import { warning } from '../warnings/catalogue.js';
 import { LIMITS } from './limits.js';
 import { nextFastFftSize } from '../optics/fft.js';
 import { droppedPhase, paraxialVariation } from './paraxial.js';
-import { fmt, len } from './words.js';
+import { bytes, fmt, len, seconds } from './words.js';
 import type { AxisPlan, Case, Plan } from './types.js';
 
 /** Light with a curved wavefront at the aperture, in SI units (Case.source). */
@@ -230,7 +231,7 @@ export function sourceWords(source: CaseSource, lam: number): string {
  * either leg is beyond the paraxial limit. The returned plan's case is the real one; computeCase
  * computes `flatLight.plan` and maps the result back.
  */
-export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: Case) => Plan): Plan {
+export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: Case) => Plan, limits: { maxMemoryBytes: number; maxWork: number }): Plan {
   const lam = c.wavelength;
   const facts = apertureFacts(c.aperture);
   const eq = flatEquivalent(c, facts.oneD);
@@ -251,7 +252,12 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
   const beams = inner.beams.map((b) => ({ ...b, landing: b.landing ? ([b.landing[0] * M, b.landing[1] * M] as [number, number]) : null }));
   const footprint: [number, number] = [ax * M, ay * M];
   const fromSource = sourcePhase(s, lam, ax, ay);
-  const toScreen = screenPhase(lam, c.distance, ax, ay, beams.filter((b) => b.propagates), footprint);
+  // The screen leg in the real geometry, where it differs from the flat case's: not for light at
+  // infinity (M = 1, the flat case is the real one), nor behind a lens, whose own paraxial check
+  // (the thin lens's kR⁴/(8f³) and its cone, plan/paraxial.ts lensParaxial) the flat plan makes
+  // and which does not depend on the distance.
+  const ownCheck = !Number.isFinite(eq.radius) || lensOf(c.aperture) !== null;
+  const toScreen = ownCheck ? 0 : screenPhase(lam, c.distance, ax, ay, beams.filter((b) => b.propagates), footprint);
   const words = sourceWords(s, lam);
   const scaleWords =
     eq.intensityScale * M > 1 - 1e-12
@@ -262,7 +268,7 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
     ? `${words}: their light is flat at the aperture, computed at z = ${len(c.distance)} for the centre direction; intensities are relative to the incident irradiance at the aperture's centre (1).`
     : `${words}: its wavefront at the aperture is a sphere of radius R = ${len(eq.radius)}, taken paraxially (the Fresnel scaling theorem, Goodman §4.2): computed as flat light at z_eff = zR/(R + z) = ${len(eq.zEff)} and magnified ×${fmt(M, 4)} (M = (R + z)/R), intensities ${scaleWords}; intensities are relative to the incident irradiance at the aperture's centre (1), and the Fresnel number below is a²/(λ·z_eff) = a²(1/R + 1/z)/λ.`,
     `The flat case's own reasons and warnings below speak of its distance z_eff and its window: lengths across the screen there are M times smaller than on the real screen (this plan's window and result are the real screen's).`,
-    `The paraxial phase the scaling drops: ${fmt(fromSource, 2)} rad from the source to the lit aperture (kρ⁴/(8s³) across it, ρ from the source point's foot) and ${fmt(toScreen, 2)} rad from the aperture to where the light lands on the screen (limit ${LIMITS.paraxialWeightedPhase} rad each).`,
+    `The paraxial phase the scaling drops: ${fmt(fromSource, 2)} rad from the source to the lit aperture (kρ⁴/(8s³) across it, ρ from the source point's foot)${ownCheck ? '; from the aperture to the screen the flat case\'s own checks (below) hold' : ` and ${fmt(toScreen, 2)} rad from the aperture to where the light lands on the screen`} (limit ${LIMITS.paraxialWeightedPhase} rad).`,
   ];
   if (s.kind === 'points') {
     reasons.push(
@@ -302,6 +308,8 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
     const grid = nextFastFftSize(x.output.n) * (y ? nextFastFftSize(y.output.n) : 1);
     memoryBytes += 16 * grid + 16 * cells;
     work += 2 * 5 * grid * Math.log2(Math.max(2, grid));
+    if (!error && memoryBytes > limits.maxMemoryBytes) error = `the source's spread widens the window to ${x.output.n}${y ? ` × ${y.output.n}` : ''} samples, and the case to about ${bytes(memoryBytes)}, over the ${bytes(limits.maxMemoryBytes)} limit (--max-memory): give a narrower window, or a smaller source`;
+    if (!error && work > limits.maxWork) error = `the source's spread widens the window to ${x.output.n}${y ? ` × ${y.output.n}` : ''} samples, and the case to about ${seconds(work)} of computing, over the ${seconds(limits.maxWork)} limit (--accept-large)`;
   }
   return {
     ...inner,

@@ -58,7 +58,7 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   // Planes in sequence have a planner of their own (one method: the Fresnel integral plane to plane).
   if (c.planes?.length) return planSequence(c, { maxMemoryBytes: maxMemory, maxWork });
   // Curved light (a source at a distance): planned as the equivalent flat-light case (plan/curved-light.ts).
-  if (c.source) return planCurvedLight(c as Case & { source: NonNullable<Case['source']> }, (flat) => planCase(flat, { ...opts, countAnswers: false }));
+  if (c.source) return planCurvedLight(c as Case & { source: NonNullable<Case['source']> }, (flat) => planCase(flat, { ...opts, countAnswers: false }), { maxMemoryBytes: maxMemory, maxWork });
   const lam = c.wavelength;
   const z = c.distance;
   const k = (2 * Math.PI) / lam;

@@ -144,6 +144,11 @@ describe('extended incoherent source', () => {
     expect(Math.abs(rec.metrics.powerInWindow / rec.computed.diagnostics.powerInWindow - 1)).toBeLessThan(1e-9);
   });
 
+  it("the convolution's memory counts against the limit: a source whose image needs a huge window is refused, saying why", () => {
+    const c = sourceCase({ shape: 'circle', diameter: 0.2 * mm, opaque: false }, 1, { kind: 'extended', shape: 'disc', size: [0.5, 0.5], distance: 0.01, at: [0, 0] });
+    expect(() => run(c)).toThrow(/the source's spread widens the window to \d+ × \d+ samples, and the case to about .* over the .* limit/);
+  });
+
   it('a slit source on a 2-D aperture is refused, saying why', () => {
     const c = sourceCase({ shape: 'circle', diameter: 1 * mm, opaque: false }, 1, { kind: 'extended', shape: 'slit', size: [1 * mm, 1 * mm], distance: 1, at: [0, 0] });
     expect(() => run(c)).toThrow(/slit source .* smears a 2-D pattern/);

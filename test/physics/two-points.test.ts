@@ -44,6 +44,19 @@ describe('two incoherent points through a circular pupil', () => {
     expect(Math.abs(t.dip! - RAYLEIGH_AIRY_DIP)).toBeLessThan(0.005);
   });
 
+  it('two stars through a lens of 5 mm stop, 1.22λ/D apart, at its focus: the dip of two Airy patterns', () => {
+    const stop = 5 * mm;
+    const f = 100 * mm;
+    const angle = (J1_ZERO / Math.PI) * (lam / stop);
+    const lens = { shape: 'lens' as const, focal: f, stop, aberrations: [], opaque: false };
+    const { rec, plan } = run(sourceCase(lens as never, f, { kind: 'points', distance: null, points: [{ at: [-angle / 2, 0], power: 1 }, { at: [angle / 2, 0], power: 1 }] }));
+    const t = rec.metrics.twoPoints!;
+    // The focal plane holds the Fourier transform at x = f·tan θ (Goodman §5.2).
+    expect(t.separation).toBeCloseTo(2 * f * Math.tan(angle / 2), 12);
+    expect(Math.abs(t.dip! - RAYLEIGH_AIRY_DIP)).toBeLessThan(0.005);
+    expect(plan.warnings.map((w) => w.code)).not.toContain('curved-light-paraxial');
+  });
+
   it('half again as far apart they are resolved more clearly; at 0.7 of it not at all (Rayleigh: 8/π²)', () => {
     const z = 2;
     const case_ = (f: number) => sourceCase(pinhole, z, { kind: 'points', distance: null, points: [{ at: [(-f * rayleighAngle) / 2, 0], power: 1 }, { at: [(f * rayleighAngle) / 2, 0], power: 1 }] });
