@@ -16,7 +16,7 @@ import { lensOf } from '../elements/registry.js';
 import { warning } from '../warnings/catalogue.js';
 import { LIMITS } from './limits.js';
 import { nextFastFftSize } from '../optics/fft.js';
-import { droppedPhase, paraxialVariation } from './paraxial.js';
+import { droppedPhase, lensTiltPhase, paraxialVariation } from './paraxial.js';
 import { bytes, fmt, len, seconds } from './words.js';
 import type { AxisPlan, Case, Plan } from './types.js';
 
@@ -174,7 +174,16 @@ export function sourcePhase(source: CaseSource, lam: number, ax: number, ay: num
   }
   if (source.kind === 'points') {
     const s = source.distance;
-    return s === null ? 0 : Math.max(...source.points.map((p) => paraxialVariation(k, s, ax, ay, Math.abs(p.at[0]), Math.abs(p.at[1]))));
+    if (s === null) {
+      // At infinity a point's pattern is the centre direction's moved by z·(tan θ − tan θ_c); what
+      // that drops is the difference of their kR·(tan θ − sin θ) across the lit aperture (the
+      // paraxial kernel's sine against the chief ray's tangent; plan/paraxial.ts lensTiltPhase).
+      const c = pointsCentre(source);
+      const r = Math.hypot(ax, ay);
+      const tp = (a: [number, number]) => lensTiltPhase(lam, r, Math.hypot(Math.sin(a[0]), Math.sin(a[1])));
+      return Math.max(...source.points.map((p) => 2 * Math.abs(tp(p.at) - tp(c))));
+    }
+    return Math.max(...source.points.map((p) => paraxialVariation(k, s, ax, ay, Math.abs(p.at[0]), Math.abs(p.at[1]))));
   }
   // An extended source's farthest point from the aperture's centre is the worst.
   const [hx, hy] = source.kind === 'extended' ? [source.size[0] / 2, source.shape === 'slit' ? 0 : source.size[1] / 2] : [0, 0];
@@ -256,8 +265,16 @@ export function planCurvedLight(c: Case & { source: CaseSource }, planFlat: (c: 
   // infinity (M = 1, the flat case is the real one), nor behind a lens, whose own paraxial check
   // (the thin lens's kR⁴/(8f³) and its cone, plan/paraxial.ts lensParaxial) the flat plan makes
   // and which does not depend on the distance.
-  const ownCheck = !Number.isFinite(eq.radius) || lensOf(c.aperture) !== null;
-  const toScreen = ownCheck ? 0 : screenPhase(lam, c.distance, ax, ay, beams.filter((b) => b.propagates), footprint);
+  const lensed = lensOf(c.aperture) !== null;
+  const moves = s.kind === 'points' ? pointShifts(s, c.distance).map((p) => p.shift) : [[0, 0] as [number, number]];
+  // Several points at a distance: each one's pattern is the centre's moved, so the scaling's screen
+  // leg is checked where each lands. (At infinity nothing is scaled: the flat case's own checks
+  // hold for its pattern, and moving it costs the tilt phase counted on the source leg.)
+  const landed = beams
+    .filter((b) => b.propagates)
+    .flatMap((b) => moves.map((m) => ({ ...b, landing: b.landing ? ([b.landing[0] + m[0], b.landing[1] + m[1]] as [number, number]) : null })));
+  const ownCheck = lensed || !Number.isFinite(eq.radius);
+  const toScreen = ownCheck ? 0 : screenPhase(lam, c.distance, ax, ay, landed, footprint);
   const words = sourceWords(s, lam);
   const scaleWords =
     eq.intensityScale * M > 1 - 1e-12
