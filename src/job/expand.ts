@@ -7,6 +7,7 @@ import type { Case } from '../plan/types.js';
 import type { JobSpec, SweepValues } from './schema.js';
 import { lengthToken } from './units.js';
 import { DEFAULT_BAND_SAMPLES, meanWavelength, spectrumLines, type SpectrumSource } from '../analysis/spectrum.js';
+import { flatIllumination, type CaseSource } from '../plan/curved-light.js';
 
 export const MAX_CASES = 1_000_000;
 
@@ -25,6 +26,8 @@ const TOKENS: Record<string, string> = {
   wavelength: 'wl',
   distance: 'z',
   'illumination.waist': 'waist',
+  'illumination.waist_distance': 'waist-at',
+  'illumination.distance': 'source',
 };
 
 function isSweep(v: unknown): v is SweepValues {
@@ -51,6 +54,9 @@ export function sweepAxes(job: JobSpec): SweepAxis[] {
     }
   });
   if (job.illumination.kind === 'gaussian') add('illumination.waist', job.illumination.waist);
+  if (job.illumination.kind === 'gaussian' && job.illumination.waist_distance) add('illumination.waist_distance', job.illumination.waist_distance);
+  if (job.illumination.kind === 'point' || job.illumination.kind === 'extended') add('illumination.distance', job.illumination.distance);
+  if (job.illumination.kind === 'points' && job.illumination.distance) add('illumination.distance', job.illumination.distance);
   add('distance', job.distance);
   return axes;
 }
@@ -106,7 +112,7 @@ export function expandJob(job: JobSpec): Case[] {
       distance: value('distance'),
       aperture: resolveAperture(job, value, { wavelength: value('wavelength') }),
       ...(job.planes ? { planes: job.planes.map((p, i) => ({ after: value(`planes.${i}.after`), aperture: resolveElement(p.element, (k) => value(`planes.${i}.element.${k}`), { wavelength: value('wavelength') }) })) } : {}),
-      illumination: resolveIllumination(job, value),
+      ...curvedLight(job, value),
       ...(spectrum ? { spectrum } : {}),
       ...(job.grid ? { grid: job.grid } : {}),
       ...(job.window ? { window: job.window } : {}),
@@ -153,8 +159,24 @@ export function spectrumOf(job: JobSpec): SpectrumSource | null {
   return { kind: 'table', file: s.file!, wavelengths: s.table.wavelengths, density: s.table.density };
 }
 
+/** The case's light: flat light as given, or curved light (a source) with the flat light that stands in for it. */
+function curvedLight(job: JobSpec, value: (key: string) => number): { illumination: Illumination; source?: CaseSource } {
+  const ill = job.illumination;
+  let source: CaseSource | null = null;
+  if (ill.kind === 'point') source = { kind: 'point', distance: value('illumination.distance'), at: ill.at };
+  if (ill.kind === 'points') {
+    const far = ill.distance === undefined;
+    source = { kind: 'points', distance: far ? null : value('illumination.distance'), points: ill.points.map((p) => ({ at: (far ? p.angle : p.at) ?? [0, 0], power: p.power })) };
+  }
+  if (ill.kind === 'extended') source = { kind: 'extended', shape: ill.shape, size: ill.size, distance: value('illumination.distance'), at: ill.at };
+  if (ill.kind === 'gaussian' && ill.waist_distance) source = { kind: 'gaussian', waist: value('illumination.waist'), waistDistance: value('illumination.waist_distance'), tilt: ill.tilt };
+  if (!source) return { illumination: resolveIllumination(job, value) };
+  return { illumination: flatIllumination(source, value('wavelength')), source };
+}
+
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {
   const ill = job.illumination;
+  if (ill.kind === 'point' || ill.kind === 'points' || ill.kind === 'extended') throw new Error('a source is resolved by curvedLight');
   if (ill.kind === 'plane') return { kind: 'plane', tilt: ill.tilt };
   return { kind: 'gaussian', waist: value('illumination.waist'), tilt: ill.tilt };
 }

@@ -53,9 +53,41 @@ const tilt = z
   .tuple([angle, angle], { error: "expected two angles [x, y] such as ['2 deg', 0]" })
   .default([0, 0]);
 
+// Curved light (plan/curved-light.ts): a point or an extended source `distance` before the aperture,
+// at [ξ, η] across the axis (its direction to the aperture's centre replaces a tilt).
+const sourceAt = z
+  .tuple([position, position], { error: "expected the source's position across the axis [x, y] such as ['1 mm', 0]" })
+  .default([0, 0]);
+const SOURCE_SHAPES = ['disc', 'slit', 'rectangle'] as const;
+const sourceSizeMsg = "expected the source's size: a diameter or width such as '0.5 mm', or [width, height] for a rectangle";
+const sourceSize = z.union([
+  z.tuple([positiveLength(), positiveLength()], { error: sourceSizeMsg }).transform(([w, h]): [number, number] => [w, h]),
+  positiveLength().transform((w): [number, number] => [w, w]),
+], { error: sourceSizeMsg });
+
+// Mutually incoherent points (two-point resolution): at a distance, each point's position; at
+// infinity (no distance), each point's direction as two angles. Powers are relative.
+export const POINT_COUNT_MAX = 16;
+const powerMsg = 'expected a relative power, a number above 0 and at most 1e6, such as 1 or 0.5';
+const pointOne = z.strictObject(
+  {
+    at: z.tuple([position, position], { error: "expected a position [x, y] across the axis such as ['0.1 mm', 0]" }).optional(),
+    angle: z.tuple([angle, angle], { error: "expected the point's direction as angles [x, y] such as ['0.5 mrad', 0]" }).optional(),
+    power: z.number({ error: powerMsg }).gt(0, { error: powerMsg }).max(1e6, { error: powerMsg }).default(1),
+  },
+  { error: mappingError("expected a point such as {at: ['0.1 mm', 0], power: 1} (or {angle: ['0.5 mrad', 0]} without a distance)") },
+);
+const pointList = z
+  .array(pointOne, { error: `expected a list of 2 to ${POINT_COUNT_MAX} points` })
+  .min(2, { error: `expected a list of 2 to ${POINT_COUNT_MAX} points` })
+  .max(POINT_COUNT_MAX, { error: `expected a list of 2 to ${POINT_COUNT_MAX} points` });
+
 const illuminationKinds = {
   plane: { kind: z.literal('plane'), tilt },
-  gaussian: { kind: z.literal('gaussian'), waist: sweepLength(), tilt },
+  gaussian: { kind: z.literal('gaussian'), waist: sweepLength(), tilt, waist_distance: sweepLength().optional() },
+  point: { kind: z.literal('point'), distance: sweepLength(), at: sourceAt },
+  points: { kind: z.literal('points'), distance: sweepLength().optional(), points: pointList },
+  extended: { kind: z.literal('extended'), shape: z.enum(SOURCE_SHAPES, { error: `expected one of ${SOURCE_SHAPES.join(', ')}` }), size: sourceSize, distance: sweepLength(), at: sourceAt },
 } as const;
 export type IlluminationKind = keyof typeof illuminationKinds;
 export const ILLUMINATION_KINDS = Object.keys(illuminationKinds) as IlluminationKind[];
@@ -65,7 +97,7 @@ export const ILLUMINATION_KEYS: Record<IlluminationKind, string[]> = Object.from
 
 const illumination = z.discriminatedUnion(
   'kind',
-  [z.strictObject(illuminationKinds.plane), z.strictObject(illuminationKinds.gaussian)],
+  [z.strictObject(illuminationKinds.plane), z.strictObject(illuminationKinds.gaussian), z.strictObject(illuminationKinds.point), z.strictObject(illuminationKinds.points), z.strictObject(illuminationKinds.extended)],
   { error: `expected a mapping such as {kind: plane} (kind: one of ${ILLUMINATION_KINDS.join(', ')})` },
 );
 
@@ -242,9 +274,13 @@ export const jobSchema = z.strictObject(jobShape)
   if (job.spectrum && job.search?.['smallest-spot']) ctx.addIssue({ code: 'custom', path: ['search', 'smallest-spot'], message: 'expected no smallest-spot search with a spectrum: the search is made at one wavelength' });
   if (job.spectrum && job.search?.pinhole) ctx.addIssue({ code: 'custom', path: ['search', 'pinhole'], message: 'expected no pinhole search with a spectrum: the answers are made at one wavelength' });
   if (job.spectrum && job.planes) ctx.addIssue({ code: 'custom', path: ['spectrum'], message: 'expected a single wavelength with planes in sequence: a spectrum is not yet carried from plane to plane' });
+  const ill = job.illumination as { kind: string; waist_distance?: unknown };
+  if (job.spectrum && (ill.kind === 'point' || ill.kind === 'points' || ill.kind === 'extended' || ill.waist_distance !== undefined)) {
+    ctx.addIssue({ code: 'custom', path: ['illumination', 'kind'], message: 'expected plane light or a Gaussian beam with its waist at the aperture with a spectrum: light from a source at a distance is computed at one wavelength (use wavelength, or a wavelength sweep)' });
+  }
   // The tilts are the incident direction's cosines α = sin θx, β = sin θy (optics/source.ts): both
   // under 90° is not enough, the direction must exist (α² + β² < 1), or no light reaches the screen.
-  const [tx, ty] = job.illumination.tilt;
+  const [tx, ty] = 'tilt' in job.illumination ? job.illumination.tilt : [0, 0];
   const s2 = Math.sin(tx) ** 2 + Math.sin(ty) ** 2;
   if (!(s2 < 1)) {
     ctx.addIssue({
@@ -279,9 +315,26 @@ export const jobSchema = z.strictObject(jobShape)
   if (pinholeProblem) ctx.addIssue({ code: 'custom', path: ['search', 'pinhole'], message: pinholeProblem });
   // (Both searches are optional keys, so an empty mapping would ask for nothing.)
   if (job.search && SEARCH_KEYS.every((k) => !(job.search as Record<string, unknown>)[k])) ctx.addIssue({ code: 'custom', path: ['search'], message: `expected ${SEARCH_KEYS.join(' or ')} in the search mapping` });
-  element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }), { illumination: job.illumination.kind });
+  element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }), { illumination: job.illumination.kind === 'gaussian' ? 'gaussian' : 'plane' });
   if (job.planes) checkPlanes(job, (path, message) => ctx.addIssue({ code: 'custom', path, message }));
+  checkCurvedLight(job, (path, message) => ctx.addIssue({ code: 'custom', path, message }));
 });
+
+/** What curved light (a source at a distance, a waist before the aperture) cannot be combined with. */
+function checkCurvedLight(job: { illumination: { kind: string; waist_distance?: unknown; distance?: unknown; points?: { at?: unknown; angle?: unknown }[] }; planes?: unknown; search?: { 'smallest-spot'?: unknown; pinhole?: unknown } }, problem: (path: (string | number)[], message: string) => void): void {
+  const ill = job.illumination;
+  const curved = ill.kind === 'point' || ill.kind === 'points' || ill.kind === 'extended' || (ill.kind === 'gaussian' && ill.waist_distance !== undefined);
+  // Points at a distance have positions; points at infinity, directions.
+  (ill.points ?? []).forEach((p, i) => {
+    if (ill.distance !== undefined && (p.at === undefined || p.angle !== undefined)) problem(['illumination', 'points', i], 'expected a position (at) and no angle: the points are at the distance given');
+    if (ill.distance === undefined && (p.angle === undefined || p.at !== undefined)) problem(['illumination', 'points', i], 'expected a direction (angle) and no position: without a distance the points are at infinity (give a distance for points at positions)');
+  });
+  if (!curved) return;
+  const what = ill.kind === 'gaussian' ? 'a waist before the aperture (waist_distance)' : ill.kind === 'points' ? 'several points' : `a ${ill.kind} source`;
+  if (job.planes) problem(['planes'], `expected no planes with ${what}: planes in sequence take a plane wave or a Gaussian beam with its waist at the first plane`);
+  if (job.search?.['smallest-spot']) problem(['search', 'smallest-spot'], `expected no smallest-spot search with ${what}: the search compares spots under flat light`);
+  if (job.search?.pinhole) problem(['search', 'pinhole'], `expected no pinhole search with ${what}: the pinhole answers are read at a lens's focus under flat light`);
+}
 
 /** What a job with planes in sequence cannot also ask for, and what a later plane cannot hold. */
 interface PlanesJob {
@@ -330,6 +383,12 @@ const QUANTITY_KEYS: Record<string, UnitKind> = {
   ...elementLengthKeys('aperture'),
   'illumination.waist': 'length',
   'illumination.tilt': 'angle',
+  'illumination.waist_distance': 'length',
+  'illumination.distance': 'length',
+  'illumination.at': 'length',
+  'illumination.size': 'length',
+  'illumination.points.at': 'length',
+  'illumination.points.angle': 'angle',
   'grid.pitch': 'length',
   window: 'length',
   'detector.size': 'length',

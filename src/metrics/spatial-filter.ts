@@ -43,7 +43,7 @@ export function focalPinholes(plan: Plan, map: IntensityMap, centre: [number, nu
   const c = plan.case;
   const asked = c.analysis.pinholePassing;
   // (A lens is always computed in 2-D; the 1-D test keeps the ring average from a zero pitch.)
-  const why = plan.babinet ? 'the element is an obstacle' : isOneD(map) ? 'the result is one-dimensional' : !(powerIn > 0) ? 'no power passes the lens' : notAtFocus(c);
+  const why = plan.babinet ? 'the element is an obstacle' : isOneD(map) ? 'the result is one-dimensional' : !(powerIn > 0) ? 'no power passes the lens' : c.source ? 'the light is curved (a source at a distance): the focus is not at f' : notAtFocus(c);
   if (why !== null) return asked ? { answered: false, reason: why } : null;
   const lens = lensOf(c.aperture)!;
   const optics = {

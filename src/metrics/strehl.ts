@@ -66,6 +66,8 @@ export function lensStrehl(plan: Plan, peakIntensity: number): LensStrehl | null
   const lens = lensOf(c.aperture);
   // (With planes after the lens the screen's distance is not the lens's.)
   if (!lens || lens.focal <= 0 || c.planes) return null;
+  // (Under curved light the lens's focus is not at f: no ideal-lens reference here.)
+  if (c.source) return null;
   const lam = c.wavelength;
   const z = c.distance;
   const waist = c.illumination.kind === 'gaussian' ? c.illumination.waist : Infinity;

@@ -27,6 +27,8 @@ export function verdictAxesOf(c: Case): VerdictAxis[] {
   const a = c.aperture;
   // (With planes after the aperture, its size and the screen's distance say nothing of the spot.)
   if (a.opaque || c.illumination.kind !== 'plane' || c.planes) return [];
+  // (Under curved light the geometric shadow and the far field are not the flat-light references.)
+  if (c.source) return [];
   const axes: VerdictAxis[] = ['radial', 'x', 'y'];
   return axes.filter((axis) => verdictWidth(a, axis) !== null);
 }

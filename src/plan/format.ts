@@ -3,11 +3,14 @@ import { describe } from '../optics/aperture.js';
 import { formatAngle, formatLength, trimNumber } from '../job/units.js';
 import { bytes, methodWords } from './planner.js';
 import type { Plan } from './types.js';
+import { sourceWords } from './curved-light.js';
 
 const len = (x: number) => formatLength(x, 4);
 
 export function illuminationWords(p: Plan): string {
   const ill = p.case.illumination;
+  // Curved light: the source itself (the flat light standing in for it is in the reasons).
+  if (p.case.source) return `${sourceWords(p.case.source, p.case.wavelength)}, irradiance 1 at the aperture's centre`;
   const tilt =
     ill.tilt[0] === 0 && ill.tilt[1] === 0
       ? 'normal incidence'

@@ -21,6 +21,7 @@ import { BASELINE_MEMORY } from './costs.js';
 import { bytes, fmt, len, pct, seconds } from './words.js';
 import { planWindow, windowLoss } from './window.js';
 import { planSequence } from './sequence.js';
+import { planCurvedLight } from './curved-light.js';
 import { answerVariants, searchLimits } from './answers.js';
 import { METHOD_NAMES, METHOD_REGISTRY, methodWords } from '../methods/registry.js';
 import type { MethodDescriptor, Sampling, Validity, ValidityInputs } from '../methods/types.js';
@@ -65,6 +66,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
   if (c.planes?.length) return planSequence(c, { maxMemoryBytes: maxMemory, maxWork });
   // Several wavelengths at once: each planned as its own case onto one output grid (plan/spectrum.ts).
   if (c.spectrum) return planSpectrum(c, { plan: planCase, opts });
+  // Curved light (a source at a distance): planned as the equivalent flat-light case (plan/curved-light.ts).
+  if (c.source) return planCurvedLight(c as Case & { source: NonNullable<Case['source']> }, (flat) => planCase(flat, { ...opts, countAnswers: false }), { maxMemoryBytes: maxMemory, maxWork });
   const lam = c.wavelength;
   const z = c.distance;
   const k = (2 * Math.PI) / lam;

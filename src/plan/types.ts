@@ -4,6 +4,7 @@ import type { MethodRequest } from '../job/schema.js';
 import type { WarningCode } from '../warnings/catalogue.js';
 import type { SpectrumSource } from '../analysis/spectrum.js';
 import type { SpectrumPlan } from './spectrum.js';
+import type { CaseSource, FlatLight } from './curved-light.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
 export type FresnelForm = 'transfer-function' | 'single-fft' | 'direct' | 'lens-chirp' | 'planes';
@@ -46,6 +47,11 @@ export interface Case {
    * is then the spectrum's mean.
    */
   spectrum?: SpectrumSource;
+  /**
+   * Light curved at the aperture (a point source, a Gaussian waist before it, an extended source):
+   * `illumination` is then the flat light that stands in for it (plan/curved-light.ts).
+   */
+  source?: CaseSource;
   grid?: { size?: number; pitch?: number };
   window?: [number, number];
   method: MethodRequest;
@@ -253,4 +259,6 @@ export interface Plan {
   spectrum?: SpectrumPlan;
   /** Set when the case cannot be computed as planned (it is then reported, not run). */
   error?: string;
+  /** Curved light (case.source): the flat-light plan computed in its place, and how its result maps back. */
+  flatLight?: FlatLight;
 }

@@ -9,6 +9,7 @@ import { descriptorOf } from '../methods/registry.js';
 import type { Plan } from '../plan/types.js';
 import type { CaseContext } from './context.js';
 import type { PlanePower } from '../methods/types.js';
+import { curvedLightResult } from './curved-light-result.js';
 export { complementWithin, profileIntervals } from '../methods/exact-intervals.js';
 
 export interface Diagnostics {
@@ -36,6 +37,8 @@ export interface ComputedCase extends IntensityMap {
 /** The case's field and diagnostics, propagated on ctx's engine (and its kept spectrum, if shared). */
 export function computeCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'spectra'>): ComputedCase {
   if (plan.error) throw new Error(plan.error);
+  // Curved light: the flat-light case computed in its place, mapped back to the real screen.
+  if (plan.flatLight) return curvedLightResult(plan, computeCase({ ...plan.flatLight.plan, ...(plan.sharedSpectrum ? { sharedSpectrum: plan.sharedSpectrum } : {}) }, ctx), ctx.engine);
   const c = plan.case;
   const lam = c.wavelength;
   const z = c.distance;

@@ -19,6 +19,7 @@ import type { Plan, Warning } from '../plan/types.js';
 import { warning } from '../warnings/catalogue.js';
 import { computeCase, type ComputedCase } from './compute.js';
 import { runSpectrumCase } from './spectrum-case.js';
+import { twoPointReading } from '../analysis/two-points.js';
 import type { CaseContext } from './context.js';
 
 export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'spectra'>): CaseRecord {
@@ -66,6 +67,9 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   // The MTF under the same condition, from the PSF in the window and the whole power through the pupil.
   const mtf = strehl ? lensMtf(plan, computed, reference, ctx.engine) : null;
   if (mtf) metrics.mtf = mtf.summary;
+  // Two incoherent points: the dip between their patterns (analysis/two-points.ts).
+  const two = twoPointReading(plan, computed);
+  if (two) metrics.twoPoints = two;
   warnings.push(...postChecks(plan, d, grating), ...detectors.warnings);
   return { plan, computed, metrics, energy, ...(mtf ? { mtf: mtf.curve } : {}), warnings, seconds: (performance.now() - t0) / 1000 };
 }

@@ -137,6 +137,14 @@ export const WARNING_CATALOGUE = {
     message: (d) =>
       `${d.leg}: the Fresnel integral that carries the light between planes drops ${fmt(d.phase, 2)} rad of phase variation across the lit region where the light lands (kρ⁴/(8z³), limit ${d.limit} rad): the light leaves at angles too steep for the paraxial approximation, so positions and fringes there are off; lengthen the gap or narrow the light, or compute that plane on its own (one element, method auto)`,
   }),
+  'curved-light-paraxial': entry<{ source: string; fromSource: number; toScreen: number; limit: number }>({
+    title: 'Curved light is beyond the paraxial approximation',
+    // The Fresnel scaling that turns the curved light into flat light is paraxial on both legs,
+    // whatever method computes the flat case: beyond the limit positions and fringes are off.
+    accuracy: true,
+    message: (d) =>
+      `${d.source}: the curved light is computed by the Fresnel scaling theorem, which is paraxial on both legs, and it drops ${fmt(d.fromSource, 2)} rad of phase across the lit aperture from the source (kρ⁴/(8s³)) and ${fmt(d.toScreen, 2)} rad from the aperture to where the light lands (limit ${d.limit} rad each): fringes and positions may be off; move the source or the screen farther away, or light less of the aperture`,
+  }),
   'planes-window-loss': entry<{ plane: number; loss: number; limit: number }>({
     title: 'Light lost between planes',
     accuracy: true,

@@ -54,6 +54,7 @@ function makeCase(s) {
     ...(s.window ? { window: s.window } : {}),
     ...(s.planes ? { planes: s.planes } : {}),
     ...(s.spectrum ? { spectrum: s.spectrum } : {}),
+    ...(s.source ? { source: s.source } : {}),
     method: s.method ?? 'auto',
     swept: {},
     output: { npy: 'float64', logDecades: 5 },
@@ -65,6 +66,7 @@ function makeCase(s) {
 const CASES = [
   ['tilt along a slit', 'run', { distance: 1, aperture: slit(100 * um), illumination: plane(0, 0.01) }],
   ['2 µm slit', 'run', { distance: 0.01, aperture: slit(2 * um) }],
+  ['point source 5 mm before a 2 mm hole', 'plan', { distance: 0.1, aperture: circle(2 * mm), source: { kind: 'point', distance: 5 * mm, at: [0, 0] } }],
   ['beam on an annulus obscuration', 'run', { distance: 0.1, aperture: { shape: 'annulus', outer: 40 * um, inner: 24 * um, opaque: false }, illumination: { kind: 'gaussian', waist: 2 * um, tilt: [0, 0] } }],
   ['beam beside an opaque disc', 'plan', { distance: 1, aperture: circle(400 * um, true), illumination: { kind: 'gaussian', waist: 20 * um, tilt: [0, 0] } }],
   ['screen at half a wavelength', 'run', { distance: 0.5 * lam, aperture: slit(20 * um) }],

@@ -216,14 +216,14 @@ describe('a wrong shape or kind names the choices', () => {
       column: 11,
     });
     const [i] = problems(HEAD + 'aperture: {shape: circle, diameter: 50 um}\nillumination: plane\n');
-    expect(i!.message).toBe("expected a mapping such as {kind: plane} (kind: one of plane, gaussian), got 'plane'");
+    expect(i!.message).toBe("expected a mapping such as {kind: plane} (kind: one of plane, gaussian, point, points, extended), got 'plane'");
   });
 
   it('illumination kind', () => {
     const [p] = problems(HEAD + 'aperture: {shape: circle, diameter: 50 um}\nillumination: {kind: gausian, waist: 1 mm}\n');
     expect(p).toMatchObject({
       path: 'illumination.kind',
-      message: "expected one of plane, gaussian (did you mean 'gaussian'?), got 'gausian'",
+      message: "expected one of plane, gaussian, point, points, extended (did you mean 'gaussian'?), got 'gausian'",
       line: 5,
     });
   });

@@ -46,6 +46,21 @@ describe('warnings', () => {
     expect(codes({ ...quietFarField, grid: { pitch: fine } })).toEqual([]);
   });
 
+  it("curved-light-paraxial: a point source 5 mm before a 2 mm hole (kρ⁴/(8s³) ≈ 25 rad across it, the binomial expansion's next term; common practice); quiet 500 mm away", () => {
+    const hole = circle(2 * mm);
+    const point = (s: number) => ({ ...makeCase({ wavelength: lam, distance: 0.1, aperture: hole }), source: { kind: 'point' as const, distance: s, at: [0, 0] as [number, number] } });
+    expect(planCase(point(5 * mm)).warnings.map((w) => w.code)).toContain('curved-light-paraxial');
+    expect(planCase(point(500 * mm)).warnings.map((w) => w.code)).not.toContain('curved-light-paraxial');
+    // The screen leg in the real geometry: a source far away, the screen 3 mm behind a 4 mm hole.
+    const close = { ...makeCase({ wavelength: lam, distance: 3 * mm, aperture: circle(4 * mm) }), source: { kind: 'point' as const, distance: 1, at: [0, 0] as [number, number] } };
+    expect(planCase(close).warnings.map((w) => w.code)).toContain('curved-light-paraxial');
+    // Points at infinity ±20° apart through a 2 mm hole: each is the centre's pattern moved, which
+    // drops kR·(tan θ − sin θ) ≈ 300 rad across the hole (plan/paraxial.ts lensTiltPhase); ±1 mrad is quiet.
+    const stars = (angle: number) => ({ ...makeCase({ wavelength: lam, distance: 0.05, aperture: hole }), source: { kind: 'points' as const, distance: null, points: [{ at: [-angle, 0] as [number, number], power: 1 }, { at: [angle, 0] as [number, number], power: 1 }] } });
+    expect(planCase(stars(0.35)).warnings.map((w) => w.code)).toContain('curved-light-paraxial');
+    expect(planCase(stars(0.001)).warnings.map((w) => w.code)).not.toContain('curved-light-paraxial');
+  });
+
   it('paraxial: Fresnel forced close to a wide aperture; auto takes the angular spectrum and is quiet', () => {
     const near: CaseSpec = { wavelength: lam, distance: 2 * mm, aperture: slit(1 * mm) };
     expect(codes({ ...near, method: 'fresnel' })).toContain('paraxial');
