@@ -1,6 +1,7 @@
 // Expanding a job's sweeps into cases: the cartesian product of every swept key, with distance
 // innermost so that consecutive cases share an aperture and a wavelength.
 import type { Illumination } from '../optics/aperture.js';
+import { directionCosines } from '../optics/source.js';
 import { elementOf, type Aperture } from '../elements/registry.js';
 import type { ResolveContext } from '../elements/types.js';
 import type { Case } from '../plan/types.js';
@@ -79,6 +80,8 @@ export function expandJob(job: JobSpec): Case[] {
     detectors: (job.detector ?? []).map((d) => ({ kind: d.kind, size: d.size, ...(d.at ? { at: d.at } : {}) })),
     ...(spot ? { smallestSpot: { between: spot.between, measure: spot.measure } } : {}),
     ...(job.orders?.overlap ? { orderOverlap: job.orders.overlap } : {}),
+    ...(job.orders?.focal_length ? { focalLength: job.orders.focal_length } : {}),
+    ...(job.orders?.use ? { orderUse: { ...job.orders.use, light: useLight(job.wavelength.values, job.orders.use) } } : {}),
     ...(job.search?.pinhole ? { pinholePassing: job.search.pinhole.passing } : {}),
   };
   const cases: Case[] = [];
@@ -101,7 +104,7 @@ export function expandJob(job: JobSpec): Case[] {
       id: tokens.join('_'),
       wavelength: value('wavelength'),
       distance: value('distance'),
-      aperture: resolveAperture(job, value, { wavelength: value('wavelength') }),
+      aperture: resolveAperture(job, value, { wavelength: value('wavelength'), cosIncidence: directionCosines({ kind: 'plane', tilt: job.illumination.tilt })[2] }),
       ...(job.planes ? { planes: job.planes.map((p, i) => ({ after: value(`planes.${i}.after`), aperture: resolveElement(p.element, (k) => value(`planes.${i}.element.${k}`), { wavelength: value('wavelength') }) })) } : {}),
       illumination: resolveIllumination(job, value),
       ...(job.grid ? { grid: job.grid } : {}),
@@ -136,6 +139,11 @@ function signedKey(job: JobSpec, key: string): boolean {
   if (!m) return false;
   const spec = m[1] === undefined ? job.aperture : job.planes![Number(m[1])]!.element;
   return elementOf(spec).signed?.includes(m[2]!) ?? false;
+}
+
+/** The light order sorting considers: the job's wavelengths from lowest to highest, or the used range itself for one wavelength. */
+function useLight(wavelengths: number[], use: { from: number; to: number }): [number, number] {
+  return wavelengths.length > 1 ? [wavelengths.reduce((a, b) => Math.min(a, b)), wavelengths.reduce((a, b) => Math.max(a, b))] : [use.from, use.to];
 }
 
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {

@@ -18,6 +18,7 @@ import {
   sweepLength,
   type SweepValues,
 } from './quantities.js';
+import { orderAnswerKeys } from './order-keys.js';
 
 export {
   DESCRIPTION_MAX,
@@ -175,7 +176,7 @@ const searchShape = {
 };
 export const SEARCH_KEYS = Object.keys(searchShape);
 
-const ordersShape = { overlap: positiveLength().optional() };
+const ordersShape = { overlap: positiveLength().optional(), ...orderAnswerKeys };
 
 /**
  * Planes after the first (the job's aperture): each an element at a distance (`after`) behind the
@@ -317,6 +318,8 @@ const QUANTITY_KEYS: Record<string, UnitKind> = {
   'detector.at': 'length',
   'search.smallest-spot.between': 'length',
   'orders.overlap': 'length',
+  'orders.focal_length': 'length',
+  'orders.use': 'length',
   'output.zoom.centre': 'length',
   'output.zoom.width': 'length',
   'planes.after': 'length',
