@@ -8,7 +8,8 @@
 import { gratingOf } from '../elements/registry.js';
 import { formatLength } from '../job/units.js';
 import { directionCosines } from '../optics/source.js';
-import type { Plan } from '../plan/types.js';
+import type { Plan, Warning } from '../plan/types.js';
+import { warning } from '../warnings/catalogue.js';
 import { orderSorting, type OrderSorting } from './order-sorting.js';
 import type { GratingOrder } from './orders.js';
 import { illuminatedPeriods, type IlluminatedPeriods } from './resolving-power.js';
@@ -138,4 +139,31 @@ export function metricsWithAnswers<M extends { orders?: GratingOrder[] }>(plan: 
   const use = metrics.orders ? gratingUse(plan) : null;
   if (!use) return metrics;
   return { ...metrics, orders: ordersWithAnswers(plan, metrics.orders!, use), spectroscopy: use };
+}
+
+/** A reflection grating's order whose groove phase differs from the computed one by more than this (waves) is warned of. */
+export const REFLECTION_DEPTH_TOLERANCE = 0.02;
+/** ... when thin-grating theory gives it at least this share of the power. */
+const REFLECTION_ORDER_POWER = 0.01;
+
+/**
+ * A reflection grating's groove phase is taken where the order leaves along the specular or Littrow
+ * direction, α = 2h·cos θ_i/λ waves (elements/grating.ts); an order leaving at θ_m meets
+ * h·(cos θ_i + cos θ_m)/λ = α·(cos θ_i + cos θ_m)/(2 cos θ_i). Warns (accuracy) when the difference
+ * exceeds REFLECTION_DEPTH_TOLERANCE at an order carrying at least 1 % of the power: near a blaze
+ * peak the power moves by (πΔα)²/3, on the flank by up to about 1.4·Δα (the slope of sinc²).
+ * Amplitude profiles have no groove phase. The run must call it on the case's order table.
+ */
+export function reflectionDepthWarnings(plan: Plan, orders: readonly GratingOrder[]): Warning[] {
+  const a = plan.case.aperture as { reflective?: boolean; profile?: { kind: string; depth?: number; step?: number; modulation?: number } };
+  if (a.reflective !== true || !a.profile) return [];
+  const p = a.profile;
+  const waves = p.kind === 'blazed' ? Math.abs(p.depth!) : p.kind === 'binary-phase' ? Math.abs(p.step!) / (2 * Math.PI) : p.kind === 'sinusoidal-phase' ? p.modulation! / (2 * Math.PI) : 0;
+  if (waves === 0) return [];
+  const [, beta, gammaI] = directionCosines(plan.case.illumination);
+  const off = orders
+    .filter((o) => o.angle !== null && o.predictedFraction >= REFLECTION_ORDER_POWER)
+    .map((o) => ({ m: o.m, waves: (waves * Math.abs(Math.sqrt(Math.max(0, 1 - o.sinAngle ** 2 - beta ** 2)) - gammaI)) / (2 * gammaI) }))
+    .filter((o) => o.waves > REFLECTION_DEPTH_TOLERANCE);
+  return off.length ? [warning('reflection-depth-oblique', { depth: waves, cosIncidence: gammaI, orders: off })] : [];
 }

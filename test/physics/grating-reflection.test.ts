@@ -5,7 +5,8 @@
 // Optics, §4.4: a sawtooth of α waves sends sinc²(m − α) into order m) and the blaze condition
 // mλ_B = 2d·sin θ_B for Littrow use (Palmer, Diffraction Grating Handbook, ch. 9; from memory).
 import { describe, expect, it } from 'vitest';
-import { ordersWithAnswers, SIGN_CONVENTION } from '../../src/analysis/grating-answers.js';
+import { ordersWithAnswers, reflectionDepthWarnings, REFLECTION_DEPTH_TOLERANCE, SIGN_CONVENTION } from '../../src/analysis/grating-answers.js';
+import { isAccuracyWarning } from '../../src/warnings/catalogue.js';
 import { expandJob } from '../../src/job/expand.js';
 import { parseJobText } from '../../src/job/load.js';
 import { ordersCsv, resultJson } from '../../src/output/case-output.js';
@@ -109,5 +110,38 @@ illumination: {kind: plane, tilt: ['-5 deg', 0]}
       expect(Math.abs(o.fractionOfTransmitted! - sinc(1 - alpha) ** 2)).toBeLessThan(0.01);
       if (factors[i] !== 1) expect(o.fractionOfTransmitted!).toBeLessThan(first[factors.indexOf(1)]!.fractionOfTransmitted! - 0.02);
     });
+  });
+});
+
+describe('the warning where a reflection grating\'s groove phase is taken far from an order\'s own', () => {
+  it('is quiet for the blazed grating used in Littrow (orders 0 and 1 leave along the specular and Littrow directions)', () => {
+    const d = 4e-6;
+    const h = d * Math.tan(5 * deg);
+    const [{ plan, rec }] = runJob(
+      `name: quiet\nwavelength: ${(2 * d * Math.sin(5 * deg)) / nm} nm\ndistance: 1 m\nmethod: fraunhofer\nwindow: 0.6 m\naperture: {shape: grating, profile: blazed, depth: '${h / nm} nm', period: 4 um, count: 50, reflective: true}\nillumination: {kind: plane, tilt: ['-5 deg', 0]}\n`,
+    );
+    expect(reflectionDepthWarnings(plan, rec.metrics.orders!)).toEqual([]);
+    expect(rec.warnings.map((k) => k.code)).not.toContain('reflection-depth-oblique');
+  });
+  it('fires (accuracy) for a one-wave blazed reflection grating of 2 µm at 633 nm lit normally: order 1 leaves at 18.5° and meets h·(1 + cos θ_1)/λ, 0.026 wave short of the computed 2h/λ', () => {
+    const text = (extra: string) =>
+      `name: oblique\nwavelength: 633 nm\ndistance: 1 m\nmethod: fraunhofer\nwindow: 2 m\naperture: {shape: grating, profile: blazed, depth: '316.5 nm', period: 2 um, count: 50${extra}}\n`;
+    const [{ plan, rec }] = runJob(text(', reflective: true'));
+    const w = reflectionDepthWarnings(plan, rec.metrics.orders!);
+    expect(w).toHaveLength(1);
+    // The run carries it (analysis/order-checks.ts adds it to the order checks' warnings).
+    expect(rec.warnings).toContainEqual(w[0]);
+    expect(isAccuracyWarning(w[0]!.code)).toBe(true);
+    // Independently: h = λ/2 (2h = one wave at normal incidence), path h·(cos 0 + cos θ_1) for
+    // order 1, sin θ_1 = λ/d (Born & Wolf §8.6.1).
+    const lam = 633 * nm;
+    const cos1 = Math.sqrt(1 - (lam / 2e-6) ** 2);
+    const short = (lam / 2) * (2 - (1 + cos1)) / lam;
+    expect(short).toBeGreaterThan(REFLECTION_DEPTH_TOLERANCE);
+    expect(w[0]!.message).toContain(`${Number(short.toPrecision(2))} wave at order 1`);
+    // The same grating in transmission has no such warning (its depth is the optical path given).
+    const [t] = runJob(text(''));
+    expect(reflectionDepthWarnings(t!.plan, t!.rec.metrics.orders!)).toEqual([]);
+    expect(t!.rec.warnings.map((k) => k.code)).not.toContain('reflection-depth-oblique');
   });
 });
