@@ -372,10 +372,10 @@ export function orderTable(rec: CaseSummary): ReportTable {
       'Evanescent orders (|sin θ| > 1) carry no power to any screen; the last row is what thin-grating theory sends into all of them together. ' +
       'Per nm: the linear dispersion on this screen, z·m/(d·cos³θ_m), from dθ/dλ = m/(d·cos θ_m) (Born & Wolf §8.6.1); free spectral range λ/|m| (Hecht §10.2.8).' +
       (use
-        ? ` ${use.convention} Resolving power R = |m|·N with N = ${use.periodsWords}.` +
-          (use.focalLength !== undefined ? ` At f: the linear dispersion f·m/(d·cos θ_m) in the focal plane of a lens of focal length ${fmtLen(use.focalLength)}.` : '') +
-          (use.reflective ? ' Reflection grating: computed unfolded about its plane (a groove depth h is an optical path 2h·cos θ_i); Littrow angle θ_L with sin θ_L = mλ/(2d): at incidence θ_i = −θ_L the order returns along the incident beam.' : '') +
-          (use.orderSorting !== undefined ? ` Order sorting: ${use.orderSorting ? use.orderSorting.words : 'none of the range in orders.use lands in its order at this incidence.'}` : '')
+        ? `\n${use.convention}\nResolving power R = |m|·N with N = ${use.periodsWords}.` +
+          (use.focalLength !== undefined ? `\nAt f: the linear dispersion f·m/(d·cos θ_m) in the focal plane of a lens of focal length ${fmtLen(use.focalLength)}.` : '') +
+          (use.reflective ? '\nReflection grating: computed unfolded about its plane (a groove depth h is an optical path 2h·cos θ_i); Littrow angle θ_L with sin θ_L = mλ/(2d): at incidence θ_i = −θ_L the order returns along the incident beam.' : '') +
+          (use.orderSorting !== undefined ? `\nOrder sorting: ${use.orderSorting ? use.orderSorting.words : 'none of the range in orders.use lands in its order at this incidence.'}` : '')
         : ''),
   };
 }

@@ -130,3 +130,56 @@ orders: {use: {from: 400 nm, to: 700 nm, order: 1}}
     expect(orderUseAnswer({ from: 1100 * nm, to: 1200 * nm, order: 1 }, [400 * nm, 1200 * nm], { period: 1 * um, sinIncidence: 0 })).toBeNull();
   });
 });
+
+describe('end to end: a job with the spectroscopy keys writes the answers', () => {
+  it('into result.json, orders.csv (columns with units) and the report\'s order table', async () => {
+    const { mkdtemp, readFile, rm, writeFile } = await import('node:fs/promises');
+    const { tmpdir } = await import('node:os');
+    const { join } = await import('node:path');
+    const { runJobFile } = await import('../../src/run/run-job.js');
+    const dir = await mkdtemp(join(tmpdir(), 'spotcast-spectro-'));
+    try {
+      // An invented bench: a 600 l/mm blazed reflection coupon of 100 periods in a 25 µm beam, camera f = 150 mm.
+      await writeFile(
+        join(dir, 'job.yaml'),
+        `name: bench-spectrograph
+wavelength: 532 nm
+distance: 1 m
+method: fraunhofer
+aperture: {shape: grating, profile: blazed, depth: '200 nm', period: 1.6667 um, count: 100, reflective: true}
+illumination: {kind: gaussian, waist: 25 um, tilt: ['-9 deg', 0]}
+orders: {focal_length: 150 mm, use: {from: 450 nm, to: 650 nm, order: 1}}
+`,
+      );
+      const o = await runJobFile(join(dir, 'job.yaml'), { outDir: join(dir, 'out') });
+      expect(o.error).toBeUndefined();
+      expect(o.reportError).toBeUndefined();
+      const id = (await import('node:fs')).readdirSync(o.folder!).find((f) => /^\d/.test(f))!;
+      const json = JSON.parse(await readFile(join(o.folder!, id, 'result.json'), 'utf8'));
+      const sp = json.metrics.spectroscopy;
+      expect(sp.reflective).toBe(true);
+      expect(sp.periodsRule).toBe('beam');
+      // πw/(1.318·d) (analysis/resolving-power.ts), not the 100 periods of the coupon.
+      expect(sp.illuminatedPeriods).toBeCloseTo((Math.PI * 25e-6) / (1.31806 * 1.6667e-6), 1);
+      expect(sp.focalLength).toBeCloseTo(0.15, 12);
+      expect(sp.orderSorting.words).toMatch(/450 nm – 650 nm in order 1/);
+      const first = json.metrics.orders.find((k: { m: number }) => k.m === 1);
+      expect(first.resolvingPower).toBeCloseTo(sp.illuminatedPeriods, 9);
+      const csv = (await readFile(join(o.folder!, id, 'orders.csv'), 'utf8')).trim().split('\n');
+      const head = csv[0]!.split(',');
+      for (const h of ['resolving_power', 'smallest_resolvable_m', 'focal_linear_dispersion_mm_per_nm', 'littrow_angle_rad']) expect(head).toContain(h);
+      const row = csv.find((l) => l.startsWith('1,'))!.split(',');
+      expect(Number(row[head.indexOf('smallest_resolvable_m')])).toBeCloseTo(532e-9 / sp.illuminatedPeriods, 15);
+      // f·m/(d cos θ_1) in mm per nm.
+      const cos1 = Math.cos(first.angle);
+      expect(Number(row[head.indexOf('focal_linear_dispersion_mm_per_nm')])).toBeCloseTo((0.15 / (1.6667e-6 * cos1)) * 1e-9 * 1e3, 9);
+      const html = await readFile(join(o.folder!, 'report.html'), 'utf8');
+      expect(html).toContain('smallest Δλ resolved, λ/R');
+      expect(html).toContain('at f = 150 mm, per nm');
+      expect(html).toContain('Littrow angle');
+      expect(html).toContain('Order sorting: 450 nm – 650 nm in order 1');
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  }, 60_000);
+});
