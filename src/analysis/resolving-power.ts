@@ -111,7 +111,15 @@ export function illuminatedPeriods(period: number, count: number, waist: number 
     for (let i = 0; i <= n; i++) s += amp[i]! * Math.cos(2 * Math.PI * q * i * h);
     return s * s;
   };
-  const dq = rayleighSeparation(line, 1 / Math.min(2 * half, 2 * waist));
+  let dq: number;
+  try {
+    dq = rayleighSeparation(line, 1 / Math.min(2 * half, 2 * waist));
+  } catch {
+    // (Not seen for a Gaussian however cut; a case's files must still be written: the smaller of
+    // the untruncated beam's count and the whole grating, said so.)
+    const periods = Math.min(count, (Math.PI * waist) / (GAUSSIAN_RAYLEIGH_U * period));
+    return { periods, rule: 'truncated-beam', words: `${trim(periods)} periods, the smaller of the beam's and the grating's (the separation at which two lines dip to 8/π² could not be bracketed)` };
+  }
   const periods = 1 / (period * dq);
   return {
     periods,
