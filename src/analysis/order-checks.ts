@@ -4,6 +4,7 @@
 // carry the power thin-grating theory gives it? A paraxial method at wide angles fails the first
 // two (it puts order m at z·sin θ_m instead of z·tan θ_m, and lands evanescent orders at
 // z·sin θ_m > z); an aliased or truncated computation fails the last.
+import { reflectionDepthWarnings } from './grating-answers.js';
 import { formatLength } from '../job/units.js';
 import { gratingOf } from '../elements/registry.js';
 import { METHODS } from '../job/schema.js';
@@ -135,6 +136,8 @@ export interface OrderCheckInput {
   propagatingInWindow: number;
   /** What to do when a check fails (methodAdvice for a planned case). */
   advice: string;
+  /** Warnings the case's element and order table call for beyond these checks (a reflection grating's groove phase). */
+  elementWarnings?: Warning[];
 }
 
 /** Inputs from a plan: the illuminated width is the planner's, the edge weight a Gaussian's at the outline. */
@@ -153,6 +156,7 @@ export function orderCheckInput(plan: Plan, grating: GratingInput, table: OrderT
     edgeWeight,
     propagatingInWindow: propagating > 0 ? powerInWindow / propagating : 1,
     advice: methodAdvice(plan),
+    elementWarnings: reflectionDepthWarnings(plan, table.orders),
   };
 }
 
@@ -414,6 +418,7 @@ export function checkOrders(map: IntensityMap, inp: OrderCheckInput): OrderCheck
   if (short.orders.length) {
     warnings.push(warning('orders-window', { shortfall: short.shortfall, orders: short.orders, ofIncident: !!g.powerIncident, twoD: map.ny > 1 }));
   }
+  warnings.push(...(inp.elementWarnings ?? []));
   return { checked, misplaced, powerOff, finite, stray, warnings };
 }
 

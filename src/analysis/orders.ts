@@ -72,6 +72,20 @@ export interface GratingOrder {
   linearDispersion?: number | null;
   /** Free spectral range λ/|m| (m): the wavelength span before order m + 1 of a shorter line lands on it (Hecht §10.2.8). */
   freeSpectralRange?: number | null;
+  /** The smallest resolvable wavelength difference λ/R (m), null where resolvingPower is (analysis/grating-answers.ts). */
+  smallestResolvable?: number | null;
+  /**
+   * Linear dispersion in the focal plane of a camera lens of focal length f (the job's
+   * orders.focal_length), dx/dλ = f·m/(d·cos θ_m) (metres per metre of wavelength); null for m = 0
+   * and orders that do not land; absent without a focal length.
+   */
+  focalDispersion?: number | null;
+  /**
+   * Reflection gratings: the Littrow angle θ_L, sin θ_L = mλ/(2d); at incidence θ_i = −θ_L the order
+   * leaves at θ_m = θ_L = −θ_i, back along the incident beam. Null where |mλ/(2d)| > 1; absent for
+   * transmission gratings.
+   */
+  littrowAngle?: number | null;
 }
 
 /** Propagating orders that are left out of the list (only for gratings with thousands of orders). */

@@ -20,6 +20,13 @@ export interface Grating {
   period: number;
   length?: number;
   opaque: boolean;
+  /**
+   * A reflection grating: the light is diffracted back to the incidence side. Unfolded about the
+   * grating's plane, the field just off a thin reflection grating is its reflectance profile times
+   * the incident wave, so it is computed as a transmission grating under the same tilt, the orders
+   * given unfolded (analysis/grating-answers.ts states the convention). Absent for transmission.
+   */
+  reflective?: true;
 }
 
 export const PROFILES = ['sinusoidal-amplitude', 'sinusoidal-phase', 'binary-phase', 'blazed', 'binary-amplitude'] as const;
@@ -52,6 +59,14 @@ const schema = z.strictObject({
     ], { error: "expected a depth in waves (a number such as 1) or as an optical path (a length such as '633 nm')" })
     .optional(),
   opaque: z.literal(false, { error: 'expected no opaque gratings (a grating of opaque lines is the slits element)' }).default(false),
+  /**
+   * true: a reflection grating. A blazed depth given as a length is then the groove depth h, an
+   * optical path 2h·cos θ_i (the path difference of light reflected at the top and the bottom of a
+   * groove, k·h·(cos θ_i + cos θ_m), taken where the order leaves along the specular or the Littrow
+   * direction, cos θ_m = cos θ_i; Palmer, Diffraction Grating Handbook, ch. 9, from memory); a depth
+   * in waves and a phase are the phase itself, as for transmission.
+   */
+  reflective: z.boolean({ error: 'expected true (a reflection grating) or false (transmission, the default)' }).optional(),
 });
 type Job = z.output<typeof schema>;
 
@@ -64,7 +79,7 @@ const PROFILE_KEYS: Record<(typeof PROFILES)[number], { needs: (keyof Job)[]; ma
   'binary-amplitude': { needs: ['duty'], may: [] },
 };
 
-function profileOf(job: Job, wavelength: number): GratingProfile {
+function profileOf(job: Job, wavelength: number, cosIncidence = 1): GratingProfile {
   switch (job.profile) {
     case 'sinusoidal-amplitude':
       return { kind: 'sinusoidal-amplitude', modulation: job.contrast! };
@@ -73,7 +88,7 @@ function profileOf(job: Job, wavelength: number): GratingProfile {
     case 'binary-phase':
       return { kind: 'binary-phase', duty: job.duty ?? 0.5, step: job.phase ?? Math.PI };
     case 'blazed':
-      return { kind: 'blazed', depth: 'waves' in job.depth! ? job.depth.waves : job.depth!.path / wavelength };
+      return { kind: 'blazed', depth: 'waves' in job.depth! ? job.depth.waves : (job.depth!.path * (job.reflective ? 2 * cosIncidence : 1)) / wavelength };
     case 'binary-amplitude':
       return { kind: 'binary-amplitude', duty: job.duty! };
   }
@@ -121,11 +136,12 @@ export const grating: ElementKind<Grating, typeof schema> = {
   },
   resolve: (job, v, context) => ({
     shape: 'grating',
-    profile: profileOf(job, context.wavelength),
+    profile: profileOf(job, context.wavelength, context.cosIncidence),
     count: v('count'),
     period: v('period'),
     ...(job.length ? { length: v('length') } : {}),
     opaque: false,
+    ...(job.reflective ? { reflective: true as const } : {}),
   }),
   // A phase profile is a fixed optical path (a relief or an index step, its dispersion neglected):
   // met by another wavelength its phase goes as 1/λ. Amplitude profiles are the same at every one.
@@ -136,5 +152,5 @@ export const grating: ElementKind<Grating, typeof schema> = {
     y: s.length ? { kind: 'interval', width: s.length } : null,
   }),
   transmittance,
-  describe: (s) => `${describeProfile(s.profile)}, ${s.count} periods of ${sizeWords(s.period)}${s.length ? `, length ${sizeWords(s.length)}` : ' (lines infinitely long along y)'}`,
+  describe: (s) => `${s.reflective ? 'reflection grating: ' : ''}${describeProfile(s.profile)}, ${s.count} periods of ${sizeWords(s.period)}${s.length ? `, length ${sizeWords(s.length)}` : ' (lines infinitely long along y)'}`,
 };

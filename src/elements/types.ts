@@ -40,6 +40,11 @@ export interface ElementSpec {
 /** What resolving an element may use beyond its own keys. */
 export interface ResolveContext {
   wavelength: number;
+  /**
+   * The incident light's direction cosine along the axis, cos θ_i (1 when absent): a reflection
+   * grating's groove depth h is an optical path 2h·cos θ_i (elements/grating.ts).
+   */
+  cosIncidence?: number;
 }
 
 /** Reports a problem with one of the element's keys at load time. */

@@ -1,12 +1,13 @@
 // Expanding a job's sweeps into cases: the cartesian product of every swept key, with distance
 // innermost so that consecutive cases share an aperture and a wavelength.
 import type { Illumination } from '../optics/aperture.js';
+import { directionCosines } from '../optics/source.js';
 import { elementOf, type Aperture } from '../elements/registry.js';
 import type { ResolveContext } from '../elements/types.js';
 import type { Case } from '../plan/types.js';
 import type { JobSpec, SweepValues } from './schema.js';
 import { lengthToken } from './units.js';
-import { DEFAULT_BAND_SAMPLES, meanWavelength, spectrumLines, type SpectrumSource } from '../analysis/spectrum.js';
+import { DEFAULT_BAND_SAMPLES, meanWavelength, spectrumLines, spectrumRange, type SpectrumSource } from '../analysis/spectrum.js';
 import { flatIllumination, type CaseSource } from '../plan/curved-light.js';
 
 export const MAX_CASES = 1_000_000;
@@ -83,13 +84,15 @@ export function expandJob(job: JobSpec): Case[] {
   const swept = axes.filter((a) => a.values.length > 1);
   const width = String(total).length;
   const spot = job.search?.['smallest-spot'];
+  const spectrum = spectrumOf(job);
   const analysis = {
     detectors: (job.detector ?? []).map((d) => ({ kind: d.kind, size: d.size, ...(d.at ? { at: d.at } : {}) })),
     ...(spot ? { smallestSpot: { between: spot.between, measure: spot.measure } } : {}),
     ...(job.orders?.overlap ? { orderOverlap: job.orders.overlap } : {}),
+    ...(job.orders?.focal_length ? { focalLength: job.orders.focal_length } : {}),
+    ...(job.orders?.use ? { orderUse: { ...job.orders.use, light: useLight(spectrum ? spectrumRange(spectrum) : job.wavelength!.values, job.orders.use) } } : {}),
     ...(job.search?.pinhole ? { pinholePassing: job.search.pinhole.passing } : {}),
   };
-  const spectrum = spectrumOf(job);
   const cases: Case[] = [];
   const idx = new Array<number>(axes.length).fill(0);
   for (let n = 0; n < total; n++) {
@@ -104,15 +107,16 @@ export function expandJob(job: JobSpec): Case[] {
       sweptValues[a.key] = v;
       tokens.push(`${a.token}-${a.unit === 'm' ? lengthToken(v) : String(v)}`);
     }
+    const light = curvedLight(job, value);
     cases.push({
       job: job.name,
       index: n,
       id: tokens.join('_'),
       wavelength: value('wavelength'),
       distance: value('distance'),
-      aperture: resolveAperture(job, value, { wavelength: value('wavelength') }),
+      aperture: resolveAperture(job, value, { wavelength: value('wavelength'), cosIncidence: directionCosines(light.illumination)[2] }),
       ...(job.planes ? { planes: job.planes.map((p, i) => ({ after: value(`planes.${i}.after`), aperture: resolveElement(p.element, (k) => value(`planes.${i}.element.${k}`), { wavelength: value('wavelength') }) })) } : {}),
-      ...curvedLight(job, value),
+      ...light,
       ...(spectrum ? { spectrum } : {}),
       ...(job.grid ? { grid: job.grid } : {}),
       ...(job.window ? { window: job.window } : {}),
@@ -172,6 +176,11 @@ function curvedLight(job: JobSpec, value: (key: string) => number): { illuminati
   if (ill.kind === 'gaussian' && ill.waist_distance) source = { kind: 'gaussian', waist: value('illumination.waist'), waistDistance: value('illumination.waist_distance'), tilt: ill.tilt };
   if (!source) return { illumination: resolveIllumination(job, value) };
   return { illumination: flatIllumination(source, value('wavelength')), source };
+}
+
+/** The light order sorting considers: the job's wavelengths from lowest to highest, or the used range itself for one wavelength. */
+function useLight(wavelengths: number[], use: { from: number; to: number }): [number, number] {
+  return wavelengths.length > 1 ? [wavelengths.reduce((a, b) => Math.min(a, b)), wavelengths.reduce((a, b) => Math.max(a, b))] : [use.from, use.to];
 }
 
 function resolveIllumination(job: JobSpec, value: (key: string) => number): Illumination {

@@ -19,6 +19,7 @@ import {
   sweepLength,
   type SweepValues,
 } from './quantities.js';
+import { orderAnswerKeys } from './order-keys.js';
 
 export {
   DESCRIPTION_MAX,
@@ -208,7 +209,7 @@ const searchShape = {
 };
 export const SEARCH_KEYS = Object.keys(searchShape);
 
-const ordersShape = { overlap: positiveLength().optional() };
+const ordersShape = { overlap: positiveLength().optional(), ...orderAnswerKeys };
 
 /**
  * Planes after the first (the job's aperture): each an element at a distance (`after`) behind the
@@ -395,6 +396,8 @@ const QUANTITY_KEYS: Record<string, UnitKind> = {
   'detector.at': 'length',
   'search.smallest-spot.between': 'length',
   'orders.overlap': 'length',
+  'orders.focal_length': 'length',
+  'orders.use': 'length',
   'output.zoom.centre': 'length',
   'output.zoom.width': 'length',
   'planes.after': 'length',

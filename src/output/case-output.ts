@@ -9,6 +9,7 @@ import type { SpotMetrics } from '../analysis/metrics.js';
 import { isOneD, pitchPair, xAt, yAt } from '../model/grid.js';
 import { profileCol, profileRow, type IntensityMap } from '../model/intensity-map.js';
 import type { GratingOrder, OmittedOrders } from '../analysis/orders.js';
+import { metricsWithAnswers, ordersWithAnswers, type GratingUse } from '../analysis/grating-answers.js';
 import type { OrderCheck, StrayLight } from '../analysis/order-checks.js';
 import type { Verdict } from '../analysis/verdict.js';
 import type { EnergyCurve } from '../analysis/encircled.js';
@@ -54,6 +55,13 @@ export interface CaseMetrics extends SpotMetrics {
   ordersOmitted?: OmittedOrders[];
   /** Gratings: fraction of the power through the slits that thin-grating theory sends into evanescent orders (all of them). */
   evanescentFraction?: number;
+  /**
+   * Gratings: the case-level spectroscopy answers (analysis/grating-answers.ts: the sign convention,
+   * the effective count of lit periods, the focal length, order sorting). Added where result.json,
+   * orders.csv and the report are written, with each order's resolving power, smallest resolvable
+   * Δλ, focal-plane dispersion and Littrow angle.
+   */
+  spectroscopy?: GratingUse;
   /** Gratings: the orders the consistency checks compared with the grating equation and thin-grating theory. */
   orderChecks?: OrderCheck[];
   /** Gratings: peaks of light away from every order that lands (see analysis/order-checks.ts). */
@@ -231,7 +239,7 @@ export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, un
     babinet: plan.babinet,
     reasons: plan.reasons,
     warnings: rec.warnings,
-    metrics,
+    metrics: metricsWithAnswers(plan, metrics),
     checks: plan.checks,
     diagnostics: computed.diagnostics,
     sampling: {
@@ -369,7 +377,7 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
     put(CASE_FILES.profileX, profileCsv(map, 'x', row, col));
     if (!isOneD(computed)) put(CASE_FILES.profileY, profileCsv(map, 'y', row, col));
     if (rec.metrics.orders) {
-      put(CASE_FILES.orders, ordersCsv(rec.metrics.orders, rec.metrics.evanescentFraction, rec.metrics.ordersOmitted));
+      put(CASE_FILES.orders, ordersCsv(ordersWithAnswers(plan, rec.metrics.orders), rec.metrics.evanescentFraction, rec.metrics.ordersOmitted));
     }
     if (rec.energy) {
       const head = isOneD(computed) ? 'half_width_m' : 'radius_m';
@@ -458,6 +466,9 @@ export function ordersCsv(orders: GratingOrder[], evanescentFraction?: number, o
     'angular_dispersion_rad_per_nm',
     'linear_dispersion_mm_per_nm',
     'free_spectral_range_m',
+    'smallest_resolvable_m',
+    'focal_linear_dispersion_mm_per_nm',
+    'littrow_angle_rad',
   ];
   const rows: (string | number | boolean | null)[][] = orders.map((o) => [
     o.m,
@@ -479,12 +490,15 @@ export function ordersCsv(orders: GratingOrder[], evanescentFraction?: number, o
     perNm(o.angularDispersion),
     o.linearDispersion === null || o.linearDispersion === undefined ? null : o.linearDispersion * 1e-9 * 1e3,
     o.freeSpectralRange ?? null,
+    o.smallestResolvable ?? null,
+    o.focalDispersion === null || o.focalDispersion === undefined ? null : o.focalDispersion * 1e-9 * 1e3,
+    o.littrowAngle ?? null,
   ]);
   for (const r of omitted) {
-    rows.push([`${r.from}..${r.to}`, r.status, r.outside, null, null, null, null, null, null, null, null, r.predictedFraction, null, null, null, null, null, null, null]);
+    rows.push([`${r.from}..${r.to}`, r.status, r.outside, null, null, null, null, null, null, null, null, r.predictedFraction, null, null, null, null, null, null, null, null, null, null]);
   }
   if (evanescentFraction !== undefined) {
-    rows.push([null, 'all-evanescent', null, null, null, null, null, null, null, 0, null, evanescentFraction, 0, 0, null, null, null, null, null]);
+    rows.push([null, 'all-evanescent', null, null, null, null, null, null, null, 0, null, evanescentFraction, 0, 0, null, null, null, null, null, null, null, null]);
   }
   return toCsv(header, rows);
 }

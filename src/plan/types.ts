@@ -124,6 +124,14 @@ export interface CaseAnalysis {
   smallestSpot?: { between: [number, number]; measure: 'energy' | 'fwhm' | 'd4sigma' };
   /** Orders of different wavelengths closer than this on the screen count as overlapping. */
   orderOverlap?: number;
+  /** The camera lens's focal length for the orders' linear dispersion in its focal plane (orders.focal_length). */
+  focalLength?: number;
+  /**
+   * The wavelength range [from, to] used in one order (orders.use), with the light's wavelengths
+   * [lowest, highest] that order sorting considers: the job's wavelength sweep, or the range itself
+   * when the job has one wavelength.
+   */
+  orderUse?: { from: number; to: number; order: number; light: [number, number] };
   /** Fractions whose passing pinhole diameter is wanted at a converging lens's focus (search.pinhole.passing). */
   pinholePassing?: number[];
 }

@@ -9,6 +9,7 @@ import type { Overlap } from '../analysis/overlap.js';
 import { writeFileAtomic, safeJoin } from '../output/atomic.js';
 import { CASE_FILES, type CaseSummary } from '../output/case-output.js';
 import type { GratingOrder } from '../analysis/orders.js';
+import { gratingUse, ordersWithAnswers } from '../analysis/grating-answers.js';
 import { methodWords } from '../plan/planner.js';
 import type { Plan } from '../plan/types.js';
 import { toCsv } from '../output/csv.js';
@@ -296,7 +297,15 @@ const pctCell = (x: number | null | undefined, d = 4) => (x === null || x === un
  */
 export function orderTable(rec: CaseSummary): ReportTable {
   const m = rec.metrics;
-  const orders = m.orders ?? [];
+  // The spectroscopy answers (analysis/grating-answers.ts): extra columns for a focal length and a
+  // reflection grating, the sign convention, the lit periods and order sorting in the note.
+  const use = gratingUse(rec.plan);
+  const orders = ordersWithAnswers(rec.plan, m.orders ?? [], use);
+  const extra = (o: GratingOrder | null) => [
+    o?.smallestResolvable ? fmtLen(o.smallestResolvable) : null,
+    ...(use?.focalLength !== undefined ? [o?.focalDispersion === null || o?.focalDispersion === undefined ? null : `${trimNumber(o.focalDispersion * 1e-6, 4)} mm/nm`] : []),
+    ...(use?.reflective ? [o?.littrowAngle === null || o?.littrowAngle === undefined ? null : `${trimNumber((o.littrowAngle * 180) / Math.PI, 5)}°`] : []),
+  ];
   const rows: (string | number | null)[][] = [];
   const row = (o: GratingOrder) => [
     o.m,
@@ -310,6 +319,7 @@ export function orderTable(rec: CaseSummary): ReportTable {
     o.resolvingPower,
     o.linearDispersion === null || o.linearDispersion === undefined ? null : `${trimNumber(o.linearDispersion * 1e-6, 4)} mm/nm`,
     o.freeSpectralRange === null || o.freeSpectralRange === undefined ? null : fmtLen(o.freeSpectralRange),
+    ...extra(o),
   ];
   const rangeRow = (from: number, to: number, predicted: number) => [
     `${from} … ${to}`,
@@ -323,6 +333,7 @@ export function orderTable(rec: CaseSummary): ReportTable {
     null,
     null,
     null,
+    ...extra(null),
   ];
   const omitted = [...(m.ordersOmitted ?? [])];
   const low = omitted.filter((r) => orders.length === 0 || r.to < orders[0]!.m);
@@ -344,17 +355,28 @@ export function orderTable(rec: CaseSummary): ReportTable {
   }
   for (const r of high) rows.push(rangeRow(r.from, r.to, r.predictedFraction));
   if (m.evanescentFraction !== undefined) {
-    rows.push(['all evanescent orders', 'evanescent (together)', null, null, '0 %', pctCell(m.evanescentFraction), '0 %', null, null, null, null]);
+    rows.push(['all evanescent orders', 'evanescent (together)', null, null, '0 %', pctCell(m.evanescentFraction), '0 %', null, null, null, null, ...extra(null)]);
   }
   return {
     title: `Grating orders, ${rec.plan.case.id}`,
-    header: ['m', 'status', 'angle', 'position', 'measured, of transmitted', 'thin-grating theory', 'flux, of transmitted', 'of incident', 'resolving power mN', 'on the screen, per nm', 'free spectral range λ/m'],
+    header: [
+      'm', 'status', 'angle', 'position', 'measured, of transmitted', 'thin-grating theory', 'flux, of transmitted', 'of incident', 'resolving power |m|N', 'on the screen, per nm', 'free spectral range λ/m',
+      'smallest Δλ resolved, λ/R',
+      ...(use?.focalLength !== undefined ? [`at f = ${fmtLen(use.focalLength)}, per nm`] : []),
+      ...(use?.reflective ? ['Littrow angle'] : []),
+    ],
     rows,
     note:
       'Grating equation d(sin θ_m − sin θ_i) = mλ, angles from the axis; position z·tan θ_m. Measured: ∫|U|² over the interval between the midpoints to the neighbouring orders, over the power through the slits (blank where part of the interval lies outside the window). ' +
       'Thin-grating theory: (w/d)·sinc²(m·w/d) of the same power (Goodman, Introduction to Fourier Optics, §4.4). Flux: the measured value times cos θ_m/cos θ_i, the power crossing the screen plane rather than ∫|U|². ' +
       'Evanescent orders (|sin θ| > 1) carry no power to any screen; the last row is what thin-grating theory sends into all of them together. ' +
-      'Per nm: the linear dispersion on this screen, z·m/(d·cos³θ_m), from dθ/dλ = m/(d·cos θ_m) (Born & Wolf §8.6.1); free spectral range λ/|m| (Hecht §10.2.8).',
+      'Per nm: the linear dispersion on this screen, z·m/(d·cos³θ_m), from dθ/dλ = m/(d·cos θ_m) (Born & Wolf §8.6.1); free spectral range λ/|m| (Hecht §10.2.8).' +
+      (use
+        ? `\n${use.convention}\nResolving power R = |m|·N with N = ${use.periodsWords}.` +
+          (use.focalLength !== undefined ? `\nAt f: the linear dispersion f·m/(d·cos θ_m) in the focal plane of a lens of focal length ${fmtLen(use.focalLength)}.` : '') +
+          (use.reflective ? '\nReflection grating: computed unfolded about its plane (a groove depth h is an optical path 2h·cos θ_i); Littrow angle θ_L with sin θ_L = mλ/(2d): at incidence θ_i = −θ_L the order returns along the incident beam.' : '') +
+          (use.orderSorting !== undefined ? `\nOrder sorting: ${use.orderSorting ? use.orderSorting.words : 'none of the range in orders.use lands in its order at this incidence.'}` : '')
+        : ''),
   };
 }
 

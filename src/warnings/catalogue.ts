@@ -425,6 +425,16 @@ export const WARNING_CATALOGUE = {
       return `${items.join('; ')} (the ${win}); ${d.windowGiven ? 'widen the window the job gives' : 'give a window in the job that covers it'} or move the detector`;
     },
   }),
+
+  // ---- reflection gratings (src/analysis/grating-answers.ts)
+  'reflection-depth-oblique': entry<{ depth: number; cosIncidence: number; orders: readonly { m: number; waves: number }[] }>({
+    title: 'Reflection grating: groove phase far from its value at these orders',
+    accuracy: true,
+    message: (d) =>
+      `the reflection grating's groove phase is computed as ${fmt(d.depth)} wave(s) for every order, its value for an order leaving along the specular or the Littrow direction (the groove's path 2h·cos θ_i, cos θ_i = ${fmt(d.cosIncidence, 4)}); an order leaving at θ_m meets the path h·(cos θ_i + cos θ_m), which differs here by ` +
+      `${d.orders.slice(0, 6).map((o) => `${fmt(o.waves, 2)} wave at order ${o.m}`).join(', ')}${d.orders.length > 6 ? ` and more at ${d.orders.length - 6} other orders` : ''}, so the computed powers of these orders may be off. ` +
+      'Use the grating nearer its Littrow or specular direction, or read these orders\' powers as estimates',
+  }),
 };
 
 /** A wavelength step in nm. */

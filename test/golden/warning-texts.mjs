@@ -105,6 +105,7 @@ const CASES = [
   ['sub-micron grating at 30 µm', 'run', { distance: 30 * um, aperture: slits(20, 0.5 * um, 1 * um) }],
   ['grating on a pitch of half a slit', 'run', { distance: 1, aperture: slits(20, 5 * um, 10 * um), grid: { pitch: 2.5 * um } }],
   ['two slits at 1 mm', 'run', { distance: 1e-3, aperture: slits(2, 5 * um, 10 * um) }],
+  ['one-wave blazed reflection grating lit normally, orders at 18°', 'run', { distance: 1, method: 'fraunhofer', window: [2, 2], aperture: { shape: 'grating', profile: { kind: 'blazed', depth: 1 }, count: 50, period: 2 * um, opaque: false, reflective: true } }],
   ['grating with 10 slits, given window', 'run', { distance: 10, method: 'fraunhofer', aperture: slits(10, 10 * um, 20 * um), window: [2, 2] }],
   ['detectors partly and wholly outside a given window', 'run', { distance: 1, aperture: slit(100 * um), window: [6 * mm, 6 * mm], analysis: { detectors: [{ kind: 'square', size: 2 * mm, at: [3 * mm, 0] }, { kind: 'square', size: 2 * mm, at: [5 * mm, 0] }, { kind: 'square', size: 1 * mm, at: [0, 0] }] } }],
   ['pinhole detector half outside (2-D)', 'run', { distance: 0.1, aperture: circle(50 * um), window: [1 * mm, 1 * mm], analysis: { detectors: [{ kind: 'pinhole', size: 0.4 * mm, at: [0.5 * mm, 0] }] } }],
