@@ -18,6 +18,7 @@ import type { CaseMetrics, CaseRecord } from '../output/case-output.js';
 import type { Plan, Warning } from '../plan/types.js';
 import { warning } from '../warnings/catalogue.js';
 import { computeCase, type ComputedCase } from './compute.js';
+import { gratingUse, ordersWithAnswers } from '../analysis/grating-answers.js';
 import { runSpectrumCase } from './spectrum-case.js';
 import { twoPointReading } from '../analysis/two-points.js';
 import type { CaseContext } from './context.js';
@@ -76,7 +77,7 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
 
 /** A grating's part of the metrics (its order table and checks), or null for other elements. */
 export interface GratingPart {
-  metrics: Pick<CaseMetrics, 'orders' | 'ordersOmitted' | 'evanescentFraction' | 'orderChecks' | 'strayLight'>;
+  metrics: Pick<CaseMetrics, 'orders' | 'ordersOmitted' | 'evanescentFraction' | 'orderChecks' | 'strayLight' | 'spectroscopy'>;
   warnings: Warning[];
   evanescence: GratingEvanescence;
 }
@@ -105,7 +106,11 @@ export function gratingPart(plan: Plan, computed: ComputedCase): GratingPart | n
   const warnings: Warning[] = [];
   const metrics: GratingPart['metrics'] = {};
   const table = gratingOrderTable(computed, input);
-  metrics.orders = table.orders;
+  // The answers that need the plan (resolving power with the illuminated periods, the focal
+  // plane's dispersion, Littrow angles, order sorting): in the record as in the files.
+  const use = gratingUse(plan);
+  metrics.orders = ordersWithAnswers(plan, table.orders, use);
+  if (use) metrics.spectroscopy = use;
   if (table.omitted.length) metrics.ordersOmitted = table.omitted;
   metrics.evanescentFraction = table.evanescentFraction;
   const evanescent = table.orders.filter((o) => o.status === 'evanescent');

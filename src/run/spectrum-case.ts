@@ -15,6 +15,7 @@ import type { Plan, Warning } from '../plan/types.js';
 import { computeCase, type ComputedCase, type Diagnostics } from './compute.js';
 import type { CaseContext } from './context.js';
 import { gratingPart } from './run-case.js';
+import { gratingUse } from '../analysis/grating-answers.js';
 
 /** The tristimulus values X, Y, Z per output sample: Σ weight·I_λ·[x̄, ȳ, z̄](λ). */
 export interface ColourMaps {
@@ -105,6 +106,8 @@ export function runSpectrumCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 's
     },
   };
   if (lineOrders.length) {
+    const use = gratingUse(plan);
+    if (use) metrics.spectroscopy = use;
     metrics.lineOrders = lineOrders;
     metrics.linePairs = linePairs(computed, lineOrders);
   }
