@@ -10,6 +10,7 @@ import { buildLut, encodePng, fillRect, frame, LUT_LEVELS, type Rect } from './r
 import { isOneD } from '../model/grid.js';
 import { mapProblem, type IntensityMap } from '../model/intensity-map.js';
 import { niceTicks } from './line-plot.js';
+import { scratchBytes, scratchZeros } from './scratch.js';
 
 export type ScaleName = 'gray' | 'shoal';
 
@@ -161,7 +162,8 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   validate(input);
   const disp = displaySize(input);
   const { layout, title, titleScale, slotX, slotW } = plan(input, disp);
-  const base: RgbImage = { width: layout.width, height: layout.height, data: new Uint8Array(layout.width * layout.height * 3) };
+  // (Every pixel is written: the background fills it all first.)
+  const base: RgbImage = { width: layout.width, height: layout.height, data: scratchBytes('picture', layout.width * layout.height * 3) };
   fillRect(base, { x: 0, y: 0, w: base.width, h: base.height }, BACKGROUND);
   if (title) drawText(base, MARGIN, MARGIN, title, TEXT, titleScale);
 
@@ -406,7 +408,7 @@ function resampleForDisplay(p: PictureInput, w: number, h: number): Float64Array
   // A 1-D map has one row (the grid's 1-D form), stretched to the stripe height below.
   const { intensity: src, ny: rows, nx: cols } = p.map;
   const wx = axisWeights(cols, w);
-  const tmp = new Float64Array(rows * w);
+  const tmp = scratchZeros('resample-rows', rows * w);
   const { start, index, weight } = wx;
   for (let r = 0; r < rows; r++) {
     const row = r * cols;
@@ -418,7 +420,7 @@ function resampleForDisplay(p: PictureInput, w: number, h: number): Float64Array
     }
   }
   const wy = axisWeights(rows, h);
-  const out = new Float64Array(h * w);
+  const out = scratchZeros('resample', h * w);
   for (let o = 0; o < h; o++) {
     const end = wy.start[o + 1]!;
     const to = o * w;
