@@ -257,12 +257,23 @@ function viewLevels(shown: Float64Array, view: 'linear' | 'log', peak: number, d
     }
     return out;
   }
+  return logLevels(shown, peak, decades, out);
+}
+
+/**
+ * The log view's table levels of values (v / peak): Math.round(clamp(1 + log10(v/peak)/decades)·top),
+ * 0 where v ≤ 0 or NaN and where peak is not above 0, written into `out` (the contact sheet's log
+ * tiles use it too).
+ */
+export function logLevels(shown: Float64Array, peak: number, decades: number, out: Uint8Array): Uint8Array {
+  const top = LUT_LEVELS - 1;
+  if (!(peak > 0)) return out.fill(0);
   const level = (x: number) => Math.round(Math.min(1, Math.max(0, 1 + Math.log10(x) / decades)) * top);
   if (!(decades >= 0.01 && decades <= 100)) {
     // Outside what a job can ask (1 to 12 decades) the bounds are not worth their search.
     for (let i = 0; i < shown.length; i++) {
       const v = shown[i]!;
-      if (v > 0) out[i] = level(v / peak);
+      out[i] = v > 0 ? level(v / peak) : 0;
     }
     return out;
   }
@@ -274,7 +285,10 @@ function viewLevels(shown: Float64Array, view: 'linear' | 'log', peak: number, d
   const below = bounds[1]!;
   for (let i = 0; i < shown.length; i++) {
     const x = shown[i]! / peak;
-    if (!(x >= below)) continue;
+    if (!(x >= below)) {
+      out[i] = 0;
+      continue;
+    }
     let k = +(x >= bounds[128]!) << 7;
     k += +(x >= bounds[k + 64]!) << 6;
     k += +(x >= bounds[k + 32]!) << 5;
