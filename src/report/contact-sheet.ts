@@ -211,9 +211,7 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
     const slotX = r.x - Math.floor((pl.slotW - r.w) / 2);
     pl.labelLines[i]!.forEach((line, k) => drawText(img, slotX, r.y - 1 - pl.labelLines[i]!.length * LINE + k * LINE, line, TEXT));
     frame(img, r, FRAME);
-    const values = t.map.intensity;
-    let shown = 0;
-    for (let k = 0; k < values.length; k++) if (values[k]! > shown) shown = values[k]!;
+    const shown = tileMax(t);
     // Brightness to the tile's own maximum (what it can show); the label gives the case's peak.
     paintTile(img, r, resample(t, layout.fields[i]! / 2, r.w), shown, lut, log);
     drawText(img, slotX, r.y + r.h + 1 + 4, `peak ${compact(t.peak ?? shown)}`, TEXT);
@@ -322,6 +320,18 @@ function axisWeights(n: number, origin: number, pitch: number, H: number, m: num
   start[m] = index.length;
   return { start, index, weight, cover };
 }
+
+/** The greatest value of a tile's map (kept with the tile: both sheets ask). */
+function tileMax(t: SheetTile): number {
+  const kept = MAXIMA.get(t);
+  if (kept && kept.map === t.map) return kept.max;
+  const values = t.map.intensity;
+  let max = 0;
+  for (let k = 0; k < values.length; k++) if (values[k]! > max) max = values[k]!;
+  MAXIMA.set(t, { map: t.map, max });
+  return max;
+}
+const MAXIMA = new WeakMap<SheetTile, { map: SheetTile['map']; max: number }>();
 
 /**
  * The tile on the common m×m display grid; NaN where the tile has no data. A job draws its sheet
