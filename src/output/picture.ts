@@ -131,16 +131,20 @@ function plan(p: PictureInput, disp: { w: number; h: number }): Plan {
   };
 }
 
-function validate(p: PictureInput): void {
+/** Checks the input; returns the map's peak (its greatest value, 0 for none), found in the same pass. */
+function validate(p: PictureInput): number {
   const problem = mapProblem(p.map);
   if (problem) throw new RangeError(`picture: ${problem}`);
   const d = p.logDecades ?? 5;
   if (!Number.isFinite(d) || d <= 0) throw new RangeError(`picture: logDecades must be > 0, got ${d}`);
   const values = p.map.intensity;
+  let peak = 0;
   for (let i = 0; i < values.length; i++) {
     const v = values[i]!;
     if (!(v >= 0 && v < Infinity)) throw new RangeError(`picture: intensity values must be finite and >= 0, found ${v}`);
+    if (v > peak) peak = v;
   }
+  return peak;
 }
 
 export function layoutPicture(p: PictureInput): PictureLayout {
@@ -159,7 +163,7 @@ export function renderIntensityPng(p: PictureInput): Buffer {
  */
 export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: readonly ScaleName[]): Buffer[] {
   const input: PictureInput = { ...p, scale: scales[0] ?? 'gray' };
-  validate(input);
+  const peak = validate(input);
   const disp = displaySize(input);
   const { layout, title, titleScale, slotX, slotW } = plan(input, disp);
   // (Every pixel is written: the background fills it all first.)
@@ -168,7 +172,6 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   if (title) drawText(base, MARGIN, MARGIN, title, TEXT, titleScale);
 
   const shown = resampleForDisplay(input, disp.w, disp.h);
-  const peak = peakOf(p.map.intensity);
   const decades = p.logDecades ?? 5;
 
 
@@ -225,11 +228,6 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   });
 }
 
-function peakOf(values: Float64Array): number {
-  let peak = 0;
-  for (let i = 0; i < values.length; i++) if (values[i]! > peak) peak = values[i]!;
-  return peak;
-}
 
 /**
  * Table levels of a panel's display pixels in the linear view (v / peak) or the log view
