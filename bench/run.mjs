@@ -173,8 +173,9 @@ async function workersRow() {
 // What a case costs outside its propagation (targets, issue 12: at most the propagation of a 512²
 // case, and 30 ms for a small far-field case), by part: the energy curve (timed again alone), the
 // rest of the case's analysis (runPlannedCase less a computeCase of the same plan and less the
-// curve), and the writing of its folder, with the two pictures, the .npy encoding and the digests
-// timed again alone (the rest of the folder: CSVs, result.json, record.json, the file system). Each
+// curve), and the writing of its folder, with the two intensity pictures, the other pictures
+// (profile, zoom, encircled energy), the .npy encoding and the digests timed again alone (the rest
+// of the folder: CSVs, result.json, record.json, the file system). Each
 // repetition is a different distance, so no case repeats another's analysis.
 async function overheadRow() {
   const { parseJobText } = await import('../dist/src/job/load.js');
@@ -188,6 +189,8 @@ async function overheadRow() {
   const { writeCase, caseTitle, digestOf } = await import('../dist/src/output/case-output.js');
   const { energyCurve } = await import('../dist/src/analysis/encircled.js');
   const { renderIntensityPngs } = await import('../dist/src/output/picture.js');
+  const { profilePicture, zoomPicture, energyPicture } = await import('../dist/src/output/extra-pictures.js');
+  const { isOneD } = await import('../dist/src/model/grid.js');
   const { encodeNpy } = await import('../dist/src/output/npy.js');
   const kinds = [
     ['small far-field case (50 µm pinhole, 0.5–2 m)', 'distance: {from: 0.5 m, to: 2 m, count: 9}\naperture: {shape: circle, diameter: 50 um}'],
@@ -206,8 +209,8 @@ async function overheadRow() {
     // Each part in wall-clock ms and in CPU ms of this process (user + system: what the part cost,
     // whatever else the machine ran meanwhile; on an idle machine the two agree for these
     // one-thread parts, the CPU time then also counting the file writes' thread-pool work).
-    const part = { prop: [], analysis: [], curve: [], write: [], pictures: [], npy: [], digests: [] };
-    const cpuPart = { prop: [], analysis: [], curve: [], write: [], pictures: [], npy: [], digests: [] };
+    const part = { prop: [], analysis: [], curve: [], write: [], pictures: [], plots: [], npy: [], digests: [] };
+    const cpuPart = { prop: [], analysis: [], curve: [], write: [], pictures: [], plots: [], npy: [], digests: [] };
     const clock = () => ({ wall: performance.now(), cpu: process.cpuUsage() });
     const since = (t) => {
       const c = process.cpuUsage(t.cpu);
@@ -240,11 +243,17 @@ async function overheadRow() {
       t = clock();
       const pngs = renderIntensityPngs({ map: rec.computed, logDecades: plan.case.output.logDecades, title: caseTitle(plan) }, ['shoal', 'gray']);
       keep('pictures', since(t));
+      // The other pictures: profile.png, intensity-zoom.png (where the spot is small in its window)
+      // and encircled-energy.png.
+      t = clock();
+      const title = caseTitle(plan);
+      const plots = [profilePicture(plan, rec.computed, title), zoomPicture(plan, rec.computed, title), energyPicture(plan, rec.energy, isOneD(rec.computed), title)];
+      keep('plots', since(t));
       t = clock();
       const npy = encodeNpy(rec.computed.intensity, [rec.computed.ny, rec.computed.nx], plan.case.output.npy);
       keep('npy', since(t));
       t = clock();
-      for (const b of [npy, ...pngs]) digestOf(b);
+      for (const b of [npy, ...pngs, ...plots]) if (b) digestOf(b);
       keep('digests', since(t));
       keep('prop', tc);
       keep('analysis', { wall: Math.max(0, tr.wall - tc.wall), cpu: Math.max(0, tr.cpu - tc.cpu) });
@@ -256,7 +265,8 @@ async function overheadRow() {
     const over = m.analysis + m.write;
     const parts = (x) =>
       `analysis ${x.analysis.toFixed(1)} (energy curve ${x.curve.toFixed(1)}) + files ${x.write.toFixed(1)} ` +
-      `(pictures ${x.pictures.toFixed(1)}, .npy ${x.npy.toFixed(1)}, digests ${x.digests.toFixed(1)}, the rest ${Math.max(0, x.write - x.pictures - x.npy - x.digests).toFixed(1)}); ` +
+      `(intensity pictures ${x.pictures.toFixed(1)}, other pictures ${x.plots.toFixed(1)}, .npy ${x.npy.toFixed(1)}, digests ${x.digests.toFixed(1)}, ` +
+      `the rest ${Math.max(0, x.write - x.pictures - x.plots - x.npy - x.digests).toFixed(1)}); ` +
       `propagation ${x.prop.toFixed(1)}`;
     rows.push({
       name: `outside the propagation, ${name}`,

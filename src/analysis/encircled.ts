@@ -57,13 +57,24 @@ function subOffsets(s: number, pitch: number): Float64Array {
 /**
  * The power of the sub-cells by radius bin (the last bin holds everything beyond). Hot: the
  * sub-cells are visited sample by sample, x then y, and every sum is taken in that order, so the
- * curve does not depend on how the loop is written; y² is taken once per row.
+ * curve does not depend on how the loop is written; y² is taken once per row, x² once per column.
+ * A sub-cell's bin is min(bins, floor(√(x² + y²)/binWidth)), taken as b < bins ? b | 0 : bins for
+ * b = √(x² + y²)·(1/binWidth) ≥ 0 (the same bin, without the floor and min calls: half the time),
+ * and no bin for a NaN, as before.
  */
 function discHistogram(map: IntensityMap, centre: [number, number], bins: number, binWidth: number, cell: number, s: number): Float64Array {
   const { nx, ny, dx, dy, intensity } = map;
   const hist = new Float64Array(bins + 1);
   const offX = subOffsets(s, dx);
   const offY = subOffsets(s, dy);
+  const xx = new Float64Array(nx * s);
+  for (let c = 0; c < nx; c++) {
+    const x0 = map.x0 + c * dx - centre[0];
+    for (let i = 0; i < s; i++) {
+      const x = x0 + offX[i]!;
+      xx[c * s + i] = x * x;
+    }
+  }
   const yy = new Float64Array(s);
   const inv = 1 / binWidth;
   for (let r = 0; r < ny; r++) {
@@ -76,11 +87,13 @@ function discHistogram(map: IntensityMap, centre: [number, number], bins: number
     for (let c = 0; c < nx; c++) {
       const v = intensity[row + c]! * cell;
       if (v === 0) continue;
-      const x0 = map.x0 + c * dx - centre[0];
-      for (let i = 0; i < s; i++) {
-        const x = x0 + offX[i]!;
-        const x2 = x * x;
-        for (let j = 0; j < s; j++) hist[Math.min(bins, Math.floor(Math.sqrt(x2 + yy[j]!) * inv))]! += v;
+      for (let q = c * s, end = q + s; q < end; q++) {
+        const x2 = xx[q]!;
+        for (let j = 0; j < s; j++) {
+          const b = Math.sqrt(x2 + yy[j]!) * inv;
+          if (b < bins) hist[b | 0]! += v;
+          else if (b >= bins) hist[bins]! += v;
+        }
       }
     }
   }

@@ -47,8 +47,15 @@ export function profilePicture(plan: Plan, map: IntensityMap, title: string): Bu
   const c = plan.case;
   let row = 0;
   if (!isOneD(map)) {
+    // The first sample of the greatest value (row found once, after the search).
+    const v = map.intensity;
     let top = -1;
-    for (let i = 0; i < map.intensity.length; i++) if (map.intensity[i]! > top) (top = map.intensity[i]!), (row = Math.floor(i / map.nx));
+    let at = 0;
+    for (let i = 0; i < v.length; i++) {
+      const x = v[i]!;
+      if (x > top) (top = x), (at = i);
+    }
+    row = Math.floor(at / map.nx);
   }
   const y = yAt(map, row);
   const x = Float64Array.from({ length: map.nx }, (_, i) => xAt(map, i));

@@ -14,6 +14,7 @@ import { buildLut, encodePng, fillRect, frame, LUT_LEVELS, putLut, type Rect } f
 import { formatLength } from '../job/units.js';
 import { isOneD } from '../model/grid.js';
 import { mapProblem, type IntensityMap } from '../model/intensity-map.js';
+import { logLevels } from '../output/picture.js';
 
 /** One case on the sheet: its map (positions matter: each tile is centred on the optical axis) and its label. */
 export interface SheetTile {
@@ -95,7 +96,11 @@ function validate(tiles: SheetTile[], opts: SheetOptions): void {
     const what = `contact sheet: tile "${safeEcho(t.label)}"`;
     const problem = mapProblem(t.map);
     if (problem) throw new RangeError(`${what}: ${problem}`);
-    for (const v of t.map.intensity) if (!Number.isFinite(v) || v < 0) throw new RangeError(`${what}: intensity must be finite and >= 0, found ${v}`);
+    const values = t.map.intensity;
+    for (let i = 0; i < values.length; i++) {
+      const v = values[i]!;
+      if (!(v >= 0 && v < Infinity)) throw new RangeError(`${what}: intensity must be finite and >= 0, found ${v}`);
+    }
   }
 }
 
@@ -206,9 +211,7 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
     const slotX = r.x - Math.floor((pl.slotW - r.w) / 2);
     pl.labelLines[i]!.forEach((line, k) => drawText(img, slotX, r.y - 1 - pl.labelLines[i]!.length * LINE + k * LINE, line, TEXT));
     frame(img, r, FRAME);
-    const values = t.map.intensity;
-    let shown = 0;
-    for (let k = 0; k < values.length; k++) if (values[k]! > shown) shown = values[k]!;
+    const shown = tileMax(t);
     // Brightness to the tile's own maximum (what it can show); the label gives the case's peak.
     paintTile(img, r, resample(t, layout.fields[i]! / 2, r.w), shown, lut, log);
     drawText(img, slotX, r.y + r.h + 1 + 4, `peak ${compact(t.peak ?? shown)}`, TEXT);
@@ -252,15 +255,26 @@ export function renderContactSheet(tiles: SheetTile[], opts: SheetOptions = {}):
  */
 function paintTile(img: RgbImage, r: Rect, view: Float64Array, peak: number, lut: Uint8Array, decades = 0): void {
   const d = img.data;
+  const top = LUT_LEVELS - 1;
+  // The log levels as the case pictures take them (no logarithm a pixel; the same levels as
+  // Math.round(clamp(1 + log10(v/peak)/decades)·top), 0 for v = 0 or a peak of 0).
+  const logs = decades > 0 ? logLevels(view, peak, decades, new Uint8Array(view.length)) : null;
   for (let y = 0; y < r.h; y++) {
     let o = ((r.y + y) * img.width + r.x) * 3;
     for (let x = 0; x < r.w; x++, o += 3) {
       const v = view[y * r.w + x]!;
       if (Number.isNaN(v)) continue; // outside the tile's data: leave the background
-      // putLut's level (raster.ts), without its per-pixel NaN check: v is a number here.
-      const f = peak > 0 ? v / peak : 0;
-      const t = decades > 0 ? (f > 0 ? 1 + Math.log10(f) / decades : 0) : f;
-      const k = Math.round(Math.min(1, Math.max(0, t)) * (LUT_LEVELS - 1)) * 3;
+      let k: number;
+      if (logs) k = logs[y * r.w + x]! * 3;
+      else {
+        // putLut's level (raster.ts): Math.round(clamp(v/peak)·top), without Math.round (x + 0.5
+        // truncated, less one where the sum rounded up to a whole number) or its NaN check.
+        const f = peak > 0 ? v / peak : 0;
+        const t = f >= 1 ? top : f > 0 ? f * top : 0;
+        let level = (t + 0.5) | 0;
+        if (level - t > 0.5) level--;
+        k = level * 3;
+      }
       d[o] = lut[k]!;
       d[o + 1] = lut[k + 1]!;
       d[o + 2] = lut[k + 2]!;
@@ -307,8 +321,33 @@ function axisWeights(n: number, origin: number, pitch: number, H: number, m: num
   return { start, index, weight, cover };
 }
 
-/** The tile on the common m×m display grid; NaN where the tile has no data. */
+/** The greatest value of a tile's map (kept with the tile: both sheets ask). */
+function tileMax(t: SheetTile): number {
+  const kept = MAXIMA.get(t);
+  if (kept && kept.map === t.map) return kept.max;
+  const values = t.map.intensity;
+  let max = 0;
+  for (let k = 0; k < values.length; k++) if (values[k]! > max) max = values[k]!;
+  MAXIMA.set(t, { map: t.map, max });
+  return max;
+}
+const MAXIMA = new WeakMap<SheetTile, { map: SheetTile['map']; max: number }>();
+
+/**
+ * The tile on the common m×m display grid; NaN where the tile has no data. A job draws its sheet
+ * twice (linear and log) from the same tiles on the same grid: the last grid of each tile is kept
+ * with it (read only), so the second sheet does not resample again.
+ */
 function resample(t: SheetTile, H: number, m: number): Float64Array {
+  const kept = RESAMPLED.get(t);
+  if (kept && kept.H === H && kept.m === m && kept.map === t.map) return kept.out;
+  const out = resampleAnew(t, H, m);
+  RESAMPLED.set(t, { H, m, map: t.map, out });
+  return out;
+}
+const RESAMPLED = new WeakMap<SheetTile, { H: number; m: number; map: SheetTile['map']; out: Float64Array }>();
+
+function resampleAnew(t: SheetTile, H: number, m: number): Float64Array {
   const out = new Float64Array(m * m).fill(NaN);
   const g = t.map;
   const wx = axisWeights(g.nx, g.x0, g.dx, H, m);

@@ -69,39 +69,50 @@ function colourTable(): string {
   return s;
 }
 
-/** The data the page's script reads (JSON inside a non-executed script element). */
-function pageData(job: string, cases: ExplorerCase[], logDecades: number) {
-  const side = explorerSide(cases.length);
+/** One case as the page's data carries it: its decimated map and the peak of the full one. */
+export type PageCase = ReturnType<typeof pageCase>;
+
+/**
+ * A case's entry in the page's data, on a page whose maps keep at most `side` samples a side
+ * (explorerSide of the page's case count). Made from the full map, which may be dropped after:
+ * a run makes the entries as it reads each case's intensity.npy once (run/gather.ts).
+ */
+export function pageCase(c: ExplorerCase, side: number) {
+  const d = decimate(c, side);
+  // Math.max's result by comparisons (a call a sample took most of the page's time): the greatest
+  // value, NaN once one is met.
+  let peak = 0;
+  const v = c.intensity;
+  for (let i = 0; i < v.length; i++) {
+    const x = v[i]!;
+    if (x > peak || x !== x) peak = x;
+    if (peak !== peak) break;
+  }
   return {
-    job,
-    logDecades,
-    lut: colourTable(),
-    cases: cases.map((c) => {
-      const d = decimate(c, side);
-      let peak = 0;
-      for (let i = 0; i < c.intensity.length; i++) peak = Math.max(peak, c.intensity[i]!);
-      return {
-        id: c.id,
-        label: c.label,
-        note: c.note,
-        warnings: c.warnings,
-        file: `${c.id}/${CASE_FILES.intensity}`,
-        full: [c.ny, c.nx],
-        oneD: c.ny === 1,
-        nx: d.nx,
-        ny: d.ny,
-        kx: d.kx,
-        ky: d.ky,
-        // Positions of decimated sample (r, q): x0 + q·kx·dx, y0 + r·ky·dy.
-        x0: c.x0,
-        y0: c.y0,
-        dx: c.dx,
-        dy: c.dy,
-        peak,
-        values: base64Of(d.values),
-      };
-    }),
+    id: c.id,
+    label: c.label,
+    note: c.note,
+    warnings: c.warnings,
+    file: `${c.id}/${CASE_FILES.intensity}`,
+    full: [c.ny, c.nx],
+    oneD: c.ny === 1,
+    nx: d.nx,
+    ny: d.ny,
+    kx: d.kx,
+    ky: d.ky,
+    // Positions of decimated sample (r, q): x0 + q·kx·dx, y0 + r·ky·dy.
+    x0: c.x0,
+    y0: c.y0,
+    dx: c.dx,
+    dy: c.dy,
+    peak,
+    values: base64Of(d.values),
   };
+}
+
+/** The data the page's script reads (JSON inside a non-executed script element). */
+function pageData(job: string, cases: PageCase[], logDecades: number) {
+  return { job, logDecades, lut: colourTable(), cases };
 }
 
 /** Keeps the JSON safe inside a script element (no closing tag, no comment opener). */
@@ -110,7 +121,17 @@ function scriptSafe(json: string): string {
 }
 
 export function renderExplorerHtml(job: string, cases: ExplorerCase[], opts: { logDecades?: number } = {}): string {
-  const data = pageData(job, cases, opts.logDecades ?? 5);
+  const side = explorerSide(cases.length);
+  return explorerPageHtml(
+    job,
+    cases.map((c) => pageCase(c, side)),
+    opts.logDecades,
+  );
+}
+
+/** The page from cases already made into page entries (pageCase, with explorerSide of their count). */
+export function explorerPageHtml(job: string, cases: PageCase[], logDecades = 5): string {
+  const data = pageData(job, cases, logDecades);
   const title = `${job}: explorer`;
   return `<!doctype html>
 <html lang="en">
@@ -405,13 +426,22 @@ export interface ExplorerSource {
 
 /** Reads each case's intensity.npy from the job folder and writes the explorer page (atomically). */
 export async function writeExplorer(jobDir: string, file: string, job: string, sources: ExplorerSource[], logDecades = 5): Promise<void> {
-  const cases: ExplorerCase[] = [];
-  for (const s of sources) {
-    const npy = decodeNpy(new Uint8Array(await readFile(join(jobDir, s.id, CASE_FILES.intensity))));
-    const [rows, cols] = npy.shape.length === 2 ? (npy.shape as [number, number]) : [1, npy.shape[0]!];
-    cases.push({ ...s, ...s.grid, nx: cols, ny: rows, intensity: npy.data });
-  }
-  await writeFileAtomic(join(jobDir, file), renderExplorerHtml(job, cases, { logDecades }));
+  const side = explorerSide(sources.length);
+  const cases: PageCase[] = [];
+  // One full map in memory at a time: each is made into its page entry and dropped.
+  for (const s of sources) cases.push(pageCase(explorerCaseOf(s, decodeNpy(new Uint8Array(await readFile(join(jobDir, s.id, CASE_FILES.intensity))))), side));
+  await writeExplorerPage(jobDir, file, job, cases, logDecades);
+}
+
+/** Writes the page (atomically) from entries made already (pageCase). */
+export async function writeExplorerPage(jobDir: string, file: string, job: string, cases: PageCase[], logDecades = 5): Promise<void> {
+  await writeFileAtomic(join(jobDir, file), explorerPageHtml(job, cases, logDecades));
+}
+
+/** The explorer's case from its source and its decoded intensity.npy (shape [rows, cols] or [n]). */
+export function explorerCaseOf(s: ExplorerSource, npy: { data: Float64Array; shape: number[] }): ExplorerCase {
+  const [rows, cols] = npy.shape.length === 2 ? (npy.shape as [number, number]) : [1, npy.shape[0]!];
+  return { ...s, ...s.grid, nx: cols, ny: rows, intensity: npy.data };
 }
 
 /** A case's explorer entry from its record (the plan's output axes are the map's grid). */

@@ -17,7 +17,7 @@ import { formatPlan } from '../plan/format.js';
 import { planCase, type PlannerOptions } from '../plan/planner.js';
 import type { Case } from '../plan/types.js';
 import { buildJobReport, evenIndices, EXPLORER_MAX_CASES, JOB_FILES, sheetIndices, sheetTile, sweptLabel, writeJobReport } from '../report/assemble.js';
-import { explorerSourceOf, writeExplorer } from '../report/explorer.js';
+import { explorerCaseOf, explorerSide, explorerSourceOf, pageCase, writeExplorerPage, type PageCase } from '../report/explorer.js';
 import type { SheetTile } from '../report/contact-sheet.js';
 import { caseHash, readRecord, verifyCases, type CaseState, type Manifest } from './records.js';
 import type { StoredRecord } from '../output/case-output.js';
@@ -129,28 +129,36 @@ export async function gatherJob(
   try {
     const done = rows.filter((r) => r.record);
     const onSheet = sheetIndices(done.length);
+    // The explorer page's cases: the done ones, evenly chosen along the sweep past EXPLORER_MAX_CASES.
+    const onPage = done.length <= EXPLORER_MAX_CASES ? new Set(done.keys()) : evenIndices(done.length, EXPLORER_MAX_CASES);
+    const side = explorerSide(onPage.size);
     const tiles: SheetTile[] = [];
+    const pageCases: PageCase[] = [];
     const orderSets: OrderSet[] = [];
     for (let i = 0; i < done.length; i++) {
       const rec = done[i]!.record!;
       const c = rec.plan.case;
-      if (onSheet.has(i)) {
+      const label = axes.map((a) => sweptLabel(a, c.swept[a.key]!)).join(', ') || c.id;
+      // Each case's intensity.npy is read once, for its tile and its page entry both, and dropped.
+      if (onSheet.has(i) || onPage.has(i)) {
         const npy = decodeNpy(new Uint8Array(await readFile(join(jobDir, c.id, CASE_FILES.intensity))));
-        const [rowsN, colsN] = npy.shape as [number, number];
-        const p = rec.plan;
-        const label = axes.map((a) => sweptLabel(a, c.swept[a.key]!)).join(', ') || c.id;
-        tiles.push(
-          // The plan's output axes are the map's grid (no y axis: the 1-D form, ny = 1, dy = 0).
-          sheetTile(label, {
-            nx: colsN,
-            ny: rowsN,
-            dx: p.x.output.step,
-            dy: p.y ? p.y.output.step : 0,
-            x0: p.x.output.start,
-            y0: p.y ? p.y.output.start : 0,
-            intensity: npy.data,
-          }),
-        );
+        if (onSheet.has(i)) {
+          const [rowsN, colsN] = npy.shape as [number, number];
+          const p = rec.plan;
+          tiles.push(
+            // The plan's output axes are the map's grid (no y axis: the 1-D form, ny = 1, dy = 0).
+            sheetTile(label, {
+              nx: colsN,
+              ny: rowsN,
+              dx: p.x.output.step,
+              dy: p.y ? p.y.output.step : 0,
+              x0: p.x.output.start,
+              y0: p.y ? p.y.output.start : 0,
+              intensity: npy.data,
+            }),
+          );
+        }
+        if (onPage.has(i)) pageCases.push(pageCase(explorerCaseOf(explorerSourceOf(rec, label), npy), side));
       }
       const orders = rec.metrics.orders;
       const grating = orders ? gratingOf(c.aperture) : null;
@@ -170,11 +178,8 @@ export async function gatherJob(
     if (rows.length > plans.length) plans.push(`(plans of the other ${rows.length - plans.length} cases: spotcast plan ${loaded.file})`);
     const overlaps = orderOverlaps(orderSets, loaded.spec.orders?.overlap);
     const report = buildJobReport({ loaded, axes, rows, plans, overlaps });
-    // The explorer page: the done cases (evenly chosen along the sweep past EXPLORER_MAX_CASES).
-    if (done.length) {
-      const picked = done.length <= EXPLORER_MAX_CASES ? done : [...evenIndices(done.length, EXPLORER_MAX_CASES)].map((i) => done[i]!);
-      const sources = picked.map((r) => explorerSourceOf(r.record!, axes.map((a) => sweptLabel(a, r.record!.plan.case.swept[a.key]!)).join(', ') || r.record!.plan.case.id));
-      await writeExplorer(jobDir, JOB_FILES.explorer, loaded.spec.name, sources, loaded.spec.output.logDecades);
+    if (pageCases.length) {
+      await writeExplorerPage(jobDir, JOB_FILES.explorer, loaded.spec.name, pageCases, loaded.spec.output.logDecades);
       report.explorer = JOB_FILES.explorer;
     }
     await writeJobReport(jobDir, report, tiles, overlaps, drawPlots);
