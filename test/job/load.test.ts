@@ -288,7 +288,7 @@ describe('the parsed job is in SI units, with the text kept as given', () => {
   it('converts units and applies defaults', () => {
     const job = parseJobText(HEAD + 'aperture: {shape: circle, diameter: 50 um}\n', 'x.yaml');
     expect(job.file).toBe('x.yaml');
-    expect(job.spec.wavelength.values[0]).toBeCloseTo(633e-9, 20);
+    expect(job.spec.wavelength!.values[0]).toBeCloseTo(633e-9, 20);
     expect(job.spec.distance).toEqual({ values: [1], spacing: 'single' });
     expect(job.spec.aperture).toMatchObject({ shape: 'circle', opaque: false });
     expect(job.spec.illumination).toEqual({ kind: 'plane', tilt: [0, 0] });
@@ -303,7 +303,7 @@ describe('the parsed job is in SI units, with the text kept as given', () => {
 
   it('reads tilt angles in the illumination', () => {
     const job = parseJobText(HEAD + 'aperture: {shape: circle, diameter: 50 um}\nillumination: {kind: plane, tilt: [2 deg, 0]}\n');
-    expect(job.spec.illumination.tilt[0]).toBeCloseTo((2 * Math.PI) / 180, 15);
+    expect((job.spec.illumination as { tilt: [number, number] }).tilt[0]).toBeCloseTo((2 * Math.PI) / 180, 15);
     const [p] = problems(HEAD + 'aperture: {shape: circle, diameter: 50 um}\nillumination: {kind: plane, tilt: [2 deg, 3 mm]}\n');
     expect(p!.path).toBe('illumination.tilt[1]');
     expect(p!.message).toMatch(/^expected an angle such as '2 deg', got '3 mm': unknown angle unit 'mm'/);
@@ -409,7 +409,7 @@ describe('sweeps', () => {
     const { spec } = parseJobText(
       'name: s\nwavelength: [450 nm, 633 nm]\ndistance: {from: 0.1 m, to: 10 m, count: 3, spacing: log}\naperture: {shape: slit, width: 20 um}\n',
     );
-    expect(spec.wavelength.values).toHaveLength(2);
+    expect(spec.wavelength!.values).toHaveLength(2);
     expect(spec.distance.values.map((x) => Number(x.toPrecision(12)))).toEqual([0.1, 1, 10]);
   });
 });

@@ -286,7 +286,7 @@ describe('zone plate jobs: keys and load-time errors', () => {
   it('without a design wavelength, designs the plate for each case\'s wavelength', () => {
     const job = load('{shape: zone-plate, focal: 100 mm, zones: 20}');
     const a = expandJob(job.spec)[0]!.aperture as Extract<Aperture, { shape: 'zone-plate' }>;
-    expect(a.design).toBe(job.spec.wavelength.values[0]);
+    expect(a.design).toBe(job.spec.wavelength!.values[0]);
   });
   for (const [what, aperture, path] of [
     ['no zones', '{shape: zone-plate, focal: 100 mm, zones: 0, design: 633 nm}', 'aperture.zones'],
