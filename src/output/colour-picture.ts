@@ -34,6 +34,12 @@ const X_AXIS_H = 3 + 2 + CELL_H + 2 + CELL_H;
 
 /** colour.png as PNG bytes. */
 export function renderColourPng(p: ColourPictureInput): Buffer {
+  return renderColourPicture(p).png;
+}
+
+/** colour.png and where its two panels are (for tests that read its pixels). */
+export function renderColourPicture(p: ColourPictureInput): { png: Buffer; panels: Rect[] } {
+  const panels: Rect[] = [];
   const base = { map: p.map, scale: 'gray' as const, logDecades: p.logDecades };
   const disp = displaySize(base);
   const yRoom = yAxisRoom(base);
@@ -49,7 +55,8 @@ export function renderColourPng(p: ColourPictureInput): Buffer {
   drawText(img, MARGIN, MARGIN, title, TEXT, textWidth(title, 2) <= width - 2 * MARGIN ? 2 : 1);
 
   // The tristimulus maps at display size, each resampled as intensity.png resamples its map.
-  const shown = [p.X, p.Y, p.Z].map((v) => resampleForDisplay({ ...base, map: { ...p.map, intensity: v } }, disp.w, disp.h));
+  // (Copied: resampleForDisplay returns a scratch array that its next call reuses.)
+  const shown = [p.X, p.Y, p.Z].map((v) => resampleForDisplay({ ...base, map: { ...p.map, intensity: v } }, disp.w, disp.h).slice());
   let yMax = 0;
   for (let i = 0; i < p.Y.length; i++) if (p.Y[i]! > yMax) yMax = p.Y[i]!;
   const views: { label: string; brightness: (y: number) => number; caption: string }[] = [
@@ -63,6 +70,7 @@ export function renderColourPng(p: ColourPictureInput): Buffer {
   views.forEach((view, k) => {
     const sx = MARGIN + k * (slotW + GUTTER);
     const panel: Rect = { x: sx + yRoom + Math.floor((slotW - yRoom - disp.w) / 2), y: imgY, w: disp.w, h: disp.h };
+    panels.push(panel);
     drawText(img, sx, top, view.label, TEXT, 2);
     paint(img, panel, shown, yMax > 0 ? view.brightness : () => 0);
     frame(img, { x: panel.x - 1, y: panel.y - 1, w: panel.w + 2, h: panel.h + 2 }, FRAME);
@@ -74,7 +82,7 @@ export function renderColourPng(p: ColourPictureInput): Buffer {
     drawText(img, sx, capY + CELL_H + 4, 'sRGB (IEC 61966-2-1), white point D65', TEXT);
     drawText(img, sx, capY + 2 * (CELL_H + 4), 'CIE 1931 2-degree observer', TEXT);
   });
-  return encodePng(img);
+  return { png: encodePng(img), panels };
 }
 
 /** Each display pixel in its colour at the view's brightness (its luminance relative to the brightest). */

@@ -98,11 +98,13 @@ function unionAxis(axes: Axis[], steps: number[], maxN: number): { axis: Axis; c
  * spread: from one sample to the next the pattern may move by at most a quarter of its finest
  * structure. A beam that carries at least 1 % of the power (a grating's order) moves at the rate its
  * landing point changes with wavelength (from the scouts), and its structure is its footprint or
- * its diffraction width λz/(Dγ³), whichever is larger. The pattern of a single beam grows about
+ * its diffraction width λz/(Dγ³), whichever is larger (for an order of resolving power mN that is
+ * a quarter of λ/(mN) in wavelength: the samples resolve what the grating resolves); orders that
+ * land beyond the output grid at both ends of the band do not count. The pattern of a single beam grows about
  * the axis in proportion to λ: a feature a window's half out moves by half·δ/λ against a
  * structure of max(D, λz/D).
  */
-function wavelengthStep(scouts: Plan[]): number {
+function wavelengthStep(scouts: Plan[], grid: OutputGrid): number {
   const first = scouts[0]!;
   const last = scouts[scouts.length - 1]!;
   const lam = first.case.wavelength;
@@ -116,10 +118,12 @@ function wavelengthStep(scouts: Plan[]): number {
   const dl = last.case.wavelength - lam;
   if (dl > 0) {
     const total = first.beams.reduce((t, x) => t + (x.propagates ? x.power : 0), 0);
+    // Only where the light is on the output grid: an order that lands beyond it is not drawn.
+    const onGrid = (p: [number, number]) => grid.every((a, i) => !a || (p[i]! >= a.start && p[i]! <= a.start + (a.n - 1) * a.step));
     for (const b of first.beams) {
       if (!b.propagates || !b.landing || b.power < 0.01 * total) continue;
       const other = last.beams.find((x) => x.order === b.order && x.landing);
-      if (!other) continue;
+      if (!other || (!onGrid(b.landing) && !onGrid(other.landing!))) continue;
       const rate = Math.hypot(other.landing![0] - b.landing[0], other.landing![1] - b.landing[1]) / dl;
       if (!(rate > 0)) continue;
       const g = z / Math.hypot(z, b.landing[0], b.landing[1]);
@@ -168,7 +172,7 @@ export function planSpectrum<O extends object>(c: Case, planner: MemberPlanner<O
   let needed: number | null = null;
   if (source.kind !== 'lines') {
     const [lo, hi] = spectrumRange(source);
-    const step = wavelengthStep(scouts);
+    const step = wavelengthStep(scouts, grid);
     needed = Number.isFinite(step) ? Math.ceil((hi - lo) / step) : 1;
     const used = Math.max(own, Math.min(needed, BAND_SAMPLES_MAX));
     if (used !== own) lines = spectrumLines(source, used);

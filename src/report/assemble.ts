@@ -7,6 +7,7 @@ import type { SweepAxis } from '../job/expand.js';
 import type { LoadedJob } from '../job/load.js';
 import type { Overlap } from '../analysis/overlap.js';
 import { writeFileAtomic, safeJoin } from '../output/atomic.js';
+import { SPECTRUM_FILES } from '../output/spectrum-files.js';
 import { CASE_FILES, type CaseSummary } from '../output/case-output.js';
 import type { GratingOrder } from '../analysis/orders.js';
 import { gratingUse, ordersWithAnswers } from '../analysis/grating-answers.js';
@@ -153,6 +154,7 @@ export function buildJobReport(inp: ReportInputs): JobReport {
       ...(written(r.record, CASE_FILES.zoom) ? { zoom: `${c.id}/${CASE_FILES.zoom}` } : {}),
       ...(written(r.record, CASE_FILES.searchPlot) ? { searchPlot: `${c.id}/${CASE_FILES.searchPlot}` } : {}),
       ...(written(r.record, CASE_FILES.energyPlot) ? { energyPlot: `${c.id}/${CASE_FILES.energyPlot}` } : {}),
+      ...(written(r.record, SPECTRUM_FILES.colour) ? { colour: `${c.id}/${SPECTRUM_FILES.colour}` } : {}),
     };
   });
   return {
@@ -252,6 +254,40 @@ function reportTables(inp: ReportInputs): ReportTable[] {
       header: ['case', 'wavelength', 'distance', 'best size', 'its spot', 'textbook size', 'its spot', 'propagations'],
       rows: searchRows,
       note: done.find((r) => r.record!.search)?.record!.search!.method,
+    });
+  }
+  const spectra = done.filter((r) => r.record!.metrics.spectrum);
+  if (spectra.length) {
+    tables.push({
+      title: 'Light of several wavelengths',
+      header: ['case', 'light', 'wavelengths computed', 'samples the rule asks', 'methods'],
+      rows: spectra.map((r) => {
+        const s = r.record!.metrics.spectrum!;
+        const methods = [...new Set(s.lines.map((l) => (l.form ? `${l.method} (${l.form})` : l.method)))].join(', ');
+        return [r.record!.plan.case.id, s.light, s.samples.used, s.samples.needed, methods];
+      }),
+      note: `Each wavelength is computed on its own onto one output grid and the intensities are added with their powers (mutually incoherent lines); ${done.find((r) => r.record!.metrics.spectrum)!.record!.metrics.spectrum!.normalisation}. colour.png shows the result in sRGB (white point D65) from the CIE 1931 2° colour-matching functions.`,
+    });
+  }
+  const pairRows = done.flatMap((r) =>
+    (r.record!.metrics.linePairs ?? []).map((p) => [
+      r.record!.plan.case.id,
+      p.order,
+      fmtLen(p.wavelengths[0]),
+      fmtLen(p.wavelengths[1]),
+      p.dip === null ? 'too close to read' : `${trimNumber(100 * p.dip, 3)} %`,
+      p.resolved ? 'yes' : 'no',
+      p.resolvingPower === null ? null : fmtNum(p.resolvingPower, 4),
+      fmtNum(p.needed, 4),
+      p.expected === null ? null : p.expected ? 'yes' : 'no',
+    ]),
+  );
+  if (pairRows.length) {
+    tables.push({
+      title: 'Close lines: resolved?',
+      header: ['case', 'order', 'λ₁', 'λ₂', 'dip (valley / lower peak)', 'resolved on the pattern', 'R = |m|N', 'λ/Δλ', 'textbook: λ/Δλ ≤ R'],
+      rows: pairRows,
+      note: "Neighbouring lines closer than three resolution elements, read on the computed pattern in every order where both land: resolved by Rayleigh's criterion when the intensity between them dips to 8/π² ≈ 81 % of the lower peak or below (Born & Wolf §7.6.3); the textbook answer compares λ/Δλ with the resolving power |m|·N (Born & Wolf §8.6.3). line-pairs.csv has the positions.",
     });
   }
   const gratings = done.filter((r) => r.record!.metrics.orders);

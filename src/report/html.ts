@@ -420,6 +420,7 @@ async function caseSection(
   }
   for (const [file, what] of [
     [c.picture, 'intensity picture'],
+    [c.colour, 'true-colour picture'],
     [c.profilePlot, 'profile plot'],
     [c.zoom, 'zoomed picture'],
     [c.searchPlot, 'smallest-spot search'],

@@ -59,6 +59,8 @@ export interface ReportCase {
   searchPlot?: string;
   /** The encircled-energy plot (encircled-energy.png) of a 2-D result. */
   energyPlot?: string;
+  /** Light of several wavelengths: the true-colour picture (colour.png). */
+  colour?: string;
 }
 
 export interface ReportTable {

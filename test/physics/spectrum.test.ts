@@ -10,7 +10,7 @@ import type { Case } from '../../src/plan/types.js';
 import type { SpectrumSource } from '../../src/analysis/spectrum.js';
 import { planck, spectrumLines } from '../../src/analysis/spectrum.js';
 import { RAYLEIGH_DIP } from '../../src/analysis/resolution.js';
-import { renderColourPng } from '../../src/output/colour-picture.js';
+import { renderColourPicture } from '../../src/output/colour-picture.js';
 import { orderMarks } from '../../src/output/spectrum-files.js';
 import { xAt } from '../../src/model/grid.js';
 
@@ -151,9 +151,20 @@ describe('colour (CIE 1931 2° observer; sRGB, IEC 61966-2-1)', () => {
       expect(Math.abs(X[col]! / sum - ex)).toBeLessThan(0.015);
       expect(Math.abs(Y[col]! / sum - ey)).toBeLessThan(0.015);
     }
-    // In the picture the red line's order is red and the blue line's blue.
-    const png = PNG.sync.read(renderColourPng({ map: c, ...rec.colour!, logDecades: 5, title: 't', marks: orderMarks(rec.metrics.lineOrders!) }));
-    expect(png.width).toBeGreaterThan(400);
+    // In the picture (linear panel, mid-row) the red line's first order is red and the blue line's blue.
+    const pic = renderColourPicture({ map: c, ...rec.colour!, logDecades: 5, title: 't', marks: orderMarks(rec.metrics.lineOrders!) });
+    const png = PNG.sync.read(pic.png);
+    const panel = pic.panels[0]!;
+    const pixel = (x: number) => {
+      const px = panel.x + Math.floor(((x - (c.x0 - c.dx / 2)) / (c.nx * c.dx)) * panel.w);
+      const o = 4 * ((panel.y + (panel.h >> 1)) * png.width + px);
+      return [png.data[o]!, png.data[o + 1]!, png.data[o + 2]!];
+    };
+    for (const line of rec.metrics.lineOrders!) {
+      const [r, , b] = pixel(line.orders.find((q) => q.m === 1)!.position!);
+      if (line.wavelength < 500 * nm) expect(b).toBeGreaterThan(r + 40);
+      else expect(r).toBeGreaterThan(b + 40);
+    }
   });
 
   it('a flat band renders near white: the whole pattern of a slit in 380–780 nm has the equal-energy chromaticity (1/3, 1/3) within 0.01', () => {
