@@ -24,6 +24,8 @@ export interface LinePair {
   dip: number | null;
   /** Resolved on the computed pattern by Rayleigh's criterion (dip ≤ 8/π²). */
   resolved: boolean;
+  /** Sparrow's limit: two maxima with any dip between them. */
+  sparrow: boolean;
   /** The order's resolving power |m|·N, and the pair's λ/Δλ. */
   resolvingPower: number | null;
   needed: number;
@@ -69,10 +71,10 @@ export function linePairs(map: IntensityMap, lines: LineOrders[]): LinePair[] {
 }
 
 /** The two lines read off the row through them (the row of the brighter one in a 2-D map). */
-function readPair(map: IntensityMap, xa: number, xb: number): { dip: number | null; resolved: boolean } {
+function readPair(map: IntensityMap, xa: number, xb: number): { dip: number | null; resolved: boolean; sparrow: boolean } {
   const a = (xa - map.x0) / map.dx;
   const b = (xb - map.x0) / map.dx;
-  if (Math.abs(b - a) < 2) return { dip: null, resolved: false };
+  if (Math.abs(b - a) < 2) return { dip: null, resolved: false, sparrow: false };
   let row = 0;
   if (map.ny > 1) {
     const col = Math.min(map.nx - 1, Math.max(0, Math.round(a)));
@@ -84,6 +86,6 @@ function readPair(map: IntensityMap, xa: number, xb: number): { dip: number | nu
   // One peak where two lines were expected (the two searches meet on its flank, not on two
   // maxima): no dip at all.
   const isMax = (i: number) => profile[i]! >= (profile[i - 1] ?? -Infinity) && profile[i]! >= (profile[i + 1] ?? -Infinity);
-  if (!r || !isMax(r.peaks[0]) || !isMax(r.peaks[1])) return { dip: 1, resolved: false };
-  return { dip: Math.min(1, r.dip), resolved: r.resolved };
+  if (!r || !isMax(r.peaks[0]) || !isMax(r.peaks[1])) return { dip: 1, resolved: false, sparrow: false };
+  return { dip: Math.min(1, r.dip), resolved: r.resolved, sparrow: r.dip < 1 - 1e-9 };
 }

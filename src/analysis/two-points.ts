@@ -20,6 +20,12 @@ export interface TwoPointResult {
   dip: number | null;
   /** Rayleigh's criterion, dip ≤ 8/π². */
   resolved: boolean;
+  /**
+   * Sparrow's limit: two maxima with any dip between them (the pattern's second derivative at the
+   * midpoint no longer negative; for two equal Airy patterns at 0.947 λ/D in angle, Born & Wolf
+   * §7.6.3 and common practice).
+   */
+  sparrow: boolean;
   rayleighDip: number;
 }
 
@@ -56,7 +62,7 @@ export function twoPointReading(plan: Plan, map: IntensityMap): TwoPointResult |
   const [a, b] = centres;
   const sep = Math.hypot(b[0] - a[0], b[1] - a[1]);
   const base = { centres, separation: sep, rayleighDip: RAYLEIGH_DIP };
-  const none = { ...base, peaks: null, valley: null, dip: null, resolved: false };
+  const none = { ...base, peaks: null, valley: null, dip: null, resolved: false, sparrow: false };
   if (!(sep > 0)) return none;
   // The line from half a separation before the first to half one past the second, sampled at a
   // quarter of the map's pitch (bilinear between samples).
@@ -71,5 +77,8 @@ export function twoPointReading(plan: Plan, map: IntensityMap): TwoPointResult |
   const r = readTwoLines(profile, index(0), index(sep), 0.25 * (index(sep) - index(0)));
   if (!r) return none;
   const pos = (i: number): [number, number] => [a[0] + ux * t(i), a[1] + uy * t(i)];
-  return { ...base, peaks: [pos(r.peaks[0]), pos(r.peaks[1])], valley: pos(r.valley), dip: r.dip, resolved: r.resolved };
+  // Two maxima (each at least its neighbours) with a valley below both: Sparrow's resolved.
+  const isMax = (i: number) => profile[i]! >= (profile[i - 1] ?? -Infinity) && profile[i]! >= (profile[i + 1] ?? -Infinity);
+  const sparrow = isMax(r.peaks[0]) && isMax(r.peaks[1]) && r.dip < 1 - 1e-9;
+  return { ...base, peaks: [pos(r.peaks[0]), pos(r.peaks[1])], valley: pos(r.valley), dip: r.dip, resolved: r.resolved, sparrow };
 }

@@ -51,9 +51,9 @@ function lineOrdersCsv(lines: LineOrders[]): string {
 }
 
 function linePairsCsv(pairs: LinePair[]): string {
-  const header = ['order', 'wavelength_1_m', 'wavelength_2_m', 'position_1_m', 'position_2_m', 'dip', 'resolved', 'resolving_power', 'lambda_over_delta_lambda', 'expected_resolved'];
+  const header = ['order', 'wavelength_1_m', 'wavelength_2_m', 'position_1_m', 'position_2_m', 'dip', 'resolved', 'sparrow_resolved', 'resolving_power', 'lambda_over_delta_lambda', 'expected_resolved'];
   return toCsv(
     header,
-    pairs.map((p) => [p.order, p.wavelengths[0], p.wavelengths[1], p.positions[0], p.positions[1], p.dip, p.resolved, p.resolvingPower, p.needed, p.expected]),
+    pairs.map((p) => [p.order, p.wavelengths[0], p.wavelengths[1], p.positions[0], p.positions[1], p.dip, p.resolved, p.sparrow, p.resolvingPower, p.needed, p.expected]),
   );
 }

@@ -67,6 +67,18 @@ describe('two incoherent points through a circular pupil', () => {
     expect(close.resolved).toBe(false);
   });
 
+  it("Sparrow's limit: two equal Airy patterns keep a dip down to 0.947λ/D (Born & Wolf §7.6.3; common practice), none at 0.85λ/D", () => {
+    const z = 2;
+    const sparrowAngle = 0.947 * (lam / D);
+    const case_ = (f: number) => sourceCase(pinhole, z, { kind: 'points', distance: null, points: [{ at: [(-f * sparrowAngle) / 2, 0], power: 1 }, { at: [(f * sparrowAngle) / 2, 0], power: 1 }] });
+    // 5 % above the limit: a shallow dip (not Rayleigh-resolved); 10 % below: one flat-topped peak.
+    const above = run(case_(1.05)).rec.metrics.twoPoints!;
+    expect(above.sparrow).toBe(true);
+    expect(above.resolved).toBe(false);
+    const below = run(case_(0.9)).rec.metrics.twoPoints!;
+    expect(below.sparrow).toBe(false);
+  });
+
   it('unequal powers land on their own sides: the brighter point at +ξ casts the brighter peak at −ξ·z/s (the pinhole inverts)', () => {
     const s = 0.5;
     const z = 1;
