@@ -14,6 +14,7 @@ import type { Axis } from '../optics/field.js';
 import { warning } from '../warnings/catalogue.js';
 import { OffGridError, type OutputGrid } from './geometry.js';
 import { LIMITS } from './limits.js';
+import { shareSourceSpectra } from './share.js';
 
 import type { Case, Plan, Warning } from './types.js';
 import { len, seconds } from './words.js';
@@ -215,6 +216,15 @@ export function planSpectrum<O extends object>(c: Case, planner: MemberPlanner<O
     methods.set(key, (methods.get(key) ?? 0) + 1);
   }
   if (methods.size) reasons.push(`methods: ${[...methods].map(([k, n]) => `${k} for ${n} of ${members.length}`).join(', ')}.`);
+  // Lines on one FFT lattice whose source ignores the wavelength start from one spectrum: it is
+  // computed once and kept (run/spectrum-case.ts lets it go when the case ends).
+  const savedTransforms = shareSourceSpectra(members);
+  if (savedTransforms > 0) {
+    const sharing = members.filter((m) => m.sharedSpectrum).length;
+    reasons.push(
+      `the source's spectrum is shared across the wavelengths: ${sharing} of the ${members.length} wavelengths propagate the same padded source on one FFT lattice (a binary aperture under untilted light is the same at every wavelength), so its forward transform is computed once and kept, and each further wavelength costs a transfer multiply at its own wavelength and one inverse transform (${savedTransforms} forward transform${savedTransforms === 1 ? '' : 's'} fewer).`,
+    );
+  }
   reasons.push(...mid.reasons.map((r) => `at ${wl(mid.case.wavelength)}: ${r}`));
   if (!elementOf(c.aperture).atWavelength && !isBinary(c.aperture)) reasons.push('the element is taken as it is at every wavelength (its transmittance, phase included, is not rescaled with the wavelength).');
 
@@ -232,6 +242,8 @@ export function planSpectrum<O extends object>(c: Case, planner: MemberPlanner<O
   }
   warnings.push(...memberWarnings(members.length ? members : scouts));
   const work = total;
+  // The largest line (its memory counts a kept source spectrum when it shares one) and the four
+  // maps the lines are added into (intensity, X, Y, Z).
   const accumulators = 4 * 8 * ux.axis.n * (uy ? uy.axis.n : 1);
   const memory = Math.max(0, ...members.map((m) => m.memoryBytes)) + accumulators;
   if (!error && members.length) reasons.push(`about ${seconds(work)} for the ${members.length} wavelengths together.`);

@@ -78,6 +78,9 @@ export interface Parallelism {
 
 /** Does the case spend its time in 2-D FFTs large enough to share (fft2 on shared sample arrays)? */
 export function sharesFfts(p: Plan): boolean {
+  // A spectrum's lines run one after another within the case: its FFTs are its lines' (the case's
+  // own method is only its middle line's, which may be a direct sum while others transform).
+  if (p.spectrum) return p.spectrum.members.some(sharesFfts);
   if (p.layout !== 'two-d' || !p.y) return false;
   // The transfer forms (two FFTs) and the single-FFT form transform the padded grid; direct sums do not.
   const fft = descriptorOf(p).grid !== 'direct';

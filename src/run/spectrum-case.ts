@@ -41,28 +41,37 @@ export function computeSpectrum(plan: Plan, ctx: Pick<CaseContext, 'engine' | 's
   const colour: ColourMaps = { X: new Float64Array(n), Y: new Float64Array(n), Z: new Float64Array(n) };
   const d: Diagnostics = { powerIn: 0, powerInWindow: 0 };
   let first: ComputedCase | null = null;
-  sp.members.forEach((member, i) => {
-    const w = sp.lines[i]!.weight;
-    const m = computeCase(member, ctx);
-    if (m.intensity.length !== n) throw new Error(`the line at ${member.case.wavelength} m came back with ${m.intensity.length} samples, not the grid's ${n}`);
-    const [xb, yb, zb] = colourMatching(member.case.wavelength);
-    const I = m.intensity;
-    for (let k = 0; k < n; k++) {
-      const v = w * I[k]!;
-      sum[k] = sum[k]! + v;
-      colour.X[k] = colour.X[k]! + v * xb;
-      colour.Y[k] = colour.Y[k]! + v * yb;
-      colour.Z[k] = colour.Z[k]! + v * zb;
-    }
-    const md = m.diagnostics;
-    d.powerIn += w * md.powerIn;
-    d.powerInWindow += w * md.powerInWindow;
-    if (md.bandLimitLoss !== undefined) d.bandLimitLoss = Math.max(d.bandLimitLoss ?? 0, md.bandLimitLoss);
-    if (md.evanescentLoss !== undefined) d.evanescentLoss = Math.max(d.evanescentLoss ?? 0, md.evanescentLoss);
-    if (md.edgeEnergy !== undefined) d.edgeEnergy = Math.max(d.edgeEnergy ?? 0, md.edgeEnergy);
-    first ??= m;
-    onLine?.(member, w, m);
-  });
+  // Lines that share their source's spectrum (plan/share.ts) find it kept in ctx.spectra from the
+  // first of them on; it is of no use after the case, so it is let go however the case ends.
+  const shared = new Set(sp.members.flatMap((m) => (m.sharedSpectrum ? [m.sharedSpectrum.id] : [])));
+  try {
+    sp.members.forEach((member, i) => {
+      const w = sp.lines[i]!.weight;
+      const m = computeCase(member, ctx);
+      if (m.intensity.length !== n) throw new Error(`the line at ${member.case.wavelength} m came back with ${m.intensity.length} samples, not the grid's ${n}`);
+      const [xb, yb, zb] = colourMatching(member.case.wavelength);
+      const I = m.intensity;
+      // The sum and the three tristimulus maps in one pass (the same products as one map at a time).
+      const { X, Y, Z } = colour;
+      for (let k = 0; k < n; k++) {
+        const v = w * I[k]!;
+        sum[k] = sum[k]! + v;
+        X[k] = X[k]! + v * xb;
+        Y[k] = Y[k]! + v * yb;
+        Z[k] = Z[k]! + v * zb;
+      }
+      const md = m.diagnostics;
+      d.powerIn += w * md.powerIn;
+      d.powerInWindow += w * md.powerInWindow;
+      if (md.bandLimitLoss !== undefined) d.bandLimitLoss = Math.max(d.bandLimitLoss ?? 0, md.bandLimitLoss);
+      if (md.evanescentLoss !== undefined) d.evanescentLoss = Math.max(d.evanescentLoss ?? 0, md.evanescentLoss);
+      if (md.edgeEnergy !== undefined) d.edgeEnergy = Math.max(d.edgeEnergy ?? 0, md.edgeEnergy);
+      first ??= m;
+      onLine?.(member, w, m);
+    });
+  } finally {
+    if (ctx.spectra.kept && shared.has(ctx.spectra.kept.key)) ctx.spectra.kept = null;
+  }
   const f = first!;
   return { computed: { nx: f.nx, ny: f.ny, dx: f.dx, dy: f.dy, x0: f.x0, y0: f.y0, intensity: sum, center: f.center, diagnostics: d }, colour };
 }
