@@ -25,10 +25,15 @@ export const SPECTRA_SEED = 0x5bec7a;
 export const SPECTRA_CASE_COUNT = 40;
 /** Cases whose plan (all lines together) estimates more work than this are skipped (counted). */
 export const SPECTRA_WORK_LIMIT = Number(process.env.SPOTCAST_SPECTRA_WORK ?? 2e8);
-/** More lines than this (a band the planner refined) are not compared: each needs its own reference. */
+/**
+ * More lines than this (a band the planner refined) are not compared: each needs its own reference
+ * (2-D; 1-D references are cheaper and up to MAX_REFERENCE_LINES_1D are compared).
+ */
 export const MAX_REFERENCE_LINES = 8;
-/** The exact reference's budget per line, µs (estimated from its node count). */
+export const MAX_REFERENCE_LINES_1D = 64;
+/** The exact reference's budget per line, µs (estimated from its node count); a case's lines share CASE_BUDGET_MICROS when there are many. */
 export const LINE_BUDGET_MICROS = 300_000;
+export const CASE_BUDGET_MICROS = 1_500_000;
 /** Points compared: 1-D evenly spread; 2-D per central line (row and column through the axis). */
 export const POINTS_1D = 80;
 export const POINTS_2D_PER_LINE = 15;
@@ -65,6 +70,38 @@ export function drawSpectra(seed = SPECTRA_SEED, n = SPECTRA_CASE_COUNT): Spectr
     return { index, drawn, spectrum };
   });
 }
+
+/**
+ * Cases where the light disperses (a grating: sets of 5–60 slits, width 0.3–0.7 of the period,
+ * period 3–30 λ₀, 1 mm – 1 m away, plane or Gaussian light, some tilted up to ±10°), in a flat band
+ * of 3–5 samples 1–10 % wide, or two or three lines within ±5 %: here the planner refines a band's
+ * samples and the lines land apart. Indices follow drawSpectra's (`first` on).
+ */
+export function drawDispersing(seed = SPECTRA_SEED, n = DISPERSING_CASE_COUNT, first = SPECTRA_CASE_COUNT): SpectrumDraw[] {
+  const rnd = mulberry32(seed ^ 0x51ab5);
+  const logUniform = (lo: number, hi: number) => lo * Math.pow(hi / lo, rnd());
+  return Array.from({ length: n }, (_, k) => {
+    const lam0 = logUniform(400e-9, 2e-6);
+    const period = lam0 * logUniform(3, 30);
+    const count = Math.round(logUniform(5, 60));
+    const width = period * (0.3 + 0.4 * rnd());
+    const aperture = { shape: 'slits' as const, count, width, period, opaque: false };
+    const tilt: [number, number] = [rnd() < 0.25 ? ((rnd() * 2 - 1) * 10 * Math.PI) / 180 : 0, 0];
+    const illumination = rnd() < 0.7 ? { kind: 'plane' as const, tilt } : { kind: 'gaussian' as const, waist: (count * period * logUniform(0.3, 2)) / 2, tilt };
+    const spec = { wavelength: lam0, distance: logUniform(1e-3, 0.05), aperture, illumination };
+    let spectrum: SpectrumSource;
+    if (rnd() < 0.5) {
+      const half = lam0 * (0.005 + 0.045 * rnd());
+      spectrum = { kind: 'band', from: lam0 - half, to: lam0 + half, samples: 3 + Math.floor(rnd() * 3) };
+    } else {
+      const lines = Array.from({ length: rnd() < 0.5 ? 2 : 3 }, () => ({ wavelength: lam0 * (0.95 + 0.1 * rnd()), power: 0.2 + 1.8 * rnd() }));
+      lines.sort((a, b) => a.wavelength - b.wavelength);
+      spectrum = { kind: 'lines', lines };
+    }
+    return { index: first + k, drawn: { index: first + k, spec }, spectrum };
+  });
+}
+export const DISPERSING_CASE_COUNT = 20;
 
 /**
  * The lines the light stands for, worked out here (not by src/analysis/spectrum.ts): lines as given,
@@ -170,7 +207,7 @@ export function runSpectrumDraw(d: SpectrumDraw): SpectrumOutcome {
   if (sp.members.length !== sp.lines.length) lineProblems.push(`${sp.members.length} member plans for ${sp.lines.length} lines`);
   const grids = gridProblems(plan);
   const fftMembers = sp.members.filter((m) => descriptorOf(m).grid !== 'direct').length;
-  if (lines.length > MAX_REFERENCE_LINES) return { ...withPlan, status: 'too-many-lines', note: `${lines.length} lines`, gridProblems: grids, fftMembers, lineProblems };
+  if (lines.length > (oneD ? MAX_REFERENCE_LINES_1D : MAX_REFERENCE_LINES)) return { ...withPlan, status: 'too-many-lines', note: `${lines.length} lines`, gridProblems: grids, fftMembers, lineProblems };
   let rec;
   try {
     rec = runPlannedCase(plan, testContext());
@@ -205,7 +242,8 @@ export function runSpectrumDraw(d: SpectrumDraw): SpectrumOutcome {
   const reached = new Map<number, number>();
   const hows = new Set<string>();
   for (const l of lines) {
-    const ref = referenceIntensity({ ...(spec as RefCase), wavelength: l.wavelength }, pts, LINE_BUDGET_MICROS, axisIndex);
+    const budget = Math.min(LINE_BUDGET_MICROS, CASE_BUDGET_MICROS / lines.length);
+    const ref = referenceIntensity({ ...(spec as RefCase), wavelength: l.wavelength }, pts, budget, axisIndex);
     if (!ref.ok) return { ...done, status: 'no-reference', note: `at ${(l.wavelength * 1e9).toPrecision(5)} nm: ${ref.reason}` };
     hows.add(ref.how);
     ref.points.forEach((p, i) => {
