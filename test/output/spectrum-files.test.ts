@@ -58,6 +58,14 @@ describe('a grating in two lines: colour.png, line-orders.csv, line-pairs.csv', 
     }
   });
 
+  it("result.json says the light: the lines computed with weights summing to 1, the case's wavelength their weighted mean", () => {
+    const sp = w.result.metrics.spectrum;
+    expect(sp.lines.map((l: { wavelength: number }) => l.wavelength)).toEqual([BLUE, RED]);
+    expect(sp.lines.map((l: { weight: number }) => l.weight)).toEqual([0.5, 0.5]);
+    expect(sp.samples).toEqual({ own: 2, needed: null, used: 2 });
+    expect(w.result.wavelength).toBeCloseTo((BLUE + RED) / 2, 18);
+  });
+
   it('line-orders.csv: one row per line and order, each first order where the grating equation puts it (d sin θ = mλ; Born & Wolf §8.6.1)', async () => {
     const lines = (await readFile(join(w.folder, 'line-orders.csv'), 'utf8')).trimEnd().split('\n');
     const header = lines[0]!.split(',');
