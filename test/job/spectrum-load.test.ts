@@ -57,6 +57,11 @@ describe('spectrum keys: refusals with the key path and what was expected', () =
     expect(refusedAt(HEAD + 'spectrum: {lines: [{wavelength: 500 nm}], samples: 5}\n', 'spectrum.samples').message).toMatch(/^expected no samples with lines/);
   });
 
+  it('samples with a file: at spectrum.samples (its rows are the samples); a blackbody and a file at once: at file', () => {
+    expect(refusedAt(HEAD + 'spectrum: {file: lamp.csv, samples: 5}\n', 'spectrum.samples').message).toMatch(/^expected no samples with a file/);
+    expect(refusedAt(HEAD + 'spectrum: {blackbody: {temperature: 3000, from: 400 nm, to: 700 nm}, file: lamp.csv}\n', 'spectrum.file').message).toMatch(/not both blackbody and file/);
+  });
+
   it("a band with 'to' not longer than 'from': at spectrum.band.to (also for a blackbody)", () => {
     expect(refusedAt(HEAD + 'spectrum: {band: {from: 700 nm, to: 400 nm}}\n', 'spectrum.band.to').message).toMatch(/^expected 'to' longer than 'from'/);
     expect(refusedAt(HEAD + 'spectrum: {band: {from: 700 nm, to: 700 nm}}\n', 'spectrum.band.to').message).toMatch(/^expected 'to' longer than 'from'/);
@@ -165,6 +170,13 @@ describe('a spectrum from a CSV file, read relative to the job file', () => {
     const table = (loaded.spec.spectrum as { table?: { wavelengths: number[] } }).table!;
     expect(table.wavelengths[0]).toBeCloseTo(0.5e-6, 18);
     expect(table.wavelengths[1]).toBeCloseTo(0.6e-6, 18);
+  });
+
+  it('a file saved with Windows line ends and a byte-order mark (as spreadsheets save CSV) loads the same', async () => {
+    const loaded = await loadJobFile(await job('crlf', '\uFEFFwavelength_nm,power\r\n500,1\r\n510,2\r\n530,1\r\n'));
+    const table = (loaded.spec.spectrum as { table?: { wavelengths: number[]; density: number[] } }).table!;
+    expect(table.density).toEqual([1, 2, 1]);
+    expect(table.wavelengths).toHaveLength(3);
   });
 
   it('no header, or a header without a unit: expected a header naming the unit', async () => {
