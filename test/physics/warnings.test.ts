@@ -3,6 +3,8 @@
 import { describe, expect, it } from 'vitest';
 import { planCase } from '../../src/plan/planner.js';
 import { makeCase, mm, nm, runCase, um, type CaseSpec } from '../helpers.js';
+import type { SpectrumSource } from '../../src/analysis/spectrum.js';
+import { ACCURACY_CODES } from '../../src/warnings/catalogue.js';
 
 const lam = 633 * nm;
 const circle = (D: number, opaque = false) => ({ shape: 'circle' as const, diameter: D, opaque });
@@ -133,5 +135,57 @@ describe('memory guard', () => {
     const plan = planCase(makeCase({ wavelength: lam, distance: 5 * mm, aperture: circle(20 * mm), illumination: { kind: 'gaussian', waist: 8 * mm, tilt: [0, 0] } }), { maxMemoryBytes: 2 * 1024 ** 3 });
     expect(plan.error).toMatch(/needs about [\d.]+ (GiB|TiB)/);
     expect(plan.error).toMatch(/smaller window|coarser grid\.pitch|--max-memory/);
+  });
+});
+
+describe('spectrum-sampled-coarsely and the spectrum\'s total work', () => {
+  // Light of several wavelengths (plan/spectrum.ts): a band is computed at discrete samples, refined
+  // up to 256 by the planner; where the pattern moves faster than that the case says so.
+  const spectrumCase = (s: CaseSpec, spectrum: SpectrumSource) => ({ ...makeCase(s), spectrum });
+  const grating = { shape: 'slits' as const, count: 100, width: 2 * um, period: 4 * um, opaque: false };
+  const visible: SpectrumSource = { kind: 'band', from: 400 * nm, to: 700 * nm, samples: 31 };
+
+  it('fires for a 400–700 nm band through a 100-period grating: more samples needed than the 256 given', () => {
+    const plan = planCase(spectrumCase({ wavelength: 550 * nm, distance: 1, aperture: grating }, visible));
+    expect(plan.error).toBeUndefined();
+    const w = plan.warnings.find((x) => x.code === 'spectrum-sampled-coarsely');
+    expect(w).toBeDefined();
+    expect(ACCURACY_CODES).toContain('spectrum-sampled-coarsely');
+    const s = plan.spectrum!.samples;
+    expect(s.used).toBe(256);
+    expect(s.needed!).toBeGreaterThan(256);
+    // A grating of N periods resolves λ/(mN) in order m (Born & Wolf, Principles of Optics, §8.6.3):
+    // the first order alone spreads the band over N·Δλ/λ ≈ 43–75 resolution elements, each of which
+    // the samples must step through; the count needed is at least that.
+    expect(s.needed!).toBeGreaterThan((100 * 300) / 700);
+    expect(w!.message).toMatch(/computed at 256 wavelengths/);
+    expect(w!.message).toContain(`it would take ${s.needed}`);
+  });
+
+  it('is quiet for a narrow band (1 nm) through the same grating, and for a wide band through a single slit', () => {
+    const narrow = planCase(spectrumCase({ wavelength: 589.5 * nm, distance: 1, aperture: grating }, { kind: 'band', from: 589 * nm, to: 590 * nm, samples: 3 }));
+    expect(narrow.error).toBeUndefined();
+    expect(narrow.warnings.map((x) => x.code)).not.toContain('spectrum-sampled-coarsely');
+    expect(narrow.spectrum!.samples.needed!).toBeLessThanOrEqual(256);
+    const single = planCase(spectrumCase({ wavelength: 550 * nm, distance: 1, aperture: slit(100 * um) }, visible));
+    expect(single.error).toBeUndefined();
+    expect(single.warnings.map((x) => x.code)).not.toContain('spectrum-sampled-coarsely');
+    expect(single.spectrum!.samples.used).toBe(31);
+  });
+
+  it('refuses a spectrum whose wavelengths together need more work than the limit, saying how many; a line over it alone is named', () => {
+    const lines: SpectrumSource = { kind: 'lines', lines: [500, 550, 600].map((l) => ({ wavelength: l * nm, power: 1 })) };
+    const s = { wavelength: 550 * nm, distance: 1, aperture: slit(100 * um) };
+    const free = planCase(spectrumCase(s, lines));
+    expect(free.error).toBeUndefined();
+    const each = free.spectrum!.members.map((m) => m.work);
+    expect(free.work).toBeCloseTo(each.reduce((t, x) => t + x, 0), 6);
+    // Every line fits the limit alone, the three together do not.
+    const together = planCase(spectrumCase(s, lines), { maxWork: 1.5 * Math.max(...each) });
+    expect(together.error).toMatch(/^the 3 wavelengths together need about .* of computing \(over the .* limit\)/);
+    expect(together.error).toMatch(/fewer lines or band samples/);
+    // A limit under one line's own work: the first line is named.
+    const alone = planCase(spectrumCase(s, lines), { maxWork: 0.5 * Math.min(...each) });
+    expect(alone.error).toMatch(/^at 500(\.0*)? nm: /);
   });
 });
