@@ -118,7 +118,9 @@ export function runSpectrumCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 's
     const use = gratingUse(plan);
     if (use) metrics.spectroscopy = use;
     metrics.lineOrders = lineOrders;
-    metrics.linePairs = linePairs(computed, lineOrders);
+    // Pairs of lines the light has as lines: a band's samples stand for a continuum, not for lines
+    // to resolve.
+    if (c.spectrum?.kind === 'lines') metrics.linePairs = linePairs(computed, lineOrders);
   }
   return { plan, computed, metrics, energy, warnings, colour, seconds: (performance.now() - t0) / 1000 };
 }
