@@ -254,6 +254,8 @@ export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
     }
   } else {
     const valid = samplings.filter((s) => validity[s.method].valid);
+    // On a spectrum's grid only some forms take part: none of them valid is a refusal of the grid.
+    if (forced && valid.length === 0) throw new OffGridError('no method valid here takes this case onto the common output grid');
     // A sweep's shared grid: the angular spectrum on it, where it is valid, fits and took the grid.
     const sg = opts.sharedGrid;
     const onShared = sg ? valid.find((s) => s.d.id === 'angular-spectrum' && s.layout === 'two-d' && fitsLimits(s) && onSharedGrid(s.axes, sg)) : undefined;
