@@ -138,6 +138,8 @@ const outputShape = {
     .default(5),
   // The region of the zoomed picture (intensity-zoom.png): by default the box holding 99 % of the
   // power where the spot is small in its window.
+  // A spectrum's map of each wavelength beside the sum (line-<λ>.npy).
+  lineMaps: z.boolean({ error: 'expected true or false' }).optional(),
   zoom: z
     .strictObject(
       {

@@ -26,9 +26,9 @@ import type { PlaneResult } from '../metrics/planes.js';
 import type { SpatialFilterResult } from '../metrics/spatial-filter.js';
 import type { MtfCurve, MtfSummary } from '../analysis/mtf.js';
 import type { LineOrders, LinePair } from '../analysis/line-pairs.js';
-import type { ColourMaps } from '../run/spectrum-case.js';
+import type { ColourMaps, LineMap } from '../run/spectrum-case.js';
 import { mtfCsv, renderMtfPng } from './mtf-files.js';
-import { spectrumFileEntries, spectrumFiles } from './spectrum-files.js';
+import { lineMapName, spectrumFileEntries, spectrumFiles } from './spectrum-files.js';
 import { energyPicture, hasEnergyPicture, hasSearchPicture, profilePicture, searchPicture, zoomBoxOf, zoomPicture } from './extra-pictures.js';
 
 export interface CaseMetrics extends SpotMetrics {
@@ -124,6 +124,8 @@ export interface CaseRecord extends CaseSummary {
   computed: ComputedCase;
   /** Several wavelengths: the CIE 1931 tristimulus maps behind colour.png. */
   colour?: ColourMaps;
+  /** Several wavelengths with output.lineMaps: each wavelength's own map (line-<λ>.npy). */
+  lineMaps?: LineMap[];
   /** The encircled-energy curve behind metrics.encircled (written as a CSV). */
   energy: EnergyCurve | null;
   /** The MTF curve behind metrics.mtf (written as mtf.csv and mtf.png). */
@@ -275,6 +277,7 @@ export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, un
                       : k !== 'record',
       ),
       ...spectrumFileEntries(!!rec.colour, !!metrics.lineOrders?.length, !!metrics.linePairs),
+      ...(rec.lineMaps ?? []).map((l, i, all): [string, string] => [lineMapName(i, all.length, l.wavelength), lineMapName(i, all.length, l.wavelength)]),
     ]),
     ...(rec.search ? { search: rec.search } : {}),
     seconds: rec.seconds,
@@ -407,6 +410,7 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
     const energy = energyPicture(plan, rec.energy, isOneD(computed), picture.title);
     if (energy) put(CASE_FILES.energyPlot, energy);
     for (const [name, content] of spectrumFiles(map, rec.colour, rec.metrics.lineOrders, rec.metrics.linePairs, picture.title, picture.logDecades)) put(name, content);
+    (rec.lineMaps ?? []).forEach((l, i, all) => put(lineMapName(i, all.length, l.wavelength), encodeNpy(l.intensity, shape, plan.case.output.npy)));
     put(CASE_FILES.result, JSON.stringify(resultJson(rec, zoom !== null), jsonNumbers, 2) + '\n');
     const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION, files };
     await allWritten();

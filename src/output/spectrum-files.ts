@@ -13,6 +13,15 @@ export const SPECTRUM_FILES = {
   linePairs: 'line-pairs.csv',
 } as const;
 
+/**
+ * A wavelength's own map (output.lineMaps): line-<its place, from 1>-<λ in nm>nm.npy (the place
+ * keeps two lines of one wavelength apart), on the case's grid, unweighted (relative to that
+ * wavelength's incident irradiance).
+ */
+export function lineMapName(index: number, count: number, wavelength: number): string {
+  return `line-${String(index + 1).padStart(String(count).length, '0')}-${Number((wavelength * 1e9).toFixed(4))}nm.npy`;
+}
+
 /** What a spectrum case writes besides the usual files: [file name, bytes or text]. */
 export function spectrumFiles(map: IntensityMap, colour: ColourMaps | undefined, lineOrders: LineOrders[] | undefined, pairs: LinePair[] | undefined, title: string, logDecades: number): [string, string | Uint8Array][] {
   const out: [string, string | Uint8Array][] = [];

@@ -244,7 +244,8 @@ export function planSpectrum<O extends object>(c: Case, planner: MemberPlanner<O
   const work = total;
   // The largest line (its memory counts a kept source spectrum when it shares one) and the four
   // maps the lines are added into (intensity, X, Y, Z).
-  const accumulators = 4 * 8 * ux.axis.n * (uy ? uy.axis.n : 1);
+  // With output.lineMaps each line's map is kept until the case is written.
+  const accumulators = (4 + (c.output.lineMaps ? lines.length : 0)) * 8 * ux.axis.n * (uy ? uy.axis.n : 1);
   const memory = Math.max(0, ...members.map((m) => m.memoryBytes)) + accumulators;
   if (!error && members.length) reasons.push(`about ${seconds(work)} for the ${members.length} wavelengths together.`);
   // A member's reasons and options are the mid line's in the case's reasons; the record keeps the rest.

@@ -57,7 +57,8 @@ export interface Case {
   method: MethodRequest;
   /** Values of the swept keys for this case, by dotted key path (SI units). */
   swept: Record<string, number>;
-  output: { npy: 'float64' | 'float32'; logDecades: number; zoom?: { centre: [number, number]; width: number } };
+  /** lineMaps: a spectrum's per-wavelength maps written beside the sum (line-<λ>.npy). */
+  output: { npy: 'float64' | 'float32'; logDecades: number; zoom?: { centre: [number, number]; width: number }; lineMaps?: boolean };
   /** What to measure beyond the standard metrics (the job's detector, search and orders keys). */
   analysis: CaseAnalysis;
 }

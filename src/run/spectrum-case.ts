@@ -29,6 +29,12 @@ export interface SpectrumComputed {
   colour: ColourMaps;
 }
 
+/** One wavelength's own map on the case's grid (output.lineMaps), unweighted. */
+export interface LineMap {
+  wavelength: number;
+  intensity: Float64Array;
+}
+
 /**
  * Computes every line of a spectrum plan and adds them up. `onLine` sees each line's own plan and
  * result (the order table per wavelength, its checks) before the next replaces it.
@@ -87,7 +93,10 @@ export function runSpectrumCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 's
     for (const w of ws) if (!seen.has(w.code)) (seen.add(w.code), warnings.push(w));
   };
   const lineOrders: LineOrders[] = [];
+  const lineMaps: LineMap[] = [];
   const { computed, colour } = computeSpectrum(plan, ctx, (member, weight, m) => {
+    // (Kept only when the job asks: the plan's memory estimate counts them then.)
+    if (c.output.lineMaps) lineMaps.push({ wavelength: member.case.wavelength, intensity: m.intensity.slice() });
     const g = gratingPart(member, m);
     if (g) {
       lineOrders.push({ wavelength: member.case.wavelength, weight, orders: g.metrics.orders ?? [] });
@@ -122,5 +131,5 @@ export function runSpectrumCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 's
     // to resolve.
     if (c.spectrum?.kind === 'lines') metrics.linePairs = linePairs(computed, lineOrders);
   }
-  return { plan, computed, metrics, energy, warnings, colour, seconds: (performance.now() - t0) / 1000 };
+  return { plan, computed, metrics, energy, warnings, colour, ...(c.output.lineMaps ? { lineMaps } : {}), seconds: (performance.now() - t0) / 1000 };
 }

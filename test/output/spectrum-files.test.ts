@@ -162,3 +162,35 @@ describe('which spectrum files a case writes', () => {
     }
   });
 });
+
+describe('output.lineMaps: each wavelength\'s own map beside the sum', () => {
+  it('writes line-<n>-<λ>nm.npy per line, listed and digested, and the sum of weight × map is intensity.npy', async () => {
+    const base: CaseSpec = { wavelength: (BLUE + RED) / 2, distance: 1, aperture: { shape: 'slit', width: 100 * um, opaque: false } };
+    const c: Case = { ...makeCase(base), id: 'line-maps', spectrum: { kind: 'lines', lines: [{ wavelength: BLUE, power: 1 }, { wavelength: RED, power: 3 }] }, output: { npy: 'float64', logDecades: 5, lineMaps: true } };
+    const plan = planCase(c);
+    const folder = await writeCase(dir, runPlannedCase(plan, testContext()));
+    const result = JSON.parse(await readFile(join(folder, 'result.json'), 'utf8'));
+    const names = ['line-1-450nm.npy', 'line-2-650nm.npy'];
+    const record = JSON.parse(await readFile(join(folder, 'record.json'), 'utf8'));
+    for (const n of names) {
+      expect(Object.values(result.files)).toContain(n);
+      const bytes = await readFile(join(folder, n));
+      expect(record.files[n]).toEqual({ size: bytes.byteLength, sha256: createHash('sha256').update(bytes).digest('hex') });
+    }
+    const { decodeNpy } = await import('../../src/output/npy.js');
+    const sum = decodeNpy(await readFile(join(folder, 'intensity.npy'))).data;
+    const maps = await Promise.all(names.map(async (n) => decodeNpy(await readFile(join(folder, n))).data));
+    // The weights are the powers over their total: 1/4 and 3/4 (the sum is relative to the total incident irradiance).
+    let worst = 0;
+    let peak = 0;
+    for (let i = 0; i < sum.length; i++) {
+      worst = Math.max(worst, Math.abs(sum[i]! - (0.25 * maps[0]![i]! + 0.75 * maps[1]![i]!)));
+      peak = Math.max(peak, sum[i]!);
+    }
+    expect(worst).toBeLessThan(1e-12 * peak);
+    // And each map is its wavelength's own: the blue one differs from the red one.
+    expect(maps[0]!.some((v, i) => Math.abs(v - maps[1]![i]!) > 1e-3 * peak)).toBe(true);
+    // The kept maps are in the memory estimate: more than the same case without the key.
+    expect(plan.memoryBytes).toBeGreaterThan(planCase({ ...c, output: { npy: 'float64', logDecades: 5 } }).memoryBytes);
+  });
+});
