@@ -4,8 +4,8 @@
 // each line is then planned again with that grid imposed (Geometry.outputGrid): direct sums
 // evaluate at its points, FFT lattices are made as fine as a whole fraction of its pitch so that
 // its points are lattice points, and a form whose output cannot be put there is not offered.
-// Nothing is interpolated. A band is sampled finely enough that the pattern of one sample moves
-// by at most one output pixel to the next where the light is (more samples than asked, up to
+// Nothing is interpolated. A band is sampled finely enough that from one sample to the next the
+// intensity anywhere on the grid moves by at most half a fringe (more samples than asked, up to
 // BAND_SAMPLES_MAX; beyond that a warning says the band shows as separate lines).
 import { meanWavelength, ownSamples, spectrumLines, spectrumRange, spectrumWords, type SpectrumLine } from '../analysis/spectrum.js';
 import { elementOf, isBinary } from '../elements/registry.js';
@@ -96,43 +96,34 @@ function unionAxis(axes: Axis[], steps: number[], maxN: number): { axis: Axis; c
 
 /**
  * The longest wavelength step at which the band's discrete samples still add up to its continuous
- * spread: from one sample to the next the pattern may move by at most a quarter of its finest
- * structure. A beam that carries at least 1 % of the power (a grating's order) moves at the rate its
- * landing point changes with wavelength (from the scouts), and its structure is its footprint or
- * its diffraction width λz/(Dγ³), whichever is larger (for an order of resolving power mN that is
- * a quarter of λ/(mN) in wavelength: the samples resolve what the grating resolves); orders that
- * land beyond the output grid at both ends of the band do not count. The pattern of a single beam grows about
- * the axis in proportion to λ: a feature a window's half out moves by half·δ/λ against a
- * structure of max(D, λz/D).
+ * spread. The intensity at a point moves through one fringe when the wavelength changes by λ²/ΔL,
+ * ΔL the spread of path lengths from the lit aperture to that point (the exact distances, so the
+ * near field's Fresnel zones and the far field's D·sin θ alike; for a grating's order of resolving
+ * power mN it is λ/(mN), its resolution element); half of that at the shortest wavelength, over
+ * every point of the output grid (the spread is largest at its corners), is the step. (Measured on
+ * a 0.5 mm square at 10 mm in 450–650 nm: a quarter fringe asked 149 samples; 32 were already within
+ * 0.06 % of the peak of them, 16 within 0.3 %, 8 off by 3.7 %.)
  */
 function wavelengthStep(scouts: Plan[], grid: OutputGrid): number {
   const first = scouts[0]!;
-  const last = scouts[scouts.length - 1]!;
   const lam = first.case.wavelength;
   const z = first.case.distance;
-  const d = 2 * Math.max(first.x.apertureHalf, first.y?.apertureHalf ?? 0);
-  const half = Math.max(first.x.windowHalf, first.y?.windowHalf ?? 0);
-  const beams = first.beams.filter((b) => b.propagates);
-  // One beam: its pattern about the axis scales with λ.
-  if (beams.length <= 1) return (lam * Math.max(d, (lam * z) / d)) / (4 * Math.max(half, 1e-300));
-  let step = Infinity;
-  const dl = last.case.wavelength - lam;
-  if (dl > 0) {
-    const total = first.beams.reduce((t, x) => t + (x.propagates ? x.power : 0), 0);
-    // Only where the light is on the output grid: an order that lands beyond it is not drawn.
-    const onGrid = (p: [number, number]) => grid.every((a, i) => !a || (p[i]! >= a.start && p[i]! <= a.start + (a.n - 1) * a.step));
-    for (const b of first.beams) {
-      if (!b.propagates || !b.landing || b.power < 0.01 * total) continue;
-      const other = last.beams.find((x) => x.order === b.order && x.landing);
-      if (!other || (!onGrid(b.landing) && !onGrid(other.landing!))) continue;
-      const rate = Math.hypot(other.landing![0] - b.landing[0], other.landing![1] - b.landing[1]) / dl;
-      if (!(rate > 0)) continue;
-      const g = z / Math.hypot(z, b.landing[0], b.landing[1]);
-      const structure = Math.max(d / g, (lam * z) / (d * g ** 3));
-      step = Math.min(step, structure / (4 * rate));
+  let spread = 0;
+  for (const p of [first, scouts[scouts.length - 1]!]) {
+    const a = [p.x.apertureHalf, p.y?.apertureHalf ?? 0];
+    const ends = (i: 0 | 1) => {
+      const ax = grid[i];
+      return ax ? [ax.start, ax.start + (ax.n - 1) * ax.step] : [0];
+    };
+    for (const x of ends(0)) {
+      for (const y of ends(1)) {
+        const far = Math.hypot(z, Math.abs(x) + a[0]!, Math.abs(y) + a[1]!);
+        const near = Math.hypot(z, Math.max(0, Math.abs(x) - a[0]!), Math.max(0, Math.abs(y) - a[1]!));
+        spread = Math.max(spread, far - near);
+      }
     }
   }
-  return step;
+  return spread > 0 ? (lam * lam) / (2 * spread) : Infinity;
 }
 
 /** The first warning of each code among the members', in order. */
@@ -203,8 +194,8 @@ export function planSpectrum<O extends object>(c: Case, planner: MemberPlanner<O
   if (needed !== null) {
     reasons.push(
       needed > own
-        ? `${used} wavelength samples (${own} asked): from one sample to the next the pattern moves by at most a quarter of its finest structure where the light lands${needed > used ? ` only with ${needed}` : ''}.`
-        : `${used} wavelength samples: from one to the next the pattern moves by less than a quarter of its finest structure (${needed} would do).`,
+        ? `${used} wavelength samples (${own} asked): from one sample to the next the intensity anywhere on the grid moves by at most half a fringe (λ²/ΔL, ΔL the spread of path lengths from the lit aperture)${needed > used ? ` only with ${needed}` : ''}.`
+        : `${used} wavelength samples: from one to the next the intensity anywhere on the grid moves by less than half a fringe (λ²/ΔL, ΔL the spread of path lengths from the lit aperture; ${needed} would do).`,
     );
   }
   reasons.push(

@@ -174,7 +174,7 @@ export const WARNING_CATALOGUE = {
     title: 'A band sampled coarser than its pattern moves',
     accuracy: true,
     message: (d) =>
-      `the band is computed at ${d.samples} wavelengths ${nmStep(d.step)} apart; for the pattern to move by no more than a quarter of its finest structure between them it would take ${d.needed}: where the light is dispersed the map shows the samples as separate lines rather than a continuous spread, and its values there are off; narrow the band or give more samples (spectrum.samples)`,
+      `the band is computed at ${d.samples} wavelengths ${nmStep(d.step)} apart; for the intensity anywhere on the grid to move by no more than half a fringe between them it would take ${d.needed}: where the light is dispersed the map shows the samples as separate lines rather than a continuous spread, and its values there are off; narrow the band or give more samples (spectrum.samples)`,
   }),
   'near-wavelength': entry<{ cause: 'feature'; feature: number; ratio: number } | { cause: 'screen'; ratio: number }>({
     title: 'Feature or screen within a few wavelengths: scalar theory unreliable',

@@ -16,7 +16,12 @@ import { spectrumLines } from '../../src/analysis/spectrum.js';
 import { testContext } from '../engine.js';
 import { makeCase, nm, um } from '../helpers.js';
 
-const band = (samples: number): SpectrumSource => ({ kind: 'band', from: 560 * nm, to: 700 * nm, samples });
+// The midpoints of 560–700 nm in `samples` equal intervals, as lines (a band of them would be
+// refined by the planner to as many samples as its fringes ask).
+const band = (samples: number): SpectrumSource => ({
+  kind: 'lines',
+  lines: Array.from({ length: samples }, (_, i) => ({ wavelength: 560 * nm + ((i + 0.5) * 140 * nm) / samples, power: 1 })),
+});
 
 function spectrumCase(illumination: Illumination, spectrum: SpectrumSource, aperture: Case['aperture'] = { shape: 'rectangle', width: 200 * um, height: 150 * um, opaque: false }): Case {
   const lines = spectrumLines(spectrum);
