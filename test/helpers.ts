@@ -7,6 +7,7 @@ import type { Case, Plan } from '../src/plan/types.js';
 import type { CaseRecord } from '../src/output/case-output.js';
 import { xAt, yAt } from '../src/model/grid.js';
 import { planCase } from '../src/plan/planner.js';
+import { parseJobText } from '../src/job/load.js';
 import { runPlannedCase } from '../src/run/run-case.js';
 import type { RunReporter } from '../src/run/progress.js';
 
@@ -139,4 +140,14 @@ export function mulberry32(seed: number): () => number {
     t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
     return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
   };
+}
+
+/** The load problems of a job text ([] when it loads): path and message of each. */
+export function loadProblems(text: string): { path: string; message: string }[] {
+  try {
+    parseJobText(text);
+    return [];
+  } catch (e) {
+    return ((e as { problems?: { path: string; message: string }[] }).problems ?? [{ path: '', message: String(e) }]) as { path: string; message: string }[];
+  }
 }

@@ -3,17 +3,9 @@
 import { describe, expect, it } from 'vitest';
 import { expandJob } from '../../src/job/expand.js';
 import { parseJobText } from '../../src/job/load.js';
+import { loadProblems } from '../helpers.js';
 
 const HEAD = 'name: t\nwavelength: 633 nm\ndistance: 100 mm\n';
-
-function problems(text: string): { path: string; message: string }[] {
-  try {
-    parseJobText(text);
-    return [];
-  } catch (e) {
-    return ((e as { problems?: { path: string; message: string }[] }).problems ?? [{ path: '', message: String(e) }]) as { path: string; message: string }[];
-  }
-}
 
 describe('lens keys', () => {
   it('sweeps a signed focal length, negative for a diverging lens, into cases with its token', () => {
@@ -38,10 +30,10 @@ describe('lens keys', () => {
   });
 
   it('refuses a zero focal length, a lens without a stop in a plane wave, a wavefront error without a stop, and Noll indices beyond 231', () => {
-    expect(problems(HEAD + 'aperture: {shape: lens, focal_length: 0 mm, stop: 1 mm}\n')[0]!.path).toBe('aperture.focal_length');
-    expect(problems(HEAD + 'aperture: {shape: lens, focal_length: 100 mm}\n')[0]).toMatchObject({ path: 'aperture.stop' });
-    expect(problems(HEAD + 'aperture: {shape: lens, focal_length: 100 mm, aberrations: {4: 0.1}}\nillumination: {kind: gaussian, waist: 1 mm}\n')[0]).toMatchObject({ path: 'aperture.aberrations' });
-    expect(problems(HEAD + 'aperture: {shape: lens, focal_length: 100 mm, stop: 1 mm, aberrations: {232: 0.1}}\n')[0]!.path).toBe('aperture.aberrations.232');
+    expect(loadProblems(HEAD + 'aperture: {shape: lens, focal_length: 0 mm, stop: 1 mm}\n')[0]!.path).toBe('aperture.focal_length');
+    expect(loadProblems(HEAD + 'aperture: {shape: lens, focal_length: 100 mm}\n')[0]).toMatchObject({ path: 'aperture.stop' });
+    expect(loadProblems(HEAD + 'aperture: {shape: lens, focal_length: 100 mm, aberrations: {4: 0.1}}\nillumination: {kind: gaussian, waist: 1 mm}\n')[0]).toMatchObject({ path: 'aperture.aberrations' });
+    expect(loadProblems(HEAD + 'aperture: {shape: lens, focal_length: 100 mm, stop: 1 mm, aberrations: {232: 0.1}}\n')[0]!.path).toBe('aperture.aberrations.232');
   });
 
   it('loads an unbounded lens in a Gaussian beam', () => {

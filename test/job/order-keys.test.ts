@@ -3,17 +3,9 @@
 import { describe, expect, it } from 'vitest';
 import { expandJob } from '../../src/job/expand.js';
 import { parseJobText } from '../../src/job/load.js';
+import { loadProblems } from '../helpers.js';
 
 const HEAD = 'name: t\nwavelength: 633 nm\ndistance: 1 m\naperture: {shape: grating, profile: blazed, depth: 1, period: 2 um, count: 100}\n';
-
-function problems(text: string): { path: string; message: string }[] {
-  try {
-    parseJobText(text);
-    return [];
-  } catch (e) {
-    return ((e as { problems?: { path: string; message: string }[] }).problems ?? [{ path: '', message: String(e) }]) as { path: string; message: string }[];
-  }
-}
 
 describe('orders.focal_length and orders.use', () => {
   it('hand each case the focal length and the range with the light: a one-wavelength job\'s light is the range', () => {
@@ -30,14 +22,14 @@ describe('orders.focal_length and orders.use', () => {
     for (const c of cases) expect(c.analysis.orderUse!.light.map((v) => Math.round(v * 1e12) / 1e3)).toEqual([350, 650]);
   });
   it('refuse, naming the key: a range running down, order 0, a fractional order, a non-positive focal length, a wavelength out of bounds, an unknown key', () => {
-    expect(problems(HEAD + "orders: {use: {from: '700 nm', to: '400 nm', order: 1}}\n")[0]).toMatchObject({ path: 'orders.use.to', message: expect.stringMatching(/above 'from'/) });
-    expect(problems(HEAD + "orders: {use: {from: '400 nm', to: '700 nm', order: 0}}\n")[0]).toMatchObject({ path: 'orders.use.order', message: expect.stringMatching(/not 0/) });
-    expect(problems(HEAD + "orders: {use: {from: '400 nm', to: '700 nm', order: 1.5}}\n")[0]!.path).toBe('orders.use.order');
-    expect(problems(HEAD + "orders: {use: {from: '400 nm', to: '700 nm'}}\n")[0]!.path).toBe('orders.use.order');
-    expect(problems(HEAD + "orders: {focal_length: '-200 mm'}\n")[0]!.path).toBe('orders.focal_length');
-    expect(problems(HEAD + "orders: {use: {from: '0.1 nm', to: '700 nm', order: 1}}\n")[0]!.path).toBe('orders.use.from');
-    expect(problems(HEAD + "orders: {use: {from: '400 nm', to: '700 nm', order: 1, spacing: log}}\n")[0]!.path).toMatch(/^orders\.use/);
-    expect(problems(HEAD + "orders: {use: '400 nm'}\n")[0]).toMatchObject({ path: 'orders.use', message: expect.stringMatching(/from: '400 nm', to: '700 nm', order: 1/) });
+    expect(loadProblems(HEAD + "orders: {use: {from: '700 nm', to: '400 nm', order: 1}}\n")[0]).toMatchObject({ path: 'orders.use.to', message: expect.stringMatching(/above 'from'/) });
+    expect(loadProblems(HEAD + "orders: {use: {from: '400 nm', to: '700 nm', order: 0}}\n")[0]).toMatchObject({ path: 'orders.use.order', message: expect.stringMatching(/not 0/) });
+    expect(loadProblems(HEAD + "orders: {use: {from: '400 nm', to: '700 nm', order: 1.5}}\n")[0]!.path).toBe('orders.use.order');
+    expect(loadProblems(HEAD + "orders: {use: {from: '400 nm', to: '700 nm'}}\n")[0]!.path).toBe('orders.use.order');
+    expect(loadProblems(HEAD + "orders: {focal_length: '-200 mm'}\n")[0]!.path).toBe('orders.focal_length');
+    expect(loadProblems(HEAD + "orders: {use: {from: '0.1 nm', to: '700 nm', order: 1}}\n")[0]!.path).toBe('orders.use.from');
+    expect(loadProblems(HEAD + "orders: {use: {from: '400 nm', to: '700 nm', order: 1, spacing: log}}\n")[0]!.path).toMatch(/^orders\.use/);
+    expect(loadProblems(HEAD + "orders: {use: '400 nm'}\n")[0]).toMatchObject({ path: 'orders.use', message: expect.stringMatching(/from: '400 nm', to: '700 nm', order: 1/) });
   });
 });
 
@@ -47,7 +39,7 @@ describe('the grating element\'s reflective key', () => {
     expect('reflective' in t).toBe(false);
     const r = expandJob(parseJobText(HEAD.replace('count: 100}', 'count: 100, reflective: true}')).spec)[0]!.aperture as unknown as Record<string, unknown>;
     expect(r.reflective).toBe(true);
-    expect(problems(HEAD.replace('count: 100}', 'count: 100, reflective: yes please}'))[0]).toMatchObject({ path: 'aperture.reflective', message: expect.stringMatching(/true \(a reflection grating\) or false/) });
+    expect(loadProblems(HEAD.replace('count: 100}', 'count: 100, reflective: yes please}'))[0]).toMatchObject({ path: 'aperture.reflective', message: expect.stringMatching(/true \(a reflection grating\) or false/) });
   });
   it('reads a blazed depth given as a length as the groove depth h of a reflection grating: an optical path 2h·cos θ_i, in waves 2h·cos θ_i/λ', () => {
     const depthOf = (text: string) => (expandJob(parseJobText(text).spec)[0]!.aperture as unknown as { profile: { depth: number } }).profile.depth;

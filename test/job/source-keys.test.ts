@@ -3,17 +3,9 @@
 import { describe, expect, it } from 'vitest';
 import { expandJob } from '../../src/job/expand.js';
 import { parseJobText } from '../../src/job/load.js';
+import { loadProblems } from '../helpers.js';
 
 const HEAD = 'name: t\nwavelength: 633 nm\ndistance: 300 mm\naperture: {shape: circle, diameter: 1 mm}\n';
-
-function problems(text: string): { path: string; message: string }[] {
-  try {
-    parseJobText(text);
-    return [];
-  } catch (e) {
-    return ((e as { problems?: { path: string; message: string }[] }).problems ?? [{ path: '', message: String(e) }]) as { path: string; message: string }[];
-  }
-}
 
 describe('curved-light keys', () => {
   it('a point source, swept in distance, off the axis: each case has its source and the flat light that stands in', () => {
@@ -56,24 +48,24 @@ describe('curved-light keys', () => {
   });
 
   it('points: refusals name the point', () => {
-    expect(problems(HEAD + "illumination: {kind: points, distance: '1 m', points: [{angle: ['1 mrad', 0]}, {at: [0, 0]}]}\n")[0]).toMatchObject({ path: 'illumination.points[0]' });
-    expect(problems(HEAD + "illumination: {kind: points, points: [{angle: ['1 mrad', 0]}, {at: [0, 0]}]}\n")[0]).toMatchObject({ path: 'illumination.points[1]' });
-    expect(problems(HEAD + "illumination: {kind: points, points: [{angle: ['1 mrad', 0]}]}\n")[0]!.path).toMatch(/^illumination\.points/);
-    expect(problems(HEAD + "illumination: {kind: points, points: [{angle: [0, 0], power: 0}, {angle: [0, 0]}]}\n")[0]!.path).toMatch(/^illumination\.points\[0\]\.power/);
+    expect(loadProblems(HEAD + "illumination: {kind: points, distance: '1 m', points: [{angle: ['1 mrad', 0]}, {at: [0, 0]}]}\n")[0]).toMatchObject({ path: 'illumination.points[0]' });
+    expect(loadProblems(HEAD + "illumination: {kind: points, points: [{angle: ['1 mrad', 0]}, {at: [0, 0]}]}\n")[0]).toMatchObject({ path: 'illumination.points[1]' });
+    expect(loadProblems(HEAD + "illumination: {kind: points, points: [{angle: ['1 mrad', 0]}]}\n")[0]!.path).toMatch(/^illumination\.points/);
+    expect(loadProblems(HEAD + "illumination: {kind: points, points: [{angle: [0, 0], power: 0}, {angle: [0, 0]}]}\n")[0]!.path).toMatch(/^illumination\.points\[0\]\.power/);
   });
 
   it('refuses bad input with the key path', () => {
-    expect(problems(HEAD + "illumination: {kind: point}\n")[0]).toMatchObject({ path: 'illumination.distance' });
-    expect(problems(HEAD + "illumination: {kind: point, distance: '-5 mm'}\n")[0]!.path).toMatch(/^illumination\.distance/);
-    expect(problems(HEAD + "illumination: {kind: point, distance: '5 mm', tilt: [0, 0]}\n")[0]!.path).toMatch(/^illumination/);
-    expect(problems(HEAD + "illumination: {kind: point, distance: '5 mm', at: '1 mm'}\n")[0]).toMatchObject({ path: 'illumination.at' });
-    expect(problems(HEAD + "illumination: {kind: gaussian, waist: '1 mm', waist_distance: 0}\n")[0]!.path).toMatch(/^illumination\.waist_distance/);
-    expect(problems(HEAD + "illumination: {kind: extended, shape: star, size: '1 mm', distance: '1 m'}\n")[0]).toMatchObject({ path: 'illumination.shape' });
-    expect(problems(HEAD + "illumination: {kind: extended, shape: disc, distance: '1 m'}\n")[0]).toMatchObject({ path: 'illumination.size' });
-    const planes = problems(HEAD + "planes: [{after: '10 mm', element: {shape: circle, diameter: 1 mm}}]\nillumination: {kind: point, distance: '1 m'}\n");
+    expect(loadProblems(HEAD + "illumination: {kind: point}\n")[0]).toMatchObject({ path: 'illumination.distance' });
+    expect(loadProblems(HEAD + "illumination: {kind: point, distance: '-5 mm'}\n")[0]!.path).toMatch(/^illumination\.distance/);
+    expect(loadProblems(HEAD + "illumination: {kind: point, distance: '5 mm', tilt: [0, 0]}\n")[0]!.path).toMatch(/^illumination/);
+    expect(loadProblems(HEAD + "illumination: {kind: point, distance: '5 mm', at: '1 mm'}\n")[0]).toMatchObject({ path: 'illumination.at' });
+    expect(loadProblems(HEAD + "illumination: {kind: gaussian, waist: '1 mm', waist_distance: 0}\n")[0]!.path).toMatch(/^illumination\.waist_distance/);
+    expect(loadProblems(HEAD + "illumination: {kind: extended, shape: star, size: '1 mm', distance: '1 m'}\n")[0]).toMatchObject({ path: 'illumination.shape' });
+    expect(loadProblems(HEAD + "illumination: {kind: extended, shape: disc, distance: '1 m'}\n")[0]).toMatchObject({ path: 'illumination.size' });
+    const planes = loadProblems(HEAD + "planes: [{after: '10 mm', element: {shape: circle, diameter: 1 mm}}]\nillumination: {kind: point, distance: '1 m'}\n");
     expect(planes[0]).toMatchObject({ path: 'planes' });
     expect(planes[0]!.message).toMatch(/point source/);
-    const search = problems(HEAD + "search: {smallest-spot: {between: ['10 um', '1 mm']}}\nillumination: {kind: point, distance: '1 m'}\n");
+    const search = loadProblems(HEAD + "search: {smallest-spot: {between: ['10 um', '1 mm']}}\nillumination: {kind: point, distance: '1 m'}\n");
     expect(search.map((p) => p.path)).toContain('search.smallest-spot');
   });
 });

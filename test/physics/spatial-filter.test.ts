@@ -16,7 +16,7 @@ import type { Aperture } from '../../src/optics/aperture.js';
 import { summaryOf } from '../../src/output/case-output.js';
 import { summaryColumns } from '../../src/output/summary.js';
 import { planCase } from '../../src/plan/planner.js';
-import { makeCase, mm, nm, runCase } from '../helpers.js';
+import { makeCase, mm, nm, runCase, loadProblems } from '../helpers.js';
 
 const lam = 633 * nm;
 const k = (2 * Math.PI) / lam;
@@ -217,15 +217,6 @@ describe('where there is no focus on the screen', () => {
 describe('the job key search.pinhole', () => {
   const HEAD = 'name: t\nwavelength: 633 nm\ndistance: 100 mm\n';
   const LENS = 'aperture: {shape: lens, focal_length: 100 mm, stop: 25 mm}\n';
-  function problems(text: string): { path: string; message: string }[] {
-    try {
-      parseJobText(text);
-      return [];
-    } catch (e) {
-      return ((e as { problems?: { path: string; message: string }[] }).problems ?? [{ path: '', message: String(e) }]) as { path: string; message: string }[];
-    }
-  }
-
   it('takes a fraction or a list of them into each case, sorted, repeats dropped', () => {
     const one = parseJobText(HEAD + LENS + 'search: {pinhole: {passing: 0.95}}\n');
     expect(expandJob(one.spec)[0]!.analysis.pinholePassing).toEqual([0.95]);
@@ -237,7 +228,7 @@ describe('the job key search.pinhole', () => {
 
   it('refuses fractions outside (0, 1), text, an empty list and more than 16, at search.pinhole.passing', () => {
     for (const bad of ['0', '1', '1.2', '-0.1', "'90 %'", '[]', '[0.5, 1]', `[${Array.from({ length: 17 }, (_, i) => (i + 1) / 20).join(', ')}]`]) {
-      const p = problems(HEAD + LENS + `search: {pinhole: {passing: ${bad}}}\n`);
+      const p = loadProblems(HEAD + LENS + `search: {pinhole: {passing: ${bad}}}\n`);
       expect(p.length, bad).toBeGreaterThan(0);
       expect(p[0]!.path, bad).toMatch(/^search\.pinhole\.passing/);
       expect(p[0]!.message, bad).toMatch(/fraction between 0 and 1/);
@@ -245,16 +236,16 @@ describe('the job key search.pinhole', () => {
   });
 
   it('refuses an element other than a lens, and a diverging lens, at search.pinhole, saying what it expected', () => {
-    const circle = problems(HEAD + 'aperture: {shape: circle, diameter: 50 um}\nsearch: {pinhole: {passing: 0.9}}\n');
+    const circle = loadProblems(HEAD + 'aperture: {shape: circle, diameter: 50 um}\nsearch: {pinhole: {passing: 0.9}}\n');
     expect(circle).toHaveLength(1);
     expect(circle[0]!.path).toBe('search.pinhole');
     expect(circle[0]!.message).toMatch(/expected a lens \(shape: lens\).*circle/);
-    const diverging = problems(HEAD + 'aperture: {shape: lens, focal_length: -100 mm, stop: 25 mm}\nsearch: {pinhole: {passing: 0.9}}\n');
+    const diverging = loadProblems(HEAD + 'aperture: {shape: lens, focal_length: -100 mm, stop: 25 mm}\nsearch: {pinhole: {passing: 0.9}}\n');
     expect(diverging[0]).toMatchObject({ path: 'search.pinhole', message: expect.stringMatching(/converging/) });
   });
 
   it('refuses a search mapping that asks for nothing, and keeps the smallest-spot search as it was', () => {
-    expect(problems(HEAD + LENS + 'search: {}\n')[0]).toMatchObject({ path: 'search', message: expect.stringMatching(/smallest-spot or pinhole/) });
+    expect(loadProblems(HEAD + LENS + 'search: {}\n')[0]).toMatchObject({ path: 'search', message: expect.stringMatching(/smallest-spot or pinhole/) });
     const spot = parseJobText(HEAD + "aperture: {shape: circle, diameter: 50 um}\nsearch: {smallest-spot: {between: ['10 um', '300 um']}}\n");
     expect(expandJob(spot.spec)[0]!.analysis.smallestSpot).toBeDefined();
   });
