@@ -3,13 +3,12 @@
 // Used by random-cases.test.ts (the property test) and, with SPOTCAST_RANDOM_REPORT=1, to print
 // every case (see the test file's header).
 import { apertureFacts, describe as describeAperture, type Aperture, type Illumination } from '../../src/optics/aperture.js';
-import { fork, type ChildProcess } from 'node:child_process';
-import { fileURLToPath } from 'node:url';
 import type { Plan } from '../../src/plan/types.js';
 import { isOneD as isOneDGrid, xAt as gridX, yAt as gridY } from '../../src/model/grid.js';
 import { ACCURACY_CODES } from '../../src/warnings/catalogue.js';
 import { mulberry32, planAndRun, type CaseSpec } from '../helpers.js';
 import { isOneD, referenceCost1D, referenceIntensity, type RefCase } from '../reference/reference.js';
+import { runInChildProcesses } from './child-cases.js';
 
 /** The seed of the draw; change it to see other cases (the counts in the report are for this one). */
 export const SEED = 0x5eed2026;
@@ -355,72 +354,35 @@ export function countTable(outcomes: Outcome[]): string {
 
 // --- Running in child processes ---------------------------------------------------------------
 
+/** A case that threw in its worker, as an outcome. */
+export function threwOutcome(d: DrawnCase, note: string): Outcome {
+  return { drawn: d, status: 'threw', oneD: false, codes: [], warned: false, note };
+}
+
 /**
- * A case may not come back (a plan that never ends has been seen): cases run in child processes
- * (random-worker.mjs, which loads this file through Vite, already installed for vitest), and a case
- * that has not come back after `timeoutMs` is counted as timed out and its process replaced.
- * This is a guard against hanging, not a measurement: the limit is generous.
+ * The cases in child processes (child-cases.ts): a case that has not come back after `timeoutMs`
+ * is counted as timed out (or threw, if its process died), with its plan if it got that far.
  */
 export async function runInChildren(
   drawn: DrawnCase[],
   opts: { workers?: number; timeoutMs?: number; onOutcome?: (o: Outcome, elapsedMs: number) => void } = {},
 ): Promise<Outcome[]> {
-  const workers = opts.workers ?? 2;
   const timeoutMs = opts.timeoutMs ?? CASE_TIMEOUT_MS;
-  const script = fileURLToPath(new URL('./random-worker.mjs', import.meta.url));
-  const results: Outcome[] = new Array(drawn.length);
-  let next = 0;
-  const lane = async () => {
-    let child: ChildProcess | null = null;
-    const start = () => fork(script, [], { stdio: ['ignore', 'ignore', 'inherit', 'ipc'], serialization: 'advanced' });
-    try {
-      while (next < drawn.length) {
-        const i = next++;
-        const d = drawn[i]!;
-        child ??= start();
-        const c = child;
-        const t0 = Date.now();
-        let planned: PlanInfo | undefined;
-        const o = await new Promise<Outcome | null>((resolve) => {
-          const timer = setTimeout(() => done(null), timeoutMs);
-          const onMsg = (m: Outcome | { planned: PlanInfo }) => {
-            if ('planned' in m) planned = m.planned;
-            else done(m);
-          };
-          const onExit = () => done(null);
-          function done(v: Outcome | null) {
-            clearTimeout(timer);
-            c.off('message', onMsg);
-            c.off('exit', onExit);
-            resolve(v);
-          }
-          c.on('message', onMsg);
-          c.on('exit', onExit);
-          c.send(d);
-        });
-        if (o) results[i] = o;
-        else {
-          const dead = c.exitCode !== null || c.signalCode !== null;
-          c.kill('SIGKILL');
-          child = null;
-          results[i] = {
-            drawn: d,
-            status: dead ? 'threw' : 'timed out',
-            oneD: isOneD(d.spec.aperture),
-            ...(planned ? { plan: planned } : {}),
-            codes: [],
-            warned: false,
-            note: dead
-              ? 'the worker process died'
-              : `no answer within ${timeoutMs / 1000} s (${planned ? 'planned; the run or the reference did not end' : 'planCase did not return'})`,
-          };
-        }
-        opts.onOutcome?.(results[i]!, Date.now() - t0);
-      }
-    } finally {
-      child?.kill('SIGKILL');
-    }
-  };
-  await Promise.all(Array.from({ length: workers }, lane));
-  return results;
+  return runInChildProcesses<DrawnCase, Outcome, PlanInfo>(drawn, {
+    module: '/test/physics/random-cases.ts',
+    run: 'runRandomCase',
+    threw: 'threwOutcome',
+    workers: opts.workers ?? 2,
+    timeoutMs,
+    ...(opts.onOutcome ? { onOutcome: opts.onOutcome } : {}),
+    lost: (d, { dead, side: planned }) => ({
+      drawn: d,
+      status: dead ? 'threw' : 'timed out',
+      oneD: isOneD(d.spec.aperture),
+      ...(planned ? { plan: planned } : {}),
+      codes: [],
+      warned: false,
+      note: dead ? 'the worker process died' : `no answer within ${timeoutMs / 1000} s (${planned ? 'planned; the run or the reference did not end' : 'planCase did not return'})`,
+    }),
+  });
 }

@@ -6,8 +6,6 @@
 // wavelengths add in intensity, Born & Wolf, Principles of Optics, §7.5.8, from memory).
 // Used by random-spectra.test.ts; the cases themselves are random-cases.ts drawCases' with their
 // own seed, each given a spectrum about its drawn wavelength.
-import { fork, type ChildProcess } from 'node:child_process';
-import { fileURLToPath } from 'node:url';
 import type { SpectrumSource } from '../../src/analysis/spectrum.js';
 import { isOneD as isOneDGrid, xAt as gridX, yAt as gridY } from '../../src/model/grid.js';
 import { descriptorOf } from '../../src/methods/registry.js';
@@ -19,6 +17,7 @@ import { testContext } from '../engine.js';
 import { makeCase, mulberry32 } from '../helpers.js';
 import { isOneD, referenceIntensity, type RefCase } from '../reference/reference.js';
 import { describeCase, drawCases, errorClass, type DrawnCase } from './random-cases.js';
+import { runInChildProcesses } from './child-cases.js';
 
 /** The seed of this file's draw (random-cases.ts draws the cases, this seed draws their spectra too). */
 export const SPECTRA_SEED = 0x5bec7a;
@@ -308,49 +307,19 @@ export function spectrumCountTable(outcomes: SpectrumOutcome[]): string {
   return lines.join('\n');
 }
 
-/**
- * Runs the draws in child processes (random-spectra-worker.mjs), as random-cases.ts runInChildren
- * does: a case that has not come back after `timeoutMs` is counted as timed out and its process
- * replaced.
- */
+/** A draw that threw in its worker, as an outcome. */
+export function threwSpectrum(d: SpectrumDraw, note: string): SpectrumOutcome {
+  return { draw: d, status: 'threw', oneD: false, codes: [], warned: false, note };
+}
+
+/** Runs the draws in child processes (child-cases.ts), as random-cases.ts runInChildren does. */
 export async function runSpectraInChildren(draws: SpectrumDraw[], workers = 1, timeoutMs = SPECTRA_TIMEOUT_MS): Promise<SpectrumOutcome[]> {
-  const script = fileURLToPath(new URL('./random-spectra-worker.mjs', import.meta.url));
-  const results: SpectrumOutcome[] = new Array(draws.length);
-  let next = 0;
-  const lane = async () => {
-    let child: ChildProcess | null = null;
-    try {
-      while (next < draws.length) {
-        const i = next++;
-        const d = draws[i]!;
-        child ??= fork(script, [], { stdio: ['ignore', 'ignore', 'inherit', 'ipc'], serialization: 'advanced' });
-        const ch = child;
-        const o = await new Promise<SpectrumOutcome | null>((resolve) => {
-          const timer = setTimeout(() => done(null), timeoutMs);
-          const onMsg = (m: SpectrumOutcome) => done(m);
-          const onExit = () => done(null);
-          function done(v: SpectrumOutcome | null) {
-            clearTimeout(timer);
-            ch.off('message', onMsg);
-            ch.off('exit', onExit);
-            resolve(v);
-          }
-          ch.on('message', onMsg);
-          ch.on('exit', onExit);
-          ch.send(d);
-        });
-        if (o) results[i] = o;
-        else {
-          const dead = ch.exitCode !== null || ch.signalCode !== null;
-          ch.kill('SIGKILL');
-          child = null;
-          results[i] = { draw: d, status: dead ? 'threw' : 'timed out', oneD: isOneD(d.drawn.spec.aperture), codes: [], warned: false, note: dead ? 'the worker process died' : `no answer within ${timeoutMs / 1000} s` };
-        }
-      }
-    } finally {
-      child?.kill('SIGKILL');
-    }
-  };
-  await Promise.all(Array.from({ length: workers }, lane));
-  return results;
+  return runInChildProcesses<SpectrumDraw, SpectrumOutcome>(draws, {
+    module: '/test/physics/random-spectra.ts',
+    run: 'runSpectrumDraw',
+    threw: 'threwSpectrum',
+    workers,
+    timeoutMs,
+    lost: (d, { dead }) => ({ draw: d, status: dead ? 'threw' : 'timed out', oneD: isOneD(d.drawn.spec.aperture), codes: [], warned: false, note: dead ? 'the worker process died' : `no answer within ${timeoutMs / 1000} s` }),
+  });
 }
