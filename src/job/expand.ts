@@ -92,6 +92,7 @@ export function expandJob(job: JobSpec): Case[] {
     ...(job.orders?.focal_length ? { focalLength: job.orders.focal_length } : {}),
     ...(job.orders?.use ? { orderUse: { ...job.orders.use, light: useLight(spectrum ? spectrumRange(spectrum) : job.wavelength!.values, job.orders.use) } } : {}),
     ...(job.search?.pinhole ? { pinholePassing: job.search.pinhole.passing } : {}),
+    ...(job.spectrometer ? { spectrometer: job.spectrometer } : {}),
   };
   const cases: Case[] = [];
   const idx = new Array<number>(axes.length).fill(0);

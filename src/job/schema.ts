@@ -20,6 +20,7 @@ import {
   type SweepValues,
 } from './quantities.js';
 import { orderAnswerKeys } from './order-keys.js';
+import { SPECTROMETER_LENGTH_KEYS, spectrometerSchema } from './spectrometer-keys.js';
 
 export {
   DESCRIPTION_MAX,
@@ -259,6 +260,7 @@ const jobShape = {
   detector: detectors.optional(),
   search: z.strictObject(searchShape, { error: mappingError("expected a mapping such as {smallest-spot: {between: ['10 um', '300 um']}}") }).optional(),
   orders: z.strictObject(ordersShape, { error: mappingError("expected a mapping such as {overlap: '0.5 mm'}") }).optional(),
+  spectrometer: spectrometerSchema.optional(),
 };
 export const JOB_KEYS = Object.keys(jobShape);
 
@@ -320,8 +322,26 @@ export const jobSchema = z.strictObject(jobShape)
   if (job.search && SEARCH_KEYS.every((k) => !(job.search as Record<string, unknown>)[k])) ctx.addIssue({ code: 'custom', path: ['search'], message: `expected ${SEARCH_KEYS.join(' or ')} in the search mapping` });
   element.check?.(a as unknown as Record<string, unknown> & { shape: string; opaque: boolean }, (key, message) => ctx.addIssue({ code: 'custom', path: ['aperture', ...(Array.isArray(key) ? key : [key])], message }), { illumination: job.illumination.kind === 'gaussian' ? 'gaussian' : 'plane' });
   if (job.planes) checkPlanes(job, (path, message) => ctx.addIssue({ code: 'custom', path, message }));
+  if (job.spectrometer) checkSpectrometer(job, (path, message) => ctx.addIssue({ code: 'custom', path, message }));
   checkCurvedLight(job, (path, message) => ctx.addIssue({ code: 'custom', path, message }));
 });
+
+/**
+ * What a spectrometer needs: a grating (a slits or grating element, its lines along y) lit by the
+ * collimated light of the slit (plane light, tilted only across the lines), as the aperture itself.
+ */
+function checkSpectrometer(job: { aperture: { shape: string; opaque?: boolean }; illumination: { kind: string; tilt?: [number, number] }; planes?: unknown }, problem: (path: (string | number)[], message: string) => void): void {
+  // (The two elements whose geometry is a grating along x: elements/registry.ts gratingOf.)
+  if ((job.aperture.shape !== 'slits' && job.aperture.shape !== 'grating') || job.aperture.opaque === true) {
+    problem(['spectrometer'], `expected the aperture to be the spectrometer's grating (shape slits or grating, not opaque), got ${job.aperture.opaque ? 'an opaque ' : ''}${job.aperture.shape}`);
+  }
+  if (job.illumination.kind !== 'plane') {
+    problem(['illumination', 'kind'], `expected plane light with a spectrometer: the collimator makes the slit's light plane waves on the grating (its incidence is illumination.tilt), got ${job.illumination.kind}`);
+  } else if (job.illumination.tilt && job.illumination.tilt[1] !== 0) {
+    problem(['illumination', 'tilt'], 'expected no tilt along the lines (the second angle 0) with a spectrometer: the slit, the grating and the detector share one dispersion plane');
+  }
+  if (job.planes) problem(['planes'], 'expected no planes with a spectrometer: its lenses and slit are in the spectrometer mapping');
+}
 
 /** What curved light (a source at a distance, a waist before the aperture) cannot be combined with. */
 function checkCurvedLight(job: { illumination: { kind: string; waist_distance?: unknown; distance?: unknown; points?: { at?: unknown; angle?: unknown }[] }; planes?: unknown; search?: { 'smallest-spot'?: unknown; pinhole?: unknown } }, problem: (path: (string | number)[], message: string) => void): void {
@@ -400,6 +420,7 @@ const QUANTITY_KEYS: Record<string, UnitKind> = {
   'orders.overlap': 'length',
   'orders.focal_length': 'length',
   'orders.use': 'length',
+  ...Object.fromEntries(SPECTROMETER_LENGTH_KEYS.map((k) => [`spectrometer.${k}`, 'length' as UnitKind])),
   'output.zoom.centre': 'length',
   'output.zoom.width': 'length',
   'planes.after': 'length',

@@ -12,6 +12,7 @@ import { smallestSpotMetrics } from './smallest-spot.js';
 import { spatialFilterMetrics } from './spatial-filter.js';
 import { strehlMetrics } from './strehl.js';
 import { mtfMetrics } from './mtf.js';
+import { spectrometerMetrics } from './spectrometer.js';
 import type { MetricFamily, MetricScope, Quantity } from './types.js';
 import { verdictMetrics } from './verdicts.js';
 import { widthMetrics } from './widths.js';
@@ -29,6 +30,7 @@ export const METRICS: readonly MetricFamily[] = [
   planeMetrics,
   spatialFilterMetrics,
   mtfMetrics,
+  spectrometerMetrics,
   smallestSpotMetrics,
 ];
 

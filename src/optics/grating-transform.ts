@@ -13,6 +13,31 @@ import type { GratingProfile } from './grating-profile.js';
  * pairs): the sinusoidal phase by its Jacobi–Anger series, Σ J_q(m/2)·d·sinc(fd − q).
  */
 export function periodTransform(p: GratingProfile, d: number, f: number): [number, number] {
+  return periodTransformer(p, d)(f);
+}
+
+/**
+ * periodTransform as a function of f alone, with what does not depend on f (the sinusoidal phase's
+ * Bessel coefficients) computed once: for callers that evaluate it at many frequencies.
+ */
+export function periodTransformer(p: GratingProfile, d: number): (f: number) => [number, number] {
+  if (p.kind === 'sinusoidal-phase') {
+    const j = besselJnSignificant(p.modulation / 2, 1e-17);
+    return (f) => {
+      const u = f * d;
+      let re = 0;
+      for (let q = -(j.length - 1); q < j.length; q++) {
+        const jq = q < 0 && (-q) % 2 === 1 ? -j[-q]! : j[Math.abs(q)]!;
+        re += jq * sinc(u - q);
+      }
+      // exp(i a sin θ) = Σ J_q(a) e^{iqθ}: real coefficients, so the transform is real.
+      return [d * re, 0];
+    };
+  }
+  return (f) => closedTransform(p, d, f);
+}
+
+function closedTransform(p: Exclude<GratingProfile, { kind: 'sinusoidal-phase' }>, d: number, f: number): [number, number] {
   const u = f * d;
   switch (p.kind) {
     case 'binary-amplitude': {
@@ -26,16 +51,6 @@ export function periodTransform(p: GratingProfile, d: number, f: number): [numbe
     }
     case 'sinusoidal-amplitude':
       return [d * (0.5 * sinc(u) + (p.modulation / 4) * (sinc(u - 1) + sinc(u + 1))), 0];
-    case 'sinusoidal-phase': {
-      const j = besselJnSignificant(p.modulation / 2, 1e-17);
-      let re = 0;
-      for (let q = -(j.length - 1); q < j.length; q++) {
-        const jq = q < 0 && (-q) % 2 === 1 ? -j[-q]! : j[Math.abs(q)]!;
-        re += jq * sinc(u - q);
-      }
-      // exp(i a sin θ) = Σ J_q(a) e^{iqθ}: real coefficients, so the transform is real.
-      return [d * re, 0];
-    }
     case 'blazed': {
       const a = p.depth;
       const s = d * sinc(a - u);

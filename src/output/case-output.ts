@@ -29,6 +29,8 @@ import type { LineOrders, LinePair } from '../analysis/line-pairs.js';
 import type { ColourMaps, LineMap } from '../run/spectrum-case.js';
 import { mtfCsv, renderMtfPng } from './mtf-files.js';
 import { lineMapName, spectrumFileEntries, spectrumFiles } from './spectrum-files.js';
+import { detectorFileEntries, detectorFiles } from './detector-files.js';
+import type { DetectorSignal, SpectrometerMetrics } from '../metrics/spectrometer.js';
 import { energyPicture, hasEnergyPicture, hasSearchPicture, profilePicture, searchPicture, zoomBoxOf, zoomPicture } from './extra-pictures.js';
 
 export interface CaseMetrics extends SpotMetrics {
@@ -82,6 +84,8 @@ export interface CaseMetrics extends SpotMetrics {
   lineOrders?: LineOrders[];
   /** Close pairs of lines in each order: resolved or not on the computed pattern (analysis/line-pairs.ts). */
   linePairs?: LinePair[];
+  /** The job's spectrometer: the detector's answers (metrics/spectrometer.ts; the signal is detector.csv). */
+  spectrometer?: SpectrometerMetrics;
 }
 
 export interface SpectrumMetrics {
@@ -130,6 +134,8 @@ export interface CaseRecord extends CaseSummary {
   energy: EnergyCurve | null;
   /** The MTF curve behind metrics.mtf (written as mtf.csv and mtf.png). */
   mtf?: MtfCurve;
+  /** The spectrometer's signal per pixel behind metrics.spectrometer (detector.csv, detector.png). */
+  detector?: DetectorSignal;
 }
 
 export interface SmallestSpot {
@@ -278,6 +284,7 @@ export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, un
       ),
       ...spectrumFileEntries(!!rec.colour, !!metrics.lineOrders?.length, !!metrics.linePairs),
       ...(rec.lineMaps ?? []).map((l, i, all): [string, string] => [lineMapName(i, all.length, l.wavelength), lineMapName(i, all.length, l.wavelength)]),
+      ...(metrics.spectrometer ? detectorFileEntries(rec.detector) : []),
     ]),
     ...(rec.search ? { search: rec.search } : {}),
     seconds: rec.seconds,
@@ -410,6 +417,7 @@ export async function writeCase(jobDir: string, rec: CaseRecord, hash = ''): Pro
     const energy = energyPicture(plan, rec.energy, isOneD(computed), picture.title);
     if (energy) put(CASE_FILES.energyPlot, energy);
     for (const [name, content] of spectrumFiles(map, rec.colour, rec.metrics.lineOrders, rec.metrics.linePairs, picture.title, picture.logDecades)) put(name, content);
+    if (rec.detector && rec.metrics.spectrometer) for (const [name, content] of detectorFiles(rec.detector, rec.metrics.spectrometer, picture.title)) put(name, content);
     (rec.lineMaps ?? []).forEach((l, i, all) => put(lineMapName(i, all.length, l.wavelength), encodeNpy(l.intensity, shape, plan.case.output.npy)));
     put(CASE_FILES.result, JSON.stringify(resultJson(rec, zoom !== null), jsonNumbers, 2) + '\n');
     const stored: StoredRecord = { ...summaryOf(rec), hash, tool: TOOL_VERSION, files };

@@ -3,6 +3,7 @@
 // that fits in memory and time, its sampling, the validity checks that can be made before
 // computing, a memory estimate, and the reasons for each choice in words. It never falls back to a
 // method whose own check fails: with nothing valid that fits, the case is refused with the reasons.
+import { withSpectrometer } from './spectrometer.js';
 import { isBinary } from '../elements/registry.js';
 import { warning } from '../warnings/catalogue.js';
 import { apertureFacts } from '../optics/aperture.js';
@@ -60,6 +61,10 @@ export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
 export const DEFAULT_MAX_WORK = 3600 * LIMITS.workPerSecond;
 
 export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
+  return withSpectrometer(planOwnCase(c, opts));
+}
+
+function planOwnCase(c: Case, opts: PlannerOptions): Plan {
   const maxMemory = opts.maxMemoryBytes ?? DEFAULT_MAX_MEMORY;
   const maxWork = opts.maxWork ?? DEFAULT_MAX_WORK;
   // Planes in sequence have a planner of their own (one method: the Fresnel integral plane to plane).

@@ -50,7 +50,9 @@ export function memberCase(c: Case, lam: number): Case {
   const { spectrum: _s, ...rest } = c;
   const element = elementOf(c.aperture);
   const aperture = element.atWavelength ? element.atWavelength(c.aperture as never, c.wavelength, lam) : c.aperture;
-  return { ...rest, wavelength: lam, aperture: aperture as Case['aperture'] };
+  // A spectrometer is the whole case's (its detector sums the lines): a line's own plan has none.
+  const { spectrometer: _d, ...analysis } = c.analysis;
+  return { ...rest, wavelength: lam, aperture: aperture as Case['aperture'], analysis };
 }
 
 /** Up to n lines spread over the list, first and last among them. */

@@ -4,6 +4,7 @@ import type { MethodRequest } from '../job/schema.js';
 import type { WarningCode } from '../warnings/catalogue.js';
 import type { SpectrumSource } from '../analysis/spectrum.js';
 import type { SpectrumPlan } from './spectrum.js';
+import type { SpectrometerSetup } from '../analysis/spectrometer.js';
 import type { CaseSource, FlatLight } from './curved-light.js';
 
 export type MethodName = 'angular-spectrum' | 'fresnel' | 'fraunhofer' | 'rayleigh-sommerfeld';
@@ -135,6 +136,8 @@ export interface CaseAnalysis {
   orderUse?: { from: number; to: number; order: number; light: [number, number] };
   /** Fractions whose passing pinhole diameter is wanted at a converging lens's focus (search.pinhole.passing). */
   pinholePassing?: number[];
+  /** The job's spectrometer: slit, lenses and detector around the grating (analysis/spectrometer.ts). */
+  spectrometer?: SpectrometerSetup;
 }
 
 export interface AxisPlan {

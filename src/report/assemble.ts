@@ -273,8 +273,8 @@ function reportTables(inp: ReportInputs): ReportTable[] {
     (r.record!.metrics.linePairs ?? []).map((p) => [
       r.record!.plan.case.id,
       p.order,
-      fmtLen(p.wavelengths[0]),
-      fmtLen(p.wavelengths[1]),
+      fmtWave(p.wavelengths[0]),
+      fmtWave(p.wavelengths[1]),
       p.dip === null ? 'too close to read' : `${trimNumber(100 * p.dip, 3)} %`,
       p.resolved ? 'yes' : 'no',
       p.resolvingPower === null ? null : fmtNum(p.resolvingPower, 4),
@@ -290,6 +290,7 @@ function reportTables(inp: ReportInputs): ReportTable[] {
       note: "Neighbouring lines closer than three resolution elements, read on the computed pattern in every order where both land: resolved by Rayleigh's criterion when the intensity between them dips to 8/π² ≈ 81 % of the lower peak or below (Born & Wolf §7.6.3); the textbook answer compares λ/Δλ with the resolving power |m|·N (Born & Wolf §8.6.3). line-pairs.csv has the positions.",
     });
   }
+  tables.push(...spectrometerTables(done.map((r) => r.record!)));
   const gratings = done.filter((r) => r.record!.metrics.orders);
   gratings.slice(0, GRATING_TABLES).forEach((r, i) => {
     const t = orderTable(r.record!);
@@ -316,6 +317,69 @@ function reportTables(inp: ReportInputs): ReportTable[] {
     });
   }
   return tables;
+}
+
+/** A wavelength to 6 significant digits (close lines differ in the fourth or fifth). */
+const fmtWave = (x: number) => formatLength(x, 6);
+
+/** The spectrometer's tables: the instrument at the detector's centre, each line on the detector, and close pairs on the pixels. */
+function spectrometerTables(records: CaseSummary[]): ReportTable[] {
+  const withOne = records.filter((r) => r.metrics.spectrometer);
+  if (!withOne.length) return [];
+  const nm = (x: number) => `${trimNumber(x * 1e9, 4)} nm`;
+  const deg = (x: number) => `${trimNumber((x * 180) / Math.PI, 5)}°`;
+  const out: ReportTable[] = [
+    {
+      title: 'Spectrometer',
+      header: ['case', 'camera at', 'nm per mm', 'per pixel', 'bandpass: slit', 'diffraction', '2 pixels', 'limited by', 'slit image', 'light on the detector'],
+      rows: withOne.map((r) => {
+        const s = r.metrics.spectrometer!;
+        return [r.plan.case.id, deg(s.cameraAngle), fmtNum(s.reciprocalDispersion * 1e6, 4), nm(s.perPixel), nm(s.bandpass.slit), nm(s.bandpass.diffraction), nm(s.bandpass.pixels), s.bandpass.largest, fmtLen(s.slitImage), pctCell(s.powerOnDetector)];
+      }),
+      note: `At the detector's centre: the reciprocal linear dispersion d·cos θ_c/(|m|·f_camera), per pixel; the bandpass of the slit w·d·cos θ_i/(|m|·f_collimator), of the grating λ/(|m|N) and of two pixels; the slit's geometric image w·(f_camera/f_collimator)·(cos θ_i/cos θ_c). ${withOne[0]!.metrics.spectrometer!.model} detector.csv and detector.png have the signal per pixel.`,
+    },
+    {
+      title: 'Lines on the detector',
+      header: ['case', 'λ', 'order', 'position', 'pixel', 'image FWHM', 'in pixels', 'slit image', 'diffraction FWHM', 'share of the line'],
+      rows: withOne.flatMap((r) =>
+        r.metrics.spectrometer!.lines.map((l) => [
+          r.plan.case.id,
+          fmtWave(l.wavelength),
+          l.order,
+          fmtLen(l.position),
+          fmtNum(l.pixel, 6),
+          l.imageFwhm === null ? 'runs off the detector' : fmtLen(l.imageFwhm),
+          l.imageFwhm === null ? null : fmtNum(l.imageFwhm / r.metrics.spectrometer!.setup.pixel, 3),
+          fmtLen(l.slitImage),
+          fmtLen(l.diffractionWidth),
+          pctCell(l.power),
+        ]),
+      ),
+      note: "Every line in every order that lands on the detector: where the grating equation and the camera (x = f·tan(θ − θ_c)) put it, measured from the detector's centre; the FWHM of its computed image before the pixels, beside the slit's geometric image and the grating's diffraction FWHM 0.886·λf/(W·cos θ); the share of the line's light on the grating that lands on the detector in this order.",
+    },
+  ];
+  const pairs = withOne.flatMap((r) =>
+    r.metrics.spectrometer!.pairs.map((p) => [
+      r.plan.case.id,
+      p.order,
+      fmtWave(p.wavelengths[0]),
+      fmtWave(p.wavelengths[1]),
+      fmtNum(Math.abs(p.pixels[1] - p.pixels[0]), 4),
+      nm(p.bandpass),
+      p.dip === null ? 'within two pixels' : `${trimNumber(100 * p.dip, 3)} %`,
+      p.resolved ? 'yes' : 'no',
+      p.sparrow ? 'yes' : 'no',
+    ]),
+  );
+  if (pairs.length) {
+    out.push({
+      title: 'Close lines on the detector: resolved?',
+      header: ['case', 'order', 'λ₁', 'λ₂', 'pixels apart', 'bandpass', 'dip on the pixels', 'Rayleigh', 'Sparrow'],
+      rows: pairs,
+      note: "Neighbouring lines closer than three bandpasses, read on the pixels' signal: the lowest pixel between the two maxima over the lower maximum; resolved by Rayleigh's criterion at 8/π² ≈ 81 % or below (Born & Wolf §7.6.3), by Sparrow's at any dip; lines within two pixels cannot be told apart on the detector.",
+    });
+  }
+  return out;
 }
 
 /** Grating cases given an order table in the report (the rest have their orders.csv). */

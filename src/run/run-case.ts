@@ -22,6 +22,7 @@ import { gratingUse, ordersWithAnswers } from '../analysis/grating-answers.js';
 import { runSpectrumCase } from './spectrum-case.js';
 import { twoPointReading } from '../analysis/two-points.js';
 import type { CaseContext } from './context.js';
+import { spectrometerPart } from '../metrics/spectrometer.js';
 
 export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'spectra'>): CaseRecord {
   if (plan.spectrum) return runSpectrumCase(plan, ctx);
@@ -71,8 +72,11 @@ export function runPlannedCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 'sp
   // Two incoherent points: the dip between their patterns (analysis/two-points.ts).
   const two = twoPointReading(plan, computed);
   if (two) metrics.twoPoints = two;
+  // The job's spectrometer: its detector, from the grating and the light (metrics/spectrometer.ts).
+  const spectrometer = spectrometerPart(plan, [{ wavelength: c.wavelength, weight: 1, aperture: c.aperture }]);
+  if (spectrometer) metrics.spectrometer = spectrometer.metrics;
   warnings.push(...postChecks(plan, d, grating), ...detectors.warnings);
-  return { plan, computed, metrics, energy, ...(mtf ? { mtf: mtf.curve } : {}), warnings, seconds: (performance.now() - t0) / 1000 };
+  return { plan, computed, metrics, energy, ...(mtf ? { mtf: mtf.curve } : {}), ...(spectrometer ? { detector: spectrometer.signal } : {}), warnings, seconds: (performance.now() - t0) / 1000 };
 }
 
 /** A grating's part of the metrics (its order table and checks), or null for other elements. */

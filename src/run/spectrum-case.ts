@@ -16,6 +16,7 @@ import { computeCase, type ComputedCase, type Diagnostics } from './compute.js';
 import type { CaseContext } from './context.js';
 import { gratingPart } from './run-case.js';
 import { gratingUse } from '../analysis/grating-answers.js';
+import { spectrometerPart } from '../metrics/spectrometer.js';
 
 /** The tristimulus values X, Y, Z per output sample: Σ weight·I_λ·[x̄, ȳ, z̄](λ). */
 export interface ColourMaps {
@@ -131,5 +132,8 @@ export function runSpectrumCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 's
     // to resolve.
     if (c.spectrum?.kind === 'lines') metrics.linePairs = linePairs(computed, lineOrders);
   }
-  return { plan, computed, metrics, energy, warnings, colour, ...(c.output.lineMaps ? { lineMaps } : {}), seconds: (performance.now() - t0) / 1000 };
+  // The job's spectrometer: every line on its detector (each line's element at its wavelength).
+  const spectrometer = spectrometerPart(plan, sp.members.map((m, i) => ({ wavelength: m.case.wavelength, weight: sp.lines[i]!.weight, aperture: m.case.aperture })));
+  if (spectrometer) metrics.spectrometer = spectrometer.metrics;
+  return { plan, computed, metrics, energy, warnings, colour, ...(c.output.lineMaps ? { lineMaps } : {}), ...(spectrometer ? { detector: spectrometer.signal } : {}), seconds: (performance.now() - t0) / 1000 };
 }

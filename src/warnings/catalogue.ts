@@ -176,6 +176,12 @@ export const WARNING_CATALOGUE = {
     message: (d) =>
       `the band is computed at ${d.samples} wavelengths ${nmStep(d.step)} apart; for the intensity anywhere on the grid to move by no more than half a fringe between them it would take ${d.needed}: where the light is dispersed the map shows the samples as separate lines rather than a continuous spread, and its values there are off; narrow the band or give more samples (spectrum.samples)`,
   }),
+  'detector-powers-scalar': entry<{ ratio: number; limit: number }>({
+    title: 'Detector powers from thin-grating theory where λ/d is large',
+    accuracy: true,
+    message: (d) =>
+      `λ/d reaches ${fmt(d.ratio, 3)} (above about ${fmt(d.limit, 2)}): where each line lands on the detector follows the grating equation exactly, but the power thin-grating scalar theory gives each order is unreliable there (the groove shape, depth and the light's polarisation decide it; a rigorous vector method is needed for the powers and the pixel values)`,
+  }),
   'near-wavelength': entry<{ cause: 'feature'; feature: number; ratio: number } | { cause: 'screen'; ratio: number }>({
     title: 'Feature or screen within a few wavelengths: scalar theory unreliable',
     accuracy: false,

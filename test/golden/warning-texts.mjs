@@ -111,6 +111,7 @@ const CASES = [
   ['pinhole detector half outside (2-D)', 'run', { distance: 0.1, aperture: circle(50 * um), window: [1 * mm, 1 * mm], analysis: { detectors: [{ kind: 'pinhole', size: 0.4 * mm, at: [0.5 * mm, 0] }] } }],
   ['detector beyond the planner window', 'run', { distance: 0.1, aperture: circle(50 * um), analysis: { detectors: [{ kind: 'pinhole', size: 0.1 * mm, at: [20 * mm, 3 * mm] }] } }],
   ['white light through a 100-slit grating in 31 samples', 'plan', { distance: 1, window: [1.2, 1.2], aperture: slits(100, 1 * um, 2 * um), spectrum: { kind: 'band', from: 400 * nm, to: 700 * nm, samples: 31 } }],
+  ['spectrometer with a 1.667 µm grating (λ/d 0.38)', 'plan', { wavelength: 633 * nm, distance: 2 * mm, aperture: slits(400, 0.8 * um, 1.667 * um), illumination: plane(10 * deg), analysis: { detectors: [], spectrometer: { slit: 10 * um, collimator: 0.2, camera: 0.2, pixel: 7 * um, pixels: 256, centre: { wavelength: 633 * nm, order: 1 } } } }],
   ['slit, planner window, unexpected loss', { powerIn: 1, powerInWindow: 0.8 }, { distance: 1, aperture: slit(100 * um) }],
   ['slit, planner window, loss as planned', { powerIn: 1, powerInWindow: 0.93 }, { distance: 1, aperture: slit(100 * um) }],
   ['disc, planner grid: excess, edge energy, band limit', { powerIn: 1, powerInWindow: 1.2, edgeEnergy: 0.05, bandLimitLoss: 0.03 }, { distance: 1 * mm, aperture: circle(200 * um), method: 'angular-spectrum' }],
