@@ -112,8 +112,14 @@ export interface SpectrometerResult {
 
 /** Samples of P per fringe λ/W of the array factor. */
 export const SAMPLES_PER_FRINGE = 16;
-/** Sub-slits whose incidence is taken as linear in u (the slit's mapping to sin α is not). */
+/**
+ * Sub-slits whose incidence is taken as even in sin α (the slit's mapping to sin α is not): at
+ * least 16, and enough that each spans at most 5 mrad (the density's change across one is then
+ * under 0.5 %·tan α), up to 1024.
+ */
 const SUB_SLITS = 16;
+const SUB_SLIT_ANGLE = 5e-3;
+const SUB_SLITS_MAX = 1024;
 /** Most samples of P one line may need (four arrays of doubles: 256 MiB). */
 export const DETECTOR_SAMPLES_MAX = 8_000_000;
 /** Above this λ/d thin-grating order powers are unreliable (scalar domain; Loewen & Popov, Diffraction Gratings and Applications, ch. 4, from memory). */
@@ -227,6 +233,12 @@ function dAt(r: Running, sigma: number): number {
   return r.D[i]! + r.h * f * (r.C[i]! + r.h * f * (a / 2 + f * (b / 6 + (f * c) / 12)));
 }
 
+/** How many sub-slits the slit is cut into (where it is wider than a sample of P). */
+export function subSlits(setup: SpectrometerSetup): number {
+  const span = 2 * Math.atan(setup.slit / 2 / setup.collimator);
+  return Math.min(SUB_SLITS_MAX, Math.max(SUB_SLITS, Math.ceil(span / SUB_SLIT_ANGLE)));
+}
+
 /** The slit as sub-slits: edges in sin α (from u = −w/2 to +w/2). */
 function slitEdges(setup: SpectrometerSetup, g: SpectrometerGrating, h: number): number[] {
   const alpha = Math.asin(g.sinIncidence);
@@ -234,8 +246,9 @@ function slitEdges(setup: SpectrometerSetup, g: SpectrometerGrating, h: number):
   const whole = Math.abs(at(setup.slit / 2) - at(-setup.slit / 2));
   // A slit narrower in sin α than a sample of P is a point (its average is its centre's value).
   if (whole <= h) return [at(0)];
+  const count = subSlits(setup);
   const edges: number[] = [];
-  for (let k = 0; k <= SUB_SLITS; k++) edges.push(at(-setup.slit / 2 + (k * setup.slit) / SUB_SLITS));
+  for (let k = 0; k <= count; k++) edges.push(at(-setup.slit / 2 + (k * setup.slit) / count));
   return edges;
 }
 

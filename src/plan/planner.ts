@@ -61,7 +61,7 @@ export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
 export const DEFAULT_MAX_WORK = 3600 * LIMITS.workPerSecond;
 
 export function planCase(c: Case, opts: PlannerOptions = {}): Plan {
-  return withSpectrometer(planOwnCase(c, opts));
+  return withSpectrometer(planOwnCase(c, opts), opts.maxWork ?? DEFAULT_MAX_WORK);
 }
 
 function planOwnCase(c: Case, opts: PlannerOptions): Plan {

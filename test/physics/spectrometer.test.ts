@@ -22,7 +22,7 @@ import { describe, expect, it } from 'vitest';
 import { anglePower, anglePowerOf, cameraAngle, spectrometerSignal, type SpectrometerGrating, type SpectrometerLine, type SpectrometerSetup } from '../../src/analysis/spectrometer.js';
 import { RAYLEIGH_DIP } from '../../src/analysis/resolution.js';
 import type { GratingProfile } from '../../src/optics/grating-profile.js';
-import { mm, nm, um } from '../helpers.js';
+import { mm, mulberry32, nm, um } from '../helpers.js';
 
 const binary = (duty: number): GratingProfile => ({ kind: 'binary-amplitude', duty });
 const deg = Math.PI / 180;
@@ -192,19 +192,49 @@ describe('the sodium doublet on the detector (589.0 / 589.6 nm, λ/Δλ ≈ 982)
   });
 });
 
-describe('the pixel integrals against brute-force quadrature (random cases, fixed seed)', () => {
-  // mulberry32, a small seeded generator (common practice).
-  function rng(seed: number) {
-    let a = seed >>> 0;
-    return () => {
-      a = (a + 0x6d2b79f5) >>> 0;
-      let t = a;
-      t = Math.imul(t ^ (t >>> 15), t | 1);
-      t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-      return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-    };
+/**
+ * Each pixel's signal by brute force: K slit points × Q points across each pixel, midpoint rule,
+ * the angular power evaluated directly at each (an incoherent sum over the slit, Born & Wolf §10.4;
+ * the pixel's integral of the power per unit length, ds/dx = cos θ/(f(1 + (x/f)²))).
+ */
+function bruteForce(setup: SpectrometerSetup, g: SpectrometerGrating, profile: GratingProfile, lam: number, K: number, Q: number): { brute: Float64Array; top: number } {
+  const betaC = cameraAngle(setup, g);
+  const alpha = Math.asin(g.sinIncidence);
+  const power = anglePowerOf(profile, g.period, g.count, lam);
+  let top = 0;
+  const brute = new Float64Array(setup.pixels);
+  for (let j = 0; j < setup.pixels; j++) {
+    let sum = 0;
+    for (let k = 0; k < K; k++) {
+      const u = -setup.slit / 2 + ((k + 0.5) * setup.slit) / K;
+      const sa = Math.sin(alpha - Math.atan(u / setup.collimator));
+      for (let q = 0; q < Q; q++) {
+        const x = (j - setup.pixels / 2 + (q + 0.5) / Q) * setup.pixel;
+        const b = betaC + Math.atan(x / setup.camera);
+        const dsdx = Math.cos(b) / setup.camera / (1 + (x / setup.camera) ** 2);
+        sum += power(Math.sin(b) - sa) * dsdx * (setup.pixel / Q);
+      }
+    }
+    brute[j] = sum / K;
+    top = Math.max(top, brute[j]!);
   }
-  const random = rng(20261203);
+  return { brute, top };
+}
+
+describe('a slit a tenth as wide as the collimator is long', () => {
+  it('is summed as the brute force sums it (its incidences are not even in sin θ)', () => {
+    // 3 mm at 30 mm and 30° incidence: sin(30° − atan(u/f)) bends by 1.5 % across the slit.
+    const lam = 600 * nm;
+    const setup: SpectrometerSetup = { slit: 3 * mm, collimator: 30 * mm, camera: 100 * mm, pixel: 400 * um, pixels: 40, centre: { wavelength: lam, order: 1 } };
+    const g: SpectrometerGrating = { period: 5 * um, count: 30, sinIncidence: 0.5 };
+    const r = spectrometerSignal(setup, g, [{ wavelength: lam, weight: 1, profile: binary(0.5) }]);
+    const { brute, top } = bruteForce(setup, g, binary(0.5), lam, 2048, 16);
+    for (let j = 0; j < setup.pixels; j++) expect(Math.abs(r.signal[j]! - brute[j]!)).toBeLessThan(0.005 * top);
+  });
+});
+
+describe('the pixel integrals against brute-force quadrature (random cases, fixed seed)', () => {
+  const random = mulberry32(20261203);
   const cases = Array.from({ length: 12 }, (_, i) => i);
 
   it.each(cases)('case %i: each pixel within 1/200 of the brightest pixel of its quadrature', () => {
@@ -226,29 +256,8 @@ describe('the pixel integrals against brute-force quadrature (random cases, fixe
     const profile: GratingProfile = random() < 0.5 ? binary(0.2 + 0.6 * random()) : { kind: 'sinusoidal-phase', modulation: 1 + 4 * random() };
     const g: SpectrometerGrating = { period: d, count, sinIncidence: sinI };
     const r = spectrometerSignal(setup, g, [{ wavelength: lam, weight: 1, profile }]);
-    // Brute force: 256 slit points × 32 points per pixel, midpoint rule, P evaluated directly.
-    const betaC = cameraAngle(setup, g);
-    const alpha = Math.asin(sinI);
-    const K = 256;
-    const Q = 32;
-    const power = anglePowerOf(profile, d, count, lam);
-    let top = 0;
-    const brute = new Float64Array(setup.pixels);
-    for (let j = 0; j < setup.pixels; j++) {
-      let sum = 0;
-      for (let k = 0; k < K; k++) {
-        const u = -setup.slit / 2 + ((k + 0.5) * setup.slit) / K;
-        const sa = Math.sin(alpha - Math.atan(u / setup.collimator));
-        for (let q = 0; q < Q; q++) {
-          const x = (j - setup.pixels / 2 + (q + 0.5) / Q) * setup.pixel;
-          const b = betaC + Math.atan(x / setup.camera);
-          const dsdx = (Math.cos(b) / setup.camera) / (1 + (x / setup.camera) ** 2);
-          sum += power(Math.sin(b) - sa) * dsdx * (setup.pixel / Q);
-        }
-      }
-      brute[j] = sum / K;
-      top = Math.max(top, brute[j]!);
-    }
+    // Brute force: 256 slit points × 32 points per pixel.
+    const { brute, top } = bruteForce(setup, g, profile, lam, 256, 32);
     for (let j = 0; j < setup.pixels; j++) expect(Math.abs(r.signal[j]! - brute[j]!)).toBeLessThan(0.005 * top);
   });
 });

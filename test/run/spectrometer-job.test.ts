@@ -49,6 +49,10 @@ describe('the spectrometer mapping', () => {
     // λ/d = 0.35 at 1.667 µm (above 0.2): the order powers are thin-grating theory's, unreliable.
     const steep = planCase(expandJob(parseJobText(JOB(GRATING.replace('3.333 um', '1.667 um'), SPECTROMETER)).spec)[0]!);
     expect(steep.warnings.filter((w) => w.code === 'detector-powers-scalar')).toHaveLength(1);
+    // The detector's work counts against the limit like a propagation's.
+    const c = expandJob(parseJobText(JOB(GRATING, SPECTROMETER.replace('pixels: 256', 'pixels: 100000'))).spec)[0]!;
+    // (A limit above the screen's and the 256-pixel detector's work, below 100 000 pixels'.)
+    expect(planCase(c, { maxWork: 1.2 * plan.work }).error).toMatch(/spectrometer: the detector needs about \d+ s of computing/);
   });
 });
 
