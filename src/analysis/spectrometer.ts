@@ -23,6 +23,7 @@
 // along the slit not followed (each pixel column is the whole slit height).
 import type { GratingProfile } from '../optics/grating-profile.js';
 import { periodTransformer } from '../optics/grating-transform.js';
+import { colourMatching } from './colour.js';
 import { readTwoLines, RAYLEIGH_DIP } from './resolution.js';
 
 export interface SpectrometerSetup {
@@ -102,6 +103,8 @@ export interface SpectrometerResult {
   positions: Float64Array;
   wavelengths: Float64Array;
   signal: Float64Array;
+  /** The signal's CIE 1931 tristimulus values per pixel, Σ weight·power·[x̄, ȳ, z̄](λ) (for the colour strip). */
+  xyz: { X: Float64Array; Y: Float64Array; Z: Float64Array };
   lines: DetectorLine[];
   pairs: DetectorPair[];
   /** The largest λ/d among the lines: above SCALAR_LIMIT the order powers are unreliable. */
@@ -319,6 +322,7 @@ export function spectrometerSignal(setup: SpectrometerSetup, g: SpectrometerGrat
     wavelengths[j] = Number.isNaN(s) ? NaN : ((s - g.sinIncidence) * g.period) / mc;
   }
   const signal = new Float64Array(n);
+  const xyz = { X: new Float64Array(n), Y: new Float64Array(n), Z: new Float64Array(n) };
   const [lo, hi] = directionRange(setup, g);
   const out: DetectorLine[] = [];
   let samples = 0;
@@ -334,11 +338,16 @@ export function spectrometerSignal(setup: SpectrometerSetup, g: SpectrometerGrat
     // A margin of two samples keeps every query inside the tabulated range.
     const r = runningIntegrals(line, g, lo - 2 * h, hi + 2 * h, h);
     const edges = slitEdges(setup, g, h);
+    const [xb, yb, zb] = colourMatching(line.wavelength);
     for (let j = 0; j < n; j++) {
       const sa = edgesS[j]!;
       const sb = edgesS[j + 1]!;
       if (Number.isNaN(sa) || Number.isNaN(sb)) continue;
-      signal[j] = signal[j]! + line.weight * bandPower(r, edges, sa, sb);
+      const v = line.weight * bandPower(r, edges, sa, sb);
+      signal[j] = signal[j]! + v;
+      xyz.X[j] = xyz.X[j]! + v * xb;
+      xyz.Y[j] = xyz.Y[j]! + v * yb;
+      xyz.Z[j] = xyz.Z[j]! + v * zb;
     }
     // The orders that land on the detector.
     const q = g.period / line.wavelength;
@@ -390,6 +399,7 @@ export function spectrometerSignal(setup: SpectrometerSetup, g: SpectrometerGrat
     positions,
     wavelengths,
     signal,
+    xyz,
     lines: out,
     pairs: detectorPairs(signal, out, setup, g),
     largestLambdaOverD,

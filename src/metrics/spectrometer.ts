@@ -33,6 +33,8 @@ export interface DetectorSignal {
   positions: Float64Array;
   wavelengths: Float64Array;
   signal: Float64Array;
+  /** CIE 1931 tristimulus values per pixel (detector-colour.png). */
+  xyz: { X: Float64Array; Y: Float64Array; Z: Float64Array };
 }
 
 /** One line of the case's light: its wavelength, share and the element at that wavelength. */
@@ -68,7 +70,7 @@ export function spectrometerPart(plan: Plan, lines: LineLight[]): { metrics: Spe
       lines: r.lines,
       pairs: r.pairs,
     },
-    signal: { positions: r.positions, wavelengths: r.wavelengths, signal: r.signal },
+    signal: { positions: r.positions, wavelengths: r.wavelengths, signal: r.signal, xyz: r.xyz },
   };
 }
 

@@ -3,12 +3,16 @@
 // pixel by pixel as steps, linear over its peak and in decades below it, so faint orders and wings
 // show beside the lines).
 import type { DetectorSignal, SpectrometerMetrics } from '../metrics/spectrometer.js';
+import { srgb8 } from '../analysis/colour.js';
 import { toCsv } from './csv.js';
-import { renderLinePlots, type LinePlotInput } from './line-plot.js';
+import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from './font.js';
+import { niceTicks, renderLinePlots, type LinePlotInput } from './line-plot.js';
+import { encodePng, fillRect, frame } from './raster.js';
 
 export const DETECTOR_FILES = {
   detectorTable: 'detector.csv',
   detectorPlot: 'detector.png',
+  detectorColour: 'detector-colour.png',
 } as const;
 
 /** Decades below the peak the log panel shows. */
@@ -97,12 +101,101 @@ export function hasDetectorPlot(d: DetectorSignal): boolean {
 /** Which of DETECTOR_FILES a case writes, as [key, file name] (for result.json's file list). */
 export function detectorFileEntries(d: DetectorSignal | undefined): [string, string][] {
   if (!d) return [];
-  return Object.entries(DETECTOR_FILES).filter(([k]) => k !== 'detectorPlot' || hasDetectorPlot(d));
+  return Object.entries(DETECTOR_FILES).filter(([k]) => k === 'detectorTable' || hasDetectorPlot(d));
 }
 
 /** The detector's files: [name, content]. */
 export function detectorFiles(d: DetectorSignal, m: SpectrometerMetrics, title: string): [string, string | Uint8Array][] {
   const out: [string, string | Uint8Array][] = [[DETECTOR_FILES.detectorTable, detectorCsv(d)]];
-  if (hasDetectorPlot(d)) out.push([DETECTOR_FILES.detectorPlot, renderDetectorPng(d, m, title)]);
+  if (hasDetectorPlot(d)) {
+    out.push([DETECTOR_FILES.detectorPlot, renderDetectorPng(d, m, title)]);
+    out.push([DETECTOR_FILES.detectorColour, renderDetectorColourPng(d, m, title)]);
+  }
   return out;
+}
+
+const STRIP_WIDTH = 1200;
+const STRIP_HEIGHT = 90;
+const STRIP_MARGIN = 16;
+const STRIP_DECADES = 4;
+const STRIP_BACKGROUND: Colour = [30, 30, 34];
+const STRIP_TEXT: Colour = [225, 225, 225];
+const STRIP_FRAME: Colour = [96, 96, 108];
+
+/**
+ * The detector as a colour camera would show it (detector-colour.png): each pixel's tristimulus
+ * values in sRGB (IEC 61966-2-1, white point D65; CIE 1931 2° observer), linear and over four
+ * decades below the brightest pixel, the centre order's wavelength marked beneath. Detectors of
+ * more than 1200 pixels are shown in columns of several pixels added together; narrower ones with
+ * each pixel several columns wide.
+ */
+export function renderDetectorColourPng(d: DetectorSignal, m: SpectrometerMetrics, title: string): Buffer {
+  const n = d.signal.length;
+  const bin = Math.max(1, Math.ceil(n / STRIP_WIDTH));
+  const cols = Math.ceil(n / bin);
+  const widen = Math.max(1, Math.floor(STRIP_WIDTH / cols));
+  const w = cols * widen;
+  const X = new Float64Array(cols);
+  const Y = new Float64Array(cols);
+  const Z = new Float64Array(cols);
+  for (let j = 0; j < n; j++) {
+    const c = Math.floor(j / bin);
+    X[c] = X[c]! + d.xyz.X[j]!;
+    Y[c] = Y[c]! + d.xyz.Y[j]!;
+    Z[c] = Z[c]! + d.xyz.Z[j]!;
+  }
+  let yMax = 0;
+  for (const v of Y) yMax = Math.max(yMax, v);
+  const axisH = CELL_H + 10;
+  const captionH = 2 * (CELL_H + 4);
+  const width = w + 2 * STRIP_MARGIN;
+  const height = STRIP_MARGIN + CELL_H + 10 + 2 * (CELL_H + 6 + STRIP_HEIGHT + axisH) + captionH + STRIP_MARGIN;
+  const img: RgbImage = { width, height, data: new Uint8Array(width * height * 3) };
+  fillRect(img, { x: 0, y: 0, w: width, h: height }, STRIP_BACKGROUND);
+  drawText(img, STRIP_MARGIN, STRIP_MARGIN, clipText(`${title}: the detector in colour`, width - 2 * STRIP_MARGIN), STRIP_TEXT);
+  const views: { label: string; brightness: (y: number) => number }[] = [
+    { label: 'linear: the brightest pixel at full scale', brightness: (y) => y / yMax },
+    { label: `brightness over ${STRIP_DECADES} decades below the brightest pixel`, brightness: (y) => (y > 0 ? Math.max(0, 1 + Math.log10(y / yMax) / STRIP_DECADES) : 0) },
+  ];
+  // The centre order's wavelength at a column's centre (nm), for the ticks.
+  const waveAt = (col: number) => {
+    const j = Math.min(n - 1, Math.max(0, Math.round((col + 0.5) * bin - 0.5)));
+    return d.wavelengths[j]! * 1e9;
+  };
+  let top = STRIP_MARGIN + CELL_H + 10;
+  for (const v of views) {
+    drawText(img, STRIP_MARGIN, top, v.label, STRIP_TEXT);
+    top += CELL_H + 6;
+    const x0 = STRIP_MARGIN;
+    for (let c = 0; c < cols; c++) {
+      const rgb = yMax > 0 && Y[c]! > 0 ? srgb8([X[c]!, Y[c]!, Z[c]!], v.brightness(Y[c]!)) : ([0, 0, 0] as [number, number, number]);
+      fillRect(img, { x: x0 + c * widen, y: top, w: widen, h: STRIP_HEIGHT }, rgb);
+    }
+    frame(img, { x: x0 - 1, y: top - 1, w: w + 2, h: STRIP_HEIGHT + 2 }, STRIP_FRAME);
+    top += STRIP_HEIGHT + 2;
+    // Wavelength ticks: where the centre order puts each round wavelength (the mapping is monotonic).
+    const a = waveAt(0);
+    const b = waveAt(cols - 1);
+    if (Number.isFinite(a) && Number.isFinite(b) && a !== b) {
+      for (const t of niceTicks(Math.min(a, b), Math.max(a, b), 10)) {
+        const col = ((t - a) / (b - a)) * (cols - 1);
+        const x = Math.round(x0 + (col + 0.5) * widen);
+        fillRect(img, { x, y: top, w: 1, h: 4 }, STRIP_TEXT);
+        const s = `${Number(t.toPrecision(6))}`;
+        const tx = Math.min(width - STRIP_MARGIN - textWidth(s), Math.max(STRIP_MARGIN, x - Math.floor(textWidth(s) / 2)));
+        drawText(img, tx, top + 5, s, STRIP_TEXT);
+      }
+    }
+    top += axisH;
+  }
+  drawText(img, STRIP_MARGIN, top, clipText(`wavelength in order ${m.setup.centre.order} (nm); ${n} pixels${bin > 1 ? `, ${bin} to a column` : ''}; each column holds the whole slit height`, width - 2 * STRIP_MARGIN), STRIP_TEXT);
+  drawText(img, STRIP_MARGIN, top + CELL_H + 4, 'sRGB (IEC 61966-2-1), white point D65; CIE 1931 2-degree observer', STRIP_TEXT);
+  return encodePng(img);
+}
+
+function clipText(s: string, room: number): string {
+  if (textWidth(s) <= room) return s;
+  let t = s;
+  while (t.length > 1 && textWidth(`${t}...`) > room) t = t.slice(0, -1);
+  return `${t}...`;
 }

@@ -7,6 +7,7 @@
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { PNG } from 'pngjs';
 import { afterAll, describe, expect, it } from 'vitest';
 import { expandJob } from '../../src/job/expand.js';
 import { parseJobText } from '../../src/job/load.js';
@@ -68,7 +69,21 @@ describe('a spectrometer case\'s files', () => {
     expect(outcome.done).toBe(1);
     const dir = join(work, 'bench', '1');
     const result = JSON.parse(await readFile(join(dir, 'result.json'), 'utf8'));
-    expect(result.files).toMatchObject({ detectorTable: 'detector.csv', detectorPlot: 'detector.png' });
+    expect(result.files).toMatchObject({ detectorTable: 'detector.csv', detectorPlot: 'detector.png', detectorColour: 'detector-colour.png' });
+    // The colour strip: its brightest pixel is the sodium lines' orange-yellow (589 nm: red above
+    // green, next to no blue; the CIE 1931 colour-matching functions give x ≈ 0.57, y ≈ 0.43 there).
+    const strip = PNG.sync.read(await readFile(join(dir, 'detector-colour.png')));
+    // (The most coloured pixel, so that the grey text does not count: the largest red less blue.)
+    let best = 0;
+    for (let i = 0; i < strip.width * strip.height; i++) {
+      const at = (k: number) => strip.data[4 * k]! - strip.data[4 * k + 2]!;
+      if (at(i) > at(best)) best = i;
+    }
+    const [R, G, B] = [strip.data[4 * best]!, strip.data[4 * best + 1]!, strip.data[4 * best + 2]!];
+    expect(R).toBe(255);
+    expect(G).toBeGreaterThan(100);
+    expect(G).toBeLessThan(R);
+    expect(B).toBeLessThan(40);
     const png = await readFile(join(dir, 'detector.png'));
     expect(png.subarray(1, 4).toString()).toBe('PNG');
     const rows = (await readFile(join(dir, 'detector.csv'), 'utf8')).trim().split('\n');
