@@ -10,7 +10,7 @@ import { metric, type MetricFamily } from './types.js';
 
 /** What the detector is computed with, in one paragraph (result.json, the report). */
 export const SPECTROMETER_MODEL =
-  'Entrance slit evenly lit and incoherent across its width, at the front focus of an aberration-free collimator; the grating lit by the collimated light over its whole width (its periods × period); thin-grating scalar theory, each slit point\'s plane wave diffracted exactly in direction cosines (sin θ = sin θ_i + mλ/d and the grating\'s full angular spectrum, no obliquity factor); an aberration-free camera lens large enough for every order that reaches the detector, x = f·tan(θ − θ_camera); each pixel integrates the light falling on its width, over the whole slit height. Signal: the fraction of all the light on the grating (every wavelength together) that reaches the pixel.';
+  'Entrance slit evenly lit and incoherent across its width, at the front focus of an aberration-free collimator; the grating lit by the collimated light over its whole width (its periods × period); thin-grating scalar theory, each slit point\'s plane wave diffracted exactly in direction cosines (sin θ = sin θ_i + mλ/d and the grating\'s full angular spectrum, no obliquity factor); an aberration-free camera lens large enough for every order that reaches the detector, x = f·tan(θ − θ_camera); each pixel integrates the light falling on its width, over the whole slit height; pixel values good to about 2e-4 of the brightest pixel. Signal: the fraction of all the light on the grating (every wavelength together) that reaches the pixel.';
 
 export interface SpectrometerMetrics {
   model: string;
@@ -25,6 +25,8 @@ export interface SpectrometerMetrics {
   /** Fraction of all the light on the grating that reaches the detector. */
   powerOnDetector: number;
   lines: DetectorLine[];
+  /** Orders that land but are not in `lines` (only each line's 40 brightest are listed). */
+  ordersNotListed: number;
   pairs: DetectorPair[];
 }
 
@@ -68,6 +70,7 @@ export function spectrometerPart(plan: Plan, lines: LineLight[]): { metrics: Spe
       slitImage: r.slitImage,
       powerOnDetector: power,
       lines: r.lines,
+      ordersNotListed: r.ordersNotListed,
       pairs: r.pairs,
     },
     signal: { positions: r.positions, wavelengths: r.wavelengths, signal: r.signal, xyz: r.xyz },
@@ -96,6 +99,6 @@ export const spectrometerMetrics: MetricFamily = {
       : [],
   definitions: {
     spectrometer:
-      'the job\'s spectrometer (slit, collimator, grating, camera, pixels): cameraAngle the camera axis\'s direction from the grating normal (rad); reciprocalDispersion d·cos θ_c/(|m|·f_camera) at the detector centre (m of wavelength per m), perPixel that times the pixel; bandpass: slit w·d·cos θ_i/(|m|·f_collimator), diffraction λ/(|m|·N), pixels 2 × perPixel, and which is largest; anamorphic cos θ_i/cos θ_c; slitImage the slit\'s geometric image w·(f_camera/f_collimator)·anamorphic; lines: every line in every order that lands on the detector, with its position (m from the centre), fractional pixel, power (fraction of that line\'s light on the grating), geometric slit image, diffraction FWHM 0.886·λ·f/(W·cos θ), the computed image\'s FWHM before the pixels, and the local reciprocal dispersion; pairs: neighbouring lines closer than three bandpasses, read on the pixel signal (dip = valley over the lower maximum; resolved by Rayleigh\'s 8/π², sparrow: any dip); the signal per pixel is detector.csv',
+      'the job\'s spectrometer (slit, collimator, grating, camera, pixels): cameraAngle the camera axis\'s direction from the grating normal (rad); reciprocalDispersion d·cos θ_c/(|m|·f_camera) at the detector centre (m of wavelength per m), perPixel that times the pixel; bandpass: slit w·d·cos θ_i/(|m|·f_collimator), diffraction λ/(|m|·N), pixels 2 × perPixel, and which is largest; anamorphic cos θ_i/cos θ_c; slitImage the slit\'s geometric image w·(f_camera/f_collimator)·anamorphic; lines: every line in every order that lands on the detector (the 40 brightest orders of each line; ordersNotListed counts the rest), with its position (m from the centre), fractional pixel, power (fraction of that line\'s light on the grating), geometric slit image, diffraction FWHM 0.886·λ·f/(W·cos θ), the computed image\'s FWHM before the pixels, and the local reciprocal dispersion; pairs: neighbouring lines closer than three bandpasses, read on the pixel signal (dip = valley over the lower maximum; resolved by Rayleigh\'s 8/π², sparrow: any dip); the signal per pixel is detector.csv',
   },
 };

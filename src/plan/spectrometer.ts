@@ -2,7 +2,7 @@
 // spectrometer.ts), so the plan says what it will compute, adds its work and memory, refuses a
 // detector the camera cannot be pointed at or one too wide to compute, and warns where thin-grating
 // theory's order powers are unreliable.
-import { cameraAngle, detectorSamples, SCALAR_LIMIT, subSlits, type SpectrometerGrating, type SpectrometerSetup } from '../analysis/spectrometer.js';
+import { cameraAngle, detectorSamples, PIXEL_ACCURACY, SAMPLES_PER_FRINGE, SCALAR_LIMIT, subSlits, type SpectrometerGrating, type SpectrometerSetup } from '../analysis/spectrometer.js';
 import { DETECTOR_SAMPLES_MAX } from '../analysis/spectrometer.js';
 import { gratingOf } from '../elements/registry.js';
 import { formatLength } from '../job/units.js';
@@ -15,7 +15,7 @@ import type { Plan } from './types.js';
 
 /**
  * Seconds per sample of the grating's angular power and per pixel and sub-slit (measured on this
- * machine class: 62 000 samples in 0.24 s, 100 000 pixels of 16 sub-slits in 1.06 s).
+ * machine class, with margin: 62 000 samples in 0.24 s, 100 000 pixels of 16 sub-slits in 1.06 s).
  */
 const SECONDS_PER_SAMPLE = 4e-6;
 const SECONDS_PER_PIXEL_SUB_SLIT = 7e-7;
@@ -48,7 +48,7 @@ export function withSpectrometer(plan: Plan, maxWork: number): Plan {
     const beta = cameraAngle(setup, grating);
     samples = Math.max(...wavelengths.map((w) => detectorSamples(setup, grating, w)));
     if (samples > DETECTOR_SAMPLES_MAX) {
-      error = `spectrometer: the detector spans about ${Math.round(samples / 16)} of the grating's resolution elements, more than ${DETECTOR_SAMPLES_MAX / 16} can be computed; use fewer pixels or a shorter camera`;
+      error = `spectrometer: the detector spans about ${Math.round(samples / SAMPLES_PER_FRINGE)} of the grating's resolution elements, more than ${DETECTOR_SAMPLES_MAX / SAMPLES_PER_FRINGE} can be computed; use fewer pixels or a shorter camera`;
     }
     const seconds = wavelengths.length * (samples * SECONDS_PER_SAMPLE + setup.pixels * subSlits(setup) * SECONDS_PER_PIXEL_SUB_SLIT);
     if (!error && seconds * LIMITS.workPerSecond > maxWork) {
@@ -56,7 +56,7 @@ export function withSpectrometer(plan: Plan, maxWork: number): Plan {
     }
     const reasons = [
       ...plan.reasons,
-      `Spectrometer: slit ${formatLength(setup.slit)}, collimator f = ${formatLength(setup.collimator)}, camera f = ${formatLength(setup.camera)} pointed at ${(beta * 180 / Math.PI).toFixed(3)}° (order ${setup.centre.order} of ${formatLength(setup.centre.wavelength)}), ${setup.pixels} pixels of ${formatLength(setup.pixel)}; each line's detector signal from the grating's exact angular spectrum at ${samples} directions (16 per fringe λ/W), about ${seconds < 0.1 ? '<0.1' : seconds.toFixed(1)} s.`,
+      `Spectrometer: slit ${formatLength(setup.slit)}, collimator f = ${formatLength(setup.collimator)}, camera f = ${formatLength(setup.camera)} pointed at ${(beta * 180 / Math.PI).toFixed(3)}° (order ${setup.centre.order} of ${formatLength(setup.centre.wavelength)}), ${setup.pixels} pixels of ${formatLength(setup.pixel)}; each line's detector signal from the grating's exact angular spectrum at ${samples} directions (${SAMPLES_PER_FRINGE} per fringe λ/W, pixel values to about ${PIXEL_ACCURACY} of the brightest), about ${seconds < 0.1 ? '<0.1' : seconds.toFixed(1)} s.`,
     ];
     const ratio = Math.max(...wavelengths.map((w) => w / grating.period));
     const warnings = ratio > SCALAR_LIMIT && !plan.warnings.some((w) => w.code === 'detector-powers-scalar') ? [...plan.warnings, warning('detector-powers-scalar', { ratio, limit: SCALAR_LIMIT })] : plan.warnings;

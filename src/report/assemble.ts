@@ -327,6 +327,7 @@ function spectrometerTables(records: CaseSummary[]): ReportTable[] {
   const withOne = records.filter((r) => r.metrics.spectrometer);
   if (!withOne.length) return [];
   const nm = (x: number) => `${trimNumber(x * 1e9, 4)} nm`;
+  const notListed = withOne.reduce((t, r) => t + r.metrics.spectrometer!.ordersNotListed, 0);
   const deg = (x: number) => `${trimNumber((x * 180) / Math.PI, 5)}°`;
   const out: ReportTable[] = [
     {
@@ -355,7 +356,7 @@ function spectrometerTables(records: CaseSummary[]): ReportTable[] {
           pctCell(l.power),
         ]),
       ),
-      note: "Every line in every order that lands on the detector: where the grating equation and the camera (x = f·tan(θ − θ_c)) put it, measured from the detector's centre; the FWHM of its computed image before the pixels, beside the slit's geometric image and the grating's diffraction FWHM 0.886·λf/(W·cos θ); the share of the line's light on the grating that lands on the detector in this order.",
+      note: `Every line in every order that lands on the detector (each line's 40 brightest): where the grating equation and the camera (x = f·tan(θ − θ_c)) put it, measured from the detector's centre; the FWHM of its computed image before the pixels, beside the slit's geometric image and the grating's diffraction FWHM 0.886·λf/(W·cos θ); the share of the line's light on the grating that lands on the detector in this order.${notListed ? ` ${notListed} dimmer orders also land on the detector and are not listed (detector.csv has all the light).` : ''}`,
     },
   ];
   const pairs = withOne.flatMap((r) =>

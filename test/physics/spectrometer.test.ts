@@ -19,7 +19,7 @@
 // - the pixel integrals against brute-force quadrature over the slit and the pixel (random cases,
 //   fixed seed).
 import { describe, expect, it } from 'vitest';
-import { anglePower, anglePowerOf, cameraAngle, spectrometerSignal, type SpectrometerGrating, type SpectrometerLine, type SpectrometerSetup } from '../../src/analysis/spectrometer.js';
+import { anglePower, anglePowerOf, cameraAngle, detectorSamples, PIXEL_ACCURACY, SAMPLES_PER_FRINGE, spectrometerSignal, type SpectrometerGrating, type SpectrometerLine, type SpectrometerSetup } from '../../src/analysis/spectrometer.js';
 import { RAYLEIGH_DIP } from '../../src/analysis/resolution.js';
 import type { GratingProfile } from '../../src/optics/grating-profile.js';
 import { mm, mulberry32, nm, um } from '../helpers.js';
@@ -259,5 +259,50 @@ describe('the pixel integrals against brute-force quadrature (random cases, fixe
     // Brute force: 256 slit points × 32 points per pixel.
     const { brute, top } = bruteForce(setup, g, profile, lam, 256, 32);
     for (let j = 0; j < setup.pixels; j++) expect(Math.abs(r.signal[j]! - brute[j]!)).toBeLessThan(0.005 * top);
+  });
+});
+
+describe('random setups across the schema\'s ranges (fixed seed)', () => {
+  // Log-uniform over wide ranges: wavelength 200 nm – 2 µm, period 1.05 λ – 1 mm, 1 – 200 000
+  // periods, slit 10 nm – 5 mm, focal lengths 1 mm – 10 m, pixels 0.1 µm – 1 mm, 2 – 20 000 of
+  // them, orders ±1…±3, incidence within ±46°. Setups the planner refuses (the order does not
+  // leave, or too many resolution elements) are drawn again.
+  const random = mulberry32(4242);
+  const logU = (a: number, b: number) => Math.exp(Math.log(a) + random() * (Math.log(b) - Math.log(a)));
+  it('conserve power, keep their stated pixel accuracy, and give no negative order power (where lines land is checked above and by brute force)', () => {
+    let checked = 0;
+    let orders = 0;
+    while (checked < 30) {
+      const lam = logU(200e-9, 2e-6);
+      const d = logU(lam * 1.05, 1e-3);
+      const count = Math.round(logU(1, 200000));
+      const setup: SpectrometerSetup = { slit: logU(1e-8, 5e-3), collimator: logU(1e-3, 10), camera: logU(1e-3, 10), pixel: logU(1e-7, 1e-3), pixels: Math.round(logU(2, 20000)), centre: { wavelength: lam * logU(0.9, 1.1), order: (random() < 0.5 ? -1 : 1) * Math.ceil(random() * 3) } };
+      const g: SpectrometerGrating = { period: d, count, sinIncidence: Math.sin((random() - 0.5) * 1.6) };
+      const profile: GratingProfile = random() < 0.5 ? binary(0.1 + 0.8 * random()) : { kind: 'blazed', depth: 2 * random() };
+      if (!(Math.abs(g.sinIncidence + (setup.centre.order * setup.centre.wavelength) / d) < 1)) continue;
+      if (detectorSamples(setup, g, lam) > 100_000) continue;
+      checked++;
+      const r = spectrometerSignal(setup, g, [{ wavelength: lam, weight: 1, profile }]);
+      let total = 0;
+      let top = 0;
+      for (const v of r.signal) {
+        expect(Number.isFinite(v) && v >= 0).toBe(true);
+        total += v;
+        top = Math.max(top, v);
+      }
+      // The stated accuracy (PIXEL_ACCURACY of the brightest pixel) against four times the samples.
+      const fine = spectrometerSignal(setup, g, [{ wavelength: lam, weight: 1, profile }], { samplesPerFringe: 4 * SAMPLES_PER_FRINGE });
+      for (let j = 0; j < setup.pixels; j++) expect(Math.abs(r.signal[j]! - fine.signal[j]!)).toBeLessThanOrEqual(PIXEL_ACCURACY * top);
+      // The fraction of the light on the grating that it passes: the open duty (binary), all (phase).
+      const passed = profile.kind === 'binary-amplitude' ? profile.duty : 1;
+      expect(total).toBeLessThanOrEqual(passed * (1 + 1e-6));
+      for (const l of r.lines) {
+        orders++;
+        expect(l.power).toBeGreaterThanOrEqual(0);
+        expect(l.power).toBeLessThanOrEqual(passed * (1 + 1e-6));
+      }
+    }
+    // (Orders must have landed in most of them, or the per-order checks tested little.)
+    expect(orders).toBeGreaterThan(15);
   });
 });
