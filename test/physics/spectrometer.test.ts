@@ -266,7 +266,7 @@ describe('random setups across the schema\'s ranges (fixed seed)', () => {
   // Log-uniform over wide ranges: wavelength 200 nm – 2 µm, period 1.05 λ – 1 mm, 1 – 200 000
   // periods, slit 10 nm – 5 mm, focal lengths 1 mm – 10 m, pixels 0.1 µm – 1 mm, 2 – 20 000 of
   // them, orders ±1…±3, incidence within ±46°. Setups the planner refuses (the order does not
-  // leave, or too many resolution elements) are drawn again.
+  // leave) and those needing over 100 000 samples (to keep the test fast) are drawn again.
   const random = mulberry32(4242);
   const logU = (a: number, b: number) => Math.exp(Math.log(a) + random() * (Math.log(b) - Math.log(a)));
   it('conserve power, keep their stated pixel accuracy, and give no negative order power (where lines land is checked above and by brute force)', () => {
