@@ -8,17 +8,22 @@ import { mappingError, positiveLength, WAVELENGTH } from './quantities.js';
 
 /** Orders the use range may name: |m| up to this (beyond it no grating is used in practice). */
 export const USE_ORDER_MAX = 100;
-const orderMsg = `expected a diffraction order: a whole number from -${USE_ORDER_MAX} to ${USE_ORDER_MAX}, not 0`;
+
+/** A dispersing diffraction order, |m| ≤ max and not 0, refused with `what` said. */
+export function dispersingOrder(what: string, max = USE_ORDER_MAX) {
+  const msg = `expected ${what}: a whole number from -${max} to ${max}, not 0`;
+  return z
+    .number({ error: msg })
+    .int({ error: msg })
+    .min(-max, { error: msg })
+    .max(max, { error: msg })
+    .refine((m) => m !== 0, { error: `${msg} (order 0 does not disperse)` });
+}
 
 const useShape = {
   from: positiveLength(WAVELENGTH),
   to: positiveLength(WAVELENGTH),
-  order: z
-    .number({ error: orderMsg })
-    .int({ error: orderMsg })
-    .min(-USE_ORDER_MAX, { error: orderMsg })
-    .max(USE_ORDER_MAX, { error: orderMsg })
-    .refine((m) => m !== 0, { error: `${orderMsg} (order 0 does not disperse)` }),
+  order: dispersingOrder('a diffraction order'),
 };
 export const ORDER_USE_KEYS = Object.keys(useShape);
 

@@ -3,6 +3,7 @@
 // in its focal plane. The detector's signal and the answers are computed per case by
 // analysis/spectrometer.ts; the job's screen at `distance` is computed as before, beside it.
 import { z } from 'zod';
+import { dispersingOrder } from './order-keys.js';
 import { mappingError, positiveLength, WAVELENGTH } from './quantities.js';
 
 /** Orders the camera may be pointed at: |m| up to this, not 0 (order 0 does not disperse). */
@@ -10,18 +11,12 @@ export const CAMERA_ORDER_MAX = 100;
 /** Pixels along the dispersion: up to this many (a long linear array has about 10⁴). */
 export const DETECTOR_PIXELS_MAX = 100_000;
 
-const orderMsg = `expected the order the camera is pointed at: a whole number from -${CAMERA_ORDER_MAX} to ${CAMERA_ORDER_MAX}, not 0`;
 const pixelsMsg = `expected the number of pixels along the dispersion: a whole number from 2 to ${DETECTOR_PIXELS_MAX}`;
 
 const centre = z.strictObject(
   {
     wavelength: positiveLength(WAVELENGTH),
-    order: z
-      .number({ error: orderMsg })
-      .int({ error: orderMsg })
-      .min(-CAMERA_ORDER_MAX, { error: orderMsg })
-      .max(CAMERA_ORDER_MAX, { error: orderMsg })
-      .refine((m) => m !== 0, { error: `${orderMsg} (order 0 does not disperse)` }),
+    order: dispersingOrder('the order the camera is pointed at', CAMERA_ORDER_MAX),
   },
   { error: mappingError("expected a mapping such as {wavelength: '589.3 nm', order: 1}: the wavelength and order at the detector's centre") },
 );

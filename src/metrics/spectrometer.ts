@@ -5,30 +5,20 @@
 import type { Aperture } from '../optics/aperture.js';
 import { spectrometerGratingOf, spectrometerInput } from '../plan/spectrometer.js';
 import type { Plan } from '../plan/types.js';
-import { spectrometerSignal, type DetectorLine, type DetectorPair, type SpectrometerSetup } from '../analysis/spectrometer.js';
+import { spectrometerSignal, type DetectorPair, type SpectrometerResult, type SpectrometerSetup } from '../analysis/spectrometer.js';
 import { metric, type MetricFamily } from './types.js';
 
 /** What the detector is computed with, in one paragraph (result.json, the report). */
 export const SPECTROMETER_MODEL =
   'Entrance slit evenly lit and incoherent across its width, at the front focus of an aberration-free collimator; the grating lit by the collimated light over its whole width (its periods × period); thin-grating scalar theory, each slit point\'s plane wave diffracted exactly in direction cosines (sin θ = sin θ_i + mλ/d and the grating\'s full angular spectrum, no obliquity factor); an aberration-free camera lens large enough for every order that reaches the detector, x = f·tan(θ − θ_camera); each pixel integrates the light falling on its width, over the whole slit height; pixel values good to about 2e-4 of the brightest pixel. Signal: the fraction of all the light on the grating (every wavelength together) that reaches the pixel.';
 
-export interface SpectrometerMetrics {
+/** The answers of analysis/spectrometer.ts without the per-pixel arrays, with the model and setup. */
+export type SpectrometerMetrics = Pick<SpectrometerResult, 'cameraAngle' | 'reciprocalDispersion' | 'perPixel' | 'bandpass' | 'anamorphic' | 'slitImage' | 'lines' | 'ordersNotListed' | 'pairs'> & {
   model: string;
   setup: SpectrometerSetup;
-  /** Direction of the camera's axis from the grating normal (rad). */
-  cameraAngle: number;
-  reciprocalDispersion: number;
-  perPixel: number;
-  bandpass: { slit: number; diffraction: number; pixels: number; largest: 'slit' | 'diffraction' | 'pixels' };
-  anamorphic: number;
-  slitImage: number;
   /** Fraction of all the light on the grating that reaches the detector. */
   powerOnDetector: number;
-  lines: DetectorLine[];
-  /** Orders that land but are not in `lines` (only each line's 40 brightest are listed). */
-  ordersNotListed: number;
-  pairs: DetectorPair[];
-}
+};
 
 /** The per-pixel arrays behind detector.csv and detector.png. */
 export interface DetectorSignal {
