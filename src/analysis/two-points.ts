@@ -29,14 +29,6 @@ export interface TwoPointResult {
   rayleighDip: number;
 }
 
-// The result.json field (metrics.twoPoints), declared here beside the reading that fills it.
-declare module '../output/case-output.js' {
-  interface CaseMetrics {
-    /** Two incoherent points: the dip between their patterns and Rayleigh's verdict (analysis/two-points.ts). */
-    twoPoints?: TwoPointResult;
-  }
-}
-
 /** Bilinear reading of a map between samples (0 outside). */
 function valueAt(m: Grid & { intensity: Float64Array }, x: number, y: number): number {
   const fc = (x - m.x0) / m.dx;

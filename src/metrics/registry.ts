@@ -13,6 +13,7 @@ import { spatialFilterMetrics } from './spatial-filter.js';
 import { strehlMetrics } from './strehl.js';
 import { mtfMetrics } from './mtf.js';
 import { spectrometerMetrics } from './spectrometer.js';
+import { twoPointMetrics } from './two-points.js';
 import type { MetricFamily, MetricScope, Quantity } from './types.js';
 import { verdictMetrics } from './verdicts.js';
 import { widthMetrics } from './widths.js';
@@ -31,6 +32,7 @@ export const METRICS: readonly MetricFamily[] = [
   spatialFilterMetrics,
   mtfMetrics,
   spectrometerMetrics,
+  twoPointMetrics,
   smallestSpotMetrics,
 ];
 

@@ -31,6 +31,7 @@ import { mtfCsv, renderMtfPng } from './mtf-files.js';
 import { lineMapName, spectrumFileEntries, spectrumFiles } from './spectrum-files.js';
 import { detectorFileEntries, detectorFiles } from './detector-files.js';
 import type { DetectorSignal, SpectrometerMetrics } from '../metrics/spectrometer.js';
+import type { TwoPointResult } from '../analysis/two-points.js';
 import { energyPicture, hasEnergyPicture, hasSearchPicture, profilePicture, searchPicture, zoomBoxOf, zoomPicture } from './extra-pictures.js';
 
 export interface CaseMetrics extends SpotMetrics {
@@ -86,6 +87,8 @@ export interface CaseMetrics extends SpotMetrics {
   linePairs?: LinePair[];
   /** The job's spectrometer: the detector's answers (metrics/spectrometer.ts; the signal is detector.csv). */
   spectrometer?: SpectrometerMetrics;
+  /** Two incoherent points: the dip between their patterns, Rayleigh's and Sparrow's verdicts (analysis/two-points.ts). */
+  twoPoints?: TwoPointResult;
 }
 
 export interface SpectrumMetrics {

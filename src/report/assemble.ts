@@ -277,6 +277,7 @@ function reportTables(inp: ReportInputs): ReportTable[] {
       fmtWave(p.wavelengths[1]),
       p.dip === null ? 'too close to read' : `${trimNumber(100 * p.dip, 3)} %`,
       p.resolved ? 'yes' : 'no',
+      p.sparrow ? 'yes' : 'no',
       p.resolvingPower === null ? null : fmtNum(p.resolvingPower, 4),
       fmtNum(p.needed, 4),
       p.expected === null ? null : p.expected ? 'yes' : 'no',
@@ -285,9 +286,9 @@ function reportTables(inp: ReportInputs): ReportTable[] {
   if (pairRows.length) {
     tables.push({
       title: 'Close lines: resolved?',
-      header: ['case', 'order', 'λ₁', 'λ₂', 'dip (valley / lower peak)', 'resolved on the pattern', 'R = |m|N', 'λ/Δλ', 'textbook: λ/Δλ ≤ R'],
+      header: ['case', 'order', 'λ₁', 'λ₂', 'dip (valley / lower peak)', 'resolved on the pattern (Rayleigh)', 'Sparrow', 'R = |m|N', 'λ/Δλ', 'textbook: λ/Δλ ≤ R'],
       rows: pairRows,
-      note: "Neighbouring lines closer than three resolution elements, read on the computed pattern in every order where both land: resolved by Rayleigh's criterion when the intensity between them dips to 8/π² ≈ 81 % of the lower peak or below (Born & Wolf §7.6.3); the textbook answer compares λ/Δλ with the resolving power |m|·N (Born & Wolf §8.6.3). line-pairs.csv has the positions.",
+      note: "Neighbouring lines closer than three resolution elements, read on the computed pattern in every order where both land: resolved by Rayleigh's criterion when the intensity between them dips to 8/π² ≈ 81 % of the lower peak or below (Born & Wolf §7.6.3), by Sparrow's when there is any dip at all; the textbook answer compares λ/Δλ with the resolving power |m|·N (Born & Wolf §8.6.3). line-pairs.csv has the positions.",
     });
   }
   tables.push(...spectrometerTables(done.map((r) => r.record!)));

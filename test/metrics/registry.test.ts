@@ -72,7 +72,7 @@ describe('the registry', () => {
   });
 
   it("gives result.json's definitions in the order they were written, and refuses a field defined twice", () => {
-    expect(Object.keys(metricDefinitions())).toEqual(['fwhm', 'e2Width', 'd4sigma', 'd4sigmaWindowChange', 'detectors', 'orders', 'evanescentFraction', 'planes', 'spatialFilter', 'mtf', 'spectrometer']);
+    expect(Object.keys(metricDefinitions())).toEqual(['fwhm', 'e2Width', 'd4sigma', 'd4sigmaWindowChange', 'detectors', 'orders', 'evanescentFraction', 'planes', 'spatialFilter', 'mtf', 'spectrometer', 'twoPoints']);
     const again: MetricFamily = { key: 'again', quantities: () => [], definitions: { fwhm: 'another width' } };
     expect(() => metricDefinitions([...METRICS, again])).toThrow(/fwhm given twice/);
   });

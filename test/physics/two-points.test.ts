@@ -2,6 +2,7 @@
 // infinity and at a distance, read off the computed map by analysis/two-points.ts.
 import besselj1 from '@stdlib/math-base-special-besselj1';
 import { describe, expect, it } from 'vitest';
+import { metricQuantities } from '../../src/metrics/registry.js';
 import { mm, nm, um } from '../helpers.js';
 import { run, sourceCase, valueAt } from './curved-light-helpers.js';
 
@@ -32,6 +33,12 @@ describe('two incoherent points through a circular pupil', () => {
     // pattern by (πN_F)²/12 ≈ 4e-6; the grids 0.25 % of the peak; reading between samples: 0.005.
     expect(Math.abs(t.dip! - RAYLEIGH_AIRY_DIP)).toBeLessThan(0.005);
     expect(t.resolved).toBe(true);
+    // summary.csv's columns read the same reading (metrics/two-points.ts).
+    const cols = metricQuantities({ cases: [rec.plan.case], records: [rec] });
+    const read = (h: string) => cols.find((q) => q.header === h)!.read(rec);
+    expect(read('two_point_dip')).toBe(t.dip);
+    expect(read('two_point_rayleigh')).toBe('resolved');
+    expect(read('two_point_sparrow')).toBe('resolved');
   });
 
   it('two points 0.5 m before the pinhole, 1.22λs/D apart: their patterns land δ·z/s apart, one Airy radius, and dip the same', () => {
