@@ -261,7 +261,11 @@ export function resultJson(rec: CaseRecord, zoomed?: boolean): Record<string, un
     parameters: {
       aperture: c.aperture,
       ...(c.planes ? { planes: c.planes } : {}),
-      illumination: c.illumination,
+      // With curved light `illumination` is the flat light standing in for it; the source is what
+      // the job gave.
+      ...(c.source ? { source: c.source, illuminationStandIn: c.illumination } : { illumination: c.illumination }),
+      ...(c.spectrum ? { spectrum: c.spectrum } : {}),
+      ...(c.analysis.spectrometer ? { spectrometer: c.analysis.spectrometer } : {}),
       methodRequested: c.method,
       window: c.window ?? null,
       grid: c.grid ?? null,

@@ -106,6 +106,9 @@ describe('a spectrometer case\'s files', () => {
     expect(s.pairs).toHaveLength(1);
     expect(s.pairs[0].resolved).toBe(true);
     expect(result.definitions.spectrometer).toMatch(/reciprocalDispersion/);
+    // The parameters say what the job gave: its spectrum and its spectrometer.
+    expect(result.parameters.spectrum.kind).toBe('lines');
+    expect(result.parameters.spectrometer).toMatchObject({ pixels: 256, centre: { order: 1 } });
     const summary = (await readFile(join(work, 'bench', 'summary.csv'), 'utf8')).split('\n')[0]!;
     expect(summary).toMatch(/detector_per_pixel,detector_bandpass,detector_power,detector_closest_pair_dip/);
   }, 60_000);
