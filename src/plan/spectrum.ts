@@ -223,7 +223,18 @@ export function planSpectrum<O extends object>(c: Case, planner: MemberPlanner<O
 
   let error: string | undefined;
   const maxWork = (planner.opts as { maxWork?: number }).maxWork ?? 3600 * LIMITS.workPerSecond; // (planner.ts DEFAULT_MAX_WORK)
-  const total = members.reduce((t, m) => t + m.work, 0);
+  // A shared source spectrum spares every line of its group but the first its forward transform:
+  // half of costFft's two transforms (plan/costs.ts).
+  const seen = new Set<string>();
+  let spared = 0;
+  for (const m of members) {
+    if (!m.sharedSpectrum) continue;
+    if (seen.has(m.sharedSpectrum.id)) {
+      const np = m.x.paddedSamples * (m.y ? m.y.paddedSamples : 1);
+      spared += 1.65 * np * Math.log2(np);
+    } else seen.add(m.sharedSpectrum.id);
+  }
+  const total = Math.max(0, members.reduce((t, m) => t + m.work, 0) - spared);
   if (failed?.error) error = `at ${wl(failed.case.wavelength)}: ${failed.error}`;
   else if (offGrid) error = `at ${wl(offGrid.lam)}: no method can deliver this wavelength's field onto the grid the other wavelengths share (${offGrid.why}); give the spectrum fewer or closer wavelengths, or compute the lines as a wavelength sweep`;
   else {

@@ -59,6 +59,11 @@ describe("a spectrum's lines share their source's spectrum", () => {
     const alone = planCase({ ...members[0]!.case }, { outputGrid: [plan.x.output, plan.y!.output] });
     expect(members[0]!.memoryBytes).toBe(alone.memoryBytes + kept);
     expect(plan.memoryBytes).toBe(Math.max(...members.map((m) => m.memoryBytes)) + 4 * 8 * plan.x.output.n * plan.y!.output.n);
+    // The work: the lines' own less the one forward transform spared, half of plan/costs.ts's two
+    // (1.65·N·log₂N of the 3.3·N·log₂N).
+    const np = members[1]!.x.paddedSamples * members[1]!.y!.paddedSamples;
+    const own = members.reduce((t, m) => t + m.work, 0);
+    expect(plan.work).toBeCloseTo(own - 1.65 * np * Math.log2(np), 0);
   });
 
   it('the shared case equals the unshared one bit for bit (sum, colour maps, diagnostics), and lets the kept spectrum go', () => {
