@@ -11,7 +11,7 @@ import { meanWavelength, ownSamples, spectrumLines, spectrumRange, spectrumWords
 import { elementOf, isBinary } from '../elements/registry.js';
 import { descriptorOf } from '../methods/registry.js';
 import type { Axis } from '../optics/field.js';
-import { warning } from '../warnings/catalogue.js';
+import { firstOfEachCode, warning } from '../warnings/catalogue.js';
 import { OffGridError, type OutputGrid } from './geometry.js';
 import { LIMITS } from './limits.js';
 import { shareSourceSpectra } from './share.js';
@@ -130,16 +130,7 @@ function wavelengthStep(scouts: Plan[], grid: OutputGrid): number {
 
 /** The first warning of each code among the members', in order. */
 function memberWarnings(members: Plan[]): Warning[] {
-  const seen = new Set<string>();
-  const out: Warning[] = [];
-  for (const m of members) {
-    for (const w of m.warnings) {
-      if (seen.has(w.code)) continue;
-      seen.add(w.code);
-      out.push(w);
-    }
-  }
-  return out;
+  return firstOfEachCode(...members.map((m) => m.warnings));
 }
 
 /**

@@ -16,6 +16,7 @@ import { computeCase, type ComputedCase, type Diagnostics } from './compute.js';
 import type { CaseContext } from './context.js';
 import { gratingPart } from './run-case.js';
 import { gratingUse } from '../analysis/grating-answers.js';
+import { firstOfEachCode } from '../warnings/catalogue.js';
 import { spectrometerPart } from '../metrics/spectrometer.js';
 
 /** The tristimulus values X, Y, Z per output sample: Σ weight·I_λ·[x̄, ȳ, z̄](λ). */
@@ -88,11 +89,9 @@ export function runSpectrumCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 's
   const t0 = performance.now();
   const sp = plan.spectrum!;
   const c = plan.case;
-  const warnings: Warning[] = [...plan.warnings];
-  const seen = new Set(warnings.map((w) => w.code));
-  const add = (ws: Warning[]) => {
-    for (const w of ws) if (!seen.has(w.code)) (seen.add(w.code), warnings.push(w));
-  };
+  // Each line's warnings after the plan's, each code once (catalogue.ts firstOfEachCode).
+  const found: Warning[][] = [];
+  const add = (ws: Warning[]) => found.push(ws);
   const lineOrders: LineOrders[] = [];
   const lineMaps: LineMap[] = [];
   const { computed, colour } = computeSpectrum(plan, ctx, (member, weight, m) => {
@@ -135,5 +134,6 @@ export function runSpectrumCase(plan: Plan, ctx: Pick<CaseContext, 'engine' | 's
   // The job's spectrometer: every line on its detector (each line's element at its wavelength).
   const spectrometer = spectrometerPart(plan, sp.members.map((m, i) => ({ wavelength: m.case.wavelength, weight: sp.lines[i]!.weight, aperture: m.case.aperture })));
   if (spectrometer) metrics.spectrometer = spectrometer.metrics;
+  const warnings = firstOfEachCode(plan.warnings, ...found);
   return { plan, computed, metrics, energy, warnings, colour, ...(c.output.lineMaps ? { lineMaps } : {}), ...(spectrometer ? { detector: spectrometer.signal } : {}), seconds: (performance.now() - t0) / 1000 };
 }

@@ -473,3 +473,17 @@ export function warningTitle(code: WarningCode): string {
 export function isAccuracyWarning(code: string): boolean {
   return Object.hasOwn(WARNING_CATALOGUE, code) && WARNING_CATALOGUE[code as WarningCode].accuracy;
 }
+
+/** The first warning of each code among the lists, in order: a case made of several (a spectrum's lines) says each once. */
+export function firstOfEachCode(...lists: readonly (readonly Warning[])[]): Warning[] {
+  const seen = new Set<string>();
+  const out: Warning[] = [];
+  for (const list of lists) {
+    for (const w of list) {
+      if (seen.has(w.code)) continue;
+      seen.add(w.code);
+      out.push(w);
+    }
+  }
+  return out;
+}
