@@ -170,8 +170,11 @@ describe('smallest-spot search', () => {
 describe('overlapping orders', () => {
   it('flags order 3 of 400 nm and order 2 of 600 nm (equal mλ), not orders 1 of both', () => {
     const d = 20 * um;
+    // A 2 m window holds orders 1 to 3 of 400 nm and 1 to 2 of 600 nm (the overlap at 0.60 m): the
+    // planner's own window would hold every order out to grazing, ±70 m and 2·10⁵ samples, 15 s a case,
+    // and the overlap is read from the same order positions either way.
     const sets: OrderSet[] = [400 * nm, 600 * nm].map((wl) => {
-      const { rec } = runCase({ wavelength: wl, distance: 10, aperture: { shape: 'slits', count: 40, width: 0.4 * d, period: d, opaque: false } });
+      const { rec } = runCase({ wavelength: wl, distance: 10, window: [2, 2], aperture: { shape: 'slits', count: 40, width: 0.4 * d, period: d, opaque: false } });
       return { caseId: String(wl), wavelength: wl, distance: 10, count: 40, period: d, group: 'g', orders: rec.metrics.orders! };
     });
     const o = orderOverlaps(sets);

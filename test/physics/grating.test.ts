@@ -1,10 +1,21 @@
 // Binary amplitude gratings (`slits`) in the far field, against the grating equation and the
 // published order efficiencies.
 import { describe, expect, it } from 'vitest';
-import { nm, runCase, um } from '../helpers.js';
+import { planCase } from '../../src/plan/planner.js';
+import { makeCase, nm, runCase, um } from '../helpers.js';
 
 const lam = 633 * nm;
 const d = 20 * um;
+
+// Left to itself the planner holds every propagating order (|m| ≤ 31 here) out to grazing, a window
+// of ±72 m at 10 m and 1.4·10⁵ output samples: about 20 s a case. The checks below read orders up to
+// |m| = 5 (at 1.6 m), so most cases give a window of 4.4 m (orders up to ±6, at 1.93 m, inside): the
+// planner still picks its own pitch and output step for it, and each order's power is integrated
+// over the same interval (midpoints to its neighbours), so the values checked are those of the full
+// window. The orders beyond are then warned as outside (orders-outside), which is what a job's
+// narrow window should get.
+const orderWindow: [number, number] = [4.4, 4.4];
+const binary = { shape: 'slits' as const, count: 40, width: d / 2, period: d, opaque: false };
 
 function peakNear(c: { intensity: Float64Array; nx: number }, x: (i: number) => number, x0: number, halfSpan: number): number {
   let best = -1;
@@ -17,20 +28,26 @@ function peakNear(c: { intensity: Float64Array; nx: number }, x: (i: number) => 
   return x(best) + (den === 0 ? 0 : (0.5 * (a - e)) / den) * (x(best + 1) - x(best));
 }
 
+// The normal-incidence case, run once: read by the first block and by the finite-length lines' one.
+const normal = runCase({ wavelength: lam, distance: 10, window: orderWindow, aperture: binary });
+
 describe('50 % duty binary grating, normal incidence', () => {
-  const { plan, rec, c, x } = runCase({
-    wavelength: lam,
-    distance: 10,
-    aperture: { shape: 'slits', count: 40, width: d / 2, period: d, opaque: false },
-  });
+  const { plan, rec, c, x } = normal;
   const orders = rec.metrics.orders!;
   const order = (m: number) => orders.find((o) => o.m === m)!;
 
   it('is a far-field 1-D case', () => {
+    // The plan the grating gets with no window given (planned only: the plan is cheap, the run is not).
+    const own = planCase(makeCase({ wavelength: lam, distance: 10, aperture: binary }));
+    expect(own.regime).toBe('far-field');
+    expect(own.method).toBe('fraunhofer');
+    expect(own.layout).toBe('one-d');
+    expect(own.warnings).toEqual([]);
+    // The run in the narrower window: the same method, and nothing warned but the orders beyond it.
     expect(plan.regime).toBe('far-field');
     expect(plan.method).toBe('fraunhofer');
     expect(plan.layout).toBe('one-d');
-    expect(rec.warnings).toEqual([]);
+    expect(rec.warnings.map((w) => w.code)).toEqual(['orders-outside']);
   });
 
   // Goodman, Introduction to Fourier Optics, §4.4 (amplitude grating) and its square-wave form:
@@ -66,6 +83,7 @@ describe('50 % duty binary grating, normal incidence', () => {
 });
 
 describe('grating under oblique incidence', () => {
+  // The planner's own window here (the one full-window case of this file): Parseval needs every order.
   const tilt = (10 * Math.PI) / 180;
   const z = 10;
   const { rec, c, x } = runCase({
@@ -93,8 +111,9 @@ describe('orders of equal mλ overlap', () => {
   // The grating equation depends on mλ only (common practice: the free spectral range problem).
   // 40 % duty, so that neither order 2 nor order 3 is a missing order.
   it('puts order 3 of 400 nm and order 2 of 600 nm at the same computed peak', () => {
+    // Both orders land at 0.60 m: a 2 m window holds them (see orderWindow above).
     const run = (wl: number) =>
-      runCase({ wavelength: wl, distance: 10, aperture: { shape: 'slits', count: 40, width: 0.4 * d, period: d, opaque: false } });
+      runCase({ wavelength: wl, distance: 10, window: [2, 2], aperture: { shape: 'slits', count: 40, width: 0.4 * d, period: d, opaque: false } });
     const a = run(400 * nm);
     const b = run(600 * nm);
     const xm = 10 * Math.tan(Math.asin((1200 * nm) / d));
@@ -106,9 +125,10 @@ describe('orders of equal mλ overlap', () => {
 
 describe('a grating of finite-length lines (separable 2-D)', () => {
   it('has the order efficiencies of the infinitely long one, less what falls outside the window (3 % budget)', () => {
-    const aperture = { shape: 'slits' as const, count: 40, width: d / 2, period: d, opaque: false };
-    const long = runCase({ wavelength: lam, distance: 10, aperture });
-    const short = runCase({ wavelength: lam, distance: 10, aperture: { ...aperture, length: 0.5e-3 } });
+    // The infinitely long lines are the normal-incidence case above (orders 0, ±1, 3 integrated over
+    // the same intervals as in a full window); the short ones in the planner's own window.
+    const long = normal;
+    const short = runCase({ wavelength: lam, distance: 10, aperture: { ...binary, length: 0.5e-3 } });
     expect(short.plan.layout).toBe('separable');
     for (const m of [0, 1, -1, 3]) {
       const a = long.rec.metrics.orders!.find((o) => o.m === m)!.fractionOfIncident!;

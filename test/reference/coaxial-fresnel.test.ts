@@ -71,7 +71,10 @@ describe('the coaxial Fresnel reference against closed forms', () => {
     const lam = 633e-9;
     const a = 1e-3;
     const w = 2e-3;
-    const z1 = 0.2;
+    // z₁ = 0.8 m (ζ = 0.04): the same kind of beam at the disc as at 0.2 m (ζ = 0.01), but the
+    // first plane's chirp over its 12 mm is a quarter as fast, so the nested sums take 4·10⁶ J₀
+    // evaluations instead of 4·10⁷ (coaxialCost), with the same 1e-8 asked.
+    const z1 = 0.8;
     for (const z2 of [0.02, 0.15]) {
       const zeta = z1 / ((Math.PI * w * w) / lam);
       const d = w * w * (1 + zeta * zeta);
