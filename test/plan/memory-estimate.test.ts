@@ -5,9 +5,10 @@
 // kernel) must stay within plan.memoryBytes. The cases are small enough to take about a second each
 // and large enough (tens to hundreds of MB) to stand above the noise of the runtime's own heap.
 // Also: sizes no array can hold are refused before anything is allocated, and hostile sizes are
-// planned promptly. The build runs once in beforeAll; SPOTCAST_TEST_NO_BUILD=1 uses an existing dist/.
+// planned promptly. dist/ is built in beforeAll when older than the sources (test/build-if-stale.ts);
+// SPOTCAST_TEST_NO_BUILD=1 uses an existing dist/ as it is.
 import { testContext } from '../engine.js';
-import { execFile, execFileSync } from 'node:child_process';
+import { execFile } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -17,13 +18,14 @@ import type { CaseSpec } from '../helpers.js';
 import { makeCase, mm, nm, um } from '../helpers.js';
 import { planCase } from '../../src/plan/planner.js';
 import { runPlannedCase } from '../../src/run/run-case.js';
+import { buildIfStale } from '../build-if-stale.js';
 
 const repo = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const script = join(repo, 'test', 'plan', 'measure-case.mjs');
 const run = promisify(execFile);
 
 beforeAll(() => {
-  if (process.env.SPOTCAST_TEST_NO_BUILD !== '1') execFileSync('npm', ['run', 'build'], { cwd: repo, stdio: 'pipe' });
+  buildIfStale(repo);
   if (!existsSync(join(repo, 'dist', 'src', 'plan', 'planner.js'))) throw new Error('dist/ is missing: run npm run build');
 });
 
