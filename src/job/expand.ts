@@ -9,6 +9,8 @@ import type { JobSpec, SweepValues } from './schema.js';
 import { lengthToken } from './units.js';
 import { DEFAULT_BAND_SAMPLES, meanWavelength, spectrumLines, spectrumRange, type SpectrumSource } from '../analysis/spectrum.js';
 import { flatIllumination, type CaseSource } from '../plan/curved-light.js';
+import type { SpectrometerSetup } from '../analysis/spectrometer.js';
+import { SPECTROMETER_SWEEPS } from './spectrometer-keys.js';
 
 export const MAX_CASES = 1_000_000;
 
@@ -58,6 +60,7 @@ export function sweepAxes(job: JobSpec): SweepAxis[] {
   if (job.illumination.kind === 'gaussian' && job.illumination.waist_distance) add('illumination.waist_distance', job.illumination.waist_distance);
   if (job.illumination.kind === 'point' || job.illumination.kind === 'extended') add('illumination.distance', job.illumination.distance);
   if (job.illumination.kind === 'points' && job.illumination.distance) add('illumination.distance', job.illumination.distance);
+  if (job.spectrometer) for (const [k, token] of Object.entries(SPECTROMETER_SWEEPS)) add(`spectrometer.${k}`, job.spectrometer[k as keyof typeof SPECTROMETER_SWEEPS], 'm', token);
   add('distance', job.distance);
   return axes;
 }
@@ -92,7 +95,6 @@ export function expandJob(job: JobSpec): Case[] {
     ...(job.orders?.focal_length ? { focalLength: job.orders.focal_length } : {}),
     ...(job.orders?.use ? { orderUse: { ...job.orders.use, light: useLight(spectrum ? spectrumRange(spectrum) : job.wavelength!.values, job.orders.use) } } : {}),
     ...(job.search?.pinhole ? { pinholePassing: job.search.pinhole.passing } : {}),
-    ...(job.spectrometer ? { spectrometer: job.spectrometer } : {}),
   };
   const cases: Case[] = [];
   const idx = new Array<number>(axes.length).fill(0);
@@ -124,7 +126,7 @@ export function expandJob(job: JobSpec): Case[] {
       method: job.method,
       swept: sweptValues,
       output: job.output,
-      analysis,
+      analysis: job.spectrometer ? { ...analysis, spectrometer: spectrometerOf(job.spectrometer, value) } : analysis,
     });
     // Odometer increment, last axis fastest.
     for (let i = axes.length - 1; i >= 0; i--) {
@@ -134,6 +136,18 @@ export function expandJob(job: JobSpec): Case[] {
     }
   }
   return cases;
+}
+
+/** One case's spectrometer: its swept lengths at this case's values. */
+function spectrometerOf(s: NonNullable<JobSpec['spectrometer']>, value: (key: string) => number): SpectrometerSetup {
+  return {
+    slit: value('spectrometer.slit'),
+    collimator: value('spectrometer.collimator'),
+    camera: value('spectrometer.camera'),
+    pixel: value('spectrometer.pixel'),
+    pixels: s.pixels,
+    centre: s.centre,
+  };
 }
 
 function resolveAperture(job: JobSpec, value: (key: string) => number, context: ResolveContext): Aperture {

@@ -4,7 +4,7 @@
 // analysis/spectrometer.ts; the job's screen at `distance` is computed as before, beside it.
 import { z } from 'zod';
 import { dispersingOrder } from './order-keys.js';
-import { mappingError, positiveLength, WAVELENGTH } from './quantities.js';
+import { mappingError, positiveLength, sweepLength, WAVELENGTH } from './quantities.js';
 
 /** Orders the camera may be pointed at: |m| up to this, not 0 (order 0 does not disperse). */
 export const CAMERA_ORDER_MAX = 100;
@@ -23,14 +23,14 @@ const centre = z.strictObject(
 
 export const spectrometerSchema = z.strictObject(
   {
-    /** The entrance slit's width. */
-    slit: positiveLength(),
+    /** The entrance slit's width (sweepable, as the three lengths below: which slit resolves the lines?). */
+    slit: sweepLength(),
     /** The collimator lens's focal length (the slit is at its front focus). */
-    collimator: positiveLength(),
+    collimator: sweepLength(),
     /** The camera lens's focal length (the detector is at its back focus). */
-    camera: positiveLength(),
+    camera: sweepLength(),
     /** The detector's pixel pitch along the dispersion. */
-    pixel: positiveLength(),
+    pixel: sweepLength(),
     pixels: z.number({ error: pixelsMsg }).int({ error: pixelsMsg }).min(2, { error: pixelsMsg }).max(DETECTOR_PIXELS_MAX, { error: pixelsMsg }),
     /** The camera's axis: where this wavelength leaves in this order. */
     centre,
@@ -42,3 +42,6 @@ export type SpectrometerJob = z.output<typeof spectrometerSchema>;
 
 /** The keys whose values are lengths (for schema.ts's unit table). */
 export const SPECTROMETER_LENGTH_KEYS = ['slit', 'collimator', 'camera', 'pixel', 'centre.wavelength'] as const;
+
+/** The sweepable keys and their tokens in case folder names. */
+export const SPECTROMETER_SWEEPS = { slit: 'slit', collimator: 'fcol', camera: 'fcam', pixel: 'px' } as const;

@@ -96,6 +96,10 @@ const LABELS: Record<string, string> = {
   'aperture.count': 'slit count',
   'aperture.period': 'period',
   'illumination.waist': 'beam waist',
+  'spectrometer.slit': 'entrance slit',
+  'spectrometer.collimator': 'collimator focal length',
+  'spectrometer.camera': 'camera focal length',
+  'spectrometer.pixel': 'pixel pitch',
 };
 
 export function sweptLabel(a: { key: string; unit: 'm' | '1' }, value: number): string {

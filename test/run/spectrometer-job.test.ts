@@ -13,6 +13,7 @@ import { expandJob } from '../../src/job/expand.js';
 import { parseJobText } from '../../src/job/load.js';
 import { planCase } from '../../src/plan/planner.js';
 import { runJob } from '../../src/run/run-job.js';
+import { spectrometerPart } from '../../src/metrics/spectrometer.js';
 import { loadProblems } from '../helpers.js';
 
 const SPECTROMETER = "spectrometer: {slit: '10 um', collimator: '200 mm', camera: '200 mm', pixel: '7 um', pixels: 256, centre: {wavelength: '589.3 nm', order: 1}}\n";
@@ -54,6 +55,30 @@ describe('the spectrometer mapping', () => {
     const c = expandJob(parseJobText(JOB(GRATING, SPECTROMETER.replace('pixels: 256', 'pixels: 100000'))).spec)[0]!;
     // (A limit above the screen's and the 256-pixel detector's work, below 100 000 pixels'.)
     expect(planCase(c, { maxWork: 1.2 * plan.work }).error).toMatch(/spectrometer: the detector needs about \d+ s of computing/);
+  });
+});
+
+describe('a sweep of the spectrometer\'s lengths', () => {
+  it('makes a case per value, named by its token, each with its own setup', () => {
+    const cases = expandJob(parseJobText(JOB(GRATING, SPECTROMETER.replace("slit: '10 um'", "slit: ['10 um', '120 um']").replace("pixel: '7 um'", "pixel: ['7 um', '14 um']"))).spec);
+    expect(cases.map((c) => c.id)).toEqual(['1_slit-10um_px-7um', '2_slit-10um_px-14um', '3_slit-120um_px-7um', '4_slit-120um_px-14um']);
+    expect(cases.map((c) => [c.analysis.spectrometer!.slit, c.analysis.spectrometer!.pixel].map((v) => Math.round(v * 1e7) / 10))).toEqual([[10, 7], [10, 14], [120, 7], [120, 14]]);
+    expect(cases.every((c) => c.analysis.spectrometer!.pixels === 256 && c.analysis.spectrometer!.centre.order === 1)).toBe(true);
+  });
+
+  it('answers which slit resolves the doublet: its bandpass w·d·cos θ_i/(m·f) against 0.6 nm (Palmer ch. 2, from memory)', () => {
+    const cases = expandJob(parseJobText(JOB(GRATING, SPECTROMETER.replace("slit: '10 um'", "slit: ['10 um', '120 um']"))).spec);
+    const pairs = cases.map((c) => {
+      const plan = planCase(c);
+      const part = spectrometerPart(plan, plan.spectrum!.members.map((m, i) => ({ wavelength: m.case.wavelength, weight: plan.spectrum!.lines[i]!.weight, aperture: m.case.aperture })))!;
+      return part.metrics;
+    });
+    // 10 µm: a slit bandpass of 0.16 nm; 120 µm: 1.97 nm, over three times the separation.
+    expect(pairs[0]!.bandpass.slit * 1e9).toBeCloseTo((10e-6 * 3.333e-6 * Math.cos((10 * Math.PI) / 180)) / 0.2 * 1e9, 6);
+    expect(pairs[0]!.pairs[0]!.resolved).toBe(true);
+    expect(pairs[1]!.bandpass.largest).toBe('slit');
+    // (0.6 nm is within three bandpasses of 1.97 nm, so the pair is read on the pixels: not resolved.)
+    expect(pairs[1]!.pairs[0]!.resolved).toBe(false);
   });
 });
 
