@@ -165,6 +165,10 @@ async function runJobWith(loaded: LoadedJob, opts: RunOptions, held: { crew: Cre
     opts.namesInRun?.set(spec.name, file);
     const cases = expandJob(spec);
     outcome.cases = cases.length;
+    // Too many cases is known before any is planned (planning thousands takes a while of its own).
+    if (!opts.acceptLarge && cases.length > LARGE_SWEEP.cases) {
+      return refuse(`the sweeps make ${cases.length} cases (limit ${LARGE_SWEEP.cases}); if that is meant, run again with --accept-large`);
+    }
     // --accept-large lifts the per-case time limit as it lifts the sweep's.
     const planOpts: PlannerOptions = opts.acceptLarge ? { ...opts, maxWork: Infinity } : opts;
     const size = crewSize(opts, cases.length);
@@ -173,7 +177,7 @@ async function runJobWith(loaded: LoadedJob, opts: RunOptions, held: { crew: Cre
     // Runs of a sweep's cases on one grid where sharing it is cheaper (plan/shared-grids.ts).
     plans = shareGrids(cases, own, planOpts);
     const seconds = plans.reduce((s, p) => s + p.work, 0) / LIMITS.workPerSecond;
-    if (!opts.acceptLarge && (cases.length > LARGE_SWEEP.cases || seconds > LARGE_SWEEP.seconds)) {
+    if (!opts.acceptLarge && seconds > LARGE_SWEEP.seconds) {
       return refuse(
         `the sweeps make ${cases.length} cases, estimated at ${trimNumber(seconds / 3600, 3)} CPU hours ` +
           `(limits ${LARGE_SWEEP.cases} cases, ${LARGE_SWEEP.seconds / 3600} hours); if that is meant, run again with --accept-large`,

@@ -200,8 +200,8 @@ describe('memory guard', () => {
 
 describe('bounds on input', () => {
   it('asks for --accept-large before a sweep of many thousands of cases, saying the count', async () => {
-    // One case over the limit (LARGE_SWEEP.cases, 5000; it was 6000 cases). Every case is
-    // planned before the count is checked (src/run/run-job.ts), which is this test's whole cost.
+    // One case over the limit (LARGE_SWEEP.cases, 5000): refused on the count, before any case is
+    // planned (src/run/run-job.ts).
     const big = parseJobText(`name: huge\nwavelength: 500 nm\ndistance: {from: 1 mm, to: 1 m, count: ${LARGE_SWEEP.cases + 1}, spacing: log}\naperture: {shape: slit, width: 30 um}\n`);
     const o = await runJob(big, { outDir: join(work, 'out-huge') });
     expect(o.error).toMatch(new RegExp(`${LARGE_SWEEP.cases + 1} cases`));
