@@ -183,11 +183,38 @@ export interface Outcome {
   values?: { I: number; ref: number; peak: number };
 }
 
-function evenIndices(n: number, m: number): number[] {
+export function evenIndices(n: number, m: number): number[] {
   if (n <= m) return Array.from({ length: n }, (_, i) => i);
   const out = new Set<number>();
   for (let i = 0; i < m; i++) out.add(Math.round((i * (n - 1)) / (m - 1)));
   return [...out];
+}
+
+/**
+ * The [row, col] samples of a computed map compared with the exact reference: in 1-D `points1D`
+ * spread evenly plus the computed peak (the error is relative to the reference's peak, which points
+ * spread over a wide window can miss: a narrow central lobe between them inflates every error); in
+ * 2-D `points2DPerLine` along the row and the column through the axis (or the map's middle).
+ */
+export function comparisonIndices(c: { nx: number; ny: number; center: [number, number]; intensity: Float64Array }, oneD: boolean, points1D: number, points2DPerLine: number): [number, number][] {
+  const idx: [number, number][] = [];
+  if (oneD || c.ny === 1) {
+    for (const col of evenIndices(c.nx, points1D)) idx.push([0, col]);
+    let top = 0;
+    for (let col = 1; col < c.nx; col++) if (c.intensity[col]! > c.intensity[top]!) top = col;
+    if (!idx.some(([, col]) => col === top)) idx.push([0, top]);
+    return idx;
+  }
+  const midRow = Math.round(c.center[1]);
+  const midCol = Math.round(c.center[0]);
+  const row = midRow >= 0 && midRow < c.ny ? midRow : c.ny >> 1;
+  const col = midCol >= 0 && midCol < c.nx ? midCol : c.nx >> 1;
+  const seen = new Set<string>();
+  for (const cc of evenIndices(c.nx, points2DPerLine)) seen.add(`${row},${cc}`);
+  for (const rr of evenIndices(c.ny, points2DPerLine)) seen.add(`${rr},${col}`);
+  seen.add(`${row},${col}`);
+  for (const s of seen) idx.push(s.split(',').map(Number) as [number, number]);
+  return idx;
 }
 
 /** Plans, runs and compares one case. */
@@ -202,29 +229,14 @@ export function runRandomCase(d: DrawnCase, onPlanned?: (p: PlanInfo) => void): 
   const xAt = (col: number) => gridX(c, col);
   const yAt = (row: number) => gridY(c, row);
   // Points taken from the output grid itself.
-  const idx: [number, number][] = []; // [row, col]
+  // In 1-D as many points as the exact reference can afford (its cost per point, from a sample of 5).
+  let n1D = POINTS_1D;
   if (oneD || c.ny === 1) {
-    // As many points as the exact reference can afford (its cost per point, from a sample of 5).
     const sample = evenIndices(c.nx, 5).map((col): [number, number] => [xAt(col), 0]);
     const perPoint = referenceCost1D(d.spec as RefCase, sample) / sample.length;
-    const n = Math.max(MIN_POINTS_1D, Math.min(POINTS_1D, Math.floor(REFERENCE_BUDGET_MICROS / Math.max(perPoint, 1e-9))));
-    for (const col of evenIndices(c.nx, n)) idx.push([0, col]);
-    // And the computed peak: the error is relative to the reference's peak, which points spread
-    // over a wide window can miss (a narrow central lobe between them inflates every error).
-    let top = 0;
-    for (let col = 1; col < c.nx; col++) if (c.intensity[col]! > c.intensity[top]!) top = col;
-    if (!idx.some(([, col]) => col === top)) idx.push([0, top]);
-  } else {
-    const midRow = Math.round(c.center[1]);
-    const midCol = Math.round(c.center[0]);
-    const row = midRow >= 0 && midRow < c.ny ? midRow : c.ny >> 1;
-    const col = midCol >= 0 && midCol < c.nx ? midCol : c.nx >> 1;
-    const seen = new Set<string>();
-    for (const cc of evenIndices(c.nx, POINTS_2D_PER_LINE)) seen.add(`${row},${cc}`);
-    for (const rr of evenIndices(c.ny, POINTS_2D_PER_LINE)) seen.add(`${rr},${col}`);
-    seen.add(`${row},${col}`);
-    for (const s of seen) idx.push(s.split(',').map(Number) as [number, number]);
+    n1D = Math.max(MIN_POINTS_1D, Math.min(POINTS_1D, Math.floor(REFERENCE_BUDGET_MICROS / Math.max(perPoint, 1e-9))));
   }
+  const idx = comparisonIndices(c, oneD, n1D, POINTS_2D_PER_LINE); // [row, col]
   const pts = idx.map(([r, cc]): [number, number] => [xAt(cc), yAt(r)]);
   const axisIndex = pts.findIndex(([x, y]) => Math.abs(x) <= 1e-9 * c.dx && Math.abs(y) <= 1e-9 * (isOneDGrid(c) ? 1 : c.dy));
   const ref = referenceIntensity(d.spec as RefCase, pts, REFERENCE_BUDGET_MICROS, axisIndex);

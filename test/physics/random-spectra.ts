@@ -16,7 +16,7 @@ import { ACCURACY_CODES } from '../../src/warnings/catalogue.js';
 import { testContext } from '../engine.js';
 import { makeCase, mulberry32 } from '../helpers.js';
 import { isOneD, referenceIntensity, type RefCase } from '../reference/reference.js';
-import { describeCase, drawCases, errorClass, type DrawnCase } from './random-cases.js';
+import { comparisonIndices, describeCase, drawCases, errorClass, type DrawnCase } from './random-cases.js';
 import { runInChildProcesses } from './child-cases.js';
 
 /** The seed of this file's draw (random-cases.ts draws the cases, this seed draws their spectra too). */
@@ -148,13 +148,6 @@ export interface SpectrumOutcome {
   lineProblems?: string[];
 }
 
-function evenIndices(n: number, m: number): number[] {
-  if (n <= m) return Array.from({ length: n }, (_, i) => i);
-  const out = new Set<number>();
-  for (let i = 0; i < m; i++) out.add(Math.round((i * (n - 1)) / (m - 1)));
-  return [...out];
-}
-
 const sameAxis = (a: { n: number; start: number; step: number }, b: { n: number; start: number; step: number }) => a.n === b.n && a.start === b.start && a.step === b.step;
 
 /** One grid: every member's output axes are the case's; an FFT member's output step is a whole number of its lattice steps. */
@@ -223,24 +216,7 @@ export function runSpectrumDraw(d: SpectrumDraw): SpectrumOutcome {
   const codes = rec.warnings.map((w) => w.code);
   const done = { ...withPlan, codes, warned: warnedBy(codes), gridProblems: grids, fftMembers, lineProblems };
   const c = rec.computed;
-  const idx: [number, number][] = [];
-  if (oneD || c.ny === 1) {
-    for (const col of evenIndices(c.nx, POINTS_1D)) idx.push([0, col]);
-    // And the computed peak: the error is relative to the reference's peak, which spread points can miss.
-    let top = 0;
-    for (let col = 1; col < c.nx; col++) if (c.intensity[col]! > c.intensity[top]!) top = col;
-    if (!idx.some(([, col]) => col === top)) idx.push([0, top]);
-  } else {
-    const midRow = Math.round(c.center[1]);
-    const midCol = Math.round(c.center[0]);
-    const row = midRow >= 0 && midRow < c.ny ? midRow : c.ny >> 1;
-    const col = midCol >= 0 && midCol < c.nx ? midCol : c.nx >> 1;
-    const seen = new Set<string>();
-    for (const cc of evenIndices(c.nx, POINTS_2D_PER_LINE)) seen.add(`${row},${cc}`);
-    for (const rr of evenIndices(c.ny, POINTS_2D_PER_LINE)) seen.add(`${rr},${col}`);
-    seen.add(`${row},${col}`);
-    for (const s of seen) idx.push(s.split(',').map(Number) as [number, number]);
-  }
+  const idx = comparisonIndices(c, oneD, POINTS_1D, POINTS_2D_PER_LINE);
   const pts = idx.map(([r, cc]): [number, number] => [gridX(c, cc), gridY(c, r)]);
   const axisIndex = pts.findIndex(([x, y]) => Math.abs(x) <= 1e-9 * c.dx && Math.abs(y) <= 1e-9 * (isOneDGrid(c) ? 1 : c.dy));
   // Σ wᵢ·I_ref(λᵢ) at the points every line's reference reached.
