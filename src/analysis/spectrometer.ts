@@ -110,10 +110,6 @@ export interface SpectrometerResult {
   /** Orders of the lines that land on the detector but are not in `lines` (beyond the ORDERS_LISTED brightest of each line). */
   ordersNotListed: number;
   pairs: DetectorPair[];
-  /** The largest λ/d among the lines: above SCALAR_LIMIT the order powers are unreliable. */
-  largestLambdaOverD: number;
-  /** Samples of P per line (the work). */
-  samples: number;
 }
 
 /**
@@ -338,17 +334,13 @@ export function spectrometerSignal(setup: SpectrometerSetup, g: SpectrometerGrat
   const xyz = { X: new Float64Array(n), Y: new Float64Array(n), Z: new Float64Array(n) };
   const [lo, hi] = directionRange(setup, g);
   const out: DetectorLine[] = [];
-  let samples = 0;
-  let largestLambdaOverD = 0;
   let ordersNotListed = 0;
   for (const line of lines) {
-    largestLambdaOverD = Math.max(largestLambdaOverD, line.wavelength / g.period);
     const h = line.wavelength / (W * perFringe);
     const need = Math.ceil((hi - lo) / h) + 1;
     if (need > DETECTOR_SAMPLES_MAX) {
       throw new Error(`spectrometer: the detector spans ${Math.round((hi - lo) / (h * perFringe))} of the grating's resolution elements at ${(line.wavelength * 1e9).toPrecision(6)} nm, more than ${Math.floor(DETECTOR_SAMPLES_MAX / perFringe)} can be computed; use fewer pixels or a shorter camera`);
     }
-    samples = Math.max(samples, need);
     // A margin of two samples keeps every query inside the tabulated range.
     const r = runningIntegrals(line, g, lo - 2 * h, hi + 2 * h, h);
     const edges = slitEdges(setup, g, h);
@@ -431,8 +423,6 @@ export function spectrometerSignal(setup: SpectrometerSetup, g: SpectrometerGrat
     lines: out,
     ordersNotListed,
     pairs: detectorPairs(signal, out, setup, g),
-    largestLambdaOverD,
-    samples,
   };
 }
 

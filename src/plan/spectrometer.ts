@@ -2,8 +2,7 @@
 // spectrometer.ts), so the plan says what it will compute, adds its work and memory, refuses a
 // detector the camera cannot be pointed at or one too wide to compute, and warns where thin-grating
 // theory's order powers are unreliable.
-import { cameraAngle, detectorSamples, PIXEL_ACCURACY, SAMPLES_PER_FRINGE, SCALAR_LIMIT, subSlits, type SpectrometerGrating, type SpectrometerSetup } from '../analysis/spectrometer.js';
-import { DETECTOR_SAMPLES_MAX } from '../analysis/spectrometer.js';
+import { cameraAngle, DETECTOR_SAMPLES_MAX, detectorSamples, PIXEL_ACCURACY, SAMPLES_PER_FRINGE, SCALAR_LIMIT, subSlits, type SpectrometerGrating, type SpectrometerSetup } from '../analysis/spectrometer.js';
 import { gratingOf } from '../elements/registry.js';
 import { formatLength } from '../job/units.js';
 import type { Aperture } from '../optics/aperture.js';
