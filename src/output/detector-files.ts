@@ -6,7 +6,7 @@ import type { DetectorSignal, SpectrometerMetrics } from '../metrics/spectromete
 import { srgb8 } from '../analysis/colour.js';
 import { toCsv } from './csv.js';
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from './font.js';
-import { niceTicks, renderLinePlots, type LinePlotInput } from './line-plot.js';
+import { clip, niceTicks, renderLinePlots, type LinePlotInput } from './line-plot.js';
 import { encodePng, fillRect, frame } from './raster.js';
 
 export const DETECTOR_FILES = {
@@ -152,7 +152,7 @@ export function renderDetectorColourPng(d: DetectorSignal, m: SpectrometerMetric
   const height = STRIP_MARGIN + CELL_H + 10 + 2 * (CELL_H + 6 + STRIP_HEIGHT + axisH) + captionH + STRIP_MARGIN;
   const img: RgbImage = { width, height, data: new Uint8Array(width * height * 3) };
   fillRect(img, { x: 0, y: 0, w: width, h: height }, STRIP_BACKGROUND);
-  drawText(img, STRIP_MARGIN, STRIP_MARGIN, clipText(`${title}: the detector in colour`, width - 2 * STRIP_MARGIN), STRIP_TEXT);
+  drawText(img, STRIP_MARGIN, STRIP_MARGIN, clip(`${title}: the detector in colour`, width - 2 * STRIP_MARGIN), STRIP_TEXT);
   const views: { label: string; brightness: (y: number) => number }[] = [
     { label: 'linear: the brightest pixel at full scale', brightness: (y) => y / yMax },
     { label: `brightness over ${STRIP_DECADES} decades below the brightest pixel`, brightness: (y) => (y > 0 ? Math.max(0, 1 + Math.log10(y / yMax) / STRIP_DECADES) : 0) },
@@ -188,14 +188,7 @@ export function renderDetectorColourPng(d: DetectorSignal, m: SpectrometerMetric
     }
     top += axisH;
   }
-  drawText(img, STRIP_MARGIN, top, clipText(`wavelength in order ${m.setup.centre.order} (nm); ${n} pixels${bin > 1 ? `, ${bin} to a column` : ''}; each column holds the whole slit height`, width - 2 * STRIP_MARGIN), STRIP_TEXT);
+  drawText(img, STRIP_MARGIN, top, clip(`wavelength in order ${m.setup.centre.order} (nm); ${n} pixels${bin > 1 ? `, ${bin} to a column` : ''}; each column holds the whole slit height`, width - 2 * STRIP_MARGIN), STRIP_TEXT);
   drawText(img, STRIP_MARGIN, top + CELL_H + 4, 'sRGB (IEC 61966-2-1), white point D65; CIE 1931 2-degree observer', STRIP_TEXT);
   return encodePng(img);
-}
-
-function clipText(s: string, room: number): string {
-  if (textWidth(s) <= room) return s;
-  let t = s;
-  while (t.length > 1 && textWidth(`${t}...`) > room) t = t.slice(0, -1);
-  return `${t}...`;
 }

@@ -224,7 +224,8 @@ function drawSeries(img: RgbImage, plot: Rect, s: LineSeries, px: (x: number) =>
   flush();
 }
 
-function clip(text: string, room: number): string {
+/** The text cut to fit `room` pixels of the bitmap font, with an ellipsis where it was cut. */
+export function clip(text: string, room: number): string {
   if (textWidth(text) <= room) return text;
   const chars = [...text];
   while (chars.length > 0 && textWidth(chars.join('') + '...') > room) chars.pop();
