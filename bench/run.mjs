@@ -11,11 +11,11 @@
 //   overhead  what a case costs outside its propagation, by part, and the job report's time.
 // The machine's load average is printed with the results: on a shared machine, trust ratios of
 // runs interleaved round by round over absolute times.
-import { spawn } from 'node:child_process';
-import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
+import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir, availableParallelism, cpus, loadavg } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { fileURLToPath } from 'node:url';
+import { runCli, writeUsagePreload } from './cli-process.mjs';
 
 const args = process.argv.slice(2);
 const json = args.includes('--json');
@@ -44,46 +44,19 @@ distance: {from: 0.5 m, to: 2 m, count: 100}
 aperture: {shape: circle, diameter: 50 um}
 `;
 
-/**
- * One run of the command line as a child process: seconds from spawn to exit, its peak RSS (KiB)
- * and its CPU time (user + system, all threads), read by a preloaded module from
- * process.resourceUsage() as the process exits (getrusage of the whole process: the worker threads
- * are in it). The CPU time says how much work a run was, whatever the machine's load did to its
- * wall time.
- */
-async function runCli(jobFile, outDir, workers, preload, rssFile) {
-  const t0 = performance.now();
-  const code = await new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, ['--import', pathToFileURL(preload).href, cli, 'run', jobFile, '--out', outDir, '--workers', String(workers), '--quiet'], {
-      stdio: ['ignore', 'ignore', 'inherit'],
-      env: { ...process.env, SPOTCAST_BENCH_RSS: rssFile },
-    });
-    child.on('error', reject);
-    child.on('exit', (c) => resolve(c));
-  });
-  const seconds = (performance.now() - t0) / 1000;
-  if (code !== 0) throw new Error(`spotcast run --workers ${workers} exited with ${code}`);
-  const usage = JSON.parse(await readFile(rssFile, 'utf8'));
-  return { seconds, maxRssKb: usage.maxRSS, cpuSeconds: usage.cpu };
-}
-
 async function processRow() {
   const dir = await mkdtemp(join(tmpdir(), 'spotcast-bench-'));
   try {
     const jobFile = join(dir, 'sweep.yaml');
     await writeFile(jobFile, SMALL_SWEEP);
-    const preload = join(dir, 'peak-rss.mjs');
-    await writeFile(
-      preload,
-      "import { writeFileSync } from 'node:fs';\nprocess.on('exit', () => { const u = process.resourceUsage(); writeFileSync(process.env.SPOTCAST_BENCH_RSS, JSON.stringify({ maxRSS: u.maxRSS, cpu: (u.userCPUTime + u.systemCPUTime) / 1e6 })); });\n",
-    );
+    const preload = await writeUsagePreload(dir);
     const runs = { 1: [], 2: [] };
     noteLoad('process row start');
     for (let r = 0; r < rounds; r++) {
       // Interleaved, the order alternating, so that a change in the machine's load falls on both.
       for (const w of r % 2 ? [2, 1] : [1, 2]) {
         const out = join(dir, `out-${r}-${w}`);
-        runs[w].push(await runCli(jobFile, out, w, preload, join(dir, `rss-${r}-${w}`)));
+        runs[w].push(await runCli(cli, jobFile, out, w, preload, join(dir, `rss-${r}-${w}`)));
         await rm(out, { recursive: true, force: true });
       }
     }

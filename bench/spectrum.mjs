@@ -17,11 +17,12 @@
 //        is added in (run/spectrum-case.ts computeSpectrum's onLine): seconds per wavelength by method.
 // The machine's load average is printed with the results: on a shared machine wall times are noisy;
 // CPU time says how much work a run was.
-import { spawn, spawnSync } from 'node:child_process';
-import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
+import { spawnSync } from 'node:child_process';
+import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { availableParallelism, cpus, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { runCli, writeUsagePreload } from './cli-process.mjs';
 
 const args = process.argv.slice(2);
 const json = args.includes('--json');
@@ -98,41 +99,20 @@ function planSummary(plan, planSeconds) {
   };
 }
 
-/** One run of the command line: wall seconds, CPU seconds of all threads and peak RSS, read as the process exits. */
-async function runCli(jobFile, outDir, workers, preload, rssFile) {
-  const t0 = performance.now();
-  const code = await new Promise((resolve, reject) => {
-    const p = spawn(process.execPath, ['--import', pathToFileURL(preload).href, cli, 'run', jobFile, '--out', outDir, '--workers', String(workers), '--quiet'], {
-      stdio: ['ignore', 'ignore', 'inherit'],
-      env: { ...process.env, SPOTCAST_BENCH_RSS: rssFile },
-    });
-    p.on('error', reject);
-    p.on('exit', (c) => resolve(c));
-  });
-  const seconds = (performance.now() - t0) / 1000;
-  if (code !== 0) throw new Error(`spotcast run --workers ${workers} exited with ${code}`);
-  const u = JSON.parse(await readFile(rssFile, 'utf8'));
-  return { seconds, cpuSeconds: u.cpu, maxRssKb: u.maxRSS };
-}
-
 async function cliRows(summary) {
   const dir = await mkdtemp(join(tmpdir(), 'spotcast-bench-'));
   const rows = [];
   try {
     const jobFile = join(dir, 'spectrum.yaml');
     await writeFile(jobFile, JOB);
-    const preload = join(dir, 'peak-rss.mjs');
-    await writeFile(
-      preload,
-      "import { writeFileSync } from 'node:fs';\nprocess.on('exit', () => { const u = process.resourceUsage(); writeFileSync(process.env.SPOTCAST_BENCH_RSS, JSON.stringify({ maxRSS: u.maxRSS, cpu: (u.userCPUTime + u.systemCPUTime) / 1e6 })); });\n",
-    );
+    const preload = await writeUsagePreload(dir);
     const runs = new Map(workerCounts.map((w) => [w, []]));
     for (let r = 0; r < rounds; r++) {
       // Interleaved, the order alternating, so that a change in the machine's load falls on all.
       for (const w of r % 2 ? [...workerCounts].reverse() : workerCounts) {
         const out = join(dir, `out-${r}-${w}`);
         noteLoad(`cli --workers ${w} round ${r + 1} start`);
-        runs.get(w).push(await runCli(jobFile, out, w, preload, join(dir, `rss-${r}-${w}`)));
+        runs.get(w).push(await runCli(cli, jobFile, out, w, preload, join(dir, `rss-${r}-${w}`)));
         noteLoad(`cli --workers ${w} round ${r + 1} end`);
         await rm(out, { recursive: true, force: true });
       }
