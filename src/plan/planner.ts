@@ -536,8 +536,11 @@ function answersPeak(c: Case, maxMemoryBytes: number | undefined): number {
   const variants = answerVariants(c);
   if (variants.length === 0) return 0;
   // The cases of a distance sweep have the same far-field search: planned once (a pure function of
-  // the variants and the limit, so remembering it changes no result).
-  const key = JSON.stringify([maxMemoryBytes ?? null, variants]);
+  // the variants and the limit, so remembering it changes no result). The key leaves out what
+  // names a case and not its light (job, index, folder, swept values): with them every case of a
+  // sweep missed, and planned its 17 search distances again (most of the planning of a 100-case
+  // far-field sweep).
+  const key = JSON.stringify([maxMemoryBytes ?? null, variants.map(physicsOf)]);
   const known = answersPeaks.get(key);
   if (known !== undefined) return known;
   let peak = 0;
@@ -551,6 +554,12 @@ function answersPeak(c: Case, maxMemoryBytes: number | undefined): number {
 }
 
 const answersPeaks = new Map<string, number>();
+
+/** A case without what only names it (the planner's memory and work estimates do not read these). */
+function physicsOf(c: Case): Omit<Case, 'job' | 'index' | 'id' | 'swept'> {
+  const { job: _job, index: _index, id: _id, swept: _swept, ...rest } = c;
+  return rest;
+}
 
 function samplingReasons(d: MethodDescriptor, axes: AxisPlan[], oneD: boolean): string[] {
   const names = oneD ? ['x'] : ['x', 'y'];
