@@ -41,6 +41,7 @@ import { axisAt, createField, type Axis, type Field } from './field.js';
 import { DISC_COUNT_WALK, discContour, discContourCount, type DiscRule } from './rs-boundary-disc.js';
 import { LineTable, lineTableCount, stretchIntegral, stretchIntegralCount, type LineRule } from './rs-boundary-lines.js';
 import { gaussPhaseLimit, lagrangeStepLimit, partialPhaseLimit } from './rs-boundary-rules.js';
+import { GAUSS32_PHASE_LIMITS, PARTIAL16_PHASE_LIMITS, TABLE_FIRST_STEP, TABLE_STEPS_PER_DECADE } from './rs-boundary-limit-table.js';
 
 export type BoundaryRegion =
   | { kind: 'disc'; radius: number; sign: 1 | -1 }
@@ -92,21 +93,28 @@ const BETA = 0.5;
 const QUAD_SHARE = 1e-4;
 const EPS_FLOOR = 1e-14;
 const EPS_CEIL = 1e-7;
-/** Steps per decade of the quadrature accuracy the rules' phase limits are measured at. */
-const EPS_STEPS_PER_DECADE = 8;
-
 /**
- * eps rounded down to one of EPS_STEPS_PER_DECADE steps per decade: a stricter accuracy (by at most
- * 10^(1/8) ≈ 1.33), so every bound still holds, and the rules' measured phase limits (a scan of
- * about 10 ms each, memoised by their accuracy) are measured once per step, not once per case: a
- * distance sweep has a different eps at every distance (A = area/λz), and the scans were a third
- * of the planning of a 100-case far-field sweep.
+ * eps rounded down to one of TABLE_STEPS_PER_DECADE steps per decade: a stricter accuracy (by at
+ * most 10^(1/8) ≈ 1.33), so every bound still holds, and the rules' phase limits at it are
+ * tabulated (rs-boundary-limit-table.ts; a step outside the table is measured, and remembered).
+ * Measured at every case's own eps, the scans were a third of the planning of a 100-case distance
+ * sweep, whose every case has its own (A = area/λz).
  */
-function stricterStep(eps: number): number {
-  const step = Math.floor(Math.log10(eps) * EPS_STEPS_PER_DECADE);
-  const rounded = 10 ** (step / EPS_STEPS_PER_DECADE);
+function stricterStep(eps: number): { step: number; eps: number } {
+  let step = Math.floor(Math.log10(eps) * TABLE_STEPS_PER_DECADE);
   // 10^x may land a rounding above eps: then the step below.
-  return rounded <= eps ? rounded : 10 ** ((step - 1) / EPS_STEPS_PER_DECADE);
+  if (10 ** (step / TABLE_STEPS_PER_DECADE) > eps) step--;
+  return { step, eps: 10 ** (step / TABLE_STEPS_PER_DECADE) };
+}
+
+/** The two rules' phase limits at an accuracy step (tabulated where the table has it). */
+function phaseLimits(at: { step: number; eps: number }): { disc: number; line: number } {
+  const i = at.step - TABLE_FIRST_STEP;
+  const tabulated = DISC_NODES === 32 && LINE_NODES === 16 && i >= 0 && i < GAUSS32_PHASE_LIMITS.length;
+  return {
+    disc: tabulated ? GAUSS32_PHASE_LIMITS[i]! : gaussPhaseLimit(DISC_NODES, at.eps),
+    line: tabulated ? PARTIAL16_PHASE_LIMITS[i]! : partialPhaseLimit(LINE_NODES, at.eps),
+  };
 }
 
 /** Radial interpolation: centred Lagrange on this many samples. */
@@ -260,9 +268,10 @@ function plan(regions: BoundaryRegion[], wavelength: number, z: number, outX: Ax
   const planeSum = regions.reduce((s, r) => s + (r.kind === 'plane' ? r.sign : 0), 0);
   const A = regions.some((r) => r.kind === 'plane') ? 1 : Math.min(1, openArea(regions) / (wavelength * z));
   const scale = A > 0 ? A : 1;
-  const eps = stricterStep(Math.min(EPS_CEIL, Math.max(EPS_FLOOR, tol * scale * QUAD_SHARE)));
-  const discRule: DiscRule = { n: DISC_NODES, phase: PHASE_SAFETY * gaussPhaseLimit(DISC_NODES, eps), beta: BETA };
-  const lineRule: LineRule = { n: LINE_NODES, phase: PHASE_SAFETY * partialPhaseLimit(LINE_NODES, eps), beta: BETA };
+  const at = stricterStep(Math.min(EPS_CEIL, Math.max(EPS_FLOOR, tol * scale * QUAD_SHARE)));
+  const limits = phaseLimits(at);
+  const discRule: DiscRule = { n: DISC_NODES, phase: PHASE_SAFETY * limits.disc, beta: BETA };
+  const lineRule: LineRule = { n: LINE_NODES, phase: PHASE_SAFETY * limits.line, beta: BETA };
   const directRule: LineRule = { n: DISC_NODES, phase: discRule.phase, beta: BETA };
 
   const useSym = opts.symmetry ?? true;
