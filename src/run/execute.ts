@@ -4,16 +4,20 @@ import type { Plan } from '../plan/types.js';
 import { runPlannedCase } from './run-case.js';
 import { answerQuestions } from './searches.js';
 import type { CaseContext } from './context.js';
+import { prepareShare, writtenValues, type PreparedShare, type ReportShare } from '../report/case-share.js';
 
 export interface CaseTask {
   plan: Plan;
   jobDir: string;
   hash: string;
+  /** What the job report will want of this case, made here from its map (report/case-share.ts). */
+  report?: ReportShare;
 }
 
 export interface CaseDone {
   id: string;
   summary: CaseSummary;
+  report?: PreparedShare;
 }
 
 /**
@@ -34,5 +38,9 @@ export async function executeCase(task: CaseTask, ctx: CaseContext): Promise<Cas
   const rec = runPlannedCase(task.plan, ctx);
   answerQuestions(rec, ctx);
   await writeCase(task.jobDir, rec, task.hash);
-  return { id: task.plan.case.id, summary: summaryOf(rec) };
+  const summary = summaryOf(rec);
+  if (!task.report) return { id: task.plan.case.id, summary };
+  const m = rec.computed;
+  const written = writtenValues(m.intensity, task.plan.case.output.npy);
+  return { id: task.plan.case.id, summary, report: prepareShare(task.report, summary, written, m.ny, m.nx) };
 }

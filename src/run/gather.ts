@@ -16,8 +16,9 @@ import { summaryCsv, type SummaryRow } from '../output/summary.js';
 import { formatPlan } from '../plan/format.js';
 import { planCase, type PlannerOptions } from '../plan/planner.js';
 import type { Case } from '../plan/types.js';
-import { buildJobReport, evenIndices, EXPLORER_MAX_CASES, JOB_FILES, sheetIndices, sheetTile, sweptLabel, writeJobReport } from '../report/assemble.js';
-import { explorerCaseOf, explorerSide, explorerSourceOf, pageCase, writeExplorerPage, type PageCase } from '../report/explorer.js';
+import { buildJobReport, JOB_FILES, writeJobReport } from '../report/assemble.js';
+import { writeExplorerPage, type PageCase } from '../report/explorer.js';
+import { caseLabel, pageOf, reportSelection, tileOf, type PreparedShare } from '../report/case-share.js';
 import type { SheetTile } from '../report/contact-sheet.js';
 import { caseHash, readRecord, verifyCases, type CaseState, type Manifest } from './records.js';
 import type { StoredRecord } from '../output/case-output.js';
@@ -70,6 +71,8 @@ export async function gatherJob(
   trusted: ReadonlySet<string> = new Set(),
   /** Draws the report's plots elsewhere (the run's kept workers: run/helpers.ts). */
   drawPlots?: PlotDrawer,
+  /** Report shares the run's threads made of trusted cases (report/case-share.ts), by case id. */
+  prepared: ReadonlyMap<string, PreparedShare> = new Map(),
 ): Promise<GatherResult> {
   const axes = sweepAxes(loaded.spec).filter((a) => a.values.length > 1);
   const failures = await recordedFailures(jobDir);
@@ -128,37 +131,29 @@ export async function gatherJob(
   );
   try {
     const done = rows.filter((r) => r.record);
-    const onSheet = sheetIndices(done.length);
-    // The explorer page's cases: the done ones, evenly chosen along the sweep past EXPLORER_MAX_CASES.
-    const onPage = done.length <= EXPLORER_MAX_CASES ? new Set(done.keys()) : evenIndices(done.length, EXPLORER_MAX_CASES);
-    const side = explorerSide(onPage.size);
+    const { onSheet, onPage, side } = reportSelection(done.length);
     const tiles: SheetTile[] = [];
     const pageCases: PageCase[] = [];
     const orderSets: OrderSet[] = [];
     for (let i = 0; i < done.length; i++) {
       const rec = done[i]!.record!;
       const c = rec.plan.case;
-      const label = axes.map((a) => sweptLabel(a, c.swept[a.key]!)).join(', ') || c.id;
-      // Each case's intensity.npy is read once, for its tile and its page entry both, and dropped.
-      if (onSheet.has(i) || onPage.has(i)) {
+      const label = caseLabel(axes, c);
+      // A share made by the thread that computed the case, where it is the one wanted here (the
+      // run's prediction held); else each case's intensity.npy is read once, for its tile and its
+      // page entry both, and dropped.
+      const ready = trusted.has(c.id) ? prepared.get(c.id) : undefined;
+      const mine = ready && ready.label === label ? ready : undefined;
+      const tile = onSheet.has(i) ? mine?.tile : undefined;
+      const page = onPage.has(i) && mine?.pageSide === side ? mine.page : undefined;
+      if ((onSheet.has(i) && !tile) || (onPage.has(i) && !page)) {
         const npy = decodeNpy(new Uint8Array(await readFile(join(jobDir, c.id, CASE_FILES.intensity))));
-        if (onSheet.has(i)) {
-          const [rowsN, colsN] = npy.shape as [number, number];
-          const p = rec.plan;
-          tiles.push(
-            // The plan's output axes are the map's grid (no y axis: the 1-D form, ny = 1, dy = 0).
-            sheetTile(label, {
-              nx: colsN,
-              ny: rowsN,
-              dx: p.x.output.step,
-              dy: p.y ? p.y.output.step : 0,
-              x0: p.x.output.start,
-              y0: p.y ? p.y.output.start : 0,
-              intensity: npy.data,
-            }),
-          );
-        }
-        if (onPage.has(i)) pageCases.push(pageCase(explorerCaseOf(explorerSourceOf(rec, label), npy), side));
+        const [rowsN, colsN] = npy.shape as [number, number];
+        if (onSheet.has(i)) tiles.push(tile ?? tileOf(label, rec.plan, npy.data, rowsN, colsN));
+        if (onPage.has(i)) pageCases.push(page ?? pageOf(rec, label, npy.data, npy.shape, side));
+      } else {
+        if (tile) tiles.push(tile);
+        if (page) pageCases.push(page);
       }
       const orders = rec.metrics.orders;
       const grating = orders ? gratingOf(c.aperture) : null;

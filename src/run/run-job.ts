@@ -4,7 +4,7 @@
 import { availableParallelism, freemem } from 'node:os';
 import { trimNumber } from '../job/units.js';
 import { JobError, formatWarning, loadJobFile, type LoadedJob } from '../job/load.js';
-import { expandJob } from '../job/expand.js';
+import { expandJob, sweepAxes } from '../job/expand.js';
 import { bytes, methodWords, planCase, type PlannerOptions } from '../plan/planner.js';
 import { LIMITS } from '../plan/limits.js';
 import type { Plan } from '../plan/types.js';
@@ -24,6 +24,7 @@ import type { Engine } from '../optics/engine.js';
 import { shareSourceSpectra } from '../plan/share.js';
 import { shareGrids } from '../plan/shared-grids.js';
 import type { CaseTask } from './execute.js';
+import { reportShares, type PreparedShare, type ReportShare } from '../report/case-share.js';
 import { assignShards, type ShardSpec } from './shard.js';
 import { lineReporter, silentReporter, type RunReporter } from './progress.js';
 import { TOOL_VERSION } from '../version.js';
@@ -270,6 +271,15 @@ async function runLocked(
     if (p.error) tooBig.push(p);
     else todo.push({ plan: p, jobDir, hash });
   }
+  // What the job report will want of each case (its contact-sheet tile, its explorer entry), made
+  // by the thread that computes it while the other cases run (report/case-share.ts); a shard makes
+  // no report.
+  const shares = opts.shard ? new Map<string, ReportShare>() : reportShares(sweepAxes(spec).filter((a) => a.values.length > 1), plans);
+  for (const t of todo) {
+    const share = shares.get(t.plan.case.id);
+    if (share) t.report = share;
+  }
+  const prepared = new Map<string, PreparedShare>();
   if (damaged > DAMAGE_NOTES) rep.note(`${damaged - DAMAGE_NOTES} more cases had missing or damaged files: computing them again`);
   if (unverified.length) {
     const some = unverified.slice(0, 10).join(', ') + (unverified.length > 10 ? `, and ${unverified.length - 10} more` : '');
@@ -329,6 +339,7 @@ async function runLocked(
         outcome.warnings += d.summary.warnings.length;
         manifest.completed[d.id] = hashes.get(d.id)!;
         delete manifest.failed[d.id];
+        if (d.report) prepared.set(d.id, d.report);
         rep.caseDone(d.id, caseLines(d.summary), d.summary.warnings.length);
         await save();
       },
@@ -337,7 +348,7 @@ async function runLocked(
     },
   );
   try {
-    return await finishRun(loaded, opts, rep, outcome, jobDir, plans, manifest, save, mine.length, interrupted, kept);
+    return await finishRun(loaded, opts, rep, outcome, jobDir, plans, manifest, save, mine.length, interrupted, kept, prepared);
   } finally {
     await stopKept(kept);
   }
@@ -356,6 +367,7 @@ async function finishRun(
   mineCount: number,
   interrupted: boolean,
   kept: Worker[],
+  prepared: ReadonlyMap<string, PreparedShare>,
 ): Promise<JobOutcome> {
   const { spec, file } = loaded;
   await save();
@@ -371,7 +383,7 @@ async function finishRun(
     return outcome;
   }
   // The cases verified or written by this run (which holds the folder) need not be read again.
-  const g = await gatherJob(loaded, jobDir, cases, opts, new Set(Object.keys(manifest.completed)), kept.length ? plotsOn(kept) : undefined);
+  const g = await gatherJob(loaded, jobDir, cases, opts, new Set(Object.keys(manifest.completed)), kept.length ? plotsOn(kept) : undefined, prepared);
   if (g.reportError) {
     outcome.reportError = g.reportError;
     rep.note(`job ${spec.name}: the report could not be written: ${g.reportError}`);

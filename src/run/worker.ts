@@ -58,7 +58,8 @@ port.on('message', (msg: ToWorker) => {
     return;
   }
   executeCase(msg.task, ctx).then(
-    (done) => port.postMessage({ type: 'done', done } satisfies FromWorker),
+    // A contact-sheet tile's samples (up to 400² values) are moved, not copied.
+    (done) => port.postMessage({ type: 'done', done } satisfies FromWorker, done.report?.tile ? [done.report.tile.map.intensity.buffer as ArrayBuffer] : []),
     (e: unknown) => port.postMessage({ type: 'failed', id: msg.task.plan.case.id, error: (e as Error).message ?? String(e) } satisfies FromWorker),
   );
 });
