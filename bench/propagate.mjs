@@ -14,13 +14,15 @@
 //        its own grid against the planner's runs of cases on shared grids (plan/shared-grids.ts).
 // one-d  a long slit (1-D), a rectangle (two 1-D problems) and a 1000-slit grating whose orders
 //        leave at up to 45° (the exact integral, per period), cases per second.
+// pad    the grid the planner pads an aperture of 1100 samples a side to (the angular spectrum's
+//        transforms): the cheapest 5-smooth size that holds the linear convolution, not 4096.
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 
 const args = process.argv.slice(2);
 const opt = (name, dflt) => (args.includes(name) ? args[args.indexOf(name) + 1] : dflt);
 const json = args.includes('--json');
-const only = opt('--only', 'asm,sweep,auto,one-d').split(',');
+const only = opt('--only', 'asm,sweep,auto,one-d,pad').split(',');
 const runs = Number(opt('--runs', '5'));
 const withScipy = !args.includes('--no-scipy');
 const child = opt('--child', null);
@@ -417,6 +419,44 @@ if (only.includes('one-d')) {
     }
 }
 
+if (only.includes('pad')) {
+  // A disc at 1 µm pitch whose diameter makes the illuminated aperture exactly 1100 samples a side
+  // (the planner adds its own margin to the diameter, so the diameter is searched for).
+  const { planCase } = await import('../dist/src/plan/planner.js');
+  const { isFastFftSize } = await import('../dist/src/optics/fft.js');
+  let found = null;
+  for (let d = 900; d <= 1000 && !found; d++) {
+    const c = makeCase({ wavelength: 633e-9, distance: 5 * mm, aperture: { shape: 'circle', diameter: d * um, opaque: false } });
+    const p = planCase({ ...c, grid: { pitch: 1 * um }, method: 'angular-spectrum' });
+    if (!p.error && p.x.inputSamples === 1100) found = { d, p };
+  }
+  if (!found) rows.push({ section: 'pad', name: 'an aperture of 1100 samples a side', skipped: 'no diameter gave 1100 samples' });
+  else {
+    const n = found.p.x.paddedSamples;
+    const f = factors(n);
+    rows.push({
+      section: 'pad',
+      name: 'an aperture of 1100 samples a side pads to',
+      text: `${n} × ${found.p.y?.paddedSamples ?? 1} (${f}; 5-smooth: ${isFastFftSize(n)}); the next power of two and twice that, the rule before 5-smooth sizes, gave ${2 * 2 ** Math.ceil(Math.log2(1100))}; disc ${found.d} µm at 1 µm pitch, angular spectrum`,
+    });
+  }
+}
+
+/** n as a product of prime powers, e.g. 2·3²·5³. */
+function factors(n) {
+  const parts = [];
+  for (const q of [2, 3, 5, 7, 11, 13]) {
+    let k = 0;
+    while (n % q === 0) {
+      n /= q;
+      k++;
+    }
+    if (k) parts.push(k === 1 ? `${q}` : `${q}^${k}`);
+  }
+  if (n > 1) parts.push(String(n));
+  return parts.join('·');
+}
+
 if (json) console.log(JSON.stringify({ rows }, null, 2));
 else {
   console.log('propagation: median ms per case (or per distance), cases per second, peak memory');
@@ -424,6 +464,10 @@ else {
   for (const r of rows) {
     if (r.skipped) {
       console.log(`${r.name.padEnd(w)}  skipped: ${r.skipped}`);
+      continue;
+    }
+    if (r.text) {
+      console.log(`${r.name.padEnd(w)}  ${r.text}`);
       continue;
     }
     const t = r.medianMs !== undefined ? `${r.medianMs.toFixed(1).padStart(9)} ms` : `${r.ratio.toFixed(2).padStart(9)} × `;
