@@ -11,6 +11,7 @@ import { lineReporter, safeMessage, terminalReporter, type RunReporter } from '.
 import { parseShard, type ShardSpec } from './run/shard.js';
 import { machineThreads } from './run/threads.js';
 import type { JobOutcome } from './run/run-job.js';
+import type { Crew } from './run/crew.js';
 import { safeEcho } from './safe-text.js';
 import { TOOL_VERSION } from './version.js';
 
@@ -201,8 +202,21 @@ function stopOnSignals(): {
   };
 }
 
+/**
+ * Workers for the first job file, started before the rest of the program is loaded (about half a
+ * second of this thread's time, which their own start-up then overlaps); the job takes them over
+ * or stops them (run-job.ts RunOptions.crew). None for one worker or without the built worker.
+ */
+async function earlyCrew(files: string[], flags: RunFlags): Promise<Crew | null> {
+  const n = Math.min(flags.workers, machineThreads());
+  if (n < 2 || files.length === 0) return null;
+  const [{ crewAvailable, startCrew }, { DEFAULT_MAX_MEMORY }] = await Promise.all([import('./run/crew.js'), import('./plan/limits.js')]);
+  return crewAvailable() ? startCrew(n, { maxMemoryBytes: flags.maxMemoryBytes ?? DEFAULT_MAX_MEMORY }) : null;
+}
+
 async function runCommand(files: string[], flags: RunFlags): Promise<number> {
-  const [{ runJobFile }, { DEFAULT_MAX_MEMORY }] = await Promise.all([import('./run/run-job.js'), import('./plan/planner.js')]);
+  let early = await earlyCrew(files, flags);
+  const [{ runJobFile }, { DEFAULT_MAX_MEMORY }] = await Promise.all([import('./run/run-job.js'), import('./plan/limits.js')]);
   const outcomes: JobOutcome[] = [];
   const namesInRun = new Map<string, string>();
   const stop = stopOnSignals();
@@ -222,6 +236,8 @@ async function runCommand(files: string[], flags: RunFlags): Promise<number> {
   try {
     for (const file of files) {
       if (stop.signal.aborted) break;
+      const crew = early;
+      early = null;
       try {
         outcomes.push(
           await runJobFile(file, {
@@ -234,6 +250,7 @@ async function runCommand(files: string[], flags: RunFlags): Promise<number> {
             signal: stop.signal,
             reporter,
             namesInRun,
+            ...(crew ? { crew } : {}),
           }),
         );
       } catch (e) {
@@ -242,10 +259,13 @@ async function runCommand(files: string[], flags: RunFlags): Promise<number> {
         console.error(error);
         outcomes.push({ file, cases: 0, done: 0, skipped: 0, failed: [], warnings: 0, error });
       } finally {
+        // (A job that could not be loaded never saw its crew; one that ran has taken or stopped it.)
+        await crew?.stop();
         stop.casesRunning(false);
       }
     }
   } finally {
+    await early?.stop();
     stop.dispose();
   }
   const bad = outcomes.filter((o) => o.error || o.reportError || o.failed.length > 0);

@@ -114,3 +114,9 @@ export const LIMITS = {
   /** Features below this many wavelengths get the scalar-theory warning; a judgement. */
   vectorFeature: 4,
 } as const;
+
+/**
+ * The default memory limit of a run (--max-memory). Here rather than in the planner so that the
+ * command line can start its workers before it loads the planner (run/crew.ts).
+ */
+export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;

@@ -10,7 +10,7 @@ import { apertureFacts } from '../optics/aperture.js';
 import { directionCosines } from '../optics/source.js';
 import { trimNumber } from '../job/units.js';
 import type { AxisPlan, Case, Checks, MethodForm, MethodName, MethodOption, Plan, Regime, Warning } from './types.js';
-import { LIMITS } from './limits.js';
+import { DEFAULT_MAX_MEMORY, LIMITS } from './limits.js';
 import { lensBeamRadius, lightModel, type LightModel } from './light.js';
 import { lensOf, phaseFrequencyOf } from '../elements/registry.js';
 import { lensParaxial, paraxialEstimate } from './paraxial.js';
@@ -56,7 +56,7 @@ export interface PlannerOptions {
   outputGrid?: OutputGrid;
 }
 
-export const DEFAULT_MAX_MEMORY = 4 * 1024 ** 3;
+export { DEFAULT_MAX_MEMORY };
 /** About an hour of one core (LIMITS.workPerSecond). */
 export const DEFAULT_MAX_WORK = 3600 * LIMITS.workPerSecond;
 

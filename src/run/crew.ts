@@ -3,13 +3,23 @@
 // own start-up and the modules a case needs) and a 100-case sweep took 2.6 s to plan in one thread;
 // started first, the workers' start-up overlaps the main thread's work, and the planning is shared,
 // instead of both coming one after the other before the first case.
+//
+// This module loads no planner until it must plan here itself (a worker stopped), so that the
+// command line can start a crew before it loads the rest of the program (cli.ts): the workers'
+// start-up then overlaps that loading too.
+import { existsSync } from 'node:fs';
 import { Worker } from 'node:worker_threads';
 import { fileURLToPath } from 'node:url';
 import type { Case, Plan } from '../plan/types.js';
-import { planCase, type PlannerOptions } from '../plan/planner.js';
+import type { PlannerOptions } from '../plan/planner.js';
 import type { FromWorker, ToWorker } from './worker.js';
 
 const WORKER_FILE = new URL('./worker.js', import.meta.url);
+
+/** Worker threads need the compiled worker module (as scheduler.ts workersAvailable). */
+export function crewAvailable(): boolean {
+  return existsSync(fileURLToPath(WORKER_FILE));
+}
 
 /**
  * The JS heap limit of a crew's workers (MiB). The scheduler gives a worker it starts itself the
@@ -33,6 +43,8 @@ interface Member {
 export interface Crew {
   /** The JS heap limit its workers were started with (MiB). */
   readonly heapMb: number;
+  /** How many workers it was started with. */
+  readonly size: number;
   /**
    * Plans the cases on the workers, a few cases per request, in case order; cases a worker that
    * stopped did not plan are planned in this thread. A planner error rejects, as planCase throws.
@@ -110,6 +122,7 @@ export function startCrew(n: number, opts: { maxMemoryBytes?: number } = {}): Cr
 
   return {
     heapMb: CREW_HEAP_MB,
+    size: n,
     async plan(cases, opts0) {
       const o = plannerOptions(opts0);
       const plans: (Plan | undefined)[] = new Array(cases.length);
@@ -137,6 +150,9 @@ export function startCrew(n: number, opts: { maxMemoryBytes?: number } = {}): Cr
       );
       if (failure) throw failure;
       // What no worker planned (none started, or one stopped): here, as without a crew.
+      // (includes, not every: every skips the holes of an array no worker filled.)
+      if (!plans.includes(undefined)) return plans as Plan[];
+      const { planCase } = await import('../plan/planner.js');
       return plans.map((p, i) => p ?? planCase(cases[i]!, opts0));
     },
     async take(n) {

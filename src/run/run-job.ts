@@ -61,6 +61,12 @@ export interface RunOptions extends PlannerOptions {
    * refusing, in ms (default LOCK_WAIT_MS, 30 s; 0 refuses at once). See run/lock.ts.
    */
   lockWaitMs?: number;
+  /**
+   * Workers the caller started for this job before loading it (run/crew.ts; the command line
+   * does, so that their start-up overlaps its own loading): the job takes them over as its crew,
+   * or stops them when it would start none (too few cases, no workers asked for).
+   */
+  crew?: Crew;
 }
 
 export interface JobOutcome {
@@ -127,7 +133,7 @@ export function caseLines(s: CaseSummary): string[] {
 }
 
 export async function runJob(loaded: LoadedJob, opts: RunOptions): Promise<JobOutcome> {
-  const held: { crew: Crew | null } = { crew: null };
+  const held: { crew: Crew | null } = { crew: opts.crew ?? null };
   try {
     return await runJobWith(loaded, opts, held);
   } finally {
@@ -173,7 +179,11 @@ async function runJobWith(loaded: LoadedJob, opts: RunOptions, held: { crew: Cre
     // --accept-large lifts the per-case time limit as it lifts the sweep's.
     const planOpts: PlannerOptions = opts.acceptLarge ? { ...opts, maxWork: Infinity } : opts;
     const size = crewSize(opts, cases.length);
-    if (size) held.crew = startCrew(size, opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {});
+    if (held.crew && held.crew.size !== size) {
+      await held.crew.stop();
+      held.crew = null;
+    }
+    if (size && !held.crew) held.crew = startCrew(size, opts.maxMemoryBytes !== undefined ? { maxMemoryBytes: opts.maxMemoryBytes } : {});
     const own = held.crew ? await held.crew.plan(cases, planOpts) : cases.map((c) => planCase(c, planOpts));
     // Runs of a sweep's cases on one grid where sharing it is cheaper (plan/shared-grids.ts).
     plans = shareGrids(cases, own, planOpts);
