@@ -10,7 +10,9 @@
 //   node bench/fft.mjs [--sizes 512,1024,1080,2048,2160,4096] [--runs N] [--no-scipy] [--no-fftw] [--json]
 //
 // Compared: fft2Reference of src/optics/fft.ts (fft.js rows and gathered columns), and fft2Interleaved /
-// fft2Split of src/optics/fft-fast.ts with each of its kernels (WebAssembly SIMD, TypeScript). Sizes
+// fft2Split of src/optics/fft-fast.ts with each of its kernels (native C where it was built,
+// WebAssembly SIMD, TypeScript); the native kernel on 2 threads (inside the call) and the
+// WebAssembly one with a team of 2 (worker threads) are compared with FFTW on 2 threads. Sizes
 // that are not powers of two (5-smooth: 1080 = 2³·3³·5, 2160, …, radix-3 and radix-5 stages) have
 // no fft.js row; their agreement is given against the TypeScript kernel instead. The
 // variants of one size run in turn, round after round, so that a slow spell of the machine falls on
@@ -168,11 +170,14 @@ function relDiff(ref, got) {
 }
 
 const engine = createEngine();
-const hasWasm = fastFftBackend(engine.kernel) === 'wasm-simd';
-// A team of 2 for the shared variant; the one-thread variants call the kernels directly, and data
-// in ordinary memory never goes to the team anyway.
+const hasWasm = engine.kernel.wasm !== null;
+const hasNative = (engine.kernel.native ?? null) !== null;
+if (!hasNative && !json) console.log(`(no native kernel: ${engine.kernel.nativeProblem})`);
+// A team of 2 (worker threads) on the WebAssembly kernel for its shared variant; the one-thread
+// variants call the kernels directly, and data in ordinary memory never goes to the team anyway.
+if (hasWasm) useFastFftBackend(engine.kernel, 'wasm-simd');
 const teamEngine = team && hasWasm ? await team.startFftTeam(2, engine) : engine;
-const threads = teamEngine.threads;
+const threads = Math.max(teamEngine.threads, hasNative ? 2 : 1);
 const rows = [];
 for (const n of sizes) {
   const N = n * n;
@@ -201,14 +206,21 @@ for (const n of sizes) {
   const pow2 = (n & (n - 1)) === 0;
   const variants = [
     ...(pow2 ? [{ name: 'fft.js fft2', setup: inter, run: () => fft2(d, n, n, false) }] : []),
+    ...(hasNative
+      ? [
+          { name: `native ${engine.kernel.native.isa()}`, backend: 'native', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false) },
+          { name: 'native, 2 threads', backend: 'native', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false, 2) },
+          { name: 'native split', backend: 'native', setup: split, run: () => fft2Split(engine.kernel, re, im, n, n, false) },
+        ]
+      : []),
     ...(hasWasm
       ? [
           { name: 'wasm interleaved', backend: 'wasm-simd', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false) },
           { name: 'wasm split', backend: 'wasm-simd', setup: split, run: () => fft2Split(engine.kernel, re, im, n, n, false) },
         ]
       : []),
-    ...(dShared
-      ? [{ name: `wasm, ${threads} threads`, backend: 'wasm-simd', setup: interShared, out: dShared, run: () => teamEngine.fft2(dShared, n, n, false) }]
+    ...(dShared && teamEngine.threads > 1
+      ? [{ name: `wasm, ${teamEngine.threads} threads`, backend: 'wasm-simd', setup: interShared, out: dShared, run: () => teamEngine.fft2(dShared, n, n, false) }]
       : []),
     { name: 'ts interleaved', backend: 'js', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false) },
     { name: 'ts split', backend: 'js', setup: split, run: () => fft2Split(engine.kernel, re, im, n, n, false) },
@@ -312,7 +324,7 @@ function printRow(row) {
   if (row.scipy2) console.log(`  ${`SciPy ${row.scipy2.version}`.padEnd(18)}${f(row.scipy2.medianMs)} (${row.scipy2.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=2)`);
 }
 
-if (threads > 1) await team.stopFftTeam();
+if (teamEngine.threads > 1) await team.stopFftTeam();
 if (fftwDir) rmSync(fftwDir, { recursive: true, force: true });
 if (json) console.log(JSON.stringify({ rows, scipyNote, fftwNote, threads }, null, 2));
 else {
