@@ -63,8 +63,10 @@ static int use_avx2(void) {
 #ifdef HAVE_AVX2_PATH
   static int known = -1;
   if (known < 0) {
+    /* SPOTCAST_NATIVE_GENERIC=1 runs the generic path here too (for its tests) */
+    const char *force = getenv("SPOTCAST_NATIVE_GENERIC");
     __builtin_cpu_init();
-    known = __builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma");
+    known = !(force && strcmp(force, "1") == 0) && __builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma");
   }
   return known;
 #else

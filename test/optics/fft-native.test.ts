@@ -6,6 +6,7 @@
 // practice for a parallel split of a deterministic kernel); loading in a worker thread; and the
 // fallback to the WebAssembly kernel, with its reason, when the native one is missing or wrong.
 // The transforms are skipped, with the reason, where the native kernel was not built.
+import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -138,6 +139,30 @@ describe.skipIf(!nativeBuilt)(`native kernel${nativeBuilt ? '' : ` (${NATIVE_SKI
       w.once('error', reject);
     });
     expect(sameBits(got, native(x, nx, ny, false, 1))).toBe(true);
+  });
+
+  it('its generic path (for processors without AVX2 and FMA; forced here in a child process) equals the DFT definition too', () => {
+    const shapes: [number, number][] = [[12, 10], [45, 6], [16, 8], [30, 1], [9, 25]];
+    const script = `
+      const m = require(${JSON.stringify(NATIVE_FILE)});
+      let s = 5;
+      const out = [];
+      for (const [nx, ny] of ${JSON.stringify(shapes)}) for (const inverse of [false, true]) for (const threads of [1, 2]) {
+        const x = new Float64Array(2 * nx * ny).map(() => (s = (Math.imul(s, 1103515245) + 12345) >>> 0) / 2 ** 32 - 0.5);
+        const y = x.slice();
+        m.fft2(y, nx, ny, inverse, threads);
+        out.push({ nx, ny, inverse, threads, x: [...x], y: [...y] });
+      }
+      console.log(JSON.stringify({ isa: m.isa(), out }));`;
+    const r = spawnSync(process.execPath, ['-e', script], { encoding: 'utf8', env: { ...process.env, SPOTCAST_NATIVE_GENERIC: '1' }, maxBuffer: 1 << 26 });
+    expect(r.stderr).toBe('');
+    const got = JSON.parse(r.stdout) as { isa: string; out: { nx: number; ny: number; inverse: boolean; threads: number; x: number[]; y: number[] }[] };
+    expect(got.isa).toBe('generic');
+    expect(got.out.length).toBe(shapes.length * 4);
+    for (const c of got.out) {
+      const ref = directDft(Float64Array.from(c.x), c.nx, c.ny, c.inverse);
+      expect(relErr(ref, Float64Array.from(c.y)), `${c.nx}×${c.ny} ${c.inverse}, ${c.threads} threads`).toBeLessThan(TOL);
+    }
   });
 
   it('refuses sizes with other prime factors and arrays of the wrong length, from the module itself', () => {
