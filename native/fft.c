@@ -24,6 +24,10 @@
 #define LANES 8
 /* Rows ahead that the column gather prefetches. */
 #define COL_AHEAD 8
+/* Column blocks gathered together in one visit of each row (AVX2 path). */
+#ifndef COL_GROUP
+#define COL_GROUP 2
+#endif
 
 typedef struct Plan {
   int n;
@@ -31,6 +35,7 @@ typedef struct Plan {
   int nodd;
   int odd[64]; /* the odd radices in the order they run: the 3s, then the 5s */
   uint32_t *rev;
+  uint32_t *inv; /* its inverse (rev itself for a power of two) */
   double *tw;
 } Plan;
 
@@ -120,6 +125,12 @@ static Plan *build_plan(int n) {
   free(next);
   next = NULL;
   pl->rev = rev;
+  if (pl->nodd == 0) pl->inv = rev;
+  else {
+    pl->inv = malloc(sizeof(uint32_t) * n);
+    if (!pl->inv) goto fail;
+    for (int i = 0; i < n; i++) pl->inv[rev[i]] = i;
+  }
   long len = 0;
   if (P > 1)
     for (int L4 = (bits & 1) ? 2 : 4; L4 < P; L4 *= 4) len += 6 * L4;
@@ -144,6 +155,8 @@ static Plan *build_plan(int n) {
   }
   return pl;
 fail:
+  if (pl->inv != rev) free(pl->inv);
+  free(pl->tw);
   free(rev);
   free(next);
   free(pl);
@@ -188,7 +201,7 @@ typedef struct Job {
 static void *run_job(void *arg) {
   Job *j = arg;
   const Plan *pl = j->what == 0 ? j->px : j->py;
-  double *s = aligned_alloc(64, sizeof(double) * 2 * LANES * (size_t)pl->n);
+  double *s = aligned_alloc(64, sizeof(double) * 2 * LANES * (size_t)pl->n * (j->what == 1 ? COL_GROUP : 1));
   if (!s) {
     j->failed = 1;
     return NULL;
@@ -214,6 +227,11 @@ static void *run_job(void *arg) {
       if (count > j->b - c) count = j->b - c;
       int ahead = j->b - c >= 2 * LANES;
 #ifdef HAVE_AVX2_PATH
+      if (avx && COL_GROUP > 1 && c >= j->first && j->b - c >= COL_GROUP * LANES) {
+        colGroup_avx2(j->data, j->nx, (int)(j->c0 + c), pl, s, j->inverse, scale);
+        count = COL_GROUP * LANES;
+        continue;
+      }
       if (avx) colBlock_avx2(j->data, j->nx, (int)(j->c0 + c), count, pl, s, j->inverse, scale, ahead);
       else
 #endif

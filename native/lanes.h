@@ -220,9 +220,12 @@ static void NAME(rowBlock)(double *src, long rowStride, int count, const Plan *p
 #if VL == 4 && LANES == 8
     /* Two rows' points into one vector, then re and im apart: lanes land in the order 0 2 1 3
        (and 4 6 5 7), which the scatter below undoes. */
-    for (int i = 0; i < n; i++) {
-      const double *f = src + 2 * (long)rev[i];
-      double *to = s + i * PS;
+    /* The rows are read in order (streams the hardware prefetches), the points written to their
+       permuted places in the scratch (which is in cache). */
+    const uint32_t *inv = pl->inv;
+    for (int j = 0; j < n; j++) {
+      const double *f = src + 2 * (long)j;
+      double *to = s + inv[j] * PS;
       __m256d a = _mm256_loadu2_m128d(f + rowStride, f), b = _mm256_loadu2_m128d(f + 3 * rowStride, f + 2 * rowStride);
       __m256d c = _mm256_loadu2_m128d(f + 5 * rowStride, f + 4 * rowStride), d = _mm256_loadu2_m128d(f + 7 * rowStride, f + 6 * rowStride);
       _mm256_store_pd(to, _mm256_unpacklo_pd(a, b));
@@ -369,6 +372,62 @@ static void NAME(colBlock)(double *data, long nx, int c, int count, const Plan *
     }
   }
 }
+
+#if VL == 4 && LANES == 8
+/*
+ * COL_GROUP blocks of LANES adjacent columns from c (whole blocks), gathered in one visit of each
+ * row: every row is a page or more away from the next when rows are long, so each visit costs an
+ * address translation, shared here by the group. Block g lives at s + g·n·PS; each is then
+ * transformed and scattered as colBlock does.
+ */
+static void NAME(colGroup)(double *data, long nx, int c, const Plan *pl, double *s, int inverse, double scale) {
+  const int n = pl->n;
+  const uint32_t *rev = pl->rev;
+  const long area = (long)n * PS;
+  for (int i = 0; i < n; i++) {
+    const double *f = data + 2 * ((long)rev[i] * nx + c);
+    if (i + COL_AHEAD < n) {
+      const double *g = data + 2 * ((long)rev[i + COL_AHEAD] * nx + c);
+      for (int k = 0; k <= 2 * LANES * COL_GROUP; k += 8) __builtin_prefetch(g + k, 0, 3);
+    }
+    for (int g = 0; g < COL_GROUP; g++, f += 2 * LANES) {
+      double *to = s + g * area + i * PS;
+      __m256d a = _mm256_loadu_pd(f), b = _mm256_loadu_pd(f + 4), cc = _mm256_loadu_pd(f + 8), d = _mm256_loadu_pd(f + 12);
+      _mm256_store_pd(to, _mm256_unpacklo_pd(a, b));
+      _mm256_store_pd(to + 4, _mm256_unpacklo_pd(cc, d));
+      _mm256_store_pd(to + 8, _mm256_unpackhi_pd(a, b));
+      _mm256_store_pd(to + 12, _mm256_unpackhi_pd(cc, d));
+    }
+  }
+  for (int g = 0; g < COL_GROUP; g++) {
+    double *re = s + g * area, *im = re + LANES;
+    if (inverse) NAME(lanes)(im, re, pl);
+    else NAME(lanes)(re, im, pl);
+  }
+  const __m256d k = _mm256_set1_pd(scale);
+  const int stream = ((uintptr_t)(data + 2 * c) & 63) == 0 && (nx & 3) == 0;
+  for (int i = 0; i < n; i++) {
+    double *t = data + 2 * ((long)i * nx + c);
+    for (int g = 0; g < COL_GROUP; g++, t += 2 * LANES) {
+      const double *from = s + g * area + i * PS;
+      __m256d r0 = _mm256_load_pd(from), r1 = _mm256_load_pd(from + 4), i0 = _mm256_load_pd(from + 8), i1 = _mm256_load_pd(from + 12);
+      if (scale != 1) r0 *= k, r1 *= k, i0 *= k, i1 *= k;
+      if (stream) {
+        _mm256_stream_pd(t, _mm256_unpacklo_pd(r0, i0));
+        _mm256_stream_pd(t + 4, _mm256_unpackhi_pd(r0, i0));
+        _mm256_stream_pd(t + 8, _mm256_unpacklo_pd(r1, i1));
+        _mm256_stream_pd(t + 12, _mm256_unpackhi_pd(r1, i1));
+      } else {
+        _mm256_storeu_pd(t, _mm256_unpacklo_pd(r0, i0));
+        _mm256_storeu_pd(t + 4, _mm256_unpackhi_pd(r0, i0));
+        _mm256_storeu_pd(t + 8, _mm256_unpacklo_pd(r1, i1));
+        _mm256_storeu_pd(t + 12, _mm256_unpackhi_pd(r1, i1));
+      }
+    }
+  }
+  if (stream) _mm_sfence();
+}
+#endif
 
 #undef V
 #undef VU
