@@ -22,6 +22,13 @@
 
 /* Transforms side by side in the scratch: 8 doubles = two 256-bit vectors per plane and point. */
 #define LANES 8
+/* Points per chunk of the early stages (a power of two; 8 lanes: 128 bytes per point, 32 KB). */
+#ifndef CHUNK
+#define CHUNK 256
+#endif
+#if CHUNK < 4 || (CHUNK & (CHUNK - 1))
+#error "CHUNK must be a power of two of at least 4 (the first stage takes 4 points)"
+#endif
 /* Rows ahead that the column gather prefetches. */
 #define COL_AHEAD 8
 /* Column blocks gathered together in one visit of each row (AVX2 path). */

@@ -187,9 +187,21 @@ static void NAME(lanes)(double *re, double *im, const Plan *pl) {
   if (P > 1) {
     int l2 = 0;
     while ((1 << l2) < P) l2++;
-    NAME(first)(re, im, n, !(l2 & 1));
+    /* The stages that combine at most CHUNK points run chunk by chunk, each chunk staying in the
+       first-level cache through them; the later stages then go over the whole scratch. */
+    int C = P < CHUNK ? P : CHUNK;
+    int Lend = (l2 & 1) ? 2 : 4;
+    while (4 * Lend <= C) Lend *= 4;
+    for (int o = 0; o < n; o += C) {
+      const double *t = tw;
+      NAME(first)(re + o * PS, im + o * PS, C, !(l2 & 1));
+      for (int L = (l2 & 1) ? 2 : 4; L < Lend; L *= 4) {
+        NAME(radix4)(re + o * PS, im + o * PS, C, L, t);
+        t += 6 * L;
+      }
+    }
     for (int L = (l2 & 1) ? 2 : 4; L < P; L *= 4) {
-      NAME(radix4)(re, im, n, L, tw);
+      if (L >= Lend) NAME(radix4)(re, im, n, L, tw);
       tw += 6 * L;
     }
   }
