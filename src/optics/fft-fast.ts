@@ -40,11 +40,12 @@ export function fft2Split(k: FftKernel, re: Float64Array, im: Float64Array, nx: 
   if (re.length !== nx * ny || im.length !== nx * ny) {
     throw new Error(`fft2Split: planes of ${re.length} and ${im.length} values for a ${nx}×${ny} grid`);
   }
-  if (k.backend === 'native') {
+  const b = backendFor(k, nx, ny);
+  if (b === 'native') {
     nativeSplit(k, re, im, nx, ny, inverse);
     return;
   }
-  if (k.backend === 'wasm-simd' && wasmSplit(k, re, im, nx, ny, inverse)) return;
+  if (b === 'wasm-simd' && wasmSplit(k, re, im, nx, ny, inverse)) return;
   jsSplit(k, re, im, nx, ny, inverse);
 }
 
@@ -57,11 +58,12 @@ export function fft2Interleaved(k: FftKernel, data: Float64Array, nx: number, ny
   if (data.length !== 2 * nx * ny) {
     throw new Error(`fft2Interleaved: ${data.length} values for a ${nx}×${ny} complex grid`);
   }
-  if (k.backend === 'native') {
+  const b = backendFor(k, nx, ny);
+  if (b === 'native') {
     k.native!.fft2(data, nx, ny, inverse, threads);
     return;
   }
-  if (k.backend === 'wasm-simd' && wasmInterleaved(k, data, nx, ny, inverse)) return;
+  if (b === 'wasm-simd' && wasmInterleaved(k, data, nx, ny, inverse)) return;
   jsInterleaved(k, data, nx, ny, inverse);
 }
 
@@ -82,8 +84,10 @@ export function transformRows(
   commit?: () => boolean,
 ): boolean {
   checkPiece(src, dst, nx, ny, r0, r1, ny, 'rows');
-  if (k.backend === 'native') return nativeRows(k, src, dst, nx, r0, r1, inverse, commit);
-  if (k.backend === 'wasm-simd') {
+  // (the kernel fft2Interleaved uses for the whole transform, so that the parts give its bits)
+  const b = backendFor(k, nx, ny);
+  if (b === 'native') return nativeRows(k, src, dst, nx, r0, r1, inverse, commit);
+  if (b === 'wasm-simd') {
     const done = wasmRows(k, src, dst, nx, r0, r1, inverse, commit);
     if (done !== null) return done;
   }
@@ -107,8 +111,9 @@ export function transformColumns(
     if (dst !== src) dst.set(src.subarray(2 * c0, 2 * c1), 2 * c0);
     return true;
   }
-  if (k.backend === 'native') return nativeCols(k, src, dst, nx, ny, c0, c1, inverse, commit);
-  if (k.backend === 'wasm-simd') {
+  const b = backendFor(k, nx, ny);
+  if (b === 'native') return nativeCols(k, src, dst, nx, ny, c0, c1, inverse, commit);
+  if (b === 'wasm-simd') {
     const done = wasmCols(k, src, dst, nx, ny, c0, c1, inverse, commit);
     if (done !== null) return done;
   }
@@ -134,6 +139,23 @@ function checkPiece(
  */
 function wasmBlock(width: number): number {
   return width >= WASM_BLOCK ? WASM_BLOCK : width + (width & 1);
+}
+
+/**
+ * The native kernel transforms NATIVE_LANES rows (or columns) side by side: fewer rows than that
+ * leave lanes empty (a 1-D transform: 7 of 8, measured 3-4 times slower than the WebAssembly
+ * kernel at 2^16-2^20 points), so such transforms go to the WebAssembly kernel when it is there.
+ * Its scratch is 128 bytes per point, so axes longer than NATIVE_MAX_N go there too.
+ */
+const NATIVE_LANES = 8;
+const NATIVE_MAX_N = 2 ** 20;
+
+/** The kernel `k` runs an ny×nx transform on (n = nx, count = ny), its parts included. */
+function backendFor(k: FftKernel, n: number, count: number): FastFftBackend {
+  if (k.backend !== 'native') return k.backend;
+  if (n > NATIVE_MAX_N || count > NATIVE_MAX_N) return k.wasm ? 'wasm-simd' : 'js';
+  if (count < NATIVE_LANES && k.wasm) return 'wasm-simd';
+  return 'native';
 }
 
 /** The kernel `k` uses: 'native' or 'wasm-simd' when it was made with them (and they work), else 'js'. */

@@ -36,9 +36,10 @@ function relErr(ref: Float64Array, got: Float64Array): number {
 
 describe.skipIf(!nativeBuilt)(`native kernel${nativeBuilt ? '' : ` (${NATIVE_SKIP})`}`, () => {
   const kernel = createKernel();
+  // The module itself (fft2Interleaved sends 1-D and fewer than 8 rows to the WebAssembly kernel, below).
   const native = (x: Float64Array, nx: number, ny: number, inverse: boolean, threads: number) => {
     const y = x.slice();
-    fft2Interleaved(kernel, y, nx, ny, inverse, threads);
+    kernel.native!.fft2(y, nx, ny, inverse, threads);
     return y;
   };
 
@@ -119,6 +120,19 @@ describe.skipIf(!nativeBuilt)(`native kernel${nativeBuilt ? '' : ` (${NATIVE_SKI
       const what = `${nx}×${ny} ${inverse ? 'inverse' : 'forward'}, ${threads} threads, offset ${skip}`;
       expect(relErr(want, d), what).toBeLessThan(TOL);
       expect([...buf.subarray(0, skip), ...buf.subarray(skip + d.length)].every((v) => v === 9), what).toBe(true);
+    }
+  });
+
+  it('fft2Interleaved runs it from 8 rows up, and sends 1-D and fewer rows to the WebAssembly kernel (same bits as that kernel)', () => {
+    const wasm = createKernel();
+    useFastFftBackend(wasm, 'wasm-simd');
+    for (const [nx, ny, viaNative] of [[4096, 1, false], [1080, 6, false], [64, 8, true], [1080, 24, true]] as [number, number, boolean][]) {
+      const x = randomComplex(nx * ny, nx + 3 * ny);
+      const got = x.slice();
+      fft2Interleaved(kernel, got, nx, ny, false);
+      const w = x.slice();
+      fft2Interleaved(wasm, w, nx, ny, false);
+      expect(sameBits(got, viaNative ? native(x, nx, ny, false, 1) : w), `${nx}×${ny}`).toBe(true);
     }
   });
 
