@@ -7,10 +7,13 @@
 // FFTW's development headers are on the machine (Debian: libfftw3-dev): bench/fftw/fft2.c is
 // compiled here into a temporary directory. FFTW is a yardstick only, never a dependency of the
 // program or its tests; without it the rows are skipped with a note.
-//   node bench/fft.mjs [--sizes 512,1024,1080,2048,2160,4096] [--runs N] [--no-scipy] [--no-fftw] [--json]
+//   node bench/fft.mjs [--sizes 512,1024,1080,2048,2160,4096] [--runs N] [--no-scipy] [--no-fftw] [--json] [--fast-only]
+// (--fast-only: only the native and WebAssembly rows, leaving out fft.js and the TypeScript kernel)
 //
 // Compared: fft2Reference of src/optics/fft.ts (fft.js rows and gathered columns), and fft2Interleaved /
-// fft2Split of src/optics/fft-fast.ts with each of its kernels (WebAssembly SIMD, TypeScript). Sizes
+// fft2Split of src/optics/fft-fast.ts with each of its kernels (native C where it was built,
+// WebAssembly SIMD, TypeScript); the native kernel on 2 threads (inside the call) and the
+// WebAssembly one with a team of 2 (worker threads) are compared with FFTW on 2 threads. Sizes
 // that are not powers of two (5-smooth: 1080 = 2³·3³·5, 2160, …, radix-3 and radix-5 stages) have
 // no fft.js row; their agreement is given against the TypeScript kernel instead. The
 // variants of one size run in turn, round after round, so that a slow spell of the machine falls on
@@ -41,6 +44,7 @@ const sizes = opt('--sizes', '512,1024,1080,2048,2160,4096').split(',').map(Numb
 const runsArg = opt('--runs', null);
 const withScipy = !args.includes('--no-scipy');
 const withFftw = !args.includes('--no-fftw');
+const fastOnly = args.includes('--fast-only');
 
 const runsFor = (n) => (runsArg ? Number(runsArg) : n <= 1024 ? 15 : n <= 2048 ? 9 : 5);
 const median = (xs) => {
@@ -148,7 +152,8 @@ async function fftwStart(n, threads) {
       child.stdin.write('r\n');
       const line = await next();
       if (line === null) throw new Error(`FFTW: ${failed}`);
-      return Number(line);
+      const [wall, cpu] = line.split(' ').map(Number);
+      return { wall, cpu };
     },
     async stop() {
       child.stdin.end();
@@ -168,11 +173,14 @@ function relDiff(ref, got) {
 }
 
 const engine = createEngine();
-const hasWasm = fastFftBackend(engine.kernel) === 'wasm-simd';
-// A team of 2 for the shared variant; the one-thread variants call the kernels directly, and data
-// in ordinary memory never goes to the team anyway.
+const hasWasm = engine.kernel.wasm !== null;
+const hasNative = (engine.kernel.native ?? null) !== null;
+if (!hasNative && !json) console.log(`(no native kernel: ${engine.kernel.nativeProblem})`);
+// A team of 2 (worker threads) on the WebAssembly kernel for its shared variant; the one-thread
+// variants call the kernels directly, and data in ordinary memory never goes to the team anyway.
+if (hasWasm) useFastFftBackend(engine.kernel, 'wasm-simd');
 const teamEngine = team && hasWasm ? await team.startFftTeam(2, engine) : engine;
-const threads = teamEngine.threads;
+const threads = Math.max(teamEngine.threads, hasNative ? 2 : 1);
 const rows = [];
 for (const n of sizes) {
   const N = n * n;
@@ -199,20 +207,28 @@ for (const n of sizes) {
     im.set(origIm);
   };
   const pow2 = (n & (n - 1)) === 0;
-  const variants = [
+  const allVariants = [
     ...(pow2 ? [{ name: 'fft.js fft2', setup: inter, run: () => fft2(d, n, n, false) }] : []),
+    ...(hasNative
+      ? [
+          { name: `native ${engine.kernel.native.isa()}`, backend: 'native', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false) },
+          { name: 'native, 2 threads', backend: 'native', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false, 2) },
+          { name: 'native split', backend: 'native', setup: split, run: () => fft2Split(engine.kernel, re, im, n, n, false) },
+        ]
+      : []),
     ...(hasWasm
       ? [
           { name: 'wasm interleaved', backend: 'wasm-simd', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false) },
           { name: 'wasm split', backend: 'wasm-simd', setup: split, run: () => fft2Split(engine.kernel, re, im, n, n, false) },
         ]
       : []),
-    ...(dShared
-      ? [{ name: `wasm, ${threads} threads`, backend: 'wasm-simd', setup: interShared, out: dShared, run: () => teamEngine.fft2(dShared, n, n, false) }]
+    ...(dShared && teamEngine.threads > 1
+      ? [{ name: `wasm, ${teamEngine.threads} threads`, backend: 'wasm-simd', setup: interShared, out: dShared, run: () => teamEngine.fft2(dShared, n, n, false) }]
       : []),
     { name: 'ts interleaved', backend: 'js', setup: inter, run: () => fft2Interleaved(engine.kernel, d, n, n, false) },
     { name: 'ts split', backend: 'js', setup: split, run: () => fft2Split(engine.kernel, re, im, n, n, false) },
   ];
+  const variants = fastOnly ? allVariants.filter((v) => v.backend === 'native' || v.backend === 'wasm-simd') : allVariants;
 
   // Agreement with fft.js (other sizes: with the TypeScript kernel), checked on this data before timing.
   inter();
@@ -222,7 +238,7 @@ for (const n of sizes) {
     fft2Interleaved(engine.kernel, d, n, n, false);
   }
   const ref = d.slice();
-  for (const v of variants.slice(pow2 ? 1 : 0)) {
+  for (const v of variants.filter((v) => v.name !== 'fft.js fft2')) {
     useFastFftBackend(engine.kernel, v.backend);
     v.setup();
     v.run();
@@ -239,26 +255,36 @@ for (const n of sizes) {
 
   const runs = runsFor(n);
   const times = variants.map(() => []);
+  const cpus = variants.map(() => []);
   // FFTW on one thread and on two, planned before the rounds, run in each round after the variants.
   const fftws = [];
   for (const th of [1, threads > 1 ? 2 : 0]) {
     if (!th) continue;
     const f = await fftwStart(n, th);
-    if (f) fftws.push({ threads: th, f, times: [] });
+    if (f) fftws.push({ threads: th, f, times: [], cpus: [] });
   }
   for (let round = 0; round < runs + 2; round++) {
     for (let k = 0; k < variants.length; k++) {
       const v = variants[k];
       if (v.backend) useFastFftBackend(engine.kernel, v.backend);
       v.setup();
+      const c0 = process.cpuUsage();
       const t0 = performance.now();
       v.run();
       const t = performance.now() - t0;
-      if (round >= 2) times[k].push(t); // the first two rounds warm up
+      const c = process.cpuUsage(c0);
+      if (round >= 2) {
+        // the first two rounds warm up
+        times[k].push(t);
+        cpus[k].push((c.user + c.system) / 1000);
+      }
     }
     for (const x of fftws) {
       const t = await x.f.run();
-      if (round >= 2) x.times.push(t);
+      if (round >= 2) {
+        x.times.push(t.wall);
+        x.cpus.push(t.cpu);
+      }
     }
   }
   for (const x of fftws) await x.f.stop();
@@ -269,7 +295,7 @@ for (const n of sizes) {
   // FFTW's X[0, 1] against ours: the same transform of the same data (a check that it is, not of accuracy).
   const fftwX1 = (i) => Math.hypot(i.x1[0] - ref[2], i.x1[1] - ref[3]) / Math.hypot(ref[2], ref[3]);
   const fftwRow = (x) =>
-    x ? { medianMs: median(x.times), minMs: Math.min(...x.times), planMs: x.f.info.planMs, version: x.f.info.version, x1RelDiff: fftwX1(x.f.info) } : null;
+    x ? { medianMs: median(x.times), minMs: Math.min(...x.times), cpuMedianMs: median(x.cpus), planMs: x.f.info.planMs, version: x.f.info.version, x1RelDiff: fftwX1(x.f.info) } : null;
   const row = {
     n,
     runs,
@@ -283,8 +309,8 @@ for (const n of sizes) {
     const m = median(times[k]);
     const yard = v.name.includes('threads') ? row.fftw2 : row.fftw;
     row.variants[v.name] = {
-      medianMs: m, minMs: Math.min(...times[k]), [pow2 ? 'maxRelDiffVsFftJs' : 'maxRelDiffVsTs']: v.diff ?? 0,
-      ...(yard ? { vsFftw: m / yard.medianMs } : {}),
+      medianMs: m, minMs: Math.min(...times[k]), cpuMedianMs: median(cpus[k]), [pow2 ? 'maxRelDiffVsFftJs' : 'maxRelDiffVsTs']: v.diff ?? 0,
+      ...(yard ? { vsFftw: m / yard.medianMs, vsFftwMin: Math.min(...times[k]) / yard.minMs, cpuVsFftw: median(cpus[k]) / yard.cpuMedianMs } : {}),
     };
   });
   rows.push(row);
@@ -294,25 +320,27 @@ for (const n of sizes) {
 function printRow(row) {
   const f = (x) => x.toFixed(1).padStart(8);
   if (row === rows[0]) {
-    console.log(`2-D complex FFT, n×n, forward, one thread (and a team of threads where said); median (min) ms over the runs shown; max |Δ|/max|x| vs fft.js (vs the TypeScript kernel where fft.js does not take the size)`);
+    console.log(`2-D complex FFT, n×n, forward, one thread (and a team of threads where said); median (min) ms over the runs shown; ratios to FFTW of the medians (of the mins, of the processor time of all threads: the fairest on a busy machine for one thread); max |Δ|/max|x| vs fft.js (vs the TypeScript kernel where fft.js does not take the size)`);
   }
   console.log(`\n${row.n}×${row.n} (${row.runs} runs)`);
   for (const [name, v] of Object.entries(row.variants)) {
     const yard = name.includes('threads') ? row.scipy2 : row.scipy;
     const ratio = yard ? `  ${(v.medianMs / yard.medianMs).toFixed(2)}× SciPy${name.includes('threads') ? ' workers=2' : ''}` : '';
-    const fr = v.vsFftw !== undefined ? `  ${v.vsFftw.toFixed(2)}× FFTW${name.includes('threads') ? ' 2 threads' : ''}` : '';
+    const fr = v.vsFftw !== undefined
+      ? `  ${v.vsFftw.toFixed(2)}× FFTW${name.includes('threads') ? ' 2 threads' : ''} (min ${v.vsFftwMin.toFixed(2)}×, cpu ${v.cpuVsFftw.toFixed(2)}×)`
+      : '';
     const vs = v.maxRelDiffVsFftJs ?? v.maxRelDiffVsTs;
     const diff = name === 'fft.js fft2' ? '' : `  Δ ${vs.toExponential(1)}${v.maxRelDiffVsTs !== undefined ? ' vs ts' : ''}`;
     console.log(`  ${name.padEnd(18)}${f(v.medianMs)} (${v.minMs.toFixed(1)})${fr}${ratio}${diff}`);
   }
   const fx = (r) => (r.x1RelDiff !== null && r.x1RelDiff < 1e-12 ? 'X[0,1] agrees' : `X[0,1] differs by ${r.x1RelDiff?.toExponential(1)}`);
-  if (row.fftw) console.log(`  ${'FFTW 1 thread'.padEnd(18)}${f(row.fftw.medianMs)} (${row.fftw.minMs.toFixed(1)})  ${row.fftw.version}, FFTW_MEASURE, in place; ${fx(row.fftw)}`);
-  if (row.fftw2) console.log(`  ${'FFTW 2 threads'.padEnd(18)}${f(row.fftw2.medianMs)} (${row.fftw2.minMs.toFixed(1)})  the same, fftw_plan_with_nthreads(2)`);
+  if (row.fftw) console.log(`  ${'FFTW 1 thread'.padEnd(18)}${f(row.fftw.medianMs)} (${row.fftw.minMs.toFixed(1)}) cpu ${row.fftw.cpuMedianMs.toFixed(1)}  ${row.fftw.version}, FFTW_MEASURE, in place; ${fx(row.fftw)}`);
+  if (row.fftw2) console.log(`  ${'FFTW 2 threads'.padEnd(18)}${f(row.fftw2.medianMs)} (${row.fftw2.minMs.toFixed(1)}) cpu ${row.fftw2.cpuMedianMs.toFixed(1)}  the same, fftw_plan_with_nthreads(2)`);
   if (row.scipy) console.log(`  ${`SciPy ${row.scipy.version}`.padEnd(18)}${f(row.scipy.medianMs)} (${row.scipy.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=1)`);
   if (row.scipy2) console.log(`  ${`SciPy ${row.scipy2.version}`.padEnd(18)}${f(row.scipy2.medianMs)} (${row.scipy2.minMs.toFixed(1)})  scipy.fft.fft2(a, workers=2)`);
 }
 
-if (threads > 1) await team.stopFftTeam();
+if (teamEngine.threads > 1) await team.stopFftTeam();
 if (fftwDir) rmSync(fftwDir, { recursive: true, force: true });
 if (json) console.log(JSON.stringify({ rows, scipyNote, fftwNote, threads }, null, 2));
 else {

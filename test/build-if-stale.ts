@@ -35,6 +35,14 @@ export function staleBuild(repo: string): string | null {
     if (t < mtime(ts)) return `${relative(repo, ts)} is newer than ${relative(repo, out)}`;
     if (t < settings) return `the build settings are newer than ${relative(repo, out)}`;
   }
+  // The optional native kernel: stale when built and older than its sources (when it is not built,
+  // the machine may have no compiler, and a rebuild would not make it).
+  const native = join(repo, 'dist', 'native', 'spotcast-fft.node');
+  if (existsSync(native)) {
+    for (const c of files(join(repo, 'native'), (p) => /\.(c|h|mjs)$/.test(p))) {
+      if (mtime(native) < mtime(c)) return `${relative(repo, c)} is newer than ${relative(repo, native)}`;
+    }
+  }
   return null;
 }
 

@@ -9,7 +9,8 @@
  * Plans, then transforms the same pseudo-random data as bench/fft.mjs once and prints one line of
  * JSON: {"n":…,"threads":…,"planMs":…,"x1":[re, im of X[0,1]],"version":"…"}. Then, for each line
  * read on stdin, restores the data (outside the timing, as bench/fft.mjs does), times one
- * transform and prints the milliseconds on a line of its own; it ends at end of input. So the
+ * transform and prints the milliseconds of wall-clock and of processor time (all threads) on a
+ * line of its own; it ends at end of input. So the
  * bench can run FFTW in the same rounds as its own variants, one after another.
  */
 #include <fftw3.h>
@@ -18,11 +19,12 @@
 #include <string.h>
 #include <time.h>
 
-static double now_ms(void) {
+static double clock_ms(clockid_t c) {
   struct timespec t;
-  clock_gettime(CLOCK_MONOTONIC, &t);
+  clock_gettime(c, &t);
   return t.tv_sec * 1e3 + t.tv_nsec * 1e-6;
 }
+static double now_ms(void) { return clock_ms(CLOCK_MONOTONIC); }
 
 int main(int argc, char **argv) {
   if (argc < 3) {
@@ -57,9 +59,10 @@ int main(int argc, char **argv) {
   char line[64];
   while (fgets(line, sizeof line, stdin)) {
     memcpy(a, orig, 2 * N * sizeof(double));
-    double s = now_ms();
+    double s = now_ms(), c = clock_ms(CLOCK_PROCESS_CPUTIME_ID);
     fftw_execute(p);
-    printf("%.4f\n", now_ms() - s);
+    double wall = now_ms() - s;
+    printf("%.4f %.4f\n", wall, clock_ms(CLOCK_PROCESS_CPUTIME_ID) - c);
     fflush(stdout);
   }
   fftw_destroy_plan(p);

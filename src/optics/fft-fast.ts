@@ -12,7 +12,15 @@
 // - 'js': the same algorithm in TypeScript on split Float64Arrays; used when the WebAssembly file
 //   is not installed or cannot be compiled, or when memory for it cannot be had.
 //
-// Both: decimation in time on split real and imaginary planes. n = P·Q with P the power of two in
+// - 'native': the same algorithm in C (native/fft.c, built by `npm run build:native` when the
+//   machine has a C compiler and Node's headers; AVX2 + FMA when the processor has them), loaded by
+//   src/kernels.ts and handed to createFftKernel. It works in place on the caller's array, blocks of
+//   8 rows or 8 adjacent columns at a time, and shares one transform between threads itself
+//   (pthreads inside the call: fft2Interleaved's `threads`). Preferred when it loads and passes a
+//   self-check against the TypeScript kernel; its bits differ from the other two kernels' in the
+//   last places (fused multiply-adds), and are the same for any number of threads.
+//
+// All: decimation in time on split real and imaginary planes. n = P·Q with P the power of two in
 // n: radix-4 stages (one radix-2 stage first when log2 P is odd) make the Q transforms of length P,
 // then radix-3 stages, then radix-5 stages, combine them. The input permutation (bit reversal for a
 // power of two, mixed-radix digit reversal otherwise) is done while gathering; twiddles and
@@ -21,7 +29,7 @@
 // exchanged. For a power of two the arithmetic is exactly that of the radix-4 kernel alone.
 import { isFastFftSize } from './fft.js';
 
-export type FastFftBackend = 'wasm-simd' | 'js';
+export type FastFftBackend = 'native' | 'wasm-simd' | 'js';
 
 /**
  * In-place 2-D FFT of an ny×nx complex array held as two planes of nx·ny values each (row-major).
@@ -32,17 +40,30 @@ export function fft2Split(k: FftKernel, re: Float64Array, im: Float64Array, nx: 
   if (re.length !== nx * ny || im.length !== nx * ny) {
     throw new Error(`fft2Split: planes of ${re.length} and ${im.length} values for a ${nx}×${ny} grid`);
   }
-  if (k.backend === 'wasm-simd' && wasmSplit(k, re, im, nx, ny, inverse)) return;
+  const b = backendFor(k, nx, ny);
+  if (b === 'native') {
+    nativeSplit(k, re, im, nx, ny, inverse);
+    return;
+  }
+  if (b === 'wasm-simd' && wasmSplit(k, re, im, nx, ny, inverse)) return;
   jsSplit(k, re, im, nx, ny, inverse);
 }
 
-/** Drop-in for fft2 in ./fft.ts: in-place 2-D FFT of an ny×nx interleaved (re, im, …) array. */
-export function fft2Interleaved(k: FftKernel, data: Float64Array, nx: number, ny: number, inverse: boolean): void {
+/**
+ * Drop-in for fft2 in ./fft.ts: in-place 2-D FFT of an ny×nx interleaved (re, im, …) array.
+ * `threads` (the native kernel only) share the transform; the result is the same for any number.
+ */
+export function fft2Interleaved(k: FftKernel, data: Float64Array, nx: number, ny: number, inverse: boolean, threads = 1): void {
   checkShape(nx, ny);
   if (data.length !== 2 * nx * ny) {
     throw new Error(`fft2Interleaved: ${data.length} values for a ${nx}×${ny} complex grid`);
   }
-  if (k.backend === 'wasm-simd' && wasmInterleaved(k, data, nx, ny, inverse)) return;
+  const b = backendFor(k, nx, ny);
+  if (b === 'native') {
+    k.native!.fft2(data, nx, ny, inverse, threads);
+    return;
+  }
+  if (b === 'wasm-simd' && wasmInterleaved(k, data, nx, ny, inverse)) return;
   jsInterleaved(k, data, nx, ny, inverse);
 }
 
@@ -63,7 +84,10 @@ export function transformRows(
   commit?: () => boolean,
 ): boolean {
   checkPiece(src, dst, nx, ny, r0, r1, ny, 'rows');
-  if (k.backend === 'wasm-simd') {
+  // (the kernel fft2Interleaved uses for the whole transform, so that the parts give its bits)
+  const b = backendFor(k, nx, ny);
+  if (b === 'native') return nativeRows(k, src, dst, nx, r0, r1, inverse, commit);
+  if (b === 'wasm-simd') {
     const done = wasmRows(k, src, dst, nx, r0, r1, inverse, commit);
     if (done !== null) return done;
   }
@@ -87,7 +111,9 @@ export function transformColumns(
     if (dst !== src) dst.set(src.subarray(2 * c0, 2 * c1), 2 * c0);
     return true;
   }
-  if (k.backend === 'wasm-simd') {
+  const b = backendFor(k, nx, ny);
+  if (b === 'native') return nativeCols(k, src, dst, nx, ny, c0, c1, inverse, commit);
+  if (b === 'wasm-simd') {
     const done = wasmCols(k, src, dst, nx, ny, c0, c1, inverse, commit);
     if (done !== null) return done;
   }
@@ -115,7 +141,24 @@ function wasmBlock(width: number): number {
   return width >= WASM_BLOCK ? WASM_BLOCK : width + (width & 1);
 }
 
-/** The kernel `k` uses: 'wasm-simd' when it was made with the module's bytes, else 'js'. */
+/**
+ * The native kernel transforms NATIVE_LANES rows (or columns) side by side: fewer rows than that
+ * leave lanes empty (a 1-D transform: 7 of 8, measured 3-4 times slower than the WebAssembly
+ * kernel at 2^16-2^20 points), so such transforms go to the WebAssembly kernel when it is there.
+ * Its scratch is 128 bytes per point, so axes longer than NATIVE_MAX_N go there too.
+ */
+const NATIVE_LANES = 8;
+const NATIVE_MAX_N = 2 ** 20;
+
+/** The kernel `k` runs an ny×nx transform on (n = nx, count = ny), its parts included. */
+function backendFor(k: FftKernel, n: number, count: number): FastFftBackend {
+  if (k.backend !== 'native') return k.backend;
+  if (n > NATIVE_MAX_N || count > NATIVE_MAX_N) return k.wasm ? 'wasm-simd' : 'js';
+  if (count < NATIVE_LANES && k.wasm) return 'wasm-simd';
+  return 'native';
+}
+
+/** The kernel `k` uses: 'native' or 'wasm-simd' when it was made with them (and they work), else 'js'. */
 export function fastFftBackend(k: FftKernel): FastFftBackend {
   return k.backend;
 }
@@ -125,6 +168,7 @@ export function fastFftBackend(k: FftKernel): FastFftBackend {
  * be loaded throws, with the reason.
  */
 export function useFastFftBackend(k: FftKernel, b: FastFftBackend): void {
+  if (b === 'native' && !k.native) throw new Error(`native FFT unavailable: ${k.nativeProblem}`);
   if (b === 'wasm-simd' && !k.wasm) throw new Error(`WebAssembly FFT unavailable: ${k.wasmProblem}`);
   k.backend = b;
 }
@@ -679,6 +723,12 @@ const WASM_BLOCK = 16;
  */
 export interface FftKernel {
   backend: FastFftBackend;
+  /** The native kernel when it loaded and passed its self-check (createFftKernel). */
+  native: NativeFft | null;
+  /** Why the native kernel is not there, or '' (for useFastFftBackend's error and for notes). */
+  nativeProblem: string;
+  /** Scratch of the native kernel's split planes and parts (fft2Split, transformRows/Columns with commit). */
+  nativeScratch: Float64Array;
   wasm: WasmFft | null;
   /** Why the WebAssembly kernel is not there, for useFastFftBackend's error. */
   wasmProblem: string;
@@ -699,9 +749,14 @@ export interface FftKernel {
  * A kernel: the WebAssembly one compiled from `bytes` when given and compilable (else the
  * TypeScript one, with `whyMissing` or the compiler's reason kept for useFastFftBackend).
  */
-export function createFftKernel(bytes: Uint8Array | null, whyMissing = 'no WebAssembly kernel given'): FftKernel {
+export function createFftKernel(
+  bytes: Uint8Array | null, whyMissing = 'no WebAssembly kernel given', native: NativeLoad = { addon: null, why: 'no native kernel given' },
+): FftKernel {
   const k: FftKernel = {
     backend: 'js',
+    native: null,
+    nativeProblem: native.why,
+    nativeScratch: new Float64Array(0),
     wasm: null,
     wasmProblem: whyMissing,
     wasmTables: new Map(),
@@ -713,6 +768,14 @@ export function createFftKernel(bytes: Uint8Array | null, whyMissing = 'no WebAs
     piece: { re: new Float64Array(0), im: new Float64Array(0) },
   };
   installWasmFft(k, bytes, whyMissing);
+  if (native.addon) {
+    const problem = nativeSelfCheck(native.addon);
+    if (problem === null) {
+      k.native = native.addon;
+      k.nativeProblem = '';
+      k.backend = 'native';
+    } else k.nativeProblem = problem;
+  }
   return k;
 }
 
@@ -1122,5 +1185,120 @@ export function sharedRowsOut(k: FftKernel, L: SharedLayout, data: Float64Array,
   if (commit && !commit()) return false;
   const rowLen = 2 * L.nx, step = L.stride / 8, at = L.data / 8;
   for (let r = r0; r < r1; r++) data.set(heap.subarray(at + r * step, at + r * step + rowLen), r * rowLen);
+  return true;
+}
+
+// ---- the native kernel -------------------------------------------------------------------------
+
+/** The native module's functions (native/fft.c); every transform is in place on the caller's array. */
+export interface NativeFft {
+  /** fft2Interleaved's transform; `threads` share it. */
+  fft2(data: Float64Array, nx: number, ny: number, inverse: boolean, threads: number): void;
+  /** The row pass alone over the ny rows of nx points that `data` holds. */
+  rows(data: Float64Array, nx: number, ny: number, inverse: boolean, threads: number): void;
+  /** The column pass alone over columns [c0, c1) of an ny×nx array. */
+  columns(data: Float64Array, nx: number, ny: number, c0: number, c1: number, inverse: boolean, threads: number): void;
+  /** The code path this processor runs: 'avx2-fma' or 'generic'. */
+  isa(): string;
+}
+
+/** What src/kernels.ts found: the loaded module, or null and why not. */
+export interface NativeLoad {
+  addon: NativeFft | null;
+  why: string;
+}
+
+/**
+ * Null when `addon` transforms small grids as the TypeScript kernel does (to 1e-12 of the largest
+ * value; the sizes cover radix 2, 4, 3 and 5 stages, partial blocks, 1-D, both directions, one
+ * and two threads), else what went wrong: a module built wrong or for another processor is then
+ * not used, and the reason is kept.
+ */
+function nativeSelfCheck(addon: NativeFft): string | null {
+  const ref = createFftKernel(null, 'self-check');
+  let seed = 7;
+  const shapes: [number, number, number][] = [[16, 8, 1], [12, 10, 2], [30, 1, 1], [8, 27, 2]];
+  try {
+    for (const [nx, ny, threads] of shapes) {
+      for (const inverse of [false, true]) {
+        const x = new Float64Array(2 * nx * ny);
+        for (let i = 0; i < x.length; i++) {
+          seed = (Math.imul(seed, 1103515245) + 12345) >>> 0;
+          x[i] = seed / 2 ** 32 - 0.5;
+        }
+        const want = x.slice();
+        fft2Interleaved(ref, want, nx, ny, inverse);
+        addon.fft2(x, nx, ny, inverse, threads);
+        let d = 0, m = 0;
+        for (let i = 0; i < x.length; i++) {
+          d = Math.max(d, Math.abs(x[i]! - want[i]!));
+          m = Math.max(m, Math.abs(want[i]!));
+        }
+        if (!(d <= 1e-12 * m)) return `native FFT failed its self-check (${nx}×${ny}, ${inverse ? 'inverse' : 'forward'}: off by ${(d / m).toExponential(1)} of the largest value)`;
+      }
+    }
+  } catch (e) {
+    return `native FFT failed its self-check: ${(e as Error).message}`;
+  }
+  return null;
+}
+
+/** `values` numbers of the kernel's native scratch, grown to the largest asked for and kept. */
+function nativeScratch(k: FftKernel, values: number): Float64Array {
+  if (k.nativeScratch.length < values) k.nativeScratch = new Float64Array(values);
+  return k.nativeScratch.subarray(0, values);
+}
+
+/** fft2Split through the native kernel: the planes interleaved into scratch, transformed, split again. */
+function nativeSplit(k: FftKernel, re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): void {
+  const n = nx * ny;
+  const data = nativeScratch(k, 2 * n);
+  for (let i = 0; i < n; i++) {
+    data[2 * i] = re[i]!;
+    data[2 * i + 1] = im[i]!;
+  }
+  k.native!.fft2(data, nx, ny, inverse, 1);
+  for (let i = 0; i < n; i++) {
+    re[i] = data[2 * i]!;
+    im[i] = data[2 * i + 1]!;
+  }
+}
+
+function nativeRows(
+  k: FftKernel,
+  src: Float64Array, dst: Float64Array, nx: number, r0: number, r1: number, inverse: boolean, commit?: () => boolean,
+): boolean {
+  const part = src.subarray(2 * r0 * nx, 2 * r1 * nx);
+  if (commit) {
+    // Transformed in this thread's scratch first: nothing is written unless the part is still ours.
+    const s = nativeScratch(k, part.length);
+    s.set(part);
+    k.native!.rows(s, nx, r1 - r0, inverse, 1);
+    if (!commit()) return false;
+    dst.set(s, 2 * r0 * nx);
+    return true;
+  }
+  if (dst !== src) dst.set(part, 2 * r0 * nx);
+  k.native!.rows(dst.subarray(2 * r0 * nx, 2 * r1 * nx), nx, r1 - r0, inverse, 1);
+  return true;
+}
+
+function nativeCols(
+  k: FftKernel,
+  src: Float64Array, dst: Float64Array, nx: number, ny: number, c0: number, c1: number, inverse: boolean,
+  commit?: () => boolean,
+): boolean {
+  if (!commit) {
+    if (dst !== src) for (let r = 0; r < ny; r++) copyValues(src, 2 * (r * nx + c0), dst, 2 * (r * nx + c0), 2 * (c1 - c0));
+    k.native!.columns(dst, nx, ny, c0, c1, inverse, 1);
+    return true;
+  }
+  // The part's columns gathered into scratch (a width×ny array), transformed there, then committed.
+  const width = c1 - c0, len = 2 * width;
+  const s = nativeScratch(k, len * ny);
+  for (let r = 0; r < ny; r++) copyValues(src, 2 * (r * nx + c0), s, r * len, len);
+  k.native!.columns(s, width, ny, 0, width, inverse, 1);
+  if (!commit()) return false;
+  for (let r = 0; r < ny; r++) copyValues(s, r * len, dst, 2 * (r * nx + c0), len);
   return true;
 }

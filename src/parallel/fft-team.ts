@@ -13,6 +13,9 @@
 // takes its parts over, or, before anything is written to the data, transforms the data alone
 // (the same bits either way), stops the team and goes on alone.
 //
+// With the native kernel (fft-fast.ts) there are no helper threads: it shares each transform
+// between threads itself, inside the call (nativeTeamEngine).
+//
 // Memory: with the WebAssembly kernel the shared memory holds one padded copy of the largest
 // transform (the copy one thread's kernel keeps, now shared); with the TypeScript kernel a scratch
 // array of the largest transform is kept instead. Both live until the team stops.
@@ -24,7 +27,7 @@ import { MessageChannel, Worker, type MessagePort } from 'node:worker_threads';
 import type { Engine } from '../optics/engine.js';
 import { pooledAllocation } from '../optics/engine.js';
 import { isFastFftSize } from '../optics/fft.js';
-import { attachSharedFftMemory, createSharedFftMemory, fastFftBackend, sharedLayout } from '../optics/fft-fast.js';
+import { attachSharedFftMemory, createSharedFftMemory, fastFftBackend, fft2Interleaved, sharedLayout } from '../optics/fft-fast.js';
 import {
   ABORT,
   claimAndDo,
@@ -141,6 +144,8 @@ interface Team {
 }
 
 let team: Team | null = null;
+/** The team on the native kernel, while it runs: no helpers, only its size and figures. */
+let nativeTeam: { threads: number; figures: TeamFigures; stopped: boolean } | null = null;
 let lastFigures: TeamFigures = { threads: 1, transforms: 0, inSharedMemory: 0, partsByHelpers: 0, partsByCaller: 0, takeovers: 0 };
 
 /** Helper threads need the compiled helper module; from TypeScript sources (tests) there is none. */
@@ -150,12 +155,14 @@ export function teamsAvailable(): boolean {
 
 /** Threads sharing each large fft2 now, this one included (1: no team). */
 export function fftTeamSize(): number {
+  if (nativeTeam && !nativeTeam.stopped) return nativeTeam.threads;
   if (!team || team.stopped) return 1;
   return 1 + team.helpers.filter((h) => !h.lost).length;
 }
 
 /** What the present team (or the last one) has done. */
 export function fftTeamFigures(): TeamFigures {
+  if (nativeTeam) return { ...nativeTeam.figures };
   if (team) team.figures.partsByHelpers = Atomics.load(team.ctl, HELPER_PARTS);
   return { ...(team ? team.figures : lastFigures) };
 }
@@ -170,7 +177,9 @@ export function fftTeamFigures(): TeamFigures {
 export async function startFftTeam(threads: number, base: Engine, opts: TeamOptions = {}): Promise<Engine> {
   await stopFftTeam();
   const n = Math.floor(threads);
-  if (!(n > 1) || !teamsAvailable()) return base;
+  if (!(n > 1)) return base;
+  if (fastFftBackend(base.kernel) === 'native') return nativeTeamEngine(n, base, opts.minValues ?? TEAM_MIN_VALUES);
+  if (!teamsAvailable()) return base;
   const ctl = new Int32Array(new SharedArrayBuffer(4 * CONTROL_CELLS));
   let memory = createSharedFftMemory(base.kernel);
   if (memory && !attachSharedFftMemory(base.kernel, memory)) memory = null;
@@ -264,8 +273,38 @@ export async function startFftTeam(threads: number, base: Engine, opts: TeamOpti
   };
 }
 
+/**
+ * The engine of a team on the native kernel: its fft2 runs the native transform on `threads`
+ * threads (started inside each call), for 2-D transforms of at least `minValues` complex values,
+ * in ordinary memory (nothing needs sharing). The bits are those of one thread. Should the
+ * kernel be switched to another backend meanwhile, it does what `base` does.
+ */
+function nativeTeamEngine(threads: number, base: Engine, minValues: number): Engine {
+  const t = { threads, figures: { threads, transforms: 0, inSharedMemory: 0, partsByHelpers: 0, partsByCaller: 0, takeovers: 0 }, stopped: false };
+  nativeTeam = t;
+  return {
+    name: `${base.name} on ${threads} threads`,
+    threads,
+    kernel: base.kernel,
+    fft2(data, nx, ny, inverse) {
+      if (!t.stopped && fastFftBackend(base.kernel) === 'native' && ny > 1 && nx * ny >= minValues) {
+        fft2Interleaved(base.kernel, data, nx, ny, inverse, threads);
+        t.figures.transforms++;
+      } else base.fft2(data, nx, ny, inverse);
+    },
+    fftRows: base.fftRows,
+    allocate: base.allocate,
+    release: base.release,
+  };
+}
+
 /** Stops the team (fft2 is back to this thread at once); resolves when the helpers have ended. */
 export async function stopFftTeam(): Promise<void> {
+  if (nativeTeam) {
+    nativeTeam.stopped = true;
+    lastFigures = nativeTeam.figures;
+    nativeTeam = null;
+  }
   const t = team;
   if (!t) return;
   const ends = halt(t);

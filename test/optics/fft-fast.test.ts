@@ -1,4 +1,4 @@
-// The fast 2-D FFT (src/optics/fft-fast.ts), both of its kernels, against two references from
+// The fast 2-D FFT (src/optics/fft-fast.ts), each of its kernels (the native one where it is built), against two references from
 // outside it: fft.js (through fft2Reference of src/optics/fft.ts, the row-then-column use of fft.js) on
 // random data, and the DFT definition summed directly on small sizes.
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -11,6 +11,7 @@ import {
   useFastFftBackend,
   type FastFftBackend,
 } from '../../src/optics/fft-fast.js';
+import { defaultBackend, fastBackends } from './native-fft.js';
 
 const TOL = 1e-12;
 
@@ -111,11 +112,11 @@ const twoD: [number, number][] = [
 // This file's kernel: each describe below chooses its backend (the WebAssembly or TypeScript kernel).
 const kernel = createKernel();
 
-it('loads the WebAssembly SIMD kernel (npm run build makes it)', () => {
-  expect(fastFftBackend(kernel)).toBe('wasm-simd');
+it(`loads the ${defaultBackend} kernel (npm run build makes it)`, () => {
+  expect(fastFftBackend(kernel)).toBe(defaultBackend);
 });
 
-describe.each(['wasm-simd', 'js'] as FastFftBackend[])('%s kernel', (backend) => {
+describe.each(fastBackends as FastFftBackend[])('%s kernel', (backend) => {
   beforeAll(() => {
     useFastFftBackend(kernel, backend);
   });

@@ -13,8 +13,8 @@ import {
   transformColumns,
   transformRows,
   useFastFftBackend,
-  type FastFftBackend,
 } from '../../src/optics/fft-fast.js';
+import { fastBackends } from './native-fft.js';
 
 const TOL = 1e-12;
 
@@ -126,7 +126,7 @@ const twoD: [number, number][] = [
   [3, 5], [5, 3], [6, 6], [15, 12], [45, 100], [100, 45], [1080, 15], [6, 1125], [64, 45], [45, 64], [125, 27], [24, 2],
 ];
 
-describe.each(['wasm-simd', 'js'] as FastFftBackend[])('%s kernel, sizes 2^a·3^b·5^c', (backend) => {
+describe.each(fastBackends)('%s kernel, sizes 2^a·3^b·5^c', (backend) => {
   beforeAll(() => {
     useFastFftBackend(kernel, backend);
   });

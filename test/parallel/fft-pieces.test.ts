@@ -19,6 +19,7 @@ import {
   type FastFftBackend,
 } from '../../src/optics/fft-fast.js';
 import { randomComplex, sameBits } from './fft-data.js';
+import { fastBackends } from '../optics/native-fft.js';
 
 const shapes: [number, number][] = [[64, 128], [256, 256], [512, 256], [2, 2], [4, 8], [32, 4], [1024, 16], [16, 1024]];
 
@@ -36,7 +37,7 @@ function cuts(n: number, sizes: number[]): [number, number][] {
 // This file's kernel; each describe chooses its backend.
 const kernel = createKernel();
 
-describe.each(['wasm-simd', 'js'] as FastFftBackend[])('%s kernel', (backend) => {
+describe.each(fastBackends as FastFftBackend[])('%s kernel', (backend) => {
   beforeAll(() => {
     // ('wasm-simd' throws, with the reason, when the WebAssembly kernel was not built)
     useFastFftBackend(kernel, backend);
