@@ -36,6 +36,12 @@ export interface PictureLayout {
 }
 
 const LONG_SIDE = 400; // display size of a panel's long side
+/**
+ * A map of up to this many samples along its long side (square pixels) is shown one display pixel a
+ * sample, a little over LONG_SIDE: shrinking 401 samples to 400 pixels would make the middle
+ * columns averages of two samples, and cost a resampling of the whole map.
+ */
+const ONE_TO_ONE = LONG_SIDE + LONG_SIDE / 16;
 const STRIPE_HEIGHT = 120; // height of a 1-D panel: tall enough to read as stripes
 const MIN_SLOT = 280; // narrowest panel column, so labels and colour bars still fit
 const MARGIN = 16;
@@ -86,13 +92,14 @@ export function displaySize(p: PictureInput): { w: number; h: number } {
     const cell = Math.floor(LONG_SIDE / n);
     return { w: m.nx * cell, h: m.ny * cell };
   }
+  if (squarePixels && n > LONG_SIDE && n <= ONE_TO_ONE) return { w: m.nx, h: m.ny };
   const W = m.nx * m.dx, H = m.ny * m.dy;
   const k = LONG_SIDE / Math.max(W, H);
   return { w: Math.max(1, Math.round(W * k)), h: Math.max(1, Math.round(H * k)) };
 }
 
 function fitLength(n: number): number {
-  return n <= LONG_SIDE / 2 ? n * Math.floor(LONG_SIDE / n) : LONG_SIDE;
+  return n <= LONG_SIDE / 2 ? n * Math.floor(LONG_SIDE / n) : n > LONG_SIDE && n <= ONE_TO_ONE ? n : LONG_SIDE;
 }
 
 /** Room left of a 2-D panel for its y tick labels (none for a 1-D map). */
@@ -182,7 +189,6 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   fillRect(img, { x: 0, y: 0, w: img.width, h: img.height }, BACKGROUND);
   if (title) drawText(img, MARGIN, MARGIN, title, TEXT, titleScale);
 
-  const shown = resampleForDisplay(input, disp.w, disp.h);
   const decades = p.logDecades ?? 5;
 
   const views = [
@@ -215,9 +221,21 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
     drawText(img, slotX[k]!, labelY + CELL_H + 6, view.caption, TEXT);
   });
 
-  // The panels and colour bars in table levels, which are their palette indices.
-  paintLevels(img, layout.panels[0], viewLevels(shown, 'linear', peak, decades, layout.panels[0]), layout.panels[0].w);
-  paintLevels(img, layout.panels[1], viewLevels(shown, 'log', peak, decades, layout.panels[1]), layout.panels[1].w);
+  // The panels and colour bars in table levels, which are their palette indices. Where every
+  // display pixel shows one sample (the map enlarged, or shown one to one) the levels are those of
+  // the samples, found once a sample and repeated; a shrunk map is resampled first.
+  const m = p.map;
+  if (disp.w >= m.nx && disp.h >= m.ny) {
+    const cols = axisWeights(m.nx, disp.w).index;
+    const rows = axisWeights(m.ny, disp.h).index;
+    const samples: Rect = { x: 0, y: 0, w: m.nx, h: m.ny };
+    paintSamples(img, layout.panels[0], viewLevels(m.intensity, 'linear', peak, decades, samples), m.nx, cols, rows);
+    paintSamples(img, layout.panels[1], viewLevels(m.intensity, 'log', peak, decades, samples), m.nx, cols, rows);
+  } else {
+    const shown = resampleForDisplay(input, disp.w, disp.h);
+    paintLevels(img, layout.panels[0], viewLevels(shown, 'linear', peak, decades, layout.panels[0]), layout.panels[0].w);
+    paintLevels(img, layout.panels[1], viewLevels(shown, 'log', peak, decades, layout.panels[1]), layout.panels[1].w);
+  }
   for (const cbar of layout.colourBars) {
     const levels = new Uint8Array(cbar.w);
     for (let x = 0; x < cbar.w; x++) levels[x] = lutLevel(cbar.w > 1 ? x / (cbar.w - 1) : 1, cbar.x + x, cbar.y);
@@ -367,6 +385,24 @@ function lutLevel(t: number, x: number, y: number): number {
 /** Writes rect r of an indexed image from table levels (its palette indices), row y at levels[y·rowStep + x] (rowStep 0: every row alike). */
 function paintLevels(img: RgbImage, r: Rect, levels: Uint8Array, rowStep: number): void {
   for (let y = 0; y < r.h; y++) img.data.set(levels.subarray(y * rowStep, y * rowStep + r.w), (r.y + y) * img.width + r.x);
+}
+
+/**
+ * Writes rect r of an indexed image from the levels of a map's samples (nx a row): display pixel
+ * (x, y) shows sample (cols[x], rows[y]), resampleForDisplay's nearest sample when it enlarges.
+ */
+function paintSamples(img: RgbImage, r: Rect, levels: Uint8Array, nx: number, cols: Int32Array, rows: Int32Array): void {
+  const d = img.data;
+  for (let y = 0; y < r.h; y++) {
+    const to = (r.y + y) * img.width + r.x;
+    // A display row showing the same samples as the one above it is a copy of it.
+    if (y > 0 && rows[y] === rows[y - 1]) {
+      d.copyWithin(to, to - img.width, to - img.width + r.w);
+      continue;
+    }
+    const from = rows[y]! * nx;
+    for (let x = 0; x < r.w; x++) d[to + x] = levels[from + cols[x]!]!;
+  }
 }
 
 /** Peak and tick values: three significant digits, exponent form outside 0.01..1000. */

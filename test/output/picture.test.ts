@@ -184,6 +184,34 @@ describe('renderIntensityPng', () => {
     expect(img.at(r.x + 200, r.y + 200)).toEqual([255, 255, 255]);
   });
 
+  it('shows a map a little over 400 samples one to one, and enlarges by the nearest sample, each pixel its sample\'s level', () => {
+    // The linear view's level of v is round(v/peak·top) (the view's definition): computed here per
+    // sample and compared with every panel pixel.
+    const top = PANEL_LEVELS - 1;
+    const lut = Array.from({ length: PANEL_LEVELS }, (_, k) => round3(gray(k / top)).join());
+    let seed = 777;
+    const rnd = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31);
+    for (const [n, side] of [[401, 401], [425, 425], [426, 400], [300, 400], [130, 390]] as const) {
+      const v = Float64Array.from({ length: n * n }, () => rnd());
+      v[7] = 1;
+      const { img, layout } = render({ map: mapOf(v, n, n, 1e-6, 1e-6), scale: 'gray' });
+      const r = layout.panels[0];
+      expect([n, r.w, r.h]).toEqual([n, side, side]);
+      if (side < n) continue; // shrunk: box averages (the test below)
+      const wrong: string[] = [];
+      for (let y = 0; y < r.h; y++) {
+        for (let x = 0; x < r.w; x++) {
+          // The nearest sample to the display pixel's centre.
+          const col = Math.min(n - 1, Math.floor(((x + 0.5) * n) / r.w));
+          const row = Math.min(n - 1, Math.floor(((y + 0.5) * n) / r.h));
+          const level = Math.round(v[row * n + col]! * top);
+          if (img.at(r.x + x, r.y + y).join() !== lut[level]) wrong.push(`${n}: (${x}, ${y})`);
+        }
+      }
+      expect(wrong.slice(0, 5)).toEqual([]);
+    }
+  });
+
   it('box-averages fine fringes when shrinking instead of aliasing them', () => {
     // Common practice (sampling theorem): low-pass before decimating. Alternating
     // columns 1,0 shrunk 2:1 must become uniform half intensity; picking one sample
