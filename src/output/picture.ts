@@ -245,12 +245,21 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   const around = img.palette!.slice(PANEL_LEVELS);
   return encodePngs(
     img,
-    scales.map((scale) => {
-      const lut = buildLut(SCALES[scale], PANEL_LEVELS);
-      return [...Array.from({ length: PANEL_LEVELS }, (_, k) => packColour([lut[3 * k]!, lut[3 * k + 1]!, lut[3 * k + 2]!])), ...around];
-    }),
+    scales.map((scale) => [...panelPalette(scale), ...around]),
   );
 }
+
+/** A scale's colours for the panel levels, 0xRRGGBB (a memo: two scales, built once a thread). */
+function panelPalette(scale: ScaleName): readonly number[] {
+  let p = PANEL_PALETTES.get(scale);
+  if (!p) {
+    const lut = buildLut(SCALES[scale], PANEL_LEVELS);
+    p = Array.from({ length: PANEL_LEVELS }, (_, k) => packColour([lut[3 * k]!, lut[3 * k + 1]!, lut[3 * k + 2]!]));
+    PANEL_PALETTES.set(scale, p);
+  }
+  return p;
+}
+const PANEL_PALETTES = new Map<ScaleName, number[]>();
 
 /**
  * Table levels of a panel's display pixels in the linear view (v / peak) or the log view
@@ -393,6 +402,8 @@ function paintLevels(img: RgbImage, r: Rect, levels: Uint8Array, rowStep: number
  */
 function paintSamples(img: RgbImage, r: Rect, levels: Uint8Array, nx: number, cols: Int32Array, rows: Int32Array): void {
   const d = img.data;
+  // One display column a sample: each row is a copy of the levels' row.
+  const oneToOne = r.w === nx;
   for (let y = 0; y < r.h; y++) {
     const to = (r.y + y) * img.width + r.x;
     // A display row showing the same samples as the one above it is a copy of it.
@@ -401,7 +412,8 @@ function paintSamples(img: RgbImage, r: Rect, levels: Uint8Array, nx: number, co
       continue;
     }
     const from = rows[y]! * nx;
-    for (let x = 0; x < r.w; x++) d[to + x] = levels[from + cols[x]!]!;
+    if (oneToOne) d.set(levels.subarray(from, from + nx), to);
+    else for (let x = 0; x < r.w; x++) d[to + x] = levels[from + cols[x]!]!;
   }
 }
 
