@@ -124,21 +124,46 @@ export function spotMetrics(m: IntensityMap): SpotMetrics {
   const dx = m.dx;
   // null along y for a 1-D map: no profile, width or centroid there.
   const dy = isOneD(m) ? null : m.dy;
+  // Positions per column and row, each the same double xAt/yAt give (the sums below are taken in
+  // the order they always were, over these tables: the metrics do not change by a bit).
+  const xs = new Float64Array(cols);
+  for (let c = 0; c < cols; c++) xs[c] = xAt(m, c);
+  const ys = new Float64Array(rows);
+  for (let r = 0; r < rows; r++) ys[r] = yAt(m, r);
+  // The window's central 80 % per axis, for the second moments' change (d4sigmaWindowChange); its
+  // sums are taken in the same pass as the whole window's, in their own order.
+  const inner = (n: number): [number, number] => (n < 5 ? [0, n - 1] : [Math.round(0.1 * (n - 1)), Math.round(0.9 * (n - 1))]);
+  const [c0, c1] = inner(cols);
+  const [r0, r1] = dy === null ? [0, rows - 1] : inner(rows);
   let peak = -Infinity;
   let pi = 0;
   let sum = 0;
   let sx = 0;
   let sy = 0;
+  let si = 0;
+  let sxi = 0;
+  let syi = 0;
   for (let r = 0; r < rows; r++) {
+    const y = ys[r]!;
+    const row = r * cols;
+    const innerRow = r >= r0 && r <= r1;
     for (let c = 0; c < cols; c++) {
-      const v = I[r * cols + c]!;
+      const v = I[row + c]!;
       if (v > peak) {
         peak = v;
-        pi = r * cols + c;
+        pi = row + c;
       }
       sum += v;
-      sx += v * xAt(m, c);
-      sy += v * yAt(m, r);
+      sx += v * xs[c]!;
+      sy += v * y;
+    }
+    if (innerRow) {
+      for (let c = c0; c <= c1; c++) {
+        const v = I[row + c]!;
+        si += v;
+        sxi += v * xs[c]!;
+        syi += v * y;
+      }
     }
   }
   const pr = Math.floor(pi / cols);
@@ -178,40 +203,34 @@ export function spotMetrics(m: IntensityMap): SpotMetrics {
   };
   const cx = sum > 0 ? sx / sum : 0;
   const cy = sum > 0 ? sy / sum : 0;
+  // Second moments about the centroid, over the whole window and over its central part (about that
+  // part's own centroid), in one pass; squared offsets per column and row, as they were computed.
+  const cxi = si > 0 ? sxi / si : 0;
+  const cyi = si > 0 ? syi / si : 0;
+  const qx = new Float64Array(cols);
+  const qxi = new Float64Array(cols);
+  for (let c = 0; c < cols; c++) {
+    qx[c] = (xs[c]! - cx) ** 2;
+    qxi[c] = (xs[c]! - cxi) ** 2;
+  }
   let vx = 0;
   let vy = 0;
-  for (let r = 0; r < rows; r++) {
-    for (let c = 0; c < cols; c++) {
-      const v = I[r * cols + c]!;
-      vx += v * (xAt(m, c) - cx) ** 2;
-      vy += v * (yAt(m, r) - cy) ** 2;
-    }
-  }
-  // The same second moments over the window's central 80 % per axis.
-  const inner = (n: number): [number, number] => (n < 5 ? [0, n - 1] : [Math.round(0.1 * (n - 1)), Math.round(0.9 * (n - 1))]);
-  const [c0, c1] = inner(cols);
-  const [r0, r1] = dy === null ? [0, rows - 1] : inner(rows);
-  let si = 0;
-  let sxi = 0;
-  let syi = 0;
-  for (let r = r0; r <= r1; r++) {
-    for (let c = c0; c <= c1; c++) {
-      const v = I[r * cols + c]!;
-      si += v;
-      sxi += v * xAt(m, c);
-      syi += v * yAt(m, r);
-    }
-  }
   let vxi = 0;
   let vyi = 0;
-  if (si > 0) {
-    const cxi = sxi / si;
-    const cyi = syi / si;
-    for (let r = r0; r <= r1; r++) {
+  for (let r = 0; r < rows; r++) {
+    const q = (ys[r]! - cy) ** 2;
+    const row = r * cols;
+    for (let c = 0; c < cols; c++) {
+      const v = I[row + c]!;
+      vx += v * qx[c]!;
+      vy += v * q;
+    }
+    if (si > 0 && r >= r0 && r <= r1) {
+      const qi = (ys[r]! - cyi) ** 2;
       for (let c = c0; c <= c1; c++) {
-        const v = I[r * cols + c]!;
-        vxi += v * (xAt(m, c) - cxi) ** 2;
-        vyi += v * (yAt(m, r) - cyi) ** 2;
+        const v = I[row + c]!;
+        vxi += v * qxi[c]!;
+        vyi += v * qi;
       }
     }
   }

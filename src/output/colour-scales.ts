@@ -2,9 +2,9 @@
 //
 // Values are returned unrounded: the scale is a continuous curve, and rounding
 // to 8 bits is left to whoever builds a table from it, at the number of levels
-// it actually shows (picture.ts uses 256, where the rounded shoal is still
-// strictly increasing in L*; finer tables meet 8-bit steps that can dip by a few
-// hundredths of L* where one channel falls while the others rise).
+// it actually shows (the case pictures 252, the contact sheet 256, where the
+// rounded shoal still never gets darker; finer tables meet 8-bit steps that can
+// dip by a few hundredths of L* where one channel falls while the others rise).
 //
 // Both scales are built in CIELAB rather than in sRGB code values or linear light:
 // interpolating L* linearly between anchors makes lightness — the cue the eye

@@ -19,7 +19,8 @@ import { cropMap, regionBox, spotBox, ZOOM_FRACTION, type ZoomBox } from './zoom
 import { renderLinePlot, type LineSeries } from './line-plot.js';
 import type { SmallestSpot } from './case-output.js';
 import type { EnergyCurve } from '../analysis/encircled.js';
-import { besselJn } from '../optics/bessel-jn.js';
+import besselj0 from '@stdlib/math-base-special-besselj0';
+import besselj1 from '@stdlib/math-base-special-besselj1';
 
 /** Shadow edges drawn one by one up to this many; past it only the outermost two. */
 const MAX_EDGES = 16;
@@ -135,8 +136,10 @@ export function searchPicture(sp: SmallestSpot, title: string): Buffer | null {
  */
 export function airyEncircled(a: number, wavelength: number, z: number, r: number): number {
   const v = ((2 * Math.PI) / wavelength) * a * (r / Math.hypot(r, z));
-  const j0 = besselJn(0, v);
-  const j1 = besselJn(1, v);
+  // (@stdlib's J₀ and J₁, rational approximations: the curve's 400 points took a Miller recurrence
+  // of |v| terms each.)
+  const j0 = besselj0(v);
+  const j1 = besselj1(v);
   return 1 - j0 * j0 - j1 * j1;
 }
 

@@ -2,12 +2,18 @@
 // Capitals and digits fill rows 0-6, lower case sits on rows 2-6 with ascenders
 // from row 0, and descenders use rows 7-8, so one line of text is 9 rows tall.
 // Pictures are written headless, so no system font can be assumed.
+import { colourIndex } from './indexed.js';
 
-/** An 8-bit RGB raster, row-major, 3 bytes per pixel. */
+/**
+ * An 8-bit RGB raster, row-major: 3 bytes per pixel, or, with a palette, one byte per pixel holding
+ * the index of its colour (output/indexed.ts; the drawing functions take colours either way).
+ */
 export interface RgbImage {
   width: number;
   height: number;
   data: Uint8Array;
+  /** An indexed image's colours, 0xRRGGBB, at most 256 (-1: an entry kept for a colour given when it is encoded). */
+  palette?: number[];
 }
 
 export type Colour = readonly [number, number, number];
@@ -143,6 +149,8 @@ export function textWidth(text: string, scale = 1): number {
 
 /** Draws `text` with its cell's top-left corner at (x, y); pixels outside the image are dropped. */
 export function drawText(img: RgbImage, x: number, y: number, text: string, colour: Colour, scale = 1): void {
+  // An indexed image's index for the colour, found once (-1: drawn in RGB).
+  const k = img.palette ? colourIndex(img, colour) : -1;
   const s = Math.max(1, Math.round(scale));
   let cx = Math.round(x);
   const top = Math.round(y);
@@ -150,14 +158,20 @@ export function drawText(img: RgbImage, x: number, y: number, text: string, colo
     const bits = GLYPHS.get(ch) ?? MISSING_BITS;
     bits.forEach((row, r) => {
       row.forEach((on, c) => {
-        if (on) fillBlock(img, cx + c * s, top + r * s, s, colour);
+        if (on) fillBlock(img, cx + c * s, top + r * s, s, colour, k);
       });
     });
     cx += CELL_W * s;
   }
 }
 
-function fillBlock(img: RgbImage, x0: number, y0: number, s: number, colour: Colour): void {
+function fillBlock(img: RgbImage, x0: number, y0: number, s: number, colour: Colour, k: number): void {
+  if (k >= 0) {
+    for (let y = Math.max(0, y0); y < Math.min(img.height, y0 + s); y++) {
+      for (let x = Math.max(0, x0); x < Math.min(img.width, x0 + s); x++) img.data[y * img.width + x] = k;
+    }
+    return;
+  }
   for (let y = Math.max(0, y0); y < Math.min(img.height, y0 + s); y++) {
     for (let x = Math.max(0, x0); x < Math.min(img.width, x0 + s); x++) {
       const i = (y * img.width + x) * 3;

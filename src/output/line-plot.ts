@@ -4,7 +4,7 @@
 // the worker writes it without a plotting library or a system font.
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from './font.js';
 import { encodePng, fillRect, frame, type Rect } from './raster.js';
-import { scratchBytes } from './scratch.js';
+import { indexedImage } from './indexed.js';
 
 export interface LineSeries {
   label: string;
@@ -89,8 +89,9 @@ function drawLinePlots(plots: LinePlotInput[]): RgbImage {
   const layouts = plots.map(layoutLinePlot);
   const width = Math.max(...layouts.map((l) => l.width));
   const height = layouts.reduce((s, l) => s + l.height, 0);
-  // (Every pixel is written: the background fills it all first.)
-  const img: RgbImage = { width, height, data: scratchBytes('line-plot', width * height * 3) };
+  // (Every pixel is written: the background fills it all first.) Indexed: a plot has a handful of
+  // colours (an image given more than 256 turns into RGB as it is drawn).
+  const img = indexedImage('line-plot', width, height);
   fillRect(img, { x: 0, y: 0, w: width, h: height }, BACKGROUND);
   let top = 0;
   plots.forEach((p, i) => {

@@ -6,11 +6,12 @@
 
 import { CELL_H, drawText, textWidth, type Colour, type RgbImage } from './font.js';
 import { gray, shoal, type ColourScale } from './colour-scales.js';
-import { buildLut, encodePng, fillRect, frame, LUT_LEVELS, type Rect } from './raster.js';
+import { buildLut, encodePngs, fillRect, frame, LUT_LEVELS, type Rect } from './raster.js';
+import { indexedImage, packColour } from './indexed.js';
 import { isOneD } from '../model/grid.js';
 import { mapProblem, type IntensityMap } from '../model/intensity-map.js';
 import { niceTicks } from './line-plot.js';
-import { scratchBytes, scratchZeros } from './scratch.js';
+import { scratchZeros } from './scratch.js';
 
 export type ScaleName = 'gray' | 'shoal';
 
@@ -35,6 +36,12 @@ export interface PictureLayout {
 }
 
 const LONG_SIDE = 400; // display size of a panel's long side
+/**
+ * A map of up to this many samples along its long side (square pixels) is shown one display pixel a
+ * sample, a little over LONG_SIDE: shrinking 401 samples to 400 pixels would make the middle
+ * columns averages of two samples, and cost a resampling of the whole map.
+ */
+const ONE_TO_ONE = LONG_SIDE + LONG_SIDE / 16;
 const STRIPE_HEIGHT = 120; // height of a 1-D panel: tall enough to read as stripes
 const MIN_SLOT = 280; // narrowest panel column, so labels and colour bars still fit
 const MARGIN = 16;
@@ -46,6 +53,14 @@ const TEXT: Colour = [225, 225, 225];
 const AXIS_MARK: Colour = [250, 200, 90];
 
 const SCALES: Record<ScaleName, ColourScale> = { gray, shoal };
+
+/**
+ * The colour-table levels of a panel and its colour bar: 256 less the four colours drawn around
+ * them, so that a picture is one 8-bit palette (PNG colour type 3): the image is drawn once in
+ * levels and written in every scale by its palette alone (output/raster.ts encodePngs). Steps of
+ * 1/251 of the range instead of 1/255: no eye tells them apart.
+ */
+export const PANEL_LEVELS = 256 - 4;
 
 // Vertical offsets inside a panel column, from its top.
 const LABEL_GAP = 6;
@@ -77,13 +92,14 @@ export function displaySize(p: PictureInput): { w: number; h: number } {
     const cell = Math.floor(LONG_SIDE / n);
     return { w: m.nx * cell, h: m.ny * cell };
   }
+  if (squarePixels && n > LONG_SIDE && n <= ONE_TO_ONE) return { w: m.nx, h: m.ny };
   const W = m.nx * m.dx, H = m.ny * m.dy;
   const k = LONG_SIDE / Math.max(W, H);
   return { w: Math.max(1, Math.round(W * k)), h: Math.max(1, Math.round(H * k)) };
 }
 
 function fitLength(n: number): number {
-  return n <= LONG_SIDE / 2 ? n * Math.floor(LONG_SIDE / n) : LONG_SIDE;
+  return n <= LONG_SIDE / 2 ? n * Math.floor(LONG_SIDE / n) : n > LONG_SIDE && n <= ONE_TO_ONE ? n : LONG_SIDE;
 }
 
 /** Room left of a 2-D panel for its y tick labels (none for a 1-D map). */
@@ -166,14 +182,14 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
   const peak = validate(input);
   const disp = displaySize(input);
   const { layout, title, titleScale, slotX, slotW } = plan(input, disp);
+  // Indexed: palette entries 0..PANEL_LEVELS − 1 are the colour table's levels (the colours of the
+  // scale, given when it is written), the colours drawn around the panels come after them.
   // (Every pixel is written: the background fills it all first.)
-  const base: RgbImage = { width: layout.width, height: layout.height, data: scratchBytes('picture', layout.width * layout.height * 3) };
-  fillRect(base, { x: 0, y: 0, w: base.width, h: base.height }, BACKGROUND);
-  if (title) drawText(base, MARGIN, MARGIN, title, TEXT, titleScale);
+  const img = indexedImage('picture', layout.width, layout.height, PANEL_LEVELS);
+  fillRect(img, { x: 0, y: 0, w: img.width, h: img.height }, BACKGROUND);
+  if (title) drawText(img, MARGIN, MARGIN, title, TEXT, titleScale);
 
-  const shown = resampleForDisplay(input, disp.w, disp.h);
   const decades = p.logDecades ?? 5;
-
 
   const views = [
     { label: 'linear', ticks: [{ t: 0, text: '0' }, { t: 1, text: compact(peak) }], caption: `relative irradiance, peak ${compact(peak)}` },
@@ -184,50 +200,66 @@ export function renderIntensityPngs(p: Omit<PictureInput, 'scale'>, scales: read
     },
   ];
 
-  // Table levels of every panel pixel, one array per view, shared by all the scales.
-  const levels = [viewLevels(shown, 'linear', peak, decades, layout.panels[0]), viewLevels(shown, 'log', peak, decades, layout.panels[1])];
-
-  // Everything around the panels and colour bars is the same in every scale: drawn once. (None of
-  // it reaches inside a panel or a colour bar, which are painted per scale below.)
+  // Everything around the panels and colour bars (none of it reaches inside them).
   views.forEach((view, k) => {
     const panel = layout.panels[k]!;
     const cbar = layout.colourBars[k]!;
     const yTitle = isOneD(p.map) ? 0 : CELL_H + 4;
-    drawText(base, slotX[k]!, panel.y - 1 - LABEL_GAP - yTitle - CELL_H * LABEL_SCALE, view.label, TEXT, LABEL_SCALE);
-    frame(base, panel, FRAME);
-    drawPositionAxes(base, panel, p.map);
-    drawScaleBar(base, panel, p.map.nx * p.map.dx);
-    frame(base, cbar, FRAME);
+    drawText(img, slotX[k]!, panel.y - 1 - LABEL_GAP - yTitle - CELL_H * LABEL_SCALE, view.label, TEXT, LABEL_SCALE);
+    frame(img, panel, FRAME);
+    drawPositionAxes(img, panel, p.map);
+    drawScaleBar(img, panel, p.map.nx * p.map.dx);
+    frame(img, cbar, FRAME);
     const labelY = cbar.y + cbar.h + 1 + TICK_LABEL_GAP;
     for (const tick of view.ticks) {
       const tx = cbar.x + Math.round(tick.t * (cbar.w - 1));
-      fillRect(base, { x: tx, y: cbar.y + cbar.h + 1, w: 1, h: 3 }, TEXT);
+      fillRect(img, { x: tx, y: cbar.y + cbar.h + 1, w: 1, h: 3 }, TEXT);
       const w = textWidth(tick.text);
       const lx = Math.min(Math.max(tx - Math.floor(w / 2), slotX[k]!), slotX[k]! + slotW - w);
-      drawText(base, lx, labelY, tick.text, TEXT);
+      drawText(img, lx, labelY, tick.text, TEXT);
     }
-    drawText(base, slotX[k]!, labelY + CELL_H + 6, view.caption, TEXT);
-  });
-  const barLevels = layout.colourBars.map((cbar) => {
-    const out = new Uint8Array(cbar.w);
-    for (let x = 0; x < cbar.w; x++) out[x] = lutLevel(cbar.w > 1 ? x / (cbar.w - 1) : 1, cbar.x + x, cbar.y);
-    return out;
+    drawText(img, slotX[k]!, labelY + CELL_H + 6, view.caption, TEXT);
   });
 
-  // One image for every scale: each scale paints over the same panels and colour bars, every pixel
-  // of them (paintLevels), and nothing else differs between the scales.
-  const img = base;
-  return scales.map((scale) => {
-    const lut = buildLut(SCALES[scale]);
-    for (let k = 0; k < 2; k++) {
-      const panel = layout.panels[k]!;
-      paintLevels(img, panel, levels[k]!, panel.w, lut);
-      paintLevels(img, layout.colourBars[k]!, barLevels[k]!, 0, lut);
-    }
-    return encodePng(img);
-  });
+  // The panels and colour bars in table levels, which are their palette indices. Where every
+  // display pixel shows one sample (the map enlarged, or shown one to one) the levels are those of
+  // the samples, found once a sample and repeated; a shrunk map is resampled first.
+  const m = p.map;
+  if (disp.w >= m.nx && disp.h >= m.ny) {
+    const cols = axisWeights(m.nx, disp.w).index;
+    const rows = axisWeights(m.ny, disp.h).index;
+    const samples: Rect = { x: 0, y: 0, w: m.nx, h: m.ny };
+    paintSamples(img, layout.panels[0], viewLevels(m.intensity, 'linear', peak, decades, samples), m.nx, cols, rows);
+    paintSamples(img, layout.panels[1], viewLevels(m.intensity, 'log', peak, decades, samples), m.nx, cols, rows);
+  } else {
+    const shown = resampleForDisplay(input, disp.w, disp.h);
+    paintLevels(img, layout.panels[0], viewLevels(shown, 'linear', peak, decades, layout.panels[0]), layout.panels[0].w);
+    paintLevels(img, layout.panels[1], viewLevels(shown, 'log', peak, decades, layout.panels[1]), layout.panels[1].w);
+  }
+  for (const cbar of layout.colourBars) {
+    const levels = new Uint8Array(cbar.w);
+    for (let x = 0; x < cbar.w; x++) levels[x] = lutLevel(cbar.w > 1 ? x / (cbar.w - 1) : 1, cbar.x + x, cbar.y);
+    paintLevels(img, cbar, levels, 0);
+  }
+
+  const around = img.palette!.slice(PANEL_LEVELS);
+  return encodePngs(
+    img,
+    scales.map((scale) => [...panelPalette(scale), ...around]),
+  );
 }
 
+/** A scale's colours for the panel levels, 0xRRGGBB (a memo: two scales, built once a thread). */
+function panelPalette(scale: ScaleName): readonly number[] {
+  let p = PANEL_PALETTES.get(scale);
+  if (!p) {
+    const lut = buildLut(SCALES[scale], PANEL_LEVELS);
+    p = Array.from({ length: PANEL_LEVELS }, (_, k) => packColour([lut[3 * k]!, lut[3 * k + 1]!, lut[3 * k + 2]!]));
+    PANEL_PALETTES.set(scale, p);
+  }
+  return p;
+}
+const PANEL_PALETTES = new Map<ScaleName, number[]>();
 
 /**
  * Table levels of a panel's display pixels in the linear view (v / peak) or the log view
@@ -239,7 +271,7 @@ function viewLevels(shown: Float64Array, view: 'linear' | 'log', peak: number, d
   const out = new Uint8Array(shown.length);
   // A peak of 0 (or none) shows every pixel at level 0, NaN or not, as the views define it.
   if (!(peak > 0)) return out;
-  const top = LUT_LEVELS - 1;
+  const top = PANEL_LEVELS - 1;
   // Hot (two views of 160 000 pixels a case): one loop per view, no branch on the view inside it.
   // The level of every pixel is the same expression as before the split: Math.round(clamp(t)·top).
   if (view === 'linear') {
@@ -255,16 +287,17 @@ function viewLevels(shown: Float64Array, view: 'linear' | 'log', peak: number, d
     }
     return out;
   }
-  return logLevels(shown, peak, decades, out);
+  return logLevels(shown, peak, decades, out, PANEL_LEVELS);
 }
 
 /**
  * The log view's table levels of values (v / peak): Math.round(clamp(1 + log10(v/peak)/decades)·top),
- * 0 where v ≤ 0 or NaN and where peak is not above 0, written into `out` (the contact sheet's log
- * tiles use it too).
+ * top = levels − 1 (at most 255), 0 where v ≤ 0 or NaN and where peak is not above 0, written into
+ * `out` (the contact sheet's log tiles use it too, with 256 levels).
  */
-export function logLevels(shown: Float64Array, peak: number, decades: number, out: Uint8Array): Uint8Array {
-  const top = LUT_LEVELS - 1;
+export function logLevels(shown: Float64Array, peak: number, decades: number, out: Uint8Array, levels = LUT_LEVELS): Uint8Array {
+  if (!(levels >= 2 && levels <= 256)) throw new RangeError(`logLevels: ${levels} levels (2 to 256)`);
+  const top = levels - 1;
   if (!(peak > 0)) return out.fill(0);
   const level = (x: number) => Math.round(Math.min(1, Math.max(0, 1 + Math.log10(x) / decades)) * top);
   if (!(decades >= 0.01 && decades <= 100)) {
@@ -275,9 +308,9 @@ export function logLevels(shown: Float64Array, peak: number, decades: number, ou
     }
     return out;
   }
-  const bounds = logBounds(decades, level);
-  // The level by a binary search over the bounds (eight halvings: LUT_LEVELS is 256, checked where
-  // the module loads), each step a comparison added in, with no branch
+  const bounds = logBounds(decades, top, level);
+  // The level by a binary search over the bounds (eight halvings over 256 entries, those above top
+  // infinite), each step a comparison added in, with no branch
   // to mispredict (a first guess from the exponent and a walk took three times as long).
   // Below bounds[1] (v ≤ 0 and NaN too: no comparison passes) the level is 0, as the array holds.
   const below = bounds[1]!;
@@ -302,8 +335,6 @@ export function logLevels(shown: Float64Array, peak: number, decades: number, ou
   return out;
 }
 
-// The log view's search below takes eight halvings of the table's 256 levels.
-if (LUT_LEVELS !== 256) throw new Error('picture: the log view expects 256 table levels');
 const NEAR_ABOVE = 1 + 1e-12;
 const NEAR_BELOW = 1 - 1e-12;
 
@@ -315,12 +346,13 @@ const NEAR_BELOW = 1 - 1e-12;
  * same as the expression's, a few comparisons instead of a log10 (which took a quarter of a case's
  * pictures). Kept per decades value (one or two in a run).
  */
-function logBounds(decades: number, level: (x: number) => number): Float64Array {
-  const known = LOG_BOUNDS.get(decades);
+function logBounds(decades: number, top: number, level: (x: number) => number): Float64Array {
+  const key = `${decades}/${top}`;
+  const known = LOG_BOUNDS.get(key);
   if (known) return known;
-  const top = LUT_LEVELS - 1;
-  const bounds = new Float64Array(top + 2);
-  bounds[top + 1] = Infinity;
+  // 257 entries whatever top is: the search reads up to bounds[256].
+  const bounds = new Float64Array(257);
+  bounds.fill(Infinity, top + 1);
   const f = new Float64Array(1);
   const u = new BigUint64Array(f.buffer);
   const bitsOf = (x: number) => ((f[0] = x), u[0]!);
@@ -342,54 +374,48 @@ function logBounds(decades: number, level: (x: number) => number): Float64Array 
     bounds[k] = valueOf(b);
   }
   if (LOG_BOUNDS.size > 16) LOG_BOUNDS.clear();
-  LOG_BOUNDS.set(decades, bounds);
+  LOG_BOUNDS.set(key, bounds);
   return bounds;
 }
-const LOG_BOUNDS = new Map<number, Float64Array>();
+const LOG_BOUNDS = new Map<string, Float64Array>();
 
 /** A NaN here would index past the table and quietly paint black; it is a bug upstream, so say so. */
 function nanAt(panel: Rect, i: number): never {
   throw new Error(`picture: NaN colour value at (${panel.x + (i % panel.w)}, ${panel.y + Math.floor(i / panel.w)})`);
 }
 
-/** The colour table's level for t (clamped to [0, 1]), as putLut picks it. */
+/** The panel table's level for t (clamped to [0, 1]). */
 function lutLevel(t: number, x: number, y: number): number {
   // A NaN here would index past the table and quietly paint black; it is a bug upstream, so say so.
   if (Number.isNaN(t)) throw new Error(`picture: NaN colour value at (${x}, ${y})`);
-  return Math.round(Math.min(1, Math.max(0, t)) * (LUT_LEVELS - 1));
+  return Math.round(Math.min(1, Math.max(0, t)) * (PANEL_LEVELS - 1));
 }
 
-/** Paints rect r from table levels, row y at levels[y·rowStep + x] (rowStep 0: every row alike). */
-function paintLevels(img: RgbImage, r: Rect, levels: Uint8Array, rowStep: number, lut: Uint8Array): void {
+/** Writes rect r of an indexed image from table levels (its palette indices), row y at levels[y·rowStep + x] (rowStep 0: every row alike). */
+function paintLevels(img: RgbImage, r: Rect, levels: Uint8Array, rowStep: number): void {
+  for (let y = 0; y < r.h; y++) img.data.set(levels.subarray(y * rowStep, y * rowStep + r.w), (r.y + y) * img.width + r.x);
+}
+
+/**
+ * Writes rect r of an indexed image from the levels of a map's samples (nx a row): display pixel
+ * (x, y) shows sample (cols[x], rows[y]), resampleForDisplay's nearest sample when it enlarges.
+ */
+function paintSamples(img: RgbImage, r: Rect, levels: Uint8Array, nx: number, cols: Int32Array, rows: Int32Array): void {
   const d = img.data;
-  // Each pixel but a row's last as one four-byte write (its colour and a zero the next pixel then
-  // overwrites), two and a half times as fast as three byte writes; the last pixel byte by byte, so
-  // nothing right of the rectangle is touched.
-  const lut32 = packedLut(lut);
-  const view = new DataView(d.buffer, d.byteOffset, d.byteLength);
+  // One display column a sample: each row is a copy of the levels' row.
+  const oneToOne = r.w === nx;
   for (let y = 0; y < r.h; y++) {
-    let i = ((r.y + y) * img.width + r.x) * 3;
-    const row = y * rowStep;
-    const last = r.w - 1;
-    for (let x = 0; x < last; x++, i += 3) view.setUint32(i, lut32[levels[row + x]!]!, true);
-    if (last < 0) continue;
-    const k = levels[row + last]! * 3;
-    d[i] = lut[k]!;
-    d[i + 1] = lut[k + 1]!;
-    d[i + 2] = lut[k + 2]!;
+    const to = (r.y + y) * img.width + r.x;
+    // A display row showing the same samples as the one above it is a copy of it.
+    if (y > 0 && rows[y] === rows[y - 1]) {
+      d.copyWithin(to, to - img.width, to - img.width + r.w);
+      continue;
+    }
+    const from = rows[y]! * nx;
+    if (oneToOne) d.set(levels.subarray(from, from + nx), to);
+    else for (let x = 0; x < r.w; x++) d[to + x] = levels[from + cols[x]!]!;
   }
 }
-
-/** A colour table's entries as little-endian words (r, g, b, 0), kept for the last table asked. */
-function packedLut(lut: Uint8Array): Uint32Array {
-  if (PACKED.lut === lut) return PACKED.words;
-  const words = new Uint32Array(LUT_LEVELS);
-  for (let k = 0; k < LUT_LEVELS; k++) words[k] = (lut[3 * k]! | (lut[3 * k + 1]! << 8) | (lut[3 * k + 2]! << 16)) >>> 0;
-  PACKED.lut = lut;
-  PACKED.words = words;
-  return words;
-}
-const PACKED: { lut: Uint8Array | null; words: Uint32Array } = { lut: null, words: new Uint32Array(0) };
 
 /** Peak and tick values: three significant digits, exponent form outside 0.01..1000. */
 function compact(v: number): string {

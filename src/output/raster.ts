@@ -3,13 +3,15 @@
 import { crc32, deflateSync } from 'node:zlib';
 import type { Colour, RgbImage } from './font.js';
 import type { ColourScale } from './colour-scales.js';
+import { colourIndex } from './indexed.js';
 
 export const LUT_LEVELS = 256; // one per 8-bit step: finer tables only add rounding dips
 
-export function buildLut(scale: ColourScale): Uint8Array {
-  const lut = new Uint8Array(LUT_LEVELS * 3);
-  for (let i = 0; i < LUT_LEVELS; i++) {
-    const c = scale(i / (LUT_LEVELS - 1));
+/** The colour table of a scale: `levels` colours (r, g, b), level i for t = i/(levels − 1). */
+export function buildLut(scale: ColourScale, levels = LUT_LEVELS): Uint8Array {
+  const lut = new Uint8Array(levels * 3);
+  for (let i = 0; i < levels; i++) {
+    const c = scale(i / (levels - 1));
     for (let j = 0; j < 3; j++) lut[i * 3 + j] = Math.round(c[j]!);
   }
   return lut;
@@ -36,6 +38,22 @@ export function fillRect(img: RgbImage, r: Rect, c: Colour): void {
   const x0 = Math.max(0, r.x), x1 = Math.min(img.width, r.x + r.w);
   const y0 = Math.max(0, r.y), y1 = Math.min(img.height, r.y + r.h);
   if (x1 <= x0 || y1 <= y0) return;
+  if (img.palette) {
+    const k = colourIndex(img, c);
+    if (k >= 0) {
+      const d = img.data;
+      const w = img.width;
+      // Narrow rectangles (grid lines, a line plot's gathered columns) byte by byte: a fill call a
+      // row cost more than the row.
+      if (x1 - x0 <= 8) {
+        for (let y = y0; y < y1; y++) for (let i = y * w + x0, end = y * w + x1; i < end; i++) d[i] = k;
+      } else {
+        for (let y = y0; y < y1; y++) d.fill(k, y * w + x0, y * w + x1);
+      }
+      return;
+    }
+  }
+  // (Read after the palette: an indexed image that ran out of colours has just become RGB.)
   const d = img.data;
   // The first row pixel by pixel, the others copied from it (a whole picture's background is
   // half a million pixels).
@@ -57,17 +75,31 @@ export function frame(img: RgbImage, r: Rect, c: Colour): void {
 }
 
 /**
- * PNG file bytes of an RGB image (8-bit, no alpha), per the PNG specification (ISO/IEC 15948):
- * signature, IHDR, one IDAT, IEND. Every row carries filter 0 (none) and the rows are deflated by
- * node's zlib at level DEFLATE_LEVEL. Measured on an 860 × 558 case picture (busy shared machine):
- * pngjs with its default adaptive filter (five filters tried per row) and level 9 took about
- * 160 ms and wrote 198 kB; filter 0 with zlib level 1 takes about 10 ms and writes 162 kB. Our
- * pictures are colour-mapped panels on a flat background, where the "none" filter leaves long
- * repeats that deflate finds; sub/up filters compressed worse (177 and 203 kB) and cost more.
+ * PNG file bytes of an image (8-bit; RGB, or indexed with its palette), per the PNG specification
+ * (ISO/IEC 15948): signature, IHDR, PLTE for an indexed image, one IDAT, IEND. Every row carries
+ * filter 0 (none) and the rows are deflated by node's zlib at level DEFLATE_LEVEL. Measured on an
+ * 860 × 558 case picture (busy shared machine): pngjs with its default adaptive filter (five
+ * filters tried per row) and level 9 took about 160 ms and wrote 198 kB; filter 0 with zlib level
+ * 1 takes about 10 ms and writes 162 kB. Our pictures are colour-mapped panels on a flat
+ * background, where the "none" filter leaves long repeats that deflate finds; sub/up filters
+ * compressed worse (177 and 203 kB) and cost more, and so did zlib's run-length and Huffman-only
+ * strategies (4 and 5 times the bytes, and longer, because the Huffman coding of the larger output
+ * costs more than the matches saved). Indexed, a picture is a third of the bytes to deflate: about
+ * half the time, and half the file.
  */
 export function encodePng(img: RgbImage): Buffer {
+  return encodePngs(img, img.palette ? [img.palette] : [null])[0]!;
+}
+
+/**
+ * One image in several palettes (an indexed image drawn in colour-table levels, written in each
+ * scale's colours): the rows deflated once, a PNG per palette (null: the image's RGB). A palette
+ * must give every entry a colour the image uses (reserved entries too).
+ */
+export function encodePngs(img: RgbImage, palettes: readonly (readonly number[] | null)[]): Buffer[] {
   const { width, height, data } = img;
-  const stride = width * 3;
+  const indexed = !!img.palette;
+  const stride = width * (indexed ? 1 : 3);
   // The filtered rows are deflated at once (deflateSync) and not kept: one scratch buffer serves
   // every picture (a case's two pictures allocated 3 MB for them, and the collector came round more).
   // (Up to RAW_KEPT bytes; a larger image, such as a big contact sheet, gets a buffer of its own.)
@@ -83,9 +115,23 @@ export function encodePng(img: RgbImage): Buffer {
   ihdr.writeUInt32BE(width, 0);
   ihdr.writeUInt32BE(height, 4);
   ihdr[8] = 8; // bit depth
-  ihdr[9] = 2; // colour type 2: RGB
+  ihdr[9] = indexed ? 3 : 2; // colour type 3: indexed, 2: RGB
   // compression 0, filter method 0, interlace 0: the bytes Buffer.alloc left there.
-  return Buffer.concat([PNG_SIGNATURE, chunk('IHDR', ihdr), chunk('IDAT', deflateSync(raw, { level: DEFLATE_LEVEL })), chunk('IEND', Buffer.alloc(0))]);
+  const head = Buffer.concat([PNG_SIGNATURE, chunk('IHDR', ihdr)]);
+  const idat = chunk('IDAT', deflateSync(raw, { level: DEFLATE_LEVEL }));
+  return palettes.map((palette) => {
+    if (!indexed) return Buffer.concat([head, idat, IEND]);
+    if (!palette || palette.length !== img.palette!.length || palette.some((p) => !(p >= 0 && p <= 0xffffff))) {
+      throw new Error('encodePngs: an indexed image needs a colour for every palette entry');
+    }
+    const plte = Buffer.allocUnsafe(3 * palette.length);
+    palette.forEach((p, i) => {
+      plte[3 * i] = (p >> 16) & 255;
+      plte[3 * i + 1] = (p >> 8) & 255;
+      plte[3 * i + 2] = p & 255;
+    });
+    return Buffer.concat([head, chunk('PLTE', plte), idat, IEND]);
+  });
 }
 
 const DEFLATE_LEVEL = 1;
@@ -103,3 +149,5 @@ function chunk(type: string, body: Uint8Array): Buffer {
   out.writeUInt32BE(crc32(out.subarray(4, 8 + body.length)), 8 + body.length);
   return out;
 }
+
+const IEND = chunk('IEND', Buffer.alloc(0));

@@ -14,7 +14,7 @@ vi.mock('../../src/output/font.js', async (importOriginal) => {
   };
 });
 
-import { layoutPicture, renderIntensityPng, type PictureInput, type Rect } from '../../src/output/picture.js';
+import { layoutPicture, PANEL_LEVELS, renderIntensityPng, type PictureInput, type Rect } from '../../src/output/picture.js';
 import { gray, shoal, SHOAL_ANCHORS, type ColourScale } from '../../src/output/colour-scales.js';
 import { CELL_H, drawText, hasGlyph, textWidth, type RgbImage } from '../../src/output/font.js';
 import { decode, type Px } from '../png.js';
@@ -86,17 +86,17 @@ describe('colour scales', () => {
     expect(lightness(s(1))).toBeGreaterThan(95);
   });
 
-  it.each(scales)('%s: the 256-level 8-bit table the picture uses never gets darker', (_name, s) => {
+  it.each(scales.flatMap(([name, s]) => [256, PANEL_LEVELS].map((n) => [name, s, n] as const)))('%s: the %s-level 8-bit table (contact sheet, case pictures) never gets darker', (_name, s, n) => {
     // Rounding to 8 bits may make two neighbouring levels the same colour, never a darker one.
     let prev = -Infinity;
     let distinct = 0;
-    for (let i = 0; i < 256; i++) {
-      const l = lightness(round3(s(i / 255)));
+    for (let i = 0; i < n; i++) {
+      const l = lightness(round3(s(i / (n - 1))));
       expect(l).toBeGreaterThanOrEqual(prev);
       if (l > prev) distinct++;
       prev = l;
     }
-    expect(distinct).toBeGreaterThan(240);
+    expect(distinct).toBeGreaterThan(n - 16);
   });
 
   it('shoal passes through its design anchors', () => {
@@ -184,6 +184,34 @@ describe('renderIntensityPng', () => {
     expect(img.at(r.x + 200, r.y + 200)).toEqual([255, 255, 255]);
   });
 
+  it('shows a map a little over 400 samples one to one, and enlarges by the nearest sample, each pixel its sample\'s level', () => {
+    // The linear view's level of v is round(v/peak·top) (the view's definition): computed here per
+    // sample and compared with every panel pixel.
+    const top = PANEL_LEVELS - 1;
+    const lut = Array.from({ length: PANEL_LEVELS }, (_, k) => round3(gray(k / top)).join());
+    let seed = 777;
+    const rnd = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31);
+    for (const [n, side] of [[401, 401], [425, 425], [426, 400], [300, 400], [130, 390]] as const) {
+      const v = Float64Array.from({ length: n * n }, () => rnd());
+      v[7] = 1;
+      const { img, layout } = render({ map: mapOf(v, n, n, 1e-6, 1e-6), scale: 'gray' });
+      const r = layout.panels[0];
+      expect([n, r.w, r.h]).toEqual([n, side, side]);
+      if (side < n) continue; // shrunk: box averages (the test below)
+      const wrong: string[] = [];
+      for (let y = 0; y < r.h; y++) {
+        for (let x = 0; x < r.w; x++) {
+          // The nearest sample to the display pixel's centre.
+          const col = Math.min(n - 1, Math.floor(((x + 0.5) * n) / r.w));
+          const row = Math.min(n - 1, Math.floor(((y + 0.5) * n) / r.h));
+          const level = Math.round(v[row * n + col]! * top);
+          if (img.at(r.x + x, r.y + y).join() !== lut[level]) wrong.push(`${n}: (${x}, ${y})`);
+        }
+      }
+      expect(wrong.slice(0, 5)).toEqual([]);
+    }
+  });
+
   it('box-averages fine fringes when shrinking instead of aliasing them', () => {
     // Common practice (sampling theorem): low-pass before decimating. Alternating
     // columns 1,0 shrunk 2:1 must become uniform half intensity; picking one sample
@@ -235,7 +263,8 @@ describe('renderIntensityPng', () => {
   });
 
   it.each([1, 2.5, 5, 12])('paints every log-panel pixel at the level its value defines (%s decades)', (decades) => {
-    // The log view's level of a value v is round(clamp(1 + log10(v/peak)/decades)·255), 0 for v = 0
+    // The log view's level of a value v is round(clamp(1 + log10(v/peak)/decades)·top), 0 for v = 0,
+    // top = PANEL_LEVELS − 1
     // (the view's definition, common practice for a log display relative to the peak): computed here
     // per pixel and compared with what the picture writer paints (it finds levels by bounds). A
     // 200 × 200 map is drawn 2× enlarged, each display pixel one sample's value. Values: random over
@@ -246,8 +275,9 @@ describe('renderIntensityPng', () => {
     const rnd = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31);
     for (let i = 0; i < v.length; i++) v[i] = 10 ** (-rnd() * (decades + 1));
     let i = 0;
-    for (let k = 1; k <= 255 && i + 6 < v.length; k++) {
-      const step = 10 ** (decades * ((k - 0.5) / 255 - 1));
+    const top = PANEL_LEVELS - 1;
+    for (let k = 1; k <= top && i + 6 < v.length; k++) {
+      const step = 10 ** (decades * ((k - 0.5) / top - 1));
       for (const f of [1 - 1e-15, 1 - 2e-16, 1, 1 + 2e-16, 1 + 1e-15, 1 + 1e-12]) v[i++] = step * f;
     }
     v[i++] = 0;
@@ -256,12 +286,12 @@ describe('renderIntensityPng', () => {
     const { img, layout } = render(p);
     const r = layout.panels[1];
     expect([r.w, r.h]).toEqual([2 * n, 2 * n]);
-    const lut = Array.from({ length: 256 }, (_, k) => round3(gray(k / 255)).join());
+    const lut = Array.from({ length: PANEL_LEVELS }, (_, k) => round3(gray(k / top)).join());
     const wrong: string[] = [];
     for (let row = 0; row < n; row++) {
       for (let col = 0; col < n; col++) {
         const x = v[row * n + col]!;
-        const level = x > 0 ? Math.round(Math.min(1, Math.max(0, 1 + Math.log10(x) / decades)) * 255) : 0;
+        const level = x > 0 ? Math.round(Math.min(1, Math.max(0, 1 + Math.log10(x) / decades)) * top) : 0;
         if (img.at(r.x + 2 * col, r.y + 2 * row).join() !== lut[level]) wrong.push(`${x} (level ${level})`);
       }
     }
