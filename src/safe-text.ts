@@ -52,3 +52,10 @@ export function safeLines(text: string, maxLines: number, lineChars: number): st
 export function guardFormula(cell: string): string {
   return /^[=+\-@\t\r]/.test(cell) ? `'${cell}` : cell;
 }
+
+const HTML_ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
+
+/** Escapes text for HTML element content and for quoted attribute values alike. */
+export function escapeHtml(s: string): string {
+  return s.replace(/[&<>"']/g, (ch) => HTML_ESCAPES[ch]!);
+}

@@ -7,13 +7,93 @@
 // (all done), and gathering uses a prepared share only where the prediction held (the same label,
 // the same page side), reading the others from disk as before. Both paths call the functions here
 // on the same values, so the report is the same either way.
-import { sheetIndices, evenIndices, EXPLORER_MAX_CASES, sheetTile, sweptLabel } from './assemble.js';
 import { explorerCaseOf, explorerSide, explorerSourceOf, pageCase, type PageCase } from './explorer.js';
 import type { SheetTile } from './contact-sheet.js';
 import type { CaseSummary } from '../output/case-output.js';
 import type { NpyDtype } from '../output/npy.js';
 import type { SweepAxis } from '../job/expand.js';
 import type { Case, Plan } from '../plan/types.js';
+import { formatLength } from '../job/units.js';
+import { isOneD } from '../model/grid.js';
+import type { IntensityMap } from '../model/intensity-map.js';
+
+/** How many cases a contact sheet shows at most (chosen evenly along the sweep). */
+export const SHEET_MAX_TILES = 36;
+
+/** Indices of the cases that go on the contact sheet. */
+export function sheetIndices(count: number): Set<number> {
+  if (count < 2) return new Set();
+  return evenIndices(count, SHEET_MAX_TILES);
+}
+
+/** At most `most` indices of `count`, evenly along them, the first and last included. */
+export function evenIndices(count: number, most: number): Set<number> {
+  const n = Math.min(count, most);
+  return new Set(Array.from({ length: n }, (_, i) => Math.round((i * (count - 1)) / Math.max(1, n - 1))));
+}
+
+/** How many cases the explorer page carries at most (chosen evenly along the sweep). */
+export const EXPLORER_MAX_CASES = 48;
+
+/** A case's map reduced (box average) to at most `limit` samples per axis, for the contact sheet. */
+export function sheetTile(label: string, c: IntensityMap, limit = 400): SheetTile {
+  const oneD = isOneD(c);
+  const fx = Math.max(1, Math.ceil(c.nx / limit));
+  const fy = oneD ? 1 : Math.max(1, Math.ceil(c.ny / limit));
+  const cols = Math.floor(c.nx / fx);
+  const rows = Math.floor(c.ny / fy);
+  const out = new Float64Array(rows * cols);
+  for (let r = 0; r < rows; r++) {
+    for (let q = 0; q < cols; q++) {
+      let s = 0;
+      for (let i = 0; i < fy; i++) for (let j = 0; j < fx; j++) s += c.intensity[(r * fy + i) * c.nx + q * fx + j]!;
+      out[r * cols + q] = s / (fx * fy);
+    }
+  }
+  // The reduced sample (r, q) is centred on the mean position of the samples it averages; a 1-D
+  // map stays in the grid's 1-D form.
+  const map: IntensityMap = {
+    nx: cols,
+    ny: rows,
+    dx: c.dx * fx,
+    dy: oneD ? 0 : c.dy * fy,
+    x0: c.x0 + ((fx - 1) / 2) * c.dx,
+    y0: oneD ? 0 : c.y0 + ((fy - 1) / 2) * c.dy,
+    intensity: out,
+  };
+  // The case's peak from the full map: the reduced one's box averages are lower.
+  let peak = 0;
+  for (let i = 0; i < c.intensity.length; i++) if (c.intensity[i]! > peak) peak = c.intensity[i]!;
+  return { label, map, peak };
+}
+
+const LABELS: Record<string, string> = {
+  wavelength: 'wavelength',
+  distance: 'distance',
+  'aperture.diameter': 'diameter',
+  'aperture.width': 'width',
+  'aperture.height': 'height',
+  'aperture.length': 'length',
+  'aperture.outer': 'outer diameter',
+  'aperture.inner': 'inner diameter',
+  'aperture.count': 'slit count',
+  'aperture.period': 'period',
+  'illumination.waist': 'beam waist',
+  'spectrometer.slit': 'entrance slit',
+  'spectrometer.collimator': 'collimator focal length',
+  'spectrometer.camera': 'camera focal length',
+  'spectrometer.pixel': 'pixel pitch',
+};
+
+/** A swept key's name in the report (its label, or the key itself). */
+export function sweptKeyName(key: string): string {
+  return LABELS[key] ?? key;
+}
+
+export function sweptLabel(a: { key: string; unit: 'm' | '1' }, value: number): string {
+  const short = sweptKeyName(a.key);
+  return `${short} ${a.unit === 'm' ? formatLength(value, 4) : value}`;
+}
 
 /** What the report will want of one case, sent with its task. */
 export interface ReportShare {

@@ -11,7 +11,7 @@ import { CASE_FILES, type CaseSummary } from '../output/case-output.js';
 import { methodWords } from '../plan/planner.js';
 import { decodeNpy } from '../output/npy.js';
 import { shoal } from '../output/colour-scales.js';
-import { escapeHtml } from './html.js';
+import { escapeHtml } from '../safe-text.js';
 import { formatLength } from '../job/units.js';
 import type { Grid } from '../model/grid.js';
 

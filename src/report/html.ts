@@ -5,7 +5,7 @@
 
 import { stringify as yamlStringify } from 'yaml';
 import { formatLength, trimNumber } from '../job/units.js';
-import { ECHO_MAX, safeEcho, safeLines } from '../safe-text.js';
+import { ECHO_MAX, escapeHtml, safeEcho, safeLines } from '../safe-text.js';
 import { TOOL_NAME } from '../version.js';
 import type { JobReport, MetricInfo, ReportCase, ReportPlot, ReportTable, SweepKey } from './types.js';
 
@@ -56,12 +56,8 @@ export const REPORT_LIMITS = {
 // ---------------------------------------------------------------------------------------------
 // Text
 
-const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
-
-/** Escapes text for element content and for quoted attribute values alike. */
-export function escapeHtml(s: string): string {
-  return s.replace(/[&<>"']/g, (ch) => ESCAPES[ch]!);
-}
+// (escapeHtml lives in safe-text.ts, so that the explorer's per-case part loads no YAML library.)
+export { escapeHtml };
 
 /** For the tool's own words (its name, counts, sentences built here): HTML-escaped only. */
 const esc = (s: unknown) => escapeHtml(String(s));
