@@ -19,6 +19,8 @@
 #include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/mman.h>
+#include <unistd.h>
 
 /* Transforms side by side in the scratch: 8 doubles = two 256-bit vectors per plane and point. */
 #define LANES 8
@@ -287,6 +289,35 @@ static int run_pass(Job proto, long total, int threads) {
   return failed ? -1 : 0;
 }
 
+/*
+ * The pages of an array that are not in memory yet (a large array fresh from the allocator, which
+ * the system maps on first touch) are touched here, by this thread, before a pass shares the array
+ * between threads. Measured on the 2-core machines this was written on, first-touch page faults
+ * taken by two threads at once cost about five times the same faults taken by one: the row pass
+ * of a fresh 4096² array took 1.3-1.5 s on two threads against 0.3 s on one. mincore() says which
+ * pages are in memory (about a millisecond for 256 MB), so arrays already in use cost nothing more.
+ * Each touched value is read and written back unchanged before any other thread starts.
+ */
+static void touch_fresh_pages(double *data, size_t values) {
+  const long ps = sysconf(_SC_PAGESIZE);
+  if (ps <= 0 || values == 0) return;
+  const uintptr_t lo = (uintptr_t)data, hi = lo + values * sizeof(double);
+  const uintptr_t start = lo & ~(uintptr_t)(ps - 1);
+  const size_t pages = (hi - start + (uintptr_t)ps - 1) / (uintptr_t)ps;
+  unsigned char *in = malloc(pages);
+  if (!in) return;
+  if (mincore((void *)start, hi - start, in) == 0) {
+    for (size_t k = 0; k < pages; k++) {
+      if (in[k] & 1) continue;
+      uintptr_t at = start + k * (uintptr_t)ps;
+      if (at < lo) at = lo; /* the first page may begin before the array */
+      volatile double *v = (volatile double *)at;
+      *v = *v;
+    }
+  }
+  free(in);
+}
+
 /* Row pass over `rows` rows of nx points (in place), then, when cols, the column pass over [c0, c1). */
 static int transform(double *data, long nx, long ny, int inverse, int threads, int rows, long c0, long c1) {
   Job j = {0};
@@ -294,6 +325,7 @@ static int transform(double *data, long nx, long ny, int inverse, int threads, i
   j.nx = nx;
   j.ny = ny;
   j.inverse = inverse;
+  if (threads > 1) touch_fresh_pages(data, (size_t)(2 * nx * ny));
   if (rows) {
     j.px = plan_for((int)nx);
     if (!j.px) return -1;
