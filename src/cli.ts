@@ -210,8 +210,8 @@ function stopOnSignals(): {
 async function earlyCrew(files: string[], flags: RunFlags): Promise<Crew | null> {
   const n = Math.min(flags.workers, machineThreads());
   if (n < 2 || files.length === 0) return null;
-  const [{ crewAvailable, startCrew }, { DEFAULT_MAX_MEMORY }] = await Promise.all([import('./run/crew.js'), import('./plan/limits.js')]);
-  return crewAvailable() ? startCrew(n, { maxMemoryBytes: flags.maxMemoryBytes ?? DEFAULT_MAX_MEMORY }) : null;
+  const [{ workersAvailable, startCrew }, { DEFAULT_MAX_MEMORY }] = await Promise.all([import('./run/crew.js'), import('./plan/limits.js')]);
+  return workersAvailable() ? startCrew(n, { maxMemoryBytes: flags.maxMemoryBytes ?? DEFAULT_MAX_MEMORY }) : null;
 }
 
 async function runCommand(files: string[], flags: RunFlags): Promise<number> {

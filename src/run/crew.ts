@@ -14,10 +14,11 @@ import type { Case, Plan } from '../plan/types.js';
 import type { PlannerOptions } from '../plan/planner.js';
 import type { FromWorker, ToWorker } from './worker.js';
 
-const WORKER_FILE = new URL('./worker.js', import.meta.url);
+/** The compiled worker module, for the crew and for the scheduler's own workers. */
+export const WORKER_FILE = new URL('./worker.js', import.meta.url);
 
-/** Worker threads need the compiled worker module (as scheduler.ts workersAvailable). */
-export function crewAvailable(): boolean {
+/** Worker threads need the compiled worker module; from TypeScript sources (tests) there is none. */
+export function workersAvailable(): boolean {
   return existsSync(fileURLToPath(WORKER_FILE));
 }
 

@@ -2,7 +2,6 @@
 // one worker is asked for, or in this thread with an FFT team (src/parallel) when a few large cases
 // are better served by sharing each one's FFTs between the threads (chooseParallelism). A worker
 // that dies fails only the case it had; a new one takes over.
-import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import type { Worker } from 'node:worker_threads';
 import Pool from 'worker-threads-pool';
@@ -14,7 +13,7 @@ import type { Plan } from '../plan/types.js';
 import { descriptorOf } from '../methods/registry.js';
 import { startFftTeam, stopFftTeam, teamsAvailable, TEAM_MIN_VALUES } from '../parallel/fft-team.js';
 import { machineThreads } from './threads.js';
-import type { Crew } from './crew.js';
+import { WORKER_FILE, workersAvailable, type Crew } from './crew.js';
 
 export { machineThreads };
 
@@ -57,12 +56,7 @@ export interface TasksOutcome {
   kept: Worker[];
 }
 
-const WORKER_FILE = new URL('./worker.js', import.meta.url);
-
-/** Worker threads need the compiled worker module; from TypeScript sources (tests) there is none. */
-export function workersAvailable(): boolean {
-  return existsSync(fileURLToPath(WORKER_FILE));
-}
+export { workersAvailable };
 
 export interface Parallelism {
   /** Cases at once, one per worker thread. */

@@ -62,7 +62,7 @@ async function runAndRegather(name: string, fault?: string): Promise<{ run: stri
   await cp(run, again, { recursive: true });
   for (const f of REPORT_FILES) await unlink(join(again, f));
   const loaded = await loadJobFile(file);
-  const g = await gatherJob(loaded, again, expandJob(loaded.spec).map((c) => c));
+  const g = await gatherJob(loaded, again, expandJob(loaded.spec));
   expect(g.reportError).toBeUndefined();
   return { run, again, notes: r.notes };
 }
