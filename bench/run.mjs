@@ -16,12 +16,15 @@ import { tmpdir, availableParallelism, cpus, loadavg } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { runCli, writeUsagePreload } from './cli-process.mjs';
+import { steadyHeapGrowth } from '../dist/src/run/heap-growth.js';
 
 const args = process.argv.slice(2);
 const json = args.includes('--json');
 const option = (name) => (args.includes(name) ? args[args.indexOf(name) + 1] : null);
 const only = option('--only');
 const rounds = Math.max(1, Number(option('--rounds') ?? 3));
+// The in-process rows run with the heap settings the command line sets for its runs.
+steadyHeapGrowth();
 // --cli: another build's dist/src/cli.js (to compare builds with the same measurement).
 const cli = option('--cli') ?? fileURLToPath(new URL('../dist/src/cli.js', import.meta.url));
 const rows = [];
