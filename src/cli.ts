@@ -13,7 +13,7 @@ import { machineThreads } from './run/threads.js';
 import type { JobOutcome } from './run/run-job.js';
 import type { Crew } from './run/crew.js';
 import { safeEcho } from './safe-text.js';
-import { steadyHeapGrowth } from './run/heap-growth.js';
+import { settleV8 } from './run/v8-settings.js';
 import { TOOL_VERSION } from './version.js';
 
 /** The default of --max-memory, as help shows it: the planner's DEFAULT_MAX_MEMORY (a test holds them equal). */
@@ -216,7 +216,7 @@ async function earlyCrew(files: string[], flags: RunFlags): Promise<Crew | null>
 }
 
 async function runCommand(files: string[], flags: RunFlags): Promise<number> {
-  steadyHeapGrowth(); // before any worker starts: they share the process's V8 flags
+  settleV8(Math.min(flags.workers, machineThreads()), machineThreads()); // before any worker starts
   let early = await earlyCrew(files, flags);
   const [{ runJobFile }, { DEFAULT_MAX_MEMORY }] = await Promise.all([import('./run/run-job.js'), import('./plan/limits.js')]);
   const outcomes: JobOutcome[] = [];
