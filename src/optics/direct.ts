@@ -329,37 +329,105 @@ function divideCellResponse(spec: Float64Array, fx: Float64Array, fy: Float64Arr
  * are 1/(kr) relative: a few per cent a few wavelengths from the aperture, nothing far away.
  */
 export function applyFarFieldFactor(out: Field, z: number): void {
+  if (isOneD(out)) applyLineFactor(out, z);
+  else applyPlaneFactor(out, z);
+}
+
+/** applyFarFieldFactor on a line (1-D): the Hankel function near the aperture, its large-kr form beyond. */
+function applyLineFactor(out: Field, z: number): void {
   const lam = out.wavelength;
-  const oneD = isOneD(out);
   const k = (2 * Math.PI) / lam;
   const h = new Float64Array(2);
-  for (let r = 0; r < out.ny; r++) {
-    const y = oneD ? 0 : out.y0 + r * out.dy;
-    for (let c = 0; c < out.nx; c++) {
-      const x = out.x0 + c * out.dx;
-      const rr = Math.sqrt(x * x + y * y + z * z);
-      const i = 2 * (r * out.nx + c);
-      if (oneD) {
-        if (k * rr < NEAR_KERNEL_KR) {
-          // (ikz/2r)·H₁: multiply by i·(kz/2r)·(H_re + i·H_im).
-          hankel1Into(k * rr, h, 0);
-          const s = (k * z) / (2 * rr);
-          const re = out.data[i]!;
-          const im = out.data[i + 1]!;
-          const kr = -s * h[1]!;
-          const ki = s * h[0]!;
-          out.data[i] = re * kr - im * ki;
-          out.data[i + 1] = re * ki + im * kr;
-        } else {
-          rotate(out.data, i, propagationPhase(rr, lam) - Math.PI / 4, (z / rr) / Math.sqrt(lam * rr));
-        }
-      } else {
-        // 1 + i/(kr) as an amplitude and a phase.
-        const q = 1 / (k * rr);
-        rotate(out.data, i, propagationPhase(rr, lam) - Math.PI / 2 + Math.atan(q), ((z / rr) / (lam * rr)) * Math.sqrt(1 + q * q));
-      }
+  for (let c = 0; c < out.nx; c++) {
+    const x = out.x0 + c * out.dx;
+    const rr = Math.sqrt(x * x + z * z);
+    const i = 2 * c;
+    if (k * rr < NEAR_KERNEL_KR) {
+      // (ikz/2r)·H₁: multiply by i·(kz/2r)·(H_re + i·H_im).
+      hankel1Into(k * rr, h, 0);
+      const s = (k * z) / (2 * rr);
+      const re = out.data[i]!;
+      const im = out.data[i + 1]!;
+      const kr = -s * h[1]!;
+      const ki = s * h[0]!;
+      out.data[i] = re * kr - im * ki;
+      out.data[i + 1] = re * ki + im * kr;
+    } else {
+      rotate(out.data, i, propagationPhase(rr, lam) - Math.PI / 4, (z / rr) / Math.sqrt(lam * rr));
     }
   }
+}
+
+/**
+ * applyFarFieldFactor on a plane: (z/r)·e^{ikr}/(iλr)·(1 + i/(kr)) = s·(1 + iq)·(sin θ − i cos θ)
+ * with s = z/(λr²), q = 1/(kr), θ = kr reduced (propagationPhase): one sine and one cosine a
+ * point. The factor depends on x² and y² only, so where the window is mirrored about the axis
+ * (x(c′) = −x(c) to a few ulps, as in a window centred on it) the mirror column and row take the
+ * factor computed for the first of the pair: a quarter of the trigonometry on a centred window,
+ * which was most of the small far-field case's propagation. The mirror's own x may differ from −x
+ * by rounding (at most 4ε × the window's width) and its r then by an ulp or so: the phase moves by
+ * about k·r·ε (1e-8 rad at metres), as much as the rounding of r already leaves in kr, and the
+ * modulus by a relative 1e-16 (test/optics/far-field-factor.test.ts holds every point to 8·k·r·ε
+ * of the kernel written out).
+ */
+function applyPlaneFactor(out: Field, z: number): void {
+  const lam = out.wavelength;
+  const k = (2 * Math.PI) / lam;
+  const { nx, ny, data } = out;
+  const colSum = mirrorIndexSum(nx, out.x0, out.dx);
+  const rowSum = mirrorIndexSum(ny, out.y0, out.dy);
+  // The factor along the row being done (re, im interleaved), for it and its mirror row.
+  const f = new Float64Array(2 * nx);
+  const z2 = z * z;
+  for (let r = 0; r < ny; r++) {
+    const rm = rowSum === null ? -1 : rowSum - r;
+    if (rm >= 0 && rm < r) continue; // done with its mirror
+    const y = out.y0 + r * out.dy;
+    const y2 = y * y;
+    for (let c = 0; c < nx; c++) {
+      const cm = colSum === null ? -1 : colSum - c;
+      if (cm >= 0 && cm < c) {
+        f[2 * c] = f[2 * cm]!;
+        f[2 * c + 1] = f[2 * cm + 1]!;
+        continue;
+      }
+      const x = out.x0 + c * out.dx;
+      const rr = Math.sqrt(x * x + y2 + z2);
+      const q = 1 / (k * rr);
+      const s = (z / rr) / (lam * rr);
+      const theta = propagationPhase(rr, lam);
+      const sn = Math.sin(theta);
+      const cs = Math.cos(theta);
+      f[2 * c] = s * (sn + q * cs);
+      f[2 * c + 1] = s * (q * sn - cs);
+    }
+    multiplyRow(data, r * nx, f, nx);
+    if (rm > r && rm < ny) multiplyRow(data, rm * nx, f, nx);
+  }
+}
+
+/** Multiplies the n complex samples of data from sample `at` by f's, one by one. */
+function multiplyRow(data: Float64Array, at: number, f: Float64Array, n: number): void {
+  for (let c = 0; c < n; c++) {
+    const i = 2 * (at + c);
+    const re = data[i]!;
+    const im = data[i + 1]!;
+    const fr = f[2 * c]!;
+    const fi = f[2 * c + 1]!;
+    data[i] = re * fr - im * fi;
+    data[i + 1] = re * fi + im * fr;
+  }
+}
+
+/**
+ * The index sum c + c′ of the samples x0 + c·d mirrored about 0 (x(c′) = −x(c)), when −2·x0/d is a
+ * whole number to a few ulps; null when the axis is not a mirror line of the samples.
+ */
+export function mirrorIndexSum(n: number, x0: number, d: number): number | null {
+  if (n < 2 || !(d > 0)) return null;
+  const m = (-2 * x0) / d;
+  const whole = Math.round(m);
+  return Math.abs(m - whole) <= 4 * Number.EPSILON * Math.max(1, Math.abs(m)) ? whole : null;
 }
 
 /**
