@@ -189,12 +189,29 @@ function radialFarFieldSpectrum(src: Field, z: number, outX: Axis, outY: Axis): 
   }
   const table = { start: -step, step, values: line };
   const out = new Float64Array(2 * outX.n * outY.n);
+  // The value depends on x² + y² only: on a window mirrored about the axis the mirror rows and
+  // columns copy the first of each pair (see applyPlaneFactor for what rounding that moves).
+  const nx = outX.n;
+  const colSum = mirrorIndexSum(nx, outX.start, outX.step);
+  const rowSum = mirrorIndexSum(outY.n, outY.start, outY.step);
   for (let r = 0; r < outY.n; r++) {
+    const rm = rowSum === null ? -1 : rowSum - r;
+    if (rm >= 0 && rm < r) {
+      out.copyWithin(2 * r * nx, 2 * rm * nx, 2 * (rm + 1) * nx);
+      continue;
+    }
     const y = axisAt(outY, r);
-    for (let c = 0; c < outX.n; c++) {
+    for (let c = 0; c < nx; c++) {
+      const cm = colSum === null ? -1 : colSum - c;
+      const i = r * nx + c;
+      if (cm >= 0 && cm < c) {
+        out[2 * i] = out[2 * (i - c + cm)]!;
+        out[2 * i + 1] = out[2 * (i - c + cm) + 1]!;
+        continue;
+      }
       const x = axisAt(outX, c);
       const rr = Math.sqrt(x * x + y * y + z * z);
-      interpolateSpectrum(table, Math.sqrt(x * x + y * y) / (lam * rr), out, r * outX.n + c);
+      interpolateSpectrum(table, Math.sqrt(x * x + y * y) / (lam * rr), out, i);
     }
   }
   return out;

@@ -3,12 +3,15 @@
 // (Goodman, Introduction to Fourier Optics, §3.5) with the aperture's own phase left out. The
 // program computes it once per mirrored pair of rows and columns on a window centred on the axis;
 // here every point is computed on its own, with its phase kr reduced exactly as the program does
-// (2π·frac(r/λ), phase.ts), so the two agree to rounding on any window, centred or not.
+// (2π·frac(r/λ), phase.ts), so the two agree to rounding on any window, centred or not. The radial
+// spectrum a disc's far field takes is copied across the mirror lines likewise: a centred window
+// against the same points computed on their own.
 import { describe, expect, it } from 'vitest';
-import { applyFarFieldFactor, mirrorIndexSum } from '../../src/optics/direct.js';
+import { applyFarFieldFactor, mirrorIndexSum, propagateFarField } from '../../src/optics/direct.js';
 import { createField } from '../../src/optics/field.js';
 import { propagationPhase } from '../../src/optics/phase.js';
 import { mulberry32 } from '../helpers.js';
+import { engine } from '../engine.js';
 
 /** The kernel at (x, y) times the sample (re, im), written out: e^{i(θ − π/2)}·(z/(λr²))·(1 + i/(kr)). */
 function byPoint(x: number, y: number, z: number, lam: number, re: number, im: number): [number, number] {
@@ -75,5 +78,34 @@ describe('far-field prefactor on a plane', () => {
     expect(mirrorIndexSum(101, -47 * 2e-6, 2e-6)).toBe(94);
     expect(mirrorIndexSum(101, -47.3 * 2e-6, 2e-6)).toBeNull();
     expect(mirrorIndexSum(1, 0, 1e-6)).toBeNull();
+  });
+
+  it('the far field of a disc on a centred window equals, point for point, the same points computed on their own (a quadrant window off the axis)', () => {
+    // A sampled disc, 24 samples across; its far field by the radial path on a centred 61 × 61
+    // window, whose mirror rows and columns are copies, and on the window's lower right quadrant,
+    // which mirrors nothing: every point there is interpolated on its own, from the same table.
+    const lam = 633e-9;
+    const z = 0.5;
+    const d = 2e-6;
+    const n = 32;
+    const src = createField({ n, start: (-(n - 1) / 2) * d, step: d }, { n, start: (-(n - 1) / 2) * d, step: d }, lam);
+    for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) if (Math.hypot(c - (n - 1) / 2, r - (n - 1) / 2) <= 12) src.data[2 * (r * n + c)] = 1;
+    const step = 0.4e-3;
+    const full = propagateFarField(engine, src, z, { n: 61, start: -30 * step, step }, { n: 61, start: -30 * step, step }, [0, 0], { radial: true });
+    const quad = propagateFarField(engine, src, z, { n: 31, start: 0, step }, { n: 31, start: 0, step }, [0, 0], { radial: true });
+    expect(mirrorIndexSum(61, -30 * step, step)).toBe(60);
+    let peak = 0;
+    for (let i = 0; i < full.data.length; i++) peak = Math.max(peak, Math.abs(full.data[i]!));
+    let worst = 0;
+    for (let r = 0; r < 61; r++) {
+      for (let c = 0; c < 61; c++) {
+        // The quadrant's point with the same |x| and |y| (the same point for r, c ≥ 30).
+        const q = (Math.abs(r - 30) * 31 + Math.abs(c - 30)) * 2;
+        const i = (r * 61 + c) * 2;
+        worst = Math.max(worst, Math.hypot(full.data[i]! - quad.data[q]!, full.data[i + 1]! - quad.data[q + 1]!) / peak);
+      }
+    }
+    expect(peak).toBeGreaterThan(0);
+    expect(worst).toBeLessThan(1e-12);
   });
 });
