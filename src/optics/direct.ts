@@ -2,7 +2,7 @@
 // the Fresnel integral (single-transform form, paraxial) and the far-field formula.
 import { dft1, dft2, dft2AtPoints, interpolateSpectrum, tabulateSpectrum } from './dft.js';
 import type { Engine } from './engine.js';
-import { axisAt, createField, isOneD, xAxisOf, yAxisOf, type Allocate, type Axis, type Field } from './field.js';
+import { axisAt, createField, isOneD, multiplyComplex, xAxisOf, yAxisOf, type Allocate, type Axis, type Field } from './field.js';
 import { propagationPhase, rotate } from './phase.js';
 import { cellResponse } from './spectral.js';
 import { hankel1Into } from './hankel.js';
@@ -195,16 +195,16 @@ function radialFarFieldSpectrum(src: Field, z: number, outX: Axis, outY: Axis): 
   const colSum = mirrorIndexSum(nx, outX.start, outX.step);
   const rowSum = mirrorIndexSum(outY.n, outY.start, outY.step);
   for (let r = 0; r < outY.n; r++) {
-    const rm = rowSum === null ? -1 : rowSum - r;
-    if (rm >= 0 && rm < r) {
+    const rm = earlierMirror(rowSum, r);
+    if (rm >= 0) {
       out.copyWithin(2 * r * nx, 2 * rm * nx, 2 * (rm + 1) * nx);
       continue;
     }
     const y = axisAt(outY, r);
     for (let c = 0; c < nx; c++) {
-      const cm = colSum === null ? -1 : colSum - c;
+      const cm = earlierMirror(colSum, c);
       const i = r * nx + c;
-      if (cm >= 0 && cm < c) {
+      if (cm >= 0) {
         out[2 * i] = out[2 * (i - c + cm)]!;
         out[2 * i + 1] = out[2 * (i - c + cm) + 1]!;
         continue;
@@ -397,13 +397,12 @@ function applyPlaneFactor(out: Field, z: number): void {
   const f = new Float64Array(2 * nx);
   const z2 = z * z;
   for (let r = 0; r < ny; r++) {
-    const rm = rowSum === null ? -1 : rowSum - r;
-    if (rm >= 0 && rm < r) continue; // done with its mirror
+    if (earlierMirror(rowSum, r) >= 0) continue; // done with its mirror
     const y = out.y0 + r * out.dy;
     const y2 = y * y;
     for (let c = 0; c < nx; c++) {
-      const cm = colSum === null ? -1 : colSum - c;
-      if (cm >= 0 && cm < c) {
+      const cm = earlierMirror(colSum, c);
+      if (cm >= 0) {
         f[2 * c] = f[2 * cm]!;
         f[2 * c + 1] = f[2 * cm + 1]!;
         continue;
@@ -418,22 +417,16 @@ function applyPlaneFactor(out: Field, z: number): void {
       f[2 * c] = s * (sn + q * cs);
       f[2 * c + 1] = s * (q * sn - cs);
     }
-    multiplyRow(data, r * nx, f, nx);
-    if (rm > r && rm < ny) multiplyRow(data, rm * nx, f, nx);
+    multiplyComplex(data, r * nx, f, nx);
+    const later = rowSum === null ? -1 : rowSum - r;
+    if (later > r && later < ny) multiplyComplex(data, later * nx, f, nx);
   }
 }
 
-/** Multiplies the n complex samples of data from sample `at` by f's, one by one. */
-function multiplyRow(data: Float64Array, at: number, f: Float64Array, n: number): void {
-  for (let c = 0; c < n; c++) {
-    const i = 2 * (at + c);
-    const re = data[i]!;
-    const im = data[i + 1]!;
-    const fr = f[2 * c]!;
-    const fi = f[2 * c + 1]!;
-    data[i] = re * fr - im * fi;
-    data[i + 1] = re * fi + im * fr;
-  }
+/** The mirror of sample i when it comes before i (index sum `sum`, mirrorIndexSum), else −1. */
+function earlierMirror(sum: number | null, i: number): number {
+  const m = sum === null ? -1 : sum - i;
+  return m >= 0 && m < i ? m : -1;
 }
 
 /**

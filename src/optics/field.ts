@@ -89,6 +89,19 @@ export function powerOf(f: Field): number {
   return s * cellMeasure(f);
 }
 
+/** Multiplies the n complex samples of data from sample `at` on by f's, one by one: data[at + j] ·= f[j]. */
+export function multiplyComplex(data: Float64Array, at: number, f: Float64Array, n: number): void {
+  for (let j = 0; j < n; j++) {
+    const i = 2 * (at + j);
+    const re = data[i]!;
+    const im = data[i + 1]!;
+    const fr = f[2 * j]!;
+    const fi = f[2 * j + 1]!;
+    data[i] = re * fr - im * fi;
+    data[i + 1] = re * fi + im * fr;
+  }
+}
+
 /** Multiplies every sample by exp(iφ)·scale. */
 export function scaleField(f: Field, scale: number, phase = 0): void {
   const c = scale * Math.cos(phase);

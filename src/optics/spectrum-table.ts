@@ -32,7 +32,7 @@
 // The FFTs are the engine's row pass (engine.fftRows: fft-fast.ts transformRows, in this thread), run on
 // blocks of rows; rows of the source that are all zero are skipped, and columns of the transform
 // that no table entry needs are never transformed.
-import { axisAt, createField, isOneD, type Axis, type Field } from './field.js';
+import { axisAt, createField, isOneD, multiplyComplex, type Axis, type Field } from './field.js';
 import { nextFastFftSize } from './fft.js';
 import type { Engine } from './engine.js';
 import { cellResponse } from './spectral.js';
@@ -313,34 +313,10 @@ function axisKit(engine: Engine, a: AxisTransform): AxisKit {
 function transformBlock(engine: Engine, kit: AxisKit, block: Float64Array, rows: number): void {
   const { a, pre, kernel } = kit;
   const L = a.size;
-  if (pre) {
-    for (let b = 0; b < rows; b++) {
-      const o = 2 * b * L;
-      for (let m = 0; m < a.n; m++) {
-        const i = o + 2 * m;
-        const re = block[i]!;
-        const im = block[i + 1]!;
-        const pr = pre[2 * m]!;
-        const pi = pre[2 * m + 1]!;
-        block[i] = re * pr - im * pi;
-        block[i + 1] = re * pi + im * pr;
-      }
-    }
-  }
+  if (pre) for (let b = 0; b < rows; b++) multiplyComplex(block, b * L, pre, a.n);
   engine.fftRows(block, block, L, rows, 0, rows, false);
   if (!kernel) return;
-  for (let b = 0; b < rows; b++) {
-    const o = 2 * b * L;
-    for (let j = 0; j < L; j++) {
-      const i = o + 2 * j;
-      const re = block[i]!;
-      const im = block[i + 1]!;
-      const kr = kernel[2 * j]!;
-      const ki = kernel[2 * j + 1]!;
-      block[i] = re * kr - im * ki;
-      block[i + 1] = re * ki + im * kr;
-    }
-  }
+  for (let b = 0; b < rows; b++) multiplyComplex(block, b * L, kernel, L);
   engine.fftRows(block, block, L, rows, 0, rows, true);
 }
 
